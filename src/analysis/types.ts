@@ -1,0 +1,64 @@
+import type { Unit } from '../units/unit.js';
+
+/** A closed interval in the check's unit. */
+export interface Band {
+  readonly min: number;
+  readonly max: number;
+}
+
+/** Where a check sits in a safe bring-up. */
+export type Phase = 'unpowered' | 'first-power' | 'rails' | 'stage';
+
+/** One part's share of a band (normalised so that shares sum to 1). */
+export interface Contributor {
+  /** `<stage>.<role>` or `rails.<id>`. */
+  readonly part: string;
+  readonly share: number;
+}
+
+/** What a check should read, and how far it may honestly stray. */
+export interface Target {
+  /** Check id per DESIGN §4: `<stage>.<output>.<quantity>` or `<stage>.<quantity>`. */
+  readonly check: string;
+  /** Stage id, or `rails`. */
+  readonly stage: string;
+  readonly quantity: string;
+  readonly unit: Unit;
+  readonly nominal: number;
+  readonly worst: Band;
+  readonly stat: Band;
+  readonly testPoint: string | null;
+  readonly contributors: readonly Contributor[];
+  readonly instrument: 'meter' | 'scope' | 'counter';
+  /** How to measure it, one short line. */
+  readonly how: string;
+  readonly phase: Phase;
+}
+
+export interface DesignWarning {
+  readonly stage: string;
+  readonly message: string;
+}
+
+/** The result of `computeTargets`. */
+export interface TargetSet {
+  readonly plan: string;
+  readonly targets: readonly Target[];
+  readonly warnings: readonly DesignWarning[];
+}
+
+/** DESIGN §4 verdict names (contract). */
+export type Verdict = 'pass' | 'marginal' | 'fail';
+
+/** A verdict with the figures behind it. */
+export interface VerdictResult {
+  readonly verdict: Verdict;
+  /** Expanded uncertainty U of the reading, in its unit. */
+  readonly uncertainty: number;
+  /** (reading − nominal) / |nominal|; NaN when the nominal is 0. */
+  readonly deviation: number;
+  /** Position in the worst-case band: 0 at min, 1 at max, outside [0, 1] when outside. */
+  readonly position: number;
+  /** Suspect-but-usable notes (e.g. the band is narrower than the instrument can resolve). */
+  readonly warnings: readonly string[];
+}

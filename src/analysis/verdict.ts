@@ -1,0 +1,27 @@
+import type { UncertaintySpec } from '../units/uncertainty.js';
+import { uncertaintyOf } from '../units/uncertainty.js';
+import type { Target, VerdictResult } from './types.js';
+
+/**
+ * The verdict on a reading. Simple acceptance with a guard band, after
+ * ILAC-G8:09/2019: `pass` when reading ± U lies inside the worst-case band,
+ * `fail` when it lies wholly outside, `marginal` when it straddles an edge.
+ */
+export function verdictFor(target: Pick<Target, 'nominal' | 'worst'>, reading: number, spec: UncertaintySpec | undefined): VerdictResult {
+  const u = spec ? uncertaintyOf(reading, spec) : 0;
+  const { min, max } = target.worst;
+  const warnings: string[] = [];
+  let verdict: VerdictResult['verdict'];
+  if (reading - u >= min && reading + u <= max) verdict = 'pass';
+  else if (reading + u < min || reading - u > max) verdict = 'fail';
+  else verdict = 'marginal';
+  if (2 * u >= max - min) warnings.push('the instrument uncertainty is as wide as the band: this reading cannot pass; use a better instrument or range');
+  const width = max - min;
+  return {
+    verdict,
+    uncertainty: u,
+    deviation: target.nominal === 0 ? Number.NaN : (reading - target.nominal) / Math.abs(target.nominal),
+    position: width > 0 ? (reading - min) / width : reading === min ? 0.5 : reading < min ? -Infinity : Infinity,
+    warnings,
+  };
+}

@@ -1,0 +1,18 @@
+import type { StageKind } from './types.js';
+
+// PLACEHOLDER until the stage kind is written: it refuses to evaluate.
+export const noninvertingAmpKind: StageKind<unknown> = {
+  kind: 'noninverting-amp',
+  summary: 'not built yet',
+  roles: [],
+  outputs: ['out'],
+  needsInput: false,
+  parse() {
+    throw new Error('stage kind noninverting-amp is not built yet');
+  },
+  checks: () => [],
+  evaluate() {
+    throw new Error('stage kind noninverting-amp is not built yet');
+  },
+  faultHints: {},
+};

@@ -1,0 +1,50 @@
+import type { Command, CommandIo } from './command.js';
+import { UsageError } from './errors.js';
+import { PlanError } from '../plan/errors.js';
+
+const usage = `usage:
+  probebook                          the bench screen (TUI) on the configured log
+  probebook targets PLAN [--json] [--trials N] [--seed S]
+  probebook analyze CAPTURE [--json] [--expect sine|square|triangle]
+  probebook record --plan PLAN --board SERIAL --check ID --value TEXT [--operator NAME] [--json]
+  probebook history SERIAL [--json]
+  probebook batch [--plan ID] [--check ID] [--json]
+  probebook report SERIAL --format md|csv
+all accept --log DIR (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook)`;
+
+// Commands load lazily so that `targets` never pays for React and Ink.
+const commands: Readonly<Record<string, () => Promise<Command>>> = {
+  targets: async () => (await import('./targets.js')).targetsCommand,
+  analyze: async () => (await import('./analyze.js')).analyzeCommand,
+  record: async () => (await import('./record.js')).recordCommand,
+  history: async () => (await import('./history.js')).historyCommand,
+  batch: async () => (await import('./batch.js')).batchCommand,
+  report: async () => (await import('./report.js')).reportCommand,
+};
+
+/** Run probebook with `argv` (without node and script); returns the exit status. */
+export async function main(argv: readonly string[], io: CommandIo): Promise<number> {
+  try {
+    const [first, ...rest] = argv;
+    if (first === '--help' || first === '-h' || first === 'help') {
+      io.stdout(`${usage}\n`);
+      return 0;
+    }
+    if (first === undefined || first.startsWith('--')) {
+      const { tuiCommand } = await import('../ui/main.js');
+      return await tuiCommand(argv, io);
+    }
+    const load = commands[first];
+    if (!load) throw new UsageError(`unknown command ${JSON.stringify(first)}; try probebook --help`);
+    return await (await load())(rest, io);
+  } catch (error) {
+    if (error instanceof UsageError || error instanceof PlanError) {
+      io.stderr(`probebook: ${error.message}\n`);
+      return 2;
+    }
+    const message = error instanceof Error ? error.message : String(error);
+    io.stderr(`probebook: ${message.split('\n')[0]}\n`);
+    if (io.env.PROBEBOOK_DEBUG) io.stderr(`${error instanceof Error ? error.stack : ''}\n`);
+    return 1;
+  }
+}
