@@ -25,3 +25,12 @@ export function verdictFor(target: Pick<Target, 'nominal' | 'worst'>, reading: n
     warnings,
   };
 }
+
+/** The uncertainty spec that applies to a check: its own override, else the plan's for its unit. */
+export function uncertaintyFor(
+  plan: { readonly uncertainty: Readonly<Partial<Record<string, UncertaintySpec>>>; readonly checkUncertainty: Readonly<Record<string, UncertaintySpec>> },
+  check: string,
+  unit: string,
+): UncertaintySpec | undefined {
+  return plan.checkUncertainty[check] ?? plan.uncertainty[unit];
+}

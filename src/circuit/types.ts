@@ -63,6 +63,8 @@ export interface EvalInput<Settings> {
   readonly settings: Settings;
   readonly opamp: OpampModel;
   readonly supplies: Supplies;
+  /** Every rail of the board by id, volts (sampled), for stages tied to a rail (a divider). */
+  readonly rails: Readonly<Record<string, number>>;
   readonly input?: Waveform;
 }
 

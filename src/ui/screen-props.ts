@@ -1,0 +1,35 @@
+import type { TargetSet } from '../analysis/types.js';
+import type { BenchLog } from '../log/types.js';
+import type { Plan } from '../plan/types.js';
+
+/** Props every full screen gets from `app.tsx`. */
+export interface ScreenProps {
+  readonly log: BenchLog;
+  /** Terminal size, updated on resize. */
+  readonly width: number;
+  readonly height: number;
+  /** Whether this screen has the keyboard (false while a modal or help is open). @default true */
+  readonly isActive?: boolean;
+  /** Go back to the screen before (Esc). */
+  readonly onExit: () => void;
+}
+
+export interface BringUpProps extends ScreenProps {
+  readonly plan: Plan;
+  readonly targets: TargetSet;
+  readonly serial: string;
+  readonly operator: string;
+  /** Resume this run instead of starting a new one. */
+  readonly resumeRun?: string;
+  /** Tell the app a half-typed value exists, so `q` asks before quitting. */
+  readonly onDirtyChange?: (isDirty: boolean) => void;
+}
+
+export interface HistoryProps extends ScreenProps {
+  readonly serial: string;
+}
+
+export interface BatchProps extends ScreenProps {
+  /** Open a board's history (from an outlier). */
+  readonly onOpenBoard: (serial: string) => void;
+}
