@@ -3,6 +3,20 @@
 import { build } from 'esbuild';
 import { chmodSync } from 'node:fs';
 
+// Ink imports react-devtools-core only when DEV=true, but a bundle hoists an
+// external import to the top and then fails to start without the package. Bundle
+// a stub that throws instead: Ink catches it and explains what to install.
+const noDevtools = {
+  name: 'no-devtools',
+  setup(b) {
+    b.onResolve({ filter: /^react-devtools-core$/ }, () => ({ path: 'react-devtools-core', namespace: 'probebook-stub' }));
+    b.onLoad({ filter: /.*/, namespace: 'probebook-stub' }, () => ({
+      contents: "throw new Error('react-devtools-core is not bundled');",
+      loader: 'js',
+    }));
+  },
+};
+
 await build({
   entryPoints: ['src/cli/bin.ts'],
   outfile: 'dist/probebook.js',
@@ -13,8 +27,7 @@ await build({
   minify: true,
   sourcemap: 'linked',
   legalComments: 'linked',
-  // Ink loads the React devtools only when DEV is set; never bundled.
-  external: ['react-devtools-core'],
+  plugins: [noDevtools],
   define: { 'process.env.NODE_ENV': '"production"' },
   banner: {
     js: "#!/usr/bin/env node\nimport { createRequire as __probebookRequire } from 'node:module';\nconst require = __probebookRequire(import.meta.url);",
