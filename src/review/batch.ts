@@ -1,0 +1,185 @@
+import type { Band } from '../analysis/types.js';
+import type { LogIndex } from '../log/types.js';
+import type { SnapshotBands, SnapshotProblem } from './bands.js';
+import type { BatchCheck, BatchFigures, BatchPoint, Outlier, OutlierReason } from './batch-types.js';
+import { capabilityOf } from './capability.js';
+import { boardMatches, checkMatches, type BatchFilter } from './filter.js';
+import { spreadOf } from './stats.js';
+
+interface Group {
+  readonly plan: string | null;
+  readonly check: string;
+  readonly points: BatchPoint[];
+}
+
+/**
+ * Batch figures from the index alone: per board per check the index holds the
+ * first and latest reading, which is all yield, spread and capability need, so
+ * no board file is opened however large the log.
+ */
+export function batchFigures(
+  index: LogIndex,
+  bands: ReadonlyMap<string, SnapshotBands>,
+  filter: BatchFilter = {},
+  problems: readonly SnapshotProblem[] = [],
+): BatchFigures {
+  const groups = new Map<string, Group>();
+  let boards = 0;
+  let firstPassBoards = 0;
+  let finalPassBoards = 0;
+  let incomplete = 0;
+  for (const board of Object.values(index.boards)) {
+    if (!boardMatches(board, filter)) continue;
+    let any = false;
+    let firstOk = true;
+    let finalOk = true;
+    for (const [check, summary] of Object.entries(board.checks)) {
+      if (!checkMatches(check, summary, filter)) continue;
+      any = true;
+      if (summary.first.verdict !== 'pass') firstOk = false;
+      if (summary.latest.verdict !== 'pass') finalOk = false;
+      const key = `${board.plan ?? ''}\u0000${check}`;
+      let group = groups.get(key);
+      if (!group) groups.set(key, (group = { plan: board.plan, check, points: [] }));
+      group.points.push({
+        serial: board.serial,
+        value: summary.latest.value,
+        at: summary.latest.at,
+        time: Date.parse(summary.latest.at),
+        verdict: summary.latest.verdict,
+        firstVerdict: summary.first.verdict,
+        revision: board.planHash,
+      });
+    }
+    if (!any) continue;
+    boards++;
+    if (firstOk) firstPassBoards++;
+    if (finalOk) finalPassBoards++;
+    const own = board.planHash ? bands.get(board.planHash) : undefined;
+    if (own && filter.check === undefined && own.order.some((c) => !(c in board.checks))) incomplete++;
+  }
+  const checks = [...groups.values()].map((g) => checkFigures(g, bands));
+  checks.sort(planOrder(bands));
+  return {
+    boards,
+    firstPassBoards,
+    finalPassBoards,
+    firstPassYield: boards > 0 ? firstPassBoards / boards : null,
+    finalYield: boards > 0 ? finalPassBoards / boards : null,
+    incomplete,
+    checks,
+    problems,
+  };
+}
+
+function checkFigures(group: Group, bands: ReadonlyMap<string, SnapshotBands>): BatchCheck {
+  const points = group.points.sort((a, b) => a.time - b.time || (a.serial < b.serial ? -1 : 1));
+  const values = points.map((p) => p.value);
+  const spread = spreadOf(values);
+  // The band of the newest revision measured is the one the batch is judged by now.
+  let bandRevision: string | null = null;
+  for (let i = points.length - 1; i >= 0 && bandRevision === null; i--) {
+    const rev = points[i]?.revision;
+    if (rev && bands.get(rev)?.bands.has(group.check)) bandRevision = rev;
+  }
+  const target = bandRevision ? bands.get(bandRevision)?.bands.get(group.check) : undefined;
+  const band: Band | null = target ? target.worst : null;
+  let pass = 0;
+  let marginal = 0;
+  let fail = 0;
+  let firstPass = 0;
+  let bandsDiffer = false;
+  for (const p of points) {
+    if (p.verdict === 'pass') pass++;
+    else if (p.verdict === 'marginal') marginal++;
+    else fail++;
+    if (p.firstVerdict === 'pass') firstPass++;
+    const own = p.revision ? bands.get(p.revision)?.bands.get(group.check)?.worst : undefined;
+    if (own && band && (own.min !== band.min || own.max !== band.max)) bandsDiffer = true;
+  }
+  const capability = capabilityOf(spread, band);
+  const n = points.length;
+  return {
+    check: group.check,
+    n,
+    pass,
+    marginal,
+    fail,
+    mean: spread.mean,
+    sd: spread.sd,
+    min: spread.min,
+    max: spread.max,
+    cp: capability.cp,
+    cpk: capability.cpk,
+    plan: group.plan,
+    unit: target?.unit ?? null,
+    nominal: target?.nominal ?? null,
+    band,
+    bandRevision,
+    bandsDiffer,
+    firstPassYield: n > 0 ? firstPass / n : null,
+    finalYield: n > 0 ? pass / n : null,
+    status: capability.status,
+    note: capability.note,
+    outliers: outliersOf(group.check, points, spread.mean, spread.sd, band, bands),
+    points,
+  };
+}
+
+/** Boards outside the band they were judged by, or more than 3σ from the batch mean. */
+function outliersOf(
+  check: string,
+  points: readonly BatchPoint[],
+  mean: number | null,
+  sd: number | null,
+  band: Band | null,
+  bands: ReadonlyMap<string, SnapshotBands>,
+): Outlier[] {
+  const out: Outlier[] = [];
+  const hasSpread = mean !== null && sd !== null && sd > 0;
+  for (const p of points) {
+    const reasons: OutlierReason[] = [];
+    const own = (p.revision ? bands.get(p.revision)?.bands.get(check)?.worst : undefined) ?? band;
+    if (own && (p.value < own.min || p.value > own.max)) reasons.push('outside band');
+    const z = hasSpread ? (p.value - mean) / sd : null;
+    // Beyond 3σ: the usual control-chart limit (common practice, no source).
+    if (z !== null && Math.abs(z) > 3) reasons.push('beyond 3σ');
+    if (reasons.length > 0) out.push({ serial: p.serial, check, value: p.value, at: p.at, reasons, z });
+  }
+  return out.sort((a, b) => Math.abs(b.z ?? Infinity) - Math.abs(a.z ?? Infinity) || (a.serial < b.serial ? -1 : 1));
+}
+
+/** Plans by name, then checks in the order of the plan's targets, unknown ones last by name. */
+function planOrder(bands: ReadonlyMap<string, SnapshotBands>): (a: BatchCheck, b: BatchCheck) => number {
+  const rank = new Map<string, number>();
+  for (const snapshot of bands.values()) {
+    snapshot.order.forEach((check, i) => {
+      const key = `${snapshot.plan}\u0000${check}`;
+      if (!rank.has(key)) rank.set(key, i);
+    });
+  }
+  return (a, b) => {
+    const pa = a.plan ?? '';
+    const pb = b.plan ?? '';
+    if (pa !== pb) return pa < pb ? -1 : 1;
+    const ra = rank.get(`${pa}\u0000${a.check}`) ?? Infinity;
+    const rb = rank.get(`${pb}\u0000${b.check}`) ?? Infinity;
+    if (ra !== rb) return ra - rb;
+    return a.check < b.check ? -1 : a.check > b.check ? 1 : 0;
+  };
+}
+
+/**
+ * Weakest check first, for tables: lowest final yield, then lowest Cpk (checks
+ * without a Cpk after those with one), then most fails.
+ */
+export function weakestFirst(a: BatchCheck, b: BatchCheck): number {
+  const ya = a.finalYield ?? Infinity;
+  const yb = b.finalYield ?? Infinity;
+  if (ya !== yb) return ya - yb;
+  const ca = a.cpk ?? Infinity;
+  const cb = b.cpk ?? Infinity;
+  if (ca !== cb) return ca - cb;
+  if (a.fail !== b.fail) return b.fail - a.fail;
+  return a.check < b.check ? -1 : a.check > b.check ? 1 : 0;
+}
