@@ -98,6 +98,14 @@ export interface BoardSummary {
 export interface LogIndex {
   readonly schemaVersion: number;
   readonly boards: Readonly<Record<string, BoardSummary>>;
+  /** Board files that could not be read (damaged, newer schema), each with its one-line message and remedy. */
+  readonly damaged?: readonly DamagedBoard[];
+}
+
+/** A board file the index could not read; its summary (if listed) is from its last good version. */
+export interface DamagedBoard {
+  readonly serial: string;
+  readonly message: string;
 }
 
 /** What a caller gives to save a reading; the store adds id, time and plan hash checks. */

@@ -1,0 +1,224 @@
+import { mkdirSync, statSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { Low } from 'lowdb';
+import { BoardFileAdapter } from './board-file-adapter.js';
+import { captureExtension, ContentStore, sha256Hex } from './content-store.js';
+import { errorCode, LogInputError } from './errors.js';
+import { withFileLock } from './file-lock.js';
+import { newId } from './ids.js';
+import { fileStamp, IndexStore, type IndexProgress, journalLimitBytes } from './index-store.js';
+import { validateSerial } from './serial.js';
+import { type BenchLog, type BoardFile, boardSchemaVersion, type CaptureRef, type LogIndex, type Reading, type ReadingInput, type Rework, type Run, type RunOutcome } from './types.js';
+import { checkReadingInput, checkRunStart, type RunStart } from './validate-input.js';
+
+/** What `appendToOpenRun` did: the run used (started when none was open) and the saved reading. */
+export interface AppendResult {
+  readonly run: Run;
+  readonly reading: Reading;
+  readonly board: BoardFile;
+  readonly startedRun: boolean;
+}
+
+/** The bench log with the extras the commands use on top of the shared interface. */
+export interface LogStore extends BenchLog {
+  /** The index; `onProgress` hears about boards read again while it is rebuilt. */
+  readIndex(onProgress?: IndexProgress): Promise<LogIndex>;
+  /**
+   * Save a reading into the board's open run, starting one first when none is
+   * open, in one locked step (two terminals cannot both start a run).
+   */
+  appendToOpenRun(serial: string, run: RunStart, reading: Omit<ReadingInput, 'run'>): Promise<AppendResult>;
+  /** The path of a board's file (for messages). */
+  boardPath(serial: string): string;
+}
+
+export function emptyBoard(serial: string): BoardFile {
+  return { schemaVersion: boardSchemaVersion, serial, plan: null, runs: [], readings: [], rework: [], captures: [] };
+}
+
+function checkSerial(serial: string): void {
+  const problem = validateSerial(serial);
+  if (problem) throw new LogInputError(problem);
+}
+
+function ensureFolder(path: string): void {
+  try {
+    mkdirSync(path, { recursive: true });
+  } catch (error) {
+    const code = errorCode(error);
+    if (code === 'EEXIST' || code === 'ENOTDIR') throw new Error(`log folder ${path} cannot be made: a file of that name is in the way; pass another --log DIR`);
+    throw error;
+  }
+  if (!statSync(path).isDirectory()) throw new Error(`log folder ${path} is a file, not a folder; pass another --log DIR`);
+}
+
+function readingFrom(input: ReadingInput, board: BoardFile, run: Run | undefined): Reading {
+  const warnings = [...(input.warnings ?? [])];
+  if (run?.ended) warnings.push(`recorded after its run ${run.id} ended (${run.ended})`);
+  if (run && run.planHash !== input.planHash) warnings.push(`the plan changed since run ${run.id} started (run ${run.planHash.slice(0, 8)}, reading ${input.planHash.slice(0, 8)})`);
+  void board;
+  return {
+    id: newId('r'),
+    run: input.run,
+    check: input.check,
+    value: input.value,
+    unit: input.unit,
+    raw: input.raw,
+    at: new Date().toISOString(),
+    operator: input.operator,
+    verdict: input.verdict,
+    planHash: input.planHash,
+    ...(input.capture === undefined ? {} : { capture: input.capture }),
+    ...(warnings.length === 0 ? {} : { warnings }),
+  };
+}
+
+function newRun(board: BoardFile, start: RunStart, now: string): { board: BoardFile; run: Run } {
+  // One open run per board: starting another ends the open one as aborted.
+  const runs = board.runs.map((r) => (r.ended === null ? { ...r, ended: now, outcome: 'aborted' as const } : r));
+  const run: Run = { id: newId('u'), started: now, ended: null, operator: start.operator, outcome: 'in-progress', plan: start.plan, planHash: start.planHash };
+  return { board: { ...board, plan: start.plan, runs: [...runs, run] }, run };
+}
+
+class Store implements LogStore {
+  readonly #boards: string;
+  readonly #plans: ContentStore;
+  readonly #captures: ContentStore;
+  readonly #index: IndexStore;
+
+  constructor(readonly dir: string) {
+    this.#boards = join(dir, 'boards');
+    this.#plans = new ContentStore(join(dir, 'plans'));
+    this.#captures = new ContentStore(join(dir, 'captures'));
+    this.#index = new IndexStore(dir, this.#boards, (serial) => this.readBoard(serial));
+  }
+
+  boardPath(serial: string): string {
+    return join(this.#boards, `${serial}.json`);
+  }
+
+  readIndex(onProgress?: IndexProgress): Promise<LogIndex> {
+    return this.#index.read(onProgress);
+  }
+
+  async readBoard(serial: string): Promise<BoardFile | null> {
+    checkSerial(serial);
+    return new BoardFileAdapter(this.boardPath(serial), serial).read();
+  }
+
+  /** Read, change and durably write one board under its lock; then note it in the index journal. */
+  async #update<T>(serial: string, change: (board: BoardFile) => { board: BoardFile; result: T }): Promise<T> {
+    checkSerial(serial);
+    const path = this.boardPath(serial);
+    const { result, journalBytes } = await withFileLock(path, async () => {
+      const db = new Low<BoardFile>(new BoardFileAdapter(path, serial), emptyBoard(serial));
+      await db.read();
+      const next = change(db.data);
+      db.data = next.board;
+      await db.write();
+      const stamp = fileStamp(path);
+      if (stamp === null) throw new Error(`board file ${path} vanished right after it was written`);
+      return { result: next.result, journalBytes: this.#index.noteBoard(next.board, stamp).journalBytes };
+    });
+    if (journalBytes > journalLimitBytes) await this.#index.read();
+    return result;
+  }
+
+  #savePlan(start: RunStart): void {
+    checkRunStart(start);
+    if (sha256Hex(start.planText) !== start.planHash) throw new LogInputError(`plan ${start.plan}: planHash is not the sha256 of planText`);
+    this.#plans.put(start.planText, 'json', start.planHash);
+  }
+
+  #checkPlanKept(hash: string): void {
+    if (!this.#plans.has(hash, 'json')) throw new LogInputError(`plan ${hash.slice(0, 12)}… is not in the log; start a run with that plan first`);
+  }
+
+  async startRun(serial: string, start: RunStart): Promise<Run> {
+    this.#savePlan(start);
+    return this.#update(serial, (board) => {
+      const made = newRun(board, start, new Date().toISOString());
+      return { board: made.board, result: made.run };
+    });
+  }
+
+  async endRun(serial: string, runId: string, outcome: RunOutcome): Promise<Run> {
+    if (outcome === 'in-progress') throw new LogInputError('a run cannot end as in-progress; use passed, failed, aborted or power-off');
+    return this.#update(serial, (board) => {
+      const run = board.runs.find((r) => r.id === runId);
+      if (!run) throw new LogInputError(`board ${serial} has no run ${runId}`);
+      if (run.ended !== null) {
+        if (run.outcome === outcome) return { board, result: run };
+        throw new LogInputError(`run ${runId} of board ${serial} already ended ${run.outcome} at ${run.ended}`);
+      }
+      const ended: Run = { ...run, ended: new Date().toISOString(), outcome };
+      return { board: { ...board, runs: board.runs.map((r) => (r.id === runId ? ended : r)) }, result: ended };
+    });
+  }
+
+  async appendReading(serial: string, input: ReadingInput): Promise<Reading> {
+    checkReadingInput(input);
+    this.#checkPlanKept(input.planHash);
+    return this.#update(serial, (board) => {
+      const run = board.runs.find((r) => r.id === input.run);
+      if (!run) throw new LogInputError(`board ${serial} has no run ${input.run}; start a run first`);
+      const reading = readingFrom(input, board, run);
+      return { board: { ...board, readings: [...board.readings, reading] }, result: reading };
+    });
+  }
+
+  async appendToOpenRun(serial: string, start: RunStart, input: Omit<ReadingInput, 'run'>): Promise<AppendResult> {
+    this.#savePlan(start);
+    checkReadingInput({ ...input, run: 'pending' });
+    return this.#update(serial, (current) => {
+      let board = current;
+      let run = [...board.runs].reverse().find((r) => r.ended === null);
+      const startedRun = run === undefined;
+      if (!run) ({ board, run } = newRun(board, start, new Date().toISOString()));
+      const reading = readingFrom({ ...input, run: run.id }, board, run);
+      board = { ...board, readings: [...board.readings, reading] };
+      return { board, result: { run, reading, board, startedRun } };
+    });
+  }
+
+  async addRework(serial: string, note: Omit<Rework, 'id' | 'at'>): Promise<Rework> {
+    for (const key of ['part', 'from', 'to', 'note', 'operator'] as const) {
+      if (typeof note[key] !== 'string') throw new LogInputError(`a rework note needs ${key} as text`);
+    }
+    if (note.part.trim() === '') throw new LogInputError('a rework note needs the part, e.g. "osc.Ct"');
+    return this.#update(serial, (board) => {
+      if (note.run !== null && !board.runs.some((r) => r.id === note.run)) throw new LogInputError(`board ${serial} has no run ${note.run}`);
+      const saved: Rework = { id: newId('w'), at: new Date().toISOString(), ...note };
+      return { board: { ...board, rework: [...board.rework, saved] }, result: saved };
+    });
+  }
+
+  async readPlanSnapshot(hash: string): Promise<string | null> {
+    return this.#plans.getText(hash, 'json');
+  }
+
+  async saveCapture(bytes: Uint8Array, name: string): Promise<{ file: string }> {
+    return { file: this.#captures.put(bytes, captureExtension(name)) };
+  }
+
+  async linkCapture(serial: string, ref: CaptureRef): Promise<void> {
+    const [hash, ext] = ref.file.split('.');
+    if (!hash || !ext || !this.#captures.has(hash, ext)) throw new LogInputError(`capture ${ref.file} is not in the log; save it first`);
+    await this.#update(serial, (board) => {
+      const same = board.captures.some((c) => c.file === ref.file && c.check === ref.check && c.run === ref.run);
+      return { board: same ? board : { ...board, captures: [...board.captures, ref] }, result: undefined };
+    });
+  }
+}
+
+/**
+ * Open (creating when needed) the bench log in `dir` (DESIGN §6):
+ * `boards/<serial>.json`, `plans/<sha256>.json`, `captures/<sha256>.<ext>` and
+ * the rebuildable `index.json`. Every write is durable when its promise resolves.
+ */
+export async function openLog(dir: string): Promise<LogStore> {
+  const root = resolve(dir);
+  ensureFolder(root);
+  for (const sub of ['boards', 'plans', 'captures']) ensureFolder(join(root, sub));
+  return new Store(root);
+}
