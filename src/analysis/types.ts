@@ -33,6 +33,10 @@ export interface Target {
   /** How to measure it, one short line. */
   readonly how: string;
   readonly phase: Phase;
+  /** Stage ids upstream of this check's stage, nearest first (empty for rails and chain heads). */
+  readonly upstream?: readonly string[];
+  /** The upstream output this check's stage takes (`"osc.triangle"`), when it has an input. */
+  readonly input?: string;
 }
 
 export interface DesignWarning {

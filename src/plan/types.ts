@@ -11,6 +11,8 @@ export interface Rail {
   /** Fraction. */
   readonly tol: number;
   readonly text: string;
+  /** Where the rail is probed (`"TP1"`), when the plan names it. */
+  readonly testPoint?: string;
 }
 
 /** `"<stage>.<output>"` resolved. */

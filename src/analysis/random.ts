@@ -1,0 +1,90 @@
+/**
+ * A small seeded generator, so the same seed gives the same bands on every
+ * machine and Node version (Math.random cannot be seeded).
+ *
+ * xoshiro128** (Blackman and Vigna, 2018; 32-bit state words, period 2^128 − 1),
+ * its four state words filled from the seed by splitmix32, the seeding the same
+ * authors recommend. Both written from memory of the published reference code;
+ * the tests check the statistics (mean, spread, repeatability), not bit patterns.
+ */
+export interface Random {
+  /** Uniform in [0, 1). */
+  next(): number;
+  /** Standard normal. */
+  normal(): number;
+}
+
+function splitmix32(seed: number): () => number {
+  let s = seed >>> 0;
+  return () => {
+    s = (s + 0x9e3779b9) >>> 0;
+    let z = s;
+    z = Math.imul(z ^ (z >>> 16), 0x85ebca6b);
+    z = Math.imul(z ^ (z >>> 13), 0xc2b2ae35);
+    return (z ^ (z >>> 16)) >>> 0;
+  };
+}
+
+export function createRandom(seed: number): Random {
+  const init = splitmix32(seed);
+  let a = init();
+  let b = init();
+  let c = init();
+  let d = init();
+  if ((a | b | c | d) === 0) a = 1;
+  const nextU32 = (): number => {
+    const result = Math.imul(rotl(Math.imul(b, 5), 7), 9) >>> 0;
+    const t = b << 9;
+    c ^= a;
+    d ^= b;
+    b ^= c;
+    a ^= d;
+    c ^= t;
+    d = rotl(d, 11);
+    return result;
+  };
+  const next = (): number => nextU32() / 4294967296;
+  let spare = Number.NaN;
+  return {
+    next,
+    // Marsaglia's polar method: two normals per accepted pair, the second kept.
+    normal() {
+      if (!Number.isNaN(spare)) {
+        const z = spare;
+        spare = Number.NaN;
+        return z;
+      }
+      for (;;) {
+        const u = 2 * next() - 1;
+        const v = 2 * next() - 1;
+        const s = u * u + v * v;
+        if (s > 0 && s < 1) {
+          const m = Math.sqrt((-2 * Math.log(s)) / s);
+          spare = v * m;
+          return u * m;
+        }
+      }
+    },
+  };
+}
+
+function rotl(x: number, k: number): number {
+  return ((x << k) | (x >>> (32 - k))) >>> 0;
+}
+
+/** How a part's value spreads within its tolerance. */
+export type Distribution = 'normal' | 'uniform';
+
+/**
+ * One part's deviation as a fraction of its tolerance, in [−1, 1]. `normal`:
+ * tolerance = 3σ, truncated at the limits by redrawing (a part outside its
+ * tolerance is a defect, not spread — common practice, no source); `uniform`:
+ * flat across the tolerance.
+ */
+export function drawDeviation(random: Random, distribution: Distribution): number {
+  if (distribution === 'uniform') return 2 * random.next() - 1;
+  for (;;) {
+    const z = random.normal();
+    if (z >= -3 && z <= 3) return z / 3;
+  }
+}

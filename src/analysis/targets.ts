@@ -1,0 +1,117 @@
+import { buildChain } from '../plan/chain.js';
+import { upstreamOf } from '../plan/stages.js';
+import type { Plan } from '../plan/types.js';
+import type { Distribution } from './random.js';
+import { quantileSorted, sampleChain, sortedFinite } from './sampling.js';
+import { contributorsOf, sensitivities } from './sensitivity.js';
+import type { DesignWarning, Target, TargetSet } from './types.js';
+import { designWarnings } from './warnings.js';
+import { worstCase } from './worst-case.js';
+import { formatValue } from '../units/format.js';
+
+export interface TargetOptions {
+  /** Monte Carlo trials. @default 10000 */
+  readonly trials?: number;
+  /** PRNG seed; the same seed gives the same numbers. @default 1 */
+  readonly seed?: number;
+  /** How parts spread within their tolerance. @default 'normal' */
+  readonly distribution?: Distribution;
+  /** Progress of the Monte Carlo, for long runs. */
+  readonly onProgress?: (done: number, total: number) => void;
+}
+
+export const defaultTrials = 10_000;
+export const defaultSeed = 1;
+
+/** The coverage interval of the statistical band: 0.135 % … 99.865 %, the ±3σ probabilities of a normal. */
+export const statCoverage = { low: 0.00135, high: 0.99865 } as const;
+
+/**
+ * Targets for every check of a plan, in safe bring-up order (DESIGN §4, §5).
+ *
+ * - Unpowered `rails.<id>.to-ground` (Ω): min = plan.railShortMin, max = +∞.
+ *   Their nominal is that threshold (the plan gives no expected resistance).
+ * - `rails.idle-current` (A): 0 … idleCurrent.max (+∞ when the plan sets none);
+ *   its nominal is the middle of that band (the plan gives only a limit).
+ * - `rails.<id>.dc` and every stage check: nominal from the chain at nominal
+ *   values; worst-case band from the tolerance box (see `worstCase`) widened by
+ *   the Monte Carlo extremes; statistical band the 0.135–99.865 % interval of a
+ *   seeded Monte Carlo over all variables at once.
+ *
+ * Unbounded band sides are ±Infinity here; `targetsJson` writes them as null.
+ */
+export function computeTargets(plan: Plan, options: TargetOptions = {}): TargetSet {
+  const trials = options.trials ?? defaultTrials;
+  const seed = options.seed ?? defaultSeed;
+  if (!Number.isSafeInteger(trials) || trials < 1) throw new RangeError(`trials must be a whole number of at least 1, got ${trials}`);
+  const chain = buildChain(plan);
+  const nominalDetail = chain.detail(chain.nominal);
+  const nominalOut = new Float64Array(chain.checks.length);
+  chain.evaluate(chain.nominal, nominalOut);
+
+  const perSigma = sensitivities(chain);
+  const worst = worstCase(chain, perSigma);
+  const samples = sampleChain(chain, {
+    trials,
+    seed,
+    distribution: options.distribution ?? 'normal',
+    ...(options.onProgress ? { onProgress: options.onProgress } : {}),
+  });
+
+  const extra: DesignWarning[] = [];
+  const targets: Target[] = chain.checks.map((c, i) => {
+    const upstream = c.stage === 'rails' ? [] : upstreamOf(plan.stages, c.stage);
+    const stage = plan.stages.find((s) => s.id === c.stage);
+    const base = {
+      check: c.check,
+      stage: c.stage,
+      quantity: c.quantity,
+      unit: c.unit,
+      testPoint: c.testPoint,
+      instrument: c.instrument,
+      how: c.how,
+      phase: c.phase,
+      upstream,
+      ...(stage?.input ? { input: `${stage.input.stage}.${stage.input.output}` } : {}),
+    };
+    if (c.phase === 'unpowered') {
+      const band = { min: plan.railShortMin, max: Infinity };
+      return { ...base, nominal: plan.railShortMin, worst: band, stat: band, contributors: [] };
+    }
+    if (c.phase === 'first-power') {
+      const max = plan.idleCurrentMax ?? Infinity;
+      const band = { min: 0, max };
+      return { ...base, nominal: Number.isFinite(max) ? max / 2 : 0, worst: band, stat: band, contributors: [] };
+    }
+    const nominal = nominalOut[i] as number;
+    const sorted = sortedFinite(samples.values[i] as Float64Array);
+    const statMin = quantileSorted(sorted, statCoverage.low);
+    const statMax = quantileSorted(sorted, statCoverage.high);
+    // The statistical band may never lie outside the worst case: widen by the sampled extremes.
+    const lo = Math.min(worst.min[i] as number, sorted[0] ?? Number.NaN, nominal);
+    const hi = Math.max(worst.max[i] as number, sorted[sorted.length - 1] ?? Number.NaN, nominal);
+    const missing = samples.missing[i] ?? 0;
+    if (missing > 0) {
+      extra.push({ stage: c.stage, message: `${c.check}: ${missing} of ${trials} trials gave no value (the stage cannot work at some tolerance corners); the bands cover the rest` });
+    }
+    return {
+      ...base,
+      nominal,
+      worst: { min: nanIfNot(lo), max: nanIfNot(hi) },
+      stat: { min: statMin, max: statMax },
+      contributors: contributorsOf(chain, perSigma, i),
+    };
+  });
+
+  const warnings = [...designWarnings(plan, nominalDetail), ...extra];
+  for (const t of targets) {
+    if (t.phase === 'stage' && !Number.isFinite(t.nominal)) {
+      warnings.push({ stage: t.stage, message: `${t.check} has no nominal value (${formatValue(t.nominal, t.unit)}): check the stage's parts and input` });
+    }
+  }
+  return { plan: plan.plan, targets, warnings };
+}
+
+function nanIfNot(v: number): number {
+  return Number.isFinite(v) ? v : Number.NaN;
+}

@@ -1,0 +1,151 @@
+import type { EvalOutput, Supplies, Waveform } from '../circuit/types.js';
+import type { Unit } from '../units/unit.js';
+import { type PlanCheck, planChecks } from './checks.js';
+import type { Plan, PlanStage } from './types.js';
+
+/** A toleranced value of the chain: a rail (`rails.+12V`) or a stage's part (`osc.Ct`). */
+export interface ChainVariable {
+  readonly name: string;
+  /** Stage id, or `rails`. */
+  readonly stage: string;
+  /** Role within the stage, or the rail id. */
+  readonly role: string;
+  readonly nominal: number;
+  /** Fraction; 0 for exact values (they are never varied). */
+  readonly tol: number;
+  readonly unit: Unit;
+  readonly text: string;
+}
+
+/** One evaluation with every output kept, for the nominal case and for explanations. */
+export interface ChainDetail {
+  readonly values: Readonly<Record<string, number>>;
+  readonly outputs: Readonly<Record<string, Waveform>>;
+  readonly warnings: readonly { readonly stage: string; readonly message: string }[];
+  /** Stages whose evaluation threw, with the message. */
+  readonly failures: readonly { readonly stage: string; readonly message: string }[];
+}
+
+/**
+ * A plan made ready for sampling. `evaluate` is the hot loop of the tolerance
+ * engine: one call evaluates the whole chain for one sample `x` (one value per
+ * variable, in `variables` order) and writes every check's value into `out`
+ * (in `checks` order; NaN where a check has no computed value, such as the
+ * unpowered rail checks, or where a stage could not be evaluated).
+ */
+export interface Chain {
+  readonly variables: readonly ChainVariable[];
+  readonly checks: readonly PlanCheck[];
+  /** The nominal sample. */
+  readonly nominal: Float64Array;
+  evaluate(x: Float64Array, out: Float64Array): void;
+  detail(x: Float64Array): ChainDetail;
+}
+
+interface StagePlan {
+  readonly stage: PlanStage;
+  readonly roles: readonly string[];
+  readonly varIndex: Int32Array;
+  /** Check key → index in `out`. */
+  readonly outIndex: readonly (readonly [string, number])[];
+  /** Index of the input stage in the stage list, −1 when none. */
+  readonly inputStage: number;
+}
+
+/**
+ * Build the chain of a plan. Supplies for every op-amp stage are the plan's most
+ * positive rail and its most negative rail (sampled with the rest); a plan with
+ * no negative rail runs its op-amps between the positive rail and ground (0 V),
+ * and one with no positive rail between ground and the negative rail.
+ */
+export function buildChain(plan: Plan): Chain {
+  const variables: ChainVariable[] = [];
+  for (const rail of plan.rails) {
+    variables.push({ name: `rails.${rail.id}`, stage: 'rails', role: rail.id, nominal: rail.nominal, tol: rail.tol, unit: 'V', text: rail.text });
+  }
+  for (const stage of plan.stages) {
+    for (const [role, part] of Object.entries(stage.parts)) {
+      variables.push({ name: `${stage.id}.${role}`, stage: stage.id, role, nominal: part.nominal, tol: part.tol, unit: part.unit, text: part.text });
+    }
+  }
+  const checks = planChecks(plan);
+  const checkIndex = new Map(checks.map((c, i) => [c.check, i] as const));
+
+  const railIds = plan.rails.map((r) => r.id);
+  let posIdx = -1;
+  let negIdx = -1;
+  plan.rails.forEach((r, i) => {
+    if (r.nominal > 0 && (posIdx < 0 || r.nominal > (plan.rails[posIdx]?.nominal ?? 0))) posIdx = i;
+    if (r.nominal < 0 && (negIdx < 0 || r.nominal < (plan.rails[negIdx]?.nominal ?? 0))) negIdx = i;
+  });
+  const railDcOut = plan.rails.map((r) => checkIndex.get(`rails.${r.id}.dc`) ?? -1);
+
+  const stageIds = plan.stages.map((s) => s.id);
+  const stagePlans: StagePlan[] = plan.stages.map((stage) => {
+    const roles = Object.keys(stage.parts);
+    const varIndex = Int32Array.from(roles, (role) => variables.findIndex((v) => v.name === `${stage.id}.${role}`));
+    const outIndex = checks.flatMap((c, i) => (c.stage === stage.id ? [[c.key, i] as const] : []));
+    return { stage, roles, varIndex, outIndex, inputStage: stage.input ? stageIds.indexOf(stage.input.stage) : -1 };
+  });
+
+  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean): ChainDetail => {
+    const rails: Record<string, number> = {};
+    for (let i = 0; i < railIds.length; i++) {
+      const v = x[i] ?? Number.NaN;
+      rails[railIds[i] ?? ''] = v;
+      const o = railDcOut[i] ?? -1;
+      if (out && o >= 0) out[o] = v;
+    }
+    const supplies: Supplies = { pos: posIdx >= 0 ? (x[posIdx] ?? 0) : 0, neg: negIdx >= 0 ? (x[negIdx] ?? 0) : 0 };
+    const results: (EvalOutput | undefined)[] = new Array(stagePlans.length);
+    const values: Record<string, number> = {};
+    const outputs: Record<string, Waveform> = {};
+    const warnings: { stage: string; message: string }[] = [];
+    const failures: { stage: string; message: string }[] = [];
+    for (let s = 0; s < stagePlans.length; s++) {
+      const sp = stagePlans[s] as StagePlan;
+      const parts: Record<string, number> = {};
+      for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
+      let input: Waveform | undefined;
+      if (sp.inputStage >= 0) input = results[sp.inputStage]?.outputs[sp.stage.input?.output ?? ''];
+      let result: EvalOutput | undefined;
+      if (sp.inputStage < 0 || input) {
+        try {
+          const base = { parts, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies, rails };
+          result = sp.stage.module.evaluate(input ? { ...base, input } : base);
+        } catch (error) {
+          failures.push({ stage: sp.stage.id, message: error instanceof Error ? error.message : String(error) });
+        }
+      } else {
+        failures.push({ stage: sp.stage.id, message: `its input ${sp.stage.input?.stage}.${sp.stage.input?.output} has no signal` });
+      }
+      results[s] = result;
+      if (out) for (const [key, i] of sp.outIndex) out[i] = result?.values[key] ?? Number.NaN;
+      if (keep && result) {
+        for (const [key, v] of Object.entries(result.values)) values[`${sp.stage.id}.${key}`] = v;
+        for (const [name, w] of Object.entries(result.outputs)) outputs[`${sp.stage.id}.${name}`] = w;
+        for (const w of result.warnings) warnings.push({ stage: sp.stage.id, message: w.message });
+      }
+    }
+    return { values, outputs, warnings, failures };
+  };
+
+  const nominal = Float64Array.from(variables, (v) => v.nominal);
+  return {
+    variables,
+    checks,
+    nominal,
+    evaluate(x, out) {
+      out.fill(Number.NaN);
+      run(x, out, false);
+    },
+    detail(x) {
+      const d = run(x, undefined, true);
+      const values: Record<string, number> = { ...d.values };
+      railIds.forEach((id, i) => {
+        values[`rails.${id}.dc`] = x[i] ?? Number.NaN;
+      });
+      return { ...d, values };
+    },
+  };
+}

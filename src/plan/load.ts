@@ -1,0 +1,161 @@
+import { createHash } from 'node:crypto';
+import { readFile } from 'node:fs/promises';
+import { defaultOpamp } from '../circuit/opamp.js';
+import { stageKinds } from '../circuit/registry.js';
+import type { StageKind } from '../circuit/types.js';
+import type { UncertaintySpec } from '../units/uncertainty.js';
+import type { Unit } from '../units/unit.js';
+import { planChecks } from './checks.js';
+import { PlanError } from './errors.js';
+import { findJsonFault } from './json-position.js';
+import { type RawPlan, jsonPath, planSchema } from './schema.js';
+import { resolveStages } from './stages.js';
+import type { Plan, Rail } from './types.js';
+import { readOpamp, readTolerance, readUncertainty, readValue } from './values.js';
+
+/**
+ * Below this rail-to-ground resistance, read unpowered, a rail counts as shorted
+ * (common practice, no source: a rail that reads a few ohms is a short until
+ * proven otherwise; 100 Ω leaves room for the bulk capacitors charging the meter).
+ */
+export const defaultRailShortMin = 100;
+
+/** Units of the plan's `uncertainty` map by key. */
+const uncertaintyUnits: Readonly<Record<string, Unit>> = { V: 'V', A: 'A', Hz: 'Hz', ohm: 'Ω', s: 's', F: 'F', 'V/V': 'V/V', '1': '1' };
+
+/** Read and validate a plan file. Throws `PlanError` (file, JSON path, remedy) for anything wrong. */
+export async function loadPlanFile(file: string): Promise<Plan> {
+  let text: string;
+  try {
+    text = await readFile(file, 'utf8');
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code;
+    if (code === 'ENOENT') throw new PlanError(file, '', 'no such file; give the path of a *.plan.json file');
+    if (code === 'EISDIR') throw new PlanError(file, '', 'is a folder; give the path of a *.plan.json file');
+    throw new PlanError(file, '', `cannot be read (${code ?? (error as Error).message})`);
+  }
+  return loadPlanText(text, file);
+}
+
+/**
+ * Validate a plan's text. `kinds` defaults to the registry; tests pass their own.
+ * `hash` is the sha256 of the exact text, so a run can be tied to the plan it used.
+ */
+export function loadPlanText(text: string, file: string, kinds: Readonly<Record<string, StageKind<unknown>>> = stageKinds): Plan {
+  const json = parseJson(text, file);
+  const result = planSchema.safeParse(json);
+  if (!result.success) {
+    const issue = result.error.issues[0];
+    if (!issue) throw new PlanError(file, '', 'is not a valid plan');
+    throw new PlanError(file, jsonPath(issue.path), describeIssue(issue, json));
+  }
+  const raw = result.data;
+
+  const rails = readRails(raw, file);
+  const opampBase = readOpamp(raw.opamp, defaultOpamp, file, 'opamp');
+  const stages = resolveStages(raw.stages, kinds, opampBase, file);
+
+  const uncertainty: Partial<Record<Unit, UncertaintySpec>> = {};
+  for (const [key, spec] of Object.entries(raw.uncertainty ?? {})) {
+    const unit = uncertaintyUnits[key];
+    if (unit && spec !== undefined) uncertainty[unit] = readUncertainty(spec, unit, file, `uncertainty.${key}`);
+  }
+
+  const checks = planChecks({ rails, stages });
+  const checkUncertainty: Record<string, UncertaintySpec> = {};
+  for (const [id, spec] of Object.entries(raw.checkUncertainty ?? {})) {
+    const check = checks.find((c) => c.check === id);
+    if (!check) {
+      const sample = checks.slice(0, 6).map((c) => JSON.stringify(c.check)).join(', ');
+      throw new PlanError(file, `checkUncertainty[${JSON.stringify(id)}]`, `no check ${JSON.stringify(id)} in this plan; check ids look like ${sample}`);
+    }
+    checkUncertainty[id] = readUncertainty(spec, check.unit, file, `checkUncertainty[${JSON.stringify(id)}]`);
+  }
+
+  let railShortMin = defaultRailShortMin;
+  if (raw.railShortMin !== undefined) {
+    railShortMin = readValue(raw.railShortMin, 'Ω', file, 'railShortMin', { allowTolerance: false }).value;
+    if (!(railShortMin > 0)) throw new PlanError(file, 'railShortMin', 'must be a resistance above zero, e.g. "100 ohm"');
+  }
+
+  const base = {
+    plan: raw.plan,
+    title: raw.title,
+    file,
+    hash: createHash('sha256').update(text, 'utf8').digest('hex'),
+    text,
+    rails,
+    railShortMin,
+    opamp: opampBase,
+    uncertainty,
+    checkUncertainty,
+    stages,
+  };
+  if (raw.idleCurrent === undefined) return base;
+  const idle = readValue(raw.idleCurrent.max, 'A', file, 'idleCurrent.max', { allowTolerance: false }).value;
+  if (!(idle > 0)) throw new PlanError(file, 'idleCurrent.max', 'must be a current above zero, e.g. "45 mA"');
+  return { ...base, idleCurrentMax: idle };
+}
+
+function parseJson(text: string, file: string): unknown {
+  // Editors on some systems write a byte-order mark; it is not part of the JSON.
+  const body = text.charCodeAt(0) === 0xfeff ? ` ${text.slice(1)}` : text;
+  try {
+    return JSON.parse(body);
+  } catch {
+    const fault = findJsonFault(body);
+    if (!fault) throw new PlanError(file, '', 'is not valid JSON');
+    throw new PlanError(file, `line ${fault.line}, column ${fault.column}`, `not valid JSON; expected ${fault.expected}`);
+  }
+}
+
+interface Issue {
+  readonly code: string;
+  readonly path: readonly PropertyKey[];
+  readonly message: string;
+  readonly keys?: readonly string[];
+}
+
+function valueAt(json: unknown, path: readonly PropertyKey[]): unknown {
+  let v: unknown = json;
+  for (const key of path) {
+    if (v === null || typeof v !== 'object') return undefined;
+    v = (v as Record<PropertyKey, unknown>)[key];
+  }
+  return v;
+}
+
+const topKeys = Object.keys(planSchema.shape).filter((k) => k !== '$schema');
+
+function describeIssue(issue: Issue, json: unknown): string {
+  if (issue.code === 'unrecognized_keys') {
+    const keys = (issue.keys ?? []).map((k) => JSON.stringify(k)).join(', ');
+    const allowed = issue.path.length === 0 ? `; a plan has ${topKeys.join(', ')}` : '';
+    return `unknown key ${keys} (a typo?)${allowed}`;
+  }
+  if (issue.code === 'invalid_type' && issue.path.length > 0 && valueAt(json, issue.path) === undefined) {
+    return `missing; ${issue.message}`;
+  }
+  if (issue.code === 'invalid_type' && issue.path.length === 0) return 'expected a JSON object with "plan", "title", "rails" and "stages"';
+  return issue.message;
+}
+
+function readRails(raw: RawPlan, file: string): Rail[] {
+  const rails: Rail[] = [];
+  raw.rails.forEach((r, i) => {
+    const path = `rails[${i}]`;
+    const dup = rails.findIndex((x) => x.id === r.id);
+    if (dup >= 0) throw new PlanError(file, `${path}.id`, `duplicate rail id ${JSON.stringify(r.id)} (also rails[${dup}])`);
+    const nominal = readValue(r.nominal, 'V', file, `${path}.nominal`);
+    if (nominal.value === 0) throw new PlanError(file, `${path}.nominal`, 'a rail of 0 V is ground; leave it out or give its voltage');
+    let tol = nominal.tol;
+    if (r.tol !== undefined) {
+      if (nominal.tol !== 0) throw new PlanError(file, `${path}.tol`, 'the tolerance is written twice (in "nominal" and in "tol"); keep one');
+      tol = readTolerance(r.tol, file, `${path}.tol`);
+    }
+    const rail: Rail = { id: r.id, nominal: nominal.value, tol, text: r.tol === undefined ? r.nominal : `${r.nominal} ${r.tol}` };
+    rails.push(r.testPoint === undefined ? rail : { ...rail, testPoint: r.testPoint });
+  });
+  if (rails.length === 0) throw new PlanError(file, 'rails', 'a plan needs at least one rail, e.g. [{"id": "+12V", "nominal": "12 V", "tol": "3%"}]');
+  return rails;
+}

@@ -1,0 +1,143 @@
+import type { OpampModel, PartValue, StageKind } from '../circuit/types.js';
+import { PlanError } from './errors.js';
+import { readOpamp, checkTolerance } from './values.js';
+import type { InputRef, PlanStage } from './types.js';
+import type { z } from 'zod';
+import type { stageSchema } from './schema.js';
+
+type RawStageJson = z.infer<typeof stageSchema>;
+
+function quoteList(items: readonly string[]): string {
+  return items.map((s) => JSON.stringify(s)).join(', ');
+}
+
+/** The JSON path of a part role: `stages[0].parts.Rt`, or `stages[1].clamp.vz` for settings. */
+function rolePath(stagePath: string, json: Readonly<Record<string, unknown>>, role: string): string {
+  const parts = json.parts;
+  if (parts && typeof parts === 'object' && Object.hasOwn(parts, role)) return `${stagePath}.parts.${role}`;
+  return /^[A-Za-z_]/.test(role) ? `${stagePath}.${role}` : `${stagePath}${role}`;
+}
+
+/**
+ * Resolve every stage of a plan: its kind, its parts (the kind's own `parse`),
+ * its op-amp, its input and test points; then order the stages so that every
+ * input comes before its user (stable: plan order wherever the chain allows).
+ */
+export function resolveStages(
+  raws: readonly RawStageJson[],
+  kinds: Readonly<Record<string, StageKind<unknown>>>,
+  planOpamp: OpampModel,
+  file: string,
+): PlanStage[] {
+  const seen = new Map<string, number>();
+  raws.forEach((raw, i) => {
+    if (raw.id === 'rails') throw new PlanError(file, `stages[${i}].id`, '"rails" is reserved for the supply checks (rails.<id>.dc); name the stage otherwise');
+    const first = seen.get(raw.id);
+    if (first !== undefined) throw new PlanError(file, `stages[${i}].id`, `duplicate stage id ${JSON.stringify(raw.id)} (also stages[${first}]); every stage needs its own id`);
+    seen.set(raw.id, i);
+  });
+
+  const built = raws.map((raw, i): PlanStage & { inputText?: string } => {
+    const path = `stages[${i}]`;
+    const module = kinds[raw.kind];
+    if (!module) {
+      throw new PlanError(file, `${path}.kind`, `unknown stage kind ${JSON.stringify(raw.kind)}; the known kinds are ${quoteList(Object.keys(kinds).sort())}`);
+    }
+    const parsed = module.parse({ json: raw as Readonly<Record<string, unknown>>, path }, file);
+    const parts: Record<string, PartValue> = {};
+    for (const [role, part] of Object.entries(parsed.parts)) {
+      const where = rolePath(path, raw, role);
+      checkTolerance(part.tol, part.text, file, where);
+      if (!Number.isFinite(part.nominal)) throw new PlanError(file, where, `${JSON.stringify(part.text)} is not a finite value`);
+      parts[role] = part;
+    }
+    const testPoints: Record<string, string> = { ...(raw.testPoints ?? {}) };
+    const checkKeys = module.checks(parsed.settings).map((c) => c.key);
+    for (const key of Object.keys(testPoints)) {
+      if (!module.outputs.includes(key) && !checkKeys.includes(key)) {
+        throw new PlanError(file, `${path}.testPoints.${key}`, `${JSON.stringify(key)} is not an output or check of a ${raw.kind} stage; use one of ${quoteList([...module.outputs, ...checkKeys])}`);
+      }
+    }
+    if (module.needsInput && raw.input === undefined) {
+      throw new PlanError(file, `${path}.input`, `a ${raw.kind} stage needs an input; write the upstream output, e.g. "input": "osc.triangle"`);
+    }
+    if (!module.needsInput && raw.input !== undefined) {
+      throw new PlanError(file, `${path}.input`, `a ${raw.kind} stage takes no input; remove "input"`);
+    }
+    const base = {
+      id: raw.id,
+      kind: raw.kind,
+      module,
+      parts,
+      settings: parsed.settings,
+      testPoints,
+      opamp: readOpamp(raw.opamp, planOpamp, file, `${path}.opamp`),
+      path,
+    };
+    return raw.input === undefined ? base : { ...base, inputText: raw.input };
+  });
+
+  const byId = new Map(built.map((s) => [s.id, s] as const));
+  const resolved: PlanStage[] = built.map((s) => {
+    const { inputText, ...stage } = s;
+    if (inputText === undefined) return stage;
+    return { ...stage, input: resolveInput(inputText, s, byId, file) };
+  });
+  return chainOrder(resolved, file);
+}
+
+function resolveInput(text: string, stage: PlanStage, byId: ReadonlyMap<string, PlanStage>, file: string): InputRef {
+  const where = `${stage.path}.input`;
+  const dot = text.indexOf('.');
+  const stageId = dot < 0 ? text : text.slice(0, dot);
+  const source = byId.get(stageId);
+  if (!source) {
+    throw new PlanError(file, where, `${JSON.stringify(text)}: unknown stage ${JSON.stringify(stageId)}; the stages are ${quoteList([...byId.keys()])}`);
+  }
+  if (source.id === stage.id) throw new PlanError(file, where, `${JSON.stringify(text)}: a stage cannot take its own output as input`);
+  const output = dot < 0 ? undefined : text.slice(dot + 1);
+  if (output === undefined || !source.module.outputs.includes(output)) {
+    throw new PlanError(
+      file,
+      where,
+      `${JSON.stringify(text)}: ${output === undefined ? 'no output named' : `unknown output ${JSON.stringify(output)}`}; a ${source.kind} stage has ${quoteList(source.module.outputs.map((o) => `${source.id}.${o}`))}`,
+    );
+  }
+  return { stage: source.id, output };
+}
+
+/** Topological order, stable to plan order; a cycle is a plan error naming the loop. */
+function chainOrder(stages: readonly PlanStage[], file: string): PlanStage[] {
+  const byId = new Map(stages.map((s) => [s.id, s] as const));
+  const state = new Map<string, 'visiting' | 'done'>();
+  const out: PlanStage[] = [];
+  const visit = (s: PlanStage, trail: readonly string[]): void => {
+    const st = state.get(s.id);
+    if (st === 'done') return;
+    if (st === 'visiting') {
+      const loop = [...trail.slice(trail.indexOf(s.id)), s.id];
+      throw new PlanError(file, `${s.path}.input`, `the inputs form a loop (${loop.join(' → ')}); a signal chain must start at a stage without an input`);
+    }
+    state.set(s.id, 'visiting');
+    if (s.input) {
+      const up = byId.get(s.input.stage);
+      if (up) visit(up, [...trail, s.id]);
+    }
+    state.set(s.id, 'done');
+    out.push(s);
+  };
+  for (const s of stages) visit(s, []);
+  return out;
+}
+
+/** Stage ids upstream of `id`, nearest first (its input stage, then that one's input, …). */
+export function upstreamOf(stages: readonly PlanStage[], id: string): string[] {
+  const byId = new Map(stages.map((s) => [s.id, s] as const));
+  const out: string[] = [];
+  let s = byId.get(id);
+  while (s?.input && !out.includes(s.input.stage)) {
+    out.push(s.input.stage);
+    s = byId.get(s.input.stage);
+  }
+  return out;
+}
