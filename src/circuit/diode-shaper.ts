@@ -1,18 +1,167 @@
-import type { StageKind } from './types.js';
+import { type DiodeModel, defaultDiode, defaultDiodeName, diodeModels, diodeString, stringCurrent } from './diode.js';
+import { branchJunction, type ShaperBranch, type ShaperNet, solveNode } from './shaper-solver.js';
+import { fastThd } from './spectrum.js';
+import { choiceAt, countAt, list, nested, onlyKeys, partAt, reader, type StageReader } from './stage-parse.js';
+import { PlanError } from '../plan/errors.js';
+import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind, StageWarning } from './types.js';
+import { mirrorOrder } from './mirror.js';
 
-// PLACEHOLDER until the stage kind is written: it refuses to evaluate.
-export const diodeShaperKind: StageKind<unknown> = {
+/** One breakpoint branch as the plan wrote it; its R and bias are toleranced parts under `roles`. */
+export interface ShaperBranchSetting {
+  readonly diodes: number;
+  readonly polarity: '+' | '-';
+  /** Part roles of this branch's resistor and bias voltage (`branches[0].R`, `branches[0].bias`). */
+  readonly rRole: string;
+  readonly biasRole: string;
+}
+
+export interface DiodeShaperSettings {
+  readonly branches: readonly ShaperBranchSetting[];
+  readonly hasLoad: boolean;
+  readonly diode: DiodeModel;
+  /** Model name, or `custom` when the plan gave `{is, n, rs}`. */
+  readonly diodeName: string;
+}
+
+/** A diode of this class is rated a few hundred mA; warn well below (common practice, no source). */
+const diodeCurrentWarn = 0.1;
+
+function parseDiode(r: StageReader): { model: DiodeModel; name: string } {
+  const raw = r.json['diode'];
+  if (raw === undefined) return { model: defaultDiode, name: defaultDiodeName };
+  if (typeof raw === 'string') {
+    const model = diodeModels[raw];
+    if (!model) {
+      throw new PlanError(r.file, `${r.path}.diode`, `no diode model ${JSON.stringify(raw)}; write ${Object.keys(diodeModels).map((m) => JSON.stringify(m)).join(' or ')}, or { "is": "2.52n", "n": 1.752, "rs": "0.568" }`);
+    }
+    return { model, name: raw };
+  }
+  const d = nested(r, 'diode');
+  onlyKeys(d, ['is', 'n', 'rs']);
+  const is = partAt(d, 'is', 'A', true, { positive: true, example: '"2.52n"' });
+  const n = partAt(d, 'n', '1', true, { positive: true, example: '1.752' });
+  const rs = partAt(d, 'rs', 'Ω', false, { nonNegative: true, example: '"0.568"' });
+  return { model: { is: is.nominal, n: n.nominal, rs: rs?.nominal ?? 0 }, name: 'custom' };
+}
+
+function parse(raw: Parameters<StageKind['parse']>[0], file: string): { parts: Record<string, PartValue>; settings: DiodeShaperSettings } {
+  const r = reader(raw, file);
+  const p = nested(r, 'parts', true);
+  onlyKeys(p, ['Rs', 'Rload']);
+  const parts: Record<string, PartValue> = { Rs: partAt(p, 'Rs', 'Ω', true, { positive: true, example: '"4k7 1%"' }) };
+  const load = partAt(p, 'Rload', 'Ω', false, { positive: true, example: '"10k 1%"' });
+  if (load) parts['Rload'] = load;
+  const example = '{ "diodes": 1, "polarity": "+", "R": "2k2 1%", "bias": "0 V" }';
+  const items = list(r, 'branches', true, example);
+  if (items.length === 0) throw new PlanError(file, `${raw.path}.branches`, `is empty; a shaper needs at least one branch, e.g. [${example}]`);
+  const branches = items.map((b, i): ShaperBranchSetting => {
+    onlyKeys(b, ['diodes', 'polarity', 'R', 'bias']);
+    const rRole = `branches[${i}].R`;
+    const biasRole = `branches[${i}].bias`;
+    parts[rRole] = partAt(b, 'R', 'Ω', true, { positive: true, example: '"2k2 1%"' });
+    parts[biasRole] = partAt(b, 'bias', 'V', false, { example: '"0 V"' }) ?? { nominal: 0, tol: 0, unit: 'V', text: '0 V' };
+    return { diodes: countAt(b, 'diodes', 1, 1, 10), polarity: choiceAt(b, 'polarity', ['+', '-'] as const), rRole, biasRole };
+  });
+  const diode = parseDiode(r);
+  return { parts, settings: { branches, hasLoad: load !== undefined, diode: diode.model, diodeName: diode.name } };
+}
+
+function netFor(input: EvalInput<DiodeShaperSettings>): ShaperNet {
+  const { parts, settings } = input;
+  const branches = settings.branches.map(
+    (b): ShaperBranch => ({
+      sign: b.polarity === '+' ? 1 : -1,
+      bias: parts[b.biasRole] ?? 0,
+      diodes: diodeString(settings.diode, b.diodes, parts[b.rRole] ?? Number.NaN),
+    }),
+  );
+  const rload = settings.hasLoad ? (parts['Rload'] ?? Number.NaN) : Number.POSITIVE_INFINITY;
+  return { gs: 1 / (parts['Rs'] ?? Number.NaN), gl: 1 / rload, branches };
+}
+
+function evaluate(input: EvalInput<DiodeShaperSettings>): EvalOutput {
+  const source = input.input;
+  if (!source) throw new Error('diode-shaper: no input waveform; the plan must name an "input"');
+  const net = netFor(input);
+  const vin = source.samples;
+  const out = new Float64Array(vin.length);
+  // A memoryless node: a waveform that mirrors about its peak (a triangle) is solved
+  // on one slope only and copied to the other, exactly.
+  const m = mirrorOrder(vin);
+  solveNode(net, vin, m.order, out);
+  m.fill(out);
+  let hi = -Infinity;
+  let lo = Infinity;
+  for (let i = 0; i < out.length; i++) {
+    const v = out[i] ?? 0;
+    if (v > hi) hi = v;
+    if (v < lo) lo = v;
+  }
+  const values: Record<string, number> = {
+    'out.vpp': hi - lo,
+    'out.thd': source.frequency > 0 ? fastThd(out) : Number.NaN,
+    'out.peak': hi,
+  };
+  return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings: warningsFor(net, hi, lo) };
+}
+
+function warningsFor(net: ShaperNet, hi: number, lo: number): StageWarning[] {
+  const warnings: StageWarning[] = [];
+  let peakCurrent = 0;
+  let conducting = false;
+  for (const br of net.branches) {
+    const v = br.sign > 0 ? hi : lo;
+    const current = stringCurrent(br.diodes, branchJunction(br.diodes, br.sign * (v - br.bias)));
+    peakCurrent = Math.max(peakCurrent, current);
+    // 1 % of the current Rs carries at the peak: the branch takes part in the shaping.
+    if (current > 0.01 * Math.abs(v) * net.gs) conducting = true;
+  }
+  if (!conducting) {
+    warnings.push({ message: 'the drive never reaches a breakpoint: no branch conducts and the output is a scaled copy of the input; check the drive level and the bias voltages' });
+  }
+  if (peakCurrent > diodeCurrentWarn) {
+    warnings.push({ message: `a branch carries ${(peakCurrent * 1e3).toPrecision(3)} mA at the peak; small-signal diodes are rated a few hundred mA at most (check the datasheet), raise the branch resistor` });
+  }
+  return warnings;
+}
+
+const shaperChecks: readonly CheckSpec[] = [
+  { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the shaper output, 10× probe, read peak-to-peak' },
+  { key: 'out.thd', quantity: 'total harmonic distortion', unit: '1', output: 'out', instrument: 'scope', how: 'scope FFT (or save a capture and run analyze) at the shaper output, harmonics 2–50' },
+  { key: 'out.peak', quantity: 'positive peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the shaper output, read the maximum' },
+];
+
+export const diodeShaperKind: StageKind<DiodeShaperSettings> = {
   kind: 'diode-shaper',
-  summary: 'not built yet',
-  roles: [],
+  summary: 'diode wave shaper: series Rs into a node loaded by diode-resistor breakpoint branches (Shockley law solved per sample)',
+  roles: [
+    { role: 'Rs', unit: 'Ω', description: 'series resistor from the input to the shaper node' },
+    { role: 'Rload', unit: 'Ω', description: 'load from the shaper node to ground', optional: true },
+    { role: 'branches[i].R', unit: 'Ω', description: 'breakpoint branch resistor (sets the slope above the breakpoint)' },
+    { role: 'branches[i].bias', unit: 'V', description: 'breakpoint branch bias voltage (sets where the branch starts to conduct)' },
+  ],
   outputs: ['out'],
-  needsInput: false,
-  parse() {
-    throw new Error('stage kind diode-shaper is not built yet');
+  needsInput: true,
+  parse,
+  checks: () => shaperChecks,
+  evaluate,
+  faultHints: {
+    'out.thd': [
+      'a diode fitted backwards: that branch conducts on the wrong half-cycle and one side flattens early',
+      'a branch resistor a decade off (470R for 4k7 or the reverse) moves that breakpoint\'s slope',
+      'a bias voltage or bias divider off: the breakpoints sit at the wrong levels',
+      'an open diode or a dry joint: one breakpoint is missing and the peaks stay pointed',
+      'the drive level is off: check the triangle amplitude upstream first, a shaper is tuned for one drive',
+    ],
+    'out.vpp': [
+      'the drive level is off: check the upstream triangle peak-to-peak first',
+      'Rs the wrong value (a ×10 slip changes the amplitude a lot)',
+      'a shorted diode clamps the output near its bias voltage',
+      'Rload missing, wrong or a probe loading the node (use a 10× probe)',
+    ],
+    'out.peak': [
+      'an asymmetric output: compare the positive and negative peaks; one branch set missing or reversed',
+      'a bias voltage off on the positive side',
+    ],
   },
-  checks: () => [],
-  evaluate() {
-    throw new Error('stage kind diode-shaper is not built yet');
-  },
-  faultHints: {},
 };

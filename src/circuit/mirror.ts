@@ -1,0 +1,49 @@
+/**
+ * Many waveforms in a chain mirror about their peak (a triangle, a sine, a shaped
+ * triangle): sample p+j equals sample p−j. A memoryless stage then needs solving
+ * only from the trough up to the peak and copying the rest — exact, since equal
+ * inputs give equal outputs. `order` lists the samples to solve, in walking order
+ * (one slope, so a warm-started solver moves in small steps); `fill` copies the
+ * solved half to the mirrored half. When the waveform does not mirror, `order`
+ * walks every sample from the peak on and `fill` does nothing.
+ */
+export interface MirrorPlan {
+  readonly order: Int32Array;
+  fill(out: Float64Array): void;
+}
+
+/** Mirror samples must agree this closely (relative to the peak-to-peak) to count as equal. */
+const sameLevel = 1e-12;
+
+export function mirrorOrder(samples: Float64Array): MirrorPlan {
+  const n = samples.length;
+  let p = 0;
+  let lo = Infinity;
+  for (let i = 0; i < n; i++) {
+    const v = samples[i] ?? 0;
+    if (v > (samples[p] ?? 0)) p = i;
+    if (v < lo) lo = v;
+  }
+  const span = (samples[p] ?? 0) - lo;
+  const half = Math.floor(n / 2);
+  let mirrored = n >= 4;
+  for (let j = 1; j <= half && mirrored; j++) {
+    const a = samples[(p + j) % n] ?? 0;
+    const b = samples[(p - j + n) % n] ?? 0;
+    if (Math.abs(a - b) > sameLevel * span) mirrored = false;
+  }
+  if (!mirrored) {
+    const order = new Int32Array(n);
+    for (let j = 0; j < n; j++) order[j] = (p + j) % n;
+    return { order, fill: () => undefined };
+  }
+  // From the sample opposite the peak up to the peak: one slope.
+  const order = new Int32Array(half + 1);
+  for (let j = 0; j <= half; j++) order[j] = (p - half + j + n) % n;
+  return {
+    order,
+    fill(out) {
+      for (let j = 1; j < n - half; j++) out[(p + j) % n] = out[(p - j + n) % n] ?? 0;
+    },
+  };
+}

@@ -1,0 +1,208 @@
+import { type DiodeString, junctionCeiling } from './diode.js';
+
+/**
+ * The diode shaper's one node, in a form the solver can walk fast: `Rs` from the
+ * input (conductance gs), an optional load to ground (gl, 0 when absent), and
+ * branches, each a diode string (see diode.ts) from the node to its bias voltage,
+ * conducting forward when sign·(v − bias) > 0 (sign +1 for a `+` branch, −1 for `-`).
+ */
+export interface ShaperNet {
+  readonly gs: number;
+  readonly gl: number;
+  readonly branches: readonly ShaperBranch[];
+}
+
+export interface ShaperBranch {
+  readonly sign: 1 | -1;
+  readonly bias: number;
+  readonly diodes: DiodeString;
+}
+
+/**
+ * Newton stops once its last step moved every voltage by less than 10 µV: the
+ * convergence is quadratic (error after a step ≈ step² / (2·N·Vt) ≈ 11 V⁻¹ · step²
+ * for the stiffest junction), so what is left is about 1 nV.
+ */
+const stepTolerance = 1e-5;
+const maxNewton = 60;
+
+/** Scratch arrays reused between calls (evaluation runs 10,000 times in a Monte Carlo). */
+interface Scratch {
+  readonly size: number;
+  readonly sign: Float64Array;
+  readonly bias: Float64Array;
+  readonly is: Float64Array;
+  readonly nvt: Float64Array;
+  /** 1 / (N·Vt), 1/V. */
+  readonly inv: Float64Array;
+  readonly r: Float64Array;
+  /** Junction voltages now and at the last three solved samples. */
+  readonly x: Float64Array;
+  readonly x1: Float64Array;
+  readonly x2: Float64Array;
+  readonly x3: Float64Array;
+  readonly c: Float64Array;
+  readonly res: Float64Array;
+}
+
+let scratch = makeScratch(8);
+
+function makeScratch(size: number): Scratch {
+  const a = (): Float64Array => new Float64Array(size);
+  return { size, sign: a(), bias: a(), is: a(), nvt: a(), inv: a(), r: a(), x: a(), x1: a(), x2: a(), x3: a(), c: a(), res: a() };
+}
+
+/**
+ * Solve the node voltage for the input samples at `order` (indices into `vin`),
+ * writing `out[i]`. Newton's method on the node voltage and every branch's junction
+ * voltage together (the Jacobian is an arrow, eliminated in O(branches)), started
+ * from a quadratic extrapolation of the last three solved samples along the input
+ * (or the transfer curve's slope), so a smooth drive settles in one or two steps
+ * per sample. Junction steps are capped where the resistor alone would take all
+ * the voltage, so exp never overflows; a sample that still does not settle falls
+ * back to bisection.
+ */
+export function solveNode(net: ShaperNet, vin: Float64Array, order: ArrayLike<number>, out: Float64Array): void {
+  const k = net.branches.length;
+  if (scratch.size < k) scratch = makeScratch(k);
+  const { sign, bias, is, nvt, inv, r, x, x1, x2, x3, c, res } = scratch;
+  for (let b = 0; b < k; b++) {
+    const br = net.branches[b] as ShaperBranch;
+    sign[b] = br.sign;
+    bias[b] = br.bias;
+    is[b] = br.diodes.is;
+    nvt[b] = br.diodes.nvt;
+    inv[b] = 1 / br.diodes.nvt;
+    r[b] = br.diodes.r;
+  }
+  const { gs, gl } = net;
+  let v = 0;
+  // The last three solved samples: inputs a1, a2, a3 (newest first) and node voltages.
+  let a1 = 0, a2 = 0, a3 = 0, v1 = 0, v2 = 0, v3 = 0;
+  let slope = 0;
+  for (let j = 0; j < order.length; j++) {
+    const idx = order[j] as number;
+    const vi = vin[idx] as number;
+    if (j === 0) {
+      v = (vi * gs) / (gs + gl);
+      for (let b = 0; b < k; b++) {
+        x[b] = junctionCeiling(net.branches[b]!.diodes, sign[b]! * (v - bias[b]!));
+      }
+    } else {
+      const d12 = a1 - a2, d13 = a1 - a3, d23 = a2 - a3;
+      if (j >= 3 && d12 !== 0 && d13 !== 0 && d23 !== 0) {
+        // Lagrange weights for extrapolating to vi from the last three samples.
+        const w1 = ((vi - a2) * (vi - a3)) / (d12 * d13);
+        const w2 = -((vi - a1) * (vi - a3)) / (d12 * d23);
+        const w3 = ((vi - a1) * (vi - a2)) / (d13 * d23);
+        v = w1 * v1 + w2 * v2 + w3 * v3;
+        for (let b = 0; b < k; b++) x[b] = w1 * x1[b]! + w2 * x2[b]! + w3 * x3[b]!;
+      } else {
+        const dv = slope * (vi - a1);
+        v = v1 + dv;
+        for (let b = 0; b < k; b++) x[b] = x1[b]! + sign[b]! * c[b]! * dv;
+      }
+    }
+    let settled = false;
+    let den = gs + gl;
+    for (let it = 0; it < maxNewton; it++) {
+      let f = gs * (vi - v) - gl * v;
+      den = gs + gl;
+      let num = 0;
+      for (let b = 0; b < k; b++) {
+        const xb = x[b]!;
+        const sb = sign[b]!;
+        const isb = is[b]!;
+        const rb = r[b]!;
+        // A junction reverse-biased by more than 30·N·Vt passes only −IS (e^−30 ≈ 1e−13).
+        const z = xb * inv[b]!;
+        const e = z < -30 ? 0 : Math.exp(z);
+        const current = isb * (e - 1);
+        const gd = isb * e * inv[b]!;
+        const cb = 1 / (1 + rb * gd);
+        // Branch residual: junction plus resistor drop minus the voltage across the branch.
+        const rr = xb + rb * current - sb * (v - bias[b]!);
+        f -= sb * current;
+        den += gd * cb;
+        num += sb * gd * cb * rr;
+        c[b] = cb;
+        res[b] = rr;
+      }
+      const dv = (f + num) / den;
+      v += dv;
+      let worst = dv < 0 ? -dv : dv;
+      for (let b = 0; b < k; b++) {
+        const dx = (sign[b]! * dv - res[b]!) * c[b]!;
+        let xn = x[b]! + dx;
+        if (dx > 2 * nvt[b]!) xn = Math.min(xn, junctionCeiling(net.branches[b]!.diodes, sign[b]! * (v - bias[b]!)));
+        const step = xn > x[b]! ? xn - x[b]! : x[b]! - xn;
+        if (step > worst) worst = step;
+        x[b] = xn;
+      }
+      if (worst < stepTolerance && Number.isFinite(v)) {
+        settled = true;
+        break;
+      }
+    }
+    if (!settled) {
+      v = bisect(net, vi);
+      for (let b = 0; b < k; b++) {
+        const br = net.branches[b] as ShaperBranch;
+        x[b] = branchJunction(br.diodes, br.sign * (v - br.bias));
+        c[b] = 0;
+      }
+      den = Number.POSITIVE_INFINITY;
+    }
+    out[idx] = v;
+    // dv/dvin at the solution: the input conductance over the node's total conductance.
+    slope = Number.isFinite(den) ? gs / den : 0;
+    a3 = a2; a2 = a1; a1 = vi;
+    v3 = v2; v2 = v1; v1 = v;
+    for (let b = 0; b < k; b++) {
+      x3[b] = x2[b]!;
+      x2[b] = x1[b]!;
+      x1[b] = x[b]!;
+    }
+  }
+}
+
+/** Junction voltage of a string with `u` across it (Newton from above on a convex, rising function). */
+export function branchJunction(d: DiodeString, u: number): number {
+  let x = junctionCeiling(d, u);
+  for (let it = 0; it < 200; it++) {
+    const e = Math.exp(x / d.nvt);
+    const h = x + d.r * d.is * (e - 1) - u;
+    const dx = h / (1 + (d.r * d.is * e) / d.nvt);
+    x -= dx;
+    if (Math.abs(dx) < 1e-13) break;
+  }
+  return x;
+}
+
+/** Net current leaving the node at voltage v, A (falls as v rises: the root is unique). */
+export function nodeCurrent(net: ShaperNet, vin: number, v: number): number {
+  let f = net.gs * (vin - v) - net.gl * v;
+  for (const br of net.branches) {
+    const x = branchJunction(br.diodes, br.sign * (v - br.bias));
+    f -= br.sign * br.diodes.is * Math.expm1(x / br.diodes.nvt);
+  }
+  return f;
+}
+
+/** The slow, sure way: bisection between limits the node cannot leave. */
+function bisect(net: ShaperNet, vin: number): number {
+  let lo = Math.min(vin, 0);
+  let hi = Math.max(vin, 0);
+  for (const br of net.branches) {
+    lo = Math.min(lo, br.bias);
+    hi = Math.max(hi, br.bias);
+  }
+  lo -= 1;
+  hi += 1;
+  for (let it = 0; it < 200 && hi - lo > 1e-12; it++) {
+    const mid = 0.5 * (lo + hi);
+    if (nodeCurrent(net, vin, mid) > 0) lo = mid;
+    else hi = mid;
+  }
+  return 0.5 * (lo + hi);
+}
