@@ -1,7 +1,124 @@
-import type { Command } from './command.js';
+import { openLog } from '../log/store.js';
+import type { LogIndex } from '../log/types.js';
+import type { BandSource } from '../review/bands.js';
+import { batchFigures, revisionsOf, weakestFirst } from '../review/batch.js';
+import { batchJson } from '../review/batch-json.js';
+import type { BatchFigures } from '../review/batch-types.js';
+import { describeFilter, parseDateBound, type BatchFilter } from '../review/filter.js';
+import { cell, cpkWord, fig, index2, pct, rcell } from '../review/format.js';
+import { planBandSource } from '../ui/batch/plan-bands.js';
+import { parseArgs, type ParsedArgs } from './args.js';
+import type { Command, CommandIo } from './command.js';
+import { UsageError } from './errors.js';
+import { resolveLogDir } from './log-dir.js';
 
-// PLACEHOLDER until the command is written.
-export const batchCommand: Command = async (_argv, io) => {
-  io.stderr('probebook: batch is not built yet\n');
-  return 1;
+/** Options every batch view shares (the shell table, the JSON and the reports). */
+export const batchOptions = { plan: 'string', rev: 'string', check: 'string', from: 'string', to: 'string', log: 'string' } as const;
+
+const usage = 'probebook batch [--plan ID] [--rev HASH] [--check ID] [--from DATE] [--to DATE] [--json] [--log DIR]';
+
+/** The filter the options describe, or a UsageError that says what to type. */
+export function filterFromOptions(options: ParsedArgs['options']): BatchFilter {
+  const text = (name: string): string | undefined => {
+    const v = options[name];
+    if (v === undefined) return undefined;
+    if (typeof v !== 'string' || v.trim() === '') throw new UsageError(`--${name} needs a value`);
+    return v.trim();
+  };
+  const date = (name: 'from' | 'to'): number | undefined => {
+    const v = text(name);
+    if (v === undefined) return undefined;
+    const ms = parseDateBound(v, name);
+    if (ms === null) throw new UsageError(`--${name} ${JSON.stringify(v)} is not a date; write e.g. 2026-11-30 or 2026-11-30T14:00:00Z`);
+    return ms;
+  };
+  const rev = text('rev');
+  if (rev !== undefined && !/^[0-9a-f]{4,64}$/i.test(rev)) throw new UsageError(`--rev ${JSON.stringify(rev)} is not a plan hash; give at least 4 hex digits of it (history shows them)`);
+  const filter: BatchFilter = {
+    ...(text('plan') === undefined ? {} : { plan: text('plan') as string }),
+    ...(rev === undefined ? {} : { revision: rev.toLowerCase() }),
+    ...(text('check') === undefined ? {} : { check: text('check') as string }),
+    ...(date('from') === undefined ? {} : { from: date('from') as number }),
+    ...(date('to') === undefined ? {} : { to: date('to') as number }),
+  };
+  if (filter.from !== undefined && filter.to !== undefined && filter.from > filter.to) throw new UsageError('--from is after --to; swap them');
+  return filter;
+}
+
+/** Refuse a plan or check the log has never seen, naming the ones it has. */
+function checkFilterAgainstIndex(index: LogIndex, filter: BatchFilter, dir: string): void {
+  const boards = Object.values(index.boards);
+  if (filter.plan !== undefined && !boards.some((b) => b.plan === filter.plan)) {
+    const plans = [...new Set(boards.map((b) => b.plan).filter((p): p is string => p !== null))].sort();
+    throw new UsageError(`no boards of plan ${JSON.stringify(filter.plan)} in the log ${dir}; ${plans.length ? `plans there: ${plans.slice(0, 8).join(', ')}` : 'it has no runs yet'}`);
+  }
+  if (filter.check !== undefined && !boards.some((b) => filter.check !== undefined && filter.check in b.checks)) {
+    throw new UsageError(`no readings of check ${JSON.stringify(filter.check)} in the log ${dir}; check ids look like osc.freq or rails.+12V.dc (targets PLAN lists them)`);
+  }
+}
+
+/** Read the index, load the bands of the revisions it selects, and compute the figures. */
+export async function loadBatch(
+  index: LogIndex,
+  bands: BandSource,
+  filter: BatchFilter,
+): Promise<BatchFigures> {
+  const snapshots = await bands.load(revisionsOf(index, filter));
+  return batchFigures(index, snapshots, filter, bands.problems());
+}
+
+/** Open the log, check the filter, compute. Progress of an index rebuild goes to stderr. */
+export async function runBatch(options: ParsedArgs['options'], io: CommandIo): Promise<{ figures: BatchFigures; filter: BatchFilter; dir: string }> {
+  const filter = filterFromOptions(options);
+  const dir = resolveLogDir(options.log, io.env);
+  const log = await openLog(dir);
+  let shown = 0;
+  const index = await log.readIndex((done, total) => {
+    // A rebuild of thousands of boards takes a while: say so every tenth.
+    if (total >= 500 && (done === total || done - shown >= total / 10)) {
+      shown = done;
+      io.stderr(`reading board files for the index: ${done} of ${total}\n`);
+    }
+  });
+  checkFilterAgainstIndex(index, filter, dir);
+  return { figures: await loadBatch(index, planBandSource(log), filter), filter, dir };
+}
+
+/** The readable table: weakest check first. */
+export function batchTable(f: BatchFigures, filter: BatchFilter): string {
+  const lines: string[] = [];
+  lines.push(`batch · ${describeFilter(filter)} · ${f.boards} board${f.boards === 1 ? '' : 's'}${f.incomplete ? ` (${f.incomplete} not through every check)` : ''}`);
+  lines.push(`first-pass yield ${pct(f.firstPassYield)} (${f.firstPassBoards}/${f.boards}) · final yield ${pct(f.finalYield)} (${f.finalPassBoards}/${f.boards})`);
+  if (f.checks.length === 0) {
+    lines.push('no readings match; widen the filter or record some readings first');
+    return `${lines.join('\n')}\n`;
+  }
+  lines.push('');
+  lines.push(`${cell('check (weakest first)', 24)}${rcell('n', 6)}${rcell('pass', 6)}${rcell('marg', 5)}${rcell('fail', 5)}${rcell('final', 8)}${rcell('mean', 12)}${rcell('sd', 11)}${rcell('Cp', 6)}${rcell('Cpk', 6)}  capability`);
+  for (const c of [...f.checks].sort(weakestFirst)) {
+    const word = c.status === 'ok' || c.status === 'one-sided' ? cpkWord(c.cpk) : c.status === 'no-band' ? 'no band' : 'not enough data';
+    lines.push(
+      `${cell(c.check, 24)}${rcell(String(c.n), 6)}${rcell(String(c.pass), 6)}${rcell(String(c.marginal), 5)}${rcell(String(c.fail), 5)}${rcell(pct(c.finalYield), 8)}${rcell(fig(c.mean, c.unit), 12)}${rcell(fig(c.sd, c.unit, 3), 11)}${rcell(index2(c.cp), 6)}${rcell(index2(c.cpk), 6)}  ${word}`,
+    );
+  }
+  const plans = new Set(f.checks.map((c) => c.plan));
+  if (plans.size > 1) lines.push('', `several plans are mixed (${[...plans].join(', ')}); pass --plan ID to review one`);
+  const notes = f.checks.filter((c) => c.status !== 'ok');
+  for (const c of notes) lines.push(`${c.check}: ${c.note}`);
+  for (const c of f.checks.filter((x) => x.bandsDiffer)) lines.push(`${c.check}: boards of older plan revisions were judged against a different band`);
+  const outliers = f.checks.flatMap((c) => c.outliers.map((o) => `${o.serial} (${c.check} ${fig(o.value, c.unit)}, ${o.reasons.join(', ')})`));
+  if (outliers.length > 0) {
+    lines.push('', `outlier boards (${outliers.length}): ${outliers.slice(0, 8).join('; ')}${outliers.length > 8 ? '; …' : ''}`);
+    lines.push('open one with: probebook history SERIAL');
+  }
+  for (const p of f.problems) lines.push(`warning: ${p.message}`);
+  return `${lines.join('\n')}\n`;
+}
+
+export const batchCommand: Command = async (argv, io) => {
+  const args = parseArgs(argv, { options: { ...batchOptions, json: 'boolean' }, usage });
+  const { figures, filter } = await runBatch(args.options, io);
+  if (args.options.json) io.stdout(`${JSON.stringify(batchJson(figures, describeFilter(filter)))}\n`);
+  else io.stdout(batchTable(figures, filter));
+  return 0;
 };

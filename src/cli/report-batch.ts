@@ -1,7 +1,25 @@
+import { batchCsv } from '../review/batch-csv.js';
+import { batchMarkdown } from '../review/batch-md.js';
+import { describeFilter } from '../review/filter.js';
+import { parseArgs } from './args.js';
+import { batchOptions, runBatch } from './batch.js';
 import type { Command } from './command.js';
+import { UsageError } from './errors.js';
 
-// PLACEHOLDER until the batch report is written.
-export const reportBatchCommand: Command = async (_argv, io) => {
-  io.stderr('probebook: report --batch is not built yet\n');
-  return 1;
+const usage = 'probebook report --batch --format md|csv [--plan ID] [--rev HASH] [--check ID] [--from DATE] [--to DATE] [--log DIR]';
+
+/**
+ * `report --batch`: the batch figures as a file a quality engineer can keep —
+ * Markdown to read, or CSV (RFC 4180) with the same figures as `batch --json`.
+ */
+export const reportBatchCommand: Command = async (argv, io) => {
+  const args = parseArgs(argv, { options: { ...batchOptions, batch: 'boolean', format: 'string' }, usage });
+  const format = args.options.format;
+  if (format === undefined) throw new UsageError(`--format is needed: md for a readable report, csv for a spreadsheet; usage: ${usage}`);
+  if (format !== 'md' && format !== 'csv') throw new UsageError(`--format ${JSON.stringify(format)} is not known; use md or csv`);
+  const { figures, filter, dir } = await runBatch(args.options, io);
+  if (format === 'csv') io.stdout(batchCsv(figures));
+  else io.stdout(batchMarkdown(figures, { filter: describeFilter(filter), generated: new Date().toISOString(), logDir: dir }));
+  for (const p of figures.problems) io.stderr(`probebook: warning: ${p.message}\n`);
+  return 0;
 };

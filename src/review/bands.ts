@@ -27,11 +27,17 @@ export interface SnapshotProblem {
   readonly message: string;
 }
 
+/** What the target engine returns, as far as the review needs it. */
+export interface TargetList {
+  readonly plan: string;
+  readonly targets: readonly Target[];
+}
+
 export interface BandSourceDeps {
   /** The exact plan text of a snapshot (the log's `readPlanSnapshot`), or null. */
   readonly readSnapshot: (hash: string) => Promise<string | null>;
   /** Load a plan text and compute its targets (the plan loader and target engine). */
-  readonly targetsOf: (text: string, hash: string) => { readonly plan: string; readonly targets: readonly Target[] };
+  readonly targetsOf: (text: string, hash: string) => TargetList | Promise<TargetList>;
 }
 
 /** Targets per plan hash, computed once per hash however often they are asked for. */
@@ -44,7 +50,7 @@ export interface BandSource {
 }
 
 /** Reduce a target set to the bands the review needs. */
-export function toSnapshotBands(hash: string, set: { readonly plan: string; readonly targets: readonly Target[] }): SnapshotBands {
+export function toSnapshotBands(hash: string, set: TargetList): SnapshotBands {
   const bands = new Map<string, CheckBand>();
   for (const t of set.targets) {
     bands.set(t.check, { check: t.check, unit: t.unit, nominal: t.nominal, worst: t.worst, stat: t.stat, testPoint: t.testPoint, how: t.how });
@@ -70,7 +76,7 @@ export function createBandSource(deps: BandSourceDeps): BandSource {
           return null;
         }
         try {
-          return toSnapshotBands(hash, deps.targetsOf(text, hash));
+          return toSnapshotBands(hash, await deps.targetsOf(text, hash));
         } catch (error) {
           const message = error instanceof Error ? error.message.split('\n')[0] : String(error);
           problems.set(hash, `plan snapshot ${hash.slice(0, 12)} would not load: ${message}`);

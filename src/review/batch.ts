@@ -1,5 +1,5 @@
 import type { Band } from '../analysis/types.js';
-import type { LogIndex } from '../log/types.js';
+import type { BoardSummary, LogIndex } from '../log/types.js';
 import type { SnapshotBands, SnapshotProblem } from './bands.js';
 import type { BatchCheck, BatchFigures, BatchPoint, Outlier, OutlierReason } from './batch-types.js';
 import { capabilityOf } from './capability.js';
@@ -10,6 +10,68 @@ interface Group {
   readonly plan: string | null;
   readonly check: string;
   readonly points: BatchPoint[];
+}
+
+/** Feeds boards one at a time, so a long scan can yield to the screen between chunks. */
+export interface BatchAccumulator {
+  add(board: BoardSummary): void;
+  finish(problems?: readonly SnapshotProblem[]): BatchFigures;
+}
+
+/** Start a batch scan over index boards with the bands of their plan snapshots. */
+export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filter: BatchFilter = {}): BatchAccumulator {
+  const groups = new Map<string, Group>();
+  let boards = 0;
+  let firstPassBoards = 0;
+  let finalPassBoards = 0;
+  let incomplete = 0;
+  return {
+    add(board) {
+      if (!boardMatches(board, filter)) return;
+      let any = false;
+      let firstOk = true;
+      let finalOk = true;
+      for (const check in board.checks) {
+        const summary = board.checks[check];
+        if (!summary || !checkMatches(check, summary, filter)) continue;
+        any = true;
+        if (summary.first.verdict !== 'pass') firstOk = false;
+        if (summary.latest.verdict !== 'pass') finalOk = false;
+        const key = `${board.plan ?? ''}\u0000${check}`;
+        let group = groups.get(key);
+        if (!group) groups.set(key, (group = { plan: board.plan, check, points: [] }));
+        group.points.push({
+          serial: board.serial,
+          value: summary.latest.value,
+          at: summary.latest.at,
+          time: Date.parse(summary.latest.at),
+          verdict: summary.latest.verdict,
+          firstVerdict: summary.first.verdict,
+          revision: board.planHash,
+        });
+      }
+      if (!any) return;
+      boards++;
+      if (firstOk) firstPassBoards++;
+      if (finalOk) finalPassBoards++;
+      const own = board.planHash ? bands.get(board.planHash) : undefined;
+      if (own && filter.check === undefined && own.order.some((c) => !(c in board.checks))) incomplete++;
+    },
+    finish(problems = []) {
+      const checks = [...groups.values()].map((g) => checkFigures(g, bands));
+      checks.sort(planOrder(bands));
+      return {
+        boards,
+        firstPassBoards,
+        finalPassBoards,
+        firstPassYield: boards > 0 ? firstPassBoards / boards : null,
+        finalYield: boards > 0 ? finalPassBoards / boards : null,
+        incomplete,
+        checks,
+        problems,
+      };
+    },
+  };
 }
 
 /**
@@ -23,53 +85,22 @@ export function batchFigures(
   filter: BatchFilter = {},
   problems: readonly SnapshotProblem[] = [],
 ): BatchFigures {
-  const groups = new Map<string, Group>();
-  let boards = 0;
-  let firstPassBoards = 0;
-  let finalPassBoards = 0;
-  let incomplete = 0;
-  for (const board of Object.values(index.boards)) {
-    if (!boardMatches(board, filter)) continue;
-    let any = false;
-    let firstOk = true;
-    let finalOk = true;
-    for (const [check, summary] of Object.entries(board.checks)) {
-      if (!checkMatches(check, summary, filter)) continue;
-      any = true;
-      if (summary.first.verdict !== 'pass') firstOk = false;
-      if (summary.latest.verdict !== 'pass') finalOk = false;
-      const key = `${board.plan ?? ''}\u0000${check}`;
-      let group = groups.get(key);
-      if (!group) groups.set(key, (group = { plan: board.plan, check, points: [] }));
-      group.points.push({
-        serial: board.serial,
-        value: summary.latest.value,
-        at: summary.latest.at,
-        time: Date.parse(summary.latest.at),
-        verdict: summary.latest.verdict,
-        firstVerdict: summary.first.verdict,
-        revision: board.planHash,
-      });
-    }
-    if (!any) continue;
-    boards++;
-    if (firstOk) firstPassBoards++;
-    if (finalOk) finalPassBoards++;
-    const own = board.planHash ? bands.get(board.planHash) : undefined;
-    if (own && filter.check === undefined && own.order.some((c) => !(c in board.checks))) incomplete++;
+  const acc = batchAccumulator(bands, filter);
+  for (const serial in index.boards) {
+    const board = index.boards[serial];
+    if (board) acc.add(board);
   }
-  const checks = [...groups.values()].map((g) => checkFigures(g, bands));
-  checks.sort(planOrder(bands));
-  return {
-    boards,
-    firstPassBoards,
-    finalPassBoards,
-    firstPassYield: boards > 0 ? firstPassBoards / boards : null,
-    finalYield: boards > 0 ? finalPassBoards / boards : null,
-    incomplete,
-    checks,
-    problems,
-  };
+  return acc.finish(problems);
+}
+
+/** Plan hashes of the boards a filter selects (the snapshots to load). */
+export function revisionsOf(index: LogIndex, filter: BatchFilter = {}): string[] {
+  const out = new Set<string>();
+  for (const serial in index.boards) {
+    const board = index.boards[serial];
+    if (board?.planHash && boardMatches(board, filter)) out.add(board.planHash);
+  }
+  return [...out];
 }
 
 function checkFigures(group: Group, bands: ReadonlyMap<string, SnapshotBands>): BatchCheck {

@@ -56,5 +56,17 @@ describe('capability (NIST/SEMATECH e-Handbook §6.1.6)', () => {
     expect(flat).toMatchObject({ cp: null, cpk: null, status: 'no-spread' });
     expect(flat.note).toContain('not enough data');
     expect(capabilityOf(spreadOf([1, 2]), null)).toMatchObject({ cp: null, cpk: null, status: 'no-band' });
+    expect(capabilityOf(spreadOf([1, 2]), { min: -Infinity, max: Infinity })).toMatchObject({ cp: null, cpk: null, status: 'no-band' });
+  });
+
+  test('a one-sided band (idle-current ceiling) gives Cpk from that side (Cpu, §6.1.6) and no Cp', () => {
+    // mean 30 mA, s 2 mA, ceiling 45 mA: Cpu = (45 − 30)/(3·2) = 2.5
+    const c = capabilityOf(spreadOf([0.028, 0.03, 0.032]), { min: 0, max: Infinity });
+    expect(c.status).toBe('one-sided');
+    expect(c.cp).toBeNull();
+    // Cpl = (30 − 0)/(3·2) = 5 from the floor at 0 A
+    expect(c.cpk).toBeCloseTo(5, 9);
+    const ceiling = capabilityOf(spreadOf([0.028, 0.03, 0.032]), { min: -Infinity, max: 0.045 });
+    expect(ceiling.cpk).toBeCloseTo(2.5, 9);
   });
 });

@@ -43,11 +43,11 @@ export function histogramChart(values: readonly number[], options: HistogramChar
   }
   lines.push(`${'0'.padStart(gutter - 2)} └${'─'.repeat(bins)}`);
   const marks = new Array<string>(bins).fill(' ');
-  if (options.nominal !== undefined && options.nominal !== null) marks[binOf(h, options.nominal)] = 'N';
-  if (options.band) {
-    marks[binOf(h, options.band.min)] = '[';
-    marks[binOf(h, options.band.max)] = ']';
-  }
+  const nominal = options.nominal ?? null;
+  if (nominal !== null && Number.isFinite(nominal)) marks[binOf(h, nominal)] = 'N';
+  // An open side of a one-sided band (±∞) has no edge to mark.
+  if (options.band && Number.isFinite(options.band.min)) marks[binOf(h, options.band.min)] = '[';
+  if (options.band && Number.isFinite(options.band.max)) marks[binOf(h, options.band.max)] = ']';
   lines.push(`${' '.repeat(gutter)}${marks.join('')}`);
   const lo = show(h.lo);
   const hi = show(h.hi);

@@ -24,26 +24,28 @@ export function trendChart(values: readonly number[], options: TrendChartOptions
   if (finite.length === 1) return 'one reading: a trend needs at least two';
   const unit = options.unit ?? null;
   const labelWidth = options.labelWidth ?? 11;
-  const band = options.band ?? null;
+  // Only finite band edges are drawn: an open side (±∞) has no line.
+  const bandMin = options.band && Number.isFinite(options.band.min) ? options.band.min : null;
+  const bandMax = options.band && Number.isFinite(options.band.max) ? options.band.max : null;
   let min = Math.min(...finite);
   let max = Math.max(...finite);
-  if (band) {
-    min = Math.min(min, band.min);
-    max = Math.max(max, band.max);
-  }
+  if (bandMin !== null) min = Math.min(min, bandMin);
+  if (bandMax !== null) max = Math.max(max, bandMax);
   if (min === max) {
     const half = min === 0 ? 1 : Math.abs(min) * 0.01;
     min -= half;
     max += half;
   }
   const series: number[][] = [finite];
-  if (band) series.push(finite.map(() => band.max), finite.map(() => band.min));
+  if (bandMax !== null) series.push(finite.map(() => bandMax));
+  if (bandMin !== null) series.push(finite.map(() => bandMin));
+  const hasBand = bandMin !== null || bandMax !== null;
   const chart = plot(series, {
     height: Math.max(2, Math.floor(options.height ?? 6)),
     min,
     max,
     format: (x: number) => (unit ? formatValue(x, unit, { digits: 4 }) : String(Number(x.toPrecision(4)))).padStart(labelWidth),
   });
-  const legend = band ? `oldest → newest, ${finite.length} points; flat lines: band edges` : `oldest → newest, ${finite.length} points`;
+  const legend = hasBand ? `oldest → newest, ${finite.length} points; flat lines: band edges` : `oldest → newest, ${finite.length} points`;
   return `${chart}\n${' '.repeat(labelWidth + 2)}${legend}`;
 }
