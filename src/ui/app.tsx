@@ -1,0 +1,116 @@
+import { useCallback, useState } from 'react';
+import { Box, useApp, useInput } from 'ink';
+import type { BenchLog } from '../log/types.js';
+import { BatchScreen } from './batch/batch.js';
+import { BenchScreen } from './bench/bench.js';
+import type { PlanCatalog } from './bench/plan-catalog.js';
+import { BringUpScreen } from './bring-up/bring-up.js';
+import { ConfirmQuit } from './components/confirm-quit.js';
+import { type Size, useTerminalSize } from './components/use-terminal-size.js';
+import { WithTargets } from './components/with-targets.js';
+import { HistoryScreen } from './history/history.js';
+import { PlanScreen } from './plan-screen/plan-screen.js';
+
+/** A screen and what it shows (DESIGN §8 names). */
+export type Route =
+  | { readonly screen: 'bench' }
+  | { readonly screen: 'bring-up'; readonly serial: string; readonly planHash: string; readonly resumeRun?: string }
+  | { readonly screen: 'history'; readonly serial: string }
+  | { readonly screen: 'batch' }
+  | { readonly screen: 'plan'; readonly planHash: string };
+
+export interface AppProps {
+  readonly log: BenchLog;
+  readonly catalog: PlanCatalog;
+  readonly operator: string;
+  /** A fixed size instead of the terminal's (tests, benchmarks). */
+  readonly size?: Partial<Size>;
+  /** Where to start. @default bench */
+  readonly initialRoute?: Route;
+}
+
+/** Switches screens and owns the quit dialog; every screen keeps its own state. */
+export function App({ log, catalog, operator, size, initialRoute = { screen: 'bench' } }: AppProps) {
+  const { exit } = useApp();
+  const { width, height } = useTerminalSize(size);
+  const [stack, setStack] = useState<readonly Route[]>([initialRoute]);
+  const [lastSerial, setLastSerial] = useState<string | undefined>(undefined);
+  const [isDirty, setDirty] = useState(false);
+  const [isTyping, setTyping] = useState(false);
+  const [isConfirming, setConfirming] = useState(false);
+  const route = stack[stack.length - 1] ?? { screen: 'bench' };
+
+  const push = useCallback((next: Route) => {
+    if ('serial' in next) setLastSerial(next.serial);
+    setDirty(false);
+    setTyping(false);
+    setStack((s) => [...s, next]);
+  }, []);
+  const back = useCallback(() => {
+    setDirty(false);
+    setTyping(false);
+    setStack((s) => (s.length > 1 ? s.slice(0, -1) : s));
+  }, []);
+
+  useInput(
+    (input) => {
+      if (input !== 'q') return;
+      if (isDirty) setConfirming(true);
+      else exit();
+    },
+    { isActive: !isConfirming && !isTyping },
+  );
+
+  const isActive = !isConfirming;
+  const common = { log, width, height: isConfirming ? Math.max(5, height - 5) : height, isActive, onExit: back };
+  const go = {
+    onOpenRun: (serial: string, planHash: string, resumeRun?: string) =>
+      push({ screen: 'bring-up', serial, planHash, ...(resumeRun ? { resumeRun } : {}) }),
+    onHistory: (serial: string) => push({ screen: 'history', serial }),
+    onBatch: () => push({ screen: 'batch' }),
+    onPlan: (planHash: string) => push({ screen: 'plan', planHash }),
+  };
+
+  let screen;
+  switch (route.screen) {
+    case 'bench':
+      screen = <BenchScreen {...common} catalog={catalog} go={go} onTypingChange={setTyping} {...(lastSerial ? { initialSerial: lastSerial } : {})} />;
+      break;
+    case 'bring-up':
+      screen = (
+        <WithTargets catalog={catalog} planHash={route.planHash} onExit={back} isActive={isActive}>
+          {(plan, targets) => (
+            <BringUpScreen
+              {...common}
+              plan={plan}
+              targets={targets}
+              serial={route.serial}
+              operator={operator}
+              onDirtyChange={setDirty}
+              {...(route.resumeRun ? { resumeRun: route.resumeRun } : {})}
+            />
+          )}
+        </WithTargets>
+      );
+      break;
+    case 'history':
+      screen = <HistoryScreen {...common} serial={route.serial} />;
+      break;
+    case 'batch':
+      screen = <BatchScreen {...common} onOpenBoard={(serial) => push({ screen: 'history', serial })} />;
+      break;
+    case 'plan':
+      screen = (
+        <WithTargets catalog={catalog} planHash={route.planHash} onExit={back} isActive={isActive}>
+          {(plan, targets) => <PlanScreen {...common} plan={plan} targets={targets} />}
+        </WithTargets>
+      );
+      break;
+  }
+  return (
+    <Box flexDirection="column" width={width}>
+      {screen}
+      {isConfirming ? <ConfirmQuit reason="A reading is half typed" onQuit={exit} onStay={() => setConfirming(false)} /> : null}
+    </Box>
+  );
+}

@@ -1,0 +1,77 @@
+import { useEffect, useRef } from 'react';
+import { Box, Text } from 'ink';
+import type { ScreenProps } from '../screen-props.js';
+import { Header } from '../components/header.js';
+import { HelpBox } from '../components/help-box.js';
+import { KeyBar } from '../components/key-bar.js';
+import { scrollWindow } from '../components/scroll-window.js';
+import { toneProps } from '../theme.js';
+import { BoardFilter } from './board-filter.js';
+import { BoardList } from './board-list.js';
+import { benchHelp, benchKeys, benchNotes } from './bench-help.js';
+import { PlanChoices, SerialEntry } from './new-board.js';
+import type { PlanCatalog } from './plan-catalog.js';
+import { type BenchTargets, useBenchState } from './use-bench-state.js';
+import { useBenchKeys } from './use-bench-keys.js';
+
+export interface BenchProps extends ScreenProps {
+  readonly catalog: PlanCatalog;
+  /** Where Enter, n, h, b and p lead. */
+  readonly go: BenchTargets;
+  /** The board to select on arrival (the one last opened). */
+  readonly initialSerial?: string;
+  /** Tell the app a text field has the keys, so `q` is a letter, not quit. */
+  readonly onTypingChange?: (isTyping: boolean) => void;
+}
+
+/** The bench screen: every board in the log, and the way into a run. */
+export function BenchScreen({ log, catalog, go, width, height, isActive = true, initialSerial, onTypingChange }: BenchProps) {
+  const state = useBenchState(log, catalog, go, initialSerial);
+  const { mode, boards, selected, message } = state;
+  const dialogRows = mode.kind === 'new-serial' ? 5 : mode.kind === 'choose-plan' ? mode.choices.length + 3 : mode.kind === 'confirm-run' ? 4 : 0;
+  const listRows = Math.max(1, height - 5 - dialogRows);
+  useBenchKeys(state, listRows, isActive);
+  const isTyping = mode.kind === 'new-serial' || mode.kind === 'filter';
+  useEffect(() => onTypingChange?.(isTyping), [isTyping, onTypingChange]);
+  const start = useRef(0);
+  const view = scrollWindow(boards.length, selected, listRows, start.current);
+  start.current = view.start;
+
+  if (mode.kind === 'help') return <HelpBox title="bench" entries={benchHelp} notes={benchNotes} width={width} />;
+  const count = state.filter ? `${boards.length} of ${state.total} boards` : `${state.total} boards`;
+  return (
+    <Box flexDirection="column" width={width}>
+      <Header screen="bench" detail={count} note={log.dir} width={width} />
+      {state.isLoading ? <Text>Reading the log index…</Text> : null}
+      {state.loadError ? <Text {...toneProps('bad')}>✗ {state.loadError}</Text> : null}
+      {!state.isLoading && state.total === 0 ? (
+        <Text>No boards in this log yet. Press n to enter the first board’s serial.</Text>
+      ) : (
+        <BoardList boards={boards} start={view.start} rows={listRows} selected={selected} width={width} />
+      )}
+      {mode.kind === 'new-serial' ? (
+        <SerialEntry isActive={isActive} onSubmit={state.submitSerial} onCancel={() => state.setMode({ kind: 'list' })} />
+      ) : null}
+      {mode.kind === 'choose-plan' ? <PlanChoices serial={mode.serial} choices={mode.choices} selected={mode.selected} width={width} /> : null}
+      {mode.kind === 'confirm-run' ? (
+        <Box flexDirection="column" borderStyle="single" paddingX={1}>
+          <Text wrap="truncate-end">
+            Start a new run on {mode.board.serial} ({mode.board.state}, {mode.board.runs} runs so far) with plan {mode.plan.plan}?
+          </Text>
+          <Text {...toneProps('dim')}>Enter or y: start · Esc or n: cancel</Text>
+        </Box>
+      ) : null}
+      {mode.kind === 'filter' ? (
+        <BoardFilter initial={state.filter} onChange={state.setFilter} onDone={() => state.setMode({ kind: 'list' })} isActive={isActive} />
+      ) : null}
+      {mode.kind === 'busy' ? <Text>{mode.what}</Text> : null}
+      {message ? (
+        <Text wrap="truncate-end" {...toneProps(message.tone === 'error' ? 'bad' : 'accent')}>
+          {message.tone === 'error' ? '✗ ' : ''}
+          {message.text}
+        </Text>
+      ) : null}
+      <KeyBar hints={benchKeys} width={width} />
+    </Box>
+  );
+}

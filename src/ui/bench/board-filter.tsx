@@ -1,0 +1,31 @@
+import { Text } from 'ink';
+import { TextField } from '../components/text-field.js';
+import { useTextField } from '../components/use-text-field.js';
+
+export interface BoardFilterProps {
+  readonly initial: string;
+  readonly onChange: (text: string) => void;
+  readonly onDone: () => void;
+  /** @default true */
+  readonly isActive?: boolean;
+}
+
+/** `/` narrows the list to serials or plans containing the text, as it is typed. */
+export function BoardFilter({ initial, onChange, onDone, isActive = true }: BoardFilterProps) {
+  const { value } = useTextField({
+    initial,
+    onChange,
+    onSubmit: onDone,
+    onCancel: () => {
+      onChange('');
+      onDone();
+    },
+    isActive,
+  });
+  return (
+    <Text>
+      <TextField label="filter" value={value} placeholder="part of a serial or plan id" />
+      <Text> (Enter keeps it · Esc clears)</Text>
+    </Text>
+  );
+}

@@ -1,0 +1,100 @@
+import { computeTargets } from '../../analysis/targets.js';
+import type { TargetSet } from '../../analysis/types.js';
+import type { BenchLog, BoardSummary, LogIndex } from '../../log/types.js';
+import { loadPlanText } from '../../plan/load.js';
+import type { Plan } from '../../plan/types.js';
+
+/** A plan the technician may pick for a new board. */
+export interface PlanChoice {
+  readonly plan: Plan;
+  /** `file`: given with `--plan`; `log`: a snapshot some board's run used. */
+  readonly origin: 'file' | 'log';
+  /** How many boards in the log last ran it. */
+  readonly boards: number;
+}
+
+export interface TargetOptions {
+  /** Monte Carlo trials. @default 10000 (as `probebook targets`) */
+  readonly trials?: number;
+  /** @default 1 (as `probebook targets`) */
+  readonly seed?: number;
+}
+
+/**
+ * The plans the app can open: the files given with `--plan` and the exact
+ * snapshots in the log, each loaded once and its targets computed once.
+ */
+export class PlanCatalog {
+  private readonly plans = new Map<string, Plan>();
+  private readonly targetSets = new Map<string, TargetSet>();
+  /** Snapshots that could not be loaded, with the reason, by hash. */
+  readonly broken = new Map<string, string>();
+
+  constructor(
+    private readonly log: BenchLog,
+    readonly filePlans: readonly Plan[],
+    private readonly options: TargetOptions = {},
+  ) {
+    for (const plan of filePlans) this.plans.set(plan.hash, plan);
+  }
+
+  /** A plan by its hash: a `--plan` file, else the log's snapshot; null when neither has it. */
+  async byHash(hash: string): Promise<Plan | null> {
+    const known = this.plans.get(hash);
+    if (known) return known;
+    if (this.broken.has(hash)) return null;
+    const text = await this.log.readPlanSnapshot(hash);
+    if (text === null) return null;
+    try {
+      const plan = loadPlanText(text, `log snapshot ${hash.slice(0, 8)}`);
+      this.plans.set(hash, plan);
+      return plan;
+    } catch (error) {
+      this.broken.set(hash, error instanceof Error ? error.message : String(error));
+      return null;
+    }
+  }
+
+  /**
+   * The plan for a board's next run: the `--plan` file of the same plan id
+   * (the current revision on the bench), else the snapshot its last run used.
+   */
+  async forBoard(board: Pick<BoardSummary, 'plan' | 'planHash'>): Promise<Plan | null> {
+    const sameHash = this.filePlans.find((p) => p.hash === board.planHash);
+    if (sameHash) return sameHash;
+    const sameId = this.filePlans.find((p) => p.plan === board.plan);
+    if (sameId) return sameId;
+    return board.planHash ? this.byHash(board.planHash) : null;
+  }
+
+  /** Plans to offer for a new board: the files first, then the log's other snapshots, most used first. */
+  async choices(index: LogIndex): Promise<PlanChoice[]> {
+    const counts = new Map<string, number>();
+    for (const board of Object.values(index.boards)) {
+      if (board.planHash) counts.set(board.planHash, (counts.get(board.planHash) ?? 0) + 1);
+    }
+    const out: PlanChoice[] = this.filePlans.map((plan) => ({ plan, origin: 'file', boards: counts.get(plan.hash) ?? 0 }));
+    const fileHashes = new Set(this.filePlans.map((p) => p.hash));
+    const others = [...counts.entries()].filter(([hash]) => !fileHashes.has(hash)).sort((a, b) => b[1] - a[1]);
+    for (const [hash, boards] of others) {
+      const plan = await this.byHash(hash);
+      if (plan) out.push({ plan, origin: 'log', boards });
+    }
+    return out;
+  }
+
+  /** The targets of a plan (computed once; the Monte Carlo is seeded, so always the same). */
+  targets(plan: Plan): TargetSet {
+    let set = this.targetSets.get(plan.hash);
+    if (!set) {
+      set = computeTargets(plan, { trials: this.options.trials ?? 10_000, seed: this.options.seed ?? 1 });
+      this.targetSets.set(plan.hash, set);
+    }
+    return set;
+  }
+
+  /** Whether the targets of a plan are ready without computing. */
+  hasTargets(plan: Plan): boolean {
+    return this.targetSets.has(plan.hash);
+  }
+}

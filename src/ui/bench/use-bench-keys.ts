@@ -1,0 +1,54 @@
+import { useInput } from 'ink';
+import { moveSelection } from '../components/scroll-window.js';
+import type { BenchState } from './use-bench-state.js';
+
+/**
+ * Keys of the bench screen. The serial and filter fields take their own keys
+ * (see `new-board.tsx`, `board-filter.tsx`); this hook is idle meanwhile.
+ */
+export function useBenchKeys(state: BenchState, pageSize: number, isActive: boolean) {
+  const { mode } = state;
+  const typing = mode.kind === 'new-serial' || mode.kind === 'filter' || mode.kind === 'busy';
+  useInput(
+    (input, key) => {
+      if (mode.kind === 'help') {
+        if (input === '?' || key.escape || key.return) state.setMode({ kind: 'list' });
+        return;
+      }
+      if (mode.kind === 'confirm-run') {
+        if (key.return || input === 'y') state.confirmRun();
+        else if (key.escape || input === 'n') state.setMode({ kind: 'list' });
+        return;
+      }
+      if (mode.kind === 'choose-plan') {
+        if (key.upArrow || input === 'k') state.movePlanChoice(-1);
+        else if (key.downArrow || input === 'j') state.movePlanChoice(1);
+        else if (key.return) state.choosePlan();
+        else if (key.escape) state.setMode({ kind: 'list' });
+        return;
+      }
+      const count = state.boards.length;
+      const move = (delta: number) => state.setSelected(moveSelection(state.selected, delta, count));
+      if (key.upArrow || input === 'k') move(-1);
+      else if (key.downArrow || input === 'j') move(1);
+      else if (key.pageUp) move(-pageSize);
+      else if (key.pageDown || input === ' ') move(pageSize);
+      else if (key.home || input === 'g') state.setSelected(0);
+      else if (key.end || input === 'G') state.setSelected(Math.max(0, count - 1));
+      else if (key.return) state.openSelected();
+      else if (input === 'n') {
+        state.setMessage(null);
+        state.setMode({ kind: 'new-serial' });
+      } else if (input === '/') state.setMode({ kind: 'filter' });
+      else if (input === 'h') state.openHistory();
+      else if (input === 'b') state.openBatch();
+      else if (input === 'p') state.openPlan();
+      else if (input === '?') state.setMode({ kind: 'help' });
+      else if (key.escape) {
+        if (state.filter) state.setFilter('');
+        state.setMessage(null);
+      }
+    },
+    { isActive: isActive && !typing },
+  );
+}

@@ -1,0 +1,190 @@
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import type { BenchLog, BoardSummary, LogIndex } from '../../log/types.js';
+import { validateSerial } from '../../log/serial.js';
+import type { Plan } from '../../plan/types.js';
+import { filterBoards, orderBoards } from './board-order.js';
+import type { PlanCatalog, PlanChoice } from './plan-catalog.js';
+
+/** What the bench screen is doing: listing, or one of its small dialogs. */
+export type BenchMode =
+  | { readonly kind: 'list' }
+  | { readonly kind: 'filter' }
+  | { readonly kind: 'new-serial' }
+  | { readonly kind: 'choose-plan'; readonly serial: string; readonly choices: readonly PlanChoice[]; readonly selected: number }
+  | { readonly kind: 'confirm-run'; readonly board: BoardSummary; readonly plan: Plan }
+  | { readonly kind: 'help' }
+  | { readonly kind: 'busy'; readonly what: string };
+
+/** Where the bench screen sends the technician; the app switches screens. */
+export interface BenchTargets {
+  readonly onOpenRun: (serial: string, planHash: string, resumeRun?: string) => void;
+  readonly onHistory: (serial: string) => void;
+  readonly onBatch: () => void;
+  readonly onPlan: (planHash: string) => void;
+}
+
+export interface Message {
+  readonly text: string;
+  readonly tone: 'info' | 'error';
+}
+
+/** The bench screen's state: the boards from the index, the selection, the dialogs. */
+export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTargets, initialSerial?: string) {
+  const [index, setIndex] = useState<LogIndex | null>(null);
+  const [loadError, setLoadError] = useState<string | null>(null);
+  const [selected, setSelected] = useState(0);
+  const [filter, setFilter] = useState('');
+  const [mode, setMode] = useState<BenchMode>({ kind: 'list' });
+  const [message, setMessage] = useState<Message | null>(null);
+  const mounted = useRef(true);
+  useEffect(() => () => void (mounted.current = false), []);
+
+  useEffect(() => {
+    log.readIndex().then(
+      (ix) => {
+        if (!mounted.current) return;
+        setIndex(ix);
+        if (initialSerial) {
+          const at = orderBoards(Object.values(ix.boards)).findIndex((b) => b.serial === initialSerial);
+          if (at >= 0) setSelected(at);
+        }
+      },
+      (error: unknown) => mounted.current && setLoadError(error instanceof Error ? error.message : String(error)),
+    );
+  }, [log, initialSerial]);
+
+  const all = useMemo(() => (index ? orderBoards(Object.values(index.boards)) : []), [index]);
+  const boards = useMemo(() => filterBoards(all, filter), [all, filter]);
+  const current: BoardSummary | undefined = boards[Math.min(selected, boards.length - 1)];
+
+  const fail = (error: unknown) => {
+    if (!mounted.current) return;
+    setMode({ kind: 'list' });
+    setMessage({ text: error instanceof Error ? error.message : String(error), tone: 'error' });
+  };
+
+  const noPlan = (serial: string) =>
+    `no plan for ${serial}: its plan is neither given with --plan nor kept in the log; restart with --plan FILE`;
+
+  /** Enter on a board: resume its unfinished run, else offer a new run with its plan. */
+  const openSelected = useCallback(() => {
+    const board = current;
+    if (!board) return;
+    setMode({ kind: 'busy', what: `opening ${board.serial}…` });
+    void (async () => {
+      const file = await log.readBoard(board.serial);
+      const open = file ? [...file.runs].reverse().find((r) => r.ended === null && r.outcome === 'in-progress') : undefined;
+      if (open) {
+        setMode({ kind: 'list' });
+        go.onOpenRun(board.serial, open.planHash, open.id);
+        return;
+      }
+      const plan = await catalog.forBoard(board);
+      if (!mounted.current) return;
+      if (!plan) {
+        setMode({ kind: 'list' });
+        setMessage({ text: noPlan(board.serial), tone: 'error' });
+        return;
+      }
+      setMode({ kind: 'confirm-run', board, plan });
+    })().catch(fail);
+  }, [current, log, catalog, go]);
+
+  const submitSerial = useCallback(
+    (text: string) => {
+      const serial = text.trim();
+      const problem = validateSerial(serial);
+      if (problem) {
+        setMessage({ text: problem, tone: 'error' });
+        return;
+      }
+      const existing = all.findIndex((b) => b.serial === serial);
+      if (existing >= 0) {
+        setFilter('');
+        setSelected(existing);
+        setMode({ kind: 'list' });
+        setMessage({ text: `${serial} is already in the log: selected it; Enter opens it`, tone: 'info' });
+        return;
+      }
+      setMessage(null);
+      setMode({ kind: 'busy', what: 'looking up plans…' });
+      void (async () => {
+        const choices = await catalog.choices(index ?? { schemaVersion: 1, boards: {} });
+        if (!mounted.current) return;
+        const only = choices[0];
+        if (choices.length === 0) {
+          setMode({ kind: 'list' });
+          setMessage({ text: 'no plan to choose from: start probebook with --plan FILE', tone: 'error' });
+        } else if (choices.length === 1 && only) {
+          setMode({ kind: 'list' });
+          go.onOpenRun(serial, only.plan.hash);
+        } else {
+          setMode({ kind: 'choose-plan', serial, choices, selected: 0 });
+        }
+      })().catch(fail);
+    },
+    [all, index, catalog, go],
+  );
+
+  const choosePlan = useCallback(() => {
+    if (mode.kind !== 'choose-plan') return;
+    const choice = mode.choices[mode.selected];
+    if (!choice) return;
+    setMode({ kind: 'list' });
+    go.onOpenRun(mode.serial, choice.plan.hash);
+  }, [mode, go]);
+
+  const movePlanChoice = useCallback((delta: number) => {
+    setMode((m) => (m.kind === 'choose-plan' ? { ...m, selected: Math.max(0, Math.min(m.choices.length - 1, m.selected + delta)) } : m));
+  }, []);
+
+  const confirmRun = useCallback(() => {
+    if (mode.kind !== 'confirm-run') return;
+    setMode({ kind: 'list' });
+    go.onOpenRun(mode.board.serial, mode.plan.hash);
+  }, [mode, go]);
+
+  const openPlan = useCallback(() => {
+    setMessage(null);
+    void (async () => {
+      const plan = current ? await catalog.forBoard(current) : (catalog.filePlans[0] ?? null);
+      if (!mounted.current) return;
+      if (plan) go.onPlan(plan.hash);
+      else setMessage({ text: current ? noPlan(current.serial) : 'no plan to show: start probebook with --plan FILE', tone: 'error' });
+    })().catch(fail);
+  }, [current, catalog, go]);
+
+  const openHistory = useCallback(() => {
+    if (current) go.onHistory(current.serial);
+    else setMessage({ text: 'no board selected: press n to enter a new board', tone: 'info' });
+  }, [current, go]);
+
+  return {
+    isLoading: index === null && loadError === null,
+    loadError,
+    total: all.length,
+    boards,
+    selected: Math.max(0, Math.min(selected, boards.length - 1)),
+    current,
+    filter,
+    mode,
+    message,
+    setSelected,
+    setFilter: (text: string) => {
+      setFilter(text);
+      setSelected(0);
+    },
+    setMode,
+    setMessage,
+    openSelected,
+    submitSerial,
+    choosePlan,
+    movePlanChoice,
+    confirmRun,
+    openPlan,
+    openHistory,
+    openBatch: go.onBatch,
+  };
+}
+
+export type BenchState = ReturnType<typeof useBenchState>;

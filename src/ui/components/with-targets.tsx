@@ -1,0 +1,62 @@
+import { type ReactNode, useEffect, useState } from 'react';
+import { Box, Text, useInput } from 'ink';
+import type { TargetSet } from '../../analysis/types.js';
+import type { Plan } from '../../plan/types.js';
+import type { PlanCatalog } from '../bench/plan-catalog.js';
+import { toneProps } from '../theme.js';
+
+export interface WithTargetsProps {
+  readonly catalog: PlanCatalog;
+  readonly planHash: string;
+  readonly children: (plan: Plan, targets: TargetSet) => ReactNode;
+  /** Esc while loading, or after an error. */
+  readonly onExit: () => void;
+  /** @default true */
+  readonly isActive?: boolean;
+}
+
+type Loaded = { kind: 'loading'; what: string } | { kind: 'ready'; plan: Plan; targets: TargetSet } | { kind: 'error'; message: string };
+
+/**
+ * Find a plan by hash and compute its targets, showing a line while the Monte
+ * Carlo runs (a frame is drawn first: the computation blocks the event loop).
+ */
+export function WithTargets({ catalog, planHash, children, onExit, isActive = true }: WithTargetsProps) {
+  const [state, setState] = useState<Loaded>({ kind: 'loading', what: 'finding the plan…' });
+  useEffect(() => {
+    let isLive = true;
+    void (async () => {
+      const plan = await catalog.byHash(planHash);
+      if (!isLive) return;
+      if (!plan) {
+        const why = catalog.broken.get(planHash);
+        setState({ kind: 'error', message: why ?? `plan ${planHash.slice(0, 8)} is neither given with --plan nor kept in the log` });
+        return;
+      }
+      if (catalog.hasTargets(plan)) {
+        setState({ kind: 'ready', plan, targets: catalog.targets(plan) });
+        return;
+      }
+      setState({ kind: 'loading', what: `computing the targets of ${plan.plan} (worst case and Monte Carlo)…` });
+      setTimeout(() => {
+        if (!isLive) return;
+        try {
+          setState({ kind: 'ready', plan, targets: catalog.targets(plan) });
+        } catch (error) {
+          setState({ kind: 'error', message: error instanceof Error ? error.message : String(error) });
+        }
+      }, 15);
+    })().catch((error: unknown) => isLive && setState({ kind: 'error', message: error instanceof Error ? error.message : String(error) }));
+    return () => {
+      isLive = false;
+    };
+  }, [catalog, planHash]);
+  useInput((_input, key) => key.escape && onExit(), { isActive: isActive && state.kind !== 'ready' });
+  if (state.kind === 'ready') return <>{children(state.plan, state.targets)}</>;
+  return (
+    <Box flexDirection="column">
+      {state.kind === 'loading' ? <Text>{state.what}</Text> : <Text {...toneProps('bad')}>✗ {state.message}</Text>}
+      <Text {...toneProps('dim')}>Esc back</Text>
+    </Box>
+  );
+}

@@ -1,0 +1,24 @@
+import type { HelpEntry } from '../components/help-box.js';
+import type { KeyHint } from '../components/key-bar.js';
+
+export const planHelp: readonly HelpEntry[] = [
+  ['↑ ↓ / j k', 'move through the targets, or scroll the warnings'],
+  ['PgUp PgDn g G', 'page up, page down, first, last'],
+  ['Tab', 'switch between the targets table and the design warnings'],
+  ['Esc', 'back to the bench'],
+  ['?', 'this help'],
+  ['q', 'quit'],
+];
+
+export const planNotes: readonly string[] = [
+  'The worst-case band covers every corner of the parts’ tolerances; the statistical band is the 0.135–99.865 % interval of a seeded Monte Carlo over all parts at once. A reading passes when it lies inside the worst-case band by at least the instrument’s uncertainty (the guard band).',
+  'Top contributor: the part whose tolerance accounts for the largest share of the band. Review the warnings before first power.',
+];
+
+export const planKeys: readonly KeyHint[] = [
+  ['↑↓', 'move'],
+  ['Tab', 'warnings'],
+  ['Esc', 'back'],
+  ['q', 'quit'],
+  ['?', 'help'],
+];

@@ -1,0 +1,31 @@
+import { Box, Text } from 'ink';
+import type { Target } from '../../analysis/types.js';
+import { toneProps } from '../theme.js';
+import { formatBand, formatNominal, phaseWord } from './format-band.js';
+
+export interface TargetDetailProps {
+  readonly target: Target;
+  readonly width: number;
+}
+
+/** Everything about the selected target, in three short lines. */
+export function TargetDetail({ target: t, width }: TargetDetailProps) {
+  const shares = t.contributors
+    .slice(0, 4)
+    .map((c) => `${c.part} ${Math.round(c.share * 100)} %`)
+    .join(', ');
+  return (
+    <Box flexDirection="column" width={width}>
+      <Text wrap="truncate-end">
+        <Text bold>{t.check}</Text> · {t.quantity} · {phaseWord[t.phase]} · {t.instrument}
+        {t.testPoint ? ` at ${t.testPoint}` : ''} · nominal {formatNominal(t)}
+      </Text>
+      <Text wrap="truncate-end">
+        worst case {formatBand(t.worst, t.unit)} · statistical {formatBand(t.stat, t.unit)}
+      </Text>
+      <Text wrap="truncate-end" {...toneProps('dim')}>
+        {shares ? `contributors: ${shares} · ` : ''}how: {t.how}
+      </Text>
+    </Box>
+  );
+}
