@@ -1,7 +1,51 @@
+import { computeTargets, defaultSeed, defaultTrials } from '../analysis/targets.js';
+import { targetsJson } from '../analysis/targets-json.js';
+import type { Distribution } from '../analysis/random.js';
+import { loadPlanFile } from '../plan/load.js';
+import { intOption, parseArgs } from './args.js';
 import type { Command } from './command.js';
+import { UsageError } from './errors.js';
+import { targetsTable } from './targets-table.js';
 
-// PLACEHOLDER until the command is written.
-export const targetsCommand: Command = async (_argv, io) => {
-  io.stderr('probebook: targets is not built yet\n');
-  return 1;
+const usage = 'probebook targets PLAN [--json] [--trials N] [--seed S] [--spread normal|uniform] [--log DIR]';
+
+/** Trials above which progress is shown on stderr. */
+const progressFrom = 200_000;
+
+/**
+ * `probebook targets PLAN` (DESIGN §7): the design targets of a plan with their
+ * worst-case and statistical bands, and the design warnings. `--spread`
+ * chooses how parts spread within their tolerance (default normal, tol = 3σ).
+ * `--log` is accepted like on every command; targets do not touch the log.
+ */
+export const targetsCommand: Command = async (argv, io) => {
+  const args = parseArgs(argv, {
+    options: { json: 'boolean', trials: 'string', seed: 'string', spread: 'string', log: 'string', help: 'boolean' },
+    positionals: [0, 1],
+    usage,
+  });
+  if (args.options.help) {
+    io.stdout(`usage: ${usage}\n  --trials N   Monte Carlo trials (default ${defaultTrials})\n  --seed S     seed of the generator (default ${defaultSeed}); the same seed gives the same bands\n  --spread     normal (default: tolerance = 3σ, truncated) or uniform\n  --json       machine-readable output in SI base units\n`);
+    return 0;
+  }
+  const file = args.positionals[0];
+  if (file === undefined) throw new UsageError(`missing argument PLAN; usage: ${usage}`);
+  const trials = intOption(args.options.trials, 'trials', defaultTrials, 100, 10_000_000);
+  const seed = intOption(args.options.seed, 'seed', defaultSeed, 0, 4_294_967_295);
+  const spread = args.options.spread ?? 'normal';
+  if (spread !== 'normal' && spread !== 'uniform') throw new UsageError(`--spread takes normal or uniform, got ${JSON.stringify(spread)}`);
+  const distribution: Distribution = spread;
+
+  const plan = await loadPlanFile(file, { cwd: io.cwd });
+  const set = computeTargets(plan, {
+    trials,
+    seed,
+    distribution,
+    ...(trials >= progressFrom
+      ? { onProgress: (done: number, total: number) => io.stderr(`probebook: ${Math.round((100 * done) / total)} % of ${total} trials\n`) }
+      : {}),
+  });
+  if (args.options.json) io.stdout(`${JSON.stringify(targetsJson(set), null, 2)}\n`);
+  else io.stdout(targetsTable(set, { title: plan.title, file, trials, seed, distribution }));
+  return 0;
 };

@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto';
 import { readFile } from 'node:fs/promises';
+import { resolve } from 'node:path';
 import { defaultOpamp } from '../circuit/opamp.js';
 import { stageKinds } from '../circuit/registry.js';
 import type { StageKind } from '../circuit/types.js';
@@ -23,11 +24,14 @@ export const defaultRailShortMin = 100;
 /** Units of the plan's `uncertainty` map by key. */
 const uncertaintyUnits: Readonly<Record<string, Unit>> = { V: 'V', A: 'A', Hz: 'Hz', ohm: 'Ω', s: 's', F: 'F', 'V/V': 'V/V', '1': '1' };
 
-/** Read and validate a plan file. Throws `PlanError` (file, JSON path, remedy) for anything wrong. */
-export async function loadPlanFile(file: string): Promise<Plan> {
+/**
+ * Read and validate a plan file. Throws `PlanError` (file, JSON path, remedy) for
+ * anything wrong. Messages name the file as given; `cwd` resolves a relative path.
+ */
+export async function loadPlanFile(file: string, options: { readonly cwd?: string } = {}): Promise<Plan> {
   let text: string;
   try {
-    text = await readFile(file, 'utf8');
+    text = await readFile(options.cwd === undefined ? file : resolve(options.cwd, file), 'utf8');
   } catch (error) {
     const code = (error as NodeJS.ErrnoException).code;
     if (code === 'ENOENT') throw new PlanError(file, '', 'no such file; give the path of a *.plan.json file');

@@ -40,7 +40,7 @@ export const fakeDivider: StageKind<{ from: string }> = {
   faultHints: { 'out.dc': ['a swapped top and bottom resistor mirrors the level about half the rail'] },
 };
 
-/** A triangle source: f = 1 / (R·C), peak 1 V. */
+/** A triangle source: f = 1 / ((R + 2.2 kΩ fixed)·C), peak 1 V; the fixed resistor keeps R and C from explaining a reading equally. */
 export const fakeOsc: StageKind<null> = {
   kind: 'osc',
   summary: 'test oscillator',
@@ -59,7 +59,7 @@ export const fakeOsc: StageKind<null> = {
     { key: 'triangle.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'triangle', instrument: 'scope', how: 'scope' },
   ],
   evaluate({ parts }) {
-    const f = 1 / ((parts.R ?? 0) * (parts.C ?? 0));
+    const f = 1 / (((parts.R ?? 0) + 2200) * (parts.C ?? 0));
     const tri = fromPhase(f, (p) => (p < 0.5 ? -1 + 4 * p : 3 - 4 * p), 16);
     return { outputs: { triangle: tri, square: fromPhase(f, (p) => (p < 0.5 ? 1 : -1), 16) }, values: { freq: f, 'triangle.vpp': vpp(tri) }, warnings: [] };
   },

@@ -1,0 +1,86 @@
+import type { Target, TargetSet } from '../analysis/types.js';
+import { formatValue } from '../units/format.js';
+import { formatPrefixes } from '../units/prefix.js';
+import type { Unit } from '../units/unit.js';
+
+/** Both ends of a band with one prefix and one unit: `5.881 … 6.121 V`. */
+export function formatBand(min: number, max: number, unit: Unit): string {
+  if (Number.isNaN(min) || Number.isNaN(max)) return '—';
+  if (min === -Infinity && max === Infinity) return 'any';
+  if (max === Infinity) return `≥ ${formatValue(min, unit)}`;
+  if (min === -Infinity) return `≤ ${formatValue(max, unit)}`;
+  if (unit === '1') return `${mantissa(min * 100)} … ${mantissa(max * 100)} %`;
+  if (unit === 'V/V') return `${mantissa(min)} … ${mantissa(max)} V/V`;
+  if (unit === 'V/s') return `${mantissa(min / 1e6)} … ${mantissa(max / 1e6)} V/µs`;
+  const big = Math.max(Math.abs(min), Math.abs(max));
+  if (big === 0) return `0 … 0 ${unit}`;
+  const exponent = Math.max(-15, Math.min(12, Math.floor(Math.log10(big) / 3) * 3));
+  const prefix = formatPrefixes.find(([p]) => p === exponent)?.[1] ?? '';
+  const scale = 10 ** exponent;
+  return `${mantissa(min / scale)} … ${mantissa(max / scale)} ${prefix}${unit}`;
+}
+
+function mantissa(v: number): string {
+  const text = Math.abs(v) >= 1000 ? v.toFixed(0) : v.toPrecision(4);
+  return text.includes('.') && !text.includes('e') ? text.replace(/\.?0+$/, '') : text;
+}
+
+function nominalText(t: Target): string {
+  if (t.phase === 'unpowered') return `≥ ${formatValue(t.worst.min, t.unit)}`;
+  if (t.phase === 'first-power') return Number.isFinite(t.worst.max) ? `≤ ${formatValue(t.worst.max, t.unit)}` : 'no limit';
+  return formatValue(t.nominal, t.unit);
+}
+
+function contributorText(t: Target): string {
+  const top = t.contributors[0];
+  return top ? `${top.part} ${Math.round(top.share * 100)}%` : '';
+}
+
+function fit(text: string, width: number): string {
+  const chars = [...text];
+  return chars.length > width ? `${chars.slice(0, width - 1).join('')}…` : text + ' '.repeat(width - chars.length);
+}
+
+export interface TableHeader {
+  readonly title: string;
+  readonly file: string;
+  readonly trials: number;
+  readonly seed: number;
+  readonly distribution: string;
+}
+
+/**
+ * The readable `targets` output: a header, one row per check (check, test
+ * point, nominal, worst-case band, statistical band, top contributor) in safe
+ * bring-up order, the design warnings, and the first-power caution. About 100
+ * columns wide; long check ids are shortened with an ellipsis.
+ */
+export function targetsTable(set: TargetSet, header: TableHeader): string {
+  const rows = set.targets.map((t) => [t.check, t.testPoint ?? '', nominalText(t), formatBand(t.worst.min, t.worst.max, t.unit), t.phase === 'stage' || t.phase === 'rails' ? formatBand(t.stat.min, t.stat.max, t.unit) : '', contributorText(t)]);
+  const heads = ['check', 'TP', 'nominal', 'worst-case band', 'statistical band', 'top contributor'];
+  const caps = [26, 6, 12, 22, 22, 20];
+  const widths = heads.map((h, c) => Math.min(caps[c] ?? 20, Math.max([...h].length, ...rows.map((r) => [...(r[c] ?? '')].length))));
+  const line = (cells: readonly string[]): string => cells.map((cell, c) => fit(cell, widths[c] ?? 10)).join('  ').trimEnd();
+  const out: string[] = [];
+  out.push(`${header.title} (plan ${set.plan}, ${header.file})`);
+  out.push(`${header.trials} Monte Carlo trials, seed ${header.seed}, ${header.distribution} parts (tolerance = 3σ, truncated); statistical band 0.135–99.865 %`);
+  out.push('');
+  out.push(line(heads));
+  out.push(line(widths.map((w) => '─'.repeat(w))));
+  let phase = '';
+  for (const [i, t] of set.targets.entries()) {
+    if (t.phase !== phase && i > 0) out.push('');
+    phase = t.phase;
+    out.push(line(rows[i] ?? []));
+  }
+  out.push('');
+  if (set.warnings.length === 0) out.push('No design warnings.');
+  else {
+    out.push(`Design warnings (${set.warnings.length}):`);
+    for (const w of set.warnings) out.push(`  ${w.stage}: ${w.message}`);
+  }
+  out.push('');
+  out.push('Caution: check the rails to ground with the power off first; apply first power through a current-limited');
+  out.push('supply set near the idle limit; mind hot parts and charged capacitors. Local codes and licensed practice come first.');
+  return `${out.join('\n')}\n`;
+}
