@@ -102,19 +102,27 @@ function evaluate(input: EvalInput<DiodeShaperSettings>): EvalOutput {
     'out.thd': source.frequency > 0 ? fastThd(out) : Number.NaN,
     'out.peak': hi,
   };
-  return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings: warningsFor(net, hi, lo) };
+  return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings: warningsFor(net, vin, hi, lo) };
 }
 
-function warningsFor(net: ShaperNet, hi: number, lo: number): StageWarning[] {
+function warningsFor(net: ShaperNet, vin: Float64Array, hi: number, lo: number): StageWarning[] {
   const warnings: StageWarning[] = [];
+  let inHi = -Infinity;
+  let inLo = Infinity;
+  for (const v of vin) {
+    if (v > inHi) inHi = v;
+    if (v < inLo) inLo = v;
+  }
   let peakCurrent = 0;
   let conducting = false;
   for (const br of net.branches) {
+    // The node's own extreme on the side where this branch conducts (the peak of the input maps to it).
     const v = br.sign > 0 ? hi : lo;
+    const source = br.sign > 0 ? inHi : inLo;
     const current = stringCurrent(br.diodes, branchJunction(br.diodes, br.sign * (v - br.bias)));
     peakCurrent = Math.max(peakCurrent, current);
-    // 1 % of the current Rs carries at the peak: the branch takes part in the shaping.
-    if (current > 0.01 * Math.abs(v) * net.gs) conducting = true;
+    // A branch carrying 1 % of the current in Rs at the peak takes part in the shaping.
+    if (current > 0.01 * Math.abs(source - v) * net.gs) conducting = true;
   }
   if (!conducting) {
     warnings.push({ message: 'the drive never reaches a breakpoint: no branch conducts and the output is a scaled copy of the input; check the drive level and the bias voltages' });
