@@ -38,3 +38,9 @@ export function assessReading(plan: Pick<Plan, 'uncertainty' | 'checkUncertainty
   const spec = uncertaintyFor(plan, target.check, target.unit);
   return { ok: true, value: parsed.value, unit: parsed.unit, raw, result: verdictFor(target, parsed.value, spec) };
 }
+
+/** The verdict with its figures for a saved value (for the verdict panel). */
+export function judge(plan: Pick<Plan, 'uncertainty' | 'checkUncertainty'>, target: Target, value: number): VerdictResult {
+  if (value === Number.POSITIVE_INFINITY && target.unit === 'Ω') return verdictFor(target, value, undefined);
+  return verdictFor(target, value, uncertaintyFor(plan, target.check, target.unit));
+}

@@ -13,8 +13,8 @@ export function isOverLimit(target: Target, value: number): boolean {
 
 /**
  * Why power may not be applied yet, or null when it may: every unpowered check
- * (rail resistance to ground, polarity) needs a current reading that is not a
- * fail. A rail that reads a few ohms to ground unpowered is a short until
+ * (rail resistance to ground, polarity) needs a current reading that passes;
+ * a marginal one is read again (it may be a short at the edge of the limit). A rail that reads a few ohms to ground unpowered is a short until
  * proven otherwise (common practice, no source).
  */
 export function firstPowerBlock(state: RunState): string | null {
@@ -23,13 +23,16 @@ export function firstPowerBlock(state: RunState): string | null {
     const r = currentReading(state, t.check);
     if (!r) return `unpowered checks first: measure ${t.check} before applying power`;
     if (r.verdict === 'fail') return `${t.check} failed: find the fault before applying power`;
+    if (r.verdict === 'marginal') return `${t.check} is marginal: measure it again (or find the fault) before applying power`;
   }
   return null;
 }
 
 /**
  * Why powered checks may not be made yet, or null: the unpowered checks, then the
- * idle current through a current-limited supply, within its limit.
+ * idle current through a current-limited supply, passing. One above its limit
+ * stops the run (power-off); a marginal one keeps the gate shut until it is
+ * read again and passes.
  */
 export function poweredBlock(state: RunState): string | null {
   const first = firstPowerBlock(state);
@@ -38,7 +41,8 @@ export function poweredBlock(state: RunState): string | null {
     if (t.phase !== 'first-power') continue;
     const r = currentReading(state, t.check);
     if (!r) return `first power through a current-limited supply: measure ${t.check} first`;
-    if (isOverLimit(t, r.value)) return `${t.check} is above its limit: find the fault, then measure it again`;
+    if (isOverLimit(t, r.value) || r.verdict === 'fail') return `${t.check} is above its limit: find the fault, then measure it again`;
+    if (r.verdict === 'marginal') return `${t.check} is at its limit: look for a warm part, then read it again`;
   }
   return null;
 }

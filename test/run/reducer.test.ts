@@ -77,14 +77,23 @@ describe('safety gates', () => {
     expect(runReducer(off, { type: 'power-off-acknowledged' })).toBe(off);
   });
 
-  test('an idle current inside the limit, even marginal, opens the powered checks', () => {
+  test('a marginal idle current inside the limit does not stop the run but keeps powered checks shut until it passes', () => {
     const s = apply(started(), [
       record(reading('rails.+12V.to-ground', 9000)),
       record(reading('rails.-12V.to-ground', 9000)),
       record(reading('rails.idle-current', 0.0445, 'marginal')),
     ]);
     expect(s.isPowerOff).toBe(false);
-    expect(lockReason(s, 'osc.freq')).toBeNull();
+    expect(lockReason(s, 'osc.freq')).toMatch(/at its limit/);
+    expect(s.suggestion?.check).toBe('rails.idle-current');
+    const again = runReducer(s, record(reading('rails.idle-current', 0.03)));
+    expect(lockReason(again, 'osc.freq')).toBeNull();
+  });
+
+  test('a marginal rail-to-ground reading is read again before power', () => {
+    const s = apply(started(), [record(reading('rails.+12V.to-ground', 101, 'marginal')), record(reading('rails.-12V.to-ground', 9000))]);
+    expect(lockReason(s, 'rails.idle-current')).toMatch(/marginal/);
+    expect(s.suggestion?.check).toBe('rails.+12V.to-ground');
   });
 });
 
@@ -222,7 +231,7 @@ describe('properties (fast-check, 150 random sessions)', () => {
           if (phase === 'unpowered') return;
           const earlier = s.readings.slice(0, i);
           for (const u of ['rails.+12V.to-ground', 'rails.-12V.to-ground']) expect(earlier.some((e) => e.check === u)).toBe(true);
-          if (phase !== 'first-power') expect(earlier.some((e) => e.check === 'rails.idle-current' && e.value <= limit)).toBe(true);
+          if (phase !== 'first-power') expect(earlier.some((e) => e.check === 'rails.idle-current' && e.value <= limit && e.verdict === 'pass')).toBe(true);
         });
       }),
       { numRuns: 150, seed: 7 },

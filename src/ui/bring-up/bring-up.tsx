@@ -1,7 +1,83 @@
-import { Text } from 'ink';
+import { Box, Text } from 'ink';
+import { useMemo } from 'react';
+import { judge } from '../../run/assess.js';
+import { lockReason, openChecks } from '../../run/gates.js';
+import { scopeSetup } from '../../run/scope-setup.js';
+import { traceChart } from '../charts/trace.js';
+import { Header } from '../components/header.js';
+import { HelpBox } from '../components/help-box.js';
+import { KeyBar } from '../components/key-bar.js';
 import type { BringUpProps } from '../screen-props.js';
+import { toneProps } from '../theme.js';
+import { bringUpHelp, bringUpNotes } from './bring-up-help.js';
+import { CaptureSlot } from './capture-slot.js';
+import { CheckPanel } from './check-panel.js';
+import { expectedTrace, nominalOutputs } from './expected-trace.js';
+import { formatReading } from './format-band.js';
+import { InputLine } from './input-line.js';
+import { bringUpLayout } from './layout.js';
+import { ReworkForm } from './rework-form.js';
+import { CautionsPanel, EndPanel, PowerOffPanel } from './safety-panels.js';
+import { StageList } from './stage-list.js';
+import { useBringUpKeys } from './use-bring-up-keys.js';
+import { knownParts, useBringUpState } from './use-bring-up-state.js';
+import { reworkDefaults } from './rework-defaults.js';
+import { VerdictPanel } from './verdict-panel.js';
+import { endOptions } from '../../run/gates.js';
 
-// PLACEHOLDER until the screen is written.
-export function BringUpScreen(_props: BringUpProps) {
-  return <Text>This screen is not built yet. Press Esc.</Text>;
+/** The bring-up screen: walks one board through every check in a safe order. */
+export function BringUpScreen(props: BringUpProps) {
+  const { plan, targets, serial, width, height, isActive = true, onExit } = props;
+  const b = useBringUpState(props);
+  const { state, target, status } = b;
+  const keys = useBringUpKeys(b, { isActive, onExit, onDirtyChange: props.onDirtyChange, reworkDefaults: () => reworkDefaults(plan, b.explanation.explanations) });
+  const outputs = useMemo(() => nominalOutputs(plan), [plan]);
+  const trace = useMemo(() => (target ? expectedTrace(plan, targets.targets, target, outputs) : null), [plan, targets, target, outputs]);
+  const scope = target?.instrument === 'scope' && trace ? scopeSetup(trace.frequency, trace.vpp) : null;
+  const last = state.last;
+  const lastTarget = b.lastTarget;
+  const result = last && lastTarget ? judge(plan, lastTarget, last.value) : null;
+  const checkRows = 4 + (scope ? 1 : 0) + (target && lockReason(state, target.check) ? 1 : 0);
+  const wanted = result ? 2 + Math.min(3, b.explanation.explanations.length) + Math.min(2, b.explanation.hints.length) + (result.warnings.length > 0 ? 1 : 0) : 0;
+  const layout = bringUpLayout(width, height, checkRows, wanted);
+  const done = state.targets.length - openChecks(state).length;
+  const overlay = keys.focus === 'rework' || keys.focus === 'end' || keys.focus === 'capture';
+  const chart = useMemo(
+    () => (trace && layout.traceRows > 0 && !overlay ? traceChart(trace.samples, b.captured(trace.output), { width: layout.panelWidth, height: layout.traceRows, ...(trace.band ? { band: trace.band } : {}) }) : null),
+    [trace, layout.traceRows, layout.panelWidth, overlay, b],
+  );
+  const powerReading = last ? formatReading(last.value, last.unit) : '';
+  const next = state.suggestion;
+  const nextLine = state.ended
+    ? `run ended: ${state.ended} · Esc back to the bench`
+    : next
+      ? `next: ${next.check} — ${next.why}${next.check === state.selected ? '' : ' (Enter)'}`
+      : 'every check has a reading: e ends the run';
+  const body = (() => {
+    if (keys.focus === 'help') return <HelpBox title="bring-up" entries={bringUpHelp} notes={bringUpNotes} width={width} />;
+    if (status.kind !== 'loading' && state.isCautionsPending && !state.ended) return <CautionsPanel width={width} height={layout.bodyRows} isResumed={state.readings.length > 0} />;
+    if (state.isPowerOff) return <PowerOffPanel width={width} reading={powerReading} />;
+    return (
+      <Box flexDirection="row" height={layout.bodyRows}>
+        {layout.listWidth > 0 ? <StageList state={state} cursor={keys.cursor} isFocused={keys.focus === 'list'} width={layout.listWidth} height={layout.bodyRows} /> : null}
+        <Box flexDirection="column" width={layout.panelWidth} marginLeft={layout.listWidth > 0 ? 1 : 0}>
+          {target ? <CheckPanel plan={plan} target={target} scope={scope} lock={lockReason(state, target.check)} width={layout.panelWidth} /> : <Text>no check selected</Text>}
+          {keys.focus === 'rework' ? <ReworkForm {...keys.rework} parts={knownParts(plan)} width={layout.panelWidth} /> : null}
+          {keys.focus === 'end' ? <EndPanel options={endOptions(state)} cursor={keys.endCursor} width={layout.panelWidth} isAllMeasured={openChecks(state).length === 0} /> : null}
+          {keys.focus === 'capture' && target ? <CaptureSlot target={target} onDone={(c) => { keys.closeCapture(); void b.attachCapture(c); }} onCancel={keys.closeCapture} /> : null}
+          {chart ? <Text>{chart}</Text> : null}
+          {!overlay && last && lastTarget && result && layout.verdictRows > 0 ? <VerdictPanel reading={last} target={lastTarget} result={result} explanations={b.explanation.explanations} hints={b.explanation.hints} maxLines={layout.verdictRows} width={layout.panelWidth} /> : null}
+          <Text wrap="truncate-end" {...toneProps('accent')}>{nextLine}</Text>
+          <InputLine check={state.selected} text={keys.text} status={status} isFocused={keys.focus === 'input'} placeholder={next && next.check !== state.selected ? 'type a reading, or Enter for the next check' : 'type a reading'} width={layout.panelWidth} />
+        </Box>
+      </Box>
+    );
+  })();
+  return (
+    <Box flexDirection="column" width={width}>
+      <Header screen="bring-up" detail={`${serial} · ${plan.plan}`} note={`${done}/${state.targets.length} read${b.runId ? ` · run ${b.runId}` : ''}`} width={width} />
+      {body}
+      <KeyBar hints={[['Tab', 'list/input'], ['r', 'rework'], ['a', 'capture'], ['e', 'end run'], ['Esc', 'back'], ['?', 'help']]} width={width} />
+    </Box>
+  );
 }

@@ -1,0 +1,72 @@
+import type { Target } from '../../analysis/types.js';
+import type { Waveform } from '../../circuit/types.js';
+import { vpp } from '../../circuit/waveform.js';
+import { buildChain } from '../../plan/chain.js';
+import type { Plan } from '../../plan/types.js';
+import type { TraceBand } from '../charts/trace.js';
+
+/** What the trace panel draws for a check: two periods of the ideal waveform and its amplitude band. */
+export interface ExpectedTrace {
+  /** `<stage>.<output>` the check is probed at. */
+  readonly output: string;
+  readonly samples: Float64Array;
+  readonly band?: TraceBand;
+  readonly frequency: number;
+  readonly vpp: number;
+}
+
+/** Every stage output of the chain at nominal part values, `<stage>.<output>` → waveform. */
+export function nominalOutputs(plan: Plan): Readonly<Record<string, Waveform>> {
+  try {
+    const chain = buildChain(plan);
+    return chain.detail(chain.nominal).outputs;
+  } catch {
+    // A chain that cannot be evaluated has nothing to draw; the plan screen reports why.
+    return {};
+  }
+}
+
+/** The output a check is probed at (`osc.triangle` for `osc.triangle.vpp`, the first output for `osc.freq`), or null for rail checks. */
+export function outputOf(plan: Plan, target: Target): string | null {
+  const stage = plan.stages.find((s) => s.id === target.stage);
+  if (!stage) return null;
+  const key = target.check.slice(stage.id.length + 1);
+  let spec;
+  try {
+    spec = stage.module.checks(stage.settings).find((c) => c.key === key);
+  } catch {
+    spec = undefined;
+  }
+  const output = spec?.output ?? stage.module.outputs.find((o) => key.startsWith(`${o}.`)) ?? stage.module.outputs[0];
+  return output ? `${stage.id}.${output}` : null;
+}
+
+/**
+ * The expected trace at a check's test point: two periods of the nominal
+ * waveform and, when the output has a peak-to-peak target, the band that
+ * target allows, drawn as the waveform scaled to the band's two ends about its mean.
+ */
+export function expectedTrace(plan: Plan, targets: readonly Target[], target: Target, outputs: Readonly<Record<string, Waveform>>): ExpectedTrace | null {
+  const output = outputOf(plan, target);
+  const wave = output ? outputs[output] : undefined;
+  if (!output || !wave || !(wave.frequency > 0) || wave.samples.length < 2) return null;
+  const n = wave.samples.length;
+  const samples = new Float64Array(2 * n);
+  samples.set(wave.samples, 0);
+  samples.set(wave.samples, n);
+  const amplitude = vpp(wave);
+  const vppTarget = targets.find((t) => t.check === `${output}.vpp`);
+  if (!vppTarget || !(vppTarget.nominal > 0) || !Number.isFinite(vppTarget.worst.min) || !Number.isFinite(vppTarget.worst.max)) {
+    return { output, samples, frequency: wave.frequency, vpp: amplitude };
+  }
+  let mean = 0;
+  for (const v of samples) mean += v;
+  mean /= samples.length;
+  const scaled = (k: number) => samples.map((v) => mean + (v - mean) * k);
+  const lo = scaled(vppTarget.worst.min / vppTarget.nominal);
+  const hi = scaled(vppTarget.worst.max / vppTarget.nominal);
+  // Where the waveform dips below its mean, the larger amplitude is the lower limit.
+  const min = lo.map((v, i) => Math.min(v, hi[i] ?? v));
+  const max = lo.map((v, i) => Math.max(v, hi[i] ?? v));
+  return { output, samples, band: { min, max }, frequency: wave.frequency, vpp: amplitude };
+}

@@ -1,0 +1,53 @@
+import { Box, Text } from 'ink';
+import { toneProps } from '../theme.js';
+import type { Status } from './use-bring-up-state.js';
+
+export interface InputLineProps {
+  /** The check the value goes to. */
+  readonly check: string | null;
+  readonly text: string;
+  readonly status: Status;
+  /** Whether the input has the keyboard. @default true */
+  readonly isFocused?: boolean;
+  /** The placeholder shown while the input is empty. */
+  readonly placeholder: string;
+  readonly width: number;
+}
+
+/** `osc.freq › 2.49k█` and, under it, what happened to the last value. */
+export function InputLine({ check, text, status, isFocused = true, placeholder, width }: InputLineProps) {
+  return (
+    <Box flexDirection="column" width={width}>
+      <Text wrap="truncate-start">
+        <Text bold>{check ?? '—'} › </Text>
+        {text}
+        {isFocused ? <Text inverse> </Text> : null}
+        {text === '' ? <Text {...toneProps('dim')}> {placeholder}</Text> : null}
+      </Text>
+      <StatusLine status={status} />
+    </Box>
+  );
+}
+
+function StatusLine({ status }: { readonly status: Status }) {
+  switch (status.kind) {
+    case 'loading':
+      return <Text {...toneProps('dim')}>reading the board's log to resume…</Text>;
+    case 'saving':
+      return <Text {...toneProps('accent')}>saving {status.text}…</Text>;
+    case 'rejected':
+      return (
+        <Text wrap="truncate-end" {...toneProps('warn')}>
+          ✗ not recorded: {status.message}
+        </Text>
+      );
+    case 'error':
+      return (
+        <Text wrap="truncate-end" {...toneProps('bad')}>
+          ✗ {status.message}
+        </Text>
+      );
+    default:
+      return <Text> </Text>;
+  }
+}

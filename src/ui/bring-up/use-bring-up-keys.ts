@@ -1,0 +1,161 @@
+import { type Key, useInput } from 'ink';
+import { useEffect, useRef, useState } from 'react';
+import { endOptions } from '../../run/gates.js';
+import type { EndOutcome } from '../../run/types.js';
+import { moveSelection } from '../components/scroll-window.js';
+import { type ReworkField, reworkFieldNames } from './rework-form.js';
+import type { BringUp, ReworkFields } from './use-bring-up-state.js';
+
+export type Focus = 'input' | 'list' | 'rework' | 'end' | 'help' | 'capture';
+
+export interface BringUpKeysOptions {
+  readonly isActive: boolean;
+  readonly onExit: () => void;
+  readonly onDirtyChange: ((isDirty: boolean) => void) | undefined;
+  /** The rework form's starting part and value (from the top explanation of a fail). */
+  readonly reworkDefaults: () => ReworkFields;
+}
+
+const emptyRework: ReworkFields = { part: '', from: '', to: '', note: '' };
+const printable = (input: string): string => input.replace(/[\u0000-\u001F\u007F]/g, '');
+
+/** The keyboard of the bring-up screen, and the screen-local state it edits (input text, cursor, forms). */
+export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, reworkDefaults }: BringUpKeysOptions) {
+  const { state } = b;
+  const [focus, setFocus] = useState<Focus>('input');
+  const [text, setText] = useState('');
+  const [cursor, setCursor] = useState(0);
+  const [rework, setRework] = useState<ReworkFields>(emptyRework);
+  const [reworkFocus, setReworkFocus] = useState<ReworkField>('part');
+  const [reworkError, setReworkError] = useState<string | null>(null);
+  const [isReworkSaving, setReworkSaving] = useState(false);
+  const [endCursor, setEndCursor] = useState(0);
+  const dirty = useRef(onDirtyChange);
+  dirty.current = onDirtyChange;
+
+  useEffect(() => {
+    const i = state.targets.findIndex((t) => t.check === state.selected);
+    if (i >= 0) setCursor(i);
+  }, [state.selected, state.targets]);
+
+  const isDirty = text.trim() !== '' || focus === 'rework';
+  useEffect(() => {
+    dirty.current?.(isDirty);
+  }, [isDirty]);
+
+  const command = (input: string): boolean => {
+    if (input === '?') setFocus('help');
+    else if (input === 'r') {
+      setRework(reworkDefaults());
+      setReworkFocus('part');
+      setReworkError(null);
+      setFocus('rework');
+    } else if (input === 'a') setFocus('capture');
+    else if (input === 'e') {
+      setEndCursor(0);
+      setFocus('end');
+    } else return false;
+    return true;
+  };
+
+  const onRework = (input: string, key: Key) => {
+    if (isReworkSaving) return;
+    const at = reworkFieldNames.indexOf(reworkFocus);
+    if (key.escape) setFocus('input');
+    else if (key.tab && key.shift) setReworkFocus(reworkFieldNames[Math.max(0, at - 1)] ?? 'part');
+    else if (key.tab || (key.return && at < reworkFieldNames.length - 1)) setReworkFocus(reworkFieldNames[Math.min(reworkFieldNames.length - 1, at + 1)] ?? 'note');
+    else if (key.return) {
+      setReworkSaving(true);
+      void b.saveRework(rework).then((error) => {
+        setReworkSaving(false);
+        setReworkError(error);
+        if (!error) setFocus('input');
+      });
+    } else if (key.backspace || key.delete) setRework((r) => ({ ...r, [reworkFocus]: r[reworkFocus].slice(0, -1) }));
+    else if (!key.ctrl && !key.meta && printable(input)) setRework((r) => ({ ...r, [reworkFocus]: (r[reworkFocus] + printable(input)).slice(0, 200) }));
+  };
+
+  const onEnd = (key: Key, input: string) => {
+    const options = endOptions(state);
+    if (key.escape) setFocus('input');
+    else if (key.upArrow || input === 'k') setEndCursor((c) => moveSelection(c, -1, options.length));
+    else if (key.downArrow || input === 'j') setEndCursor((c) => moveSelection(c, 1, options.length));
+    else if (key.return) {
+      const outcome = options[endCursor] as EndOutcome | undefined;
+      if (outcome) void b.endRun(outcome);
+      setFocus('input');
+    }
+  };
+
+  const onList = (input: string, key: Key) => {
+    if (key.upArrow || input === 'k') setCursor((c) => moveSelection(c, -1, state.targets.length));
+    else if (key.downArrow || input === 'j') setCursor((c) => moveSelection(c, 1, state.targets.length));
+    else if (key.pageUp) setCursor((c) => moveSelection(c, -10, state.targets.length));
+    else if (key.pageDown) setCursor((c) => moveSelection(c, 10, state.targets.length));
+    else if (key.return) {
+      const check = state.targets[cursor]?.check;
+      if (check && b.select(check) === null) setFocus('input');
+    } else if (key.tab) setFocus('input');
+    else if (key.escape) onExit();
+    else command(input);
+  };
+
+  const onInput = (input: string, key: Key) => {
+    if (key.tab) setFocus('list');
+    else if (key.escape) {
+      if (text !== '') setText('');
+      else onExit();
+    } else if (key.return) {
+      if (text.trim() === '') b.acceptSuggestion();
+      else if (b.submit(text)) setText('');
+    } else if (key.upArrow || key.downArrow) {
+      setFocus('list');
+      setCursor((c) => moveSelection(c, key.upArrow ? -1 : 1, state.targets.length));
+    } else if (key.backspace || key.delete) setText((t) => t.slice(0, -1));
+    else if (key.ctrl || key.meta) return;
+    else if (text === '' && command(input)) return;
+    else if (printable(input)) {
+      setText((t) => (t + printable(input)).slice(0, 40));
+      b.clearStatus();
+    }
+  };
+
+  useInput(
+    (input, key) => {
+      if (focus === 'help') {
+        if (input === '?' || key.escape) setFocus('input');
+        return;
+      }
+      if (state.ended) {
+        if (key.escape) onExit();
+        else if (input === '?') setFocus('help');
+        return;
+      }
+      if (state.isCautionsPending) {
+        if (key.return) b.acknowledgeCautions();
+        else if (key.escape) onExit();
+        else if (input === '?') setFocus('help');
+        return;
+      }
+      if (state.isPowerOff) {
+        // Nothing else until the technician confirms the supply is off.
+        if (key.return) b.acknowledgePowerOff();
+        return;
+      }
+      if (focus === 'rework') onRework(input, key);
+      else if (focus === 'end') onEnd(key, input);
+      else if (focus === 'list') onList(input, key);
+      else onInput(input, key);
+    },
+    { isActive: isActive && focus !== 'capture' && b.status.kind !== 'loading' },
+  );
+
+  return {
+    focus,
+    text,
+    cursor,
+    rework: { fields: rework, focus: reworkFocus, error: reworkError, isSaving: isReworkSaving },
+    endCursor,
+    closeCapture: () => setFocus('input'),
+  };
+}

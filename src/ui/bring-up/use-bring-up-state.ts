@@ -1,0 +1,244 @@
+import { useCallback, useEffect, useMemo, useReducer, useRef, useState } from 'react';
+import { explainReading, hintsFor } from '../../analysis/explain.js';
+import type { Target } from '../../analysis/types.js';
+import type { RunOutcome } from '../../log/types.js';
+import { assessReading } from '../../run/assess.js';
+import { createRunState } from '../../run/create.js';
+import { lockReason } from '../../run/gates.js';
+import { runReducer } from '../../run/reducer.js';
+import type { EndOutcome, RunState } from '../../run/types.js';
+import type { BringUpProps } from '../screen-props.js';
+import { type CaptureFigures, captureReadings } from './capture-readings.js';
+import { outputOf } from './expected-trace.js';
+import { toRunReading, toRunRework } from './to-run-records.js';
+
+/** What the screen tells the technician about the latest action. */
+export type Status =
+  | { readonly kind: 'loading' }
+  | { readonly kind: 'idle' }
+  | { readonly kind: 'saving'; readonly text: string }
+  | { readonly kind: 'saved'; readonly id: string }
+  | { readonly kind: 'rejected'; readonly message: string }
+  | { readonly kind: 'error'; readonly message: string };
+
+/** The fields of a rework note. */
+export interface ReworkFields {
+  readonly part: string;
+  readonly from: string;
+  readonly to: string;
+  readonly note: string;
+}
+
+const message = (error: unknown): string => (error instanceof Error ? error.message : String(error));
+
+/** Parts a rework can name: every toleranced part of the plan and every rail. */
+export function knownParts(plan: BringUpProps['plan']): readonly string[] {
+  return [...plan.rails.map((r) => `rails.${r.id}`), ...plan.stages.flatMap((s) => Object.keys(s.parts).map((role) => `${s.id}.${role}`))];
+}
+
+/**
+ * The bring-up screen's state: the core run reducer, plus the log writes. The
+ * run only ever hears of a reading after the log has it on disk, so whatever
+ * the screen shows as recorded is saved. The run is started in the log at the
+ * first write, so opening the screen and leaving leaves no empty run behind.
+ */
+export function useBringUpState({ plan, targets, serial, operator, log, resumeRun }: BringUpProps) {
+  const [state, dispatch] = useReducer(runReducer, undefined, () => createRunState(plan, targets.targets));
+  const [status, setStatus] = useState<Status>(resumeRun ? { kind: 'loading' } : { kind: 'idle' });
+  const [runId, setRunId] = useState<string | null>(resumeRun ?? null);
+  // Two periods of the latest capture at each output, drawn over the expected trace.
+  const [captures, setCaptures] = useState<ReadonlyMap<string, Float64Array>>(new Map());
+  const runRef = useRef<Promise<string> | null>(resumeRun ? Promise.resolve(resumeRun) : null);
+  const busy = useRef(false);
+  const stateRef = useRef<RunState>(state);
+  stateRef.current = state;
+
+  useEffect(() => {
+    if (!resumeRun) return;
+    let live = true;
+    log
+      .readBoard(serial)
+      .then((board) => {
+        if (!live) return;
+        const readings = (board?.readings ?? []).filter((r) => r.run === resumeRun).map(toRunReading);
+        const rework = (board?.rework ?? []).filter((w) => w.run === resumeRun).map(toRunRework);
+        dispatch({ type: 'resume', readings, rework });
+        setStatus({ kind: 'idle' });
+      })
+      .catch((error: unknown) => live && setStatus({ kind: 'error', message: `cannot resume run ${resumeRun}: ${message(error)}` }));
+    return () => {
+      live = false;
+    };
+  }, [log, serial, resumeRun]);
+
+  const ensureRun = useCallback((): Promise<string> => {
+    runRef.current ??= log.startRun(serial, { plan: plan.plan, planHash: plan.hash, planText: plan.text, operator }).then((run) => {
+      setRunId(run.id);
+      return run.id;
+    });
+    runRef.current.catch(() => {
+      runRef.current = null;
+    });
+    return runRef.current;
+  }, [log, serial, plan, operator]);
+
+  const target = useMemo(() => targets.targets.find((t) => t.check === state.selected) ?? null, [targets, state.selected]);
+
+  /** Save a typed value for the selected check; true when it was taken (the input may be cleared). */
+  const submit = useCallback(
+    (text: string): boolean => {
+      const s = stateRef.current;
+      const t = targets.targets.find((x) => x.check === s.selected);
+      if (!t || busy.current) return false;
+      const locked = lockReason(s, t.check);
+      if (locked) {
+        setStatus({ kind: 'rejected', message: `${t.check}: ${locked}` });
+        return false;
+      }
+      const assessed = assessReading(plan, t, text);
+      if (!assessed.ok) {
+        setStatus({ kind: 'rejected', message: assessed.message });
+        return false;
+      }
+      busy.current = true;
+      setStatus({ kind: 'saving', text: assessed.raw });
+      void (async () => {
+        try {
+          const run = await ensureRun();
+          const input = { run, check: t.check, value: assessed.value, unit: assessed.unit, raw: assessed.raw, operator, verdict: assessed.result.verdict, planHash: plan.hash };
+          const saved = await log.appendReading(serial, assessed.result.warnings.length > 0 ? { ...input, warnings: assessed.result.warnings } : input);
+          dispatch({ type: 'record-reading', reading: toRunReading(saved) });
+          setStatus({ kind: 'saved', id: saved.id });
+        } catch (error) {
+          setStatus({ kind: 'error', message: `not saved: ${message(error)}` });
+        } finally {
+          busy.current = false;
+        }
+      })();
+      return true;
+    },
+    [targets, plan, log, serial, operator, ensureRun],
+  );
+
+  /** Select a check; returns why it cannot be selected, or null. */
+  const select = useCallback((check: string): string | null => {
+    const reason = lockReason(stateRef.current, check);
+    if (reason) setStatus({ kind: 'rejected', message: `${check}: ${reason}` });
+    else {
+      dispatch({ type: 'select-check', check });
+      setStatus({ kind: 'idle' });
+    }
+    return reason;
+  }, []);
+
+  const acceptSuggestion = useCallback(() => {
+    const next = stateRef.current.suggestion;
+    if (next) select(next.check);
+  }, [select]);
+
+  /** Save a rework note; returns an error message, or null once it is saved. */
+  const saveRework = useCallback(
+    async (fields: ReworkFields): Promise<string | null> => {
+      const part = fields.part.trim();
+      const stages = [...plan.stages.map((s) => s.id), 'rails'];
+      if (!stages.includes(part.split('.')[0] ?? '') || !part.includes('.')) return `part must be <stage>.<part>, e.g. ${knownParts(plan)[0] ?? 'osc.Ct'}; stages: ${stages.join(', ')}`;
+      if (fields.to.trim() === '') return 'say what the part is now (to), e.g. "2n2"';
+      try {
+        const run = await ensureRun();
+        const saved = await log.addRework(serial, { run, part, from: fields.from.trim(), to: fields.to.trim(), note: fields.note.trim(), operator });
+        dispatch({ type: 'note-rework', rework: toRunRework(saved) });
+        setStatus({ kind: 'idle' });
+        return null;
+      } catch (error) {
+        return `not saved: ${message(error)}`;
+      }
+    },
+    [plan, log, serial, operator, ensureRun],
+  );
+
+  const endRun = useCallback(
+    async (outcome: EndOutcome): Promise<void> => {
+      try {
+        const run = await ensureRun();
+        await log.endRun(serial, run, outcome satisfies RunOutcome);
+        dispatch({ type: 'end-run', outcome });
+        setStatus({ kind: 'idle' });
+      } catch (error) {
+        setStatus({ kind: 'error', message: `run not ended: ${message(error)}` });
+      }
+    },
+    [log, serial, ensureRun],
+  );
+
+  /** Turn a capture's figures into readings of the checks probed at the same point. */
+  const attachCapture = useCallback(
+    async (capture: CaptureFigures): Promise<void> => {
+      const s = stateRef.current;
+      const t = targets.targets.find((x) => x.check === s.selected);
+      if (!t) return;
+      try {
+        const run = await ensureRun();
+        const { file } = await log.saveCapture(capture.bytes, capture.name);
+        await log.linkCapture(serial, { file, name: capture.name, at: new Date().toISOString(), check: t.check, run });
+        const where = outputOf(plan, t);
+        const periods = capture.measurements.frequency ? Math.round((2 * capture.sampleRate) / capture.measurements.frequency) : capture.samples.length;
+        if (where) setCaptures((m) => new Map(m).set(where, capture.samples.slice(0, Math.max(2, Math.min(capture.samples.length, periods)))));
+        const planned = captureReadings(plan, targets.targets, t, capture, (check) => lockReason(stateRef.current, check) === null);
+        if (planned.length === 0) {
+          setStatus({ kind: 'rejected', message: `the capture has no figure for ${t.check}; it is saved as ${file}` });
+          return;
+        }
+        let lastId = '';
+        for (const p of planned) {
+          const saved = await log.appendReading(serial, { run, check: p.check, value: p.value, unit: p.unit, raw: p.raw, operator, verdict: p.verdict, planHash: plan.hash, capture: file });
+          dispatch({ type: 'record-reading', reading: toRunReading(saved) });
+          lastId = saved.id;
+        }
+        setStatus({ kind: 'saved', id: lastId });
+      } catch (error) {
+        setStatus({ kind: 'error', message: `capture not saved: ${message(error)}` });
+      }
+    },
+    [targets, plan, log, serial, operator, ensureRun],
+  );
+
+  const last = state.last;
+  const lastTarget: Target | undefined = last ? targets.targets.find((t) => t.check === last.check) : undefined;
+  const explanation = useMemo(() => {
+    if (!last || last.verdict === 'pass' || !Number.isFinite(last.value)) return { explanations: [], hints: [] };
+    let explanations: ReturnType<typeof explainReading> = [];
+    let hints: readonly string[] = [];
+    try {
+      explanations = explainReading(plan, last.check, last.value);
+    } catch {
+      explanations = [];
+    }
+    try {
+      hints = hintsFor(plan, last.check);
+    } catch {
+      hints = [];
+    }
+    return { explanations, hints };
+  }, [plan, last]);
+
+  return {
+    state,
+    status,
+    runId,
+    target,
+    lastTarget,
+    explanation,
+    submit,
+    select,
+    acceptSuggestion,
+    saveRework,
+    endRun,
+    attachCapture,
+    acknowledgeCautions: useCallback(() => dispatch({ type: 'acknowledge-cautions' }), []),
+    acknowledgePowerOff: useCallback(() => dispatch({ type: 'power-off-acknowledged' }), []),
+    captured: useCallback((output: string) => captures.get(output) ?? null, [captures]),
+    clearStatus: useCallback(() => setStatus((s) => (s.kind === 'rejected' ? { kind: 'idle' } : s)), []),
+  };
+}
+
+export type BringUp = ReturnType<typeof useBringUpState>;
