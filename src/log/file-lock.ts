@@ -84,6 +84,27 @@ function breakLock(path: string, staleText: string): void {
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
+// Callers in this process queue here per lock file, so they wait for each other
+// without polling the file system; only the queue's head competes with other processes.
+const queues = new Map<string, Promise<unknown>>();
+
+function inProcessTurn(path: string): { ready: Promise<unknown>; done: () => void } {
+  const before = queues.get(path) ?? Promise.resolve();
+  let done: () => void = () => {};
+  const mine = new Promise<void>((resolve) => {
+    done = resolve;
+  });
+  const tail = before.then(() => mine);
+  queues.set(path, tail);
+  return {
+    ready: before,
+    done: () => {
+      done();
+      if (queues.get(path) === tail) queues.delete(path);
+    },
+  };
+}
+
 /**
  * Run `fn` holding an exclusive lock on `target` (the file `<target>.lock`,
  * created with O_EXCL, naming pid, host and a nonce). Works across processes
@@ -93,6 +114,16 @@ const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
  */
 export async function withFileLock<T>(target: string, fn: () => Promise<T>, options: LockOptions = {}): Promise<T> {
   const path = `${target}.lock`;
+  const turn = inProcessTurn(path);
+  await turn.ready;
+  try {
+    return await withLockFile(path, target, fn, options);
+  } finally {
+    turn.done();
+  }
+}
+
+async function withLockFile<T>(path: string, target: string, fn: () => Promise<T>, options: LockOptions): Promise<T> {
   const waitMs = options.waitMs ?? 30_000;
   const staleMs = options.staleMs ?? 120_000;
   const me: Holder = { pid: process.pid, host: hostname(), nonce: randomBytes(8).toString('hex'), at: new Date().toISOString() };
@@ -119,7 +150,7 @@ export async function withFileLock<T>(target: string, fn: () => Promise<T>, opti
       throw new LogLockError(target, `${target} is busy: its lock ${path} has been held by ${who}; if no probebook is running there, delete ${path} and try again`);
     }
     await sleep(pause + Math.random() * pause);
-    pause = Math.min(pause * 2, 50);
+    pause = Math.min(pause * 2, 8);
   }
   try {
     return await fn();

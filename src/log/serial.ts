@@ -9,7 +9,7 @@ const reservedNames = /^(con|prn|aux|nul|com[1-9]|lpt[1-9])$/i;
  * Check a board serial before it becomes a file name (`boards/<serial>.json`).
  * Returns null when it is fine, else one line saying what is wrong and what is
  * allowed. ASCII letters, digits, `-`, `_` and `.` only: no path separators, no
- * `..`, no control characters, no leading or trailing dot, at most 64 characters.
+ * `..`, no control characters, no leading dot or dash, no trailing dot, at most 64 characters.
  */
 export function validateSerial(text: string): string | null {
   const allowed = 'a serial may use letters A-Z a-z, digits, "-", "_" and "." (e.g. "EXB-0042")';
@@ -24,6 +24,7 @@ export function validateSerial(text: string): string | null {
   }
   if (text.includes('..')) return `serial ${JSON.stringify(text)} contains ".."; ${allowed}`;
   if (text.startsWith('.')) return `serial ${JSON.stringify(text)} starts with "."; ${allowed}`;
+  if (text.startsWith('-')) return `serial ${JSON.stringify(text)} starts with "-" (it would read as an option); ${allowed}`;
   if (text.endsWith('.')) return `serial ${JSON.stringify(text)} ends with "."; ${allowed}`;
   const bad = /[^A-Za-z0-9._-]/.exec(text);
   if (bad) return `serial ${JSON.stringify(text)} contains ${JSON.stringify(bad[0])}; ${allowed}`;
