@@ -1,0 +1,44 @@
+// `npm start`: open the bench screen on the demo plans with a writable copy of
+// an invented demo log. The log lives in `.demo-log/` at the repository root
+// (git-ignored, never committed) and is made again by `demo/make-demo-log.ts`
+// whenever it is missing; delete the folder for a fresh one.
+import { spawnSync } from 'node:child_process';
+import { existsSync, readdirSync, statSync } from 'node:fs';
+import { dirname, join, relative } from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+const logDir = join(root, '.demo-log');
+const bundle = join(root, 'dist', 'probebook.js');
+const plans = ['demo/exciter.plan.json', 'demo/line-driver.plan.json'];
+
+/** The newest modification time of the files under `dir`, ms. */
+function newest(dir) {
+  let latest = 0;
+  for (const entry of readdirSync(dir, { withFileTypes: true })) {
+    const path = join(dir, entry.name);
+    latest = Math.max(latest, entry.isDirectory() ? newest(path) : statSync(path).mtimeMs);
+  }
+  return latest;
+}
+
+function run(args, what) {
+  const result = spawnSync(process.execPath, args, { cwd: root, stdio: 'inherit' });
+  if (result.status !== 0) {
+    console.error(`probebook demo: ${what} failed (exit ${result.status ?? result.signal}).`);
+    process.exit(1);
+  }
+}
+
+// Build the bundle when it is missing or older than the sources.
+if (!existsSync(bundle) || statSync(bundle).mtimeMs < newest(join(root, 'src'))) {
+  console.log('probebook demo: building dist/probebook.js …');
+  run(['scripts/build.mjs'], 'the build');
+}
+if (!existsSync(join(logDir, 'boards'))) {
+  console.log(`probebook demo: writing the invented demo log to ${relative(process.cwd(), logDir) || logDir} …`);
+  run(['--import', 'tsx', 'demo/make-demo-log.ts', logDir], 'writing the demo log');
+}
+const args = [bundle, '--log', logDir, ...plans.flatMap((p) => ['--plan', join(root, p)]), ...process.argv.slice(2)];
+const result = spawnSync(process.execPath, args, { stdio: 'inherit' });
+process.exitCode = result.status ?? 1;

@@ -1,0 +1,98 @@
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { render } from 'ink-testing-library';
+import { openLog } from '../../src/log/store.js';
+import type { BenchLog } from '../../src/log/types.js';
+import { loadPlanText } from '../../src/plan/load.js';
+import type { Plan } from '../../src/plan/types.js';
+import { App, type Route } from '../../src/ui/app.js';
+import { PlanCatalog } from '../../src/ui/bench/plan-catalog.js';
+
+/**
+ * A small invented board for the UI tests: a reference divider from the +5 V
+ * rail into an inverting stage. Values are illustrative, not from any product.
+ */
+export const fixturePlanText = `${JSON.stringify(
+  {
+    plan: 'ui-fixture',
+    title: 'UI test board (invented)',
+    note: 'Invented test board; values are illustrative, not from any product.',
+    rails: [
+      { id: '+5V', nominal: '5 V', tol: '2%' },
+      { id: '-5V', nominal: '-5 V', tol: '2%' },
+    ],
+    idleCurrent: { max: '20 mA' },
+    uncertainty: { V: '0.5% + 2 mV', A: '1% + 0.1 mA', Hz: '0.01%', ohm: '1% + 1 ohm' },
+    stages: [
+      { id: 'ref', kind: 'divider', from: '+5V', parts: { Rtop: '10k 1%', Rbottom: '4k7 1%' }, testPoints: { out: 'TP1' } },
+      { id: 'amp', kind: 'inverting-amp', input: 'ref.out', parts: { Rin: '10k 1%', Rf: '15k 1%' }, testPoints: { out: 'TP2' } },
+    ],
+  },
+  null,
+  2,
+)}\n`;
+
+export interface RenderAppOptions {
+  /** Plan texts given as if with `--plan`. @default [fixturePlanText] */
+  readonly planTexts?: readonly string[];
+  /** Put boards into the log before the app starts. */
+  readonly setup?: (log: BenchLog, plans: readonly Plan[]) => Promise<void>;
+  /** @default 80 */
+  readonly width?: number;
+  /** @default 23 (a 24-row terminal less the row Ink needs) */
+  readonly height?: number;
+  /** Monte Carlo trials for the targets; small keeps the tests fast. @default 400 */
+  readonly trials?: number;
+  readonly operator?: string;
+  readonly initialRoute?: Route;
+}
+
+/** The app on a fresh temporary log, as ink-testing-library renders it, plus the log and its folder. */
+export async function renderApp(options: RenderAppOptions = {}) {
+  const dir = await mkdtemp(join(tmpdir(), 'probebook-ui-'));
+  const log = await openLog(dir);
+  const plans = (options.planTexts ?? [fixturePlanText]).map((text, i) => loadPlanText(text, `fixture-${i}.plan.json`));
+  await options.setup?.(log, plans);
+  const catalog = new PlanCatalog(log, plans, { trials: options.trials ?? 400, seed: 1 });
+  const result = render(
+    <App
+      log={log}
+      catalog={catalog}
+      operator={options.operator ?? 'tester'}
+      size={{ width: options.width ?? 80, height: options.height ?? 23 }}
+      {...(options.initialRoute ? { initialRoute: options.initialRoute } : {})}
+    />,
+  );
+  const frame = () => result.lastFrame() ?? '';
+  /** Wait until the screen shows `text` (or the predicate holds); fails with the last frame. */
+  const waitFor = async (text: string | RegExp | ((frame: string) => boolean), timeoutMs = 5000) => {
+    const test = typeof text === 'function' ? text : (f: string) => (typeof text === 'string' ? f.includes(text) : text.test(f));
+    const until = Date.now() + timeoutMs;
+    while (!test(frame())) {
+      if (Date.now() > until) throw new Error(`timed out waiting for ${String(text)}; the screen shows:\n${frame()}`);
+      await new Promise((r) => setTimeout(r, 10));
+    }
+    return frame();
+  };
+  /** Send keys and wait for the next frame (or a short while when the key changes nothing). */
+  const press = async (...sequence: string[]) => {
+    for (const key of sequence) {
+      const before = result.frames.length;
+      result.stdin.write(key);
+      const until = Date.now() + 300;
+      while (result.frames.length === before && Date.now() < until) await new Promise((r) => setTimeout(r, 5));
+      // Let effects that follow the frame settle (async log reads start here).
+      await new Promise((r) => setTimeout(r, 5));
+    }
+  };
+  /** Type text one key at a time, as a technician does. */
+  const type = async (text: string) => press(...[...text]);
+  const cleanup = async () => {
+    result.unmount();
+    await rm(dir, { recursive: true, force: true });
+  };
+  return { ...result, dir, log, plans, catalog, frame, waitFor, press, type, cleanup };
+}
+
+export type RenderedApp = Awaited<ReturnType<typeof renderApp>>;
