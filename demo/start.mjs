@@ -1,14 +1,15 @@
 // `npm start`: open the bench screen on the demo plans with a writable copy of
 // an invented demo log. The log lives in `.demo-log/` at the repository root
 // (git-ignored, never committed) and is made again by `demo/make-demo-log.ts`
-// whenever it is missing; delete the folder for a fresh one.
+// whenever it is missing; delete the folder for a fresh one. PROBEBOOK_DEMO_LOG
+// puts it elsewhere (the real-terminal test uses a temporary folder).
 import { spawnSync } from 'node:child_process';
 import { existsSync, readdirSync, statSync } from 'node:fs';
-import { dirname, join, relative } from 'node:path';
+import { dirname, join, relative, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-const logDir = join(root, '.demo-log');
+const logDir = process.env.PROBEBOOK_DEMO_LOG ? resolve(process.env.PROBEBOOK_DEMO_LOG) : join(root, '.demo-log');
 const bundle = join(root, 'dist', 'probebook.js');
 const plans = ['demo/exciter.plan.json', 'demo/line-driver.plan.json'];
 
