@@ -1,18 +1,144 @@
-import type { StageKind } from './types.js';
+import { swing } from './opamp.js';
+import { type SchmittCircuit, type SchmittTiming, schmittTiming } from './schmitt-model.js';
+import { parseSchmitt, type SchmittSettings } from './schmitt-parse.js';
+import { schmittWarnings } from './schmitt-warnings.js';
+import { schmittWaves } from './schmitt-wave.js';
+import type { CheckSpec, EvalInput, EvalOutput, StageKind } from './types.js';
+import { defaultSamples } from './waveform.js';
 
-// PLACEHOLDER until the stage kind is written: it refuses to evaluate.
-export const schmittIntegratorKind: StageKind<unknown> = {
+export type { SchmittSettings } from './schmitt-parse.js';
+
+/**
+ * Square/triangle relaxation oscillator: a comparator with positive feedback
+ * (R1 from the triangle, R2 from the square) driving an inverting integrator
+ * (Rt + RV·setting, Ct), optionally with back-to-back zeners behind Rz on the
+ * square node. Timing with the comparator's slew rate: `schmitt-model.ts`.
+ *
+ * When the loop cannot oscillate (the switching point lies beyond the
+ * integrator's swing, e.g. R1 ≥ R2 unclamped) the frequency, duty and triangle
+ * values are NaN — there is no target to test against — and the outputs are DC
+ * at the latched levels (frequency 0); a warning says why.
+ */
+
+function circuit(input: EvalInput<SchmittSettings>, pot: number): SchmittCircuit {
+  const { parts, opamp } = input;
+  const { high, low } = swing(opamp, input.supplies);
+  const vz = parts['clamp.vz'];
+  const vf = parts['clamp.vf'];
+  return {
+    r1: parts['R1'] ?? Number.NaN,
+    r2: parts['R2'] ?? Number.NaN,
+    r: (parts['Rt'] ?? Number.NaN) + (parts['RV'] ?? 0) * pot,
+    c: parts['Ct'] ?? Number.NaN,
+    rz: parts['Rz'] ?? 0,
+    vc: input.settings.hasClamp && vz !== undefined && vf !== undefined ? vz + vf : Number.POSITIVE_INFINITY,
+    high,
+    low,
+    slew: opamp.slew,
+    gbw: opamp.gbw,
+  };
+}
+
+function frequencyOf(t: SchmittTiming): number {
+  return t.oscillates ? 1 / t.period : Number.NaN;
+}
+
+function evaluate(input: EvalInput<SchmittSettings>): EvalOutput {
+  const s = input.settings;
+  const p = circuit(input, s.pot);
+  const t = schmittTiming(p);
+  const warnings = schmittWarnings(p, t, { hasClamp: s.hasClamp, hasRz: p.rz > 0 });
+  const values: Record<string, number> = {
+    freq: frequencyOf(t),
+    'square.vpp': t.oscillates ? t.squareHigh - t.squareLow : 0,
+    'square.high': t.squareHigh,
+    'square.low': t.squareLow,
+    duty: t.oscillates ? t.duty : Number.NaN,
+  };
+  if (s.hasPot) {
+    // RV fully in gives the lowest frequency, RV shorted the highest.
+    values['freq.min'] = frequencyOf(schmittTiming(circuit(input, 1)));
+    values['freq.max'] = frequencyOf(schmittTiming(circuit(input, 0)));
+  }
+  if (!t.oscillates) {
+    // Latched: the square sits high and the integrator runs into its low limit.
+    values['triangle.vpp'] = Number.NaN;
+    values['triangle.peak'] = Number.NaN;
+    return {
+      outputs: {
+        square: { frequency: 0, samples: new Float64Array(defaultSamples).fill(t.squareHigh) },
+        triangle: { frequency: 0, samples: new Float64Array(defaultSamples).fill(p.low) },
+      },
+      values,
+      warnings,
+    };
+  }
+  const top = Math.min(t.triangleMax, p.high);
+  const bottom = Math.max(t.triangleMin, p.low);
+  values['triangle.vpp'] = top - bottom;
+  values['triangle.peak'] = top;
+  const { square, triangle } = schmittWaves(t, p.high, p.low);
+  return { outputs: { square, triangle }, values, warnings };
+}
+
+const baseChecks: readonly CheckSpec[] = [
+  { key: 'freq', quantity: 'frequency', unit: 'Hz', output: 'square', instrument: 'counter', how: 'counter on the square test point, DC coupled, gate 1 s' },
+  { key: 'square.vpp', quantity: 'square peak-to-peak', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, 10× probe, measure Vpp' },
+  { key: 'square.high', quantity: 'square high level', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, measure the top level' },
+  { key: 'square.low', quantity: 'square low level', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, measure the base level' },
+  { key: 'duty', quantity: 'duty cycle (high time / period)', unit: '1', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, measure positive duty at the 50 % level' },
+  { key: 'triangle.vpp', quantity: 'triangle peak-to-peak', unit: 'V', output: 'triangle', instrument: 'scope', how: 'scope on the triangle test point, DC coupled, 10× probe, measure Vpp' },
+];
+
+const potChecks: readonly CheckSpec[] = [
+  { key: 'freq.min', quantity: 'lowest frequency (RV all in)', unit: 'Hz', output: 'square', instrument: 'counter', how: 'turn RV to the slow end, read the counter on the square test point, then set RV back' },
+  { key: 'freq.max', quantity: 'highest frequency (RV shorted)', unit: 'Hz', output: 'square', instrument: 'counter', how: 'turn RV to the fast end, read the counter on the square test point, then set RV back' },
+];
+
+const faultHints: Readonly<Record<string, readonly string[]>> = {
+  freq: [
+    'Ct a decade off (a 220n fitted for 22n reads ten times slow; 2n2 ten times fast)',
+    'Rt a neighbouring value or a ×10 slip (3k3 for 33k)',
+    'RV wiper not at the setting, or RV open (frequency stuck at one end)',
+    'R1 and R2 swapped (frequency moves by (R2/R1)², triangle by the same ratio)',
+    'slower op-amp fitted than planned (lower slew rate lengthens every edge)',
+  ],
+  'freq.min': ['RV open or its track broken at one end', 'RV of a different value fitted (10k for 100k)', 'Ct or Rt wrong: check freq first'],
+  'freq.max': ['RV wiper not reaching the end (Rt alone sets the top)', 'Rt wrong: check freq first', 'slew rate limiting the top end: check the square edges'],
+  'square.vpp': [
+    'zener fitted backwards (square at about ±0.7 V, both zeners forward)',
+    'one zener open or missing (one side at the op-amp swing)',
+    'zener of another voltage fitted (check the marking)',
+    'rail low or missing: check rails first (unclamped square follows the rails)',
+  ],
+  'square.high': ['positive rail low', 'upper zener of the wrong voltage or backwards', 'Rz too large for the load (clamp not reached)'],
+  'square.low': ['negative rail low', 'lower zener of the wrong voltage or backwards', 'Rz too large for the load (clamp not reached)'],
+  duty: ['unequal rails (unclamped square): check both rail readings', 'one zener of another voltage', 'offset at the integrator or comparator input (leaky Ct, a resistor from a node to a rail)'],
+  'triangle.vpp': [
+    'R1 or R2 wrong: triangle peak = square level × R1/R2',
+    'square level wrong: check square.vpp first',
+    'triangle clipping at the integrator swing: lower R1/R2',
+    'integrator slew-limited (ramps straight, slower than Rt·Ct): check the op-amp fitted',
+  ],
+};
+
+export const schmittIntegratorKind: StageKind<SchmittSettings> = {
   kind: 'schmitt-integrator',
-  summary: 'not built yet',
-  roles: [],
-  outputs: ['out'],
+  summary: 'square/triangle relaxation oscillator: comparator with hysteresis into an integrator',
+  roles: [
+    { role: 'R1', unit: 'Ω', description: 'hysteresis resistor from the triangle to the comparator input' },
+    { role: 'R2', unit: 'Ω', description: 'feedback resistor from the square to the comparator input' },
+    { role: 'Rt', unit: 'Ω', description: 'integrator input (timing) resistor' },
+    { role: 'Ct', unit: 'F', description: 'integrator (timing) capacitor' },
+    { role: 'RV', unit: 'Ω', description: 'frequency pot in series with Rt', optional: true },
+    { role: 'Rz', unit: 'Ω', description: 'series resistor from the comparator to the clamped square node', optional: true },
+    { role: 'clamp.vz', unit: 'V', description: 'zener voltage of the square clamp', optional: true },
+    { role: 'clamp.vf', unit: 'V', description: 'forward drop of the square clamp zener', optional: true },
+  ],
+  outputs: ['square', 'triangle'],
   needsInput: false,
-  parse() {
-    throw new Error('stage kind schmitt-integrator is not built yet');
-  },
-  checks: () => [],
-  evaluate() {
-    throw new Error('stage kind schmitt-integrator is not built yet');
-  },
-  faultHints: {},
+  parse: parseSchmitt,
+  checks: (settings) => (settings.hasPot ? [...baseChecks.slice(0, 1), ...potChecks, ...baseChecks.slice(1)] : baseChecks),
+  evaluate,
+  faultHints,
 };

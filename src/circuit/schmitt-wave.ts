@@ -1,0 +1,96 @@
+import type { SchmittTiming } from './schmitt-model.js';
+import type { Waveform } from './types.js';
+import { defaultSamples } from './waveform.js';
+
+/**
+ * One period of the square and the triangle from the timing model, phase 0 at
+ * the square's rising mid-level crossing (start of its high half). The square
+ * is a trapezoid whose ramps last `edge` and are centred on the effective
+ * switching instants; the triangle is its running integral over RC, scaled
+ * about its centre to the model's peaks (the integrator's small − input offset
+ * is not in the integral) and clipped at the integrator's swing.
+ */
+export function schmittWaves(
+  t: SchmittTiming,
+  swingHigh: number,
+  swingLow: number,
+  n = defaultSamples,
+): { square: Waveform; triangle: Waveform } {
+  const square = new Float64Array(n);
+  const triangle = new Float64Array(n);
+  const { period, squareHigh: sH, squareLow: sL } = t;
+  const h = t.highTime;
+  // A model stretched past its range must still draw: an edge never outlasts a half.
+  const e = Math.min(t.edge, h, period - h);
+  const mid = (sH + sL) / 2;
+  const slope = e > 0 ? (sH - sL) / e : 0;
+  // Segment ends: rising ramp's second half, high flat, falling ramp, low flat, rising ramp's first half.
+  const ends0 = e / 2;
+  const ends1 = h - e / 2;
+  const ends2 = h + e / 2;
+  const ends3 = period - e / 2;
+  let seg = 0;
+  let segStart = 0;
+  let segArea = 0;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const time = (i / n) * period;
+    for (;;) {
+      const end = seg === 0 ? ends0 : seg === 1 ? ends1 : seg === 2 ? ends2 : seg === 3 ? ends3 : Infinity;
+      if (time < end) break;
+      segArea += areaOf(seg, end - segStart, mid, slope, sH, sL);
+      segStart = end;
+      seg++;
+    }
+    const dt = time - segStart;
+    square[i] = valueOf(seg, dt, mid, slope, sH, sL);
+    // The integrator inverts: the triangle falls while the square is high.
+    const tri = -(segArea + areaOf(seg, dt, mid, slope, sH, sL));
+    triangle[i] = tri;
+    if (tri < lo) lo = tri;
+    if (tri > hi) hi = tri;
+  }
+  const raw = hi - lo;
+  const want = t.triangleMax - t.triangleMin;
+  const scale = raw > 0 ? want / raw : 0;
+  const centre = (t.triangleMax + t.triangleMin) / 2;
+  const rawCentre = (hi + lo) / 2;
+  for (let i = 0; i < n; i++) {
+    const v = centre + ((triangle[i] ?? 0) - rawCentre) * scale;
+    triangle[i] = v > swingHigh ? swingHigh : v < swingLow ? swingLow : v;
+  }
+  const frequency = 1 / period;
+  return { square: { frequency, samples: square }, triangle: { frequency, samples: triangle } };
+}
+
+function valueOf(seg: number, dt: number, mid: number, slope: number, sH: number, sL: number): number {
+  switch (seg) {
+    case 0:
+      return mid + slope * dt;
+    case 1:
+      return sH;
+    case 2:
+      return sH - slope * dt;
+    case 3:
+      return sL;
+    default:
+      return sL + slope * dt;
+  }
+}
+
+/** ∫ of the square over the first `dt` of segment `seg` (the ramps are linear). */
+function areaOf(seg: number, dt: number, mid: number, slope: number, sH: number, sL: number): number {
+  switch (seg) {
+    case 0:
+      return mid * dt + (slope * dt * dt) / 2;
+    case 1:
+      return sH * dt;
+    case 2:
+      return sH * dt - (slope * dt * dt) / 2;
+    case 3:
+      return sL * dt;
+    default:
+      return sL * dt + (slope * dt * dt) / 2;
+  }
+}
