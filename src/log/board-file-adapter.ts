@@ -64,7 +64,7 @@ export class BoardFileAdapter implements Adapter<BoardFile> {
     const backup = this.text.backup;
     const bak = await new DurableTextFile(backup).read();
     if (bak !== null && 'board' in problemOf(bak, this.serial, this.migrations)) {
-      return `The previous good version is ${backup}; restore it with: cp '${backup}' '${this.file}' (it lacks only the last change), then record that change again.`;
+      return `The previous good version is ${backup}; restore it with: cp '${backup}' '${this.file}' (it lacks at most the last change; check it with probebook history).`;
     }
     return `No good backup (${backup} is ${bak === null ? 'missing' : 'damaged too'}): fix the file by hand at that place, or move it aside with: mv '${this.file}' '${this.file}.damaged'`;
   }

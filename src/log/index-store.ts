@@ -16,6 +16,10 @@ export type IndexProgress = (done: number, total: number) => void;
 /** Compact the journal into `index.json` once it grows past this many bytes. */
 export const journalLimitBytes = 4 * 1024 * 1024;
 
+/** Temporary files of the durable writes (`<file>.<pid>-<hex>.tmp`); removed once an hour old. */
+const leftoverPattern = /\.\d+-[0-9a-f]{8}\.(tmp|baktmp)$/;
+const leftoverAgeMs = 60 * 60 * 1000;
+
 interface Snapshot {
   readonly schemaVersion: number;
   readonly boards: Record<string, BoardSummary>;
@@ -128,11 +132,23 @@ export class IndexStore {
   }
 
   #boardNames(): string[] {
+    let names: string[];
     try {
-      return readdirSync(this.boardsDir).filter((name) => name.endsWith('.json') && validateSerial(name.slice(0, -5)) === null);
+      names = readdirSync(this.boardsDir);
     } catch (error) {
       if (errorCode(error) === 'ENOENT') return [];
       throw error;
+    }
+    for (const name of names) if (leftoverPattern.test(name)) this.#removeIfOld(join(this.boardsDir, name));
+    return names.filter((name) => name.endsWith('.json') && validateSerial(name.slice(0, -5)) === null);
+  }
+
+  /** A temporary file of a writer that was killed mid-write; none lives longer than a write. */
+  #removeIfOld(path: string): void {
+    try {
+      if (Date.now() - statSync(path).mtimeMs > leftoverAgeMs) unlinkSync(path);
+    } catch (error) {
+      if (errorCode(error) !== 'ENOENT') throw error;
     }
   }
 
