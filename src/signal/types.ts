@@ -86,8 +86,8 @@ export interface Measurements {
   readonly clipped: boolean;
   /** A flat step around the mean level at each zero crossing (push-pull dead band). */
   readonly notch: boolean;
-  /** Width of the notch, V (the level span of the flat step), when there is one. */
-  readonly notchWidth: number | null;
+  /** How long the output dwells on the flat step at each crossing, s, when there is a notch. */
+  readonly notchTime: number | null;
   /** Peak over AC RMS. */
   readonly crestFactor: number;
   /** AC RMS over mean absolute deviation. */

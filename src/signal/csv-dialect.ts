@@ -1,0 +1,141 @@
+import { CaptureError } from './types.js';
+
+/** How a CSV capture is written, as found from its first lines. */
+export interface CsvDialect {
+  /** Field separator: `,`, `;` or a tab. */
+  readonly delimiter: ',' | ';' | '\t';
+  /** Decimal marker: `.` or `,` (the latter only with `;` or tab separators). */
+  readonly decimal: '.' | ',';
+  /** Lines before the first row of numbers (preamble and header). */
+  readonly skipLines: number;
+  /** Numbers per row. */
+  readonly columns: number;
+  /** Column names from the header line, or `CH1`, `CH2`… */
+  readonly names: readonly string[];
+  /** Unit of each column as written (`V`, `mV`, `s`), `''` when none. */
+  readonly units: readonly string[];
+  /** Sample interval found in the preamble (`Sample Interval,1e-6`), s. */
+  readonly preambleDt?: number;
+}
+
+const numberText = {
+  '.': /^\s*"?[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?"?\s*$/,
+  ',': /^\s*"?[+-]?(?:\d+(?:,\d*)?|,\d+)(?:[eE][+-]?\d+)?"?\s*$/,
+};
+
+const candidates: readonly { delimiter: CsvDialect['delimiter']; decimal: CsvDialect['decimal'] }[] = [
+  { delimiter: ',', decimal: '.' },
+  { delimiter: ';', decimal: '.' },
+  { delimiter: '\t', decimal: '.' },
+  { delimiter: ';', decimal: ',' },
+  { delimiter: '\t', decimal: ',' },
+];
+
+function isNumericRow(line: string, delimiter: string, decimal: '.' | ','): number {
+  let fields = line.split(delimiter);
+  // A separator at the end of every row (`1.0,2.0,`) leaves an empty last field.
+  if (fields.length > 1 && fields[fields.length - 1]?.trim() === '') fields = fields.slice(0, -1);
+  const pattern = numberText[decimal];
+  return fields.every((f) => pattern.test(f)) ? fields.length : 0;
+}
+
+/**
+ * Find the dialect from the first lines of a file. `complete` says whether the
+ * text is the whole file (else its last line may be cut and is ignored).
+ */
+export function detectDialect(text: string, complete: boolean, name: string): CsvDialect {
+  const lines = text.split('\n').map((l) => l.replace(/\r$/, ''));
+  if (!complete) lines.pop();
+  let best: { score: number; columns: number; start: number; c: (typeof candidates)[number] } | undefined;
+  for (const c of candidates) {
+    // The first row of numbers, then how many of the following rows agree with it.
+    const start = lines.findIndex((l) => l.trim() !== '' && isNumericRow(l, c.delimiter, c.decimal) > 0);
+    if (start < 0) continue;
+    const columns = isNumericRow(lines[start] ?? '', c.delimiter, c.decimal);
+    let score = 0;
+    for (let i = start; i < lines.length && i < start + 200; i++) {
+      const l = lines[i] ?? '';
+      if (l.trim() === '') continue;
+      if (isNumericRow(l, c.delimiter, c.decimal) === columns) score++;
+      else break;
+    }
+    if (!best || score > best.score || (score === best.score && columns > best.columns)) best = { score, columns, start, c };
+  }
+  if (!best) {
+    throw new CaptureError(`${name}: no rows of numbers in the first ${lines.length} lines; is this a capture exported as CSV?`);
+  }
+  const { c, columns, start } = best;
+  const names: string[] = [];
+  const units: string[] = [];
+  const header = findHeader(lines, start, c.delimiter, columns);
+  for (let i = 0; i < columns; i++) {
+    const raw = header?.[i]?.trim().replace(/^"|"$/g, '') ?? '';
+    const { label, unit } = splitUnit(raw);
+    names.push(label !== '' ? label : `CH${i + 1}`);
+    units.push(unit);
+  }
+  const preambleDt = findPreambleDt(lines.slice(0, start));
+  return {
+    delimiter: c.delimiter,
+    decimal: c.decimal,
+    skipLines: start,
+    columns,
+    names,
+    units,
+    ...(preambleDt !== undefined ? { preambleDt } : {}),
+  };
+}
+
+function findHeader(lines: readonly string[], start: number, delimiter: string, columns: number): string[] | undefined {
+  for (let i = start - 1; i >= 0; i--) {
+    const l = lines[i] ?? '';
+    if (l.trim() === '') continue;
+    let fields = l.split(delimiter);
+    if (fields.length === columns + 1 && fields[columns]?.trim() === '') fields = fields.slice(0, columns);
+    return fields.length === columns ? fields : undefined;
+  }
+  return undefined;
+}
+
+const unitWords = /^(s|ms|us|µs|μs|ns|ps|V|mV|uV|µV|μV|kV|A|mA|uA|µA|μA|Hz|kHz)$/i;
+
+/** `Time (s)`, `CH1 [V]`, `CH2/mV`, `CH3 mV` → label and unit. */
+export function splitUnit(raw: string): { label: string; unit: string } {
+  const bracket = /^(.*?)\s*[([]\s*([^)\]]*?)\s*[)\]]\s*$/.exec(raw);
+  if (bracket) return { label: (bracket[1] ?? '').trim(), unit: (bracket[2] ?? '').trim() };
+  const slash = /^(.*?)\s*\/\s*(\S+)$/.exec(raw);
+  if (slash && unitWords.test(slash[2] ?? '')) return { label: (slash[1] ?? '').trim(), unit: slash[2] ?? '' };
+  const word = /^(.*?)\s+(\S+)$/.exec(raw);
+  if (word && unitWords.test(word[2] ?? '')) return { label: (word[1] ?? '').trim(), unit: word[2] ?? '' };
+  if (unitWords.test(raw)) return { label: raw, unit: raw };
+  return { label: raw, unit: '' };
+}
+
+const dtLine = /^\s*"?(?:sample[ _-]?interval|sampling[ _-]?interval|interval|dt|x[ _-]?increment|xinc)"?\s*[,;:\t=]\s*"?([-+]?[\d.,]+(?:[eE][-+]?\d+)?)\s*(s|ms|us|µs|μs|ns)?"?/i;
+
+function findPreambleDt(preamble: readonly string[]): number | undefined {
+  for (const l of preamble) {
+    const m = dtLine.exec(l);
+    if (!m) continue;
+    const value = Number((m[1] ?? '').replace(',', '.'));
+    const scale = unitScale(m[2] ?? 's', 's');
+    if (Number.isFinite(value) && value > 0 && scale !== undefined) return value * scale;
+  }
+  return undefined;
+}
+
+/**
+ * The factor from a written unit to SI (`mV` → 1e-3), when it is a unit of
+ * `base` (`V`, `s`, `A`); undefined otherwise. SI prefixes per the BIPM SI
+ * Brochure, 9th edition (2019).
+ */
+export function unitScale(unit: string, base: 'V' | 's' | 'A'): number | undefined {
+  const u = unit.trim();
+  if (u === '') return undefined;
+  const lower = u.toLowerCase();
+  const b = base.toLowerCase();
+  if (!lower.endsWith(b)) return undefined;
+  const prefix = u.slice(0, u.length - 1);
+  const scales: Readonly<Record<string, number>> = { '': 1, k: 1e3, m: 1e-3, u: 1e-6, µ: 1e-6, μ: 1e-6, n: 1e-9, p: 1e-12 };
+  return scales[prefix] ?? (prefix === 'K' ? 1e3 : undefined);
+}

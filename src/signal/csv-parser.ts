@@ -1,0 +1,221 @@
+import { type CsvDialect, detectDialect, unitScale } from './csv-dialect.js';
+import { GrowableF64 } from './growable.js';
+import { scan, scanNumber } from './number-scan.js';
+import { type Capture, CaptureError, type ReadOptions } from './types.js';
+
+const LF = 10;
+const CR = 13;
+const SPACE = 32;
+const TAB = 9;
+/** Bytes looked at before the dialect is decided. */
+const headBytes = 64 * 1024;
+
+function isTimeColumn(name: string, unit: string): boolean {
+  return unitScale(unit, 's') !== undefined || /^(time|t|sec|secs|seconds|x-axis)$/i.test(name.trim());
+}
+
+/**
+ * A CSV capture read in chunks straight from bytes: `push` each chunk as it
+ * arrives, then `end`. Only the numbers are kept (in Float64Arrays grown
+ * geometrically); the file's text is never held as a string.
+ */
+export class CsvParser {
+  private dialect: CsvDialect | undefined;
+  private head: Uint8Array[] = [];
+  private headLength = 0;
+  private tail: Uint8Array = new Uint8Array(0);
+  private line = 0;
+  private columns: GrowableF64[] = [];
+  private timeColumn = -1;
+  private delimiter = 44;
+  private decimal = 46;
+  private expectedRows: number;
+  // Time column tracking, without storing it.
+  private t0 = Number.NaN;
+  private tPrev = Number.NaN;
+  private tLast = Number.NaN;
+  private minStep = Infinity;
+  private maxStep = -Infinity;
+  private rows = 0;
+
+  constructor(
+    private readonly options: ReadOptions,
+    /** The file size when known, to size the arrays once. */
+    private readonly totalBytes = 0,
+  ) {
+    this.expectedRows = 0;
+  }
+
+  push(chunk: Uint8Array): void {
+    if (!this.dialect) {
+      this.head.push(chunk);
+      this.headLength += chunk.length;
+      if (this.headLength < headBytes) return;
+      this.start(false);
+      return;
+    }
+    this.feed(chunk);
+  }
+
+  end(): Capture {
+    if (!this.dialect) this.start(true);
+    if (this.tail.length > 0) {
+      this.parseLine(this.tail, 0, this.tail.length);
+      this.tail = new Uint8Array(0);
+    }
+    return this.finish();
+  }
+
+  private start(complete: boolean): void {
+    const all = concat(this.head, this.headLength);
+    this.head = [];
+    const name = this.options.name ?? 'capture';
+    const text = new TextDecoder('utf-8').decode(all.subarray(0, Math.min(all.length, headBytes * 2)));
+    if (text.includes('\u0000')) throw new CaptureError(`${name}: binary data, not CSV text (and not a WAV file)`);
+    const dialect = detectDialect(text.replace(/^\uFEFF/, ''), complete && all.length <= headBytes * 2, name);
+    this.dialect = dialect;
+    this.delimiter = dialect.delimiter.charCodeAt(0);
+    this.decimal = dialect.decimal.charCodeAt(0);
+    const dt = this.options.dt ?? dialect.preambleDt;
+    if (dialect.columns > 1 || dt === undefined) {
+      const t = dialect.names.findIndex((n, i) => isTimeColumn(n, dialect.units[i] ?? ''));
+      if (t >= 0) this.timeColumn = t;
+      else if (dt === undefined && dialect.columns > 1) this.timeColumn = 0;
+    }
+    if (this.timeColumn < 0 && dt === undefined) {
+      throw new CaptureError(`${name}: one column and no time column; give the sample interval with --dt SECONDS`);
+    }
+    // Bytes per row from the head, to size the arrays for the whole file at once.
+    const headRows = Math.max(1, text.split('\n').length - dialect.skipLines);
+    const perRow = Math.max(4, Math.min(all.length, headBytes * 2) / headRows);
+    this.expectedRows = this.totalBytes > 0 ? Math.ceil((this.totalBytes / perRow) * 1.02) + 16 : 1024;
+    for (let i = 0; i < dialect.columns; i++) this.columns.push(new GrowableF64(i === this.timeColumn ? 0 : this.expectedRows));
+    // Skip the preamble lines, then parse the rest of the head as data.
+    let pos = 0;
+    for (let skipped = 0; skipped < dialect.skipLines; skipped++) {
+      const nl = all.indexOf(LF, pos);
+      if (nl < 0) {
+        pos = all.length;
+        break;
+      }
+      pos = nl + 1;
+      this.line++;
+    }
+    this.feed(all.subarray(pos));
+  }
+
+  private feed(chunk: Uint8Array): void {
+    let pos = 0;
+    if (this.tail.length > 0) {
+      const nl = chunk.indexOf(LF);
+      if (nl < 0) {
+        this.tail = concat([this.tail, chunk], this.tail.length + chunk.length);
+        return;
+      }
+      const joined = concat([this.tail, chunk.subarray(0, nl + 1)], this.tail.length + nl + 1);
+      this.parseLine(joined, 0, joined.length - 1);
+      pos = nl + 1;
+    }
+    const last = chunk.lastIndexOf(LF);
+    while (pos <= last) {
+      const nl = chunk.indexOf(LF, pos);
+      this.parseLine(chunk, pos, nl);
+      pos = nl + 1;
+    }
+    this.tail = pos < chunk.length ? chunk.slice(pos) : new Uint8Array(0);
+  }
+
+  /** One line, from `start` to `end` (the line feed, excluded). */
+  private parseLine(buf: Uint8Array, start: number, end: number): void {
+    this.line++;
+    let stop = end;
+    while (stop > start && (buf[stop - 1] === CR || buf[stop - 1] === SPACE || buf[stop - 1] === TAB)) stop--;
+    if (stop === start) return;
+    const columns = this.columns;
+    const n = columns.length;
+    let pos = start;
+    for (let c = 0; c < n; c++) {
+      const value = scanNumber(buf, pos, stop, this.decimal);
+      const after = scan.end;
+      if (Number.isNaN(value) || (after < stop && buf[after] !== this.delimiter) || (after >= stop && c < n - 1)) {
+        this.rowError(buf, start, stop, c);
+      }
+      if (c === this.timeColumn) this.time(value);
+      else (columns[c] as GrowableF64).push(value);
+      pos = after + 1;
+    }
+    // Anything left must be a trailing separator.
+    if (pos < stop && !isBlank(buf, pos, stop)) this.rowError(buf, start, stop, n);
+    this.rows++;
+  }
+
+  private time(t: number): void {
+    if (this.rows === 0) this.t0 = t;
+    else {
+      const step = t - this.tPrev;
+      if (!(step > 0)) {
+        throw new CaptureError(`${this.options.name ?? 'capture'}, line ${this.line}: time ${t} does not increase (the row before had ${this.tPrev}); if the file has no time column, give the sample interval with --dt SECONDS`);
+      }
+      if (step < this.minStep) this.minStep = step;
+      if (step > this.maxStep) this.maxStep = step;
+    }
+    this.tPrev = t;
+    this.tLast = t;
+  }
+
+  private rowError(buf: Uint8Array, start: number, stop: number, column: number): never {
+    const text = new TextDecoder().decode(buf.subarray(start, Math.min(stop, start + 60)));
+    const d = this.dialect;
+    const sep = d?.delimiter === '\t' ? 'tabs' : `"${d?.delimiter ?? ','}"`;
+    const what = column >= (d?.columns ?? 0)
+      ? `more than ${d?.columns} fields`
+      : `field ${column + 1} is not a number`;
+    throw new CaptureError(
+      `${this.options.name ?? 'capture'}, line ${this.line}: ${what} in ${JSON.stringify(text)}; expected ${d?.columns} numbers separated by ${sep} with "${d?.decimal}" as the decimal marker`,
+    );
+  }
+
+  private finish(): Capture {
+    const d = this.dialect as CsvDialect;
+    const name = this.options.name ?? 'capture';
+    const warnings: string[] = [];
+    let dt = this.options.dt;
+    if (this.timeColumn >= 0 && dt !== undefined) warnings.push('--dt given: the time column is ignored');
+    else if (this.timeColumn >= 0) {
+      const scale = unitScale(d.units[this.timeColumn] ?? '', 's') ?? 1;
+      if (this.rows < 2) throw new CaptureError(`${name}: ${this.rows} row(s); at least 16 samples are needed`);
+      dt = ((this.tLast - this.t0) / (this.rows - 1)) * scale;
+      if (this.maxStep > this.minStep * 1.1 && (this.maxStep - this.minStep) * scale > 0.01 * dt) {
+        warnings.push(`time steps vary from ${(this.minStep * scale).toPrecision(3)} s to ${(this.maxStep * scale).toPrecision(3)} s; figures assume the mean step`);
+      }
+    } else dt = d.preambleDt;
+    if (dt === undefined || !(dt > 0) || !Number.isFinite(dt)) throw new CaptureError(`${name}: no usable sample interval; give it with --dt SECONDS`);
+    const channels = [];
+    for (let c = 0; c < d.columns; c++) {
+      if (c === this.timeColumn) continue;
+      const samples = (this.columns[c] as GrowableF64).finish();
+      const written = d.units[c] ?? '';
+      const scale = unitScale(written, 'V') ?? unitScale(written, 'A');
+      if (scale !== undefined && scale !== 1) for (let i = 0; i < samples.length; i++) samples[i] = (samples[i] ?? 0) * scale;
+      const unit = scale !== undefined ? (unitScale(written, 'V') !== undefined ? 'V' : 'A') : written === '' ? 'V' : written;
+      channels.push({ name: d.names[c] ?? `CH${c + 1}`, unit, samples });
+    }
+    return { channels, sampleRate: 1 / dt, dt, source: `${name} (CSV, ${channels.length} channel${channels.length === 1 ? '' : 's'})`, warnings };
+  }
+}
+
+function isBlank(buf: Uint8Array, from: number, to: number): boolean {
+  for (let i = from; i < to; i++) if (buf[i] !== SPACE && buf[i] !== TAB && buf[i] !== CR) return false;
+  return true;
+}
+
+function concat(parts: readonly Uint8Array[], length: number): Uint8Array {
+  if (parts.length === 1 && parts[0]) return parts[0];
+  const out = new Uint8Array(length);
+  let at = 0;
+  for (const p of parts) {
+    out.set(p, at);
+    at += p.length;
+  }
+  return out;
+}

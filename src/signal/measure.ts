@@ -1,0 +1,136 @@
+import { crossings, periodFromCrossings } from './crossings.js';
+import { harmonicAnalysis, refineFrequency } from './harmonics.js';
+import { extremes, moments, stateLevels } from './levels.js';
+import { averagePeriod } from './period-average.js';
+import { classify, hasNotch, isClipped, shapeFeatures } from './shape.js';
+import { transitions } from './transitions.js';
+import { CaptureError, type Measurements } from './types.js';
+
+/** Fewest samples worth measuring. */
+export const minSamples = 16;
+/** Longest segment the frequency refinement and the harmonics look at, samples. */
+const maxSpectrumSamples = 1 << 21;
+const maxHarmonicSamples = 1 << 18;
+
+/** The measured figures plus one averaged period, for the trace. */
+export interface MeasureResult {
+  readonly measurements: Measurements;
+  /** One period averaged over the whole periods (empty when there are none). */
+  readonly period: Float64Array;
+}
+
+/**
+ * Measure a uniformly sampled capture: levels, RMS over whole periods,
+ * frequency (mean-level crossings refined by the spectrum), THD, shape, and
+ * for a square the duty cycle and edges. Throws `CaptureError` when the capture
+ * is too short or holds values that are not numbers.
+ */
+export function measure(x: Float64Array, sampleRate: number): MeasureResult {
+  const n = x.length;
+  if (n < minSamples) throw new CaptureError(`only ${n} samples; at least ${minSamples} are needed to measure anything`);
+  if (!(sampleRate > 0) || !Number.isFinite(sampleRate)) throw new CaptureError(`sample rate ${sampleRate} Hz is not usable`);
+  for (let i = 0; i < n; i++) {
+    if (!Number.isFinite(x[i] as number)) throw new CaptureError(`sample ${i + 1} is ${x[i]}; the capture must hold numbers only`);
+  }
+  const { min, max } = extremes(x);
+  const vpp = max - min;
+  const whole = moments(x);
+  const warnings: string[] = [];
+  const none = {
+    samples: n, sampleRate, min, max, vpp,
+    duty: null, rise: null, fall: null, overshoot: null, notchTime: null,
+  };
+  const aperiodic = (reason: string): MeasureResult => ({
+    measurements: {
+      ...none, frequency: null, mean: whole.mean, vrms: whole.rms, vrmsAc: whole.rmsAc, thd: null, shape: 'other',
+      clipped: false, notch: false, crestFactor: whole.rmsAc > 0 ? Math.max(max - whole.mean, whole.mean - min) / whole.rmsAc : Number.NaN,
+      formFactor: whole.meanAbs > 0 ? whole.rmsAc / whole.meanAbs : Number.NaN, periods: 0, window: 'none',
+      warnings: [...warnings, reason],
+    },
+    period: new Float64Array(0),
+  });
+  if (!(vpp > 0)) return aperiodic('the capture is flat (a DC level): no frequency, THD or shape; figures over the whole record');
+
+  // Mean-level crossings with 10 % hysteresis, so noise does not add crossings.
+  const found = crossings(x, whole.mean, 0.05 * vpp);
+  const rising = found.rising;
+  if (rising.length < 3) {
+    return aperiodic(`fewer than 2 whole periods (${Math.max(0, rising.length - 1)} found): frequency, THD and shape need at least 2; figures over the whole record`);
+  }
+  const rough = periodFromCrossings(rising);
+  const spectrumLength = Math.min(n, maxSpectrumSamples);
+  const nu = refineFrequency(x, 0, spectrumLength, 1 / rough, whole.mean);
+  let period = 1 / nu;
+  if (!(Math.abs(period - rough) < 0.05 * rough)) {
+    warnings.push('the spectrum and the crossings disagree on the frequency; using the crossings');
+    period = rough;
+  }
+  const start = rising[0] as number;
+  const periods = Math.floor((n - 1 - start) / period);
+  if (periods < 2) return aperiodic('fewer than 2 whole periods after the first crossing; figures over the whole record');
+  const from = Math.ceil(start);
+  const to = Math.min(n, Math.round(start + periods * period));
+  const m = moments(x, from, to);
+
+  const harmonicPeriods = Math.max(2, Math.min(periods, Math.floor(maxHarmonicSamples / period)));
+  const h = harmonicAnalysis(x, from, period, harmonicPeriods, m.mean);
+  const points = Math.max(64, Math.min(1024, Math.round(period)));
+  const averaged = averagePeriod(x, start, period, Math.min(periods, Math.max(1, Math.floor((1 << 20) / points))), points);
+  const features = shapeFeatures(averaged);
+  const shape = classify(features, h.amplitudes, h.thd);
+  const clipped = isClipped(features, shape);
+  const notch = hasNotch(features, shape);
+  if (period < 10) warnings.push(`only ${period.toFixed(1)} samples per period: harmonics above ${h.highest} are beyond half the sample rate`);
+
+  let duty: number | null = null;
+  let rise: number | null = null;
+  let fall: number | null = null;
+  let overshoot: number | null = null;
+  if (shape === 'square') {
+    const { low, high } = stateLevels(x, from, to);
+    const mid = (low + high) / 2;
+    const edges = crossings(x, mid, 0.1 * (high - low), from, to);
+    duty = dutyCycle(edges.rising, edges.falling, period);
+    const t = transitions(x, edges.rising, edges.falling, low, high, period);
+    rise = Number.isFinite(t.rise) ? t.rise / sampleRate : null;
+    fall = Number.isFinite(t.fall) ? t.fall / sampleRate : null;
+    overshoot = Number.isFinite(t.overshoot) ? t.overshoot : null;
+    if ((rise !== null && t.rise < 3) || (fall !== null && t.fall < 3)) {
+      warnings.push('edges span fewer than 3 samples: rise and fall times are limited by the sample rate');
+    }
+  }
+  return {
+    measurements: {
+      ...none,
+      frequency: sampleRate / period,
+      mean: m.mean, vrms: m.rms, vrmsAc: m.rmsAc,
+      duty, rise, fall, overshoot,
+      thd: Number.isFinite(h.thd) ? h.thd : null,
+      shape, clipped, notch,
+      notchTime: notch ? (features.midDwell * period) / sampleRate : null,
+      crestFactor: features.crestFactor,
+      formFactor: features.formFactor,
+      periods,
+      window: `Hann over ${harmonicPeriods} whole periods, harmonics 2–${h.highest} at exact multiples of the fundamental`,
+      warnings: [...warnings],
+    },
+    period: averaged,
+  };
+}
+
+/** Mean share of each period from a rising crossing to the next falling one. */
+function dutyCycle(rising: Float64Array, falling: Float64Array, period: number): number | null {
+  let sum = 0;
+  let count = 0;
+  let j = 0;
+  for (const r of rising) {
+    while (j < falling.length && (falling[j] as number) <= r) j++;
+    const f = falling[j];
+    if (f === undefined) break;
+    if (f - r < period) {
+      sum += (f - r) / period;
+      count++;
+    }
+  }
+  return count > 0 ? sum / count : null;
+}

@@ -1,0 +1,99 @@
+/**
+ * Number parsing straight from bytes, so a 130 MB capture is never decoded to a
+ * string. `scanNumber` returns the value (NaN when the bytes there are not a
+ * number) and leaves the position after it in `scan.end`; a module-level cursor
+ * rather than a returned object keeps the hot loop free of allocations.
+ */
+export const scan = { end: 0 };
+
+const pow10 = new Float64Array(309);
+pow10[0] = 1;
+for (let i = 1; i < pow10.length; i++) pow10[i] = (pow10[i - 1] ?? 1) * 10;
+
+const SPACE = 32;
+const TAB = 9;
+const QUOTE = 34;
+const PLUS = 43;
+const MINUS = 45;
+const ZERO = 48;
+const NINE = 57;
+const LOWER_E = 101;
+const UPPER_E = 69;
+
+/**
+ * Read a decimal number at `pos` (spaces and a surrounding `"` allowed):
+ * `-1.25e-3`, `+4`, `.5`, `3,3` when `decimal` is the comma's code. Digits past
+ * the 17th only shift the exponent; the result is within a few units in the
+ * last place of the correctly rounded value — far below any instrument's
+ * resolution (common practice, no source).
+ */
+export function scanNumber(buf: Uint8Array, pos: number, end: number, decimal: number): number {
+  let i = pos;
+  let c = buf[i] ?? 0;
+  while (i < end && (c === SPACE || c === TAB)) c = buf[++i] ?? 0;
+  const quoted = c === QUOTE;
+  if (quoted) c = buf[++i] ?? 0;
+  let negative = false;
+  if (c === MINUS || c === PLUS) {
+    negative = c === MINUS;
+    c = buf[++i] ?? 0;
+  }
+  let mantissa = 0;
+  let digits = 0;
+  let significant = 0;
+  let exponent = 0;
+  while (i < end && c >= ZERO && c <= NINE) {
+    if (significant < 17) {
+      mantissa = mantissa * 10 + (c - ZERO);
+      if (mantissa > 0) significant++;
+    } else exponent++;
+    digits++;
+    c = buf[++i] ?? 0;
+  }
+  if (i < end && c === decimal) {
+    c = buf[++i] ?? 0;
+    while (i < end && c >= ZERO && c <= NINE) {
+      if (significant < 17) {
+        mantissa = mantissa * 10 + (c - ZERO);
+        if (mantissa > 0) significant++;
+        exponent--;
+      }
+      digits++;
+      c = buf[++i] ?? 0;
+    }
+  }
+  if (digits === 0) {
+    scan.end = i;
+    return Number.NaN;
+  }
+  if (i < end && (c === LOWER_E || c === UPPER_E)) {
+    let j = i + 1;
+    let d = buf[j] ?? 0;
+    let expNegative = false;
+    if (d === MINUS || d === PLUS) {
+      expNegative = d === MINUS;
+      d = buf[++j] ?? 0;
+    }
+    let e = 0;
+    let expDigits = 0;
+    while (j < end && d >= ZERO && d <= NINE) {
+      if (e < 100000) e = e * 10 + (d - ZERO);
+      expDigits++;
+      d = buf[++j] ?? 0;
+    }
+    if (expDigits > 0) {
+      exponent += expNegative ? -e : e;
+      i = j;
+      c = d;
+    }
+  }
+  if (quoted && c === QUOTE) c = buf[++i] ?? 0;
+  while (i < end && (c === SPACE || c === TAB)) c = buf[++i] ?? 0;
+  scan.end = i;
+  let value: number;
+  if (mantissa === 0) value = 0;
+  else if (exponent >= 0) value = exponent > 308 ? Infinity : mantissa * (pow10[exponent] ?? Infinity);
+  else if (exponent >= -308) value = mantissa / (pow10[-exponent] ?? Infinity);
+  else value = mantissa / 1e308 / (pow10[-exponent - 308] ?? Infinity);
+  return negative ? -value : value;
+}

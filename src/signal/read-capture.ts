@@ -1,0 +1,99 @@
+import { open } from 'node:fs/promises';
+import { basename } from 'node:path';
+import { CsvParser } from './csv-parser.js';
+import { csvReader } from './csv-reader.js';
+import { type Capture, CaptureError, type CaptureReader, type ProgressFn, type ReadOptions } from './types.js';
+import { wavReader } from './wav-reader.js';
+
+/** Readers in the order they are tried; WAV first, since text is the fallback. */
+export const readers: readonly CaptureReader[] = [wavReader, csvReader];
+
+/** Pick the reader for a file from its name and first bytes. */
+export function pickReader(name: string, head: Uint8Array): CaptureReader {
+  const reader = readers.find((r) => r.canRead(name, head));
+  if (!reader) throw new CaptureError(`${name}: neither CSV text nor a WAV file`);
+  return reader;
+}
+
+/** Read a capture held in memory. */
+export function readCaptureBytes(bytes: Uint8Array, options: ReadOptions = {}, onProgress?: ProgressFn): Capture {
+  const name = options.name ?? 'capture';
+  if (bytes.length === 0) throw new CaptureError(`${name}: the file is empty`);
+  return pickReader(name, bytes.subarray(0, 64)).read(bytes, { ...options, name }, onProgress);
+}
+
+export interface FileRead {
+  readonly capture: Capture;
+  /** The file's bytes, when asked for (to copy it into the log). */
+  readonly bytes?: Uint8Array;
+}
+
+const chunkBytes = 4 * 1024 * 1024;
+
+/**
+ * Read a capture file in chunks, reporting progress as a fraction of its size.
+ * CSV is parsed as the chunks arrive, so its text is never held whole unless
+ * `keepBytes` asks for the bytes.
+ */
+export async function readCaptureFile(
+  path: string,
+  options: ReadOptions & { readonly keepBytes?: boolean } = {},
+  onProgress?: ProgressFn,
+): Promise<FileRead> {
+  const name = options.name ?? basename(path);
+  let handle;
+  try {
+    handle = await open(path, 'r');
+  } catch (error) {
+    throw new CaptureError(ioMessage(path, error));
+  }
+  try {
+    const stat = await handle.stat();
+    if (stat.isDirectory()) throw new CaptureError(`${path}: is a folder, not a capture file`);
+    const size = stat.size;
+    if (size === 0) throw new CaptureError(`${name}: the file is empty`);
+    const kept: Uint8Array[] = [];
+    let reader: CaptureReader | undefined;
+    let parser: CsvParser | undefined;
+    let seen = 0;
+    for (;;) {
+      const buffer = new Uint8Array(Math.min(chunkBytes, Math.max(1, size - seen)));
+      const { bytesRead } = await handle.read(buffer, 0, buffer.length, seen);
+      if (bytesRead === 0) break;
+      const chunk = buffer.subarray(0, bytesRead);
+      if (!reader) {
+        reader = pickReader(name, chunk.subarray(0, 64));
+        if (reader === csvReader) parser = new CsvParser({ ...options, name }, size);
+      }
+      if (parser) parser.push(chunk);
+      if (!parser || options.keepBytes) kept.push(chunk);
+      seen += bytesRead;
+      onProgress?.(Math.min(1, seen / size) * (parser ? 1 : 0.5));
+      if (seen >= size) break;
+    }
+    const bytes = kept.length === 1 ? (kept[0] as Uint8Array) : joinChunks(kept, seen);
+    const capture = parser ? parser.end() : (reader ?? csvReader).read(bytes, { ...options, name }, (f) => onProgress?.(0.5 + f / 2));
+    onProgress?.(1);
+    return options.keepBytes ? { capture, bytes } : { capture };
+  } finally {
+    await handle.close();
+  }
+}
+
+function joinChunks(chunks: readonly Uint8Array[], length: number): Uint8Array {
+  const out = new Uint8Array(length);
+  let at = 0;
+  for (const c of chunks) {
+    out.set(c, at);
+    at += c.length;
+  }
+  return out;
+}
+
+function ioMessage(path: string, error: unknown): string {
+  const code = (error as { code?: string }).code;
+  if (code === 'ENOENT') return `${path}: no such file`;
+  if (code === 'EISDIR') return `${path}: is a folder, not a capture file`;
+  if (code === 'EACCES' || code === 'EPERM') return `${path}: not allowed to read it`;
+  return `${path}: ${error instanceof Error ? error.message : String(error)}`;
+}
