@@ -42,6 +42,10 @@ export interface Chain {
   detail(x: Float64Array): ChainDetail;
 }
 
+const noValues: Record<string, number> = Object.freeze({}) as Record<string, number>;
+const noOutputs: Record<string, Waveform> = Object.freeze({}) as Record<string, Waveform>;
+const noList: never[] = Object.freeze([]) as unknown as never[];
+
 interface StagePlan {
   readonly stage: PlanStage;
   readonly roles: readonly string[];
@@ -98,10 +102,11 @@ export function buildChain(plan: Plan): Chain {
     }
     const supplies: Supplies = { pos: posIdx >= 0 ? (x[posIdx] ?? 0) : 0, neg: negIdx >= 0 ? (x[negIdx] ?? 0) : 0 };
     const results: (EvalOutput | undefined)[] = new Array(stagePlans.length);
-    const values: Record<string, number> = {};
-    const outputs: Record<string, Waveform> = {};
-    const warnings: { stage: string; message: string }[] = [];
-    const failures: { stage: string; message: string }[] = [];
+    // The hot path (keep = false) allocates only what the stages need.
+    const values: Record<string, number> = keep ? {} : noValues;
+    const outputs: Record<string, Waveform> = keep ? {} : noOutputs;
+    const warnings: { stage: string; message: string }[] = keep ? [] : noList;
+    const failures: { stage: string; message: string }[] = keep ? [] : noList;
     for (let s = 0; s < stagePlans.length; s++) {
       const sp = stagePlans[s] as StagePlan;
       const parts: Record<string, number> = {};
@@ -114,10 +119,10 @@ export function buildChain(plan: Plan): Chain {
           const base = { parts, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies, rails };
           result = sp.stage.module.evaluate(input ? { ...base, input } : base);
         } catch (error) {
-          failures.push({ stage: sp.stage.id, message: error instanceof Error ? error.message : String(error) });
+          if (keep) failures.push({ stage: sp.stage.id, message: error instanceof Error ? error.message : String(error) });
         }
       } else {
-        failures.push({ stage: sp.stage.id, message: `its input ${sp.stage.input?.stage}.${sp.stage.input?.output} has no signal` });
+        if (keep) failures.push({ stage: sp.stage.id, message: `its input ${sp.stage.input?.stage}.${sp.stage.input?.output} has no signal` });
       }
       results[s] = result;
       if (out) for (const [key, i] of sp.outIndex) out[i] = result?.values[key] ?? Number.NaN;

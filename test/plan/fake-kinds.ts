@@ -86,7 +86,9 @@ export const fakeGain: StageKind<null> = {
   ],
   evaluate({ parts, input }) {
     const g = 1 + (parts.Rf ?? 0) / (parts.Rg ?? 1);
-    const samples = Float64Array.from(input?.samples ?? [], (v) => v * g);
+    const src = input?.samples ?? new Float64Array(1);
+    const samples = new Float64Array(src.length);
+    for (let i = 0; i < src.length; i++) samples[i] = (src[i] ?? 0) * g;
     const out = { frequency: input?.frequency ?? 0, samples };
     return { outputs: { out }, values: { gain: g, 'out.vpp': vpp(out) }, warnings: g > 20 ? [{ message: 'gain above 20' }] : [] };
   },
