@@ -1,7 +1,64 @@
-import { Text } from 'ink';
+import { Box, Text } from 'ink';
+import { describeFilter } from '../../review/filter.js';
+import { fig, index2, pct } from '../../review/format.js';
+import { Header } from '../components/header.js';
+import { HelpBox } from '../components/help-box.js';
+import { KeyBar } from '../components/key-bar.js';
 import type { BatchProps } from '../screen-props.js';
+import { toneProps } from '../theme.js';
+import { batchHelp, batchHints, batchNotes } from './batch-help.js';
+import { BatchPanel } from './batch-panel.js';
+import { BatchTable } from './batch-table.js';
+import { FilterForm } from './filter-form.js';
+import { useBatchKeys } from './use-batch-keys.js';
+import { batchPanels, selectedCheck, useBatchState } from './use-batch-state.js';
 
-// PLACEHOLDER until the screen is written.
-export function BatchScreen(_props: BatchProps) {
-  return <Text>This screen is not built yet. Press Esc.</Text>;
+const panelLabel = { histogram: 'Histogram', trend: 'Trend', outliers: 'Outliers' } as const;
+
+/** Every check across the boards: yield, spread, capability, with histogram, trend and outliers. */
+export function BatchScreen({ log, width, height, isActive = true, onExit, onOpenBoard }: BatchProps) {
+  const { state, dispatch } = useBatchState(log);
+  const rest = Math.max(6, height - 6);
+  const tableRows = Math.max(2, Math.min(state.rows.length, Math.floor(rest * 0.35)));
+  const panelRows = Math.max(4, rest - tableRows);
+  useBatchKeys(state, dispatch, { onExit, onOpenBoard }, tableRows, isActive);
+  const f = state.figures;
+  const c = selectedCheck(state);
+  const note = f ? `${f.boards} boards · first-pass ${pct(f.firstPassYield)} · final ${pct(f.finalYield)}` : '';
+  let body;
+  if (state.isHelpOpen) body = <HelpBox title="batch" entries={batchHelp} notes={batchNotes} width={width} />;
+  else if (state.form) body = <FilterForm form={state.form} width={width} />;
+  else if (state.status === 'error') body = <Text {...toneProps('bad')}>Cannot review the batch: {state.message}</Text>;
+  else if (state.status !== 'ready' || !f) {
+    const p = state.progress;
+    body = <Text>{p ? `${p.what}: ${p.done} of ${p.total}…` : state.status === 'loading' ? 'Reading the index…' : 'Scanning boards…'}</Text>;
+  } else if (!c) body = <Text>No readings match {describeFilter(state.filter)}. Press f to change the filter, or record readings first.</Text>;
+  else
+    body = (
+      <>
+        <BatchTable rows={state.rows} selected={state.selected} height={tableRows} width={width} />
+        <Text wrap="truncate-end">
+          {`${c.check}: mean ${fig(c.mean, c.unit)} · sd ${fig(c.sd, c.unit, 3)} · ${fig(c.min, c.unit)} … ${fig(c.max, c.unit)} · band ${c.band ? `${fig(c.band.min, c.unit)} … ${fig(c.band.max, c.unit)}` : '—'} · Cp ${index2(c.cp)} Cpk ${index2(c.cpk)}`}
+        </Text>
+        <Text wrap="truncate-end">
+          {batchPanels.map((p) => (
+            <Text key={p} inverse={p === state.panel} bold={p === state.panel}>
+              {p === state.panel ? `[${panelLabel[p]}${p === 'outliers' ? ` (${c.outliers.length})` : ''}]` : ` ${panelLabel[p]}${p === 'outliers' ? ` (${c.outliers.length})` : ''} `}
+            </Text>
+          ))}
+          <Text {...toneProps('dim')}>{c.note ? `  ${c.note}` : ''}</Text>
+        </Text>
+        <BatchPanel check={c} panel={state.panel} outlierSelected={state.outlierSelected} height={panelRows - 2} width={width} />
+      </>
+    );
+  return (
+    <Box flexDirection="column" width={width} height={height}>
+      <Header screen="batch" detail={describeFilter(state.filter)} note={note} width={width} />
+      {f && f.problems.length > 0 ? <Text {...toneProps('warn')} wrap="truncate-end">! {f.problems[0]?.message}</Text> : null}
+      <Box flexDirection="column" flexGrow={1}>
+        {body}
+      </Box>
+      <KeyBar hints={batchHints} width={width} />
+    </Box>
+  );
 }

@@ -1,0 +1,42 @@
+import { Box, Text } from 'ink';
+import type { BatchCheck } from '../../review/batch-types.js';
+import { cpkWord, index2, pct } from '../../review/format.js';
+import { cell } from '../components/columns.js';
+import { scrollWindow } from '../components/scroll-window.js';
+import { pointer, toneProps, type Tone } from '../theme.js';
+
+export interface BatchTableProps {
+  readonly rows: readonly BatchCheck[];
+  readonly selected: number;
+  readonly height: number;
+  readonly width: number;
+}
+
+function word(c: BatchCheck): { text: string; tone: Tone } {
+  if (c.status === 'no-band') return { text: 'no band', tone: 'dim' };
+  if (c.status === 'not-enough-data' || c.status === 'no-spread') return { text: 'not enough data', tone: 'dim' };
+  const text = cpkWord(c.cpk);
+  return { text, tone: text === 'capable' ? 'good' : text === 'tight' ? 'warn' : 'bad' };
+}
+
+/** Checks weakest first: counts, final yield, Cp, Cpk and a capability word. */
+export function BatchTable({ rows, selected, height, width }: BatchTableProps) {
+  const checkWidth = Math.max(12, width - 58);
+  const { start, end } = scrollWindow(rows.length, selected, height, selected - Math.floor(height / 2));
+  return (
+    <Box flexDirection="column">
+      <Text bold>{` ${cell('check (weakest first)', checkWidth)}${cell('n', 6, 'right')}${cell('pass', 6, 'right')}${cell('marg', 5, 'right')}${cell('fail', 5, 'right')}${cell('final', 7, 'right')}${cell('Cp', 6, 'right')}${cell('Cpk', 6, 'right')}  capability`}</Text>
+      {rows.slice(start, end).map((c, i) => {
+        const isSelected = start + i === selected;
+        const w = word(c);
+        return (
+          <Text key={`${c.plan ?? ''}/${c.check}`} inverse={isSelected}>
+            {isSelected ? pointer : ' '}
+            {`${cell(c.check, checkWidth)}${cell(String(c.n), 6, 'right')}${cell(String(c.pass), 6, 'right')}${cell(String(c.marginal), 5, 'right')}${cell(String(c.fail), 5, 'right')}${cell(pct(c.finalYield), 7, 'right')}${cell(index2(c.cp), 6, 'right')}${cell(index2(c.cpk), 6, 'right')}  `}
+            <Text {...toneProps(w.tone)}>{cell(w.text, 15)}</Text>
+          </Text>
+        );
+      })}
+    </Box>
+  );
+}
