@@ -1,18 +1,45 @@
-import type { StageKind } from './types.js';
+import { amplifierChecks, amplifierHints, evaluateAmplifier } from './amplifier.js';
+import { nested, onlyKeys, partAt, reader } from './stage-parse.js';
+import type { EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
 
-// PLACEHOLDER until the stage kind is written: it refuses to evaluate.
-export const noninvertingAmpKind: StageKind<unknown> = {
+/** A non-inverting gain stage has no settings beyond its parts. */
+export type NoninvertingAmpSettings = Readonly<Record<string, never>>;
+
+function evaluate(input: EvalInput<NoninvertingAmpSettings>): EvalOutput {
+  const rg = input.parts['Rg'] ?? Number.NaN;
+  const rf = input.parts['Rf'] ?? Number.NaN;
+  // Gain 1 + Rf/Rg, equal to its noise gain (Sedra and Smith, the non-inverting configuration).
+  const g = 1 + rf / rg;
+  return evaluateAmplifier({ ideal: g, noiseGain: g }, input, 'noninverting-amp');
+}
+
+export const noninvertingAmpKind: StageKind<NoninvertingAmpSettings> = {
   kind: 'noninverting-amp',
-  summary: 'not built yet',
-  roles: [],
+  summary: 'non-inverting op-amp gain stage: gain 1 + Rf/Rg, bandwidth GBW/(1 + Rf/Rg), clipping and slew from the op-amp',
+  roles: [
+    { role: 'Rg', unit: 'Ω', description: 'resistor from the inverting input to ground' },
+    { role: 'Rf', unit: 'Ω', description: 'feedback resistor, from the output to the inverting input' },
+  ],
   outputs: ['out'],
-  needsInput: false,
-  parse() {
-    throw new Error('stage kind noninverting-amp is not built yet');
+  needsInput: true,
+  parse(raw, file) {
+    const p = nested(reader(raw, file), 'parts', true);
+    onlyKeys(p, ['Rg', 'Rf']);
+    const parts: Record<string, PartValue> = {
+      Rg: partAt(p, 'Rg', 'Ω', true, { positive: true, example: '"10k 1%"' }),
+      Rf: partAt(p, 'Rf', 'Ω', true, { positive: true, example: '"22k 1%"' }),
+    };
+    return { parts, settings: {} };
   },
-  checks: () => [],
-  evaluate() {
-    throw new Error('stage kind noninverting-amp is not built yet');
+  checks: () => amplifierChecks,
+  evaluate,
+  faultHints: {
+    gain: [
+      'Rf and Rg swapped: 1 + Rg/Rf instead of 1 + Rf/Rg',
+      'Rg open or not fitted: the stage is a unity-gain follower (gain 1)',
+      'Rf shorted (solder bridge): gain 1',
+      'a ×10 slip on Rf or Rg',
+    ],
+    ...amplifierHints,
   },
-  faultHints: {},
 };

@@ -1,0 +1,41 @@
+/**
+ * The periodic steady state of a first-order low-pass, DC gain 1 and corner fc,
+ * driven by one period of a waveform (`samples` over one period 1/frequency).
+ *
+ * The input is taken as linear between samples, which is exact for a triangle and
+ * close for anything smooth; a square's edge becomes one sample long. Over each
+ * sample step the error e = y − x obeys de/dt = −e/τ − x′ with x′ constant, whose
+ * exact solution gives e₁ = a·e₀ − (x₁ − x₀)·(τ/h)·(1 − a), a = e^(−h/τ). A first
+ * pass from e₀ = 0 gives the period map e_N = a^N·e₀ + c; the periodic solution
+ * starts at e₀ = c / (1 − a^N). Every harmonic of the input is attenuated and
+ * delayed as 1/(1 + j·f/fc), which is why a square or a triangle comes out right,
+ * at the cost of two passes and one exp (no FFT).
+ */
+export function singlePole(samples: Float64Array, frequency: number, fc: number): Float64Array {
+  const n = samples.length;
+  const out = new Float64Array(n);
+  if (!(frequency > 0) || fc === Number.POSITIVE_INFINITY || n === 0) {
+    out.set(samples);
+    return out;
+  }
+  const h = 1 / (frequency * n);
+  const tau = 1 / (2 * Math.PI * fc);
+  const a = Math.exp(-h / tau);
+  const b = (tau / h) * -Math.expm1(-h / tau);
+  const aN = Math.exp(-1 / (frequency * tau));
+  if (1 - aN < 1e-12) {
+    // The corner is so far below the signal that only the DC level passes.
+    let mean = 0;
+    for (let i = 0; i < n; i++) mean += samples[i] as number;
+    out.fill(mean / n);
+    return out;
+  }
+  let e = 0;
+  for (let i = 0; i < n; i++) e = a * e - ((samples[(i + 1) % n] as number) - (samples[i] as number)) * b;
+  e /= 1 - aN;
+  for (let i = 0; i < n; i++) {
+    out[i] = (samples[i] as number) + e;
+    e = a * e - ((samples[(i + 1) % n] as number) - (samples[i] as number)) * b;
+  }
+  return out;
+}
