@@ -36,10 +36,11 @@ export function sensitivities(chain: Chain): Float64Array[] {
  * propagation for uncorrelated inputs (JCGM 100:2008, eq. 10). Shares below 1 %
  * are left out; at most `top` are kept, largest first.
  */
-export function contributorsOf(chain: Chain, perSigma: readonly Float64Array[], check: number, top = 3): Contributor[] {
+export function contributorsOf(chain: Chain, perSigma: readonly Float64Array[], check: number, nominal: number, top = 3): Contributor[] {
   let total = 0;
   for (const d of perSigma) total += (d[check] ?? 0) ** 2;
-  if (!(total > 0)) return [];
+  // A check that does not move (a symmetric duty) has only rounding noise to share out.
+  if (!(total > 0) || Math.sqrt(total) <= 1e-9 * Math.max(Math.abs(nominal), 1e-30)) return [];
   return chain.variables
     .map((v, i) => ({ part: v.name, share: (perSigma[i]?.[check] ?? 0) ** 2 / total }))
     .filter((c) => c.share >= 0.01)

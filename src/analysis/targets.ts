@@ -99,7 +99,7 @@ export function computeTargets(plan: Plan, options: TargetOptions = {}): TargetS
       nominal,
       worst: { min: nanIfNot(lo), max: nanIfNot(hi) },
       stat: { min: statMin, max: statMax },
-      contributors: contributorsOf(chain, perSigma, i),
+      contributors: contributorsOf(chain, perSigma, i, nominal),
     };
   });
 
