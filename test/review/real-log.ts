@@ -10,7 +10,7 @@ import { openLog, type LogStore } from '../../src/log/store.js';
 import type { Plan } from '../../src/plan/types.js';
 import { loadPlanText } from '../../src/plan/load.js';
 
-export const planFile = join(import.meta.dirname, 'fixtures', 'rails-demo.plan.json');
+export const planFile = join(import.meta.dirname, 'fixtures', 'osc-demo.plan.json');
 
 export interface TestLog {
   readonly dir: string;
@@ -25,7 +25,7 @@ const pause = () => new Promise((r) => setTimeout(r, 3));
 export async function makeLog(planText = readFileSync(planFile, 'utf8')): Promise<TestLog> {
   const dir = mkdtempSync(join(tmpdir(), 'probebook-review-'));
   const log = await openLog(dir);
-  const plan = loadPlanText(planText, 'rails-demo.plan.json');
+  const plan = loadPlanText(planText, 'osc-demo.plan.json');
   const targets = computeTargets(plan);
   return {
     dir,
