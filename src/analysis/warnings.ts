@@ -46,7 +46,9 @@ export function designWarnings(plan: Plan, nominal: ChainDetail): DesignWarning[
     const peak = vpp(output) / 2;
     // Full-power bandwidth SR / (2π·Vpeak) (Sedra and Smith, slew rate and full-power bandwidth).
     const fpbw = stage.opamp.slew / (2 * Math.PI * peak);
-    if (peak > 0 && input.frequency > fpbw) {
+    // The amplifier kinds warn about slewing themselves; say it once.
+    const saidSlew = nominal.warnings.some((w) => w.stage === stage.id && /slew/i.test(w.message));
+    if (peak > 0 && input.frequency > fpbw && !saidSlew) {
       out.push({
         stage: stage.id,
         message: `the signal (${formatValue(input.frequency, 'Hz')}, ${formatValue(peak, 'V')} peak out) is above the full-power bandwidth ${formatValue(fpbw, 'Hz')} of the op-amp: the output will slew and distort`,
