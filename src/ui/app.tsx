@@ -27,11 +27,14 @@ export interface AppProps {
   readonly size?: Partial<Size>;
   /** Where to start. @default bench */
   readonly initialRoute?: Route;
+  /** Called instead of Ink's exit when the technician quits (tests). */
+  readonly onQuit?: () => void;
 }
 
 /** Switches screens and owns the quit dialog; every screen keeps its own state. */
-export function App({ log, catalog, operator, size, initialRoute = { screen: 'bench' } }: AppProps) {
-  const { exit } = useApp();
+export function App({ log, catalog, operator, size, initialRoute = { screen: 'bench' }, onQuit }: AppProps) {
+  const app = useApp();
+  const exit = onQuit ?? app.exit;
   const { width, height } = useTerminalSize(size);
   const [stack, setStack] = useState<readonly Route[]>([initialRoute]);
   const [lastSerial, setLastSerial] = useState<string | undefined>(undefined);
@@ -110,7 +113,7 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
   return (
     <Box flexDirection="column" width={width}>
       {screen}
-      {isConfirming ? <ConfirmQuit reason="A reading is half typed" onQuit={exit} onStay={() => setConfirming(false)} /> : null}
+      {isConfirming ? <ConfirmQuit reason="A reading is half typed" onQuit={() => exit()} onStay={() => setConfirming(false)} /> : null}
     </Box>
   );
 }

@@ -10,28 +10,30 @@ import { App, type Route } from '../../src/ui/app.js';
 import { PlanCatalog } from '../../src/ui/bench/plan-catalog.js';
 
 /**
- * A small invented board for the UI tests: a reference divider from the +5 V
- * rail into an inverting stage. Values are illustrative, not from any product.
+ * A small invented board for the UI tests: a relaxation oscillator on ±12 V
+ * rails feeding an inverting stage. Values are illustrative, not from any product.
  */
-export const fixturePlanText = `${JSON.stringify(
-  {
-    plan: 'ui-fixture',
-    title: 'UI test board (invented)',
-    note: 'Invented test board; values are illustrative, not from any product.',
-    rails: [
-      { id: '+5V', nominal: '5 V', tol: '2%' },
-      { id: '-5V', nominal: '-5 V', tol: '2%' },
-    ],
-    idleCurrent: { max: '20 mA' },
-    uncertainty: { V: '0.5% + 2 mV', A: '1% + 0.1 mA', Hz: '0.01%', ohm: '1% + 1 ohm' },
-    stages: [
-      { id: 'ref', kind: 'divider', from: '+5V', parts: { Rtop: '10k 1%', Rbottom: '4k7 1%' }, testPoints: { out: 'TP1' } },
-      { id: 'amp', kind: 'inverting-amp', input: 'ref.out', parts: { Rin: '10k 1%', Rf: '15k 1%' }, testPoints: { out: 'TP2' } },
-    ],
-  },
-  null,
-  2,
-)}\n`;
+export const fixturePlan = {
+  plan: 'ui-fixture',
+  title: 'UI test board (invented)',
+  note: 'Invented test board; values are illustrative, not from any product.',
+  rails: [
+    { id: '+12V', nominal: '12 V', tol: '3%' },
+    { id: '-12V', nominal: '-12 V', tol: '3%' },
+  ],
+  idleCurrent: { max: '30 mA' },
+  uncertainty: { V: '0.5% + 2 mV', A: '1% + 0.1 mA', Hz: '0.01%', ohm: '1% + 1 ohm' },
+  stages: [
+    {
+      id: 'osc',
+      kind: 'schmitt-integrator',
+      parts: { R1: '10k 1%', R2: '22k 1%', Rt: '4k7 1%', Ct: '47n 5%' },
+      testPoints: { square: 'TP1', triangle: 'TP2' },
+    },
+    { id: 'amp', kind: 'inverting-amp', input: 'osc.triangle', parts: { Rin: '10k 1%', Rf: '15k 1%' }, testPoints: { out: 'TP3' } },
+  ],
+};
+export const fixturePlanText = `${JSON.stringify(fixturePlan, null, 2)}\n`;
 
 export interface RenderAppOptions {
   /** Plan texts given as if with `--plan`. @default [fixturePlanText] */
@@ -46,6 +48,8 @@ export interface RenderAppOptions {
   readonly trials?: number;
   readonly operator?: string;
   readonly initialRoute?: Route;
+  /** Follow the (fake) terminal's size instead of a fixed one, for resize tests. @default false */
+  readonly followTerminal?: boolean;
 }
 
 /** The app on a fresh temporary log, as ink-testing-library renders it, plus the log and its folder. */
@@ -55,16 +59,19 @@ export async function renderApp(options: RenderAppOptions = {}) {
   const plans = (options.planTexts ?? [fixturePlanText]).map((text, i) => loadPlanText(text, `fixture-${i}.plan.json`));
   await options.setup?.(log, plans);
   const catalog = new PlanCatalog(log, plans, { trials: options.trials ?? 400, seed: 1 });
+  let quits = 0;
   const result = render(
     <App
       log={log}
       catalog={catalog}
       operator={options.operator ?? 'tester'}
-      size={{ width: options.width ?? 80, height: options.height ?? 23 }}
+      onQuit={() => void quits++}
+      {...(options.followTerminal ? {} : { size: { width: options.width ?? 80, height: options.height ?? 23 } })}
       {...(options.initialRoute ? { initialRoute: options.initialRoute } : {})}
     />,
   );
   const frame = () => result.lastFrame() ?? '';
+  const settle = () => new Promise((r) => setTimeout(r, 30));
   /** Wait until the screen shows `text` (or the predicate holds); fails with the last frame. */
   const waitFor = async (text: string | RegExp | ((frame: string) => boolean), timeoutMs = 5000) => {
     const test = typeof text === 'function' ? text : (f: string) => (typeof text === 'string' ? f.includes(text) : text.test(f));
@@ -73,6 +80,8 @@ export async function renderApp(options: RenderAppOptions = {}) {
       if (Date.now() > until) throw new Error(`timed out waiting for ${String(text)}; the screen shows:\n${frame()}`);
       await new Promise((r) => setTimeout(r, 10));
     }
+    // React runs effects (Ink's key listeners among them) after the frame: let them attach.
+    await settle();
     return frame();
   };
   /** Send keys and wait for the next frame (or a short while when the key changes nothing). */
@@ -82,8 +91,7 @@ export async function renderApp(options: RenderAppOptions = {}) {
       result.stdin.write(key);
       const until = Date.now() + 300;
       while (result.frames.length === before && Date.now() < until) await new Promise((r) => setTimeout(r, 5));
-      // Let effects that follow the frame settle (async log reads start here).
-      await new Promise((r) => setTimeout(r, 5));
+      await settle();
     }
   };
   /** Type text one key at a time, as a technician does. */
@@ -92,7 +100,9 @@ export async function renderApp(options: RenderAppOptions = {}) {
     result.unmount();
     await rm(dir, { recursive: true, force: true });
   };
-  return { ...result, dir, log, plans, catalog, frame, waitFor, press, type, cleanup };
+  /** How often the technician asked to quit (the app's exit is replaced by a counter). */
+  const quitCount = () => quits;
+  return { ...result, dir, log, plans, catalog, frame, waitFor, press, type, cleanup, quitCount };
 }
 
 export type RenderedApp = Awaited<ReturnType<typeof renderApp>>;

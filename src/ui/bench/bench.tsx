@@ -28,7 +28,7 @@ export interface BenchProps extends ScreenProps {
 export function BenchScreen({ log, catalog, go, width, height, isActive = true, initialSerial, onTypingChange }: BenchProps) {
   const state = useBenchState(log, catalog, go, initialSerial);
   const { mode, boards, selected, message } = state;
-  const dialogRows = mode.kind === 'new-serial' ? 5 : mode.kind === 'choose-plan' ? mode.choices.length + 3 : mode.kind === 'confirm-run' ? 4 : 0;
+  const dialogRows = mode.kind === 'new-serial' ? 6 : mode.kind === 'choose-plan' ? mode.choices.length + 3 : mode.kind === 'confirm-run' ? 4 : 0;
   const listRows = Math.max(1, height - 5 - dialogRows);
   useBenchKeys(state, listRows, isActive);
   const isTyping = mode.kind === 'new-serial' || mode.kind === 'filter';
@@ -38,10 +38,11 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
   start.current = view.start;
 
   if (mode.kind === 'help') return <HelpBox title="bench" entries={benchHelp} notes={benchNotes} width={width} />;
-  const count = state.filter ? `${boards.length} of ${state.total} boards` : `${state.total} boards`;
+  const plural = (n: number) => (n === 1 ? '1 board' : `${n} boards`);
+  const count = state.filter ? `${boards.length} of ${plural(state.total)}` : plural(state.total);
   return (
-    <Box flexDirection="column" width={width}>
-      <Header screen="bench" detail={count} note={log.dir} width={width} />
+    <Box flexDirection="column" width={width} height={height}>
+      <Header screen="bench" detail={count} note={log.dir} width={width} isNoteTail />
       {state.isLoading ? <Text>Reading the log index…</Text> : null}
       {state.loadError ? <Text {...toneProps('bad')}>✗ {state.loadError}</Text> : null}
       {!state.isLoading && state.total === 0 ? (
@@ -50,7 +51,7 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
         <BoardList boards={boards} start={view.start} rows={listRows} selected={selected} width={width} />
       )}
       {mode.kind === 'new-serial' ? (
-        <SerialEntry isActive={isActive} onSubmit={state.submitSerial} onCancel={() => state.setMode({ kind: 'list' })} />
+        <SerialEntry isActive={isActive} onSubmit={state.submitSerial} onChange={() => state.setMessage(null)} onCancel={() => state.setMode({ kind: 'list' })} />
       ) : null}
       {mode.kind === 'choose-plan' ? <PlanChoices serial={mode.serial} choices={mode.choices} selected={mode.selected} width={width} /> : null}
       {mode.kind === 'confirm-run' ? (
@@ -71,6 +72,7 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
           {message.text}
         </Text>
       ) : null}
+      <Box flexGrow={1} />
       <KeyBar hints={benchKeys} width={width} />
     </Box>
   );

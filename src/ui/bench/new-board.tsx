@@ -7,14 +7,16 @@ import type { PlanChoice } from './plan-catalog.js';
 
 export interface SerialEntryProps {
   readonly onSubmit: (serial: string) => void;
+  /** Called as the serial is edited (the screen clears an old message). */
+  readonly onChange?: (serial: string) => void;
   readonly onCancel: () => void;
   /** @default true */
   readonly isActive?: boolean;
 }
 
 /** The new-board serial field, with the log's serial rule checked as it is typed. */
-export function SerialEntry({ onSubmit, onCancel, isActive = true }: SerialEntryProps) {
-  const { value } = useTextField({ onSubmit, onCancel, isActive, maxLength: 80 });
+export function SerialEntry({ onSubmit, onChange, onCancel, isActive = true }: SerialEntryProps) {
+  const { value } = useTextField({ onSubmit, onCancel, isActive, maxLength: 80, ...(onChange ? { onChange } : {}) });
   const problem = value.trim() === '' ? null : validateSerial(value.trim());
   return (
     <Box flexDirection="column" borderStyle="single" paddingX={1}>

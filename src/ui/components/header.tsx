@@ -10,13 +10,19 @@ export interface HeaderProps {
   readonly note?: string;
   /** @default 80 */
   readonly width?: number;
+  /** Cut a long note at its start (for paths, whose end matters) instead of its end. @default false */
+  readonly isNoteTail?: boolean;
 }
 
 /** One line: `probebook · bench · 12 boards` with a note on the right. */
-export function Header({ screen, detail, note, width = 80 }: HeaderProps) {
+export function Header({ screen, detail, note, width = 80, isNoteTail = false }: HeaderProps) {
   const left = `probebook · ${screen}${detail ? ` · ${detail}` : ''}`;
   const room = width - left.length - 2;
-  const right = note && room > 8 ? (note.length > room ? `…${note.slice(note.length - room + 1)}` : note) : '';
+  let right = '';
+  if (note && room > 8) {
+    if (note.length <= room) right = note;
+    else right = isNoteTail ? `…${note.slice(note.length - room + 1)}` : `${note.slice(0, room - 1)}…`;
+  }
   return (
     <Box width={width} justifyContent="space-between">
       <Text bold wrap="truncate-end" {...toneProps('title')}>

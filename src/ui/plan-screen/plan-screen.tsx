@@ -34,7 +34,7 @@ export function PlanScreen({ plan, targets, width, height, isActive = true, onEx
   if (state.isHelpOpen) return <HelpBox title="plan" entries={planHelp} notes={planNotes} width={width} />;
   const warnFocus = state.panel === 'warnings';
   return (
-    <Box flexDirection="column" width={width}>
+    <Box flexDirection="column" width={width} height={height}>
       <Header screen="plan" detail={`${plan.plan} — ${plan.title}`} note={`${targets.targets.length} checks`} width={width} />
       <Text bold inverse={warnFocus}>
         Design warnings ({warnings.length}){warnFocus ? ' — ↑↓ scroll, Tab back to the targets' : ''}
@@ -47,6 +47,7 @@ export function PlanScreen({ plan, targets, width, height, isActive = true, onEx
       ))}
       <TargetsTable targets={targets.targets} start={view.start} rows={tableRows} selected={state.selected} width={width} isFocused={!warnFocus} />
       {target ? <TargetDetail target={target} width={width} /> : <Text>This plan has no checks.</Text>}
+      <Box flexGrow={1} />
       <KeyBar hints={planKeys} width={width} />
     </Box>
   );
