@@ -23,7 +23,7 @@ export interface PlanScreenProps extends Omit<ScreenProps, 'log'> {
 export function PlanScreen({ plan, targets, width, height, isActive = true, onExit }: PlanScreenProps) {
   const warnings = targets.warnings;
   const warningRows = warnings.length === 0 ? 1 : Math.min(warnings.length, Math.max(2, Math.floor(height / 6)));
-  const tableRows = Math.max(1, height - 1 - (1 + warningRows) - 1 - 3 - 1);
+  const tableRows = Math.max(1, height - 1 - (1 + warningRows) - 1 - 4 - 1);
   const state = usePlanScreenState(targets.targets.length, warnings.length, warningRows);
   usePlanScreenKeys(state, tableRows, onExit, isActive);
   const start = useRef(0);

@@ -8,7 +8,7 @@ export interface TargetDetailProps {
   readonly width: number;
 }
 
-/** Everything about the selected target, in three short lines. */
+/** Everything about the selected target, in four short lines. */
 export function TargetDetail({ target: t, width }: TargetDetailProps) {
   const shares = t.contributors
     .slice(0, 4)
@@ -23,8 +23,9 @@ export function TargetDetail({ target: t, width }: TargetDetailProps) {
       <Text wrap="truncate-end">
         worst case {formatBand(t.worst, t.unit)} · statistical {formatBand(t.stat, t.unit)}
       </Text>
+      <Text wrap="truncate-end">how: {t.how}</Text>
       <Text wrap="truncate-end" {...toneProps('dim')}>
-        {shares ? `contributors: ${shares} · ` : ''}how: {t.how}
+        contributors: {shares || 'none (a fixed limit, no parts behind it)'}
       </Text>
     </Box>
   );
