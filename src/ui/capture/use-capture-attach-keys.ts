@@ -1,0 +1,44 @@
+import { type Key, useInput } from 'ink';
+import type { AttachState } from './use-capture-attach-state.js';
+
+export interface AttachKeyActions {
+  readonly type: (chars: string) => void;
+  readonly erase: () => void;
+  readonly complete: () => void;
+  readonly load: (text: string) => void;
+  readonly back: () => void;
+  readonly attach: () => void;
+  readonly cancel: () => void;
+}
+
+/**
+ * Keys of the attach box. Path: type, Backspace, Tab completes, Enter reads,
+ * Esc cancels. Reading: Esc stops waiting. Figures: Enter attaches, Esc picks
+ * another file.
+ */
+export function useCaptureAttachKeys(state: AttachState, actions: AttachKeyActions, isActive: boolean): void {
+  useInput(
+    (input: string, key: Key) => {
+      const { phase } = state;
+      if (phase.kind === 'loading') {
+        if (key.escape) actions.back();
+        return;
+      }
+      if (phase.kind === 'done') {
+        if (key.return) actions.attach();
+        else if (key.escape || key.backspace || key.delete) actions.back();
+        return;
+      }
+      if (key.escape) actions.cancel();
+      else if (key.return) actions.load(state.text);
+      else if (key.tab) actions.complete();
+      else if (key.backspace || key.delete) actions.erase();
+      else if (!key.ctrl && !key.meta && !key.upArrow && !key.downArrow && !key.leftArrow && !key.rightArrow && input.length > 0) {
+        // Pasted text arrives as one chunk; keep only its printable part.
+        const printable = input.replace(/[\u0000-\u001F\u007F]/g, '');
+        if (printable) actions.type(printable);
+      }
+    },
+    { isActive },
+  );
+}
