@@ -44,7 +44,9 @@ export function explainReading(plan: Plan, check: string, reading: number): Expl
   const index = chain.checks.findIndex((c) => c.check === check);
   const target = chain.checks[index];
   if (!target || target.phase === 'unpowered' || target.phase === 'first-power') return [];
-  const stages = new Set(target.stage === 'rails' ? [] : [target.stage, ...upstreamOf(plan.stages, target.stage)]);
+  // A hand-written (manual) target has no model: its band is not a part that could be wrong.
+  const modelled = (id: string) => plan.stages.find((s) => s.id === id)?.kind !== 'manual';
+  const stages = new Set((target.stage === 'rails' ? [] : [target.stage, ...upstreamOf(plan.stages, target.stage)]).filter(modelled));
   const out = new Float64Array(chain.checks.length);
   const x = Float64Array.from(chain.nominal);
   const list: Explanation[] = [];

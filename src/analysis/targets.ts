@@ -99,7 +99,8 @@ export function computeTargets(plan: Plan, options: TargetOptions = {}): TargetS
       nominal,
       worst: { min: nanIfNot(lo), max: nanIfNot(hi) },
       stat: { min: statMin, max: statMax },
-      contributors: contributorsOf(chain, perSigma, i, nominal),
+      // A hand-written target's spread is its own band, not any part's.
+      contributors: stage?.kind === 'manual' ? [] : contributorsOf(chain, perSigma, i, nominal),
     };
   });
 

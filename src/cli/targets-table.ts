@@ -33,7 +33,8 @@ function nominalText(t: Target): string {
 
 function contributorText(t: Target): string {
   const top = t.contributors[0];
-  return top ? `${top.part} ${Math.round(top.share * 100)}%` : '';
+  if (top) return `${top.part} ${Math.round(top.share * 100)}%`;
+  return t.phase === 'stage' && t.worst.max > t.worst.min ? 'as written' : '';
 }
 
 function fit(text: string, width: number): string {

@@ -1,0 +1,74 @@
+// Tolerance engine speed: 10,000 Monte Carlo trials of the whole demo exciter
+// chain (plus its worst case and sensitivities), against the same number of
+// evaluations of the cheapest stage, a divider. Goal: under 250 ms on one core,
+// excluding Node start-up. Figures only; nothing here fails a build.
+import { buildChain } from '../src/plan/chain.js';
+import { loadPlanFile, loadPlanText } from '../src/plan/load.js';
+import { computeTargets } from '../src/analysis/targets.js';
+import { sampleChain } from '../src/analysis/sampling.js';
+
+const trials = 10_000;
+const rounds = 5;
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.floor(s.length / 2)] ?? Number.NaN;
+}
+
+function time(f: () => void): number {
+  const t0 = performance.now();
+  f();
+  return performance.now() - t0;
+}
+
+const plan = await loadPlanFile('demo/exciter.plan.json');
+const divider = loadPlanText(
+  JSON.stringify({
+    plan: 'bench-divider',
+    title: 'one divider (invented values)',
+    rails: [{ id: '+12V', nominal: '12 V', tol: '1%' }],
+    stages: [{ id: 'ref', kind: 'divider', from: '+12V', parts: { Rtop: '10k 1%', Rbottom: '10k 1%' } }],
+  }),
+  'bench-divider.plan.json',
+);
+
+const chain = buildChain(plan);
+const dividerChain = buildChain(divider);
+const dividerKind = divider.stages[0]?.module;
+const dividerStage = divider.stages[0];
+if (!dividerKind || !dividerStage) throw new Error('no divider stage');
+
+// Warm up the JIT on every path once.
+computeTargets(plan, { trials: 500 });
+sampleChain(dividerChain, { trials: 500, seed: 1, distribution: 'normal' });
+
+const full: number[] = [];
+const mcOnly: number[] = [];
+const divStage: number[] = [];
+const divChain: number[] = [];
+for (let r = 0; r < rounds; r++) {
+  full.push(time(() => computeTargets(plan, { trials, seed: r + 1 })));
+  mcOnly.push(time(() => sampleChain(chain, { trials, seed: r + 1, distribution: 'normal' })));
+  divChain.push(time(() => sampleChain(dividerChain, { trials, seed: r + 1, distribution: 'normal' })));
+  divStage.push(
+    time(() => {
+      const parts = { Rtop: 10_000, Rbottom: 10_000 };
+      let sink = 0;
+      for (let i = 0; i < trials; i++) {
+        parts.Rtop = 10_000 + (i % 7);
+        const out = dividerKind.evaluate({ parts, settings: dividerStage.settings, opamp: dividerStage.opamp, supplies: { pos: 12, neg: 0 }, rails: { '+12V': 12 } });
+        sink += out.values['out.dc'] ?? 0;
+      }
+      if (sink === 42) console.log('');
+    }),
+  );
+}
+
+const ms = (x: number) => `${x.toFixed(1)} ms`;
+console.log(`demo exciter: ${plan.stages.length} stages, ${chain.variables.filter((v) => v.tol > 0).length} toleranced variables, ${chain.checks.length} checks; ${trials} trials, median of ${rounds}`);
+console.log(`computeTargets (worst case + sensitivities + Monte Carlo + bands): ${ms(median(full))}  (goal < 250 ms)`);
+console.log(`Monte Carlo alone:                                             ${ms(median(mcOnly))}  (${(median(mcOnly) / trials * 1000).toFixed(1)} µs per trial)`);
+console.log(`one-divider chain, same trials:                                ${ms(median(divChain))}`);
+console.log(`divider stage evaluate alone, same count:                      ${ms(median(divStage))}`);
+console.log(`ratio computeTargets / divider evaluations:                    ${(median(full) / median(divStage)).toFixed(1)}×`);
+console.log(`ratio Monte Carlo / one-divider chain:                         ${(median(mcOnly) / median(divChain)).toFixed(1)}×`);
