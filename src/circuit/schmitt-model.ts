@@ -9,9 +9,12 @@
  * drives an inverting integrator R·C (R = Rt + RV·setting).
  *
  * Model, derived here and checked against ngspice (test/circuit/schmitt-integrator-spice.test.ts):
- * 1. Square node s = clamp(k·c, −Vc, +Vc), c the comparator output, k = Gz/(Gz + 1/R + 1/(R1+R2))
- *    the Rz divider into the loads (k = 1 without Rz). The node's levels sH, sL
- *    follow; the comparator swings Hs…Ls (rail minus headroom).
+ * 1. Square node s = clamp(k·c + m·tri, −Vc, +Vc), c the comparator output,
+ *    k = Gz/(Gz + 1/R + 1/(R1+R2)) the Rz divider into the loads and
+ *    m = (1/(R1+R2))/(Gz + …) the triangle's pull through R2 (k = 1, m = 0
+ *    without Rz). The node's levels sH, sL follow (m·tri is left out of the
+ *    levels, it only moves the instant the node leaves the clamp); the
+ *    comparator swings Hs…Ls (rail minus headroom).
  * 2. The + input crosses 0 when the triangle reaches −sH·R1/R2 (falling) or
  *    −sL·R1/R2 (rising): the switching thresholds.
  * 3. After a threshold the comparator first has to build up overdrive: a
@@ -97,7 +100,10 @@ export function schmittTiming(p: SchmittCircuit): SchmittTiming {
   // square: the capacitor sees s·(1 − 1/(ωt·RC)), i.e. RC grows by 1/ωt.
   const wt = 2 * Math.PI * p.gbw;
   const rc = r * c + 1 / wt;
-  const k = p.rz > 0 ? 1 / p.rz / (1 / p.rz + 1 / r + 1 / (r1 + r2)) : 1;
+  const gLoad = 1 / p.rz + 1 / r + 1 / (r1 + r2);
+  const k = p.rz > 0 ? 1 / p.rz / gLoad : 1;
+  // R2's current also depends on the triangle: s = k·c + m·tri off the clamp.
+  const m = p.rz > 0 ? 1 / (r1 + r2) / gLoad : 0;
   // Without Rz the zeners hold the comparator's own output (in current limit).
   const cHigh = p.rz > 0 ? p.high : Math.min(p.high, vc);
   const cLow = p.rz > 0 ? p.low : Math.max(p.low, -vc);
@@ -118,8 +124,9 @@ export function schmittTiming(p: SchmittCircuit): SchmittTiming {
   const t1Up = vov / alphaUp;
   const tau = 1 / (2 * Math.PI * p.gbw * k * (r1 / (r1 + r2)));
   // Time from the threshold until the square node leaves its level.
-  const dropDown = cHigh - sH / k;
-  const dropUp = sL / k - cLow;
+  // (the triangle sits at the threshold while the comparator travels to there).
+  const dropDown = cHigh - (sH - m * thDown) / k;
+  const dropUp = (sL - m * thUp) / k - cLow;
   const leaveDown = dropDown > 1e-9 ? clampedLeave(dropDown, slew, t1Down) : regenDelay(alphaDown, tau, vov);
   const leaveUp = dropUp > 1e-9 ? clampedLeave(dropUp, slew, t1Up) : regenDelay(alphaUp, tau, vov);
   const edge = (sH - sL) / (k * slew);

@@ -88,7 +88,7 @@ describe('slew rate in the closed form (hand derivation, confirmed by ngspice in
     expect(Math.abs((out.values['triangle.vpp'] ?? 0) / (2 * peak) - 1)).toBeLessThan(1e-3);
   });
 
-  test('clamped: T = 4·R1·R·C/R2 + 4·Vsat/SR whatever Rz, and the peak with the time held at the clamp', () => {
+  test('clamped: T = 4·R1·R·C/R2 + 4·Vsat/SR for Rz from 10 Ω to 1k (0.1 %), and the peak with the time held at the clamp', () => {
     const vc = 3.9 + 0.7;
     const rc = 8.2e3 * 47e-9;
     for (const rz of ['10 ohm', '1k']) {
