@@ -6,9 +6,9 @@ import { defaultSamples } from './waveform.js';
  * One period of the square and the triangle from the timing model, phase 0 at
  * the square's rising mid-level crossing (start of its high half). The square
  * is a trapezoid whose ramps last `edge` and are centred on the effective
- * switching instants; the triangle is its running integral over RC, scaled
- * about its centre to the model's peaks (the integrator's small − input offset
- * is not in the integral) and clipped at the integrator's swing.
+ * switching instants; the triangle is its running integral, scaled and shifted
+ * to the model's peaks (which carry the integrator's small − input offset that
+ * the integral leaves out) and clipped at the integrator's swing.
  */
 export function schmittWaves(
   t: SchmittTiming,
@@ -29,35 +29,30 @@ export function schmittWaves(
   const ends1 = h - e / 2;
   const ends2 = h + e / 2;
   const ends3 = period - e / 2;
+  // The raw integral's extremes lie where the square crosses 0 on its ramps (closed form), so one
+  // pass can scale and clip: max −S at the rising crossing, min at the falling one.
+  const zeroArea = slope > 0 ? (mid * mid) / (2 * slope) : 0;
+  const rawMax = zeroArea;
+  const rawMin = -(mid * (e / 2) + sH * (h - e / 2)) - zeroArea;
+  const raw = rawMax - rawMin;
+  const scale = raw > 0 ? (t.triangleMax - t.triangleMin) / raw : 0;
+  const offset = (t.triangleMax + t.triangleMin) / 2 - ((rawMax + rawMin) / 2) * scale;
   let seg = 0;
   let segStart = 0;
   let segArea = 0;
-  let lo = Infinity;
-  let hi = -Infinity;
+  let end = ends0;
   for (let i = 0; i < n; i++) {
     const time = (i / n) * period;
-    for (;;) {
-      const end = seg === 0 ? ends0 : seg === 1 ? ends1 : seg === 2 ? ends2 : seg === 3 ? ends3 : Infinity;
-      if (time < end) break;
+    while (time >= end) {
       segArea += areaOf(seg, end - segStart, mid, slope, sH, sL);
       segStart = end;
       seg++;
+      end = seg === 1 ? ends1 : seg === 2 ? ends2 : seg === 3 ? ends3 : Infinity;
     }
     const dt = time - segStart;
     square[i] = valueOf(seg, dt, mid, slope, sH, sL);
     // The integrator inverts: the triangle falls while the square is high.
-    const tri = -(segArea + areaOf(seg, dt, mid, slope, sH, sL));
-    triangle[i] = tri;
-    if (tri < lo) lo = tri;
-    if (tri > hi) hi = tri;
-  }
-  const raw = hi - lo;
-  const want = t.triangleMax - t.triangleMin;
-  const scale = raw > 0 ? want / raw : 0;
-  const centre = (t.triangleMax + t.triangleMin) / 2;
-  const rawCentre = (hi + lo) / 2;
-  for (let i = 0; i < n; i++) {
-    const v = centre + ((triangle[i] ?? 0) - rawCentre) * scale;
+    const v = offset - (segArea + areaOf(seg, dt, mid, slope, sH, sL)) * scale;
     triangle[i] = v > swingHigh ? swingHigh : v < swingLow ? swingLow : v;
   }
   const frequency = 1 / period;
