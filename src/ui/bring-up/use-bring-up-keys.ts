@@ -1,5 +1,6 @@
 import { type Key, useInput } from 'ink';
 import { useEffect, useRef, useState } from 'react';
+import { useLiveState } from './use-live-state.js';
 import { endOptions } from '../../run/gates.js';
 import type { EndOutcome } from '../../run/types.js';
 import { moveSelection } from '../components/scroll-window.js';
@@ -21,22 +22,22 @@ const printable = (input: string): string => input.replace(/[\u0000-\u001F\u007F
 
 /** The keyboard of the bring-up screen, and the screen-local state it edits (input text, cursor, forms). */
 export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, reworkDefaults }: BringUpKeysOptions) {
-  const { state } = b;
-  const [focus, setFocus] = useState<Focus>('input');
-  const [text, setText] = useState('');
-  const [cursor, setCursor] = useState(0);
-  const [rework, setRework] = useState<ReworkFields>(emptyRework);
-  const [reworkFocus, setReworkFocus] = useState<ReworkField>('part');
+  const [focus, setFocus, focusRef] = useLiveState<Focus>('input');
+  const [text, setText, textRef] = useLiveState('');
+  const [cursor, setCursor, cursorRef] = useLiveState(0);
+  const [rework, setRework, reworkRef] = useLiveState<ReworkFields>(emptyRework);
+  const [reworkFocus, setReworkFocus, reworkFocusRef] = useLiveState<ReworkField>('part');
   const [reworkError, setReworkError] = useState<string | null>(null);
   const [isReworkSaving, setReworkSaving] = useState(false);
-  const [endCursor, setEndCursor] = useState(0);
+  const [endCursor, setEndCursor, endCursorRef] = useLiveState(0);
   const dirty = useRef(onDirtyChange);
   dirty.current = onDirtyChange;
 
+  const { state } = b;
   useEffect(() => {
     const i = state.targets.findIndex((t) => t.check === state.selected);
     if (i >= 0) setCursor(i);
-  }, [state.selected, state.targets]);
+  }, [state.selected, state.targets, setCursor]);
 
   const isDirty = text.trim() !== '' || focus === 'rework';
   useEffect(() => {
@@ -60,13 +61,14 @@ export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, re
 
   const onRework = (input: string, key: Key) => {
     if (isReworkSaving) return;
+    const reworkFocus = reworkFocusRef.current;
     const at = reworkFieldNames.indexOf(reworkFocus);
     if (key.escape) setFocus('input');
     else if (key.tab && key.shift) setReworkFocus(reworkFieldNames[Math.max(0, at - 1)] ?? 'part');
     else if (key.tab || (key.return && at < reworkFieldNames.length - 1)) setReworkFocus(reworkFieldNames[Math.min(reworkFieldNames.length - 1, at + 1)] ?? 'note');
     else if (key.return) {
       setReworkSaving(true);
-      void b.saveRework(rework).then((error) => {
+      void b.saveRework(reworkRef.current).then((error) => {
         setReworkSaving(false);
         setReworkError(error);
         if (!error) setFocus('input');
@@ -76,24 +78,25 @@ export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, re
   };
 
   const onEnd = (key: Key, input: string) => {
-    const options = endOptions(state);
+    const options = endOptions(b.stateRef.current);
     if (key.escape) setFocus('input');
     else if (key.upArrow || input === 'k') setEndCursor((c) => moveSelection(c, -1, options.length));
     else if (key.downArrow || input === 'j') setEndCursor((c) => moveSelection(c, 1, options.length));
     else if (key.return) {
-      const outcome = options[endCursor] as EndOutcome | undefined;
+      const outcome = options[endCursorRef.current] as EndOutcome | undefined;
       if (outcome) void b.endRun(outcome);
       setFocus('input');
     }
   };
 
   const onList = (input: string, key: Key) => {
+    const state = b.stateRef.current;
     if (key.upArrow || input === 'k') setCursor((c) => moveSelection(c, -1, state.targets.length));
     else if (key.downArrow || input === 'j') setCursor((c) => moveSelection(c, 1, state.targets.length));
     else if (key.pageUp) setCursor((c) => moveSelection(c, -10, state.targets.length));
     else if (key.pageDown) setCursor((c) => moveSelection(c, 10, state.targets.length));
     else if (key.return) {
-      const check = state.targets[cursor]?.check;
+      const check = state.targets[cursorRef.current]?.check;
       if (check && b.select(check) === null) setFocus('input');
     } else if (key.tab) setFocus('input');
     else if (key.escape) onExit();
@@ -101,6 +104,8 @@ export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, re
   };
 
   const onInput = (input: string, key: Key) => {
+    const state = b.stateRef.current;
+    const text = textRef.current;
     if (key.tab) setFocus('list');
     else if (key.escape) {
       if (text !== '') setText('');
@@ -122,6 +127,10 @@ export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, re
 
   useInput(
     (input, key) => {
+      const state = b.stateRef.current;
+      const focus = focusRef.current;
+      // While a resumed run is read back, keys would act on an empty run.
+      if (b.statusRef.current.kind === 'loading') return;
       if (focus === 'help') {
         if (input === '?' || key.escape) setFocus('input');
         return;
@@ -147,7 +156,7 @@ export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, re
       else if (focus === 'list') onList(input, key);
       else onInput(input, key);
     },
-    { isActive: isActive && focus !== 'capture' && b.status.kind !== 'loading' },
+    { isActive: isActive && focus !== 'capture' },
   );
 
   return {

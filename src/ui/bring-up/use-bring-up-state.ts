@@ -1,4 +1,4 @@
-import { useCallback, useEffect, useMemo, useReducer, useRef, useState } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { explainReading, hintsFor } from '../../analysis/explain.js';
 import type { Target } from '../../analysis/types.js';
 import type { RunOutcome } from '../../log/types.js';
@@ -6,7 +6,8 @@ import { assessReading } from '../../run/assess.js';
 import { createRunState } from '../../run/create.js';
 import { lockReason } from '../../run/gates.js';
 import { runReducer } from '../../run/reducer.js';
-import type { EndOutcome, RunState } from '../../run/types.js';
+import type { EndOutcome, RunAction, RunState } from '../../run/types.js';
+import { useLiveState } from './use-live-state.js';
 import type { BringUpProps } from '../screen-props.js';
 import { type CaptureFigures, captureReadings } from './capture-readings.js';
 import { outputOf } from './expected-trace.js';
@@ -43,15 +44,15 @@ export function knownParts(plan: BringUpProps['plan']): readonly string[] {
  * first write, so opening the screen and leaving leaves no empty run behind.
  */
 export function useBringUpState({ plan, targets, serial, operator, log, resumeRun }: BringUpProps) {
-  const [state, dispatch] = useReducer(runReducer, undefined, () => createRunState(plan, targets.targets));
-  const [status, setStatus] = useState<Status>(resumeRun ? { kind: 'loading' } : { kind: 'idle' });
+  const [state, setState, stateRef] = useLiveState<RunState>(() => createRunState(plan, targets.targets));
+  // The reducer is pure, so applying it here keeps `stateRef` current for keys that arrive before the next render.
+  const dispatch = useCallback((action: RunAction) => setState((s) => runReducer(s, action)), [setState]);
+  const [status, setStatus, statusRef] = useLiveState<Status>(resumeRun ? { kind: 'loading' } : { kind: 'idle' });
   const [runId, setRunId] = useState<string | null>(resumeRun ?? null);
   // Two periods of the latest capture at each output, drawn over the expected trace.
   const [captures, setCaptures] = useState<ReadonlyMap<string, Float64Array>>(new Map());
   const runRef = useRef<Promise<string> | null>(resumeRun ? Promise.resolve(resumeRun) : null);
   const busy = useRef(false);
-  const stateRef = useRef<RunState>(state);
-  stateRef.current = state;
 
   useEffect(() => {
     if (!resumeRun) return;
@@ -69,7 +70,7 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
     return () => {
       live = false;
     };
-  }, [log, serial, resumeRun]);
+  }, [log, serial, resumeRun, dispatch]);
 
   const ensureRun = useCallback((): Promise<string> => {
     runRef.current ??= log.startRun(serial, { plan: plan.plan, planHash: plan.hash, planText: plan.text, operator }).then((run) => {
@@ -129,7 +130,7 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
       setStatus({ kind: 'idle' });
     }
     return reason;
-  }, []);
+  }, [dispatch, stateRef]);
 
   const acceptSuggestion = useCallback(() => {
     const next = stateRef.current.suggestion;
@@ -220,6 +221,9 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
     }
     return { explanations, hints };
   }, [plan, last]);
+  // Key handlers are swapped in after the frame is drawn: they read the explanation through a ref.
+  const explanationRef = useRef(explanation);
+  explanationRef.current = explanation;
 
   return {
     state,
@@ -228,14 +232,17 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
     target,
     lastTarget,
     explanation,
+    explanationRef,
     submit,
     select,
     acceptSuggestion,
     saveRework,
     endRun,
     attachCapture,
-    acknowledgeCautions: useCallback(() => dispatch({ type: 'acknowledge-cautions' }), []),
-    acknowledgePowerOff: useCallback(() => dispatch({ type: 'power-off-acknowledged' }), []),
+    stateRef,
+    statusRef,
+    acknowledgeCautions: useCallback(() => dispatch({ type: 'acknowledge-cautions' }), [dispatch]),
+    acknowledgePowerOff: useCallback(() => dispatch({ type: 'power-off-acknowledged' }), [dispatch]),
     captured: useCallback((output: string) => captures.get(output) ?? null, [captures]),
     clearStatus: useCallback(() => setStatus((s) => (s.kind === 'rejected' ? { kind: 'idle' } : s)), []),
   };

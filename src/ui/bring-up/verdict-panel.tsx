@@ -55,10 +55,10 @@ export function VerdictPanel({ reading, target, result, explanations, hints, max
         <Text bold {...toneProps(verdictTone[reading.verdict])}>
           {verdictMark[reading.verdict]} {reading.verdict.toUpperCase()}
         </Text>{' '}
-        {reading.check} = {formatReading(reading.value, reading.unit)} <Text {...toneProps('dim')}>(±{formatValue(result.uncertainty, target.unit, { digits: 2 })}) saved ✓</Text>
+        {reading.check} = {formatReading(reading.value, reading.unit)} <Text {...toneProps('dim')}>(±{formatValue(result.uncertainty, target.unit, { digits: 3 })}) saved ✓</Text>
       </Text>
       <Text wrap="truncate-end">
-        deviation {formatPercent(result.deviation)} of nominal · {position(result)} {gauge ?? ''}
+        deviation {formatPercent(Math.abs(result.deviation) < 1e-9 ? 0 : result.deviation)} of nominal · {position(result)} {gauge ?? ''}
       </Text>
       {result.warnings.slice(0, 1).map((w) => (
         <Text key={w} wrap="truncate-end" {...toneProps('warn')}>

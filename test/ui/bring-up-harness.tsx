@@ -1,0 +1,91 @@
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { render } from 'ink-testing-library';
+import { computeTargets } from '../../src/analysis/targets.js';
+import type { TargetSet } from '../../src/analysis/types.js';
+import { openLog } from '../../src/log/store.js';
+import type { BenchLog, BoardFile } from '../../src/log/types.js';
+import { loadPlanFile } from '../../src/plan/load.js';
+import type { Plan } from '../../src/plan/types.js';
+import { BringUpScreen } from '../../src/ui/bring-up/bring-up.js';
+import { keys } from './keys.js';
+
+export const fixturePlan = join(import.meta.dirname, 'fixtures', 'bring-up.plan.json');
+
+/** The fixture plan and its targets, computed once (few trials: the verdicts need only the worst-case band). */
+export async function loadFixture(file = fixturePlan): Promise<{ plan: Plan; targets: TargetSet }> {
+  const plan = await loadPlanFile(file);
+  return { plan, targets: computeTargets(plan, { trials: 400, seed: 1 }) };
+}
+
+export interface ScreenOptions {
+  readonly width?: number;
+  readonly height?: number;
+  readonly resumeRun?: string;
+  readonly serial?: string;
+}
+
+/** A bring-up screen on a real log in a temporary folder. */
+export async function renderBringUp(fixture: { plan: Plan; targets: TargetSet }, log: BenchLog, options: ScreenOptions = {}) {
+  const exits: number[] = [];
+  const dirty: boolean[] = [];
+  const serial = options.serial ?? 'FX-0001';
+  const ui = render(
+    <BringUpScreen
+      log={log}
+      plan={fixture.plan}
+      targets={fixture.targets}
+      serial={serial}
+      operator="tester"
+      width={options.width ?? 100}
+      height={options.height ?? 32}
+      onExit={() => exits.push(1)}
+      onDirtyChange={(d) => dirty.push(d)}
+      {...(options.resumeRun ? { resumeRun: options.resumeRun } : {})}
+    />,
+  );
+  const frame = () => ui.lastFrame() ?? '';
+  /** Wait until the screen shows `text` (or the predicate holds). */
+  const until = async (what: string | RegExp | (() => boolean), timeout = 5000): Promise<string> => {
+    const ok = () => (typeof what === 'function' ? what() : typeof what === 'string' ? frame().includes(what) : what.test(frame()));
+    const start = Date.now();
+    while (!ok()) {
+      if (Date.now() - start > timeout) throw new Error(`timed out waiting for ${String(what)}; screen:\n${frame()}`);
+      await new Promise((r) => setTimeout(r, 10));
+    }
+    return frame();
+  };
+  /** Write keys one chunk at a time, letting a frame pass after each. */
+  const press = async (...chunks: string[]) => {
+    for (const c of chunks) {
+      ui.stdin.write(c);
+      await new Promise((r) => setTimeout(r, 15));
+    }
+  };
+  /** Type text character by character. */
+  const type = async (text: string) => press(...Array.from(text));
+  const board = async (): Promise<BoardFile | null> => log.readBoard(serial);
+  /** Type a reading, press Enter, and wait until the log has one more reading. */
+  const read = async (text: string) => {
+    const before = (await board())?.readings.length ?? 0;
+    await type(text);
+    await press(keys.enter);
+    const start = Date.now();
+    while (((await board())?.readings.length ?? 0) <= before) {
+      if (Date.now() - start > 5000) throw new Error(`reading ${text} was not saved; screen:\n${frame()}`);
+      await new Promise((r) => setTimeout(r, 10));
+    }
+    await until(() => !frame().includes('saving '));
+  };
+  return { ...ui, frame, until, press, type, read, board, exits, dirty, serial };
+}
+
+export async function tempLog(): Promise<{ log: BenchLog; dir: string; cleanup: () => Promise<void> }> {
+  const dir = await mkdtemp(join(tmpdir(), 'probebook-bringup-'));
+  return { log: await openLog(dir), dir, cleanup: () => rm(dir, { recursive: true, force: true }) };
+}
+
+export async function boardJson(dir: string, serial: string): Promise<string> {
+  return readFile(join(dir, 'boards', `${serial}.json`), 'utf8');
+}
