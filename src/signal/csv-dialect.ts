@@ -59,6 +59,9 @@ export function detectDialect(text: string, complete: boolean, name: string): Cs
       if (isNumericRow(l, c.delimiter, c.decimal) === columns) score++;
       else break;
     }
+    // A header with as many names as the rows have numbers settles a tie
+    // between `;` with decimal commas and `,` splitting every number in two.
+    if (findHeader(lines, start, c.delimiter, columns)) score += 1e6;
     if (!best || score > best.score || (score === best.score && columns > best.columns)) best = { score, columns, start, c };
   }
   if (!best) {

@@ -11,7 +11,6 @@ pow10[0] = 1;
 for (let i = 1; i < pow10.length; i++) pow10[i] = (pow10[i - 1] ?? 1) * 10;
 
 const SPACE = 32;
-const TAB = 9;
 const QUOTE = 34;
 const PLUS = 43;
 const MINUS = 45;
@@ -21,7 +20,7 @@ const LOWER_E = 101;
 const UPPER_E = 69;
 
 /**
- * Read a decimal number at `pos` (spaces and a surrounding `"` allowed):
+ * Read a decimal number at `pos` (spaces, not tabs, and a surrounding `"` allowed):
  * `-1.25e-3`, `+4`, `.5`, `3,3` when `decimal` is the comma's code. Digits past
  * the 17th only shift the exponent; the result is within a few units in the
  * last place of the correctly rounded value — far below any instrument's
@@ -30,7 +29,7 @@ const UPPER_E = 69;
 export function scanNumber(buf: Uint8Array, pos: number, end: number, decimal: number): number {
   let i = pos;
   let c = buf[i] ?? 0;
-  while (i < end && (c === SPACE || c === TAB)) c = buf[++i] ?? 0;
+  while (i < end && c === SPACE) c = buf[++i] ?? 0;
   const quoted = c === QUOTE;
   if (quoted) c = buf[++i] ?? 0;
   let negative = false;
@@ -88,7 +87,7 @@ export function scanNumber(buf: Uint8Array, pos: number, end: number, decimal: n
     }
   }
   if (quoted && c === QUOTE) c = buf[++i] ?? 0;
-  while (i < end && (c === SPACE || c === TAB)) c = buf[++i] ?? 0;
+  while (i < end && c === SPACE) c = buf[++i] ?? 0;
   scan.end = i;
   let value: number;
   if (mantissa === 0) value = 0;
