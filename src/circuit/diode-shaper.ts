@@ -1,7 +1,7 @@
 import { type DiodeModel, defaultDiode, defaultDiodeName, diodeModels, diodeString, stringCurrent } from './diode.js';
 import { branchJunction, type ShaperBranch, type ShaperNet, solveNode } from './shaper-solver.js';
 import { fastThd } from './spectrum.js';
-import { choiceAt, countAt, list, nested, onlyKeys, partAt, reader, type StageReader } from './stage-parse.js';
+import { choiceAt, countAt, list, nested, ohmRange, onlyKeys, partAt, reader, type StageReader } from './stage-parse.js';
 import { PlanError } from '../plan/errors.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind, StageWarning } from './types.js';
 import { mirrorOrder } from './mirror.js';
@@ -48,8 +48,8 @@ function parse(raw: Parameters<StageKind['parse']>[0], file: string): { parts: R
   const r = reader(raw, file);
   const p = nested(r, 'parts', true);
   onlyKeys(p, ['Rs', 'Rload']);
-  const parts: Record<string, PartValue> = { Rs: partAt(p, 'Rs', 'Ω', true, { positive: true, example: '"4k7 1%"' }) };
-  const load = partAt(p, 'Rload', 'Ω', false, { positive: true, example: '"10k 1%"' });
+  const parts: Record<string, PartValue> = { Rs: partAt(p, 'Rs', 'Ω', true, { positive: true, plausible: ohmRange, example: '"4k7 1%"' }) };
+  const load = partAt(p, 'Rload', 'Ω', false, { positive: true, plausible: ohmRange, example: '"10k 1%"' });
   if (load) parts['Rload'] = load;
   const example = '{ "diodes": 1, "polarity": "+", "R": "2k2 1%", "bias": "0 V" }';
   const items = list(r, 'branches', true, example);
@@ -58,7 +58,7 @@ function parse(raw: Parameters<StageKind['parse']>[0], file: string): { parts: R
     onlyKeys(b, ['diodes', 'polarity', 'R', 'bias']);
     const rRole = `branches[${i}].R`;
     const biasRole = `branches[${i}].bias`;
-    parts[rRole] = partAt(b, 'R', 'Ω', true, { positive: true, example: '"2k2 1%"' });
+    parts[rRole] = partAt(b, 'R', 'Ω', true, { positive: true, plausible: ohmRange, example: '"2k2 1%"' });
     parts[biasRole] = partAt(b, 'bias', 'V', false, { example: '"0 V"' }) ?? { nominal: 0, tol: 0, unit: 'V', text: '0 V' };
     return { diodes: countAt(b, 'diodes', 1, 1, 10), polarity: choiceAt(b, 'polarity', ['+', '-'] as const), rRole, biasRole };
   });

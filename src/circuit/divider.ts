@@ -1,4 +1,4 @@
-import { nested, onlyKeys, partAt, reader, textAt } from './stage-parse.js';
+import { nested, ohmRange, onlyKeys, partAt, reader, textAt } from './stage-parse.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
 import { dc } from './waveform.js';
 
@@ -39,8 +39,8 @@ export const dividerKind: StageKind<DividerSettings> = {
     const p = nested(r, 'parts', true);
     onlyKeys(p, ['Rtop', 'Rbottom']);
     const parts: Record<string, PartValue> = {
-      Rtop: partAt(p, 'Rtop', 'Ω', true, { positive: true, example: '"10k 1%"' }),
-      Rbottom: partAt(p, 'Rbottom', 'Ω', true, { positive: true, example: '"4k7 1%"' }),
+      Rtop: partAt(p, 'Rtop', 'Ω', true, { positive: true, plausible: ohmRange, example: '"10k 1%"' }),
+      Rbottom: partAt(p, 'Rbottom', 'Ω', true, { positive: true, plausible: ohmRange, example: '"4k7 1%"' }),
     };
     return { parts, settings: { from: textAt(r, 'from', true, '"+12V" (a rail id)') } };
   },

@@ -1,5 +1,5 @@
 import { amplifierChecks, amplifierHints, evaluateAmplifier } from './amplifier.js';
-import { nested, onlyKeys, partAt, reader } from './stage-parse.js';
+import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import type { EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
 
 /** An inverting gain stage has no settings beyond its parts. */
@@ -25,8 +25,8 @@ export const invertingAmpKind: StageKind<InvertingAmpSettings> = {
     const p = nested(reader(raw, file), 'parts', true);
     onlyKeys(p, ['Rin', 'Rf']);
     const parts: Record<string, PartValue> = {
-      Rin: partAt(p, 'Rin', 'Ω', true, { positive: true, example: '"10k 1%"' }),
-      Rf: partAt(p, 'Rf', 'Ω', true, { positive: true, example: '"33k 1%"' }),
+      Rin: partAt(p, 'Rin', 'Ω', true, { positive: true, plausible: ohmRange, example: '"10k 1%"' }),
+      Rf: partAt(p, 'Rf', 'Ω', true, { positive: true, plausible: ohmRange, example: '"33k 1%"' }),
     };
     return { parts, settings: {} };
   },

@@ -1,5 +1,5 @@
 import { amplifierChecks, amplifierHints, evaluateAmplifier } from './amplifier.js';
-import { nested, onlyKeys, partAt, reader } from './stage-parse.js';
+import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import type { EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
 
 /** A non-inverting gain stage has no settings beyond its parts. */
@@ -26,8 +26,8 @@ export const noninvertingAmpKind: StageKind<NoninvertingAmpSettings> = {
     const p = nested(reader(raw, file), 'parts', true);
     onlyKeys(p, ['Rg', 'Rf']);
     const parts: Record<string, PartValue> = {
-      Rg: partAt(p, 'Rg', 'Ω', true, { positive: true, example: '"10k 1%"' }),
-      Rf: partAt(p, 'Rf', 'Ω', true, { positive: true, example: '"22k 1%"' }),
+      Rg: partAt(p, 'Rg', 'Ω', true, { positive: true, plausible: ohmRange, example: '"10k 1%"' }),
+      Rf: partAt(p, 'Rf', 'Ω', true, { positive: true, plausible: ohmRange, example: '"22k 1%"' }),
     };
     return { parts, settings: {} };
   },

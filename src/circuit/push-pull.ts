@@ -1,5 +1,5 @@
 import { formatValue } from '../units/format.js';
-import { choiceAt, nested, onlyKeys, partAt, reader } from './stage-parse.js';
+import { choiceAt, nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind, StageWarning } from './types.js';
 
 /**
@@ -106,7 +106,7 @@ export const pushPullKind: StageKind<PushPullSettings> = {
     const p = nested(r, 'parts');
     onlyKeys(p, ['Rload']);
     const parts: Record<string, PartValue> = {};
-    const load = partAt(p, 'Rload', 'Ω', false, { positive: true, example: '"1k 5%"' });
+    const load = partAt(p, 'Rload', 'Ω', false, { positive: true, plausible: ohmRange, example: '"1k 5%"' });
     if (load) parts['Rload'] = load;
     const vbe = partAt(r, 'vbe', 'V', false, { positive: true, example: '"0.65 V 10%"' });
     if (vbe) parts['vbe'] = vbe;

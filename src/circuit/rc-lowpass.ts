@@ -1,5 +1,5 @@
 import { singlePole } from './single-pole.js';
-import { nested, onlyKeys, partAt, reader } from './stage-parse.js';
+import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
 
 /** A passive RC low-pass has no settings beyond its parts. */
@@ -41,8 +41,9 @@ export const rcLowpassKind: StageKind<RcLowpassSettings> = {
     const p = nested(reader(raw, file), 'parts', true);
     onlyKeys(p, ['R', 'C']);
     const parts: Record<string, PartValue> = {
-      R: partAt(p, 'R', 'Ω', true, { positive: true, example: '"10k 1%"' }),
-      C: partAt(p, 'C', 'F', true, { positive: true, example: '"10n 5%"' }),
+      R: partAt(p, 'R', 'Ω', true, { positive: true, plausible: ohmRange, example: '"10k 1%"' }),
+      // Above 1 F is a missing prefix or an RKM slip ("10k"), not a filter capacitor.
+      C: partAt(p, 'C', 'F', true, { positive: true, example: '"10n 5%"', plausible: [1e-15, 1] }),
     };
     return { parts, settings: {} };
   },

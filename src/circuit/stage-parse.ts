@@ -1,4 +1,5 @@
 import { PlanError } from '../plan/errors.js';
+import { formatValue } from '../units/format.js';
 import { parseValue } from '../units/parse.js';
 import { type Unit, unitExample, unitNoun } from '../units/unit.js';
 import type { PartValue, RawStage } from './types.js';
@@ -58,7 +59,12 @@ export interface ValueRule {
   readonly nonNegative?: boolean;
   /** Example for the message; defaults to the unit's example. */
   readonly example?: string;
+  /** Values outside this range are a slip (`"10k"` for a capacitor is 10 kF), not a part. */
+  readonly plausible?: readonly [number, number];
 }
+
+/** Resistors from 1 mΩ to 10 GΩ; outside is a prefix slip (`"10n"`), not a part. */
+export const ohmRange: readonly [number, number] = [1e-3, 1e10];
 
 /**
  * A toleranced value (`"33k 1%"`, `"2.5 V"`), or a plain JSON number for a
@@ -94,6 +100,9 @@ export function partAt(r: StageReader, key: string, unit: Unit, required: boolea
   }
   if (rule.positive && !(part.nominal > 0)) {
     throw new PlanError(r.file, path, `${JSON.stringify(part.text)} must be above zero; write e.g. ${example}`);
+  }
+  if (rule.plausible && (part.nominal < rule.plausible[0] || part.nominal > rule.plausible[1])) {
+    throw new PlanError(r.file, path, `${JSON.stringify(part.text)} reads as ${formatValue(part.nominal, unit)}, not a plausible value here; write e.g. ${example}`);
   }
   if (rule.nonNegative && part.nominal < 0) {
     throw new PlanError(r.file, path, `${JSON.stringify(part.text)} must not be negative; write e.g. ${example}`);

@@ -1,0 +1,127 @@
+import { describe, expect, test } from 'vitest';
+import { pushPullKind, type PushPullSettings } from '../../src/circuit/push-pull.js';
+import { defaultOpamp } from '../../src/circuit/opamp.js';
+import type { Waveform } from '../../src/circuit/types.js';
+import { fromPhase } from '../../src/circuit/waveform.js';
+import { PlanError } from '../../src/plan/errors.js';
+import { runSpice } from '../helpers/ngspice.js';
+
+/**
+ * SPICE models of the 2N3904 and 2N3906 as widely distributed in vendor and hobby
+ * model libraries, typed from memory (DC parameters and the usual extras).
+ */
+const bjtModels = [
+  '.model Q2N3904 NPN (IS=6.734f XTI=3 EG=1.11 VAF=74.03 BF=416.4 NE=1.259 ISE=6.734f IKF=66.78m XTB=1.5 BR=.7371 NC=2 ISC=0 IKR=0 RC=1 CJC=3.638p MJC=.3085 VJC=.75 FC=.5 CJE=4.493p MJE=.2593 VJE=.75 TR=239.5n TF=301.2p ITF=.4 VTF=4 XTF=2 RB=10)',
+  '.model Q2N3906 PNP (IS=1.41f XTI=3 EG=1.11 VAF=18.7 BF=180.7 NE=1.5 ISE=0 IKF=80m XTB=1.5 BR=4.977 NC=2 ISC=0 IKR=0 RC=2.5 CJC=9.728p MJC=.5776 VJC=.75 FC=.5 CJE=8.063p MJE=.3677 VJE=.75 TR=33.42n TF=179.3p ITF=.4 VTF=4 XTF=6 RB=10)',
+  // The 1N4148 model of data/diode-models.json, for the bias diodes.
+  '.model D1N4148 D (IS=2.52n N=1.752 RS=0.568)',
+].join('\n');
+
+const rails = 'Vp vp 0 DC 12\nVn vn 0 DC -12\nRload out 0 1k';
+const unbiased = `${bjtModels}\n${rails}\nVin in 0 DC 0\nQ1 vp in out Q2N3904\nQ2 vn in out Q2N3906`;
+// Diode bias: 4k7 from each rail feeds two diodes between the bases; the input drives their middle.
+const diodeBiased = `${bjtModels}\n${rails}\nVin in 0 DC 0\nRb1 vp bn 4.7k\nD1 bn in D1N4148\nD2 in bp D1N4148\nRb2 bp vn 4.7k\nQ1 vp bn out Q2N3904\nQ2 vn bp out Q2N3906`;
+
+function sweep(netlist: string): { vin: Float64Array; vout: Float64Array } {
+  const t = runSpice(netlist, 'dc Vin -6 6 0.01', ['v(out)']);
+  return { vin: t['v-sweep'] as Float64Array, vout: t['v(out)'] as Float64Array };
+}
+
+function at(s: { vin: Float64Array; vout: Float64Array }, x: number): number {
+  let best = 0;
+  for (let i = 0; i < s.vin.length; i++) if (Math.abs((s.vin[i] as number) - x) < Math.abs((s.vin[best] as number) - x)) best = i;
+  return s.vout[best] as number;
+}
+
+/** Where the straight part of the transfer curve (|vout| between 1 and 3 V) meets vout = 0, by least squares. */
+function knee(s: { vin: Float64Array; vout: Float64Array }, side: 1 | -1): number {
+  let n = 0, sx = 0, sy = 0, sxx = 0, sxy = 0;
+  for (let i = 0; i < s.vin.length; i++) {
+    const y = (s.vout[i] as number) * side;
+    if (y < 1 || y > 3) continue;
+    const x = (s.vin[i] as number) * side;
+    n++; sx += x; sy += y; sxx += x * x; sxy += x * y;
+  }
+  const slope = (n * sxy - sx * sy) / (n * sxx - sx * sx);
+  const intercept = (sy - slope * sx) / n;
+  return -intercept / slope;
+}
+
+function run(json: Record<string, unknown>, input: Waveform) {
+  const p = pushPullKind.parse({ json, path: 'stages[3]' }, 'x.plan.json');
+  const parts = Object.fromEntries(Object.entries(p.parts).map(([k, v]) => [k, v.nominal]));
+  return pushPullKind.evaluate({ parts, settings: p.settings as PushPullSettings, opamp: defaultOpamp, supplies: { pos: 12, neg: -12 }, rails: {}, input });
+}
+
+const sine = (peak: number): Waveform => fromPhase(1000, (p) => peak * Math.sin(2 * Math.PI * p));
+
+describe('push-pull against ngspice DC sweeps (2N3904/2N3906 models from memory)', () => {
+  test('no bias: dead band about ±0.6–0.7 V and the peak loses a Vbe', () => {
+    const s = sweep(unbiased);
+    const upper = knee(s, 1);
+    const lower = knee(s, -1);
+    // Common practice, no source: a silicon junction drops about 0.6–0.7 V.
+    expect(upper).toBeGreaterThan(0.6);
+    expect(upper).toBeLessThan(0.75);
+    expect(lower).toBeGreaterThan(0.6);
+    expect(lower).toBeLessThan(0.75);
+    const r = run({ bias: 'none', parts: { Rload: '1k 5%' } }, sine(5));
+    // The tool's dead band (2 × 0.65 V default) against ngspice's straight-line knees: within 0.15 V.
+    expect(Math.abs((r.values['deadband'] as number) - (upper + lower))).toBeLessThan(0.15);
+    // Output peak-to-peak at 5 V peak drive, ngspice DC sweep: within 3 %.
+    const spiceVpp = at(s, 5) - at(s, -5);
+    expect(Math.abs((r.values['out.vpp'] as number) - spiceVpp) / spiceVpp).toBeLessThan(0.03);
+    // Inside the dead band nothing comes out, in both.
+    expect(Math.abs(at(s, 0.3))).toBeLessThan(0.01);
+    expect(Math.abs(r.outputs['out']?.samples[5] as number)).toBe(0);
+    expect(r.warnings.map((w) => w.message).join()).toMatch(/crossover/);
+  });
+
+  test('diode bias: the output follows the input, no dead band', () => {
+    const s = sweep(diodeBiased);
+    // Slope through zero close to 1 and no step: the diodes cancel Vbe.
+    const slope = (at(s, 0.2) - at(s, -0.2)) / 0.4;
+    expect(slope).toBeGreaterThan(0.9);
+    expect(Math.abs(at(s, 0))).toBeLessThan(0.1);
+    const r = run({ bias: 'diodes', parts: { Rload: '1k 5%' } }, sine(5));
+    expect(r.values['deadband']).toBe(0);
+    const spiceVpp = at(s, 5) - at(s, -5);
+    expect(Math.abs((r.values['out.vpp'] as number) - spiceVpp) / spiceVpp).toBeLessThan(0.03);
+  });
+});
+
+describe('push-pull currents and limits', () => {
+  test('peak load current and base drive Ipeak/hfe', () => {
+    const r = run({ bias: 'diodes', parts: { Rload: '470' }, hfe: 80 }, sine(4.7));
+    // Ohm's law: 4.7 V / 470 Ω = 10 mA; base drive 10 mA / 80.
+    expect(r.values['out.ipeak']).toBeCloseTo(0.01, 9);
+    expect(r.values['base.ipeak']).toBeCloseTo(0.01 / 80, 9);
+  });
+
+  test('clips a Vbe inside the rails, and warns of heat into a heavy load', () => {
+    const r = run({ bias: 'diodes', parts: { Rload: '8.2' } }, sine(14));
+    expect(Math.max(...(r.outputs['out']?.samples as Float64Array))).toBeCloseTo(12 - 0.65, 9);
+    const text = r.warnings.map((w) => w.message).join(' ');
+    expect(text).toMatch(/clips/);
+    expect(text).toMatch(/do not touch/);
+  });
+
+  test('without a load no current checks are offered', () => {
+    const p = pushPullKind.parse({ json: { bias: 'none' }, path: 'stages[3]' }, 'x.plan.json');
+    expect(pushPullKind.checks(p.settings).map((c) => c.key)).toEqual(['out.vpp', 'deadband']);
+  });
+
+  test.each([
+    [{}, /stages\[3\]\.bias: missing; write "none" or "diodes"/],
+    [{ bias: 'class-b' }, /stages\[3\]\.bias: "class-b" is not one of/],
+    [{ bias: 'none', vbe: '0.7 A' }, /stages\[3\]\.vbe: .*current/],
+    [{ bias: 'none', parts: { Rload: '-8' } }, /stages\[3\]\.parts\.Rload: "-8" must be above zero/],
+  ])('plan error %j', (json, message) => {
+    expect(() => pushPullKind.parse({ json, path: 'stages[3]' }, 'x.plan.json')).toThrow(PlanError);
+    expect(() => pushPullKind.parse({ json, path: 'stages[3]' }, 'x.plan.json')).toThrow(message);
+  });
+
+  test('hints carry the hot-transistor caution', () => {
+    expect(Object.values(pushPullKind.faultHints).flat().join(' ')).toMatch(/get hot/);
+  });
+});
