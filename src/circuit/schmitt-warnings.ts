@@ -6,12 +6,15 @@ import type { StageWarning } from './types.js';
  * Where the closed form of `schmitt-model.ts` stops being a firm target. The
  * limits come from the ngspice comparison in test/circuit/schmitt-integrator-spice.test.ts
  * (0.5 V/µs, 1 MHz op-amps):
- * - the model stays within 0.1 % unclamped and 0.5–1 % clamped while the
- *   comparator's full swing takes up to half of each half period; at 80 % it is
- *   1–2.5 % off clamped, and unclamped the triangle clips and the frequency is
- *   15 % off. So: a note from 25 % (the frequency then hangs on the op-amp's
- *   slew rate, which spreads widely between parts — common practice, no
- *   source), and "unreliable" from 60 %;
+ * - the model stays within 0.1 % unclamped and 0.1–0.4 % clamped (soft
+ *   zeners; 0.1 % with an ideal clamp) while the comparator's full swing takes
+ *   up to half of each half period; at 58–67 % it is 0.1–0.6 % off, at 81 %
+ *   0.5 % (clamped), and once the triangle's overshoot reaches the
+ *   integrator's swing it clips and the frequency is 10–16 % off. So: a note
+ *   from 25 % (the frequency then hangs on the op-amp's slew rate, which
+ *   spreads widely between parts — common practice, no source), and
+ *   "unreliable" from 60 %, where a few % of slew-rate spread already moves
+ *   the frequency by more than the parts do;
  * - when the overdrive build-up t1 = Vov/α exceeds 5 % of the period (a
  *   triangle small against the op-amp's overdrive) it was 0.4 % off at 8 % and
  *   2–3 % at 20–25 %;
