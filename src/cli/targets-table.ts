@@ -34,12 +34,31 @@ function nominalText(t: Target): string {
 function contributorText(t: Target): string {
   const top = t.contributors[0];
   if (top) return `${top.part} ${Math.round(top.share * 100)}%`;
-  return t.phase === 'stage' && t.worst.max > t.worst.min ? 'as written' : '';
+  return t.phase === 'stage' && t.worst.max - t.worst.min > 1e-9 * Math.abs(t.nominal) ? 'as written' : '';
 }
 
 function fit(text: string, width: number): string {
   const chars = [...text];
   return chars.length > width ? `${chars.slice(0, width - 1).join('')}…` : text + ' '.repeat(width - chars.length);
+}
+
+/** Lines of text are kept to this many columns. */
+const tableWidth = 100;
+
+/** Word-wrap `text` to `width` columns, with a first-line and a hanging indent. */
+export function wrap(text: string, width: number, first: string, rest: string): string[] {
+  const lines: string[] = [];
+  let line = first;
+  let fresh = true;
+  for (const word of text.split(/\s+/)) {
+    if (!fresh && [...line].length + 1 + [...word].length > width) {
+      lines.push(line);
+      line = rest + word;
+    } else line = fresh ? line + word : `${line} ${word}`;
+    fresh = false;
+  }
+  lines.push(line);
+  return lines;
 }
 
 export interface TableHeader {
@@ -64,7 +83,8 @@ export function targetsTable(set: TargetSet, header: TableHeader): string {
   const line = (cells: readonly string[]): string => cells.map((cell, c) => fit(cell, widths[c] ?? 10)).join('  ').trimEnd();
   const out: string[] = [];
   out.push(`${header.title} (plan ${set.plan}, ${header.file})`);
-  out.push(`${header.trials} Monte Carlo trials, seed ${header.seed}, ${header.distribution} parts (tolerance = 3σ, truncated); statistical band 0.135–99.865 %`);
+  const spread = header.distribution === 'normal' ? 'normal parts (tolerance = 3σ, truncated)' : 'uniform parts';
+  out.push(...wrap(`${header.trials} Monte Carlo trials, seed ${header.seed}, ${spread}; statistical band 0.135–99.865 %`, tableWidth, '', ''));
   out.push('');
   out.push(line(heads));
   out.push(line(widths.map((w) => '─'.repeat(w))));
@@ -78,10 +98,11 @@ export function targetsTable(set: TargetSet, header: TableHeader): string {
   if (set.warnings.length === 0) out.push('No design warnings.');
   else {
     out.push(`Design warnings (${set.warnings.length}):`);
-    for (const w of set.warnings) out.push(`  ${w.stage}: ${w.message}`);
+    for (const w of set.warnings) out.push(...wrap(`${w.stage}: ${w.message}`, tableWidth - 2, '  ', '    '));
   }
   out.push('');
-  out.push('Caution: check the rails to ground with the power off first; apply first power through a current-limited');
-  out.push('supply set near the idle limit; mind hot parts and charged capacitors. Local codes and licensed practice come first.');
+  const caution =
+    'Caution: check the rails to ground with the power off first; apply first power through a current-limited supply set near the idle limit; mind hot parts and charged capacitors. Local codes and licensed practice come first.';
+  out.push(...wrap(caution, tableWidth, '', ''));
   return `${out.join('\n')}\n`;
 }
