@@ -1,6 +1,6 @@
 import { Box, Text } from 'ink';
 import { describeFilter } from '../../review/filter.js';
-import { fig, index2, pct } from '../../review/format.js';
+import { fig, pct } from '../../review/format.js';
 import { Header } from '../components/header.js';
 import { HelpBox } from '../components/help-box.js';
 import { KeyBar } from '../components/key-bar.js';
@@ -38,7 +38,7 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
       <>
         <BatchTable rows={state.rows} selected={state.selected} height={tableRows} width={width} />
         <Text wrap="truncate-end">
-          {`${c.check}: mean ${fig(c.mean, c.unit)} · sd ${fig(c.sd, c.unit, 3)} · ${fig(c.min, c.unit)} … ${fig(c.max, c.unit)} · band ${c.band ? `${fig(c.band.min, c.unit)} … ${fig(c.band.max, c.unit)}` : '—'} · Cp ${index2(c.cp)} Cpk ${index2(c.cpk)}`}
+          {`${c.check}: mean ${fig(c.mean, c.unit)} · sd ${fig(c.sd, c.unit, 3)} · min ${fig(c.min, c.unit)} · max ${fig(c.max, c.unit)}`}
         </Text>
         <Text wrap="truncate-end">
           {batchPanels.map((p) => (

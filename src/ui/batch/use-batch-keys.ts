@@ -1,5 +1,5 @@
 import { useInput } from 'ink';
-import type { Dispatch } from 'react';
+import { useRef, type Dispatch } from 'react';
 import { editForm, moveField } from './filter-form-state.js';
 import { selectedCheck, type BatchAction, type BatchState } from './use-batch-state.js';
 
@@ -11,17 +11,26 @@ export function useBatchKeys(
   page: number,
   isActive: boolean,
 ) {
+  // The state as of the last key, not the last render: keys can arrive faster
+  // than React re-subscribes the handler, and each must act on the one before.
+  const latest = useRef(state);
+  latest.current = state;
+  const edit = (form: NonNullable<BatchState['form']>) => {
+    latest.current = { ...latest.current, form };
+    dispatch({ type: 'form-edit', form });
+  };
   useInput(
     (input, key) => {
+      const state = latest.current;
       const form = state.form;
       if (form) {
         if (key.escape) return dispatch({ type: 'back' });
         if (key.return) return dispatch({ type: 'form-apply' });
-        if (key.tab || key.downArrow) return dispatch({ type: 'form-edit', form: moveField(form, key.shift ? -1 : 1) });
-        if (key.upArrow) return dispatch({ type: 'form-edit', form: moveField(form, -1) });
-        if (key.backspace || key.delete) return dispatch({ type: 'form-edit', form: editForm(form, '', true) });
+        if (key.tab || key.downArrow) return edit(moveField(form, key.shift ? -1 : 1));
+        if (key.upArrow) return edit(moveField(form, -1));
+        if (key.backspace || key.delete) return edit(editForm(form, '', true));
         if (key.ctrl || key.meta || key.leftArrow || key.rightArrow) return;
-        return dispatch({ type: 'form-edit', form: editForm(form, input, false) });
+        return edit(editForm(form, input, false));
       }
       if (input === '?') return dispatch({ type: 'toggle-help' });
       if (key.escape) {

@@ -24,7 +24,7 @@ export function timelineLine(e: TimelineEntry, width: number): string {
     case 'run': {
       const r = e.run;
       const end = r.ended ? r.outcome : 'still open';
-      text = `▶ run ${r.id} by ${r.operator} · ${r.plan} rev ${r.planHash.slice(0, 8)} · ${end}`;
+      text = `▶ run ${end} · by ${r.operator} · ${r.plan} rev ${r.planHash.slice(0, 8)} · ${r.id}`;
       break;
     }
     case 'reading': {

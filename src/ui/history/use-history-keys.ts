@@ -1,11 +1,15 @@
 import { useInput } from 'ink';
-import type { Dispatch } from 'react';
+import { useRef, type Dispatch } from 'react';
 import type { HistoryAction, HistoryState } from './use-history-state.js';
 
 /** Keys of the history screen; Esc leaves only from the list with nothing open. */
 export function useHistoryKeys(state: HistoryState, dispatch: Dispatch<HistoryAction>, onExit: () => void, page: number, isActive: boolean) {
+  // The state as of the latest render, read when the key arrives (not when the handler was bound).
+  const latest = useRef(state);
+  latest.current = state;
   useInput(
     (input, key) => {
+      const state = latest.current;
       if (input === '?') return dispatch({ type: 'toggle-help' });
       if (key.escape) {
         if (state.isHelpOpen || state.view !== 'list') return dispatch({ type: 'back' });
