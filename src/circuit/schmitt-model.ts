@@ -31,6 +31,11 @@
  *    periods follow from the triangle travelling between the thresholds plus
  *    the extra travel during D at the other slope. Its peaks come where the
  *    square crosses 0 (threshold plus the overshoot area / RC).
+ * 6. The integrator's finite GBW (ωt = 2π·GBW) keeps its − input δ = s/(ωt·RC)
+ *    off ground: the ramp is slower (RC + 1/ωt) and the triangle output steps
+ *    by the change of δ at every edge, which the capacitor must make up.
+ * Without a pot, a clamp or an Rz, and with SR, GBW → ∞, this is the textbook
+ * f = R2/(4·R1·R·C) and duty = |sL|/(sH + |sL|).
  */
 export interface SchmittCircuit {
   readonly r1: number;
@@ -100,7 +105,7 @@ export function schmittTiming(p: SchmittCircuit): SchmittTiming {
   // square: the capacitor sees s·(1 − 1/(ωt·RC)), i.e. RC grows by 1/ωt.
   const wt = 2 * Math.PI * p.gbw;
   const rc = r * c + 1 / wt;
-  const gLoad = 1 / p.rz + 1 / r + 1 / (r1 + r2);
+  const gLoad = p.rz > 0 ? 1 / p.rz + 1 / r + 1 / (r1 + r2) : Number.POSITIVE_INFINITY;
   const k = p.rz > 0 ? 1 / p.rz / gLoad : 1;
   // R2's current also depends on the triangle: s = k·c + m·tri off the clamp.
   const m = p.rz > 0 ? 1 / (r1 + r2) / gLoad : 0;
@@ -123,8 +128,8 @@ export function schmittTiming(p: SchmittCircuit): SchmittTiming {
   const t1Down = vov / alphaDown;
   const t1Up = vov / alphaUp;
   const tau = 1 / (2 * Math.PI * p.gbw * k * (r1 / (r1 + r2)));
-  // Time from the threshold until the square node leaves its level.
-  // (the triangle sits at the threshold while the comparator travels to there).
+  // Comparator travel from the threshold until the square node leaves its level
+  // (the triangle taken at the threshold meanwhile).
   const dropDown = cHigh - (sH - m * thDown) / k;
   const dropUp = (sL - m * thUp) / k - cLow;
   const leaveDown = dropDown > 1e-9 ? clampedLeave(dropDown, slew, t1Down) : regenDelay(alphaDown, tau, vov);
@@ -141,8 +146,9 @@ export function schmittTiming(p: SchmittCircuit): SchmittTiming {
   highTime += (jump * rc) / sH;
   lowTime += (jump * rc) / -sL;
   const period = highTime + lowTime;
-  // The square crosses 0 V after its level's flat part and the ramp's share down to 0.
-  // At the peaks the square crosses 0, so the − input offset is half-way through its jump.
+  // The triangle peaks where the square crosses 0 V: threshold, plus the square's
+  // area from the threshold to there (flat part and half a ramp) over RC, plus
+  // half of the − input's jump (the offset passes 0 with the square).
   const triangleMax = thUp - sL / (wt * r * c) + (-sL * leaveUp + (sL * sL) / (2 * k * slew)) / rc;
   const triangleMin = thDown - sH / (wt * r * c) - (sH * leaveDown + (sH * sH) / (2 * k * slew)) / rc;
   return {

@@ -81,8 +81,11 @@ export function schmittWarnings(
     add(`the triangle would ramp at ${formatValue(slope, 'V/s', { digits: 3 })}, faster than the integrator can slew (${formatValue(p.slew, 'V/s', { digits: 3 })}): the ramp is set by the op-amp, not by Rt and Ct; raise Rt or Ct.`);
   }
   if (opts.hasClamp && t.clampReach <= 1) {
+    const highOpen = t.squareHigh < p.vc;
+    const lowOpen = t.squareLow > -p.vc;
+    const where = highOpen && lowOpen ? 'never conducts' : highOpen ? 'does not conduct on the positive side' : 'does not conduct on the negative side';
     add(
-      `the clamp never conducts: the comparator brings the square node only to about ${v(t.squareHigh)} / ${v(t.squareLow)}, inside the zeners' ±${v(p.vc)}; the square runs at the op-amp's swing. Check vz and Rz.`,
+      `the clamp ${where}: the comparator brings the square node only to about ${v(t.squareHigh)} / ${v(t.squareLow)}, against the zeners' ±${v(p.vc)}; the square follows the op-amp's swing there. Check vz, Rz and the rails.`,
     );
   }
   if (opts.hasClamp && !opts.hasRz) {

@@ -189,6 +189,13 @@ describe('warnings', () => {
     expect(out.values['square.vpp'] ?? 0).toBeGreaterThan(18);
   });
 
+  test('a clamp reached on one side only (rails +15/−6 V, clamp 5.4 V)', () => {
+    const out = run({ ...clamped, clamp: { vz: '4.7 V', vf: '0.7 V' } }, defaultOpamp, 15, -6);
+    expect(messages(out)).toMatch(/does not conduct on the negative side/);
+    expect(out.values['square.high']).toBeCloseTo(5.4, 9);
+    expect(out.values['square.low'] ?? 0).toBeGreaterThan(-4.5);
+  });
+
   test('clamp without Rz', () => {
     const out = run({ ...clamped, parts: { R1: '10k', R2: '22k', Rt: '8k2', Ct: '47n' } });
     expect(messages(out)).toMatch(/no series resistor Rz/);
