@@ -152,6 +152,34 @@ describe('waveforms', () => {
     expect(out.values['duty'] ?? 0).toBeLessThan(0.4);
   });
 
+  test('for any sound design: freq.min ≤ freq ≤ freq.max, waveforms match the values, a faster op-amp runs faster', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 0.2, max: 0.8, noNaN: true }),
+        fc.double({ min: 2e3, max: 100e3, noNaN: true }),
+        fc.double({ min: 10e-9, max: 1e-6, noNaN: true }),
+        fc.double({ min: 0, max: 1, noNaN: true }),
+        fc.boolean(),
+        (ratio, rt, ct, pot, isClamped) => {
+          const json = {
+            parts: { R1: `${22e3 * ratio} ohm`, R2: '22k', Rt: `${rt} ohm`, RV: '10k', Ct: `${ct} F`, ...(isClamped ? { Rz: '1k' } : {}) },
+            pot: { RV: pot },
+            ...(isClamped ? { clamp: { vz: '3.9 V', vf: '0.7 V' } } : {}),
+          };
+          const out = run(json);
+          const f = out.values['freq'] ?? Number.NaN;
+          expect(out.values['freq.min'] ?? Number.NaN).toBeLessThanOrEqual(f * (1 + 1e-12));
+          expect(out.values['freq.max'] ?? Number.NaN).toBeGreaterThanOrEqual(f * (1 - 1e-12));
+          expect(vpp(out.outputs['triangle'] ?? { frequency: 0, samples: new Float64Array() })).toBeCloseTo(out.values['triangle.vpp'] ?? 0, 6);
+          expect(vpp(out.outputs['square'] ?? { frequency: 0, samples: new Float64Array() })).toBeCloseTo(out.values['square.vpp'] ?? 0, 6);
+          const faster = run(json, { ...defaultOpamp, slew: 5e6, gbw: 10e6 }).values['freq'] ?? 0;
+          expect(faster).toBeGreaterThan(f);
+        },
+      ),
+      { numRuns: 60 },
+    );
+  });
+
   test('a triangle past the integrator swing is clipped at it', () => {
     const out = run({ parts: { R1: '10k', R2: '22k', Rt: '1k', Ct: '10n' } });
     expect(vmax(out.outputs['triangle'] ?? { frequency: 0, samples: new Float64Array() })).toBeCloseTo(10.5, 9);
