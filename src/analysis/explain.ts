@@ -47,6 +47,8 @@ export function explainReading(plan: Plan, check: string, reading: number): Expl
   // A hand-written (manual) target has no model: its band is not a part that could be wrong.
   const modelled = (id: string) => plan.stages.find((s) => s.id === id)?.kind !== 'manual';
   const stages = new Set((target.stage === 'rails' ? [] : [target.stage, ...upstreamOf(plan.stages, target.stage)]).filter(modelled));
+  // Stages after the check's own cannot change it: leave them out of the search.
+  const upTo = chain.stageIndex(target.stage) + 1;
   const out = new Float64Array(chain.checks.length);
   const x = Float64Array.from(chain.nominal);
   const list: Explanation[] = [];
@@ -56,7 +58,7 @@ export function explainReading(plan: Plan, check: string, reading: number): Expl
     if (v.stage === 'rails' && target.stage === 'rails' && target.rail !== v.role) return;
     const valueAt = (ratio: number): number => {
       x[i] = v.nominal * ratio;
-      chain.evaluate(x, out);
+      chain.evaluate(x, out, upTo);
       x[i] = v.nominal;
       return out[index] as number;
     };

@@ -31,7 +31,7 @@ export function solveForValue(f: (r: number) => number, target: number, lo: numb
     let l = ln[k] as number;
     let r = ln[k + 1] as number;
     let gl = g0;
-    for (let it = 0; it < 60 && r - l > 1e-12; it++) {
+    for (let it = 0; it < 60 && r - l > 1e-10; it++) {
       const m = (l + r) / 2;
       const gm = f(Math.exp(m)) - target;
       if (!Number.isFinite(gm)) break;

@@ -38,7 +38,13 @@ export interface Chain {
   readonly checks: readonly PlanCheck[];
   /** The nominal sample. */
   readonly nominal: Float64Array;
-  evaluate(x: Float64Array, out: Float64Array): void;
+  /**
+   * `stages` limits the evaluation to the first so many stages (chain order),
+   * for callers that only need an upstream check; later checks are left NaN.
+   */
+  evaluate(x: Float64Array, out: Float64Array, stages?: number): void;
+  /** Position of a stage in chain order, −1 for none (rails). */
+  stageIndex(id: string): number;
   detail(x: Float64Array): ChainDetail;
 }
 
@@ -92,7 +98,7 @@ export function buildChain(plan: Plan): Chain {
     return { stage, roles, varIndex, outIndex, inputStage: stage.input ? stageIds.indexOf(stage.input.stage) : -1 };
   });
 
-  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean): ChainDetail => {
+  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length): ChainDetail => {
     const rails: Record<string, number> = {};
     for (let i = 0; i < railIds.length; i++) {
       const v = x[i] ?? Number.NaN;
@@ -107,7 +113,7 @@ export function buildChain(plan: Plan): Chain {
     const outputs: Record<string, Waveform> = keep ? {} : noOutputs;
     const warnings: { stage: string; message: string }[] = keep ? [] : noList;
     const failures: { stage: string; message: string }[] = keep ? [] : noList;
-    for (let s = 0; s < stagePlans.length; s++) {
+    for (let s = 0; s < upTo; s++) {
       const sp = stagePlans[s] as StagePlan;
       const parts: Record<string, number> = {};
       for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
@@ -140,9 +146,12 @@ export function buildChain(plan: Plan): Chain {
     variables,
     checks,
     nominal,
-    evaluate(x, out) {
+    evaluate(x, out, stages) {
       out.fill(Number.NaN);
-      run(x, out, false);
+      run(x, out, false, stages === undefined ? stagePlans.length : Math.max(0, Math.min(stagePlans.length, stages)));
+    },
+    stageIndex(id) {
+      return stageIds.indexOf(id);
     },
     detail(x) {
       const d = run(x, undefined, true);

@@ -66,3 +66,23 @@ describe('solveForValue', () => {
     expect(solveForValue(() => 1, 2, 0.1, 10)).toBeUndefined();
   });
 });
+
+describe('explainReading on the real oscillator (demo exciter)', () => {
+  test('a frequency reading that a 100 nF timing capacitor gives names osc.Ct as a ×10 slip', async () => {
+    const { loadPlanFile } = await import('../../src/plan/load.js');
+    const { buildChain } = await import('../../src/plan/chain.js');
+    const exciter = await loadPlanFile('demo/exciter.plan.json');
+    const chain = buildChain(exciter);
+    const x = Float64Array.from(chain.nominal);
+    x[chain.variables.findIndex((v) => v.name === 'osc.Ct')] = 100e-9;
+    const reading = chain.detail(x).values['osc.freq'] ?? Number.NaN;
+    // Ideal f = R2/(4·R1·(Rt + 0.4·RV)·Ct) = 250 Hz with 100 nF (DESIGN §3); the slew time takes a little off.
+    expect(reading).toBeGreaterThan(240);
+    expect(reading).toBeLessThan(250);
+    const list = explainReading(exciter, 'osc.freq', reading);
+    expect(list[0]).toMatchObject({ part: 'osc.Ct', likely: 'x10-slip' });
+    expect(list[0]?.wouldBe).toBeCloseTo(100e-9, 12);
+    // Downstream stages never explain an upstream reading.
+    expect(list.some((e) => e.part.startsWith('filt.') || e.part.startsWith('drive.'))).toBe(false);
+  });
+});
