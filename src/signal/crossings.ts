@@ -5,16 +5,14 @@ export interface Crossings {
 }
 
 /**
- * Crossings of `level` with hysteresis `h`: a crossing counts once the signal
- * has gone from below `level − h` to above `level + h` (or back). Its time is
+ * Crossings of `level` with hysteresis: a crossing counts once the signal has
+ * gone from below `lo` to above `hi` (or back), `lo` ≤ `level` ≤ `hi`. Its time is
  * the last pass through `level` on the way, interpolated linearly between the
  * two samples around it, so noise on a slow edge does not make extra crossings.
  */
-export function crossings(x: Float64Array, level: number, h: number, from = 0, to = x.length): Crossings {
+export function crossings(x: Float64Array, level: number, lo: number, hi: number, from = 0, to = x.length): Crossings {
   const rising: number[] = [];
   const falling: number[] = [];
-  const lo = level - h;
-  const hi = level + h;
   let state = 0; // −1 below, +1 above, 0 not yet known
   let lastBelow = -1; // last index with x < level
   let lastAbove = -1; // last index with x ≥ level

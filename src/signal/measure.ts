@@ -51,8 +51,10 @@ export function measure(x: Float64Array, sampleRate: number): MeasureResult {
   });
   if (!(vpp > 0)) return aperiodic('the capture is flat (a DC level): no frequency, THD or shape; figures over the whole record');
 
-  // Mean-level crossings with 10 % hysteresis, so noise does not add crossings.
-  const found = crossings(x, whole.mean, 0.05 * vpp);
+  // Mean-level crossings with hysteresis of 30 % of the way to each extreme,
+  // so noise on a slow crossing does not add crossings, and a square of small
+  // duty (mean near one level) still arms.
+  const found = crossings(x, whole.mean, whole.mean - 0.3 * (whole.mean - min), whole.mean + 0.3 * (max - whole.mean));
   const rising = found.rising;
   if (rising.length < 3) {
     return aperiodic(`fewer than 2 whole periods (${Math.max(0, rising.length - 1)} found): frequency, THD and shape need at least 2; figures over the whole record`);
@@ -89,7 +91,7 @@ export function measure(x: Float64Array, sampleRate: number): MeasureResult {
   if (shape === 'square') {
     const { low, high } = stateLevels(x, from, to);
     const mid = (low + high) / 2;
-    const edges = crossings(x, mid, 0.1 * (high - low), from, to);
+    const edges = crossings(x, mid, mid - 0.2 * (high - low), mid + 0.2 * (high - low), from, to);
     duty = dutyCycle(edges.rising, edges.falling, period);
     const t = transitions(x, edges.rising, edges.falling, low, high, period);
     rise = Number.isFinite(t.rise) ? t.rise / sampleRate : null;
