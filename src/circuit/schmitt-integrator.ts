@@ -82,7 +82,7 @@ function evaluate(input: EvalInput<SchmittSettings>): EvalOutput {
 }
 
 const baseChecks: readonly CheckSpec[] = [
-  { key: 'freq', quantity: 'frequency', unit: 'Hz', output: 'square', instrument: 'counter', how: 'counter on the square test point, DC coupled, gate 1 s' },
+  { key: 'freq', quantity: 'frequency', unit: 'Hz', output: 'square', instrument: 'counter', how: 'counter on the square test point, DC coupled; period mode below about 1 kHz' },
   { key: 'square.vpp', quantity: 'square peak-to-peak', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, 10× probe, measure Vpp' },
   { key: 'square.high', quantity: 'square high level', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, measure the top level' },
   { key: 'square.low', quantity: 'square low level', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, measure the base level' },
@@ -100,7 +100,7 @@ const faultHints: Readonly<Record<string, readonly string[]>> = {
     'Ct a decade off (a 220n fitted for 22n reads ten times slow; 2n2 ten times fast)',
     'Rt a neighbouring value or a ×10 slip (3k3 for 33k)',
     'RV wiper not at the setting, or RV open (frequency stuck at one end)',
-    'R1 and R2 swapped (frequency moves by (R2/R1)², triangle by the same ratio)',
+    'R1 and R2 swapped (unclamped it stops; clamped, frequency down and triangle up by (R2/R1)²)',
     'slower op-amp fitted than planned (lower slew rate lengthens every edge)',
   ],
   'freq.min': ['RV open or its track broken at one end', 'RV of a different value fitted (10k for 100k)', 'Ct or Rt wrong: check freq first'],
