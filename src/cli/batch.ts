@@ -6,7 +6,7 @@ import { batchJson } from '../review/batch-json.js';
 import type { BatchFigures } from '../review/batch-types.js';
 import { describeFilter, parseDateBound, type BatchFilter } from '../review/filter.js';
 import { cell, cpkWord, fig, index2, pct, rcell } from '../review/format.js';
-import { planBandSource } from '../ui/batch/plan-bands.js';
+import { bandCacheWarnings, planBandSource, resolveCacheDir } from '../ui/batch/plan-bands.js';
 import { parseArgs, type ParsedArgs } from './args.js';
 import type { Command, CommandIo } from './command.js';
 import { UsageError } from './errors.js';
@@ -81,7 +81,20 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
     }
   });
   checkFilterAgainstIndex(index, filter, dir);
-  return { figures: await loadBatch(index, planBandSource(log), filter), filter, dir };
+  let said = -1;
+  const bands = planBandSource(log, {
+    cacheDir: resolveCacheDir(io.env),
+    onProgress: (hash, done, total) => {
+      // The first review of a new plan revision runs its Monte Carlo once (then cached).
+      const tenth = Math.floor((10 * done) / total);
+      if (tenth === said) return;
+      said = tenth;
+      io.stderr(`computing the targets of plan snapshot ${hash.slice(0, 12)} (once, then cached): ${tenth * 10} %\n`);
+    },
+  });
+  const figures = await loadBatch(index, bands, filter);
+  for (const w of bandCacheWarnings()) io.stderr(`probebook: warning: ${w}\n`);
+  return { figures, filter, dir };
 }
 
 /** The readable table: weakest check first. */

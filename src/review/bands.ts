@@ -30,7 +30,7 @@ export interface SnapshotProblem {
 /** What the target engine returns, as far as the review needs it. */
 export interface TargetList {
   readonly plan: string;
-  readonly targets: readonly Target[];
+  readonly targets: readonly Pick<Target, 'check' | 'unit' | 'nominal' | 'worst' | 'stat' | 'testPoint' | 'how'>[];
 }
 
 export interface BandSourceDeps {

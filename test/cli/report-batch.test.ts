@@ -4,12 +4,12 @@ import { reportBatchCommand } from '../../src/cli/report-batch.js';
 import { fillDemoLog } from '../review/demo-boards.js';
 import { makeLog, type TestLog } from '../review/real-log.js';
 import { UsageError } from '../../src/cli/errors.js';
-import { run } from './batch-run.js';
+import { cacheDir, run } from './batch-run.js';
 
 async function report(argv: string[]) {
   let stdout = '';
   let stderr = '';
-  const status = await reportBatchCommand(argv, { stdout: (x) => (stdout += x), stderr: (x) => (stderr += x), env: {}, cwd: process.cwd() });
+  const status = await reportBatchCommand(argv, { stdout: (x) => (stdout += x), stderr: (x) => (stderr += x), env: { PROBEBOOK_CACHE: cacheDir }, cwd: process.cwd() });
   return { status, stdout, stderr };
 }
 

@@ -1,3 +1,6 @@
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { render } from 'ink-testing-library';
 import { beforeAll, describe, expect, test } from 'vitest';
 import { BatchScreen } from '../../src/ui/batch/batch.js';
@@ -7,6 +10,8 @@ import { keys } from './keys.js';
 
 let t: TestLog;
 beforeAll(async () => {
+  // The screens cache targets in the user's cache folder; give this test its own.
+  process.env.PROBEBOOK_CACHE = mkdtempSync(join(tmpdir(), 'probebook-cache-'));
   t = await makeLog();
   await fillDemoLog(t);
 });

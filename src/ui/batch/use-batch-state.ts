@@ -118,7 +118,10 @@ export function batchReducer(state: BatchState, action: BatchAction): BatchState
 /** Load the index once, then rescan the in-memory index whenever the filter changes. */
 export function useBatchState(log: BenchLog) {
   const [state, dispatch] = useReducer(batchReducer, initialBatchState);
-  const bands = useMemo(() => planBandSource(log), [log]);
+  const bands = useMemo(
+    () => planBandSource(log, { onProgress: (_hash, done, total) => dispatch({ type: 'progress', done, total, what: 'computing targets of a plan revision (once, then cached)' }) }),
+    [log],
+  );
   const index = useRef<LogIndex | null>(null);
   const [loaded, markLoaded] = useReducer((n: number) => n + 1, 0);
   useEffect(() => {
