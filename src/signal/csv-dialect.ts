@@ -61,7 +61,11 @@ export function detectDialect(text: string, complete: boolean, name: string): Cs
     }
     // A header with as many names as the rows have numbers settles a tie
     // between `;` with decimal commas and `,` splitting every number in two.
-    if (findHeader(lines, start, c.delimiter, columns)) score += 1e6;
+    // (Only a header free of the other separators counts: `Time (s),V` is not
+    // one name under `;`.)
+    const header = findHeader(lines, start, c.delimiter, columns);
+    const others = [',', ';', '\t'].filter((d) => d !== c.delimiter);
+    if (header && !others.some((d) => header.join(c.delimiter).includes(d))) score += 1e6;
     if (!best || score > best.score || (score === best.score && columns > best.columns)) best = { score, columns, start, c };
   }
   if (!best) {

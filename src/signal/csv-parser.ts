@@ -137,9 +137,8 @@ export class CsvParser {
     for (let c = 0; c < n; c++) {
       const value = scanNumber(buf, pos, stop, this.decimal);
       const after = scan.end;
-      if (Number.isNaN(value) || (after < stop && buf[after] !== this.delimiter) || (after >= stop && c < n - 1)) {
-        this.rowError(buf, start, stop, c);
-      }
+      if (Number.isNaN(value) || (after < stop && buf[after] !== this.delimiter)) this.rowError(buf, start, stop, c);
+      if (after >= stop && c < n - 1) this.rowError(buf, start, stop, c, 'short');
       if (c === this.timeColumn) this.time(value);
       else (columns[c] as GrowableF64).push(value);
       pos = after + 1;
@@ -163,13 +162,15 @@ export class CsvParser {
     this.tLast = t;
   }
 
-  private rowError(buf: Uint8Array, start: number, stop: number, column: number): never {
+  private rowError(buf: Uint8Array, start: number, stop: number, column: number, short?: 'short'): never {
     const text = new TextDecoder().decode(buf.subarray(start, Math.min(stop, start + 60)));
     const d = this.dialect;
     const sep = d?.delimiter === '\t' ? 'tabs' : `"${d?.delimiter ?? ','}"`;
-    const what = column >= (d?.columns ?? 0)
-      ? `more than ${d?.columns} fields`
-      : `field ${column + 1} is not a number`;
+    const what = short
+      ? `only ${column + 1} of ${d?.columns} fields`
+      : column >= (d?.columns ?? 0)
+        ? `more than ${d?.columns} fields`
+        : `field ${column + 1} is not a number`;
     throw new CaptureError(
       `${this.options.name ?? 'capture'}, line ${this.line}: ${what} in ${JSON.stringify(text)}; expected ${d?.columns} numbers separated by ${sep} with "${d?.decimal}" as the decimal marker`,
     );
@@ -188,7 +189,7 @@ export class CsvParser {
       if (this.maxStep > this.minStep * 1.1 && (this.maxStep - this.minStep) * scale > 0.01 * dt) {
         warnings.push(`time steps vary from ${(this.minStep * scale).toPrecision(3)} s to ${(this.maxStep * scale).toPrecision(3)} s; figures assume the mean step`);
       }
-    } else dt = d.preambleDt;
+    } else if (dt === undefined) dt = d.preambleDt;
     if (dt === undefined || !(dt > 0) || !Number.isFinite(dt)) throw new CaptureError(`${name}: no usable sample interval; give it with --dt SECONDS`);
     const channels = [];
     for (let c = 0; c < d.columns; c++) {
