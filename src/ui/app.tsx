@@ -77,7 +77,7 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
   let screen;
   switch (route.screen) {
     case 'bench':
-      screen = <BenchScreen {...common} catalog={catalog} go={go} onTypingChange={setTyping} {...(lastSerial ? { initialSerial: lastSerial } : {})} />;
+      screen = <BenchScreen {...common} catalog={catalog} go={go} onTypingChange={setTyping} onSelect={setLastSerial} {...(lastSerial ? { initialSerial: lastSerial } : {})} />;
       break;
     case 'bring-up':
       screen = (

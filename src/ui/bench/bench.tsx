@@ -22,11 +22,13 @@ export interface BenchProps extends ScreenProps {
   readonly initialSerial?: string;
   /** Tell the app a text field has the keys, so `q` is a letter, not quit. */
   readonly onTypingChange?: (isTyping: boolean) => void;
+  /** Tell the app which board is selected, so coming back selects it again. */
+  readonly onSelect?: (serial: string) => void;
 }
 
 /** The bench screen: every board in the log, and the way into a run. */
-export function BenchScreen({ log, catalog, go, width, height, isActive = true, initialSerial, onTypingChange }: BenchProps) {
-  const state = useBenchState(log, catalog, go, initialSerial);
+export function BenchScreen({ log, catalog, go, width, height, isActive = true, initialSerial, onTypingChange, onSelect }: BenchProps) {
+  const state = useBenchState(log, catalog, go, initialSerial, onSelect);
   const { mode, boards, selected, message } = state;
   const dialogRows = mode.kind === 'new-serial' ? 6 : mode.kind === 'choose-plan' ? mode.choices.length + 3 : mode.kind === 'confirm-run' ? 4 : 0;
   const listRows = Math.max(1, height - 5 - dialogRows);

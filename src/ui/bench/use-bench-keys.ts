@@ -1,5 +1,5 @@
 import { useInput } from 'ink';
-import { moveSelection } from '../components/scroll-window.js';
+import { splitKeys } from '../components/key-chunks.js';
 import type { BenchState } from './use-bench-state.js';
 
 /**
@@ -10,7 +10,13 @@ export function useBenchKeys(state: BenchState, pageSize: number, isActive: bool
   const { mode } = state;
   const typing = mode.kind === 'new-serial' || mode.kind === 'filter' || mode.kind === 'busy';
   useInput(
-    (input, key) => {
+    (chunk, key) => {
+      for (const input of splitKeys(chunk, key)) handle(input, key);
+    },
+    { isActive: isActive && !typing },
+  );
+
+  function handle(input: string, key: Parameters<Parameters<typeof useInput>[0]>[1]) {
       if (mode.kind === 'help') {
         if (input === '?' || key.escape || key.return) state.setMode({ kind: 'list' });
         return;
@@ -28,13 +34,13 @@ export function useBenchKeys(state: BenchState, pageSize: number, isActive: bool
         return;
       }
       const count = state.boards.length;
-      const move = (delta: number) => state.setSelected(moveSelection(state.selected, delta, count));
+      const move = state.moveBy;
       if (key.upArrow || input === 'k') move(-1);
       else if (key.downArrow || input === 'j') move(1);
       else if (key.pageUp) move(-pageSize);
       else if (key.pageDown || input === ' ') move(pageSize);
-      else if (key.home || input === 'g') state.setSelected(0);
-      else if (key.end || input === 'G') state.setSelected(Math.max(0, count - 1));
+      else if (key.home || input === 'g') state.moveBy(-count);
+      else if (key.end || input === 'G') state.moveBy(count);
       else if (key.return) state.openSelected();
       else if (input === 'n') {
         state.setMessage(null);
@@ -48,7 +54,5 @@ export function useBenchKeys(state: BenchState, pageSize: number, isActive: bool
         if (state.filter) state.setFilter('');
         state.setMessage(null);
       }
-    },
-    { isActive: isActive && !typing },
-  );
+  }
 }

@@ -2,6 +2,7 @@ import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import type { BenchLog, BoardSummary, LogIndex } from '../../log/types.js';
 import { validateSerial } from '../../log/serial.js';
 import type { Plan } from '../../plan/types.js';
+import { moveSelection } from '../components/scroll-window.js';
 import { filterBoards, orderBoards } from './board-order.js';
 import type { PlanCatalog, PlanChoice } from './plan-catalog.js';
 
@@ -29,7 +30,7 @@ export interface Message {
 }
 
 /** The bench screen's state: the boards from the index, the selection, the dialogs. */
-export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTargets, initialSerial?: string) {
+export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTargets, initialSerial?: string, onSelect?: (serial: string) => void) {
   const [index, setIndex] = useState<LogIndex | null>(null);
   const [loadError, setLoadError] = useState<string | null>(null);
   const [selected, setSelected] = useState(0);
@@ -39,23 +40,32 @@ export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTarg
   const mounted = useRef(true);
   useEffect(() => () => void (mounted.current = false), []);
 
+  // The board to select on arrival is read once: the selection itself updates it later.
+  const arrival = useRef(initialSerial);
   useEffect(() => {
     log.readIndex().then(
       (ix) => {
         if (!mounted.current) return;
         setIndex(ix);
-        if (initialSerial) {
-          const at = orderBoards(Object.values(ix.boards)).findIndex((b) => b.serial === initialSerial);
+        const serial = arrival.current;
+        if (serial) {
+          const at = orderBoards(Object.values(ix.boards)).findIndex((b) => b.serial === serial);
           if (at >= 0) setSelected(at);
         }
       },
       (error: unknown) => mounted.current && setLoadError(error instanceof Error ? error.message : String(error)),
     );
-  }, [log, initialSerial]);
+  }, [log]);
 
   const all = useMemo(() => (index ? orderBoards(Object.values(index.boards)) : []), [index]);
   const boards = useMemo(() => filterBoards(all, filter), [all, filter]);
   const current: BoardSummary | undefined = boards[Math.min(selected, boards.length - 1)];
+  const selectedSerial = current?.serial;
+  const selectRef = useRef(onSelect);
+  selectRef.current = onSelect;
+  useEffect(() => {
+    if (selectedSerial) selectRef.current?.(selectedSerial);
+  }, [selectedSerial]);
 
   const fail = (error: unknown) => {
     if (!mounted.current) return;
@@ -170,6 +180,8 @@ export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTarg
     mode,
     message,
     setSelected,
+    /** Move the selection; functional, so several keys in one chunk all count. */
+    moveBy: (delta: number) => setSelected((s) => moveSelection(Math.min(s, boards.length - 1), delta, boards.length)),
     setFilter: (text: string) => {
       setFilter(text);
       setSelected(0);

@@ -1,10 +1,10 @@
-import { useInput } from 'ink';
+import { type Key, useInput } from 'ink';
+import { splitKeys } from '../components/key-chunks.js';
 import type { PlanScreenState } from './use-plan-screen-state.js';
 
 /** Keys of the plan screen: move, page, Tab between the table and the warnings, ? help, Esc back. */
 export function usePlanScreenKeys(state: PlanScreenState, pageSize: number, onExit: () => void, isActive: boolean) {
-  useInput(
-    (input, key) => {
+  const handle = (input: string, key: Key) => {
       if (state.isHelpOpen) {
         if (input === '?' || key.escape || key.return) state.closeHelp();
         return;
@@ -18,6 +18,10 @@ export function usePlanScreenKeys(state: PlanScreenState, pageSize: number, onEx
       else if (key.tab) state.switchPanel();
       else if (input === '?') state.toggleHelp();
       else if (key.escape) onExit();
+  };
+  useInput(
+    (chunk, key) => {
+      for (const input of splitKeys(chunk, key)) handle(input, key);
     },
     { isActive },
   );
