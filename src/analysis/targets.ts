@@ -44,6 +44,21 @@ export function computeTargets(plan: Plan, options: TargetOptions = {}): TargetS
   const trials = options.trials ?? defaultTrials;
   const seed = options.seed ?? defaultSeed;
   if (!Number.isSafeInteger(trials) || trials < 1) throw new RangeError(`trials must be a whole number of at least 1, got ${trials}`);
+  // The result is a pure function of the plan and the options: screens that ask again get the same object.
+  const key = `${trials}|${seed}|${options.distribution ?? 'normal'}`;
+  const cached = memo.get(plan)?.get(key);
+  if (cached) return cached;
+  const set = compute(plan, trials, seed, options);
+  const byOptions = memo.get(plan) ?? new Map<string, TargetSet>();
+  byOptions.set(key, set);
+  memo.set(plan, byOptions);
+  return set;
+}
+
+/** Results by plan object (dropped with the plan) and by options. */
+const memo = new WeakMap<Plan, Map<string, TargetSet>>();
+
+function compute(plan: Plan, trials: number, seed: number, options: TargetOptions): TargetSet {
   const chain = buildChain(plan);
   const nominalDetail = chain.detail(chain.nominal);
   const nominalOut = new Float64Array(chain.checks.length);

@@ -57,7 +57,7 @@ export function loadPlanText(text: string, file: string, kinds: Readonly<Record<
 
   const rails = readRails(raw, file);
   const opampBase = readOpamp(raw.opamp, defaultOpamp, file, 'opamp');
-  const stages = resolveStages(raw.stages, kinds, opampBase, file);
+  const stages = resolveStages(raw.stages, kinds, opampBase, file, rails.map((r) => r.id));
 
   const uncertainty: Partial<Record<Unit, UncertaintySpec>> = {};
   for (const [key, spec] of Object.entries(raw.uncertainty ?? {})) {
@@ -131,10 +131,21 @@ function valueAt(json: unknown, path: readonly PropertyKey[]): unknown {
 
 const topKeys = Object.keys(planSchema.shape).filter((k) => k !== '$schema');
 
+/** Keys of the nested strict objects, by path (list indexes as [0]), for "unknown key" messages. */
+const nestedKeys: Readonly<Record<string, readonly string[]>> = {
+  'rails[0]': ['id', 'nominal', 'tol', 'testPoint'],
+  idleCurrent: ['max'],
+  opamp: ['gbw', 'slew', 'headroom', 'maxSupply', 'aol'],
+  'stages[0].opamp': ['gbw', 'slew', 'headroom', 'maxSupply', 'aol'],
+  uncertainty: ['V', 'A', 'Hz', 'ohm', 's', 'F', 'V/V', '1'],
+};
+
 function describeIssue(issue: Issue, json: unknown): string {
   if (issue.code === 'unrecognized_keys') {
     const keys = (issue.keys ?? []).map((k) => JSON.stringify(k)).join(', ');
-    const allowed = issue.path.length === 0 ? `; a plan has ${topKeys.join(', ')}` : '';
+    const where = jsonPath(issue.path.map((k) => (typeof k === 'number' ? 0 : k)));
+    const known = issue.path.length === 0 ? topKeys : nestedKeys[where];
+    const allowed = known ? `; ${issue.path.length === 0 ? 'a plan has' : 'the keys here are'} ${known.join(', ')}` : '';
     return `unknown key ${keys} (a typo?)${allowed}`;
   }
   if (issue.code === 'invalid_type' && issue.path.length > 0 && valueAt(json, issue.path) === undefined) {

@@ -28,6 +28,7 @@ export function resolveStages(
   kinds: Readonly<Record<string, StageKind<unknown>>>,
   planOpamp: OpampModel,
   file: string,
+  railIds: readonly string[] = [],
 ): PlanStage[] {
   const seen = new Map<string, number>();
   raws.forEach((raw, i) => {
@@ -42,6 +43,10 @@ export function resolveStages(
     const module = kinds[raw.kind];
     if (!module) {
       throw new PlanError(file, `${path}.kind`, `unknown stage kind ${JSON.stringify(raw.kind)}; the known kinds are ${quoteList(Object.keys(kinds).sort())}`);
+    }
+    // `from` names a rail (a divider's source, DESIGN §3); the kind cannot see the rails, so check it here.
+    if (typeof raw.from === 'string' && railIds.length > 0 && !railIds.includes(raw.from)) {
+      throw new PlanError(file, `${path}.from`, `${JSON.stringify(raw.from)} is not a rail of this plan; the rails are ${quoteList(railIds)}`);
     }
     const parsed = module.parse({ json: raw as Readonly<Record<string, unknown>>, path }, file);
     const parts: Record<string, PartValue> = {};

@@ -93,8 +93,11 @@ describe('engine properties', () => {
   const plan = loadPlanText(JSON.stringify(fakePlan()), 'fake.plan.json', fakeKinds);
 
   test('same seed → identical numbers; another seed → different ones', () => {
+    // A second load of the same text: a new plan object, so nothing is served from the memo.
+    const again = loadPlanText(JSON.stringify(fakePlan()), 'fake.plan.json', fakeKinds);
     const a = computeTargets(plan, { trials: 3000, seed: 5 });
-    const b = computeTargets(plan, { trials: 3000, seed: 5 });
+    const b = computeTargets(again, { trials: 3000, seed: 5 });
+    expect(b).not.toBe(a);
     const c = computeTargets(plan, { trials: 3000, seed: 6 });
     expect(JSON.stringify(targetsJson(a))).toBe(JSON.stringify(targetsJson(b)));
     const freq = (s: typeof a) => s.targets.find((t) => t.check === 'osc.freq')?.stat;
@@ -169,6 +172,12 @@ describe('engine properties', () => {
     expect(set.warnings).toContainEqual({ stage: 'amp', message: 'gain above 20' });
     expect(set.warnings.some((w) => w.stage === 'rails' && w.message.includes('idleCurrent.max'))).toBe(true);
     expect(set.targets.find((t) => t.check === 'rails.idle-current')?.worst.max).toBe(Infinity);
+  });
+
+  test('asking again with the same plan object and options returns the same result', () => {
+    const a = computeTargets(plan, { trials: 300, seed: 9 });
+    expect(computeTargets(plan, { trials: 300, seed: 9 })).toBe(a);
+    expect(computeTargets(plan, { trials: 300, seed: 9, distribution: 'uniform' })).not.toBe(a);
   });
 
   test('bad trial counts are refused', () => {

@@ -166,6 +166,18 @@ describe('loadPlanText: mistakes name the file, the JSON path and the remedy', (
     expect(e.message).toContain('use one of "out", "out.dc"');
   });
 
+  test('a divider fed from a rail the plan does not have lists the rails', () => {
+    const e = errorOf(withStage(0, { from: '+5V' }));
+    expect(e.path).toBe('stages[0].from');
+    expect(e.message).toContain('"+5V" is not a rail of this plan; the rails are "+12V", "-12V"');
+  });
+
+  test('an unknown key inside a nested object lists the keys there', () => {
+    const e = errorOf({ ...fakePlan(), uncertainty: { volts: '1%' } });
+    expect(e.message).toContain('uncertainty: unknown key "volts" (a typo?); the keys here are V, A, Hz, ohm');
+    expect(errorOf({ ...fakePlan(), rails: [{ id: '+12V', nominal: '12 V', tolerance: '1%' }] }).message).toContain('the keys here are id, nominal, tol, testPoint');
+  });
+
   test('a per-check uncertainty for a check that does not exist', () => {
     const e = errorOf({ ...fakePlan(), checkUncertainty: { 'osc.frq': '1%' } });
     expect(e.message).toContain('no check "osc.frq" in this plan');
