@@ -1,5 +1,5 @@
-import { type DiodeModel, defaultDiode, defaultDiodeName, diodeModels, diodeString, stringCurrent } from './diode.js';
-import { branchJunction, type ShaperBranch, type ShaperNet, solveNode } from './shaper-solver.js';
+import { type DiodeModel, defaultDiode, defaultDiodeName, diodeModels, diodeString } from './diode.js';
+import { type ShaperBranch, type ShaperNet, solveNode } from './shaper-solver.js';
 import { fastThd } from './spectrum.js';
 import { choiceAt, countAt, list, nested, ohmRange, onlyKeys, partAt, reader, type StageReader } from './stage-parse.js';
 import { PlanError } from '../plan/errors.js';
@@ -88,7 +88,8 @@ function evaluate(input: EvalInput<DiodeShaperSettings>): EvalOutput {
   // A memoryless node: a waveform that mirrors about its peak (a triangle) is solved
   // on one slope only and copied to the other, exactly.
   const m = mirrorOrder(vin);
-  solveNode(net, vin, m.order, out);
+  const peaks = new Float64Array(net.branches.length);
+  solveNode(net, vin, m.order, out, peaks);
   m.fill(out);
   let hi = -Infinity;
   let lo = Infinity;
@@ -102,29 +103,17 @@ function evaluate(input: EvalInput<DiodeShaperSettings>): EvalOutput {
     'out.thd': source.frequency > 0 ? fastThd(out) : Number.NaN,
     'out.peak': hi,
   };
-  return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings: warningsFor(net, vin, hi, lo) };
+  return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings: warningsFor(net, vin, out, peaks) };
 }
 
-function warningsFor(net: ShaperNet, vin: Float64Array, hi: number, lo: number): StageWarning[] {
+function warningsFor(net: ShaperNet, vin: Float64Array, out: Float64Array, peaks: Float64Array): StageWarning[] {
   const warnings: StageWarning[] = [];
-  let inHi = -Infinity;
-  let inLo = Infinity;
-  for (const v of vin) {
-    if (v > inHi) inHi = v;
-    if (v < inLo) inLo = v;
-  }
+  // The largest current Rs carries; a branch that never takes 1 % of it does not shape.
+  let rsPeak = 0;
+  for (let i = 0; i < vin.length; i++) rsPeak = Math.max(rsPeak, Math.abs((vin[i] as number) - (out[i] as number)) * net.gs);
   let peakCurrent = 0;
-  let conducting = false;
-  for (const br of net.branches) {
-    // The node's own extreme on the side where this branch conducts (the peak of the input maps to it).
-    const v = br.sign > 0 ? hi : lo;
-    const source = br.sign > 0 ? inHi : inLo;
-    const current = stringCurrent(br.diodes, branchJunction(br.diodes, br.sign * (v - br.bias)));
-    peakCurrent = Math.max(peakCurrent, current);
-    // A branch carrying 1 % of the current in Rs at the peak takes part in the shaping.
-    if (current > 0.01 * Math.abs(source - v) * net.gs) conducting = true;
-  }
-  if (!conducting) {
+  for (const current of peaks) peakCurrent = Math.max(peakCurrent, current);
+  if (!(peakCurrent > 0.01 * rsPeak)) {
     warnings.push({ message: 'the drive never reaches a breakpoint: no branch conducts and the output is a scaled copy of the input; check the drive level and the bias voltages' });
   }
   if (peakCurrent > diodeCurrentWarn) {

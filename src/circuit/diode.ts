@@ -17,7 +17,7 @@ const charge = 1.602176634e-19;
 /** The SPICE nominal temperature, 27 °C, in kelvin. */
 export const nominalTemperature = 300.15;
 
-/** Thermal voltage kT/q, V (≈ 25.85 mV at 27 °C). */
+/** Thermal voltage kT/q, V (≈ 25.865 mV at 27 °C, 300.15 K). */
 export function thermalVoltage(kelvin = nominalTemperature): number {
   return (boltzmann * kelvin) / charge;
 }

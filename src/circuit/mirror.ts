@@ -33,17 +33,26 @@ export function mirrorOrder(samples: Float64Array): MirrorPlan {
     if (Math.abs(a - b) > sameLevel * span) mirrored = false;
   }
   if (!mirrored) {
+    if (last && !last.mirrored && last.n === n && last.p === p) return last.plan;
     const order = new Int32Array(n);
     for (let j = 0; j < n; j++) order[j] = (p + j) % n;
-    return { order, fill: () => undefined };
+    const plan = { order, fill: () => undefined };
+    last = { n, p, mirrored: false, plan };
+    return plan;
   }
+  if (last && last.mirrored && last.n === n && last.p === p) return last.plan;
   // From the sample opposite the peak up to the peak: one slope.
   const order = new Int32Array(half + 1);
   for (let j = 0; j <= half; j++) order[j] = (p - half + j + n) % n;
-  return {
+  const plan: MirrorPlan = {
     order,
     fill(out) {
       for (let j = 1; j < n - half; j++) out[(p + j) % n] = out[(p - j + n) % n] ?? 0;
     },
   };
+  last = { n, p, mirrored: true, plan };
+  return plan;
 }
+
+/** The last plan made: in a Monte Carlo every trial's triangle has its peak at the same sample. */
+let last: { readonly n: number; readonly p: number; readonly mirrored: boolean; readonly plan: MirrorPlan } | undefined;

@@ -1,0 +1,58 @@
+// Diode shaper speed: one evaluation (Newton node solve on half the samples of a
+// mirrored triangle, then an FFT for THD) of the demo exciter's shaper, against
+// the parts it is made of and the direct-DFT THD of waveform.ts. The tolerance
+// engine evaluates it once per Monte Carlo trial; goal well under 15 µs.
+// Figures and ratios from one run; nothing here fails a build.
+import { loadPlanFile } from '../src/plan/load.js';
+import { fastThd } from '../src/circuit/spectrum.js';
+import { fromPhase, thd } from '../src/circuit/waveform.js';
+import { defaultOpamp } from '../src/circuit/opamp.js';
+import type { EvalInput } from '../src/circuit/types.js';
+
+const plan = await loadPlanFile('demo/exciter.plan.json');
+const stage = plan.stages.find((s) => s.kind === 'diode-shaper');
+if (!stage) throw new Error('the demo plan has no diode-shaper stage');
+const parts = Object.fromEntries(Object.entries(stage.parts).map(([k, v]) => [k, v.nominal]));
+// The demo's own triangle level (about 3.2 V peak), 256 samples as the chain carries it.
+const triangle = fromPhase(2400, (p) => 3.2 * (p < 0.25 ? 4 * p : p < 0.75 ? 2 - 4 * p : 4 * p - 4));
+const skewed = Float64Array.from(triangle.samples);
+skewed[40] = (skewed[40] as number) + 1e-6; // breaks the mirror: every sample solved
+const input: EvalInput<unknown> = { parts, settings: stage.settings, opamp: defaultOpamp, supplies: { pos: 12, neg: -12 }, rails: {}, input: triangle };
+const unmirrored: EvalInput<unknown> = { ...input, input: { frequency: 2400, samples: skewed } };
+
+function perCall(n: number, f: () => void): number {
+  for (let i = 0; i < 2000; i++) f();
+  const t0 = performance.now();
+  for (let i = 0; i < n; i++) f();
+  return ((performance.now() - t0) * 1000) / n;
+}
+
+let sink = 0;
+const n = 20_000;
+const shaper = perCall(n, () => {
+  sink += stage.module.evaluate(input).values['out.vpp'] ?? 0;
+});
+const full = perCall(n, () => {
+  sink += stage.module.evaluate(unmirrored).values['out.vpp'] ?? 0;
+});
+const out = stage.module.evaluate(input).outputs['out'];
+if (!out) throw new Error('no output');
+const viaFft = perCall(n, () => {
+  sink += fastThd(out.samples);
+});
+const direct = perCall(n / 10, () => {
+  sink += thd(out);
+});
+let exps = 0;
+const expRef = perCall(n, () => {
+  for (let i = 0; i < 512; i++) exps += Math.exp(i * 1e-3);
+});
+
+console.log(`branches ${(stage.settings as { branches: unknown[] }).branches.length}, samples ${triangle.samples.length}`);
+console.log(`shaper evaluate (mirrored triangle)   ${shaper.toFixed(2)} µs`);
+console.log(`shaper evaluate (every sample solved) ${full.toFixed(2)} µs   ratio ${(full / shaper).toFixed(2)}`);
+console.log(`THD by FFT (fft.js)                   ${viaFft.toFixed(2)} µs`);
+console.log(`THD by direct DFT (waveform.ts)       ${direct.toFixed(2)} µs   ratio to FFT ${(direct / viaFft).toFixed(1)}`);
+console.log(`512 × Math.exp (machine yardstick)    ${expRef.toFixed(2)} µs   shaper / yardstick ${(shaper / expRef).toFixed(2)}`);
+console.log(`10,000 shaper evaluations             ${(shaper * 10).toFixed(1)} ms`);
+if (!Number.isFinite(sink + exps)) console.log('(sink)');
