@@ -41,7 +41,7 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
 
   if (mode.kind === 'help') return <HelpBox title="bench" entries={benchHelp} notes={benchNotes} width={width} />;
   const plural = (n: number) => (n === 1 ? '1 board' : `${n} boards`);
-  const count = state.filter ? `${boards.length} of ${plural(state.total)}` : plural(state.total);
+  const count = state.isLoading ? 'reading the log…' : state.filter ? `${boards.length} of ${plural(state.total)}` : plural(state.total);
   return (
     <Box flexDirection="column" width={width} height={height}>
       <Header screen="bench" detail={count} note={log.dir} width={width} isNoteTail />

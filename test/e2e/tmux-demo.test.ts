@@ -1,0 +1,109 @@
+import { spawnSync } from 'node:child_process';
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { afterAll, beforeAll, describe, expect, test } from 'vitest';
+
+// The real command in a real terminal: tmux runs `npm start` in an 80×24 window,
+// keys go in with send-keys, and what the technician would see comes back from
+// capture-pane. No fixed sleeps: every step polls the screen until it shows.
+
+const repo = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
+const session = `probebook-e2e-${process.pid}-${Date.now().toString(36)}`;
+let logDir = '';
+
+function tmux(...args: string[]): string {
+  const r = spawnSync('tmux', args, { encoding: 'utf8' });
+  if (r.status !== 0) throw new Error(`tmux ${args.join(' ')} failed: ${r.stderr}`);
+  return r.stdout;
+}
+const capture = (withEscapes = false) => tmux('capture-pane', '-p', ...(withEscapes ? ['-e'] : []), '-t', session);
+/** Send keys by tmux name (`Enter`, `Escape`, `j`). */
+const keys = (...names: string[]) => tmux('send-keys', '-t', session, ...names);
+/** Type text literally, one key at a time, as a person does. */
+async function typeText(text: string) {
+  for (const ch of text) {
+    tmux('send-keys', '-t', session, '-l', ch);
+    await new Promise((r) => setTimeout(r, 15));
+  }
+}
+
+async function screen(expected: string | RegExp, timeoutMs = 20_000): Promise<string> {
+  const until = Date.now() + timeoutMs;
+  let last = '';
+  for (;;) {
+    last = capture();
+    if (typeof expected === 'string' ? last.includes(expected) : expected.test(last)) return last;
+    if (Date.now() > until) throw new Error(`the terminal never showed ${String(expected)}; it shows:\n${last}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
+
+beforeAll(async () => {
+  logDir = await mkdtemp(join(tmpdir(), 'probebook-e2e-'));
+});
+
+afterAll(async () => {
+  spawnSync('tmux', ['kill-session', '-t', session]);
+  await rm(logDir, { recursive: true, force: true });
+});
+
+describe('npm start in a real terminal', () => {
+  test('a reading typed at the bring-up screen is shown with its verdict and is in the log file', async () => {
+    const demoLog = join(logDir, 'demo-log');
+    // NO_COLOR set: the screen must still say everything with marks and words.
+    const command = `cd '${repo}' && PROBEBOOK_DEMO_LOG='${demoLog}' PROBEBOOK_OPERATOR=e2e NO_COLOR=1 npm start; echo "probebook exited $?"; sleep 60`;
+    tmux('new-session', '-d', '-s', session, '-x', '80', '-y', '24', command);
+
+    // The first start writes the invented demo log (and builds the bundle if needed).
+    let frame = await screen(/probebook · bench · \d+ boards[\s\S]*EXB-0101/, 150_000);
+    expect(frame).toMatch(/EXB-0106\s+exciter-demo.*✓ passed/);
+    expect(frame).toMatch(/EXB-0109\s+exciter-demo.*▶ in progress/);
+    expect(frame).toMatch(/EXB-0107\s+exciter-demo.*↻ reworked/);
+
+    keys('n');
+    await screen('New board');
+    await typeText('E2E/1');
+    await screen('path separator');
+    keys('BSpace', 'BSpace');
+    await screen(/serial: E2E\s/);
+    await typeText('-0001');
+    await screen('serial: E2E-0001');
+    keys('Enter');
+    frame = await screen('Plan for E2E-0001');
+    expect(frame).toContain('exciter-demo');
+    expect(frame).toContain('line-driver-demo');
+    keys('Enter');
+    await screen('Cautions before first power');
+    keys('Enter');
+    await screen('rails.+12V.to-ground');
+    await typeText('18.2k');
+    keys('Enter');
+    frame = await screen('saved');
+    expect(frame).toMatch(/✓ PASS/);
+    expect(frame).toContain('18.2 kΩ');
+
+    const board = JSON.parse(await readFile(join(demoLog, 'boards', 'E2E-0001.json'), 'utf8')) as {
+      readings: { check: string; raw: string; value: number; verdict: string; operator: string }[];
+    };
+    expect(board.readings).toHaveLength(1);
+    expect(board.readings[0]).toMatchObject({ check: 'rails.+12V.to-ground', raw: '18.2k', value: 18_200, verdict: 'pass', operator: 'e2e' });
+
+    // No ANSI colour anywhere (SGR 30–37, 90–97, 38;…), as NO_COLOR asks.
+    expect(capture(true)).not.toMatch(/\u001B\[(?:[\d;]*;)?(?:3[0-8]|9[0-7])(?:;[\d;]*)?m/);
+
+    // A bigger window mid-run: the layout follows; back to 80×24.
+    keys('Escape');
+    await screen(/E2E-0001\s+exciter-demo.*▶ in progress/);
+    tmux('resize-window', '-t', session, '-x', '120', '-y', '30');
+    frame = await screen('readings');
+    expect(frame.split('\n').some((line) => line.length > 80)).toBe(true);
+    tmux('resize-window', '-t', session, '-x', '80', '-y', '24');
+    await screen(/^(?![\s\S]*readings)[\s\S]*E2E-0001/);
+
+    keys('q');
+    frame = await screen('probebook exited 0');
+    expect(frame).not.toContain('Error');
+  }, 240_000);
+});
