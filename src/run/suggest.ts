@@ -19,11 +19,16 @@ export function suggestNext(state: RunState): Suggestion | null {
   const last = state.last && !state.stale.has(state.last.check) ? { check: state.last.check, verdict: state.last.verdict } : undefined;
   const proposed = nextCheck(state.targets, done, last);
   const gated = { ...state, isCautionsPending: false, isPowerOff: false };
-  if (proposed && lockReason(gated, proposed.check) === null) return proposed;
+  if (proposed && lockReason(gated, proposed.check) === null) return state.stale.has(proposed.check) ? { check: proposed.check, why: againWhy(state) } : proposed;
   const open = state.targets.find((t) => !done.has(t.check) && lockReason(gated, t.check) === null);
   if (open) {
-    const wasStale = state.stale.has(open.check);
-    return { check: open.check, why: wasStale ? 'measure again: its reading was made before the latest rework or power-off' : 'next open check in safe order' };
+    return { check: open.check, why: state.stale.has(open.check) ? againWhy(state) : 'next open check in safe order' };
   }
   return proposed;
+}
+
+/** Why a check that already had a reading is suggested again. */
+function againWhy(state: RunState): string {
+  const rework = state.rework.at(-1);
+  return rework ? `measure again: the reading came before the rework of ${rework.part}` : 'measure again: the reading came before the power-off';
 }

@@ -134,6 +134,7 @@ describe('rework', () => {
     const w = runReducer(s, { type: 'note-rework', rework: rework('osc.Ct') });
     expect([...w.stale].sort()).toEqual(['gain.out.vpp', 'osc.freq', 'osc.square.vpp', 'shaper.out.vpp']);
     expect(w.suggestion?.check).toBe('osc.freq');
+    expect(w.suggestion?.why).toMatch(/before the rework of osc\.Ct/);
     expect(w.selected).toBe('osc.freq');
     expect(w.rework).toHaveLength(1);
     // Re-measuring walks the stale checks in plan order.

@@ -10,7 +10,7 @@ import { KeyBar } from '../components/key-bar.js';
 import type { BringUpProps } from '../screen-props.js';
 import { toneProps } from '../theme.js';
 import { bringUpHelp, bringUpNotes } from './bring-up-help.js';
-import { CaptureSlot } from './capture-slot.js';
+import { CaptureSlot, shapeOf } from './capture-slot.js';
 import { CheckPanel } from './check-panel.js';
 import { expectedTrace, nominalOutputs } from './expected-trace.js';
 import { formatReading } from './format-band.js';
@@ -39,7 +39,8 @@ export function BringUpScreen(props: BringUpProps) {
   const result = last && lastTarget ? judge(plan, lastTarget, last.value) : null;
   const checkRows = 4 + (scope ? 1 : 0) + (target && lockReason(state, target.check) ? 1 : 0);
   const wanted = result ? 2 + Math.min(3, b.explanation.explanations.length) + Math.min(2, b.explanation.hints.length) + (result.warnings.length > 0 ? 1 : 0) : 0;
-  const layout = bringUpLayout(width, height, checkRows, wanted);
+  const labelWidth = Math.max(...state.targets.map((t) => t.check.length - t.stage.length - 1), 8);
+  const layout = bringUpLayout(width, height, checkRows, wanted, labelWidth);
   const done = state.targets.length - openChecks(state).length;
   const overlay = keys.focus === 'rework' || keys.focus === 'end' || keys.focus === 'capture';
   const chart = useMemo(
@@ -60,15 +61,23 @@ export function BringUpScreen(props: BringUpProps) {
     return (
       <Box flexDirection="row" height={layout.bodyRows}>
         {layout.listWidth > 0 ? <StageList state={state} cursor={keys.cursor} isFocused={keys.focus === 'list'} width={layout.listWidth} height={layout.bodyRows} /> : null}
-        <Box flexDirection="column" width={layout.panelWidth} marginLeft={layout.listWidth > 0 ? 1 : 0}>
-          {target ? <CheckPanel plan={plan} target={target} scope={scope} lock={lockReason(state, target.check)} width={layout.panelWidth} /> : <Text>no check selected</Text>}
-          {keys.focus === 'rework' ? <ReworkForm {...keys.rework} parts={knownParts(plan)} width={layout.panelWidth} /> : null}
-          {keys.focus === 'end' ? <EndPanel options={endOptions(state)} cursor={keys.endCursor} width={layout.panelWidth} isAllMeasured={openChecks(state).length === 0} /> : null}
-          {keys.focus === 'capture' && target ? <CaptureSlot target={target} onDone={(c) => { keys.closeCapture(); void b.attachCapture(c); }} onCancel={keys.closeCapture} /> : null}
-          {chart ? <Text>{chart}</Text> : null}
-          {!overlay && last && lastTarget && result && layout.verdictRows > 0 ? <VerdictPanel reading={last} target={lastTarget} result={result} explanations={b.explanation.explanations} hints={b.explanation.hints} maxLines={layout.verdictRows} width={layout.panelWidth} /> : null}
-          <Text wrap="truncate-end" {...toneProps('accent')}>{nextLine}</Text>
-          <InputLine check={state.selected} text={keys.text} status={status} isFocused={keys.focus === 'input'} placeholder={next && next.check !== state.selected ? 'type a reading, or Enter for the next check' : 'type a reading'} width={layout.panelWidth} />
+        <Box flexDirection="column" width={layout.panelWidth} height={layout.bodyRows} overflow="hidden" marginLeft={layout.listWidth > 0 ? 1 : 0}>
+          {keys.focus === 'capture' && target ? (
+            <>
+              <Text bold wrap="truncate-end">capture for {target.check}{target.testPoint ? ` at ${target.testPoint}` : ''}</Text>
+              <CaptureSlot expect={trace ? shapeOf(trace.samples) : undefined} width={layout.panelWidth} onDone={(c) => { keys.closeCapture(); void b.attachCapture(c); }} onCancel={keys.closeCapture} />
+            </>
+          ) : (
+            <>
+              {target ? <CheckPanel plan={plan} target={target} scope={scope} lock={lockReason(state, target.check)} width={layout.panelWidth} /> : <Text>no check selected</Text>}
+              {keys.focus === 'rework' ? <ReworkForm {...keys.rework} parts={knownParts(plan)} width={layout.panelWidth} /> : null}
+              {keys.focus === 'end' ? <EndPanel options={endOptions(state)} cursor={keys.endCursor} width={layout.panelWidth} isAllMeasured={openChecks(state).length === 0} /> : null}
+              {chart ? <Text>{chart}</Text> : null}
+              {!overlay && last && lastTarget && result && layout.verdictRows > 0 ? <VerdictPanel reading={last} target={lastTarget} result={result} explanations={b.explanation.explanations} hints={b.explanation.hints} maxLines={layout.verdictRows} width={layout.panelWidth} /> : null}
+              <Text wrap="truncate-end" {...toneProps('accent')}>{nextLine}</Text>
+              <InputLine check={state.selected} text={keys.text} status={status} isFocused={keys.focus === 'input'} placeholder={next && next.check !== state.selected ? 'type a reading, or Enter for the next check' : 'type a reading'} width={layout.panelWidth} />
+            </>
+          )}
         </Box>
       </Box>
     );

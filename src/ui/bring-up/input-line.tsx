@@ -41,6 +41,12 @@ function StatusLine({ status }: { readonly status: Status }) {
           ✗ not recorded: {status.message}
         </Text>
       );
+    case 'note':
+      return (
+        <Text wrap="truncate-end" {...toneProps('good')}>
+          ✓ {status.message}
+        </Text>
+      );
     case 'error':
       return (
         <Text wrap="truncate-end" {...toneProps('bad')}>

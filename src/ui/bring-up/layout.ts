@@ -19,8 +19,9 @@ export const minTraceRows = 5;
  * next-check line and the input (two rows) always; the verdict panel when there
  * is a reading (up to `verdictWanted` rows); the trace gets what is left.
  */
-export function bringUpLayout(width: number, height: number, checkRows: number, verdictWanted: number): BringUpLayout {
-  const listWidth = width >= 110 ? 36 : width >= 64 ? Math.max(20, Math.floor(width * 0.3)) : 0;
+export function bringUpLayout(width: number, height: number, checkRows: number, verdictWanted: number, labelWidth = 24): BringUpLayout {
+  // Mark, pointer and a space before each label; never more than a third of the width.
+  const listWidth = width >= 64 ? Math.min(labelWidth + 4, Math.floor(width / 3)) : 0;
   const panelWidth = Math.max(20, width - listWidth - (listWidth > 0 ? 1 : 0));
   const bodyRows = Math.max(4, height - 2);
   const fixed = checkRows + 1 + 2;

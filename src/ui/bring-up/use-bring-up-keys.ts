@@ -125,8 +125,7 @@ export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, re
     }
   };
 
-  useInput(
-    (input, key) => {
+  const handle = (input: string, key: Key) => {
       const state = b.stateRef.current;
       const focus = focusRef.current;
       // While a resumed run is read back, keys would act on an empty run.
@@ -155,6 +154,20 @@ export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, re
       else if (focus === 'end') onEnd(key, input);
       else if (focus === 'list') onList(input, key);
       else onInput(input, key);
+  };
+
+  useInput(
+    (input, key) => {
+      // A pasted chunk (or keys sent in one write, as tmux does) may carry Enter inside it.
+      if (input.length > 1 && /[\r\n]/.test(input) && !key.ctrl && !key.meta) {
+        const pieces = input.split(/\r\n|\r|\n/);
+        pieces.forEach((piece, i) => {
+          if (piece) handle(piece, { ...key, return: false });
+          if (i < pieces.length - 1) handle('', { ...key, return: true });
+        });
+        return;
+      }
+      handle(input, key);
     },
     { isActive: isActive && focus !== 'capture' },
   );

@@ -19,6 +19,7 @@ export type Status =
   | { readonly kind: 'idle' }
   | { readonly kind: 'saving'; readonly text: string }
   | { readonly kind: 'saved'; readonly id: string }
+  | { readonly kind: 'note'; readonly message: string }
   | { readonly kind: 'rejected'; readonly message: string }
   | { readonly kind: 'error'; readonly message: string };
 
@@ -148,7 +149,7 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
         const run = await ensureRun();
         const saved = await log.addRework(serial, { run, part, from: fields.from.trim(), to: fields.to.trim(), note: fields.note.trim(), operator });
         dispatch({ type: 'note-rework', rework: toRunRework(saved) });
-        setStatus({ kind: 'idle' });
+        setStatus({ kind: 'note', message: `rework of ${part} saved; its stage and those after it are measured again (↻)` });
         return null;
       } catch (error) {
         return `not saved: ${message(error)}`;
@@ -163,7 +164,7 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
         const run = await ensureRun();
         await log.endRun(serial, run, outcome satisfies RunOutcome);
         dispatch({ type: 'end-run', outcome });
-        setStatus({ kind: 'idle' });
+        setStatus({ kind: 'note', message: `run ended: ${outcome}, saved in the log` });
       } catch (error) {
         setStatus({ kind: 'error', message: `run not ended: ${message(error)}` });
       }
@@ -189,13 +190,13 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
           setStatus({ kind: 'rejected', message: `the capture has no figure for ${t.check}; it is saved as ${file}` });
           return;
         }
-        let lastId = '';
+        const said: string[] = [];
         for (const p of planned) {
           const saved = await log.appendReading(serial, { run, check: p.check, value: p.value, unit: p.unit, raw: p.raw, operator, verdict: p.verdict, planHash: plan.hash, capture: file });
           dispatch({ type: 'record-reading', reading: toRunReading(saved) });
-          lastId = saved.id;
+          said.push(`${p.check} ${p.verdict}`);
         }
-        setStatus({ kind: 'saved', id: lastId });
+        setStatus({ kind: 'note', message: `saved from ${capture.name}: ${said.join(', ')}` });
       } catch (error) {
         setStatus({ kind: 'error', message: `capture not saved: ${message(error)}` });
       }
@@ -244,7 +245,7 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
     acknowledgeCautions: useCallback(() => dispatch({ type: 'acknowledge-cautions' }), [dispatch]),
     acknowledgePowerOff: useCallback(() => dispatch({ type: 'power-off-acknowledged' }), [dispatch]),
     captured: useCallback((output: string) => captures.get(output) ?? null, [captures]),
-    clearStatus: useCallback(() => setStatus((s) => (s.kind === 'rejected' ? { kind: 'idle' } : s)), []),
+    clearStatus: useCallback(() => setStatus((s) => (s.kind === 'rejected' || s.kind === 'note' ? { kind: 'idle' } : s)), []),
   };
 }
 

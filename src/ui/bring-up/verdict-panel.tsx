@@ -28,9 +28,9 @@ export interface VerdictPanelProps {
 }
 
 const likelyWord: Readonly<Record<string, string>> = {
-  'x10-slip': '×10 slip: wrong part fitted?',
-  'neighbour-value': 'neighbouring standard value: wrong part fitted?',
-  'standard-value': 'a standard value',
+  'x10-slip': '×10 slip',
+  'neighbour-value': 'neighbouring value',
+  'standard-value': 'standard value',
   drift: 'drift or damage',
 };
 
@@ -39,7 +39,7 @@ function position(result: VerdictResult): string {
   if (Number.isNaN(p)) return '';
   if (p < 0) return Number.isFinite(p) ? `below the band by ${Math.round(-p * 100)} % of its width` : 'below the band';
   if (p > 1) return Number.isFinite(p) ? `above the band by ${Math.round((p - 1) * 100)} % of its width` : 'above the band';
-  return `at ${Math.round(p * 100)} % of the band`;
+  return `${Math.round(p * 100)} % into the band`;
 }
 
 /** The verdict on the latest reading: word and mark, deviation, and on a fail or marginal the likely causes. */
@@ -58,7 +58,7 @@ export function VerdictPanel({ reading, target, result, explanations, hints, max
         {reading.check} = {formatReading(reading.value, reading.unit)} <Text {...toneProps('dim')}>(±{formatValue(result.uncertainty, target.unit, { digits: 3 })}) saved ✓</Text>
       </Text>
       <Text wrap="truncate-end">
-        deviation {formatPercent(Math.abs(result.deviation) < 1e-9 ? 0 : result.deviation)} of nominal · {position(result)} {gauge ?? ''}
+        {gauge ? `${gauge} ` : ''}deviation {formatPercent(Math.abs(result.deviation) < 1e-9 ? 0 : result.deviation)} · {position(result)}
       </Text>
       {result.warnings.slice(0, 1).map((w) => (
         <Text key={w} wrap="truncate-end" {...toneProps('warn')}>
@@ -67,7 +67,7 @@ export function VerdictPanel({ reading, target, result, explanations, hints, max
       ))}
       {shownExplanations.map((e) => (
         <Text key={e.part} wrap="truncate-end">
-          • {e.part} would be {formatValue(e.wouldBe, e.unit, { digits: 3 })} (fitted {formatValue(e.fitted, e.unit, { digits: 3 })}) — {likelyWord[e.likely] ?? e.likely}
+          • {e.part} {likelyWord[e.likely] ?? e.likely}: would be {formatValue(e.wouldBe, e.unit, { digits: 3 })} (fitted {formatValue(e.fitted, e.unit, { digits: 3 })})
         </Text>
       ))}
       {shownHints.map((h) => (
