@@ -38,7 +38,7 @@ function StatusLine({ status }: { readonly status: Status }) {
     case 'rejected':
       return (
         <Text wrap="truncate-end" {...toneProps('warn')}>
-          ✗ not recorded: {status.message}
+          ✗ {status.message}
         </Text>
       );
     case 'note':

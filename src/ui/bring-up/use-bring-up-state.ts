@@ -94,12 +94,12 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
       if (!t || busy.current) return false;
       const locked = lockReason(s, t.check);
       if (locked) {
-        setStatus({ kind: 'rejected', message: `${t.check}: ${locked}` });
+        setStatus({ kind: 'rejected', message: `not recorded: ${t.check}: ${locked}` });
         return false;
       }
       const assessed = assessReading(plan, t, text);
       if (!assessed.ok) {
-        setStatus({ kind: 'rejected', message: assessed.message });
+        setStatus({ kind: 'rejected', message: `not recorded: ${assessed.message}` });
         return false;
       }
       busy.current = true;
@@ -125,7 +125,7 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
   /** Select a check; returns why it cannot be selected, or null. */
   const select = useCallback((check: string): string | null => {
     const reason = lockReason(stateRef.current, check);
-    if (reason) setStatus({ kind: 'rejected', message: `${check}: ${reason}` });
+    if (reason) setStatus({ kind: 'rejected', message: `${check} is locked: ${reason}` });
     else {
       dispatch({ type: 'select-check', check });
       setStatus({ kind: 'idle' });

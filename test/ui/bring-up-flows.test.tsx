@@ -1,0 +1,116 @@
+import { writeFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import { afterEach, beforeAll, describe, expect, test } from 'vitest';
+import type { TargetSet } from '../../src/analysis/types.js';
+import type { Plan } from '../../src/plan/types.js';
+import { loadFixture, renderBringUp, tempLog } from './bring-up-harness.js';
+import { keys } from './keys.js';
+
+let fixture: { plan: Plan; targets: TargetSet };
+const cleanups: (() => Promise<void>)[] = [];
+beforeAll(async () => {
+  fixture = await loadFixture();
+});
+afterEach(async () => {
+  for (const c of cleanups.splice(0)) await c();
+});
+
+async function setup(options: Parameters<typeof renderBringUp>[2] = {}) {
+  const tmp = await tempLog();
+  cleanups.push(tmp.cleanup);
+  return { tmp, open: async (o = options) => {
+    const s = await renderBringUp(fixture, tmp.log, o);
+    cleanups.push(async () => s.unmount());
+    return s;
+  } };
+}
+
+/** Every check of the fixture at its nominal value (the to-ground checks open), saved straight into the log. */
+async function fillRun(tmp: Awaited<ReturnType<typeof tempLog>>, serial: string, skipLast = 0): Promise<string> {
+  const run = await tmp.log.startRun(serial, { plan: fixture.plan.plan, planHash: fixture.plan.hash, planText: fixture.plan.text, operator: 'tester' });
+  const all = fixture.targets.targets;
+  for (const t of all.slice(0, all.length - skipLast)) {
+    const value = t.phase === 'unpowered' ? Infinity : t.phase === 'first-power' ? t.worst.max / 2 : t.nominal;
+    await tmp.log.appendReading(serial, { run: run.id, check: t.check, value, unit: t.unit, raw: String(value), operator: 'tester', verdict: 'pass', planHash: fixture.plan.hash });
+  }
+  return run.id;
+}
+
+describe('bring-up screen: list, capture, end of run', () => {
+  test('Tab to the stage list; a locked check says why; j/k and Enter pick an open one', async () => {
+    const { open } = await setup();
+    const s = await open();
+    await s.until('Cautions before first power');
+    await s.press(keys.enter);
+    await s.until('rails.+9V.to-ground ›');
+    await s.press(keys.tab, 'j', 'j', 'j', keys.enter);
+    expect(await s.until('is locked')).toMatch(/rails\.\+9V\.dc is locked: unpowered checks first/);
+    await s.press('k', 'k', keys.enter);
+    expect(await s.until('rails.-9V.to-ground ›')).toContain('how: power off');
+  });
+
+  test('a capture becomes readings of the checks at its test point, linked to the saved file', async () => {
+    const { tmp, open } = await setup();
+    const serial = 'FX-CAP';
+    const run = await fillRun(tmp, serial, 9);
+    const s = await open({ serial, resumeRun: run });
+    await s.until('resumed run');
+    await s.press(keys.enter);
+    await s.until('osc.freq ›');
+    // An invented square at the fixture's nominal frequency: ±7.8 V, 1 MHz sampling, 4 periods.
+    const f = fixture.targets.targets.find((t) => t.check === 'osc.freq')?.nominal ?? 0;
+    const rows = ['time,ch1'];
+    const n = Math.round((4 / f) * 1e6);
+    for (let i = 0; i < n; i++) rows.push(`${(i * 1e-6).toExponential(6)},${(i * 1e-6 * f) % 1 < 0.5 ? 7.8 : -7.8}`);
+    const file = join(tmp.dir, 'square.csv');
+    await writeFile(file, `${rows.join('\n')}\n`);
+    await s.press('a');
+    await s.until('expecting a square');
+    // The attach box reads keys through handlers swapped in after each frame: give it a frame to settle.
+    await new Promise((r) => setTimeout(r, 100));
+    await s.type(file);
+    await s.until('square.csv');
+    await new Promise((r) => setTimeout(r, 100));
+    await s.press(keys.enter);
+    await s.until(/Enter\s+attach/, 15000);
+    await s.press(keys.enter);
+    const done = await s.until('saved from square.csv');
+    expect(done).toMatch(/osc\.freq pass/);
+    const board = await s.board();
+    const fromCapture = board?.readings.filter((r) => r.capture !== undefined) ?? [];
+    expect(fromCapture.map((r) => r.check).sort()).toEqual(['osc.duty', 'osc.freq', 'osc.square.vpp']);
+    expect(board?.captures).toHaveLength(1);
+    expect(fromCapture.every((r) => r.capture === board?.captures[0]?.file)).toBe(true);
+    // Frequency of a square with exactly these periods (1 MHz sampling), to 0.1 %.
+    expect(Math.abs((fromCapture.find((r) => r.check === 'osc.freq')?.value ?? 0) / f - 1)).toBeLessThan(1e-3);
+  });
+
+  test('once every check reads, the run can end as passed and the log says so', async () => {
+    const { tmp, open } = await setup();
+    const serial = 'FX-END';
+    const run = await fillRun(tmp, serial);
+    const s = await open({ serial, resumeRun: run });
+    await s.until('resumed run');
+    await s.press(keys.enter);
+    await s.until('e ends the run');
+    await s.press('e');
+    expect(await s.until('every check has a reading')).toMatch(/› passed/);
+    await s.press(keys.enter);
+    await s.until('run ended: passed');
+    expect((await s.board())?.runs[0]).toMatchObject({ id: run, outcome: 'passed' });
+  });
+
+  test('a run with open checks can only end failed or aborted', async () => {
+    const { open } = await setup();
+    const s = await open();
+    await s.until('Cautions before first power');
+    await s.press(keys.enter);
+    await s.read('OL');
+    await s.press('e');
+    const offer = await s.until('checks still open');
+    expect(offer).not.toMatch(/passed/);
+    await s.press('j', keys.enter);
+    await s.until('run ended: aborted');
+    expect((await s.board())?.runs[0]?.outcome).toBe('aborted');
+  });
+});
