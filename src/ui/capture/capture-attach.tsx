@@ -38,14 +38,15 @@ export interface CaptureAttachProps {
 
 /** Attach a scope capture (CSV or WAV) to the current check: path with Tab completion, progress, figures. */
 export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd = process.cwd(), width = 72 }: CaptureAttachProps) {
-  const { state, type, erase, complete, load, back } = useCaptureAttachState(cwd);
+  const { state, latest, type, erase, complete, load, back } = useCaptureAttachState(cwd);
   const { phase } = state;
   const attach = () => {
-    if (phase.kind !== 'done') return;
-    const { analyzed, path } = phase;
+    const current = latest.current.phase;
+    if (current.kind !== 'done') return;
+    const { analyzed, path } = current;
     onDone({ path, bytes: analyzed.bytes ?? new Uint8Array(0), measurements: analyzed.measurements, samples: analyzed.channel.samples, sampleRate: analyzed.capture.sampleRate });
   };
-  useCaptureAttachKeys(state, { type, erase, complete, load, back, attach, cancel: onCancel }, isActive);
+  useCaptureAttachKeys(latest, { type, erase, complete, load, back, attach, cancel: onCancel }, isActive);
 
   if (phase.kind === 'loading') {
     return (

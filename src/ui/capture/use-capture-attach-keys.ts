@@ -1,11 +1,12 @@
 import { type Key, useInput } from 'ink';
+import type { RefObject } from 'react';
 import type { AttachState } from './use-capture-attach-state.js';
 
 export interface AttachKeyActions {
   readonly type: (chars: string) => void;
   readonly erase: () => void;
   readonly complete: () => void;
-  readonly load: (text: string) => void;
+  readonly load: () => void;
   readonly back: () => void;
   readonly attach: () => void;
   readonly cancel: () => void;
@@ -16,10 +17,10 @@ export interface AttachKeyActions {
  * Esc cancels. Reading: Esc stops waiting. Figures: Enter attaches, Esc picks
  * another file.
  */
-export function useCaptureAttachKeys(state: AttachState, actions: AttachKeyActions, isActive: boolean): void {
+export function useCaptureAttachKeys(latest: RefObject<AttachState>, actions: AttachKeyActions, isActive: boolean): void {
   useInput(
     (input: string, key: Key) => {
-      const { phase } = state;
+      const { phase } = latest.current;
       if (phase.kind === 'loading') {
         if (key.escape) actions.back();
         return;
@@ -30,7 +31,7 @@ export function useCaptureAttachKeys(state: AttachState, actions: AttachKeyActio
         return;
       }
       if (key.escape) actions.cancel();
-      else if (key.return) actions.load(state.text);
+      else if (key.return) actions.load();
       else if (key.tab) actions.complete();
       else if (key.backspace || key.delete) actions.erase();
       else if (!key.ctrl && !key.meta && !key.upArrow && !key.downArrow && !key.leftArrow && !key.rightArrow && input.length > 0) {

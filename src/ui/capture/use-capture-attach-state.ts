@@ -22,6 +22,9 @@ export interface AttachState {
 /** The attach box's state and its moves; reading runs in the background. */
 export function useCaptureAttachState(cwd: string) {
   const [state, setState] = useState<AttachState>({ text: '', phase: { kind: 'path' }, candidates: [], message: null });
+  // The latest state for key handlers: keys can arrive before the next render.
+  const latest = useRef(state);
+  latest.current = state;
   // Each read gets a number; a read that was cancelled (or outlived the box) is ignored.
   const readId = useRef(0);
   useEffect(() => () => void (readId.current += 1), []);
@@ -41,8 +44,8 @@ export function useCaptureAttachState(cwd: string) {
   }, []);
 
   const load = useCallback(
-    (text: string) => {
-      const entry = parseEntry(text);
+    () => {
+      const entry = parseEntry(latest.current.text);
       if (!entry.ok) {
         setState((s) => ({ ...s, message: entry.message }));
         return;
@@ -69,5 +72,5 @@ export function useCaptureAttachState(cwd: string) {
     },
     [cwd],
   );
-  return { state, type, erase, complete, load, back };
+  return { state, latest, type, erase, complete, load, back };
 }

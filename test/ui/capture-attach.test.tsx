@@ -1,0 +1,144 @@
+import { mkdtempSync, rmSync, writeFileSync, mkdirSync, copyFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { render } from 'ink-testing-library';
+import { afterAll, describe, expect, test, vi } from 'vitest';
+import { type CaptureAttachResult, CaptureAttach } from '../../src/ui/capture/capture-attach.js';
+import { completePath } from '../../src/ui/capture/path-complete.js';
+import { progressBar } from '../../src/ui/capture/view.js';
+import { keys } from './keys.js';
+
+const demo = join(import.meta.dirname, '..', '..', 'demo', 'captures');
+const dir = mkdtempSync(join(tmpdir(), 'probebook-attach-'));
+mkdirSync(join(dir, 'scope'));
+copyFileSync(join(demo, 'driver-notch.tsv'), join(dir, 'scope', 'driver-notch.tsv'));
+copyFileSync(join(demo, 'osc-square-triangle.csv'), join(dir, 'scope', 'osc-square.csv'));
+writeFileSync(join(dir, 'scope', 'osc-short.csv'), 'Time (s),V\n0,1\n1e-6,2\n');
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+/** Wait until the frame contains `text` (the read runs in the background). */
+async function frameWith(lastFrame: () => string | undefined, text: string): Promise<string> {
+  for (let i = 0; i < 200; i++) {
+    const frame = lastFrame() ?? '';
+    if (frame.includes(text)) return frame;
+    await new Promise((r) => setTimeout(r, 10));
+  }
+  throw new Error(`no frame with ${JSON.stringify(text)}; last frame:\n${lastFrame()}`);
+}
+
+const tick = () => new Promise((r) => setTimeout(r, 20));
+
+describe('path completion', () => {
+  test('one match completes, a folder gets its slash, several complete to the common prefix', () => {
+    expect(completePath('sc', dir).text).toBe('scope/');
+    const several = completePath('scope/osc-', dir);
+    expect(several.text).toBe('scope/osc-s');
+    expect(several.candidates).toEqual(['osc-short.csv', 'osc-square.csv']);
+    expect(completePath('scope/osc-sq', dir).text).toBe('scope/osc-square.csv');
+    expect(completePath('nothing', dir).matches).toBe(0);
+  });
+
+  test('progress bar', () => {
+    expect(progressBar(0.456, 10)).toBe('[#####.....]  45 %');
+    expect(progressBar(2, 4)).toBe('[####] 100 %');
+  });
+});
+
+describe('CaptureAttach', () => {
+  test('Tab completes, Enter reads and shows the figures, Enter again hands them back', async () => {
+    const onDone = vi.fn<(r: CaptureAttachResult) => void>();
+    const onCancel = vi.fn();
+    const { stdin, lastFrame, unmount } = render(<CaptureAttach onDone={onDone} onCancel={onCancel} expect="sine" cwd={dir} width={70} />);
+    await tick();
+    expect(lastFrame()).toContain('Attach a capture (CSV or WAV), expecting a sine');
+    stdin.write('scope/dr');
+    await tick();
+    stdin.write(keys.tab);
+    await frameWith(lastFrame, 'file: scope/driver-notch.tsv');
+    stdin.write(keys.enter);
+    const frame = await frameWith(lastFrame, 'Enter attach these figures');
+    expect(frame).toContain('shape         sine, crossover notch');
+    expect(frame).toContain('⚠ expected a sine; the capture has a crossover notch');
+    expect(frame).toContain('─ captured');
+    stdin.write(keys.enter);
+    await tick();
+    expect(onDone).toHaveBeenCalledTimes(1);
+    const result = onDone.mock.calls[0]?.[0];
+    expect(result?.path).toBe(join(dir, 'scope', 'driver-notch.tsv'));
+    expect(result?.measurements.notch).toBe(true);
+    expect(result?.sampleRate).toBeCloseTo(200e3, 3);
+    expect(result?.samples.length).toBe(4000);
+    // The file's own bytes, for the log's copy by hash.
+    expect(result?.bytes.length).toBe(66404);
+    expect(onCancel).not.toHaveBeenCalled();
+    unmount();
+  });
+
+  test('several matches are listed; a bad file shows its reason and keeps the path for editing', async () => {
+    const { stdin, lastFrame, unmount } = render(<CaptureAttach onDone={() => {}} onCancel={() => {}} cwd={dir} />);
+    await tick();
+    stdin.write('scope/osc-');
+    await tick();
+    stdin.write(keys.tab);
+    const listed = await frameWith(lastFrame, 'osc-short.csv  osc-square.csv');
+    expect(listed).toContain('file: scope/osc-s');
+    stdin.write('h');
+    await tick();
+    stdin.write(keys.tab);
+    await frameWith(lastFrame, 'file: scope/osc-short.csv');
+    stdin.write(keys.enter);
+    const refused = await frameWith(lastFrame, 'only 2 samples');
+    expect(refused).toContain('file: scope/osc-short.csv');
+    unmount();
+  });
+
+  test('Esc on the figures goes back to the path; Esc on the path cancels', async () => {
+    const onCancel = vi.fn();
+    const onDone = vi.fn();
+    const { stdin, lastFrame, unmount } = render(<CaptureAttach onDone={onDone} onCancel={onCancel} cwd={dir} />);
+    await tick();
+    stdin.write('scope/osc-square.csv --channel 2');
+    await tick();
+    stdin.write(keys.enter);
+    const figures = await frameWith(lastFrame, 'channel TRIANGLE');
+    expect(figures).toContain('shape         triangle');
+    stdin.write(keys.escape);
+    await frameWith(lastFrame, 'Tab complete');
+    stdin.write(keys.escape);
+    await tick();
+    expect(onCancel).toHaveBeenCalledTimes(1);
+    expect(onDone).not.toHaveBeenCalled();
+    unmount();
+  });
+
+  test('a missing file and a bad setting are messages, not crashes', async () => {
+    const { stdin, lastFrame, unmount } = render(<CaptureAttach onDone={() => {}} onCancel={() => {}} cwd={dir} />);
+    await tick();
+    stdin.write('nope.csv');
+    await tick();
+    stdin.write(keys.enter);
+    await frameWith(lastFrame, 'no such file');
+    for (let i = 0; i < 8; i++) {
+      // One key at a time, as a terminal sends them.
+      stdin.write(keys.backspace);
+      await tick();
+    }
+    stdin.write('x.wav --scale -3');
+    await tick();
+    stdin.write(keys.enter);
+    await frameWith(lastFrame, '--scale -3: give a positive voltage');
+    unmount();
+  });
+
+  test('keys are ignored while inactive', async () => {
+    const onCancel = vi.fn();
+    const { stdin, lastFrame, unmount } = render(<CaptureAttach onDone={() => {}} onCancel={onCancel} cwd={dir} isActive={false} />);
+    await tick();
+    stdin.write('abc');
+    stdin.write(keys.escape);
+    await tick();
+    expect(lastFrame()).not.toContain('abc');
+    expect(onCancel).not.toHaveBeenCalled();
+    unmount();
+  });
+});
