@@ -67,6 +67,7 @@ export interface TableHeader {
   readonly trials: number;
   readonly seed: number;
   readonly distribution: string;
+  readonly note?: string;
 }
 
 /**
@@ -83,8 +84,10 @@ export function targetsTable(set: TargetSet, header: TableHeader): string {
   const line = (cells: readonly string[]): string => cells.map((cell, c) => fit(cell, widths[c] ?? 10)).join('  ').trimEnd();
   const out: string[] = [];
   out.push(`${header.title} (plan ${set.plan}, ${header.file})`);
-  const spread = header.distribution === 'normal' ? 'normal parts (tolerance = 3σ, truncated)' : 'uniform parts';
-  out.push(...wrap(`${header.trials} Monte Carlo trials, seed ${header.seed}, ${spread}; statistical band 0.135–99.865 %`, tableWidth, '', ''));
+  const spread = header.distribution === 'normal' ? 'parts normal (tol = 3σ, truncated)' : 'parts uniform';
+  if (header.note) out.push(...wrap(header.note, tableWidth, '', ''));
+  out.push(`Monte Carlo: ${header.trials} trials, seed ${header.seed}, ${spread}`);
+  out.push('Worst-case band: over every part tolerance; statistical band: 0.135–99.865 % of trials');
   out.push('');
   out.push(line(heads));
   out.push(line(widths.map((w) => '─'.repeat(w))));

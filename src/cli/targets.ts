@@ -10,7 +10,7 @@ import { targetsTable } from './targets-table.js';
 const usage = 'probebook targets PLAN [--json] [--trials N] [--seed S] [--spread normal|uniform] [--log DIR]';
 
 /** Trials above which progress is shown on stderr. */
-const progressFrom = 200_000;
+const progressFrom = 50_000;
 
 /**
  * `probebook targets PLAN` (DESIGN §7): the design targets of a plan with their
@@ -37,15 +37,25 @@ export const targetsCommand: Command = async (argv, io) => {
   const distribution: Distribution = spread;
 
   const plan = await loadPlanFile(file, { cwd: io.cwd });
+  let shown = 0;
   const set = computeTargets(plan, {
     trials,
     seed,
     distribution,
     ...(trials >= progressFrom
-      ? { onProgress: (done: number, total: number) => io.stderr(`probebook: ${Math.round((100 * done) / total)} % of ${total} trials\n`) }
+      ? {
+          onProgress: (done: number, total: number) => {
+            // Every tenth, so a long run shows it is alive without flooding the terminal.
+            const tenth = Math.floor((10 * done) / total);
+            if (tenth > shown) {
+              shown = tenth;
+              io.stderr(`probebook: ${tenth * 10} % of ${total} trials\n`);
+            }
+          },
+        }
       : {}),
   });
   if (args.options.json) io.stdout(`${JSON.stringify(targetsJson(set), null, 2)}\n`);
-  else io.stdout(targetsTable(set, { title: plan.title, file, trials, seed, distribution }));
+  else io.stdout(targetsTable(set, { title: plan.title, file, trials, seed, distribution, ...(plan.note === undefined ? {} : { note: plan.note }) }));
   return 0;
 };

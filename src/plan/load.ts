@@ -95,10 +95,11 @@ export function loadPlanText(text: string, file: string, kinds: Readonly<Record<
     checkUncertainty,
     stages,
   };
-  if (raw.idleCurrent === undefined) return base;
+  const withNote = raw.note === undefined ? base : { ...base, note: raw.note };
+  if (raw.idleCurrent === undefined) return withNote;
   const idle = readValue(raw.idleCurrent.max, 'A', file, 'idleCurrent.max', { allowTolerance: false }).value;
   if (!(idle > 0)) throw new PlanError(file, 'idleCurrent.max', 'must be a current above zero, e.g. "45 mA"');
-  return { ...base, idleCurrentMax: idle };
+  return { ...withNote, idleCurrentMax: idle };
 }
 
 function parseJson(text: string, file: string): unknown {

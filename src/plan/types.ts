@@ -42,6 +42,8 @@ export interface PlanStage {
 export interface Plan {
   readonly plan: string;
   readonly title: string;
+  /** The plan's free-text note (e.g. "invented values"), when it has one. */
+  readonly note?: string;
   /** The file it came from (as given), for messages. */
   readonly file: string;
   /** sha256 (hex) of the exact plan text, the key of its snapshot in the log. */

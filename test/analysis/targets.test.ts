@@ -180,6 +180,15 @@ describe('engine properties', () => {
     expect(computeTargets(plan, { trials: 300, seed: 9, distribution: 'uniform' })).not.toBe(a);
   });
 
+  test('progress is reported while sampling, ending at the trial count', () => {
+    const seen: number[] = [];
+    const fresh = loadPlanText(JSON.stringify(fakePlan()), 'fake.plan.json', fakeKinds);
+    computeTargets(fresh, { trials: 40_000, seed: 3, onProgress: (done, total) => { expect(total).toBe(40_000); seen.push(done); } });
+    expect(seen.length).toBeGreaterThanOrEqual(10);
+    expect(seen.at(-1)).toBe(40_000);
+    expect([...seen].sort((a, b) => a - b)).toEqual(seen);
+  });
+
   test('bad trial counts are refused', () => {
     expect(() => computeTargets(plan, { trials: 0 })).toThrow(RangeError);
   });
