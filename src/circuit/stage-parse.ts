@@ -90,7 +90,7 @@ export function partAt(r: StageReader, key: string, unit: Unit, required: boolea
     part = { nominal: raw, tol: 0, unit, text: String(raw) };
   } else if (typeof raw === 'string') {
     const parsed = parseValue(raw, { expected: unit });
-    if (!parsed.ok) throw new PlanError(r.file, path, `${parsed.message.replace(/; write .*$/, '')}; write e.g. ${example}`);
+    if (!parsed.ok) throw new PlanError(r.file, path, `${parsed.message.replace(/(; write |, e\.g\. ).*$/, '')}; write e.g. ${example}`);
     if (parsed.tol !== undefined && parsed.tol >= 1) {
       throw new PlanError(r.file, path, `${JSON.stringify(raw)}: a tolerance of 100 % or more is not a part; write e.g. ${example}`);
     }
