@@ -44,7 +44,11 @@ export function trendChart(values: readonly number[], options: TrendChartOptions
     height: Math.max(2, Math.floor(options.height ?? 6)),
     min,
     max,
-    format: (x: number) => (unit ? formatValue(x, unit, { digits: 4 }) : String(Number(x.toPrecision(4)))).padStart(labelWidth),
+    format: (raw: number) => {
+      // asciichart's label arithmetic leaves 1e-18 where 0 is meant; snap it.
+      const x = Math.abs(raw) < (max - min) * 1e-9 ? 0 : raw;
+      return (unit ? formatValue(x, unit, { digits: 4 }) : String(Number(x.toPrecision(4)))).padStart(labelWidth);
+    },
   });
   const legend = hasBand ? `oldest → newest, ${finite.length} points; flat lines: band edges` : `oldest → newest, ${finite.length} points`;
   return `${chart}\n${' '.repeat(labelWidth + 2)}${legend}`;
