@@ -28,7 +28,10 @@ await build({
   sourcemap: 'linked',
   legalComments: 'linked',
   plugins: [noDevtools],
-  define: { 'process.env.NODE_ENV': '"production"' },
+  // Ink's layout engine (yoga, Emscripten) asks `typeof fetch` before it decodes
+  // its embedded wasm; in Node 20 that touches the lazy global and loads undici
+  // (tens of ms at start-up) to fetch a data: URL. probebook never uses fetch.
+  define: { 'process.env.NODE_ENV': '"production"', fetch: 'undefined' },
   banner: {
     js: "#!/usr/bin/env node\nimport { createRequire as __probebookRequire } from 'node:module';\nconst require = __probebookRequire(import.meta.url);",
   },
