@@ -145,7 +145,9 @@ export function solveNode(net: ShaperNet, vin: Float64Array, order: ArrayLike<nu
         const dx = (sign[b]! * dv - res[b]!) * c[b]!;
         let xn = x[b]! + dx;
         if (dx > 2 * nvt[b]!) xn = Math.min(xn, junctionCeiling(net.branches[b]!.diodes, sign[b]! * (v - bias[b]!)));
-        const step = xn > x[b]! ? xn - x[b]! : x[b]! - xn;
+        // A junction step matters by the current it moves: weighted by 1 − c (0 for a
+        // branch that is off, 1 for one that conducts hard).
+        const step = (xn > x[b]! ? xn - x[b]! : x[b]! - xn) * (1 - c[b]!);
         if (step > worst) worst = step;
         x[b] = xn;
       }
