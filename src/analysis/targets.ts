@@ -73,7 +73,8 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
     ...(options.onProgress ? { onProgress: options.onProgress } : {}),
   });
 
-  const extra: DesignWarning[] = [];
+  // Checks without a value in some trials, by stage: one warning per stage, not per check.
+  const gaps = new Map<string, { most: number; checks: string[] }>();
   const targets: Target[] = chain.checks.map((c, i) => {
     const upstream = c.stage === 'rails' ? [] : upstreamOf(plan.stages, c.stage);
     const stage = plan.stages.find((s) => s.id === c.stage);
@@ -107,7 +108,10 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
     const hi = Math.max(worst.max[i] as number, sorted[sorted.length - 1] ?? Number.NaN, nominal);
     const missing = samples.missing[i] ?? 0;
     if (missing > 0) {
-      extra.push({ stage: c.stage, message: `${c.check}: ${missing} of ${trials} trials gave no value (the stage cannot work at some tolerance corners); the bands cover the rest` });
+      const entry = gaps.get(c.stage) ?? { most: 0, checks: [] };
+      entry.most = Math.max(entry.most, missing);
+      entry.checks.push(c.check);
+      gaps.set(c.stage, entry);
     }
     return {
       ...base,
@@ -119,6 +123,11 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
     };
   });
 
+  const extra: DesignWarning[] = [...gaps].map(([stage, g]) => {
+    const cause = stage === 'rails' ? undefined : upstreamOf(plan.stages, stage).find((u) => gaps.has(u));
+    const why = cause ? `its input from ${cause} stops at some tolerance corners` : 'the stage stops working at some tolerance corners';
+    return { stage, message: `in up to ${g.most} of ${trials} trials (${formatPercentOf(g.most, trials)}) ${g.checks.join(', ')} had no value: ${why}; the bands cover the trials that work` };
+  });
   const warnings = [...designWarnings(plan, nominalDetail), ...extra];
   for (const t of targets) {
     if (t.phase === 'stage' && !Number.isFinite(t.nominal)) {
@@ -126,6 +135,11 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
     }
   }
   return { plan: plan.plan, targets, warnings };
+}
+
+function formatPercentOf(part: number, whole: number): string {
+  const pct = (100 * part) / whole;
+  return `${pct < 1 ? pct.toPrecision(1) : Math.round(pct)} %`;
 }
 
 function nanIfNot(v: number): number {

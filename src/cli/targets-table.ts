@@ -17,7 +17,9 @@ export function formatBand(min: number, max: number, unit: Unit): string {
   const exponent = Math.max(-15, Math.min(12, Math.floor(Math.log10(big) / 3) * 3));
   const prefix = formatPrefixes.find(([p]) => p === exponent)?.[1] ?? '';
   const scale = 10 ** exponent;
-  return `${mantissa(min / scale)} … ${mantissa(max / scale)} ${prefix}${unit}`;
+  // An end that is zero but for rounding (a stage that stops at a corner) reads as 0.
+  const tidy = (v: number) => (Math.abs(v) < 1e-6 * big ? 0 : v);
+  return `${mantissa(tidy(min) / scale)} … ${mantissa(tidy(max) / scale)} ${prefix}${unit}`;
 }
 
 function mantissa(v: number): string {

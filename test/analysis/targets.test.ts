@@ -189,6 +189,21 @@ describe('engine properties', () => {
     expect([...seen].sort((a, b) => a - b)).toEqual(seen);
   });
 
+  test('trials where a stage stops give one warning per stage, naming the upstream cause downstream', async () => {
+    // R1 > R2 (33k against 22k) with a clamp: the demo oscillator still runs at nominal but stops at some corners.
+    const { readFileSync } = await import('node:fs');
+    const json = JSON.parse(readFileSync('demo/exciter.plan.json', 'utf8')) as { stages: { parts: Record<string, string> }[] };
+    const osc = json.stages[0];
+    if (osc) osc.parts.R1 = '33k 1%';
+    const set = computeTargets(loadPlanText(JSON.stringify(json), 'r1.plan.json'), { trials: 400 });
+    const gaps = set.warnings.filter((w) => w.message.includes('had no value'));
+    expect(gaps.map((w) => w.stage)).toEqual(['osc', 'shaper']);
+    expect(gaps[0]?.message).toContain('osc.freq');
+    expect(gaps[1]?.message).toContain('its input from osc stops');
+    const f = set.targets.find((t) => t.check === 'osc.freq');
+    expect(Number.isFinite(f?.stat.min)).toBe(true);
+  });
+
   test('bad trial counts are refused', () => {
     expect(() => computeTargets(plan, { trials: 0 })).toThrow(RangeError);
   });
