@@ -74,7 +74,7 @@ export function evaluateAmplifier(shape: AmplifierShape, input: EvalInput<unknow
     if (y < wantLo) wantLo = y;
   }
   for (let i = 0; i < n; i++) {
-    const d = Math.abs((filtered[(i + 1) % n] as number) - (filtered[i] as number));
+    const d = Math.abs((filtered[i + 1 < n ? i + 1 : 0] as number) - (filtered[i] as number));
     if (d > steepest) steepest = d;
   }
   const clipped = wantHi > high || wantLo < low;

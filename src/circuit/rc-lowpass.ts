@@ -16,7 +16,8 @@ function evaluate(input: EvalInput<RcLowpassSettings>): EvalOutput {
   const out = singlePole(source.samples, source.frequency, fc);
   let hi = -Infinity;
   let lo = Infinity;
-  for (const v of out) {
+  for (let i = 0; i < out.length; i++) {
+    const v = out[i] as number;
     if (v > hi) hi = v;
     if (v < lo) lo = v;
   }

@@ -30,12 +30,21 @@ export function singlePole(samples: Float64Array, frequency: number, fc: number)
     out.fill(mean / n);
     return out;
   }
+  const first = samples[0] as number;
   let e = 0;
-  for (let i = 0; i < n; i++) e = a * e - ((samples[(i + 1) % n] as number) - (samples[i] as number)) * b;
+  let x0 = first;
+  for (let i = 1; i <= n; i++) {
+    const x1 = i < n ? (samples[i] as number) : first;
+    e = a * e - (x1 - x0) * b;
+    x0 = x1;
+  }
   e /= 1 - aN;
+  x0 = first;
   for (let i = 0; i < n; i++) {
-    out[i] = (samples[i] as number) + e;
-    e = a * e - ((samples[(i + 1) % n] as number) - (samples[i] as number)) * b;
+    out[i] = x0 + e;
+    const x1 = i + 1 < n ? (samples[i + 1] as number) : first;
+    e = a * e - (x1 - x0) * b;
+    x0 = x1;
   }
   return out;
 }
