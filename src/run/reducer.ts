@@ -51,8 +51,10 @@ export function runReducer(state: RunState, action: RunAction): RunState {
     }
     case 'resume': {
       if (state.readings.length > 0 || state.rework.length > 0 || state.ended) return state;
-      if (action.readings.length === 0 && (action.rework ?? []).length === 0) return state;
-      return replay(state, action.readings, action.rework ?? []);
+      const ended = action.ended ?? null;
+      if (action.readings.length === 0 && (action.rework ?? []).length === 0 && !ended) return state;
+      const replayed = replay(state, action.readings, action.rework ?? []);
+      return ended ? { ...replayed, ended, isCautionsPending: false, isPowerOff: false, suggestion: null } : replayed;
     }
     case 'end-run': {
       if (state.isPowerOff || state.isCautionsPending || !endOptions(state).includes(action.outcome)) return state;

@@ -78,5 +78,11 @@ export type RunAction =
   | { readonly type: 'record-reading'; readonly reading: RunReading }
   | { readonly type: 'power-off-acknowledged' }
   | { readonly type: 'note-rework'; readonly rework: RunRework }
-  | { readonly type: 'resume'; readonly readings: readonly RunReading[]; readonly rework?: readonly RunRework[] }
+  | {
+      readonly type: 'resume';
+      readonly readings: readonly RunReading[];
+      readonly rework?: readonly RunRework[];
+      /** The run had already ended with this outcome: show it, take nothing more. */
+      readonly ended?: EndOutcome | null;
+    }
   | { readonly type: 'end-run'; readonly outcome: EndOutcome };

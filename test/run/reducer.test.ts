@@ -187,6 +187,15 @@ describe('resume', () => {
     expect(runReducer(f, { type: 'resume', readings: [] })).toBe(f);
   });
 
+  test('a run that had already ended comes back ended and takes nothing more', () => {
+    const readings = passingReadings().slice(0, 3);
+    const ended = runReducer(fresh(), { type: 'resume', readings, ended: 'failed' });
+    expect(ended.ended).toBe('failed');
+    expect(ended.isCautionsPending).toBe(false);
+    expect(ended.latest.size).toBe(3);
+    expect(runReducer(ended, record(reading('rails.+12V.dc', 12)))).toBe(ended);
+  });
+
   test('replays in time order whatever order the log gives', () => {
     const readings = passingReadings().slice(0, 4);
     const resumed = runReducer(fresh(), { type: 'resume', readings: [...readings].reverse() });

@@ -43,9 +43,11 @@ export function BringUpScreen(props: BringUpProps) {
   const layout = bringUpLayout(width, height, checkRows, wanted, labelWidth);
   const done = state.targets.length - openChecks(state).length;
   const overlay = keys.focus === 'rework' || keys.focus === 'end' || keys.focus === 'capture';
+  const { captured } = b;
+  // Drawn again only when the check, the size or a capture changes, not on every keystroke.
   const chart = useMemo(
-    () => (trace && layout.traceRows > 0 && !overlay ? traceChart(trace.samples, b.captured(trace.output), { width: layout.panelWidth, height: layout.traceRows, ...(trace.band ? { band: trace.band } : {}) }) : null),
-    [trace, layout.traceRows, layout.panelWidth, overlay, b],
+    () => (trace && layout.traceRows > 0 && !overlay ? traceChart(trace.samples, captured(trace.output), { width: layout.panelWidth, height: layout.traceRows, ...(trace.band ? { band: trace.band } : {}) }) : null),
+    [trace, layout.traceRows, layout.panelWidth, overlay, captured],
   );
   const powerReading = last ? formatReading(last.value, last.unit) : '';
   const next = state.suggestion;

@@ -39,7 +39,8 @@ export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, re
     if (i >= 0) setCursor(i);
   }, [state.selected, state.targets, setCursor]);
 
-  const isDirty = text.trim() !== '' || focus === 'rework';
+  // Forms count as half-typed too, so the app's `q` asks before quitting instead of losing them.
+  const isDirty = text.trim() !== '' || focus === 'rework' || focus === 'capture';
   useEffect(() => {
     dirty.current?.(isDirty);
   }, [isDirty]);

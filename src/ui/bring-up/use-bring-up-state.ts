@@ -64,7 +64,9 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
         if (!live) return;
         const readings = (board?.readings ?? []).filter((r) => r.run === resumeRun).map(toRunReading);
         const rework = (board?.rework ?? []).filter((w) => w.run === resumeRun).map(toRunRework);
-        dispatch({ type: 'resume', readings, rework });
+        const run = board?.runs.find((r) => r.id === resumeRun);
+        const ended = run?.ended ? (run.outcome === 'passed' || run.outcome === 'failed' ? run.outcome : 'aborted') : null;
+        dispatch({ type: 'resume', readings, rework, ended });
         setStatus({ kind: 'idle' });
       })
       .catch((error: unknown) => live && setStatus({ kind: 'error', message: `cannot resume run ${resumeRun}: ${message(error)}` }));
