@@ -8,8 +8,6 @@ export interface BatchPoint {
   readonly serial: string;
   readonly value: number;
   readonly at: string;
-  /** ms since epoch of `at`, for ordering. */
-  readonly time: number;
   readonly verdict: Verdict;
   readonly firstVerdict: Verdict;
   /** Plan hash of the board's latest run. */
@@ -58,7 +56,7 @@ export interface BatchCheck {
   readonly status: CapabilityStatus;
   readonly note: string;
   readonly outliers: readonly Outlier[];
-  /** Every board's point, oldest first (for the histogram and trend). */
+  /** Every board's point, in index order (the histogram counts them, the trend sorts them). */
   readonly points: readonly BatchPoint[];
 }
 

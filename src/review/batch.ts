@@ -44,7 +44,6 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
           serial: board.serial,
           value: summary.latest.value,
           at: summary.latest.at,
-          time: Date.parse(summary.latest.at),
           verdict: summary.latest.verdict,
           firstVerdict: summary.first.verdict,
           revision: board.planHash,
@@ -104,14 +103,20 @@ export function revisionsOf(index: LogIndex, filter: BatchFilter = {}): string[]
 }
 
 function checkFigures(group: Group, bands: ReadonlyMap<string, SnapshotBands>): BatchCheck {
-  const points = group.points.sort((a, b) => a.time - b.time || (a.serial < b.serial ? -1 : 1));
+  // Points stay in index order; the trend sorts the one check it draws.
+  const points = group.points;
   const values = points.map((p) => p.value);
   const spread = spreadOf(values);
+  const own = revisionBands(group.check, bands);
   // The band of the newest revision measured is the one the batch is judged by now.
+  // ISO 8601 UTC times as the store writes them compare as strings in time order.
   let bandRevision: string | null = null;
-  for (let i = points.length - 1; i >= 0 && bandRevision === null; i--) {
-    const rev = points[i]?.revision;
-    if (rev && bands.get(rev)?.bands.has(group.check)) bandRevision = rev;
+  let newest = '';
+  for (const p of points) {
+    if (p.revision && p.at >= newest && own(p.revision)) {
+      newest = p.at;
+      bandRevision = p.revision;
+    }
   }
   const target = bandRevision ? bands.get(bandRevision)?.bands.get(group.check) : undefined;
   const band: Band | null = target ? target.worst : null;
@@ -125,8 +130,8 @@ function checkFigures(group: Group, bands: ReadonlyMap<string, SnapshotBands>): 
     else if (p.verdict === 'marginal') marginal++;
     else fail++;
     if (p.firstVerdict === 'pass') firstPass++;
-    const own = p.revision ? bands.get(p.revision)?.bands.get(group.check)?.worst : undefined;
-    if (own && band && (own.min !== band.min || own.max !== band.max)) bandsDiffer = true;
+    const ownBand = p.revision ? own(p.revision) : undefined;
+    if (ownBand && band && (ownBand.min !== band.min || ownBand.max !== band.max)) bandsDiffer = true;
   }
   const capability = capabilityOf(spread, band);
   const n = points.length;
@@ -152,8 +157,19 @@ function checkFigures(group: Group, bands: ReadonlyMap<string, SnapshotBands>): 
     finalYield: n > 0 ? pass / n : null,
     status: capability.status,
     note: capability.note,
-    outliers: outliersOf(group.check, points, spread.mean, spread.sd, band, bands),
+    outliers: outliersOf(group.check, points, spread.mean, spread.sd, band, own),
     points,
+  };
+}
+
+/** A check's worst-case band per plan revision, looked up once per revision (a batch has few). */
+function revisionBands(check: string, bands: ReadonlyMap<string, SnapshotBands>): (revision: string) => Band | undefined {
+  const memo = new Map<string, Band | undefined>();
+  return (revision) => {
+    if (memo.has(revision)) return memo.get(revision);
+    const band = bands.get(revision)?.bands.get(check)?.worst;
+    memo.set(revision, band);
+    return band;
   };
 }
 
@@ -164,14 +180,14 @@ function outliersOf(
   mean: number | null,
   sd: number | null,
   band: Band | null,
-  bands: ReadonlyMap<string, SnapshotBands>,
+  own: (revision: string) => Band | undefined,
 ): Outlier[] {
   const out: Outlier[] = [];
   const hasSpread = mean !== null && sd !== null && sd > 0;
   for (const p of points) {
     const reasons: OutlierReason[] = [];
-    const own = (p.revision ? bands.get(p.revision)?.bands.get(check)?.worst : undefined) ?? band;
-    if (own && (p.value < own.min || p.value > own.max)) reasons.push('outside band');
+    const judged = (p.revision ? own(p.revision) : undefined) ?? band;
+    if (judged && (p.value < judged.min || p.value > judged.max)) reasons.push('outside band');
     const z = hasSpread ? (p.value - mean) / sd : null;
     // Beyond 3σ: the usual control-chart limit (common practice, no source).
     if (z !== null && Math.abs(z) > 3) reasons.push('beyond 3σ');

@@ -14,7 +14,11 @@ export interface TrendSeries {
  * across 10,000 boards (a plain stride would alias a periodic lot pattern).
  */
 export function trendOf(points: readonly BatchPoint[], max = Infinity): TrendSeries {
-  const sorted = [...points].filter((p) => Number.isFinite(p.value)).sort((a, b) => a.time - b.time || (a.serial < b.serial ? -1 : 1));
+  const sorted = points
+    .filter((p) => Number.isFinite(p.value))
+    .map((p) => ({ p, t: Date.parse(p.at) }))
+    .sort((a, b) => a.t - b.t || (a.p.serial < b.p.serial ? -1 : 1))
+    .map((x) => x.p);
   const first = sorted[0]?.at ?? null;
   const last = sorted[sorted.length - 1]?.at ?? null;
   const limit = Math.max(1, Math.floor(max));

@@ -45,7 +45,7 @@ describe('histogram bins', () => {
 });
 
 describe('trend series', () => {
-  const pt = (serial: string, value: number, at: string) => ({ serial, value, at, time: Date.parse(at), verdict: 'pass' as const, firstVerdict: 'pass' as const, revision: null });
+  const pt = (serial: string, value: number, at: string) => ({ serial, value, at, verdict: 'pass' as const, firstVerdict: 'pass' as const, revision: null });
 
   test('orders latest readings by time', () => {
     const t = trendOf([pt('B', 2, '2026-11-02T00:00:00Z'), pt('A', 1, '2026-11-01T00:00:00Z'), pt('C', 3, '2026-11-03T00:00:00Z')]);
