@@ -56,9 +56,11 @@ export function explainReading(plan: Plan, check: string, reading: number): Expl
     if (v.nominal === 0) return;
     if (v.stage !== 'rails' && !stages.has(v.stage)) return;
     if (v.stage === 'rails' && target.stage === 'rails' && target.rail !== v.role) return;
+    // Stages before this part's own see only nominal values: take them from the nominal evaluation.
+    const reuse = v.stage === 'rails' ? 0 : chain.stageIndex(v.stage);
     const valueAt = (ratio: number): number => {
       x[i] = v.nominal * ratio;
-      chain.evaluate(x, out, upTo);
+      chain.evaluate(x, out, upTo, reuse);
       x[i] = v.nominal;
       return out[index] as number;
     };

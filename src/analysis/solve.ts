@@ -1,5 +1,5 @@
 /** Points of the log-spaced scan before bisection. */
-const scanPoints = 64;
+const scanPoints = 40;
 
 /**
  * The ratio r in [lo, hi] (lo > 0) for which f(r) = target, nearest to r = 1 in
@@ -31,7 +31,8 @@ export function solveForValue(f: (r: number) => number, target: number, lo: numb
     let l = ln[k] as number;
     let r = ln[k + 1] as number;
     let gl = g0;
-    for (let it = 0; it < 60 && r - l > 1e-10; it++) {
+    // 1e-9 in ln r: far finer than any part tolerance.
+    for (let it = 0; it < 60 && r - l > 1e-9; it++) {
       const m = (l + r) / 2;
       const gm = f(Math.exp(m)) - target;
       if (!Number.isFinite(gm)) break;

@@ -41,8 +41,11 @@ export interface Chain {
   /**
    * `stages` limits the evaluation to the first so many stages (chain order),
    * for callers that only need an upstream check; later checks are left NaN.
+   * `reuse` takes the first so many stages from the nominal evaluation instead
+   * of evaluating them: only valid when `x` differs from the nominal in no
+   * variable of those stages and in no rail (one-part-at-a-time searches).
    */
-  evaluate(x: Float64Array, out: Float64Array, stages?: number): void;
+  evaluate(x: Float64Array, out: Float64Array, stages?: number, reuse?: number): void;
   /** Position of a stage in chain order, −1 for none (rails). */
   stageIndex(id: string): number;
   detail(x: Float64Array): ChainDetail;
@@ -98,7 +101,8 @@ export function buildChain(plan: Plan): Chain {
     return { stage, roles, varIndex, outIndex, inputStage: stage.input ? stageIds.indexOf(stage.input.stage) : -1 };
   });
 
-  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length): ChainDetail => {
+  let nominalResults: (EvalOutput | undefined)[] | undefined;
+  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length, reuse = 0, capture?: (EvalOutput | undefined)[]): ChainDetail => {
     const rails: Record<string, number> = {};
     for (let i = 0; i < railIds.length; i++) {
       const v = x[i] ?? Number.NaN;
@@ -107,7 +111,7 @@ export function buildChain(plan: Plan): Chain {
       if (out && o >= 0) out[o] = v;
     }
     const supplies: Supplies = { pos: posIdx >= 0 ? (x[posIdx] ?? 0) : 0, neg: negIdx >= 0 ? (x[negIdx] ?? 0) : 0 };
-    const results: (EvalOutput | undefined)[] = new Array(stagePlans.length);
+    const results: (EvalOutput | undefined)[] = capture ?? new Array(stagePlans.length);
     // The hot path (keep = false) allocates only what the stages need.
     const values: Record<string, number> = keep ? {} : noValues;
     const outputs: Record<string, Waveform> = keep ? {} : noOutputs;
@@ -120,7 +124,8 @@ export function buildChain(plan: Plan): Chain {
       let input: Waveform | undefined;
       if (sp.inputStage >= 0) input = results[sp.inputStage]?.outputs[sp.stage.input?.output ?? ''];
       let result: EvalOutput | undefined;
-      if (sp.inputStage < 0 || input) {
+      if (s < reuse) result = nominalResults?.[s];
+      else if (sp.inputStage < 0 || input) {
         try {
           const base = { parts, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies, rails };
           result = sp.stage.module.evaluate(input ? { ...base, input } : base);
@@ -146,9 +151,18 @@ export function buildChain(plan: Plan): Chain {
     variables,
     checks,
     nominal,
-    evaluate(x, out, stages) {
+    evaluate(x, out, stages, reuse) {
       out.fill(Number.NaN);
-      run(x, out, false, stages === undefined ? stagePlans.length : Math.max(0, Math.min(stagePlans.length, stages)));
+      const upTo = stages === undefined ? stagePlans.length : Math.max(0, Math.min(stagePlans.length, stages));
+      let from = 0;
+      if (reuse !== undefined && reuse > 0) {
+        if (!nominalResults) {
+          nominalResults = new Array(stagePlans.length);
+          run(nominal, undefined, false, stagePlans.length, 0, nominalResults);
+        }
+        from = Math.min(reuse, upTo);
+      }
+      run(x, out, false, upTo, from);
     },
     stageIndex(id) {
       return stageIds.indexOf(id);
