@@ -8,6 +8,9 @@ import { fastThd } from '../src/circuit/spectrum.js';
 import { fromPhase, thd } from '../src/circuit/waveform.js';
 import { defaultOpamp } from '../src/circuit/opamp.js';
 import type { EvalInput } from '../src/circuit/types.js';
+import { type DiodeShaperSettings, shaperNet } from '../src/circuit/diode-shaper.js';
+import { mirrorOrder } from '../src/circuit/mirror.js';
+import { solveNode } from '../src/circuit/shaper-solver.js';
 
 const plan = await loadPlanFile('demo/exciter.plan.json');
 const stage = plan.stages.find((s) => s.kind === 'diode-shaper');
@@ -54,5 +57,8 @@ console.log(`shaper evaluate (every sample solved) ${full.toFixed(2)} µs   rati
 console.log(`THD by FFT (fft.js)                   ${viaFft.toFixed(2)} µs`);
 console.log(`THD by direct DFT (waveform.ts)       ${direct.toFixed(2)} µs   ratio to FFT ${(direct / viaFft).toFixed(1)}`);
 console.log(`512 × Math.exp (machine yardstick)    ${expRef.toFixed(2)} µs   shaper / yardstick ${(shaper / expRef).toFixed(2)}`);
+const plan0 = mirrorOrder(triangle.samples);
+const steps = solveNode(shaperNet(input as EvalInput<DiodeShaperSettings>), triangle.samples, plan0.order, new Float64Array(triangle.samples.length));
+console.log(`Newton steps per solved sample        ${(steps / plan0.order.length).toFixed(2)} (${plan0.order.length} of ${triangle.samples.length} samples solved)`);
 console.log(`10,000 shaper evaluations             ${(shaper * 10).toFixed(1)} ms`);
 if (!Number.isFinite(sink + exps)) console.log('(sink)');

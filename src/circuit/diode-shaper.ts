@@ -66,7 +66,8 @@ function parse(raw: Parameters<StageKind['parse']>[0], file: string): { parts: R
   return { parts, settings: { branches, hasLoad: load !== undefined, diode: diode.model, diodeName: diode.name } };
 }
 
-function netFor(input: EvalInput<DiodeShaperSettings>): ShaperNet {
+/** The node as the solver sees it, for one sample of the parts. */
+export function shaperNet(input: EvalInput<DiodeShaperSettings>): ShaperNet {
   const { parts, settings } = input;
   const branches = settings.branches.map(
     (b): ShaperBranch => ({
@@ -82,7 +83,7 @@ function netFor(input: EvalInput<DiodeShaperSettings>): ShaperNet {
 function evaluate(input: EvalInput<DiodeShaperSettings>): EvalOutput {
   const source = input.input;
   if (!source) throw new Error('diode-shaper: no input waveform; the plan must name an "input"');
-  const net = netFor(input);
+  const net = shaperNet(input);
   const vin = source.samples;
   const out = new Float64Array(vin.length);
   // A memoryless node: a waveform that mirrors about its peak (a triangle) is solved
