@@ -46,6 +46,11 @@ export class CsvParser {
     this.expectedRows = 0;
   }
 
+  /** Whether the parser has kept none of the chunks it was given (so the caller may reuse its buffer). */
+  get isStreaming(): boolean {
+    return this.dialect !== undefined;
+  }
+
   push(chunk: Uint8Array): void {
     if (!this.dialect) {
       this.head.push(chunk);

@@ -12,7 +12,7 @@
  * Hann window: F. J. Harris, Proc. IEEE 66(1), 1978 (from memory).
  */
 
-/** Hann window weights for `length` samples, and their sum. */
+/** Hann window weights for `length` samples, and their sum (for tests and small records). */
 export function hann(length: number): { w: Float64Array; sum: number } {
   const w = new Float64Array(length);
   let sum = 0;
@@ -26,36 +26,41 @@ export function hann(length: number): { w: Float64Array; sum: number } {
 
 /**
  * Amplitude and phase of the component at `nu` cycles per sample in the
- * segment x[from … from + w.length), mean `dc` removed, weighted by `w`.
- * Amplitude is the sine's peak (2·|X| / Σw).
+ * segment x[from … from + length), mean `dc` removed, under a Hann window
+ * (computed as it goes, so a long segment allocates nothing). Amplitude is
+ * the sine's peak (2·|X| / Σw).
  */
-export function componentAt(
-  x: Float64Array,
-  from: number,
-  window: { w: Float64Array; sum: number },
-  nu: number,
-  dc = 0,
-): { amplitude: number; phase: number } {
-  const { w, sum } = window;
-  const length = w.length;
+export function componentAt(x: Float64Array, from: number, length: number, nu: number, dc = 0): { amplitude: number; phase: number } {
   const step = -2 * Math.PI * nu;
   const cr = Math.cos(step);
   const sr = Math.sin(step);
+  const wstep = (2 * Math.PI) / length;
+  const wr = Math.cos(wstep);
+  const wi = Math.sin(wstep);
   let re = 0;
   let im = 0;
+  let sum = 0;
   let n = 0;
-  // A rotating phasor, reset from cos/sin every block so rounding cannot drift.
+  // Rotating phasors for the signal frequency and the window, reset from
+  // cos/sin every block so rounding cannot drift.
   while (n < length) {
     const end = Math.min(length, n + 4096);
     let c = Math.cos(step * n);
     let s = Math.sin(step * n);
+    let wc = Math.cos(wstep * n);
+    let ws = Math.sin(wstep * n);
     for (; n < end; n++) {
-      const v = ((x[from + n] as number) - dc) * (w[n] as number);
+      const w = 0.5 - 0.5 * wc;
+      const v = ((x[from + n] as number) - dc) * w;
+      sum += w;
       re += v * c;
       im += v * s;
       const c2 = c * cr - s * sr;
       s = c * sr + s * cr;
       c = c2;
+      const w2 = wc * wr - ws * wi;
+      ws = wc * wi + ws * wr;
+      wc = w2;
     }
   }
   return { amplitude: (2 * Math.hypot(re, im)) / sum, phase: Math.atan2(im, re) };
@@ -67,8 +72,7 @@ export function componentAt(
  * interpolation on the log magnitude, within about one bin of the estimate.
  */
 export function refineFrequency(x: Float64Array, from: number, length: number, nu0: number, dc: number): number {
-  const window = hann(length);
-  const mag = (nu: number): number => Math.log(componentAt(x, from, window, nu, dc).amplitude + 1e-300);
+  const mag = (nu: number): number => Math.log(componentAt(x, from, length, nu, dc).amplitude + 1e-300);
   const bin = 1 / length;
   let centre = nu0;
   let mc = mag(centre);
@@ -114,14 +118,13 @@ export interface HarmonicAnalysis {
  */
 export function harmonicAnalysis(x: Float64Array, from: number, period: number, periods: number, dc: number, highest = 50): HarmonicAnalysis {
   const length = Math.round(period * periods);
-  const window = hann(length);
   // k·f below fs/2 means k < period / 2.
   const top = Math.max(1, Math.min(highest, Math.ceil(period / 2) - 1));
   const amplitudes = new Float64Array(top + 1);
   // Evaluate at the harmonic itself; every other harmonic then lies P bins
   // (or more) away, where the Hann transform has fallen to nearly nothing.
   const nu = 1 / period;
-  for (let k = 1; k <= top; k++) amplitudes[k] = componentAt(x, from, window, k * nu, dc).amplitude;
+  for (let k = 1; k <= top; k++) amplitudes[k] = componentAt(x, from, length, k * nu, dc).amplitude;
   let sum = 0;
   for (let k = 2; k <= top; k++) sum += (amplitudes[k] as number) ** 2;
   const fundamental = amplitudes[1] as number;

@@ -9,8 +9,8 @@ import { CaptureError, type Measurements } from './types.js';
 /** Fewest samples worth measuring. */
 export const minSamples = 16;
 /** Longest segment the frequency refinement and the harmonics look at, samples. */
-const maxSpectrumSamples = 1 << 21;
-const maxHarmonicSamples = 1 << 18;
+const maxSpectrumSamples = 1 << 18;
+const maxHarmonicSamples = 1 << 17;
 
 /** The measured figures plus one averaged period, for the trace. */
 export interface MeasureResult {

@@ -28,7 +28,7 @@ export interface FileRead {
   readonly bytes?: Uint8Array;
 }
 
-const chunkBytes = 4 * 1024 * 1024;
+const chunkBytes = 1024 * 1024;
 
 /**
  * Read a capture file in chunks, reporting progress as a fraction of its size.
@@ -56,8 +56,12 @@ export async function readCaptureFile(
     let reader: CaptureReader | undefined;
     let parser: CsvParser | undefined;
     let seen = 0;
+    // One buffer, reused once the CSV parser streams: the file is never held whole.
+    let spare: Uint8Array | undefined;
     for (;;) {
-      const buffer = new Uint8Array(Math.min(chunkBytes, Math.max(1, size - seen)));
+      const want = Math.min(chunkBytes, Math.max(1, size - seen));
+      const buffer = spare && spare.length >= want ? spare : new Uint8Array(want);
+      spare = undefined;
       const { bytesRead } = await handle.read(buffer, 0, buffer.length, seen);
       if (bytesRead === 0) break;
       const chunk = buffer.subarray(0, bytesRead);
@@ -67,6 +71,7 @@ export async function readCaptureFile(
       }
       if (parser) parser.push(chunk);
       if (!parser || options.keepBytes) kept.push(chunk);
+      else if (parser.isStreaming) spare = buffer;
       seen += bytesRead;
       onProgress?.(Math.min(1, seen / size) * (parser ? 1 : 0.5));
       if (seen >= size) break;

@@ -22,7 +22,7 @@ describe('componentAt against independent transforms', () => {
         const g = gaussian(seed);
         const x = Float64Array.from({ length: n }, () => g());
         const window = hann(n);
-        const mine = componentAt(x, 0, window, nu);
+        const mine = componentAt(x, 0, n, nu);
         const ref = directDft(x, window.w, nu);
         // Rounding only: 1e-9 relative to the signal's size.
         expect(Math.abs(mine.amplitude - (2 * Math.hypot(ref.re, ref.im)) / window.sum)).toBeLessThan(1e-9 * Math.sqrt(n));

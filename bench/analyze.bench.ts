@@ -1,0 +1,129 @@
+// `npm run bench analyze`: end-to-end `probebook analyze --json` on 1 M- and
+// 5 M-sample CSV captures, beside (a) the time to merely read the file's bytes
+// and (b) a numpy reference (bench/analyze_reference.py: np.loadtxt plus
+// numpy.fft) measuring the same file in the same run. Reported as paired
+// ratios per round (median of the rounds), with peak RSS over file size.
+// Goal: probebook ≤ 0.7× numpy at both sizes, peak RSS < 3× the file size.
+// The captures are invented: a shaped sine with noise, written here.
+import { spawnSync } from 'node:child_process';
+import { closeSync, existsSync, mkdirSync, openSync, readFileSync, statSync, writeSync } from 'node:fs';
+import { join } from 'node:path';
+import { build } from 'esbuild';
+
+const out = join('bench', 'out');
+mkdirSync(out, { recursive: true });
+const sizes = [1_000_000, 5_000_000];
+const rounds = Number(process.env.BENCH_ROUNDS ?? 3);
+
+function makeCapture(n: number): string {
+  const file = join(out, `capture-${n}.csv`);
+  if (existsSync(file)) return file;
+  console.log(`writing ${file} …`);
+  const fd = openSync(file, 'w');
+  writeSync(fd, 'Time (s),CH1 (V)\n');
+  const fs = 1e6;
+  const f = 1372.4;
+  let seed = 12345;
+  const lines: string[] = [];
+  for (let i = 0; i < n; i++) {
+    seed = (seed * 16807) % 2147483647;
+    const t = i / fs;
+    const v = 3.1 * Math.tanh(1.5 * Math.sin(2 * Math.PI * f * t)) + (seed / 2147483647 - 0.5) * 0.01;
+    lines.push(`${t.toExponential(9)},${v.toFixed(6)}`);
+    if (lines.length === 100_000) {
+      writeSync(fd, `${lines.join('\n')}\n`);
+      lines.length = 0;
+    }
+  }
+  if (lines.length) writeSync(fd, `${lines.join('\n')}\n`);
+  closeSync(fd);
+  return file;
+}
+
+// Time and peak RSS of a child, taken by a tiny Python harness (getrusage of
+// its children), so both contenders are measured the same way.
+const harness = `
+import json, resource, subprocess, sys, time
+t0 = time.perf_counter()
+r = subprocess.run(sys.argv[1:], stdout=subprocess.PIPE, stderr=subprocess.PIPE)
+t = time.perf_counter() - t0
+print(json.dumps({"seconds": t, "rssKb": resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss, "status": r.returncode, "out": r.stdout.decode(), "err": r.stderr.decode()[-300:]}))
+`;
+
+interface Timed {
+  readonly seconds: number;
+  readonly rssKb: number;
+  readonly out: string;
+}
+
+function timed(cmd: string[]): Timed {
+  const r = spawnSync('python3', ['-c', harness, ...cmd], { encoding: 'utf8', maxBuffer: 1 << 24 });
+  const result = JSON.parse(r.stdout) as Timed & { status: number; err: string };
+  if (result.status !== 0) throw new Error(`${cmd.join(' ')} failed: ${result.err}`);
+  return result;
+}
+
+function readBytes(file: string): number {
+  const t0 = performance.now();
+  const bytes = readFileSync(file);
+  const t = performance.now() - t0;
+  if (bytes.length === 0) throw new Error('empty');
+  return t / 1000;
+}
+
+const median = (xs: number[]): number => {
+  const s = [...xs].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? (s[m] ?? 0) : ((s[m - 1] ?? 0) + (s[m] ?? 0)) / 2;
+};
+
+const bundle = join(out, 'probebook-bench.js');
+await build({
+  entryPoints: ['src/cli/bin.ts'], outfile: bundle, bundle: true, platform: 'node', target: 'node20', format: 'esm', minify: true,
+  plugins: [{
+    // As scripts/build.mjs: Ink's devtools import becomes a stub that throws.
+    name: 'no-devtools',
+    setup(b) {
+      b.onResolve({ filter: /^react-devtools-core$/ }, () => ({ path: 'react-devtools-core', namespace: 'stub' }));
+      b.onLoad({ filter: /.*/, namespace: 'stub' }, () => ({ contents: "throw new Error('react-devtools-core is not bundled');", loader: 'js' }));
+    },
+  }],
+  define: { 'process.env.NODE_ENV': '"production"' }, logLevel: 'warning',
+  banner: { js: "import { createRequire as __r } from 'node:module'; const require = __r(import.meta.url);" },
+});
+
+const numpy = spawnSync('python3', ['-c', 'import numpy; print(numpy.__version__)'], { encoding: 'utf8' });
+if (numpy.status !== 0) {
+  console.log('numpy is not installed: the reference cannot run (benchmark only; tests do not need it)');
+  process.exit(0);
+}
+console.log(`node ${process.version}, numpy ${numpy.stdout.trim()}, ${rounds} rounds, medians`);
+const rows: string[][] = [['samples', 'file MB', 'read bytes s', 'probebook s', 'numpy s', 'pb/numpy', 'pb/read', 'pb RSS/file', 'np RSS/file']];
+for (const n of sizes) {
+  const file = makeCapture(n);
+  const size = statSync(file).size;
+  const read: number[] = [];
+  const pb: Timed[] = [];
+  const np: Timed[] = [];
+  const ratios: number[] = [];
+  for (let r = 0; r < rounds; r++) {
+    read.push(readBytes(file));
+    const a = timed([process.execPath, bundle, 'analyze', file, '--json']);
+    const b = timed(['python3', join('bench', 'analyze_reference.py'), file]);
+    pb.push(a);
+    np.push(b);
+    ratios.push(a.seconds / b.seconds);
+  }
+  const ours = JSON.parse(pb[0]?.out ?? '{}') as Record<string, number>;
+  const theirs = JSON.parse(np[0]?.out ?? '{}') as Record<string, number>;
+  console.log(`${n} samples: frequency ${ours.frequency?.toFixed(4)} vs ${theirs.frequency?.toFixed(4)} Hz, THD ${ours.thd?.toFixed(5)} vs ${theirs.thd?.toFixed(5)}, Vrms ${ours.vrms?.toFixed(5)} vs ${theirs.vrms?.toFixed(5)}`);
+  const pbS = median(pb.map((t) => t.seconds));
+  rows.push([
+    String(n), (size / 1e6).toFixed(1), median(read).toFixed(3), pbS.toFixed(3), median(np.map((t) => t.seconds)).toFixed(3),
+    `${median(ratios).toFixed(2)}×`, `${(pbS / median(read)).toFixed(1)}×`,
+    `${(Math.max(...pb.map((t) => t.rssKb)) * 1024 / size).toFixed(2)}×`, `${(Math.max(...np.map((t) => t.rssKb)) * 1024 / size).toFixed(2)}×`,
+  ]);
+}
+const widths = rows[0]?.map((_, c) => Math.max(...rows.map((r) => (r[c] ?? '').length))) ?? [];
+for (const r of rows) console.log(r.map((cell, c) => cell.padStart(widths[c] ?? 0)).join('  '));
+console.log('goal: pb/numpy ≤ 0.70× at both sizes; pb RSS/file < 3×');
