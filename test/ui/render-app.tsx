@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { render } from 'ink-testing-library';
 import { openLog } from '../../src/log/store.js';
-import type { BenchLog } from '../../src/log/types.js';
+import type { BenchLog, Reading } from '../../src/log/types.js';
 import { loadPlanText } from '../../src/plan/load.js';
 import type { Plan } from '../../src/plan/types.js';
 import { App, type Route } from '../../src/ui/app.js';
@@ -34,6 +34,23 @@ export const fixturePlan = {
   ],
 };
 export const fixturePlanText = `${JSON.stringify(fixturePlan, null, 2)}\n`;
+
+/** One reading for `seedBoard`, as a technician would have typed it. */
+export interface SeedReading {
+  readonly check: string;
+  readonly value: number;
+  readonly unit: Reading['unit'];
+  readonly raw: string;
+  readonly verdict: Reading['verdict'];
+}
+
+/** A board with one run of readings, written through the real store; ended when `outcome` is given. */
+export async function seedBoard(log: BenchLog, plan: Plan, serial: string, readings: readonly SeedReading[], outcome?: 'passed' | 'failed') {
+  const run = await log.startRun(serial, { plan: plan.plan, planHash: plan.hash, planText: plan.text, operator: 'earlier' });
+  for (const r of readings) await log.appendReading(serial, { ...r, run: run.id, operator: 'earlier', planHash: plan.hash });
+  if (outcome) await log.endRun(serial, run.id, outcome);
+  return run;
+}
 
 export interface RenderAppOptions {
   /** Plan texts given as if with `--plan`. @default [fixturePlanText] */
