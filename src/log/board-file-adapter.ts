@@ -1,7 +1,8 @@
 import type { Adapter } from 'lowdb';
 import { checkBoardShape } from './board-schema.js';
 import { DurableTextFile } from './durable-text-file.js';
-import { LogDamageError } from './errors.js';
+import { readFileSync } from 'node:fs';
+import { errorCode, LogDamageError } from './errors.js';
 import { fromLogJson, toLogJson } from './json-text.js';
 import { type Migration, boardMigrations, migrateBoard } from './migrate.js';
 import { type BoardFile, boardSchemaVersion } from './types.js';
@@ -28,6 +29,37 @@ function problemOf(text: string, serial: string, migrations: Readonly<Record<num
   return { board: shape.board };
 }
 
+function readTextSync(path: string): string | null {
+  try {
+    return readFileSync(path, 'utf8');
+  } catch (error) {
+    if (errorCode(error) === 'ENOENT') return null;
+    throw error;
+  }
+}
+
+function remedy(file: string, serial: string, isNewer: boolean, migrations: Readonly<Record<number, Migration>>): string {
+  if (isNewer) return 'Open this log with the newer probebook that wrote it (update probebook).';
+  const backup = `${file}.bak`;
+  const bak = readTextSync(backup);
+  if (bak !== null && 'board' in problemOf(bak, serial, migrations)) {
+    return `The previous good version is ${backup}; restore it with: cp '${backup}' '${file}' (it lacks at most the last change; check it with probebook history).`;
+  }
+  return `No good backup (${backup} is ${bak === null ? 'missing' : 'damaged too'}): fix the file by hand at that place, or move it aside with: mv '${file}' '${file}.damaged'`;
+}
+
+/**
+ * Read and check a board file now (the index needs this inside a getter): null
+ * when there is none, a LogDamageError when it cannot be read as it stands.
+ */
+export function readBoardFileSync(file: string, serial: string, migrations: Readonly<Record<number, Migration>> = boardMigrations): BoardFile | null {
+  const text = readTextSync(file);
+  if (text === null) return null;
+  const result = problemOf(text, serial, migrations);
+  if ('board' in result) return result.board;
+  throw new LogDamageError(file, `board file ${file} cannot be read: ${result.problem}; it was left untouched. ${remedy(file, serial, result.isNewer, migrations)}`);
+}
+
 /**
  * A board file (`boards/<serial>.json`) as a lowdb adapter, stacked on the
  * durable text file: JSON with ±Infinity readings, a shape check on every read,
@@ -47,25 +79,11 @@ export class BoardFileAdapter implements Adapter<BoardFile> {
   }
 
   async read(): Promise<BoardFile | null> {
-    const text = await this.text.read();
-    if (text === null) return null;
-    const result = problemOf(text, this.serial, this.migrations);
-    if ('board' in result) return result.board;
-    throw new LogDamageError(this.file, `board file ${this.file} cannot be read: ${result.problem}; it was left untouched. ${await this.#remedy(result.isNewer)}`);
+    return readBoardFileSync(this.file, this.serial, this.migrations);
   }
 
   async write(board: BoardFile): Promise<void> {
     if (board.schemaVersion !== boardSchemaVersion) throw new Error(`refusing to write board ${board.serial} with schema version ${board.schemaVersion}`);
     await this.text.write(`${toLogJson(board, 1)}\n`);
-  }
-
-  async #remedy(isNewer: boolean): Promise<string> {
-    if (isNewer) return 'Open this log with the newer probebook that wrote it (update probebook).';
-    const backup = this.text.backup;
-    const bak = await new DurableTextFile(backup).read();
-    if (bak !== null && 'board' in problemOf(bak, this.serial, this.migrations)) {
-      return `The previous good version is ${backup}; restore it with: cp '${backup}' '${this.file}' (it lacks at most the last change; check it with probebook history).`;
-    }
-    return `No good backup (${backup} is ${bak === null ? 'missing' : 'damaged too'}): fix the file by hand at that place, or move it aside with: mv '${this.file}' '${this.file}.damaged'`;
   }
 }

@@ -1,78 +1,80 @@
-import { z } from 'zod';
 import { unitNoun } from '../units/unit.js';
 import type { BoardFile } from './types.js';
 
-// Shapes of a board file (schema version 1), checked on every read. Objects are
-// loose: a key this version does not know is kept, not stripped, so nothing a
-// later minor version wrote is lost when this one rewrites the file.
+// The shape of a board file (schema version 1), checked on every read. Written
+// by hand rather than with a schema library: it runs on every append, over
+// every reading of the board, and a writer process starts faster without one.
+// Unknown keys are kept, not stripped, so nothing a later minor version wrote
+// is lost when this one rewrites the file.
 
-const iso = z.string().regex(/^\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d(\.\d+)?Z$/, 'expected an ISO 8601 UTC time such as "2026-03-01T09:30:00.000Z"');
-const hash = z.string().regex(/^[0-9a-f]{64}$/, 'expected a sha256 in hex');
+type Check = (v: unknown) => string | null;
+
+const isoPattern = /^\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d(\.\d+)?Z$/;
+const hashPattern = /^[0-9a-f]{64}$/;
+const units = new Set(Object.keys(unitNoun));
+
+const text: Check = (v) => (typeof v === 'string' ? null : 'expected text');
+const nonEmpty: Check = (v) => (typeof v === 'string' && v !== '' ? null : 'expected non-empty text');
+const iso: Check = (v) => (typeof v === 'string' && isoPattern.test(v) ? null : 'expected an ISO 8601 UTC time such as "2026-03-01T09:30:00.000Z"');
+const isoOrNull: Check = (v) => (v === null ? null : iso(v));
+const textOrNull: Check = (v) => (v === null || typeof v === 'string' ? null : 'expected text or null');
+const hash: Check = (v) => (typeof v === 'string' && hashPattern.test(v) ? null : 'expected a sha256 in hex');
 // Readings may be ±Infinity (an open circuit read as "OL"); JSON carries them as strings, decoded before this check.
-const reading = z.custom<number>((v) => typeof v === 'number' && !Number.isNaN(v), 'expected a number');
-const units = Object.keys(unitNoun) as [keyof typeof unitNoun, ...(keyof typeof unitNoun)[]];
-const verdict = z.enum(['pass', 'marginal', 'fail']);
+const reading: Check = (v) => (typeof v === 'number' && !Number.isNaN(v) ? null : 'expected a number');
+const oneOf =
+  (...allowed: string[]): Check =>
+  (v) =>
+    typeof v === 'string' && allowed.includes(v) ? null : `expected one of ${allowed.map((a) => JSON.stringify(a)).join(', ')}`;
+const unit: Check = (v) => (typeof v === 'string' && units.has(v) ? null : `expected a unit (${[...units].join(', ')})`);
+const optional =
+  (check: Check): Check =>
+  (v) =>
+    v === undefined ? null : check(v);
+const texts: Check = (v) => (Array.isArray(v) && v.every((x) => typeof x === 'string') ? null : 'expected a list of texts');
 
-const readingSchema = z.looseObject({
-  id: z.string().min(1),
-  run: z.string().min(1),
-  check: z.string().min(1),
-  value: reading,
-  unit: z.enum(units),
-  raw: z.string(),
-  at: iso,
-  operator: z.string(),
-  verdict,
-  planHash: hash,
-  capture: z.string().optional(),
-  warnings: z.array(z.string()).optional(),
-});
+type Shape = Readonly<Record<string, Check>>;
 
-const runSchema = z.looseObject({
-  id: z.string().min(1),
-  started: iso,
-  ended: iso.nullable(),
-  operator: z.string(),
-  outcome: z.enum(['in-progress', 'passed', 'failed', 'aborted', 'power-off']),
-  plan: z.string(),
-  planHash: hash,
-});
+const readingShape: Shape = {
+  id: nonEmpty, run: nonEmpty, check: nonEmpty, value: reading, unit, raw: text, at: iso, operator: text,
+  verdict: oneOf('pass', 'marginal', 'fail'), planHash: hash, capture: optional(text), warnings: optional(texts),
+};
+const runShape: Shape = {
+  id: nonEmpty, started: iso, ended: isoOrNull, operator: text,
+  outcome: oneOf('in-progress', 'passed', 'failed', 'aborted', 'power-off'), plan: text, planHash: hash,
+};
+const reworkShape: Shape = { id: nonEmpty, at: iso, run: textOrNull, part: text, from: text, to: text, note: text, operator: text };
+const captureShape: Shape = { file: nonEmpty, name: text, at: iso, check: textOrNull, run: textOrNull };
 
-const reworkSchema = z.looseObject({
-  id: z.string().min(1),
-  at: iso,
-  run: z.string().nullable(),
-  part: z.string(),
-  from: z.string(),
-  to: z.string(),
-  note: z.string(),
-  operator: z.string(),
-});
+function isObject(v: unknown): v is Record<string, unknown> {
+  return typeof v === 'object' && v !== null && !Array.isArray(v);
+}
 
-const captureSchema = z.looseObject({
-  file: z.string().min(1),
-  name: z.string(),
-  at: iso,
-  check: z.string().nullable(),
-  run: z.string().nullable(),
-});
+function checkObject(v: unknown, shape: Shape, path: string): string | null {
+  if (!isObject(v)) return `${path}: expected an object`;
+  for (const key in shape) {
+    const problem = (shape[key] as Check)(v[key]);
+    if (problem) return `${path === '' ? '' : `${path}.`}${key}: ${v[key] === undefined ? 'missing; ' : ''}${problem}`;
+  }
+  return null;
+}
 
-export const boardSchema = z.looseObject({
-  schemaVersion: z.number().int(),
-  serial: z.string().min(1),
-  plan: z.string().nullable(),
-  runs: z.array(runSchema),
-  readings: z.array(readingSchema),
-  rework: z.array(reworkSchema),
-  captures: z.array(captureSchema),
-});
+function checkList(v: unknown, shape: Shape, path: string): string | null {
+  if (!Array.isArray(v)) return `${path}: expected a list`;
+  for (let i = 0; i < v.length; i++) {
+    const problem = checkObject(v[i], shape, `${path}[${i}]`);
+    if (problem) return problem;
+  }
+  return null;
+}
 
 /** Check a parsed board file; returns it typed, or the first problem as `path: what` text. */
 export function checkBoardShape(data: unknown): { ok: true; board: BoardFile } | { ok: false; problem: string } {
-  const result = boardSchema.safeParse(data);
-  if (result.success) return { ok: true, board: result.data as BoardFile };
-  const issue = result.error.issues[0];
-  if (!issue) return { ok: false, problem: 'not a board file' };
-  const path = issue.path.reduce<string>((text, key) => (typeof key === 'number' ? `${text}[${key}]` : text === '' ? String(key) : `${text}.${String(key)}`), '');
-  return { ok: false, problem: `${path === '' ? 'the top level' : path}: ${issue.message}` };
+  if (!isObject(data)) return { ok: false, problem: 'the top level: expected an object' };
+  const problem =
+    checkObject(data, { schemaVersion: (v) => (Number.isInteger(v) ? null : 'expected a whole number'), serial: nonEmpty, plan: textOrNull }, '') ??
+    checkList(data.runs, runShape, 'runs') ??
+    checkList(data.readings, readingShape, 'readings') ??
+    checkList(data.rework, reworkShape, 'rework') ??
+    checkList(data.captures, captureShape, 'captures');
+  return problem ? { ok: false, problem } : { ok: true, board: data as unknown as BoardFile };
 }

@@ -1,30 +1,40 @@
 import { appendFileSync, readdirSync, readFileSync, renameSync, statSync, unlinkSync } from 'node:fs';
+import { randomBytes } from 'node:crypto';
 import { join } from 'node:path';
+import { readBoardFileSync } from './board-file-adapter.js';
 import { DurableTextFile } from './durable-text-file.js';
 import { errorCode, LogDamageError } from './errors.js';
 import { withFileLock } from './file-lock.js';
-import { fromLogJson, toLogJson } from './json-text.js';
+import { type BoardHead, type CheckMap, headOf, type JournalLine, type KnownBoard, replayJournal, reviveChecks } from './index-journal.js';
+import { toLogJson } from './json-text.js';
 import { validateSerial } from './serial.js';
 import { summarizeBoard } from './summary.js';
-import type { BoardFile, BoardSummary, LogIndex } from './types.js';
+import type { BoardFile, BoardSummary, DamagedBoard, LogIndex } from './types.js';
 
-export const indexSchemaVersion = 1;
+/** Version of the index files (a cache: any other version is rebuilt, never refused). */
+export const indexSchemaVersion = 2;
 
 /** Called while boards are read to rebuild the index: `done` of `total` board files. */
 export type IndexProgress = (done: number, total: number) => void;
 
-/** Compact the journal into `index.json` once it grows past this many bytes. */
-export const journalLimitBytes = 4 * 1024 * 1024;
+/** Compact the journal into the snapshot once it grows past this many bytes. */
+export const journalLimitBytes = 1024 * 1024;
+
+/** Boards read again in one go above which the reader writes a new snapshot instead of journal lines. */
+const rereadsBeforeCompact = 100;
 
 /** Temporary files of the durable writes (`<file>.<pid>-<hex>.tmp`); removed once an hour old. */
 const leftoverPattern = /\.\d+-[0-9a-f]{8}\.(tmp|baktmp)$/;
 const leftoverAgeMs = 60 * 60 * 1000;
+const checksPattern = /^index-checks\.[0-9a-f]+\.json$/;
 
 interface Snapshot {
   readonly schemaVersion: number;
-  readonly boards: Record<string, BoardSummary>;
-  /** The board file each summary was made from: `<inode>-<size>-<mtime ms>`. */
+  readonly boards: Record<string, BoardHead>;
+  /** The board file each summary was made from: `<inode>-<size>-<mtime ns>`. */
   readonly stamps: Record<string, string>;
+  /** The file holding every board's per-check summaries, written with this snapshot. */
+  readonly checksFile: string;
 }
 
 /** The identity of a board file's current version; a rename of a new version changes it. */
@@ -48,15 +58,21 @@ function readText(path: string): string | null {
 }
 
 /**
- * The index (`index.json`): a rebuildable summary of every board, kept cheap to
- * update at thousands of boards. Writers never rewrite it; after each board
- * write they append one line (serial, file stamp, summary) to `index.journal`.
- * Readers load the snapshot, replay the journal, and check every summary's stamp
- * against its board file (one `stat` per board), reading again only the boards
- * that changed behind the index's back (a crash between the two writes, a file
- * restored from `.bak`, a board copied in). When anything had to be re-read or
- * the journal is long, the reader writes a new snapshot and starts a new
- * journal. Deleting both loses nothing: the next read rebuilds them.
+ * The index: a rebuildable summary of every board, cheap to keep at thousands
+ * of boards. Three files:
+ * - `index.json`, the snapshot: each board's counts and state (no checks) and the
+ *   stamp of the board file it was made from;
+ * - `index-checks.<gen>.json`, every board's first/latest reading per check,
+ *   written with the snapshot and read only when a caller looks at `checks`
+ *   (the bench screen never does; the batch review does);
+ * - `index.journal`: writers never rewrite the snapshot; after each board write
+ *   they append one line (the board's counts, the checks that changed, and the
+ *   old and new stamps).
+ * Readers take the snapshot, replay the journal, and stat every board file:
+ * a board whose stamp differs (a crash between the two writes, a file restored
+ * from `.bak`, a board copied in) or whose journal chain has a gap is read
+ * again. A long journal is folded into a new snapshot. Deleting all three loses
+ * nothing: the next read rebuilds them from the board files.
  */
 export class IndexStore {
   readonly file: string;
@@ -71,54 +87,45 @@ export class IndexStore {
     this.journal = join(dir, 'index.journal');
   }
 
-  /** Note a board's new version; call after its file is durably written (under its lock). */
-  noteBoard(board: BoardFile, stamp: string): { journalBytes: number } {
-    const line = `${toLogJson({ serial: board.serial, stamp, summary: summarizeBoard(board) })}\n`;
-    appendFileSync(this.journal, line);
+  /**
+   * Note a board's new version; call after its file is durably written, under
+   * its lock. `touched` names the checks the write changed (`'all'` to send them all).
+   */
+  noteBoard(board: BoardFile, stamp: string, prev: string | null, touched: readonly string[] | 'all'): { journalBytes: number } {
+    const summary = summarizeBoard(board);
+    const full = touched === 'all' || prev === null;
+    const checks: CheckMap = full ? summary.checks : Object.fromEntries(touched.flatMap((c) => (summary.checks[c] ? [[c, summary.checks[c]]] : [])));
+    const line: JournalLine = { serial: board.serial, stamp, prev, full, head: headOf(summary), checks };
+    appendFileSync(this.journal, `${toLogJson(line)}\n`);
     return { journalBytes: statSync(this.journal).size };
   }
 
   async read(onProgress?: IndexProgress): Promise<LogIndex> {
     const snapshot = this.#readSnapshot();
-    const boards: Record<string, BoardSummary> = snapshot?.boards ?? {};
-    const stamps: Record<string, string> = snapshot?.stamps ?? {};
+    const known = new Map<string, KnownBoard>();
+    if (snapshot) for (const [serial, head] of Object.entries(snapshot.boards)) known.set(serial, { head, stamp: snapshot.stamps[serial] ?? '', full: null, deltas: [], broken: false });
     const journalText = readText(this.journal) ?? '';
-    for (const line of journalText.split('\n')) {
-      if (line === '') continue;
-      const entry = fromLogJson(line);
-      // A torn last line (a crash mid-append) is skipped: the stamp check below repairs it.
-      if (!entry.ok || typeof entry.data !== 'object' || entry.data === null) continue;
-      const { serial, stamp, summary } = entry.data as { serial?: unknown; stamp?: unknown; summary?: unknown };
-      if (typeof serial !== 'string' || typeof stamp !== 'string' || typeof summary !== 'object' || summary === null) continue;
-      boards[serial] = summary as BoardSummary;
-      stamps[serial] = stamp;
-    }
+    replayJournal(journalText, known);
 
-    const onDisk = new Map<string, string>();
-    for (const name of this.#boardNames()) {
-      const serial = name.slice(0, -'.json'.length);
-      const stamp = fileStamp(join(this.boardsDir, name));
-      if (stamp !== null) onDisk.set(serial, stamp);
-    }
-    let changed = snapshot === null || journalText.length > journalLimitBytes;
-    for (const serial of Object.keys(boards)) {
-      if (!onDisk.has(serial)) {
-        delete boards[serial];
-        delete stamps[serial];
-        changed = true;
-      }
-    }
-    const stale = [...onDisk].filter(([serial, stamp]) => stamps[serial] !== stamp);
-    const damaged: { serial: string; message: string }[] = [];
-    let done = 0;
+    const onDisk = this.#scanBoards();
+    for (const serial of known.keys()) if (!onDisk.has(serial)) known.delete(serial);
+    const stale = [...onDisk].filter(([serial, stamp]) => {
+      const k = known.get(serial);
+      return !k || k.broken || k.stamp !== stamp;
+    });
+
+    const damaged: DamagedBoard[] = [];
+    const lines: string[] = [];
+    const shouldCompact = snapshot === null || stale.length > rereadsBeforeCompact || journalText.length > journalLimitBytes;
     if (stale.length > 0) onProgress?.(0, stale.length);
+    let done = 0;
     for (const [serial, stamp] of stale) {
       try {
         const board = await this.readBoard(serial);
         if (board) {
-          boards[serial] = summarizeBoard(board);
-          stamps[serial] = stamp;
-          changed = true;
+          const summary = summarizeBoard(board);
+          known.set(serial, { head: headOf(summary), stamp, full: summary.checks, deltas: [], broken: false });
+          if (!shouldCompact) lines.push(`${toLogJson({ serial, stamp, prev: null, full: true, head: headOf(summary), checks: summary.checks } satisfies JournalLine)}\n`);
         }
       } catch (error) {
         if (!(error instanceof LogDamageError)) throw error;
@@ -127,20 +134,53 @@ export class IndexStore {
       done++;
       if (onProgress && (done % 100 === 0 || done === stale.length)) onProgress(done, stale.length);
     }
-    if (changed) await this.#compact({ schemaVersion: indexSchemaVersion, boards, stamps });
+    if (lines.length > 0) await this.#tryWrite(() => appendFileSync(this.journal, lines.join('')));
+
+    const boards: Record<string, BoardSummary> = {};
+    const checksOf = this.#checksResolver(snapshot);
+    for (const [serial, k] of known) boards[serial] = lazySummary(k.head, () => checksOf(serial, k));
+    if (shouldCompact) await this.#compact(boards, known, snapshot);
     return damaged.length > 0 ? { schemaVersion: indexSchemaVersion, boards, damaged } : { schemaVersion: indexSchemaVersion, boards };
   }
 
-  #boardNames(): string[] {
+  /** How a board's checks are found when asked for: in full, or the snapshot's with the journal's changes on top. */
+  #checksResolver(snapshot: Snapshot | null): (serial: string, k: KnownBoard) => CheckMap {
+    let stored: Record<string, CheckMap> | null | undefined;
+    return (serial, k) => {
+      if (k.full) return k.full;
+      if (stored === undefined) stored = snapshot ? this.#readChecks(snapshot.checksFile) : null;
+      const base = stored?.[serial];
+      if (base === undefined) {
+        // The checks file is gone or lacks this board (a crash mid-compaction): read the board itself.
+        try {
+          const board = readBoardFileSync(join(this.boardsDir, `${serial}.json`), serial);
+          return board ? summarizeBoard(board).checks : {};
+        } catch (error) {
+          if (error instanceof LogDamageError) return {};
+          throw error;
+        }
+      }
+      return Object.assign({}, base, ...k.deltas) as CheckMap;
+    };
+  }
+
+  #scanBoards(): Map<string, string> {
     let names: string[];
     try {
       names = readdirSync(this.boardsDir);
     } catch (error) {
-      if (errorCode(error) === 'ENOENT') return [];
+      if (errorCode(error) === 'ENOENT') return new Map();
       throw error;
     }
-    for (const name of names) if (leftoverPattern.test(name)) this.#removeIfOld(join(this.boardsDir, name));
-    return names.filter((name) => name.endsWith('.json') && validateSerial(name.slice(0, -5)) === null);
+    const stamps = new Map<string, string>();
+    for (const name of names) {
+      if (leftoverPattern.test(name)) this.#removeIfOld(join(this.boardsDir, name));
+      else if (name.endsWith('.json') && validateSerial(name.slice(0, -5)) === null) {
+        const stamp = fileStamp(join(this.boardsDir, name));
+        if (stamp !== null) stamps.set(name.slice(0, -5), stamp);
+      }
+    }
+    return stamps;
   }
 
   /** A temporary file of a writer that was killed mid-write; none lives longer than a write. */
@@ -155,37 +195,81 @@ export class IndexStore {
   #readSnapshot(): Snapshot | null {
     const text = readText(this.file);
     if (text === null) return null;
-    const parsed = fromLogJson(text);
-    // The index is a cache of the board files: a damaged or foreign one is rebuilt, not refused.
-    if (!parsed.ok) return null;
-    const data = parsed.data as Partial<Snapshot> | null;
-    if (!data || data.schemaVersion !== indexSchemaVersion || typeof data.boards !== 'object' || typeof data.stamps !== 'object') return null;
+    let data: Partial<Snapshot> | null;
+    try {
+      data = JSON.parse(text) as Partial<Snapshot> | null;
+    } catch {
+      return null; // the index is a cache of the board files: a damaged one is rebuilt, not refused
+    }
+    if (!data || data.schemaVersion !== indexSchemaVersion || typeof data.boards !== 'object' || typeof data.stamps !== 'object' || typeof data.checksFile !== 'string') return null;
     return data as Snapshot;
   }
 
-  async #compact(snapshot: Snapshot): Promise<void> {
+  #readChecks(name: string): Record<string, CheckMap> | null {
+    if (!checksPattern.test(name)) return null;
+    const text = readText(join(this.dir, name));
+    if (text === null) return null;
     try {
-      await withFileLock(this.file, async () => {
+      const data = JSON.parse(text) as { schemaVersion?: unknown; checks?: Record<string, CheckMap> };
+      if (data.schemaVersion !== indexSchemaVersion || typeof data.checks !== 'object' || data.checks === null) return null;
+      for (const checks of Object.values(data.checks)) reviveChecks(checks);
+      return data.checks;
+    } catch {
+      return null;
+    }
+  }
+
+  async #compact(boards: Record<string, BoardSummary>, known: ReadonlyMap<string, KnownBoard>, before: Snapshot | null): Promise<void> {
+    const heads: Record<string, BoardHead> = {};
+    const stamps: Record<string, string> = {};
+    const checks: Record<string, CheckMap> = {};
+    for (const [serial, k] of known) {
+      heads[serial] = k.head;
+      stamps[serial] = k.stamp;
+      checks[serial] = boards[serial]?.checks ?? {};
+    }
+    const checksFile = `index-checks.${randomBytes(6).toString('hex')}.json`;
+    await this.#tryWrite(() =>
+      withFileLock(this.file, async () => {
         // Lines appended after this move are lost from the journal; their boards'
-        // stamps no longer match the snapshot, so the next read re-reads them.
+        // stamps no longer match the snapshot, so the next read reads them again.
         const aside = `${this.journal}.${process.pid}.old`;
         try {
           renameSync(this.journal, aside);
         } catch (error) {
           if (errorCode(error) !== 'ENOENT') throw error;
         }
-        await new DurableTextFile(this.file).write(toLogJson(snapshot));
-        try {
-          unlinkSync(aside);
-        } catch (error) {
-          if (errorCode(error) !== 'ENOENT') throw error;
+        const replaced = this.#readSnapshot()?.checksFile ?? before?.checksFile;
+        await new DurableTextFile(join(this.dir, checksFile)).write(toLogJson({ schemaVersion: indexSchemaVersion, checks }));
+        await new DurableTextFile(this.file).write(JSON.stringify({ schemaVersion: indexSchemaVersion, boards: heads, stamps, checksFile } satisfies Snapshot));
+        for (const name of [aside, ...readdirSync(this.dir).filter((n) => checksPattern.test(n) && n !== checksFile && n !== replaced).map((n) => join(this.dir, n))]) {
+          try {
+            unlinkSync(name);
+          } catch (error) {
+            if (errorCode(error) !== 'ENOENT') throw error;
+          }
         }
-      });
+      }),
+    );
+  }
+
+  /** Index writes are a cache: on a log opened read-only they are skipped, the index in memory is still right. */
+  async #tryWrite(write: () => unknown): Promise<void> {
+    try {
+      await write();
     } catch (error) {
-      // A log opened read-only (a colleague's folder) still gets a correct index in memory.
       const code = errorCode(error);
       if (code === 'EACCES' || code === 'EROFS' || code === 'EPERM') return;
       throw error;
     }
   }
+}
+
+/** A board summary whose `checks` are looked up the first time they are read. */
+function lazySummary(head: BoardHead, checks: () => CheckMap): BoardSummary {
+  let cached: CheckMap | undefined;
+  return Object.defineProperty({ ...head }, 'checks', {
+    enumerable: true,
+    get: () => (cached ??= checks()),
+  }) as BoardSummary;
 }

@@ -107,18 +107,19 @@ class Store implements LogStore {
   }
 
   /** Read, change and durably write one board under its lock; then note it in the index journal. */
-  async #update<T>(serial: string, change: (board: BoardFile) => { board: BoardFile; result: T }): Promise<T> {
+  async #update<T>(serial: string, change: (board: BoardFile) => { board: BoardFile; result: T; touched?: readonly string[] }): Promise<T> {
     checkSerial(serial);
     const path = this.boardPath(serial);
     const { result, journalBytes } = await withFileLock(path, async () => {
       const db = new Low<BoardFile>(new BoardFileAdapter(path, serial), emptyBoard(serial));
       await db.read();
+      const prev = fileStamp(path);
       const next = change(db.data);
       db.data = next.board;
       await db.write();
       const stamp = fileStamp(path);
       if (stamp === null) throw new Error(`board file ${path} vanished right after it was written`);
-      return { result: next.result, journalBytes: this.#index.noteBoard(next.board, stamp).journalBytes };
+      return { result: next.result, journalBytes: this.#index.noteBoard(next.board, stamp, prev, next.touched ?? []).journalBytes };
     });
     if (journalBytes > journalLimitBytes) await this.#index.read();
     return result;
@@ -163,7 +164,7 @@ class Store implements LogStore {
       const run = board.runs.find((r) => r.id === input.run);
       if (!run) throw new LogInputError(`board ${serial} has no run ${input.run}; start a run first`);
       const reading = readingFrom(input, board, run);
-      return { board: { ...board, readings: [...board.readings, reading] }, result: reading };
+      return { board: { ...board, readings: [...board.readings, reading] }, result: reading, touched: [reading.check] };
     });
   }
 
@@ -177,7 +178,7 @@ class Store implements LogStore {
       if (!run) ({ board, run } = newRun(board, start, new Date().toISOString()));
       const reading = readingFrom({ ...input, run: run.id }, board, run);
       board = { ...board, readings: [...board.readings, reading] };
-      return { board, result: { run, reading, board, startedRun } };
+      return { board, result: { run, reading, board, startedRun }, touched: [reading.check] };
     });
   }
 

@@ -1,4 +1,4 @@
-import { appendFileSync, existsSync, readFileSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
+import { appendFileSync, existsSync, readdirSync, readFileSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterEach, describe, expect, test } from 'vitest';
 import { journalLimitBytes } from '../../src/log/index-store.js';
@@ -121,4 +121,34 @@ describe('the index', () => {
     expect(existsSync(oldTmp)).toBe(false);
     expect(existsSync(newTmp)).toBe(true);
   });
+
+  test('a gap in the journal chain (a middle line lost) makes the reader read that board again', async () => {
+    const log = await seededLog(1);
+    await log.readIndex();
+    const run = (await log.readBoard('IX-000'))?.runs[0]?.id ?? '';
+    await log.appendReading('IX-000', reading(run, 'gap.dc', 5));
+    await log.appendReading('IX-000', reading(run, 'after.dc', 6));
+    const journal = join(log.dir, 'index.journal');
+    const lines = readFileSync(journal, 'utf8').trim().split('\n');
+    expect(lines).toHaveLength(2);
+    // The second line's stamp matches the board file; only its `prev` shows the first is missing.
+    writeFileSync(journal, `${lines[1]}\n`);
+    const index = await log.readIndex();
+    expect(index.boards['IX-000']?.readings).toBe(5);
+    expect(index.boards['IX-000']?.checks['gap.dc']?.latest.value).toBe(5);
+    expect(index.boards['IX-000']?.checks['after.dc']?.latest.value).toBe(6);
+  });
+
+  test('per-check summaries live apart from index.json and are right without their file', async () => {
+    const log = await seededLog(3);
+    const before = JSON.parse(JSON.stringify(await log.readIndex()));
+    const snapshot = JSON.parse(readFileSync(join(log.dir, 'index.json'), 'utf8'));
+    expect(snapshot.boards['IX-000']).not.toHaveProperty('checks');
+    const checksFiles = readdirSync(log.dir).filter((n) => n.startsWith('index-checks.'));
+    expect(checksFiles).toEqual([snapshot.checksFile]);
+    rmSync(join(log.dir, snapshot.checksFile));
+    const after = JSON.parse(JSON.stringify(await openLog(log.dir).then((l) => l.readIndex())));
+    expect(after).toEqual(before);
+  });
 });
+
