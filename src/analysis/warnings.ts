@@ -25,6 +25,12 @@ export function designWarnings(plan: Plan, nominal: ChainDetail): DesignWarning[
     out.push({ stage: 'rails', message: 'no idleCurrent.max in the plan: set the limit you will put on the bench supply for first power' });
   }
 
+  for (const rail of plan.rails) {
+    if (rail.tol === 0) {
+      out.push({ stage: 'rails', message: `rail ${rail.id} has no tolerance, so its band is a single value no reading can meet: give the regulator's, e.g. "tol": "5%"` });
+    }
+  }
+
   for (const stage of plan.stages) {
     if (!opampKinds.has(stage.kind)) continue;
     // The supply ceiling is per rail, |V+| and |V−| (common practice, no source: general-purpose parts stop at about ±15 V).

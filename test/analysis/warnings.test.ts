@@ -48,6 +48,15 @@ describe('design warnings', () => {
     expect(set.warnings.some((w) => w.message.includes('can reach 15.45 V at the top of its tolerance'))).toBe(true);
   });
 
+  test('a rail without a tolerance', () => {
+    const rails = [
+      { id: '+12V', nominal: '12 V' },
+      { id: '-12V', nominal: '-12 V', tol: '2%' },
+    ];
+    const set = computeTargets(plan({ rails }), { trials: 200 });
+    expect(set.warnings.filter((w) => w.stage === 'rails').map((w) => w.message)).toEqual([expect.stringContaining('rail +12V has no tolerance')]);
+  });
+
   test('a stage that cannot oscillate (R1 ≥ R2) warns through its own stage id', () => {
     const set = computeTargets(plan({ osc: { parts: { R1: '33k 1%', R2: '22k 1%', Rt: '22k 1%', Ct: '8n2 5%' } } }), { trials: 200 });
     expect(set.warnings.some((w) => w.stage === 'osc')).toBe(true);

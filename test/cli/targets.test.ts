@@ -62,6 +62,43 @@ describe('probebook targets: bad input exits 2 with one line', () => {
   });
 });
 
+describe('probebook targets: options', () => {
+  test('--help prints the usage and exits 0', async () => {
+    const r = await run(['targets', '--help']);
+    expect(r.status).toBe(0);
+    expect(r.stdout).toContain('--spread');
+  });
+
+  test('--spread uniform and --seed change the statistical band, --log is accepted', async () => {
+    const plan = join(dir, 'div.plan.json');
+    writeFileSync(
+      plan,
+      JSON.stringify({
+        plan: 'div',
+        title: 'divider (invented values)',
+        rails: [{ id: '+12V', nominal: '12 V', tol: '1%' }],
+        idleCurrent: { max: '5 mA' },
+        stages: [{ id: 'ref', kind: 'divider', from: '+12V', parts: { Rtop: '10k 1%', Rbottom: '10k 1%' } }],
+      }),
+    );
+    const stat = async (...extra: string[]) => {
+      const r = await run(['targets', 'div.plan.json', '--json', '--trials', '4000', '--log', dir, ...extra]);
+      expect(r.status).toBe(0);
+      const json = JSON.parse(r.stdout) as { targets: { check: string; stat: { min: number; max: number }; worst: { min: number; max: number } }[] };
+      return json.targets.find((t) => t.check === 'ref.out.dc');
+    };
+    const normal = await stat();
+    const uniform = await stat('--spread', 'uniform');
+    const seeded = await stat('--seed', '99');
+    // Uniform parts spread wider than normal ones with tolerance = 3σ; the worst case does not depend on the spread.
+    expect((uniform?.stat.max ?? 0) - (uniform?.stat.min ?? 0)).toBeGreaterThan((normal?.stat.max ?? 0) - (normal?.stat.min ?? 0));
+    expect(uniform?.worst).toEqual(normal?.worst);
+    expect(seeded?.stat).not.toEqual(normal?.stat);
+    // Closed form: 12 V · 1.01 · 10.1k / (9.9k + 10.1k).
+    expect(normal?.worst.max).toBeCloseTo((12.12 * 10_100) / 20_000, 10);
+  });
+});
+
 describe('band formatting', () => {
   test('one prefix for both ends, one-sided bands, fractions as percent', () => {
     expect(formatBand(5.8806, 6.1206, 'V')).toBe('5.881 … 6.121 V');
