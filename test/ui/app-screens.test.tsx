@@ -1,4 +1,6 @@
 import { afterEach, describe, expect, test } from 'vitest';
+import type { BenchLog } from '../../src/log/types.js';
+import type { Plan } from '../../src/plan/types.js';
 import { keys } from './keys.js';
 import { type RenderedApp, renderApp, seedBoard } from './render-app.js';
 
@@ -11,7 +13,7 @@ afterEach(async () => {
 const rail = (value: number, verdict: 'pass' | 'fail' = 'pass') => ({ check: 'rails.+12V.dc', value, unit: 'V' as const, raw: value.toFixed(2), verdict });
 
 /** Three boards of the fixture plan; FX-0003's +12 V rail reads far out. */
-async function threeBoards(a: { log: RenderedApp['log'] }, plan: RenderedApp['plans'][number]) {
+async function threeBoards(a: { log: BenchLog }, plan: Plan) {
   await seedBoard(a.log, plan, 'FX-0001', [rail(12.01)], 'passed');
   await seedBoard(a.log, plan, 'FX-0002', [rail(11.98)], 'passed');
   await seedBoard(a.log, plan, 'FX-0003', [rail(13.9, 'fail')], 'failed');
