@@ -18,7 +18,7 @@ export interface BoardListProps {
 function layout(width: number) {
   const showWhen = width >= 64;
   const showCounts = width >= 90;
-  const fixed = 2 + 14 + (showWhen ? 18 : 0) + (showCounts ? 22 : 0);
+  const fixed = 2 + 14 + (showWhen ? 18 : 0) + (showCounts ? 24 : 0);
   const serial = Math.max(8, Math.min(24, Math.floor((width - fixed) * 0.55)));
   const plan = Math.max(6, width - fixed - serial - 1);
   return { showWhen, showCounts, serial, plan: Math.min(plan, 24) };
@@ -33,7 +33,7 @@ export function BoardList({ boards, start, rows, selected, width }: BoardListPro
     cell('plan', col.plan + 1) +
     (col.showWhen ? cell('last run', 18) : '') +
     cell('state', 14) +
-    (col.showCounts ? cell('runs', 6, 'right') + cell('readings', 10, 'right') + cell('rework', 6, 'right') : '');
+    (col.showCounts ? cell('runs', 6, 'right') + cell('readings', 10, 'right') + cell('rework', 8, 'right') : '');
   return (
     <Box flexDirection="column">
       <Text bold wrap="truncate-end">
@@ -49,7 +49,7 @@ export function BoardList({ boards, start, rows, selected, width }: BoardListPro
             {cell(b.plan ?? '—', col.plan + 1)}
             {col.showWhen ? cell(formatWhen(b.lastRunAt), 18) : ''}
             <Text {...(isSelected ? {} : toneProps(stateTone[b.state]))}>{cell(state, 14)}</Text>
-            {col.showCounts ? cell(String(b.runs), 6, 'right') + cell(String(b.readings), 10, 'right') + cell(String(b.rework), 6, 'right') : ''}
+            {col.showCounts ? cell(String(b.runs), 6, 'right') + cell(String(b.readings), 10, 'right') + cell(String(b.rework), 8, 'right') : ''}
           </Text>
         );
       })}

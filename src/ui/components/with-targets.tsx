@@ -19,7 +19,7 @@ type Loaded = { kind: 'loading'; what: string } | { kind: 'ready'; plan: Plan; t
 
 /**
  * Find a plan by hash and compute its targets, showing a line while the Monte
- * Carlo runs (a frame is drawn first: the computation blocks the event loop).
+ * Carlo runs (drawn first: the computation blocks the event loop for a moment).
  */
 export function WithTargets({ catalog, planHash, children, onExit, isActive = true }: WithTargetsProps) {
   const [state, setState] = useState<Loaded>({ kind: 'loading', what: 'finding the plan…' });
@@ -38,6 +38,7 @@ export function WithTargets({ catalog, planHash, children, onExit, isActive = tr
         return;
       }
       setState({ kind: 'loading', what: `computing the targets of ${plan.plan} (worst case and Monte Carlo)…` });
+      // Later than Ink's 30 fps render throttle, so the line above is on screen first.
       setTimeout(() => {
         if (!isLive) return;
         try {
@@ -45,7 +46,7 @@ export function WithTargets({ catalog, planHash, children, onExit, isActive = tr
         } catch (error) {
           setState({ kind: 'error', message: error instanceof Error ? error.message : String(error) });
         }
-      }, 15);
+      }, 60);
     })().catch((error: unknown) => isLive && setState({ kind: 'error', message: error instanceof Error ? error.message : String(error) }));
     return () => {
       isLive = false;
