@@ -104,8 +104,8 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
     const statMin = quantileSorted(sorted, statCoverage.low);
     const statMax = quantileSorted(sorted, statCoverage.high);
     // The statistical band may never lie outside the worst case: widen by the sampled extremes.
-    const lo = Math.min(worst.min[i] as number, sorted[0] ?? Number.NaN, nominal);
-    const hi = Math.max(worst.max[i] as number, sorted[sorted.length - 1] ?? Number.NaN, nominal);
+    const lo = finiteMin(worst.min[i] as number, sorted[0] ?? Number.NaN, nominal);
+    const hi = finiteMax(worst.max[i] as number, sorted[sorted.length - 1] ?? Number.NaN, nominal);
     const missing = samples.missing[i] ?? 0;
     if (missing > 0) {
       const entry = gaps.get(c.stage) ?? { most: 0, checks: [] };
@@ -116,7 +116,7 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
     return {
       ...base,
       nominal,
-      worst: { min: nanIfNot(lo), max: nanIfNot(hi) },
+      worst: { min: lo, max: hi },
       stat: { min: statMin, max: statMax },
       // A hand-written target's spread is its own band, not any part's.
       contributors: stage?.kind === 'manual' ? [] : contributorsOf(chain, perSigma, i, nominal),
@@ -142,6 +142,15 @@ function formatPercentOf(part: number, whole: number): string {
   return `${pct < 1 ? pct.toPrecision(1) : Math.round(pct)} %`;
 }
 
-function nanIfNot(v: number): number {
-  return Number.isFinite(v) ? v : Number.NaN;
+/** The least finite value (Math.min would turn one NaN into a NaN band); NaN when none is finite. */
+function finiteMin(...values: number[]): number {
+  let m = Infinity;
+  for (const v of values) if (Number.isFinite(v) && v < m) m = v;
+  return m === Infinity ? Number.NaN : m;
+}
+
+function finiteMax(...values: number[]): number {
+  let m = -Infinity;
+  for (const v of values) if (Number.isFinite(v) && v > m) m = v;
+  return m === -Infinity ? Number.NaN : m;
 }

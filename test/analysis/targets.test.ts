@@ -204,6 +204,26 @@ describe('engine properties', () => {
     expect(Number.isFinite(f?.stat.min)).toBe(true);
   });
 
+  test('a check without a nominal value still gets the band of the trials that work', () => {
+    // Unclamped oscillator with R1 just above R2: it latches at nominal but runs where R1 < R2 (invented values).
+    const text = JSON.stringify({
+      plan: 'edge',
+      title: 'oscillator on the edge (invented values)',
+      rails: [
+        { id: '+12V', nominal: '12 V', tol: '2%' },
+        { id: '-12V', nominal: '-12 V', tol: '2%' },
+      ],
+      stages: [{ id: 'osc', kind: 'schmitt-integrator', parts: { R1: '22.2k 1%', R2: '22k 1%', Rt: '10k 1%', Ct: '10n 5%' } }],
+    });
+    const set = computeTargets(loadPlanText(text, 'edge.plan.json'), { trials: 2000 });
+    const f = set.targets.find((t) => t.check === 'osc.freq');
+    expect(Number.isNaN(f?.nominal)).toBe(true);
+    expect(Number.isFinite(f?.worst.min)).toBe(true);
+    expect(Number.isFinite(f?.worst.max)).toBe(true);
+    expect(f?.stat.min).toBeGreaterThanOrEqual(f?.worst.min ?? Infinity);
+    expect(set.warnings.some((w) => w.stage === 'osc' && w.message.includes('osc.freq has no nominal value'))).toBe(true);
+  });
+
   test('bad trial counts are refused', () => {
     expect(() => computeTargets(plan, { trials: 0 })).toThrow(RangeError);
   });
