@@ -19,6 +19,8 @@ export interface CaptureAttachResult {
   /** The measured channel, volts. */
   readonly samples: Float64Array;
   readonly sampleRate: number;
+  /** One period averaged over the whole periods, from a rising mean-level crossing (empty when none). */
+  readonly period: Float64Array;
 }
 
 export interface CaptureAttachProps {
@@ -44,7 +46,7 @@ export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd =
     const current = latest.current.phase;
     if (current.kind !== 'done') return;
     const { analyzed, path } = current;
-    onDone({ path, bytes: analyzed.bytes ?? new Uint8Array(0), measurements: analyzed.measurements, samples: analyzed.channel.samples, sampleRate: analyzed.capture.sampleRate });
+    onDone({ path, bytes: analyzed.bytes ?? new Uint8Array(0), measurements: analyzed.measurements, samples: analyzed.channel.samples, sampleRate: analyzed.capture.sampleRate, period: analyzed.period });
   };
   useCaptureAttachKeys(latest, { type, erase, complete, load, back, attach, cancel: onCancel }, isActive);
 
