@@ -3,6 +3,7 @@ import { join } from 'node:path';
 import { afterEach, beforeAll, describe, expect, test } from 'vitest';
 import type { TargetSet } from '../../src/analysis/types.js';
 import type { Plan } from '../../src/plan/types.js';
+import { shortCautions } from '../../src/ui/bring-up/cautions.js';
 import { loadFixture, renderBringUp, tempLog } from './bring-up-harness.js';
 import { keys } from './keys.js';
 
@@ -37,6 +38,17 @@ async function fillRun(tmp: Awaited<ReturnType<typeof tempLog>>, serial: string,
 }
 
 describe('bring-up screen: list, capture, end of run', () => {
+  test('on a small terminal every caution is still shown whole, in its short form', async () => {
+    const { open } = await setup();
+    const s = await open({ width: 60, height: 16 });
+    const frame = await s.until('Cautions before first power');
+    const lines = frame.split('\n');
+    expect(lines.length).toBeLessThanOrEqual(16);
+    for (const line of lines) expect([...line].length).toBeLessThanOrEqual(60);
+    const text = frame.replace(/[║╔╗╚╝═]/g, ' ').replace(/\s+/g, ' ');
+    for (const c of shortCautions) expect(text).toContain(c);
+  });
+
   test('Tab to the stage list; a locked check says why; j/k and Enter pick an open one', async () => {
     const { open } = await setup();
     const s = await open();

@@ -12,6 +12,16 @@ export const cautions: readonly string[] = [
   'These notes do not replace local electrical codes, your lab rules or licensed practice: follow those first.',
 ];
 
+/** The same cautions in a few words each, for terminals too small for the full text. */
+export const shortCautions: readonly string[] = [
+  'First power: a current-limited supply only.',
+  'Check every rail\'s polarity before connecting.',
+  'Hot parts burn: wait or measure before touching.',
+  'Discharge big capacitors before touching.',
+  'Mains: covers on, isolated supply, no earthed probe.',
+  'Local codes and licensed practice come first.',
+];
+
 /** What to do when the idle current is above its limit. */
 export const powerOffSteps: readonly string[] = [
   'Switch the supply off now.',

@@ -1,21 +1,26 @@
 import { Box, Text } from 'ink';
 import { toneProps } from '../theme.js';
-import { cautions, powerOffSteps } from './cautions.js';
+import { cautions, powerOffSteps, shortCautions } from './cautions.js';
 
 /** The cautions at the start of a sitting; Enter acknowledges them. */
 export function CautionsPanel({ width, height, isResumed }: { readonly width: number; readonly height: number; readonly isResumed: boolean }) {
-  const shown = cautions.slice(0, Math.max(1, height - 4));
+  // Full text when it fits wrapped in the box, else the short forms: never cut a caution off mid-sentence.
+  const inner = Math.max(10, width - 6);
+  const rowsOf = (list: readonly string[]) => list.reduce((n, c) => n + Math.ceil((c.length + 2) / inner), 0);
+  const isFull = rowsOf(cautions) + 5 <= height;
+  const shown = isFull ? cautions : shortCautions;
+  const isWrapped = isFull || rowsOf(shortCautions) + 5 <= height;
   return (
     <Box flexDirection="column" borderStyle="double" paddingX={1} width={width}>
       <Text bold {...toneProps('warn')}>
         ! Cautions before first power{isResumed ? ' (resumed run: check the bench again)' : ''}
       </Text>
       {shown.map((c) => (
-        <Text key={c} wrap={height >= 20 ? 'wrap' : 'truncate-end'}>
+        <Text key={c} wrap={isWrapped ? 'wrap' : 'truncate-end'}>
           • {c}
         </Text>
       ))}
-      <Text bold>Enter: I have read these — start with the unpowered checks · Esc: back</Text>
+      <Text bold wrap="truncate-end">{width >= 80 ? 'Enter: I have read these — start with the unpowered checks · Esc: back' : 'Enter: read — start unpowered checks · Esc: back'}</Text>
     </Box>
   );
 }
