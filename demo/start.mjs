@@ -4,7 +4,7 @@
 // whenever it is missing; delete the folder for a fresh one. PROBEBOOK_DEMO_LOG
 // puts it elsewhere (the real-terminal test uses a temporary folder).
 import { spawnSync } from 'node:child_process';
-import { existsSync, readdirSync, statSync } from 'node:fs';
+import { existsSync, readdirSync, renameSync, rmSync, statSync } from 'node:fs';
 import { dirname, join, relative, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -38,7 +38,12 @@ if (!existsSync(bundle) || statSync(bundle).mtimeMs < newest(join(root, 'src')))
 }
 if (!existsSync(join(logDir, 'boards'))) {
   console.log(`probebook demo: writing the invented demo log to ${relative(process.cwd(), logDir) || logDir} …`);
-  run(['--import', 'tsx', 'demo/make-demo-log.ts', logDir], 'writing the demo log');
+  // Written beside it and renamed into place, so an interrupted run leaves no half log behind.
+  const partial = `${logDir}.partial-${process.pid}`;
+  rmSync(partial, { recursive: true, force: true });
+  run(['--import', 'tsx', 'demo/make-demo-log.ts', partial], 'writing the demo log');
+  rmSync(logDir, { recursive: true, force: true });
+  renameSync(partial, logDir);
 }
 const args = [bundle, '--log', logDir, ...plans.flatMap((p) => ['--plan', join(root, p)]), ...process.argv.slice(2)];
 const result = spawnSync(process.execPath, args, { stdio: 'inherit' });

@@ -113,7 +113,7 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
   return (
     <Box flexDirection="column" width={width}>
       {screen}
-      {isConfirming ? <ConfirmQuit reason="A reading is half typed" onQuit={() => exit()} onStay={() => setConfirming(false)} /> : null}
+      {isConfirming ? <ConfirmQuit reason="A reading or a rework note is half typed" onQuit={() => exit()} onStay={() => setConfirming(false)} /> : null}
     </Box>
   );
 }
