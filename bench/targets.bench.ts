@@ -72,3 +72,23 @@ console.log(`one-divider chain, same trials:                                ${ms
 console.log(`divider stage evaluate alone, same count:                      ${ms(median(divStage))}`);
 console.log(`ratio computeTargets / divider evaluations:                    ${(median(full) / median(divStage)).toFixed(1)}×`);
 console.log(`ratio Monte Carlo / one-divider chain:                         ${(median(mcOnly) / median(divChain)).toFixed(1)}×`);
+
+// Where the time goes: each stage's own evaluate at nominal, µs per call.
+const detail = chain.detail(chain.nominal);
+const perStage: string[] = [];
+for (const s of plan.stages) {
+  const parts: Record<string, number> = {};
+  for (const [role, p] of Object.entries(s.parts)) parts[role] = p.nominal;
+  const input = s.input ? detail.outputs[`${s.input.stage}.${s.input.output}`] : undefined;
+  const rails = Object.fromEntries(plan.rails.map((r) => [r.id, r.nominal]));
+  const supplies = { pos: Math.max(0, ...plan.rails.map((r) => r.nominal)), neg: Math.min(0, ...plan.rails.map((r) => r.nominal)) };
+  const base = { parts, settings: s.settings, opamp: s.opamp, supplies, rails };
+  const arg = input ? { ...base, input } : base;
+  const n = 1000;
+  for (let i = 0; i < 100; i++) s.module.evaluate(arg);
+  const t = time(() => {
+    for (let i = 0; i < n; i++) s.module.evaluate(arg);
+  });
+  perStage.push(`${s.id} (${s.kind}) ${((t / n) * 1000).toFixed(1)} µs`);
+}
+console.log(`per stage evaluate: ${perStage.join(', ')}`);
