@@ -128,7 +128,21 @@ export function batchTable(f: BatchFigures, filter: BatchFilter): string {
   return `${lines.join('\n')}\n`;
 }
 
+/** What `batch --help` prints. */
+export const batchHelpText = `${usage}
+  the latest reading of each check on each board: n, pass/marginal/fail, mean, sd,
+  min, max, Cp and Cpk against the worst-case band, first-pass and final yield;
+  the table lists the weakest check first, --json prints {"checks":[…]} in plan order.
+  --plan ID      one plan            --rev HASH   one plan revision (4+ hex digits)
+  --check ID     one check           --from/--to  date range of the latest reading
+                                                  (2026-11-30 or 2026-11-30T14:00:00Z, UTC)
+`;
+
 export const batchCommand: Command = async (argv, io) => {
+  if (argv.includes('--help') || argv.includes('-h')) {
+    io.stdout(batchHelpText);
+    return 0;
+  }
   const args = parseArgs(argv, { options: { ...batchOptions, json: 'boolean' }, usage });
   const { figures, filter } = await runBatch(args.options, io);
   if (args.options.json) io.stdout(`${JSON.stringify(batchJson(figures, describeFilter(filter)))}\n`);

@@ -13,6 +13,10 @@ const usage = 'probebook report --batch --format md|csv [--plan ID] [--rev HASH]
  * Markdown to read, or CSV (RFC 4180) with the same figures as `batch --json`.
  */
 export const reportBatchCommand: Command = async (argv, io) => {
+  if (argv.includes('--help') || argv.includes('-h')) {
+    io.stdout(`${usage}\n  md: a report to read and file; csv: one row per check with the batch --json figures (RFC 4180).\n  The filters are those of probebook batch (see probebook batch --help).\n`);
+    return 0;
+  }
   const args = parseArgs(argv, { options: { ...batchOptions, batch: 'boolean', format: 'string' }, usage });
   const format = args.options.format;
   if (format === undefined) throw new UsageError(`--format is needed: md for a readable report, csv for a spreadsheet; usage: ${usage}`);

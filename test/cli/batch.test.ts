@@ -95,3 +95,14 @@ describe('batch table', () => {
     expect(r.stdout).toContain('0 boards');
   });
 });
+
+describe('help', () => {
+  test('batch --help and report --batch --help print the options and exit 0', async () => {
+    const b = await run(['batch', '--help']);
+    expect(b.status).toBe(0);
+    expect(b.stdout).toContain('--from/--to');
+    const r = await run(['report', '--batch', '--help']);
+    expect(r.status).toBe(0);
+    expect(r.stdout).toContain('--format md|csv');
+  });
+});

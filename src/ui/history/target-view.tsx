@@ -36,7 +36,8 @@ export function TargetView({ entry, bands }: TargetViewProps) {
         <Text {...toneProps('warn')}>The plan snapshot {r.planHash.slice(0, 12)} is not in the log, or has no such check: the target cannot be shown.</Text>
       )}
       <Text> </Text>
-      <Text>{`reading      ${r.id} at ${shortTime(r.at)} UTC by ${r.operator}, typed "${r.raw}"`}</Text>
+      <Text wrap="truncate-end">{`reading      ${r.id}, typed "${r.raw}"`}</Text>
+      <Text wrap="truncate-end">{`when         ${shortTime(r.at)} UTC by ${r.operator}`}</Text>
       <Text {...toneProps(verdictTone[r.verdict])}>
         {`value        ${show(r.value)}  ${verdictMark[r.verdict]} ${r.verdict}`}
         {entry.deviation !== null ? `  deviation ${formatPercent(entry.deviation)}` : ''}
