@@ -75,11 +75,14 @@ export function detectDialect(text: string, complete: boolean, name: string): Cs
   const names: string[] = [];
   const units: string[] = [];
   const header = findHeader(lines, start, c.delimiter, columns);
+  const clean = (f: string | undefined): string => f?.trim().replace(/^"|"$/g, '') ?? '';
+  // Some exports put the units on a line of their own under the names (`X,CH1` then `Second,Volt`).
+  const unitLine = header && header.every((f) => unitNames.test(clean(f))) ? header : undefined;
+  const nameLine = unitLine ? findHeader(lines, start - 1 - blankBefore(lines, start), c.delimiter, columns) : header;
   for (let i = 0; i < columns; i++) {
-    const raw = header?.[i]?.trim().replace(/^"|"$/g, '') ?? '';
-    const { label, unit } = splitUnit(raw);
+    const { label, unit } = splitUnit(clean(nameLine?.[i]));
     names.push(label !== '' ? label : `CH${i + 1}`);
-    units.push(unit);
+    units.push(unitLine ? unitSymbol(clean(unitLine[i])) : unit);
   }
   const preambleDt = findPreambleDt(lines.slice(0, start));
   return {
@@ -91,6 +94,24 @@ export function detectDialect(text: string, complete: boolean, name: string): Cs
     units,
     ...(preambleDt !== undefined ? { preambleDt } : {}),
   };
+}
+
+/** Blank lines right before line `start`. */
+function blankBefore(lines: readonly string[], start: number): number {
+  let n = 0;
+  while (start - 1 - n >= 0 && (lines[start - 1 - n] ?? '').trim() === '') n++;
+  return n;
+}
+
+const unitNames = /^(s|sec|second|seconds|ms|us|µs|ns|v|volt|volts|mv|uv|µv|a|amp|amps|ma)$/i;
+
+/** `Second` → `s`, `Volt` → `V`; a symbol stays as written. */
+function unitSymbol(word: string): string {
+  const lower = word.toLowerCase();
+  if (/^(sec|second|seconds)$/.test(lower)) return 's';
+  if (/^(volt|volts)$/.test(lower)) return 'V';
+  if (/^(amp|amps)$/.test(lower)) return 'A';
+  return word;
 }
 
 function findHeader(lines: readonly string[], start: number, delimiter: string, columns: number): string[] | undefined {

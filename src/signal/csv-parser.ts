@@ -11,7 +11,7 @@ const TAB = 9;
 const headBytes = 64 * 1024;
 
 function isTimeColumn(name: string, unit: string): boolean {
-  return unitScale(unit, 's') !== undefined || /^(time|t|sec|secs|seconds|x-axis)$/i.test(name.trim());
+  return unitScale(unit, 's') !== undefined || /^(time|t|sec|secs|second|seconds|x-axis|x)$/i.test(name.trim());
 }
 
 /**
@@ -206,7 +206,9 @@ export class CsvParser {
       const unit = scale !== undefined ? (unitScale(written, 'V') !== undefined ? 'V' : 'A') : written === '' ? 'V' : written;
       channels.push({ name: d.names[c] ?? `CH${c + 1}`, unit, samples });
     }
-    return { channels, sampleRate: 1 / dt, dt, source: `${name} (CSV, ${channels.length} channel${channels.length === 1 ? '' : 's'})`, warnings };
+    // 1/dt from a time column carries rounding (200000.00000000003): 12 digits are plenty.
+    const sampleRate = Number((1 / dt).toPrecision(12));
+    return { channels, sampleRate, dt: 1 / sampleRate, source: `${name} (CSV, ${channels.length} channel${channels.length === 1 ? '' : 's'})`, warnings };
   }
 }
 

@@ -40,6 +40,13 @@ describe('CSV dialects', () => {
     expect(d.sampleRate).toBeCloseTo(1000, 9);
   });
 
+  test('units on their own line under the names', () => {
+    const c = read('X,CH1,CH2\nSecond,Volt,mV\n0,1,1000\n0.001,-2,-2000\n0.002,3,3000\n');
+    expect(c.sampleRate).toBe(1000);
+    expect(c.channels.map((ch) => `${ch.name} ${ch.unit}`)).toEqual(['CH1 V', 'CH2 V']);
+    expect(Array.from(c.channels[1]?.samples ?? [])).toEqual([1, -2, 3]);
+  });
+
   test('one column needs --dt, and says so', () => {
     expect(() => read('1\n2\n3\n')).toThrow(/give the sample interval with --dt/);
     expect(read('1\n2\n3\n', { dt: 1e-6 }).channels[0]?.samples.length).toBe(3);
