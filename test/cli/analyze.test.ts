@@ -65,7 +65,7 @@ describe('probebook analyze --json (DESIGN §7 contract)', () => {
   test('WAV with --scale', async () => {
     const out = JSON.parse((await run('osc-interface.wav', '--json', '--scale', '5', '--channel', '1')).stdout) as Record<string, number>;
     // The demo triangle has a 2.3 V peak (invented), 16-bit PCM at 5 V full scale.
-    expect(Math.abs(out.vpp - 4.6)).toBeLessThan(0.02);
+    expect(Math.abs((out.vpp ?? 0) - 4.6)).toBeLessThan(0.02);
     expect(out.sampleRate).toBe(48000);
   });
 });
