@@ -102,16 +102,34 @@ export function buildChain(plan: Plan): Chain {
   });
 
   let nominalResults: (EvalOutput | undefined)[] | undefined;
+  // The hot path (keep = false) refills these objects in place instead of building new ones per
+  // trial: stage kinds are pure functions of their input and keep no reference to it.
+  const hotRails: Record<string, number> = Object.fromEntries(railIds.map((id) => [id, 0]));
+  const hotSupplies = { pos: 0, neg: 0 };
+  const hotArgs = stagePlans.map((sp) => {
+    const parts: Record<string, number> = Object.fromEntries(sp.roles.map((r) => [r, 0]));
+    return { parts, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies: hotSupplies as Supplies, rails: hotRails } as { parts: Record<string, number>; settings: unknown; opamp: PlanStage['opamp']; supplies: Supplies; rails: Record<string, number>; input?: Waveform };
+  });
+  const hotResults: (EvalOutput | undefined)[] = new Array(stagePlans.length);
+
   const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length, reuse = 0, capture?: (EvalOutput | undefined)[]): ChainDetail => {
-    const rails: Record<string, number> = {};
+    const rails: Record<string, number> = keep ? {} : hotRails;
     for (let i = 0; i < railIds.length; i++) {
       const v = x[i] ?? Number.NaN;
       rails[railIds[i] ?? ''] = v;
       const o = railDcOut[i] ?? -1;
       if (out && o >= 0) out[o] = v;
     }
-    const supplies: Supplies = { pos: posIdx >= 0 ? (x[posIdx] ?? 0) : 0, neg: negIdx >= 0 ? (x[negIdx] ?? 0) : 0 };
-    const results: (EvalOutput | undefined)[] = capture ?? new Array(stagePlans.length);
+    const pos = posIdx >= 0 ? (x[posIdx] ?? 0) : 0;
+    const neg = negIdx >= 0 ? (x[negIdx] ?? 0) : 0;
+    let supplies: Supplies;
+    if (keep) supplies = { pos, neg };
+    else {
+      hotSupplies.pos = pos;
+      hotSupplies.neg = neg;
+      supplies = hotSupplies;
+    }
+    const results: (EvalOutput | undefined)[] = capture ?? (keep ? new Array(stagePlans.length) : hotResults);
     // The hot path (keep = false) allocates only what the stages need.
     const values: Record<string, number> = keep ? {} : noValues;
     const outputs: Record<string, Waveform> = keep ? {} : noOutputs;
@@ -119,16 +137,17 @@ export function buildChain(plan: Plan): Chain {
     const failures: { stage: string; message: string }[] = keep ? [] : noList;
     for (let s = 0; s < upTo; s++) {
       const sp = stagePlans[s] as StagePlan;
-      const parts: Record<string, number> = {};
-      for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
       let input: Waveform | undefined;
       if (sp.inputStage >= 0) input = results[sp.inputStage]?.outputs[sp.stage.input?.output ?? ''];
       let result: EvalOutput | undefined;
       if (s < reuse) result = nominalResults?.[s];
       else if (sp.inputStage < 0 || input) {
         try {
-          const base = { parts, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies, rails };
-          result = sp.stage.module.evaluate(input ? { ...base, input } : base);
+          const args = keep ? { parts: {} as Record<string, number>, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies, rails } : (hotArgs[s] as NonNullable<(typeof hotArgs)[number]>);
+          const parts = args.parts;
+          for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
+          if (input && !keep) args.input = input;
+          result = sp.stage.module.evaluate(input && keep ? { ...args, input } : args);
         } catch (error) {
           if (keep) failures.push({ stage: sp.stage.id, message: error instanceof Error ? error.message : String(error) });
         }
