@@ -20,7 +20,7 @@ export interface BatchAccumulator {
 
 /** Start a batch scan over index boards with the bands of their plan snapshots. */
 export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filter: BatchFilter = {}): BatchAccumulator {
-  const groups = new Map<string, Group>();
+  const groups = new Map<string | null, Map<string, Group>>();
   let boards = 0;
   let firstPassBoards = 0;
   let finalPassBoards = 0;
@@ -28,6 +28,9 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
   return {
     add(board) {
       if (!boardMatches(board, filter)) return;
+      // Groups by plan, then by check id: the ids are the index's own keys, so no key strings are built per reading.
+      let byCheck = groups.get(board.plan);
+      if (!byCheck) groups.set(board.plan, (byCheck = new Map()));
       let any = false;
       let firstOk = true;
       let finalOk = true;
@@ -37,9 +40,8 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
         any = true;
         if (summary.first.verdict !== 'pass') firstOk = false;
         if (summary.latest.verdict !== 'pass') finalOk = false;
-        const key = `${board.plan ?? ''}\u0000${check}`;
-        let group = groups.get(key);
-        if (!group) groups.set(key, (group = { plan: board.plan, check, points: [] }));
+        let group = byCheck.get(check);
+        if (!group) byCheck.set(check, (group = { plan: board.plan, check, points: [] }));
         group.points.push({
           serial: board.serial,
           value: summary.latest.value,
@@ -57,7 +59,7 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
       if (own && filter.check === undefined && own.order.some((c) => !(c in board.checks))) incomplete++;
     },
     finish(problems = []) {
-      const checks = [...groups.values()].map((g) => checkFigures(g, bands));
+      const checks = [...groups.values()].flatMap((byCheck) => [...byCheck.values()].map((g) => checkFigures(g, bands)));
       checks.sort(planOrder(bands));
       return {
         boards,
@@ -165,11 +167,16 @@ function checkFigures(group: Group, bands: ReadonlyMap<string, SnapshotBands>): 
 /** A check's worst-case band per plan revision, looked up once per revision (a batch has few). */
 function revisionBands(check: string, bands: ReadonlyMap<string, SnapshotBands>): (revision: string) => Band | undefined {
   const memo = new Map<string, Band | undefined>();
+  let last: string | null = null;
+  let lastBand: Band | undefined;
   return (revision) => {
-    if (memo.has(revision)) return memo.get(revision);
+    // Nearly every board of a batch shares one revision: answer that one without a lookup.
+    if (revision === last) return lastBand;
+    last = revision;
+    if (memo.has(revision)) return (lastBand = memo.get(revision));
     const band = bands.get(revision)?.bands.get(check)?.worst;
     memo.set(revision, band);
-    return band;
+    return (lastBand = band);
   };
 }
 
