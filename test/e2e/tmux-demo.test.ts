@@ -105,5 +105,25 @@ describe('npm start in a real terminal', () => {
     keys('q');
     frame = await screen('probebook exited 0');
     expect(frame).not.toContain('Error');
+
+    // The demo's story of the wrong capacitor, as the log holds it: the frequency
+    // fails about a decade low, Ct is reworked, the frequency is read again and passes.
+    const ex = JSON.parse(await readFile(join(demoLog, 'boards', 'EXB-0106.json'), 'utf8')) as {
+      readings: { check: string; value: number; verdict: string; at: string }[];
+      rework: { part: string; at: string }[];
+      runs: { outcome: string }[];
+    };
+    const freq = ex.readings.filter((r) => r.check === 'osc.freq');
+    expect(freq.map((r) => r.verdict)).toEqual(['fail', 'pass']);
+    // Sedra/Smith: the ideal period is 4·R1·R·C/R2, so ×10 on C gives a tenth of the
+    // frequency; the comparator's slew time (a fixed 4·Vsat/SR per period) pulls the
+    // ratio somewhat above 1/10, never below.
+    const ratio = (freq[0]?.value ?? NaN) / (freq[1]?.value ?? NaN);
+    expect(ratio).toBeGreaterThan(0.09);
+    expect(ratio).toBeLessThan(0.2);
+    expect(ex.rework.map((w) => w.part)).toEqual(['osc.Ct']);
+    expect((ex.rework[0]?.at ?? '') > (freq[0]?.at ?? '')).toBe(true);
+    expect((ex.rework[0]?.at ?? '') < (freq[1]?.at ?? '')).toBe(true);
+    expect(ex.runs.map((r) => r.outcome)).toEqual(['passed']);
   }, 240_000);
 });

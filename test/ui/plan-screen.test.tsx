@@ -21,16 +21,33 @@ const clippingTargets = computeTargets(clipping, { trials: 400, seed: 1 });
 let instance: ReturnType<typeof render> | undefined;
 afterEach(() => instance?.unmount());
 
-const settle = () => new Promise((r) => setTimeout(r, 40));
+const settle = () => new Promise((r) => setTimeout(r, 30));
 async function show(width: number, height: number, p = plan, t = targets) {
   let exits = 0;
-  instance = render(<PlanScreen plan={p} targets={t} width={width} height={height} onExit={() => void exits++} />);
-  await settle();
+  const view = render(<PlanScreen plan={p} targets={t} width={width} height={height} onExit={() => void exits++} />);
+  instance = view;
+  const frame = () => view.lastFrame() ?? '';
+  /** Poll until the condition holds (a loaded machine can be slow to draw), then return the frame. */
+  const until = async (test: (f: string) => boolean, what: string) => {
+    const deadline = Date.now() + 5000;
+    while (!test(frame())) {
+      if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}; the screen shows:\n${frame()}`);
+      await new Promise((r) => setTimeout(r, 10));
+    }
+    await settle();
+    return frame();
+  };
+  await until((f) => f.includes('probebook · plan'), 'the plan screen');
   return {
-    frame: () => instance?.lastFrame() ?? '',
+    frame,
+    until,
+    /** Send keys, each followed by its frame (or a short wait when nothing changes). */
     press: async (...sequence: string[]) => {
       for (const key of sequence) {
-        instance?.stdin.write(key);
+        const before = view.frames.length;
+        view.stdin.write(key);
+        const deadline = Date.now() + 1000;
+        while (view.frames.length === before && Date.now() < deadline) await new Promise((r) => setTimeout(r, 5));
         await settle();
       }
     },
@@ -103,7 +120,9 @@ describe('plan screen', () => {
     await s.press(keys.escape);
     expect(s.frame()).toContain('Design warnings');
     expect(s.exits()).toBe(0);
-    await s.press(keys.escape);
+    instance?.stdin.write(keys.escape);
+    const deadline = Date.now() + 5000;
+    while (s.exits() === 0 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 10));
     expect(s.exits()).toBe(1);
   });
 

@@ -15,7 +15,7 @@ export function formatBand(band: Band, unit: Unit, digits = 4): string {
 /** The largest contributor as `osc.Ct 62 %`, or `—`. */
 export function formatContributor(c: Contributor | undefined): string {
   if (!c) return '—';
-  return `${c.part} ${Math.round(c.share * 100)} %`;
+  return `${c.part} ${Math.round(c.share * 100)}%`;
 }
 
 /** The nominal, or for one-sided limits (no expected value) a dash. */

@@ -18,11 +18,12 @@ export interface TargetsTableProps {
 export function tableLayout(width: number) {
   const showStat = width >= 104;
   const band = width >= 90 ? 24 : 22;
-  const tp = 6;
+  const tp = 5;
   const nominal = 11;
   const fixed = 2 + tp + nominal + band + (showStat ? band : 0);
   const rest = Math.max(20, width - fixed);
-  const check = Math.max(14, Math.min(30, Math.floor(rest * 0.6)));
+  // The contributor gets room for `osc.clamp.vz 100%`; the check id takes the rest.
+  const check = Math.max(14, Math.min(30, rest - 18));
   const contributor = Math.max(6, rest - check);
   return { showStat, band, tp, nominal, check, contributor };
 }
