@@ -28,7 +28,19 @@ export const analyzeCommand: Command = async (argv, io) => {
     usage,
   });
   if (options.help) {
-    io.stdout(`usage: ${usage}\n  --dt      sample interval for files without a time column (e.g. 1us)\n  --scale   volts at WAV full scale (default 1)\n  --channel channel number (from 1) or header name\n`);
+    io.stdout(
+      [
+        `usage: ${usage}`,
+        '  --json     the figures as JSON, SI units, fractions for duty and THD',
+        '  --expect   warn (and add "mismatch") when the capture is not that shape, or is clipped or notched',
+        '  --channel  channel number (from 1) or header name; default the first',
+        '  --dt       sample interval for files without a time column (e.g. 1us)',
+        '  --scale    volts at WAV full scale (default 1)',
+        'duty, rise, fall and overshoot are given for a square only (null otherwise);',
+        'mean and RMS are over whole periods; THD is harmonics 2–50 (below half the sample rate) over the fundamental.',
+        '',
+      ].join('\n'),
+    );
     return 0;
   }
   const file = positionals[0];

@@ -95,8 +95,8 @@ export class CsvParser {
     const perRow = Math.max(4, Math.min(all.length, headBytes * 2) / headRows);
     this.expectedRows = this.totalBytes > 0 ? Math.ceil((this.totalBytes / perRow) * 1.02) + 16 : 1024;
     for (let i = 0; i < dialect.columns; i++) this.columns.push(new GrowableF64(i === this.timeColumn ? 0 : this.expectedRows));
-    // Skip the preamble lines, then parse the rest of the head as data.
-    let pos = 0;
+    // Skip a UTF-8 byte-order mark and the preamble lines, then parse the rest of the head as data.
+    let pos = all[0] === 0xef && all[1] === 0xbb && all[2] === 0xbf ? 3 : 0;
     for (let skipped = 0; skipped < dialect.skipLines; skipped++) {
       const nl = all.indexOf(LF, pos);
       if (nl < 0) {

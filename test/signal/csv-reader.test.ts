@@ -40,6 +40,11 @@ describe('CSV dialects', () => {
     expect(d.sampleRate).toBeCloseTo(1000, 9);
   });
 
+  test('a UTF-8 byte-order mark before the first row', () => {
+    const c = readCaptureBytes(new Uint8Array([0xef, 0xbb, 0xbf, ...bytes('0,1\n1e-3,2\n2e-3,3\n')]), { name: 'bom.csv' });
+    expect(Array.from(c.channels[0]?.samples ?? [])).toEqual([1, 2, 3]);
+  });
+
   test('units on their own line under the names', () => {
     const c = read('X,CH1,CH2\nSecond,Volt,mV\n0,1,1000\n0.001,-2,-2000\n0.002,3,3000\n');
     expect(c.sampleRate).toBe(1000);
