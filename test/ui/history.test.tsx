@@ -82,6 +82,25 @@ describe('history screen', () => {
     s.unmount();
   });
 
+  test('a capture on the timeline is re-drawn as a trace', async () => {
+    // An invented 1 kHz sine, 2 V peak, 200 samples over 2 ms, as a scope's CSV.
+    const rows = Array.from({ length: 200 }, (_, i) => `${(i * 1e-5).toExponential(6)},${(2 * Math.sin(2 * Math.PI * 1000 * i * 1e-5)).toFixed(5)}`);
+    const bytes = new TextEncoder().encode(`time,ch1\n${rows.join('\n')}\n`);
+    const { file } = await t.log.saveCapture(bytes, 'sine.csv');
+    await t.log.linkCapture('PB-0005', { file, name: 'sine.csv', at: new Date().toISOString(), check: 'osc.freq', run: null });
+    const s = screen('PB-0005');
+    await s.waitFor('Timeline');
+    await s.press('G');
+    await s.waitFor('›');
+    expect(s.frame()).toMatch(/›.*∿ capture sine\.csv for osc\.freq/);
+    await s.press(keys.enter);
+    await s.waitFor('200 samples');
+    // The trace's axis spans the sine's ±2 V peaks.
+    expect(s.frame()).toMatch(/2(\.0+)? V/);
+    expect(s.frame()).toMatch(/-2(\.0+)? V|−2(\.0+)? V/);
+    s.unmount();
+  });
+
   test('? opens a help box listing the keys; an unknown board says so', async () => {
     const s = screen('PB-0001');
     await s.waitFor('Timeline');
