@@ -1,12 +1,12 @@
 import { Box, Text } from 'ink';
-import { useMemo } from 'react';
+import { memo, useMemo } from 'react';
 import { judge } from '../../run/assess.js';
 import { lockReason, openChecks } from '../../run/gates.js';
 import { scopeSetup } from '../../run/scope-setup.js';
 import { traceChart } from '../charts/trace.js';
 import { Header } from '../components/header.js';
 import { HelpBox } from '../components/help-box.js';
-import { KeyBar } from '../components/key-bar.js';
+import { KeyBar, type KeyHint } from '../components/key-bar.js';
 import type { BringUpProps } from '../screen-props.js';
 import { toneProps } from '../theme.js';
 import { bringUpHelp, bringUpNotes } from './bring-up-help.js';
@@ -25,6 +25,10 @@ import { reworkDefaults } from './rework-defaults.js';
 import { VerdictPanel } from './verdict-panel.js';
 import { endOptions } from '../../run/gates.js';
 
+const MemoHeader = memo(Header);
+const MemoKeyBar = memo(KeyBar);
+const keyHints: readonly KeyHint[] = [['Tab', 'list/input'], ['r', 'rework'], ['a', 'capture'], ['e', 'end run'], ['Esc', 'back'], ['?', 'help']];
+
 /** The bring-up screen: walks one board through every check in a safe order. */
 export function BringUpScreen(props: BringUpProps) {
   const { plan, targets, serial, width, height, isActive = true, onExit } = props;
@@ -33,11 +37,12 @@ export function BringUpScreen(props: BringUpProps) {
   const keys = useBringUpKeys(b, { isActive, onExit, onDirtyChange: props.onDirtyChange, reworkDefaults: () => reworkDefaults(plan, b.explanationRef.current.explanations) });
   const outputs = useMemo(() => nominalOutputs(plan), [plan]);
   const trace = useMemo(() => (target ? expectedTrace(plan, targets.targets, target, outputs) : null), [plan, targets, target, outputs]);
-  const scope = target?.instrument === 'scope' && trace ? scopeSetup(trace.frequency, trace.vpp) : null;
+  const scope = useMemo(() => (target?.instrument === 'scope' && trace ? scopeSetup(trace.frequency, trace.vpp) : null), [target, trace]);
   const last = state.last;
   const lastTarget = b.lastTarget;
-  const result = last && lastTarget ? judge(plan, lastTarget, last.value) : null;
-  const checkRows = 4 + (scope ? 1 : 0) + (target && lockReason(state, target.check) ? 1 : 0);
+  const result = useMemo(() => (last && lastTarget ? judge(plan, lastTarget, last.value) : null), [plan, last, lastTarget]);
+  const lock = useMemo(() => (target ? lockReason(state, target.check) : null), [state, target]);
+  const checkRows = 4 + (scope ? 1 : 0) + (lock ? 1 : 0);
   const wanted = result ? 2 + Math.min(3, b.explanation.explanations.length) + Math.min(2, b.explanation.hints.length) + (result.warnings.length > 0 ? 1 : 0) : 0;
   const labelWidth = Math.max(...state.targets.map((t) => t.check.length - t.stage.length - 1), 8);
   const layout = bringUpLayout(width, height, checkRows, wanted, labelWidth);
@@ -71,7 +76,7 @@ export function BringUpScreen(props: BringUpProps) {
             </>
           ) : (
             <>
-              {target ? <CheckPanel plan={plan} target={target} scope={scope} lock={lockReason(state, target.check)} width={layout.panelWidth} /> : <Text>no check selected</Text>}
+              {target ? <CheckPanel plan={plan} target={target} scope={scope} lock={lock} width={layout.panelWidth} /> : <Text>no check selected</Text>}
               {keys.focus === 'rework' ? <ReworkForm {...keys.rework} parts={knownParts(plan)} width={layout.panelWidth} /> : null}
               {keys.focus === 'end' ? <EndPanel options={endOptions(state)} cursor={keys.endCursor} width={layout.panelWidth} isAllMeasured={openChecks(state).length === 0} /> : null}
               {chart ? <Text>{chart}</Text> : null}
@@ -86,9 +91,9 @@ export function BringUpScreen(props: BringUpProps) {
   })();
   return (
     <Box flexDirection="column" width={width}>
-      <Header screen="bring-up" detail={`${serial} · ${plan.plan}`} note={`${done}/${state.targets.length} read${b.runId ? ` · run ${b.runId}` : ''}`} width={width} />
+      <MemoHeader screen="bring-up" detail={`${serial} · ${plan.plan}`} note={`${done}/${state.targets.length} read${b.runId ? ` · run ${b.runId}` : ''}`} width={width} />
       {body}
-      <KeyBar hints={[['Tab', 'list/input'], ['r', 'rework'], ['a', 'capture'], ['e', 'end run'], ['Esc', 'back'], ['?', 'help']]} width={width} />
+      <MemoKeyBar hints={keyHints} width={width} />
     </Box>
   );
 }

@@ -1,4 +1,5 @@
 import { Box, Text } from 'ink';
+import { memo } from 'react';
 import type { Target } from '../../analysis/types.js';
 import { uncertaintyFor } from '../../analysis/verdict.js';
 import type { Plan } from '../../plan/types.js';
@@ -26,7 +27,7 @@ function guardBand(plan: Plan, target: Target): string {
 }
 
 /** The current check: where and how to measure it, and what it should read. */
-export function CheckPanel({ plan, target, scope, lock, width }: CheckPanelProps) {
+function CheckPanelView({ plan, target, scope, lock, width }: CheckPanelProps) {
   const where = target.testPoint ? `at ${target.testPoint}` : 'no test point';
   const nominal = Number.isFinite(target.nominal) ? formatValue(target.nominal, target.unit) : '—';
   return (
@@ -56,3 +57,6 @@ export function CheckPanel({ plan, target, scope, lock, width }: CheckPanelProps
     </Box>
   );
 }
+
+/** Memoised: it changes with the check, not with each key typed. */
+export const CheckPanel = memo(CheckPanelView);

@@ -1,4 +1,5 @@
 import { Box, Text } from 'ink';
+import { memo } from 'react';
 import type { Target } from '../../analysis/types.js';
 import { currentReading, lockReason } from '../../run/gates.js';
 import type { RunState } from '../../run/types.js';
@@ -29,7 +30,7 @@ export function checkMark(state: RunState, target: Target): { mark: string; tone
 type Row = { readonly heading: string } | { readonly index: number };
 
 /** The checks grouped by stage, each with its mark; scrolls to keep the cursor in view. */
-export function StageList({ state, cursor, isFocused = false, width, height }: StageListProps) {
+function StageListView({ state, cursor, isFocused = false, width, height }: StageListProps) {
   const rows: Row[] = [];
   let stage = '';
   state.targets.forEach((t, index) => {
@@ -67,3 +68,6 @@ export function StageList({ state, cursor, isFocused = false, width, height }: S
     </Box>
   );
 }
+
+/** Memoised: typing in the input line leaves the list as it is, so it is not rendered again. */
+export const StageList = memo(StageListView);

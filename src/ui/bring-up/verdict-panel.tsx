@@ -1,4 +1,5 @@
 import { Box, Text } from 'ink';
+import { memo } from 'react';
 import type { Target, VerdictResult } from '../../analysis/types.js';
 import type { RunReading } from '../../run/types.js';
 import { formatPercent, formatValue } from '../../units/format.js';
@@ -43,7 +44,7 @@ function position(result: VerdictResult): string {
 }
 
 /** The verdict on the latest reading: word and mark, deviation, and on a fail or marginal the likely causes. */
-export function VerdictPanel({ reading, target, result, explanations, hints, maxLines, width }: VerdictPanelProps) {
+function VerdictPanelView({ reading, target, result, explanations, hints, maxLines, width }: VerdictPanelProps) {
   const gauge = bandGauge(result.position);
   const head = 2 + (result.warnings.length > 0 ? 1 : 0);
   const room = Math.max(0, maxLines - head);
@@ -78,3 +79,6 @@ export function VerdictPanel({ reading, target, result, explanations, hints, max
     </Box>
   );
 }
+
+/** Memoised: it changes with each reading, not with each key typed. */
+export const VerdictPanel = memo(VerdictPanelView);
