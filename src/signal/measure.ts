@@ -76,7 +76,7 @@ export function measure(x: Float64Array, sampleRate: number): MeasureResult {
 
   const harmonicPeriods = Math.max(2, Math.min(periods, Math.floor(maxHarmonicSamples / period)));
   const h = harmonicAnalysis(x, from, period, harmonicPeriods, m.mean);
-  const points = Math.max(64, Math.min(1024, Math.round(period)));
+  const points = Math.max(256, Math.min(1024, Math.round(period)));
   const averaged = averagePeriod(x, start, period, Math.min(periods, Math.max(1, Math.floor((1 << 20) / points))), points);
   const features = shapeFeatures(averaged);
   const shape = classify(features, h.amplitudes, h.thd);

@@ -133,6 +133,33 @@ describe('shape, clipping and notch', () => {
     expect(m.notch).toBe(false);
   });
 
+  test('shape is stable under noise, with no false clipping or notch (property)', () => {
+    fc.assert(
+      fc.property(
+        fc.constantFrom(['sine', sine], ['square', square], ['triangle', triangle]),
+        fc.double({ min: 20, max: 2500, noNaN: true }),
+        fc.integer({ min: 3, max: 40 }),
+        fc.constantFrom(0, 0.01, 0.03, 0.05),
+        fc.integer({ min: 1, max: 1e6 }),
+        ([name, shape], samplesPerPeriod, periods, noise, seed) => {
+          const m = measure(sampled(shape, Math.ceil(samplesPerPeriod * periods), samplesPerPeriod, { noise, seed }), fs).measurements;
+          expect(m.shape).toBe(name);
+          expect(m.clipped).toBe(false);
+          expect(m.notch).toBe(false);
+        },
+      ),
+      { numRuns: 40 },
+    );
+  });
+
+  test('a 10 % duty square still arms the crossings', () => {
+    const m = measure(sampled((p) => (p < 0.1 ? 1 : -1), n, period, { noise: 0.01 }), fs).measurements;
+    expect(m.shape).toBe('square');
+    // By construction: high for 10 % of the period at fs / period.
+    expect(Math.abs((m.duty ?? 0) - 0.1)).toBeLessThan(2e-3);
+    expect(Math.abs((m.frequency ?? 0) / (fs / period) - 1)).toBeLessThan(1e-4);
+  });
+
   test('a sine clipped at 85 % of its peak has flat tops', () => {
     const m = measure(sampled((p) => Math.max(-0.85, Math.min(0.85, sine(p))), n, period, { noise: 0.005 }), fs).measurements;
     expect(m.clipped).toBe(true);
