@@ -5,7 +5,7 @@
 // grow; for contrast, one JSON file holding every reading, rewritten per
 // append. Figures and ratios from one run; nothing here fails a build.
 // Usage: npm run bench -- log   (or: node --import tsx bench/log.bench.ts 10 1000)
-import { closeSync, fsyncSync, mkdirSync, mkdtempSync, openSync, readFileSync, rmSync, writeFileSync, writeSync } from 'node:fs';
+import { closeSync, fsyncSync, mkdirSync, mkdtempSync, openSync, readFileSync, renameSync, rmSync, writeFileSync, writeSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../src/cli/main.js';
@@ -70,8 +70,14 @@ interface Row {
   boards: number;
   rebuild: number;
   open: number;
+  /** CPU time of the open (user + system): what the machine's load does not inflate. */
+  openCpu: number;
   median: number;
   p99: number;
+  /** CPU time per append. */
+  appendCpu: number;
+  /** The disk floor measured just before these appends. */
+  floor: number;
   history: number;
   indexMb: number;
 }
@@ -96,28 +102,37 @@ for (const count of boardCounts) {
     const indexMb = readFileSync(join(dir, 'index.json')).length / 1e6;
 
     const log = await openLog(dir);
+    const floorHere = rawReplace();
     const lat: number[] = [];
+    const cpu0 = process.cpuUsage();
     for (let i = 0; i < appends; i++) {
       const serial = serials[(i * 7919) % serials.length] as string;
       const t0 = performance.now();
       await log.appendReading(serial, { run: `u-bench${((i * 7919) % serials.length).toString(36)}`, check: `stage${i % checks}.out.dc`, value: 1.05, unit: 'V', raw: '1.05', operator: 'bench', verdict: 'pass', planHash });
       lat.push(performance.now() - t0);
     }
+    const cpuUsed = process.cpuUsage(cpu0);
+    const appendCpu = (cpuUsed.user + cpuUsed.system) / 1000 / appends;
     lat.sort((a, b) => a - b);
 
     // Opening the index as the bench screen does: a fresh store, snapshot plus the journal of those appends.
     const opens: number[] = [];
+    const openCpus: number[] = [];
     for (let i = 0; i < 3; i++) {
       const o0 = performance.now();
+      const c0 = process.cpuUsage();
       await (await openLog(dir)).readIndex();
+      const c = process.cpuUsage(c0);
       opens.push(performance.now() - o0);
+      openCpus.push((c.user + c.system) / 1000);
     }
     opens.sort((a, b) => a - b);
+    openCpus.sort((a, b) => a - b);
 
     const h: number[] = [];
     for (let i = 0; i < 5; i++) h.push(await timeCommand(['history', serials[i % serials.length] as string, '--json', '--log', dir]));
     h.sort((a, b) => a - b);
-    rows.push({ boards: count, rebuild, open: quantile(opens, 0.5), median: quantile(lat, 0.5), p99: quantile(lat, 0.99), history: quantile(h, 0.5), indexMb });
+    rows.push({ boards: count, rebuild, open: quantile(opens, 0.5), openCpu: quantile(openCpus, 0.5), median: quantile(lat, 0.5), p99: quantile(lat, 0.99), appendCpu, floor: floorHere, history: quantile(h, 0.5), indexMb });
   } finally {
     // PROBEBOOK_BENCH_KEEP=1 keeps the folders for a closer look.
     if (process.env.PROBEBOOK_BENCH_KEEP) process.stdout.write(`  kept ${dir}\n`);
@@ -149,16 +164,40 @@ function singleFileAppend(readings: number): number {
   }
 }
 
+/** The floor under any durable append on this disk right now: replace a 20 kB file (write, fsync, rename, fsync folder). */
+function rawReplace(): number {
+  const dir = mkdtempSync(join(tmpdir(), 'probebook-bench-raw-'));
+  try {
+    const body = 'x'.repeat(20_000);
+    const lat: number[] = [];
+    for (let i = 0; i < 50; i++) {
+      const t0 = performance.now();
+      const fd = openSync(join(dir, 'f.tmp'), 'w');
+      writeSync(fd, body);
+      fsyncSync(fd);
+      closeSync(fd);
+      renameSync(join(dir, 'f.tmp'), join(dir, 'f.json'));
+      const d = openSync(dir, 'r');
+      fsyncSync(d);
+      closeSync(d);
+      lat.push(performance.now() - t0);
+    }
+    return quantile(lat.sort((a, b) => a - b), 0.5);
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
 const base = rows[0];
-process.stdout.write(`\nboards   readings  append median  append p99  per-reading ratio  history --json  open index  index rebuild  index.json\n`);
+process.stdout.write(`\nboards   readings  append median (cpu)  p99       disk floor  median/floor  history --json  open index (cpu)     index rebuild  index.json\n`);
 for (const r of rows) {
   process.stdout.write(
-    `${String(r.boards).padStart(6)}  ${String(r.boards * perBoard).padStart(8)}  ${ms(r.median).padStart(13)}  ${ms(r.p99).padStart(10)}  ${`×${(r.median / (base?.median ?? r.median)).toFixed(2)}`.padStart(17)}  ${ms(r.history).padStart(14)}  ${ms(r.open).padStart(10)}  ${ms(r.rebuild).padStart(13)}  ${`${r.indexMb.toFixed(1)} MB`.padStart(10)}\n`,
+    `${String(r.boards).padStart(6)}  ${String(r.boards * perBoard).padStart(8)}  ${`${ms(r.median)} (${ms(r.appendCpu)})`.padStart(19)}  ${ms(r.p99).padStart(8)}  ${ms(r.floor).padStart(10)}  ${`×${(r.median / r.floor).toFixed(2)}`.padStart(12)}  ${ms(r.history).padStart(14)}  ${`${ms(r.open)} (${ms(r.openCpu)})`.padStart(19)}  ${ms(r.rebuild).padStart(13)}  ${`${r.indexMb.toFixed(1)} MB`.padStart(10)}\n`,
   );
 }
 const last = rows.at(-1);
-if (last) {
-  process.stdout.write(`goals at ${last.boards} boards: append median ${ms(last.median)} (goal < 5 ms), open index ${ms(last.open)} (goal < 200 ms)\n`);
+if (base && last) {
+  process.stdout.write(`per-reading cost from ${base.boards} to ${last.boards} boards: append cpu ×${(last.appendCpu / base.appendCpu).toFixed(2)}, append median ×${(last.median / base.median).toFixed(2)}\n`);
+  process.stdout.write(`goals at ${last.boards} boards: append median ${ms(last.median)} (goal < 5 ms), open index ${ms(last.open)} (goal < 200 ms); on a loaded machine compare the cpu figures and the ratio to the disk floor\n`);
 }
 process.stdout.write('\none file with every reading, rewritten per append (the layout not taken):\n');
 for (const n of [10_000, 100_000]) {

@@ -52,11 +52,10 @@ function ensureFolder(path: string): void {
   if (!statSync(path).isDirectory()) throw new Error(`log folder ${path} is a file, not a folder; pass another --log DIR`);
 }
 
-function readingFrom(input: ReadingInput, board: BoardFile, run: Run | undefined): Reading {
+function readingFrom(input: ReadingInput, run: Run | undefined): Reading {
   const warnings = [...(input.warnings ?? [])];
   if (run?.ended) warnings.push(`recorded after its run ${run.id} ended (${run.ended})`);
   if (run && run.planHash !== input.planHash) warnings.push(`the plan changed since run ${run.id} started (run ${run.planHash.slice(0, 8)}, reading ${input.planHash.slice(0, 8)})`);
-  void board;
   return {
     id: newId('r'),
     run: input.run,
@@ -163,7 +162,7 @@ class Store implements LogStore {
     return this.#update(serial, (board) => {
       const run = board.runs.find((r) => r.id === input.run);
       if (!run) throw new LogInputError(`board ${serial} has no run ${input.run}; start a run first`);
-      const reading = readingFrom(input, board, run);
+      const reading = readingFrom(input, run);
       return { board: { ...board, readings: [...board.readings, reading] }, result: reading, touched: [reading.check] };
     });
   }
@@ -176,7 +175,7 @@ class Store implements LogStore {
       let run = [...board.runs].reverse().find((r) => r.ended === null);
       const startedRun = run === undefined;
       if (!run) ({ board, run } = newRun(board, start, new Date().toISOString()));
-      const reading = readingFrom({ ...input, run: run.id }, board, run);
+      const reading = readingFrom({ ...input, run: run.id }, run);
       board = { ...board, readings: [...board.readings, reading] };
       return { board, result: { run, reading, board, startedRun }, touched: [reading.check] };
     });
