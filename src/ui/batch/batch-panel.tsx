@@ -1,4 +1,5 @@
 import { Box, Text } from 'ink';
+import { useMemo } from 'react';
 import type { BatchCheck } from '../../review/batch-types.js';
 import { fig } from '../../review/format.js';
 import { trendOf } from '../../review/trend.js';
@@ -19,14 +20,17 @@ export interface BatchPanelProps {
 
 /** The selected check's histogram, trend or outlier boards. */
 export function BatchPanel({ check: c, panel, outlierSelected, height, width }: BatchPanelProps) {
-  if (panel === 'histogram') {
-    return <Text>{histogramChart(c.points.map((p) => p.value), { width, height: Math.max(1, height - 4), band: c.band, nominal: c.nominal, unit: c.unit })}</Text>;
-  }
-  if (panel === 'trend') {
-    const labelWidth = 11;
-    const series = trendOf(c.points, Math.max(2, width - labelWidth - 3));
-    return <Text>{trendChart(series.values, { height: Math.max(2, height - 2), band: c.band, nominal: c.nominal, unit: c.unit, labelWidth })}</Text>;
-  }
+  // Charts of 10,000 boards are drawn once per check and size, not on every key.
+  const chart = useMemo(() => {
+    if (panel === 'histogram') return histogramChart(c.points.map((p) => p.value), { width, height: Math.max(1, height - 4), band: c.band, nominal: c.nominal, unit: c.unit });
+    if (panel === 'trend') {
+      const labelWidth = 11;
+      const series = trendOf(c.points, Math.max(2, width - labelWidth - 3));
+      return trendChart(series.values, { height: Math.max(2, height - 2), band: c.band, nominal: c.nominal, unit: c.unit, labelWidth });
+    }
+    return null;
+  }, [c, panel, width, height]);
+  if (chart !== null) return <Text>{chart}</Text>;
   if (c.outliers.length === 0) return <Text>No outlier boards: every latest reading is inside its band and within 3σ of the mean.</Text>;
   const { start, end } = scrollWindow(c.outliers.length, outlierSelected, height - 1, outlierSelected - Math.floor(height / 2));
   return (
