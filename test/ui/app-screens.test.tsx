@@ -1,3 +1,5 @@
+import { readFile, writeFile } from 'node:fs/promises';
+import { join } from 'node:path';
 import { afterEach, describe, expect, test } from 'vitest';
 import type { BenchLog } from '../../src/log/types.js';
 import type { Plan } from '../../src/plan/types.js';
@@ -132,6 +134,21 @@ describe('bench screen', () => {
     expect(rows().length).toBeLessThanOrEqual(23);
     await app.press('g');
     expect(selected()).toBe(first);
+  });
+
+  test('a damaged board file is reported, left untouched, and the other boards still listed', async () => {
+    const damaged = '{"schemaVersion": 1, "serial": "FX-0009", "runs": [';
+    app = await renderApp({
+      setup: async (log, [plan]) => {
+        if (!plan) throw new Error('no plan');
+        await threeBoards({ log }, plan);
+        await writeFile(join(log.dir, 'boards', 'FX-0009.json'), damaged);
+      },
+    });
+    await app.waitFor('1 board file cannot be read');
+    expect(app.frame()).toContain('FX-0001');
+    expect(app.frame()).toContain('probebook · bench · 3 boards');
+    expect(await readFile(join(app.dir, 'boards', 'FX-0009.json'), 'utf8')).toBe(damaged);
   });
 
   test('follows the terminal when it is resized', async () => {

@@ -31,7 +31,7 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
   const state = useBenchState(log, catalog, go, initialSerial, onSelect);
   const { mode, boards, selected, message } = state;
   const dialogRows = mode.kind === 'new-serial' ? 6 : mode.kind === 'choose-plan' ? mode.choices.length + 3 : mode.kind === 'confirm-run' ? 4 : 0;
-  const listRows = Math.max(1, height - 5 - dialogRows);
+  const listRows = Math.max(1, height - 5 - dialogRows - (state.damaged.length > 0 ? 1 : 0));
   useBenchKeys(state, listRows, isActive);
   const isTyping = mode.kind === 'new-serial' || mode.kind === 'filter';
   useEffect(() => onTypingChange?.(isTyping), [isTyping, onTypingChange]);
@@ -45,7 +45,14 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
   return (
     <Box flexDirection="column" width={width} height={height}>
       <Header screen="bench" detail={count} note={log.dir} width={width} isNoteTail />
-      {state.isLoading ? <Text>Reading the log index…</Text> : null}
+      {state.isLoading ? (
+        <Text>Reading the log index…{state.progress ? ` ${state.progress.done} of ${state.progress.total} board files re-read` : ''}</Text>
+      ) : null}
+      {state.damaged.length > 0 ? (
+        <Text wrap="truncate-end" {...toneProps('bad')}>
+          ✗ {state.damaged.length === 1 ? '1 board file cannot be read' : `${state.damaged.length} board files cannot be read`} (left untouched): {state.damaged[0]?.message}
+        </Text>
+      ) : null}
       {state.loadError ? <Text {...toneProps('bad')}>✗ {state.loadError}</Text> : null}
       {!state.isLoading && state.total === 0 ? (
         <Text>No boards in this log yet. Press n to enter the first board’s serial.</Text>

@@ -42,8 +42,13 @@ export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTarg
 
   // The board to select on arrival is read once: the selection itself updates it later.
   const arrival = useRef(initialSerial);
+  const [progress, setProgress] = useState<{ done: number; total: number } | null>(null);
   useEffect(() => {
-    log.readIndex().then(
+    // The store reports progress while it rebuilds a stale index (thousands of
+    // boards); the BenchLog interface leaves the callback out, so pass it loosely:
+    // a log that takes no callback ignores it.
+    const readIndex = log.readIndex as (onProgress?: (done: number, total: number) => void) => Promise<LogIndex>;
+    readIndex.call(log, (done, total) => mounted.current && setProgress({ done, total })).then(
       (ix) => {
         if (!mounted.current) return;
         setIndex(ix);
@@ -171,6 +176,10 @@ export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTarg
 
   return {
     isLoading: index === null && loadError === null,
+    /** Boards re-read so far while the index is rebuilt, or null. */
+    progress,
+    /** Board files the log could not read, with the store's message for each. */
+    damaged: index?.damaged ?? [],
     loadError,
     total: all.length,
     boards,
