@@ -3,7 +3,7 @@ import type { Target, TargetSet } from '../../src/analysis/types.js';
 import type { Plan } from '../../src/plan/types.js';
 import { scopeSetup } from '../../src/run/scope-setup.js';
 import type { Measurements } from '../../src/signal/types.js';
-import { captureReadings } from '../../src/ui/bring-up/capture-readings.js';
+import { captureReadings, captureWarnings } from '../../src/ui/bring-up/capture-readings.js';
 import { shapeOf } from '../../src/ui/bring-up/capture-slot.js';
 import { expectedTrace, nominalOutputs, outputOf } from '../../src/ui/bring-up/expected-trace.js';
 import { bandGauge, formatBand } from '../../src/ui/bring-up/format-band.js';
@@ -71,6 +71,11 @@ describe('capture figures to readings', () => {
     expect(got.map((r) => r.check).sort()).toEqual(['osc.duty', 'osc.freq', 'osc.square.vpp']);
     expect(got.find((r) => r.check === 'osc.square.vpp')).toMatchObject({ value: 15.5, unit: 'V', verdict: 'pass' });
     expect(got.find((r) => r.check === 'osc.freq')?.raw).toMatch(/from tp1\.csv/);
+  });
+  test('names a wrong shape, clipping and a crossover notch', () => {
+    expect(captureWarnings({ shape: 'square', clipped: false, notch: false }, 'sine')).toEqual(['the capture looks like a square where a sine is expected']);
+    expect(captureWarnings({ shape: 'sine', clipped: true, notch: true }, 'sine')).toHaveLength(2);
+    expect(captureWarnings({ shape: 'other', clipped: false, notch: false }, undefined)).toEqual([]);
   });
   test('skips figures that do not apply and checks that are locked', () => {
     const got = captureReadings(fixture.plan, fixture.targets.targets, target('osc.freq'), capture({ duty: null }), (c) => c !== 'osc.square.vpp');

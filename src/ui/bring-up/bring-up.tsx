@@ -37,6 +37,7 @@ export function BringUpScreen(props: BringUpProps) {
   const keys = useBringUpKeys(b, { isActive, onExit, onDirtyChange: props.onDirtyChange, reworkDefaults: () => reworkDefaults(plan, b.explanationRef.current.explanations) });
   const outputs = useMemo(() => nominalOutputs(plan), [plan]);
   const trace = useMemo(() => (target ? expectedTrace(plan, targets.targets, target, outputs) : null), [plan, targets, target, outputs]);
+  const shape = useMemo(() => (trace ? shapeOf(trace.samples) : undefined), [trace]);
   const scope = useMemo(() => (target?.instrument === 'scope' && trace ? scopeSetup(trace.frequency, trace.vpp) : null), [target, trace]);
   const last = state.last;
   const lastTarget = b.lastTarget;
@@ -72,7 +73,7 @@ export function BringUpScreen(props: BringUpProps) {
           {keys.focus === 'capture' && target ? (
             <>
               <Text bold wrap="truncate-end">capture for {target.check}{target.testPoint ? ` at ${target.testPoint}` : ''}</Text>
-              <CaptureSlot expect={trace ? shapeOf(trace.samples) : undefined} width={layout.panelWidth} onDone={(c) => { keys.closeCapture(); void b.attachCapture(c); }} onCancel={keys.closeCapture} />
+              <CaptureSlot expect={shape} width={layout.panelWidth} onDone={(c) => { keys.closeCapture(); void b.attachCapture(c, shape); }} onCancel={keys.closeCapture} />
             </>
           ) : (
             <>

@@ -47,6 +47,12 @@ function StatusLine({ status }: { readonly status: Status }) {
           ✓ {status.message}
         </Text>
       );
+    case 'warning':
+      return (
+        <Text wrap="wrap" {...toneProps('warn')}>
+          ! {status.message}
+        </Text>
+      );
     case 'error':
       return (
         <Text wrap="truncate-end" {...toneProps('bad')}>

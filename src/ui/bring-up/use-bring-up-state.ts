@@ -9,7 +9,7 @@ import { runReducer } from '../../run/reducer.js';
 import type { EndOutcome, RunAction, RunState } from '../../run/types.js';
 import { useLiveState } from './use-live-state.js';
 import type { BringUpProps } from '../screen-props.js';
-import { type CaptureFigures, captureReadings } from './capture-readings.js';
+import { type CaptureFigures, captureReadings, captureWarnings } from './capture-readings.js';
 import { outputOf } from './expected-trace.js';
 import { toRunReading, toRunRework } from './to-run-records.js';
 
@@ -20,6 +20,7 @@ export type Status =
   | { readonly kind: 'saving'; readonly text: string }
   | { readonly kind: 'saved'; readonly id: string }
   | { readonly kind: 'note'; readonly message: string }
+  | { readonly kind: 'warning'; readonly message: string }
   | { readonly kind: 'rejected'; readonly message: string }
   | { readonly kind: 'error'; readonly message: string };
 
@@ -176,7 +177,7 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
 
   /** Turn a capture's figures into readings of the checks probed at the same point. */
   const attachCapture = useCallback(
-    async (capture: CaptureFigures): Promise<void> => {
+    async (capture: CaptureFigures, expected?: string): Promise<void> => {
       const s = stateRef.current;
       const t = targets.targets.find((x) => x.check === s.selected);
       if (!t) return;
@@ -193,12 +194,15 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
           return;
         }
         const said: string[] = [];
+        const warnings = captureWarnings(capture.measurements, expected);
         for (const p of planned) {
-          const saved = await log.appendReading(serial, { run, check: p.check, value: p.value, unit: p.unit, raw: p.raw, operator, verdict: p.verdict, planHash: plan.hash, capture: file });
+          const input = { run, check: p.check, value: p.value, unit: p.unit, raw: p.raw, operator, verdict: p.verdict, planHash: plan.hash, capture: file };
+          const saved = await log.appendReading(serial, warnings.length > 0 ? { ...input, warnings } : input);
           dispatch({ type: 'record-reading', reading: toRunReading(saved) });
           said.push(`${p.check} ${p.verdict}`);
         }
-        setStatus({ kind: 'note', message: `saved from ${capture.name}: ${said.join(', ')}` });
+        const message = `saved from ${capture.name}: ${said.join(', ')}`;
+        setStatus(warnings.length > 0 ? { kind: 'warning', message: `${message} — ${warnings.join('; ')}` } : { kind: 'note', message });
       } catch (error) {
         setStatus({ kind: 'error', message: `capture not saved: ${message(error)}` });
       }
