@@ -1,3 +1,4 @@
+import { existsSync } from 'node:fs';
 import { openLog } from '../log/store.js';
 import type { LogIndex } from '../log/types.js';
 import type { BandSource } from '../review/bands.js';
@@ -71,6 +72,8 @@ export async function loadBatch(
 export async function runBatch(options: ParsedArgs['options'], io: CommandIo): Promise<{ figures: BatchFigures; filter: BatchFilter; dir: string }> {
   const filter = filterFromOptions(options);
   const dir = resolveLogDir(options.log, io.env);
+  // A review only reads: a mistyped --log must not leave an empty log behind.
+  if (!existsSync(dir)) throw new UsageError(`there is no log at ${dir}; pass --log DIR of an existing log (or record readings first)`);
   const log = await openLog(dir);
   let shown = 0;
   const index = await log.readIndex((done, total) => {

@@ -1,3 +1,5 @@
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
 import { beforeAll, describe, expect, test } from 'vitest';
 import { mean, sampleStandardDeviation } from 'simple-statistics';
 import { fillDemoLog, latestFreq } from '../review/demo-boards.js';
@@ -86,6 +88,14 @@ describe('batch table', () => {
     expect(r.stdout).toContain('first-pass yield 66.7 % (4/6)');
     expect(r.stdout).toContain('PB-0006 (osc.freq 3.902 kHz, outside band)');
     expect(r.stdout).toMatch(/osc\.duty: not enough data/);
+  });
+
+  test('a log folder that does not exist is exit 2 and is not created', async () => {
+    const missing = join(t.dir, 'no-such-log');
+    const r = await run(['batch', '--log', missing]);
+    expect(r.status).toBe(2);
+    expect(r.stderr).toBe(`probebook: there is no log at ${missing}; pass --log DIR of an existing log (or record readings first)\n`);
+    expect(existsSync(missing)).toBe(false);
   });
 
   test('an empty log says so and exits 0', async () => {
