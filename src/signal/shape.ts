@@ -1,4 +1,4 @@
-import { extremes, moments } from './levels.js';
+import { extremes, moments, stateLevels } from './levels.js';
 import type { ShapeClass } from './types.js';
 
 /** Figures of one averaged period that tell shapes apart. */
@@ -7,7 +7,7 @@ export interface ShapeFeatures {
   readonly crestFactor: number;
   /** AC RMS over mean absolute deviation: sine π/(2√2) ≈ 1.111, triangle 2/√3 ≈ 1.155, square 1. */
   readonly formFactor: number;
-  /** Share of the period within 10 % of the swing of either extreme (two-level signals near 1). */
+  /** Share of the period within 10 % of the amplitude of either state level (two-level signals near 1, ringing or not). */
   readonly nearExtremes: number;
   /** Share of the period within 1.5 % of the swing of the highest and of the lowest value. */
   readonly flatTop: number;
@@ -22,11 +22,14 @@ export function shapeFeatures(period: Float64Array): ShapeFeatures {
   const swing = max - min;
   const m = moments(period);
   const peakDev = Math.max(max - m.mean, m.mean - min);
+  // State levels (histogram modes, IEEE Std 181-2011), not the extremes, so overshoot does not hide a square.
+  const { low, high } = stateLevels(period, 0, n, 64);
+  const band = 0.1 * (high - low);
   let near = 0;
   let top = 0;
   let bottom = 0;
   for (const v of period) {
-    if (v >= max - 0.1 * swing || v <= min + 0.1 * swing) near++;
+    if (Math.abs(v - high) <= band || Math.abs(v - low) <= band) near++;
     if (v >= max - 0.015 * swing) top++;
     if (v <= min + 0.015 * swing) bottom++;
   }

@@ -109,6 +109,26 @@ describe('edges per IEEE Std 181-2011', () => {
     expect(Math.abs((m.duty ?? 0) - 0.5)).toBeLessThan(1e-3);
   });
 
+  test('overshoot of a second-order edge is exp(−ζπ/√(1−ζ²)) of the step', () => {
+    const zeta = 0.5;
+    const wn = 2 * Math.PI * 50e3;
+    const wd = wn * Math.sqrt(1 - zeta ** 2);
+    const rate = 20e6;
+    const half = 200e-6;
+    // Underdamped second-order step response (control handbook formula), settled each half period.
+    const step = (t: number): number => 1 - Math.exp(-zeta * wn * t) * (Math.cos(wd * t) + (zeta / Math.sqrt(1 - zeta ** 2)) * Math.sin(wd * t));
+    const x = Float64Array.from({ length: Math.round(rate * half * 10.4) }, (_, i) => {
+      const t = i / rate + 3e-6;
+      const k = Math.floor(t / half);
+      const level = k % 2 === 0 ? 1 : -1;
+      return -level + 2 * level * step(t - k * half);
+    });
+    const m = measure(x, rate).measurements;
+    expect(m.shape).toBe('square');
+    // ζ = 0.5: exp(−π/√3) ≈ 16.3 % of the amplitude; state levels from the histogram sit on the settled levels.
+    expect(Math.abs((m.overshoot ?? 0) - Math.exp((-zeta * Math.PI) / Math.sqrt(1 - zeta ** 2)))).toBeLessThan(2e-3);
+  });
+
   test('overshoot of a known ringing edge, and the duty of a 30 % square', () => {
     const x = sampled((p) => (p < 0.3 ? 1 : -1), n, period, { peak: 2 });
     const m = measure(x, fs).measurements;
