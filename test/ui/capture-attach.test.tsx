@@ -102,6 +102,7 @@ describe('CaptureAttach', () => {
     stdin.write(keys.enter);
     const figures = await frameWith(lastFrame, 'channel TRIANGLE');
     expect(figures).toContain('shape         triangle');
+    expect(figures).toContain('also in the file: 1 SQUARE (add --channel N to the path)');
     stdin.write(keys.escape);
     await frameWith(lastFrame, 'Tab complete');
     stdin.write(keys.escape);

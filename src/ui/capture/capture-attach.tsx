@@ -7,7 +7,7 @@ import { TextField } from '../components/text-field.js';
 import { toneProps } from '../theme.js';
 import { useCaptureAttachKeys } from './use-capture-attach-keys.js';
 import { useCaptureAttachState } from './use-capture-attach-state.js';
-import { capturedWindow, progressBar } from './view.js';
+import { capturedWindow, otherChannels, progressBar } from './view.js';
 
 /** What the attach box hands back once the technician accepts the figures. */
 export interface CaptureAttachResult {
@@ -68,6 +68,7 @@ export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd =
         <Text bold>{analyzed.capture.source}, channel {analyzed.channel.name}</Text>
         {summaryLines(m).map((line) => <Text key={line}>{line}</Text>)}
         {mismatch ? <Text {...toneProps('warn')}>⚠ {mismatch.message}</Text> : null}
+        {otherChannels(analyzed) ? <Text {...toneProps('dim')}>{otherChannels(analyzed)}</Text> : null}
         {m.warnings.map((w) => <Text key={w} {...toneProps('dim')}>note: {w}</Text>)}
         <Text>{traceChart(null, capturedWindow(analyzed.channel.samples, analyzed.capture.sampleRate, m.frequency, 3), { width, height: 8 })}</Text>
         <KeyBar hints={[['Enter', 'attach these figures'], ['Esc', 'another file']]} width={width} />

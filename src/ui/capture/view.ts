@@ -13,3 +13,11 @@ export function capturedWindow(samples: Float64Array, sampleRate: number, freque
   const length = Math.min(samples.length, Math.max(2, Math.round((periods * sampleRate) / frequency)));
   return samples.subarray(0, length);
 }
+
+/** A hint naming the channels not shown, or null for a one-channel capture. */
+export function otherChannels(analyzed: { readonly capture: { readonly channels: readonly { readonly name: string }[] }; readonly channel: { readonly name: string } }): string | null {
+  const { channels } = analyzed.capture;
+  if (channels.length < 2) return null;
+  const others = channels.map((c, i) => ({ c, i })).filter(({ c }) => c !== analyzed.channel);
+  return `also in the file: ${others.map(({ c, i }) => `${i + 1} ${c.name}`).join(', ')} (add --channel N to the path)`;
+}
