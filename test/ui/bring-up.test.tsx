@@ -53,6 +53,7 @@ describe('bring-up screen', () => {
     await s.read('OL');
     const saved = await s.until('saved ✓');
     expect(saved).toContain('✓ PASS');
+    expect(saved).toContain('within the limit ≥ 100 Ω');
     const board = await s.board();
     expect(board?.runs).toHaveLength(1);
     expect(board?.readings).toMatchObject([{ check: 'rails.+9V.to-ground', value: Infinity, raw: 'OL', verdict: 'pass', operator: 'tester' }]);

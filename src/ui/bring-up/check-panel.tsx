@@ -30,6 +30,7 @@ function guardBand(plan: Plan, target: Target): string {
 function CheckPanelView({ plan, target, scope, lock, width }: CheckPanelProps) {
   const where = target.testPoint ? `at ${target.testPoint}` : 'no test point';
   const nominal = Number.isFinite(target.nominal) ? formatValue(target.nominal, target.unit) : '—';
+  const isLimit = !Number.isFinite(target.worst.min) || !Number.isFinite(target.worst.max);
   return (
     <Box flexDirection="column" width={width}>
       <Text bold wrap="truncate-end">
@@ -39,7 +40,7 @@ function CheckPanelView({ plan, target, scope, lock, width }: CheckPanelProps) {
         how: {target.how}
       </Text>
       <Text wrap="truncate-end">
-        nominal {nominal} · worst-case {formatBand(target.worst, target.unit)}
+        {isLimit ? `limit ${formatBand(target.worst, target.unit)} (a safety limit, no nominal)` : `nominal ${nominal} · worst-case ${formatBand(target.worst, target.unit)}`}
       </Text>
       <Text wrap="truncate-end">
         statistical {formatBand(target.stat, target.unit)} · {guardBand(plan, target)}

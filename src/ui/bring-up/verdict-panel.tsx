@@ -5,7 +5,7 @@ import type { RunReading } from '../../run/types.js';
 import { formatPercent, formatValue } from '../../units/format.js';
 import type { Unit } from '../../units/unit.js';
 import { toneProps, verdictMark, verdictTone } from '../theme.js';
-import { bandGauge, formatReading } from './format-band.js';
+import { bandGauge, formatBand, formatReading } from './format-band.js';
 
 /** One explanation of a deviation, as `explainReading` ranks them. */
 export interface ExplanationView {
@@ -45,7 +45,12 @@ function position(result: VerdictResult): string {
 
 /** The verdict on the latest reading: word and mark, deviation, and on a fail or marginal the likely causes. */
 function VerdictPanelView({ reading, target, result, explanations, hints, maxLines, width }: VerdictPanelProps) {
-  const gauge = bandGauge(result.position);
+  // A one-sided band (a limit, such as ≥ 100 Ω to ground or ≤ 30 mA idle) has no width to sit in.
+  const isLimit = !Number.isFinite(target.worst.min) || !Number.isFinite(target.worst.max) || target.worst.min === 0 && target.phase === 'first-power';
+  const gauge = isLimit ? null : bandGauge(result.position);
+  const where = isLimit
+    ? `${reading.verdict === 'pass' ? 'within' : reading.verdict === 'fail' ? 'beyond' : 'at'} the limit ${formatBand(target.worst, target.unit)}`
+    : `deviation ${formatPercent(Math.abs(result.deviation) < 1e-9 ? 0 : result.deviation)} · ${position(result)}`;
   const head = 2 + (result.warnings.length > 0 ? 1 : 0);
   const room = Math.max(0, maxLines - head);
   const shownExplanations = explanations.slice(0, Math.min(3, hints.length > 0 ? Math.max(1, room - 1) : room));
@@ -59,7 +64,8 @@ function VerdictPanelView({ reading, target, result, explanations, hints, maxLin
         {reading.check} = {formatReading(reading.value, reading.unit)} <Text {...toneProps('dim')}>(±{formatValue(result.uncertainty, target.unit, { digits: 3 })}) saved ✓</Text>
       </Text>
       <Text wrap="truncate-end">
-        {gauge ? `${gauge} ` : ''}deviation {formatPercent(Math.abs(result.deviation) < 1e-9 ? 0 : result.deviation)} · {position(result)}
+        {gauge ? `${gauge} ` : ''}
+        {where}
       </Text>
       {result.warnings.slice(0, 1).map((w) => (
         <Text key={w} wrap="truncate-end" {...toneProps('warn')}>
