@@ -3,6 +3,7 @@ import type { TargetSet } from '../../analysis/types.js';
 import type { BenchLog, BoardSummary, LogIndex } from '../../log/types.js';
 import { loadPlanText } from '../../plan/load.js';
 import type { Plan } from '../../plan/types.js';
+import { type Progress, targetsOffThread } from './targets-off-thread.js';
 
 /** A plan the technician may pick for a new board. */
 export interface PlanChoice {
@@ -18,6 +19,8 @@ export interface TargetOptions {
   readonly trials?: number;
   /** @default 1 (as `probebook targets`) */
   readonly seed?: number;
+  /** Compute in a worker thread so the screen keeps drawing. @default true */
+  readonly offThread?: boolean;
 }
 
 /**
@@ -27,6 +30,7 @@ export interface TargetOptions {
 export class PlanCatalog {
   private readonly plans = new Map<string, Plan>();
   private readonly targetSets = new Map<string, TargetSet>();
+  private readonly pending = new Map<string, Promise<TargetSet>>();
   /** Snapshots that could not be loaded, with the reason, by hash. */
   readonly broken = new Map<string, string>();
 
@@ -91,6 +95,33 @@ export class PlanCatalog {
       this.targetSets.set(plan.hash, set);
     }
     return set;
+  }
+
+  /**
+   * The targets of a plan without blocking the screen: computed in a worker
+   * thread with progress, or on this thread when no worker can start.
+   */
+  targetsAsync(plan: Plan, onProgress?: Progress): Promise<TargetSet> {
+    const ready = this.targetSets.get(plan.hash);
+    if (ready) return Promise.resolve(ready);
+    const running = this.pending.get(plan.hash);
+    if (running) return running;
+    const trials = this.options.trials ?? 10_000;
+    const seed = this.options.seed ?? 1;
+    const off = this.options.offThread === false ? null : targetsOffThread(plan, trials, seed, onProgress);
+    const job = (async () => {
+      let set: TargetSet;
+      try {
+        set = off ? await off : this.targets(plan);
+      } catch {
+        // A worker that could not start or died: the same seeded numbers, here.
+        set = this.targets(plan);
+      }
+      this.targetSets.set(plan.hash, set);
+      return set;
+    })().finally(() => this.pending.delete(plan.hash));
+    this.pending.set(plan.hash, job);
+    return job;
   }
 
   /** Whether the targets of a plan are ready without computing. */

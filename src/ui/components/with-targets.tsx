@@ -37,16 +37,20 @@ export function WithTargets({ catalog, planHash, children, onExit, isActive = tr
         setState({ kind: 'ready', plan, targets: catalog.targets(plan) });
         return;
       }
-      setState({ kind: 'loading', what: `computing the targets of ${plan.plan} (worst case and Monte Carlo)…` });
-      // Later than Ink's 30 fps render throttle, so the line above is on screen first.
-      setTimeout(() => {
-        if (!isLive) return;
-        try {
-          setState({ kind: 'ready', plan, targets: catalog.targets(plan) });
-        } catch (error) {
-          setState({ kind: 'error', message: error instanceof Error ? error.message : String(error) });
-        }
-      }, 60);
+      const what = `computing the targets of ${plan.plan} (worst case and Monte Carlo)…`;
+      setState({ kind: 'loading', what });
+      // Later than Ink's 30 fps render throttle, so the line above is on screen
+      // first even when the computation has to run on this thread.
+      await new Promise((r) => setTimeout(r, 60));
+      if (!isLive) return;
+      try {
+        const targets = await catalog.targetsAsync(plan, (done, total) => {
+          if (isLive) setState({ kind: 'loading', what: `${what} ${Math.round((100 * done) / total)} %` });
+        });
+        if (isLive) setState({ kind: 'ready', plan, targets });
+      } catch (error) {
+        if (isLive) setState({ kind: 'error', message: error instanceof Error ? error.message : String(error) });
+      }
     })().catch((error: unknown) => isLive && setState({ kind: 'error', message: error instanceof Error ? error.message : String(error) }));
     return () => {
       isLive = false;
