@@ -32,7 +32,7 @@ function run(args, what) {
 }
 
 // Build the bundle when it is missing or older than the sources.
-if (!existsSync(bundle) || statSync(bundle).mtimeMs < newest(join(root, 'src'))) {
+if (!existsSync(bundle) || !existsSync(join(root, 'dist', 'targets-worker.js')) || statSync(bundle).mtimeMs < newest(join(root, 'src'))) {
   console.log('probebook demo: building dist/probebook.js …');
   run(['scripts/build.mjs'], 'the build');
 }
