@@ -37,6 +37,8 @@ export class CsvParser {
   private minStep = Infinity;
   private maxStep = -Infinity;
   private rows = 0;
+  /** Whether column 1 was taken as time without a header saying so. */
+  private guessedTime = false;
 
   constructor(
     private readonly options: ReadOptions,
@@ -85,7 +87,10 @@ export class CsvParser {
     if (dialect.columns > 1 || dt === undefined) {
       const t = dialect.names.findIndex((n, i) => isTimeColumn(n, dialect.units[i] ?? ''));
       if (t >= 0) this.timeColumn = t;
-      else if (dt === undefined && dialect.columns > 1) this.timeColumn = 0;
+      else if (dt === undefined && dialect.columns > 1) {
+        this.timeColumn = 0;
+        this.guessedTime = true;
+      }
     }
     if (this.timeColumn < 0 && dt === undefined) {
       throw new CaptureError(`${name}: one column and no time column; give the sample interval with --dt SECONDS`);
@@ -189,6 +194,7 @@ export class CsvParser {
     if (this.timeColumn >= 0 && dt !== undefined) warnings.push('--dt given: the time column is ignored');
     else if (this.timeColumn >= 0) {
       const scale = unitScale(d.units[this.timeColumn] ?? '', 's') ?? 1;
+      if (this.guessedTime) warnings.push(`column 1 (${d.names[0] ?? 'CH1'}) taken as time in seconds; give --dt to read every column as a channel`);
       if (this.rows < 2) throw new CaptureError(`${name}: ${this.rows} row(s); at least 16 samples are needed`);
       dt = ((this.tLast - this.t0) / (this.rows - 1)) * scale;
       if (this.maxStep > this.minStep * 1.1 && (this.maxStep - this.minStep) * scale > 0.01 * dt) {
