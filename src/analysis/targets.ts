@@ -5,6 +5,7 @@ import type { Distribution } from './random.js';
 import { quantileSorted, sampleChain, sortedFinite } from './sampling.js';
 import { contributorsOf, sensitivities } from './sensitivity.js';
 import type { DesignWarning, Target, TargetSet } from './types.js';
+import { cornerWarnings } from './corner-warnings.js';
 import { designWarnings } from './warnings.js';
 import { worstCase } from './worst-case.js';
 import { formatValue } from '../units/format.js';
@@ -128,7 +129,7 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
     const why = cause ? `its input from ${cause} stops at some tolerance corners` : 'the stage stops working at some tolerance corners';
     return { stage, message: `in up to ${g.most} of ${trials} trials (${formatPercentOf(g.most, trials)}) ${g.checks.join(', ')} had no value: ${why}; the bands cover the trials that work` };
   });
-  const warnings = [...designWarnings(plan, nominalDetail), ...extra];
+  const warnings = [...designWarnings(plan, nominalDetail), ...cornerWarnings(chain, perSigma, nominalDetail), ...extra];
   for (const t of targets) {
     if (t.phase === 'stage' && !Number.isFinite(t.nominal)) {
       warnings.push({ stage: t.stage, message: `${t.check} has no nominal value (${formatValue(t.nominal, t.unit)}): check the stage's parts and input` });

@@ -224,6 +224,15 @@ describe('engine properties', () => {
     expect(set.warnings.some((w) => w.stage === 'osc' && w.message.includes('osc.freq has no nominal value'))).toBe(true);
   });
 
+  test('a warning that only a tolerance corner raises is reported once, naming the corner', () => {
+    // Fake gain 1 + Rf/Rg warns above 20: nominal 1 + 18.7k/1k = 19.7, the corner 1 + 18.887k/0.99k = 20.08.
+    const p = fakePlan();
+    const stages = (p.stages as Record<string, unknown>[]).map((s) => (s.id === 'amp' ? { ...s, parts: { Rg: '1k 1%', Rf: '18.7k 1%' } } : s));
+    const set = computeTargets(loadPlanText(JSON.stringify({ ...p, stages }), 'c.plan.json', fakeKinds), { trials: 200 });
+    const amp = set.warnings.filter((w) => w.stage === 'amp');
+    expect(amp).toEqual([{ stage: 'amp', message: 'at the tolerance corner that raises amp.gain most: gain above 20' }]);
+  });
+
   test('bad trial counts are refused', () => {
     expect(() => computeTargets(plan, { trials: 0 })).toThrow(RangeError);
   });

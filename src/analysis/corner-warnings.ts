@@ -1,0 +1,41 @@
+import type { Chain, ChainDetail } from '../plan/chain.js';
+import type { DesignWarning } from './types.js';
+
+/**
+ * Stage warnings that the nominal design does not raise but a tolerance corner
+ * does (an output that clips only when the gain parts sit at their limits, a
+ * stage that slews at the top of its range). For every stage check, the two
+ * corners its sensitivities point to (as in the worst case) are evaluated in
+ * full, and the first new warning of each stage is kept — one per stage, so a
+ * technician reads the risk once. Corners lie inside the tolerance box, so
+ * each such warning can happen on a real board.
+ */
+export function cornerWarnings(chain: Chain, perSigma: readonly Float64Array[], nominal: ChainDetail): DesignWarning[] {
+  const seenAtNominal = new Set(nominal.warnings.map((w) => `${w.stage}\u0000${w.message}`));
+  const stagesWithNominal = new Set(nominal.warnings.map((w) => w.stage));
+  const found = new Map<string, DesignWarning>();
+  const x = Float64Array.from(chain.nominal);
+  chain.checks.forEach((check, c) => {
+    if (check.phase !== 'stage' || found.has(check.stage) || stagesWithNominal.has(check.stage)) return;
+    for (const direction of [1, -1]) {
+      let moved = false;
+      chain.variables.forEach((v, i) => {
+        const d = perSigma[i]?.[c] ?? 0;
+        const sign = d === 0 || v.tol === 0 ? 0 : Math.sign(d) * direction;
+        x[i] = v.nominal * (1 + sign * v.tol);
+        if (sign !== 0) moved = true;
+      });
+      if (!moved) continue;
+      const detail = chain.detail(x);
+      const fresh = detail.warnings.find((w) => w.stage === check.stage && !seenAtNominal.has(`${w.stage}\u0000${w.message}`));
+      if (fresh) {
+        found.set(check.stage, {
+          stage: check.stage,
+          message: `at the tolerance corner that ${direction > 0 ? 'raises' : 'lowers'} ${check.check} most: ${fresh.message}`,
+        });
+        break;
+      }
+    }
+  });
+  return [...found.values()];
+}
