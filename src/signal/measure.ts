@@ -60,7 +60,8 @@ export function measure(x: Float64Array, sampleRate: number): MeasureResult {
     return aperiodic(`fewer than 2 whole periods (${Math.max(0, rising.length - 1)} found): frequency, THD and shape need at least 2; figures over the whole record`);
   }
   const rough = periodFromCrossings(rising);
-  const spectrumLength = Math.min(n, maxSpectrumSamples);
+  // At least 8 periods where the capture has them, however slow the signal.
+  const spectrumLength = Math.min(n, Math.max(maxSpectrumSamples, Math.ceil(8 * rough)));
   const nu = refineFrequency(x, 0, spectrumLength, 1 / rough, whole.mean);
   let period = 1 / nu;
   if (!(Math.abs(period - rough) < 0.05 * rough)) {
