@@ -34,8 +34,10 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
       let any = false;
       let firstOk = true;
       let finalOk = true;
-      for (const check in board.checks) {
-        const summary = board.checks[check];
+      // Read once: the store may hand out `checks` through a lazy getter.
+      const checks = board.checks;
+      for (const check in checks) {
+        const summary = checks[check];
         if (!summary || !checkMatches(check, summary, filter)) continue;
         any = true;
         if (summary.first.verdict !== 'pass') firstOk = false;
@@ -56,7 +58,7 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
       if (firstOk) firstPassBoards++;
       if (finalOk) finalPassBoards++;
       const own = board.planHash ? bands.get(board.planHash) : undefined;
-      if (own && filter.check === undefined && own.order.some((c) => !(c in board.checks))) incomplete++;
+      if (own && filter.check === undefined && own.order.some((c) => !(c in checks))) incomplete++;
     },
     finish(problems = []) {
       const checks = [...groups.values()].flatMap((byCheck) => [...byCheck.values()].map((g) => checkFigures(g, bands)));
