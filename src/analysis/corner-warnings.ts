@@ -17,11 +17,14 @@ export function cornerWarnings(chain: Chain, perSigma: readonly Float64Array[], 
   const x = Float64Array.from(chain.nominal);
   chain.checks.forEach((check, c) => {
     if (check.phase !== 'stage' || found.has(check.stage) || stagesWithNominal.has(check.stage)) return;
-    for (const direction of [1, -1]) {
+    // Rails also set the headroom, which the signal's sensitivities do not see: try them low and high too.
+    const corners = [1, -1].flatMap((direction) => (['follow', 'low', 'high'] as const).map((rails) => ({ direction, rails })));
+    for (const { direction, rails } of corners) {
       let moved = false;
       chain.variables.forEach((v, i) => {
         const d = perSigma[i]?.[c] ?? 0;
-        const sign = d === 0 || v.tol === 0 ? 0 : Math.sign(d) * direction;
+        let sign = d === 0 || v.tol === 0 ? 0 : Math.sign(d) * direction;
+        if (v.stage === 'rails' && rails !== 'follow') sign = rails === 'low' ? -1 : 1;
         x[i] = v.nominal * (1 + sign * v.tol);
         if (sign !== 0) moved = true;
       });
@@ -31,7 +34,7 @@ export function cornerWarnings(chain: Chain, perSigma: readonly Float64Array[], 
       if (fresh) {
         found.set(check.stage, {
           stage: check.stage,
-          message: `at the tolerance corner that ${direction > 0 ? 'raises' : 'lowers'} ${check.check} most: ${fresh.message}`,
+          message: `at the tolerance corner that ${direction > 0 ? 'raises' : 'lowers'} ${check.check} most${rails === 'follow' ? '' : ` with the rails ${rails}`}: ${fresh.message}`,
         });
         break;
       }

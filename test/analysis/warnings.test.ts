@@ -57,6 +57,19 @@ describe('design warnings', () => {
     expect(set.warnings.filter((w) => w.stage === 'rails').map((w) => w.message)).toEqual([expect.stringContaining('rail +12V has no tolerance')]);
   });
 
+  test('an output that clips only at a corner: gain parts high with the rails low', async () => {
+    // Demo exciter with Rf 37.4k: nominal peak 2.121 V · 4.74 = 10.05 V fits the 12 V − 1.5 V swing; with
+    // 1 % parts high and the rails 2 % low the swing is 11.76 − 1.5 = 10.26 V and the peak wants about 10.7 V.
+    const { readFileSync } = await import('node:fs');
+    const json = JSON.parse(readFileSync('demo/exciter.plan.json', 'utf8')) as { stages: { parts: Record<string, string> }[] };
+    const gain = json.stages[2];
+    if (gain) gain.parts.Rf = '37.4k 1%';
+    const set = computeTargets(loadPlanText(JSON.stringify(json), 'clip.plan.json'), { trials: 200 });
+    const clip = set.warnings.filter((w) => w.stage === 'gain');
+    expect(clip).toHaveLength(1);
+    expect(clip[0]?.message).toMatch(/^at the tolerance corner that raises gain\.out\.vpp most with the rails low: .*clips/);
+  });
+
   test('a stage that cannot oscillate (R1 ≥ R2) warns through its own stage id', () => {
     const set = computeTargets(plan({ osc: { parts: { R1: '33k 1%', R2: '22k 1%', Rt: '22k 1%', Ct: '8n2 5%' } } }), { trials: 200 });
     expect(set.warnings.some((w) => w.stage === 'osc')).toBe(true);
