@@ -47,11 +47,14 @@ import json, resource, subprocess, sys, time
 t0 = time.perf_counter()
 r = subprocess.run(sys.argv[1:], stdout=subprocess.PIPE, stderr=subprocess.PIPE)
 t = time.perf_counter() - t0
-print(json.dumps({"seconds": t, "rssKb": resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss, "status": r.returncode, "out": r.stdout.decode(), "err": r.stderr.decode()[-300:]}))
+u = resource.getrusage(resource.RUSAGE_CHILDREN)
+print(json.dumps({"seconds": t, "cpu": u.ru_utime + u.ru_stime, "rssKb": u.ru_maxrss, "status": r.returncode, "out": r.stdout.decode(), "err": r.stderr.decode()[-300:]}))
 `;
 
 interface Timed {
   readonly seconds: number;
+  /** User + system CPU time of the child, s: steadier than wall time on a busy machine. */
+  readonly cpu: number;
   readonly rssKb: number;
   readonly out: string;
 }
@@ -98,7 +101,7 @@ if (numpy.status !== 0) {
   process.exit(0);
 }
 console.log(`node ${process.version}, numpy ${numpy.stdout.trim()}, ${rounds} rounds, medians`);
-const rows: string[][] = [['samples', 'file MB', 'read bytes s', 'probebook s', 'numpy s', 'pb/numpy', 'pb/read', 'pb RSS/file', 'np RSS/file']];
+const rows: string[][] = [['samples', 'file MB', 'read bytes s', 'probebook s', 'numpy s', 'pb/numpy', 'pb/read', 'CPU pb/np', 'pb RSS/file', 'np RSS/file']];
 for (const n of sizes) {
   const file = makeCapture(n);
   const size = statSync(file).size;
@@ -106,6 +109,7 @@ for (const n of sizes) {
   const pb: Timed[] = [];
   const np: Timed[] = [];
   const ratios: number[] = [];
+  const cpuRatios: number[] = [];
   for (let r = 0; r < rounds; r++) {
     read.push(readBytes(file));
     const a = timed([process.execPath, bundle, 'analyze', file, '--json']);
@@ -113,6 +117,7 @@ for (const n of sizes) {
     pb.push(a);
     np.push(b);
     ratios.push(a.seconds / b.seconds);
+    cpuRatios.push(a.cpu / b.cpu);
   }
   const ours = JSON.parse(pb[0]?.out ?? '{}') as Record<string, number>;
   const theirs = JSON.parse(np[0]?.out ?? '{}') as Record<string, number>;
@@ -120,10 +125,10 @@ for (const n of sizes) {
   const pbS = median(pb.map((t) => t.seconds));
   rows.push([
     String(n), (size / 1e6).toFixed(1), median(read).toFixed(3), pbS.toFixed(3), median(np.map((t) => t.seconds)).toFixed(3),
-    `${median(ratios).toFixed(2)}×`, `${(pbS / median(read)).toFixed(1)}×`,
+    `${median(ratios).toFixed(2)}×`, `${(pbS / median(read)).toFixed(1)}×`, `${median(cpuRatios).toFixed(2)}×`,
     `${(Math.max(...pb.map((t) => t.rssKb)) * 1024 / size).toFixed(2)}×`, `${(Math.max(...np.map((t) => t.rssKb)) * 1024 / size).toFixed(2)}×`,
   ]);
 }
 const widths = rows[0]?.map((_, c) => Math.max(...rows.map((r) => (r[c] ?? '').length))) ?? [];
 for (const r of rows) console.log(r.map((cell, c) => cell.padStart(widths[c] ?? 0)).join('  '));
-console.log('goal: pb/numpy ≤ 0.70× at both sizes; pb RSS/file < 3×');
+console.log('goal: pb/numpy ≤ 0.70× at both sizes; pb RSS/file < 3×. Ratios are paired per round (same file, back to back).');

@@ -28,7 +28,7 @@ export interface FileRead {
   readonly bytes?: Uint8Array;
 }
 
-const chunkBytes = 1024 * 1024;
+const chunkBytes = 256 * 1024;
 
 /**
  * Read a capture file in chunks, reporting progress as a fraction of its size.
