@@ -41,8 +41,8 @@ function StageListView({ state, cursor, isFocused = false, width, height }: Stag
     rows.push({ index });
   });
   const at = Math.max(0, rows.findIndex((r) => 'index' in r && r.index === cursor));
-  // Keep the stage heading above the cursor in view when there is room.
-  const { start, end } = scrollWindow(rows.length, at, height, Math.max(0, at - 1));
+  // Keep a third of the rows above the cursor in view: its stage heading and what was just measured.
+  const { start, end } = scrollWindow(rows.length, at, height, Math.max(0, at - Math.floor(height / 3)));
   return (
     <Box flexDirection="column" width={width} flexShrink={0}>
       {rows.slice(start, end).map((row, i) => {
