@@ -97,6 +97,25 @@ describe('bring-up screen: list, capture, end of run', () => {
     expect(Math.abs((fromCapture.find((r) => r.check === 'osc.freq')?.value ?? 0) / f - 1)).toBeLessThan(1e-3);
   });
 
+  test('a rework note naming no part of the plan is refused with the reason; Esc cancels; nothing is saved', async () => {
+    const { open } = await setup();
+    const s = await open();
+    await s.until('Cautions before first power');
+    await s.press(keys.enter);
+    await s.read('OL');
+    await s.press('r');
+    await s.until('Rework note');
+    await s.type('U7');
+    await s.press(keys.enter, keys.enter);
+    await s.type('new one');
+    await s.press(keys.enter, keys.enter);
+    expect(await s.until('part must be')).toMatch(/part must be <stage>\.<part>, e\.g\. rails\.\+9V; stages: osc, shape, rails/);
+    expect(s.dirty.at(-1)).toBe(true);
+    await s.press(keys.escape);
+    await s.until(() => !s.frame().includes('Rework note'));
+    expect((await s.board())?.rework).toEqual([]);
+  });
+
   test('once every check reads, the run can end as passed and the log says so', async () => {
     const { tmp, open } = await setup();
     const serial = 'FX-END';
