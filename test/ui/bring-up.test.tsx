@@ -96,7 +96,9 @@ describe('bring-up screen', () => {
   test('a frequency a decade low is explained by a ×10 timing capacitor, osc.Ct', async () => {
     const s = await setup();
     await powerUp(s);
-    // With Ct ten times its fitted 22 nF the ideal frequency falls tenfold (f ∝ 1/Ct, DESIGN §3 relaxation oscillator).
+    // With Ct ten times its fitted 22 nF the frequency falls tenfold: f = R2 / (4·R1·Rt·Ct) for the comparator-and-integrator
+    // relaxation oscillator (Sedra & Smith, Microelectronic Circuits; formula from memory). The slew time per half period
+    // shrinks against the longer ramp, so the part that explains it solves to about 10× (220 nF ± the slew share).
     await s.read(`${target('osc.freq').nominal / 10}`);
     const shown = await s.until('✗ FAIL');
     expect(shown).toMatch(/osc\.Ct ×10 slip: would be 2\d\d nF \(fitted 22 nF\)/);
