@@ -25,7 +25,7 @@ const contractKeys = ['check', 'stage', 'quantity', 'unit', 'nominal', 'worst', 
 
 describe.each(['demo/exciter.plan.json', 'demo/line-driver.plan.json'])('targets --json on %s', (file) => {
   test('prints the DESIGN §7 keys, bands that hold the nominal and stat inside worst', async () => {
-    const r = await run(['targets', file, '--json', '--trials', '2000']);
+    const r = await run(['targets', file, '--json', '--trials', '1000']);
     expect(r.stderr).toBe('');
     expect(r.status).toBe(0);
     const json = JSON.parse(r.stdout) as { plan: string; targets: JsonTarget[]; warnings: { stage: string; message: string }[] };
