@@ -1,4 +1,4 @@
-import { useInput } from 'ink';
+import { type Key, useInput } from 'ink';
 import { splitKeys } from '../components/key-chunks.js';
 import type { BenchState } from './use-bench-state.js';
 
@@ -16,43 +16,43 @@ export function useBenchKeys(state: BenchState, pageSize: number, isActive: bool
     { isActive: isActive && !typing },
   );
 
-  function handle(input: string, key: Parameters<Parameters<typeof useInput>[0]>[1]) {
-      if (mode.kind === 'help') {
-        if (input === '?' || key.escape || key.return) state.setMode({ kind: 'list' });
-        return;
-      }
-      if (mode.kind === 'confirm-run') {
-        if (key.return || input === 'y') state.confirmRun();
-        else if (key.escape || input === 'n') state.setMode({ kind: 'list' });
-        return;
-      }
-      if (mode.kind === 'choose-plan') {
-        if (key.upArrow || input === 'k') state.movePlanChoice(-1);
-        else if (key.downArrow || input === 'j') state.movePlanChoice(1);
-        else if (key.return) state.choosePlan();
-        else if (key.escape) state.setMode({ kind: 'list' });
-        return;
-      }
-      const count = state.boards.length;
-      const move = state.moveBy;
-      if (key.upArrow || input === 'k') move(-1);
-      else if (key.downArrow || input === 'j') move(1);
-      else if (key.pageUp) move(-pageSize);
-      else if (key.pageDown || input === ' ') move(pageSize);
-      else if (key.home || input === 'g') state.moveBy(-count);
-      else if (key.end || input === 'G') state.moveBy(count);
-      else if (key.return) state.openSelected();
-      else if (input === 'n') {
-        state.setMessage(null);
-        state.setMode({ kind: 'new-serial' });
-      } else if (input === '/') state.setMode({ kind: 'filter' });
-      else if (input === 'h') state.openHistory();
-      else if (input === 'b') state.openBatch();
-      else if (input === 'p') state.openPlan();
-      else if (input === '?') state.setMode({ kind: 'help' });
-      else if (key.escape) {
-        if (state.filter) state.setFilter('');
-        state.setMessage(null);
-      }
+  function handle(input: string, key: Key) {
+    if (mode.kind === 'help') {
+      if (input === '?' || key.escape || key.return) state.setMode({ kind: 'list' });
+      return;
+    }
+    if (mode.kind === 'confirm-run') {
+      if (key.return || input === 'y') state.confirmRun();
+      else if (key.escape || input === 'n') state.setMode({ kind: 'list' });
+      return;
+    }
+    if (mode.kind === 'choose-plan') {
+      if (key.upArrow || input === 'k') state.movePlanChoice(-1);
+      else if (key.downArrow || input === 'j') state.movePlanChoice(1);
+      else if (key.return) state.choosePlan();
+      else if (key.escape) state.setMode({ kind: 'list' });
+      return;
+    }
+    const count = state.boards.length;
+    const move = state.moveBy;
+    if (key.upArrow || input === 'k') move(-1);
+    else if (key.downArrow || input === 'j') move(1);
+    else if (key.pageUp) move(-pageSize);
+    else if (key.pageDown || input === ' ') move(pageSize);
+    else if (key.home || input === 'g') state.moveBy(-count);
+    else if (key.end || input === 'G') state.moveBy(count);
+    else if (key.return) state.openSelected();
+    else if (input === 'n') {
+      state.setMessage(null);
+      state.setMode({ kind: 'new-serial' });
+    } else if (input === '/') state.setMode({ kind: 'filter' });
+    else if (input === 'h') state.openHistory();
+    else if (input === 'b') state.openBatch();
+    else if (input === 'p') state.openPlan();
+    else if (input === '?') state.setMode({ kind: 'help' });
+    else if (key.escape) {
+      if (state.filter) state.setFilter('');
+      state.setMessage(null);
+    }
   }
 }
