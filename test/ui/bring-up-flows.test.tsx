@@ -59,6 +59,12 @@ describe('bring-up screen: list, capture, end of run', () => {
     expect(await s.until('is locked')).toMatch(/rails\.\+9V\.dc is locked: unpowered checks first/);
     await s.press('k', 'k', keys.enter);
     expect(await s.until('rails.-9V.to-ground ›')).toContain('how: power off');
+    // On an open check the attach box opens, and Esc closes it (after a frame: its key handler is swapped in then).
+    await s.press('a');
+    await s.until('Attach a capture');
+    await new Promise((r) => setTimeout(r, 100));
+    await s.press(keys.escape);
+    await s.until('rails.-9V.to-ground ›');
   });
 
   test('a capture becomes readings of the checks at its test point, linked to the saved file', async () => {

@@ -52,7 +52,11 @@ export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, re
       setReworkFocus('part');
       setReworkError(null);
       setFocus('rework');
-    } else if (input === 'a') setFocus('capture');
+    } else if (input === 'a') {
+      // A capture needs a check that may take a reading now; a locked one says why instead.
+      const selected = b.stateRef.current.selected;
+      if (selected && b.select(selected) === null) setFocus('capture');
+    }
     else if (input === 'e') {
       setEndCursor(0);
       setFocus('end');
