@@ -43,7 +43,7 @@ function remedy(file: string, serial: string, isNewer: boolean, migrations: Read
   const backup = `${file}.bak`;
   const bak = readTextSync(backup);
   if (bak !== null && 'board' in problemOf(bak, serial, migrations)) {
-    return `The previous good version is ${backup}; restore it with: cp '${backup}' '${file}' (it lacks at most the last change; check it with probebook history).`;
+    return `The previous good version is ${backup}; restore it with: cp '${backup}' '${file}.restore' && mv '${file}.restore' '${file}' (it lacks at most the last change; check it with probebook history).`;
   }
   return `No good backup (${backup} is ${bak === null ? 'missing' : 'damaged too'}): fix the file by hand at that place, or move it aside with: mv '${file}' '${file}.damaged'`;
 }

@@ -1,18 +1,19 @@
 import { appendFileSync, readdirSync, readFileSync, renameSync, statSync, unlinkSync } from 'node:fs';
+export { fileStamp } from './board-scan.js';
 import { randomBytes } from 'node:crypto';
 import { join } from 'node:path';
 import { readBoardFileSync } from './board-file-adapter.js';
 import { DurableTextFile } from './durable-text-file.js';
 import { errorCode, LogDamageError } from './errors.js';
 import { withFileLock } from './file-lock.js';
-import { type BoardHead, type CheckMap, headOf, type JournalLine, type KnownBoard, replayJournal, reviveChecks } from './index-journal.js';
+import { boardSerials, bootId, folderTime, stampsOf } from './board-scan.js';
+import { type BoardHead, type CheckMap, headOf, type IntentLine, type JournalLine, type KnownBoard, replayJournal, reviveChecks, type SuspectLine } from './index-journal.js';
 import { toLogJson } from './json-text.js';
-import { validateSerial } from './serial.js';
 import { summarizeBoard } from './summary.js';
 import type { BoardFile, BoardSummary, DamagedBoard, LogIndex } from './types.js';
 
 /** Version of the index files (a cache: any other version is rebuilt, never refused). */
-export const indexSchemaVersion = 2;
+export const indexSchemaVersion = 3;
 
 /** Called while boards are read to rebuild the index: `done` of `total` board files. */
 export type IndexProgress = (done: number, total: number) => void;
@@ -23,9 +24,6 @@ export const journalLimitBytes = 1024 * 1024;
 /** Boards read again in one go above which the reader writes a new snapshot instead of journal lines. */
 const rereadsBeforeCompact = 100;
 
-/** Temporary files of the durable writes (`<file>.<pid>-<hex>.tmp`); removed once an hour old. */
-const leftoverPattern = /\.\d+-[0-9a-f]{8}\.(tmp|baktmp)$/;
-const leftoverAgeMs = 60 * 60 * 1000;
 const checksPattern = /^index-checks\.[0-9a-f]+\.json$/;
 
 interface Snapshot {
@@ -35,18 +33,11 @@ interface Snapshot {
   readonly stamps: Record<string, string>;
   /** The file holding every board's per-check summaries, written with this snapshot. */
   readonly checksFile: string;
-}
-
-/** The identity of a board file's current version; a rename of a new version changes it. */
-export function fileStamp(path: string): string | null {
-  try {
-    // Plain (not bigint) stat is twice as fast over thousands of boards; mtimeMs keeps microseconds.
-    const s = statSync(path);
-    return `${s.ino}-${s.size}-${s.mtimeMs}`;
-  } catch (error) {
-    if (errorCode(error) === 'ENOENT') return null;
-    throw error;
-  }
+  /** The boards folder's time when the boards were last all checked, and the boot it was on. */
+  readonly dir: number | null;
+  readonly boot: string;
+  /** Boards that could not be read (damaged): checked on every read. */
+  readonly suspects: readonly string[];
 }
 
 function readText(path: string): string | null {
@@ -88,29 +79,49 @@ export class IndexStore {
     this.journal = join(dir, 'index.journal');
   }
 
+  /** Say a board is about to be replaced (before its rename); returns the nonce `noteBoard` closes it with. */
+  intend(serial: string): string {
+    const nonce = randomBytes(6).toString('hex');
+    appendFileSync(this.journal, `${JSON.stringify({ intent: nonce, serial } satisfies IntentLine)}\n`);
+    return nonce;
+  }
+
   /**
    * Note a board's new version; call after its file is durably written, under
    * its lock. `touched` names the checks the write changed (`'all'` to send them all).
    */
-  noteBoard(board: BoardFile, stamp: string, prev: string | null, touched: readonly string[] | 'all'): { journalBytes: number } {
+  noteBoard(board: BoardFile, stamp: string, prev: string | null, touched: readonly string[] | 'all', nonce: string): { journalBytes: number } {
     const summary = summarizeBoard(board);
     const full = touched === 'all' || prev === null;
     const checks: CheckMap = full ? summary.checks : Object.fromEntries(touched.flatMap((c) => (summary.checks[c] ? [[c, summary.checks[c]]] : [])));
-    const line: JournalLine = { serial: board.serial, stamp, prev, full, head: headOf(summary), checks };
+    const line: JournalLine = { serial: board.serial, stamp, prev, full, head: headOf(summary), checks, nonce, dir: folderTime(this.boardsDir), boot: bootId() };
     appendFileSync(this.journal, `${toLogJson(line)}\n`);
     return { journalBytes: statSync(this.journal).size };
   }
 
+  /**
+   * The index. Every board file is checked (one `stat` each) unless the quick
+   * path holds: the journal accounts for the boards folder's latest change, no
+   * writer left an intent open, and the machine has not rebooted since; then
+   * only new, vanished, damaged and half-written boards are looked at.
+   */
   async read(onProgress?: IndexProgress): Promise<LogIndex> {
+    const startDir = folderTime(this.boardsDir);
+    const boot = bootId();
     const snapshot = this.#readSnapshot();
     const known = new Map<string, KnownBoard>();
     if (snapshot) for (const [serial, head] of Object.entries(snapshot.boards)) known.set(serial, { head, stamp: snapshot.stamps[serial] ?? '', full: null, deltas: [], broken: false });
     const journalText = readText(this.journal) ?? '';
-    replayJournal(journalText, known);
+    const facts = replayJournal(journalText, known);
+    for (const s of snapshot?.suspects ?? []) facts.suspects.add(s);
+    const lastDir = Math.max(snapshot?.dir ?? -1, facts.dir ?? -1);
+    const isQuick = snapshot !== null && snapshot.boot === boot && [...facts.boots].every((b) => b === boot) && startDir !== null && lastDir === startDir;
 
-    const onDisk = this.#scanBoards();
-    for (const serial of known.keys()) if (!onDisk.has(serial)) known.delete(serial);
-    const stale = [...onDisk].filter(([serial, stamp]) => {
+    const serials = boardSerials(this.boardsDir);
+    const present = new Set(serials);
+    for (const serial of known.keys()) if (!present.has(serial)) known.delete(serial);
+    const toCheck = isQuick ? serials.filter((s) => !known.has(s) || facts.suspects.has(s) || known.get(s)?.broken) : serials;
+    const stale = [...stampsOf(this.boardsDir, toCheck)].filter(([serial, stamp]) => {
       const k = known.get(serial);
       return !k || k.broken || k.stamp !== stamp;
     });
@@ -126,11 +137,12 @@ export class IndexStore {
         if (board) {
           const summary = summarizeBoard(board);
           known.set(serial, { head: headOf(summary), stamp, full: summary.checks, deltas: [], broken: false });
-          if (!shouldCompact) lines.push(`${toLogJson({ serial, stamp, prev: null, full: true, head: headOf(summary), checks: summary.checks } satisfies JournalLine)}\n`);
+          if (!shouldCompact) lines.push(`${toLogJson({ serial, stamp, prev: null, full: true, head: headOf(summary), checks: summary.checks, dir: startDir, boot } satisfies JournalLine)}\n`);
         }
       } catch (error) {
         if (!(error instanceof LogDamageError)) throw error;
         damaged.push({ serial, message: error.message });
+        if (!shouldCompact) lines.push(`${JSON.stringify({ suspect: serial, dir: startDir, boot } satisfies SuspectLine)}\n`);
       }
       done++;
       if (onProgress && (done % 100 === 0 || done === stale.length)) onProgress(done, stale.length);
@@ -140,7 +152,7 @@ export class IndexStore {
     const boards: Record<string, BoardSummary> = {};
     const checksOf = this.#checksResolver(snapshot);
     for (const [serial, k] of known) boards[serial] = lazySummary(k.head, () => checksOf(serial, k));
-    if (shouldCompact) await this.#compact(boards, known, snapshot);
+    if (shouldCompact) await this.#compact(boards, known, snapshot, { dir: startDir, boot, suspects: damaged.map((d) => d.serial) });
     return damaged.length > 0 ? { schemaVersion: indexSchemaVersion, boards, damaged } : { schemaVersion: indexSchemaVersion, boards };
   }
 
@@ -165,34 +177,6 @@ export class IndexStore {
     };
   }
 
-  #scanBoards(): Map<string, string> {
-    let names: string[];
-    try {
-      names = readdirSync(this.boardsDir);
-    } catch (error) {
-      if (errorCode(error) === 'ENOENT') return new Map();
-      throw error;
-    }
-    const stamps = new Map<string, string>();
-    for (const name of names) {
-      if (leftoverPattern.test(name)) this.#removeIfOld(join(this.boardsDir, name));
-      else if (name.endsWith('.json') && validateSerial(name.slice(0, -5)) === null) {
-        const stamp = fileStamp(join(this.boardsDir, name));
-        if (stamp !== null) stamps.set(name.slice(0, -5), stamp);
-      }
-    }
-    return stamps;
-  }
-
-  /** A temporary file of a writer that was killed mid-write; none lives longer than a write. */
-  #removeIfOld(path: string): void {
-    try {
-      if (Date.now() - statSync(path).mtimeMs > leftoverAgeMs) unlinkSync(path);
-    } catch (error) {
-      if (errorCode(error) !== 'ENOENT') throw error;
-    }
-  }
-
   #readSnapshot(): Snapshot | null {
     const text = readText(this.file);
     if (text === null) return null;
@@ -202,7 +186,7 @@ export class IndexStore {
     } catch {
       return null; // the index is a cache of the board files: a damaged one is rebuilt, not refused
     }
-    if (!data || data.schemaVersion !== indexSchemaVersion || typeof data.boards !== 'object' || typeof data.stamps !== 'object' || typeof data.checksFile !== 'string') return null;
+    if (!data || data.schemaVersion !== indexSchemaVersion || typeof data.boards !== 'object' || typeof data.stamps !== 'object' || typeof data.checksFile !== 'string' || !Array.isArray(data.suspects)) return null;
     return data as Snapshot;
   }
 
@@ -220,7 +204,7 @@ export class IndexStore {
     }
   }
 
-  async #compact(boards: Record<string, BoardSummary>, known: ReadonlyMap<string, KnownBoard>, before: Snapshot | null): Promise<void> {
+  async #compact(boards: Record<string, BoardSummary>, known: ReadonlyMap<string, KnownBoard>, before: Snapshot | null, seen: Pick<Snapshot, 'dir' | 'boot' | 'suspects'>): Promise<void> {
     const heads: Record<string, BoardHead> = {};
     const stamps: Record<string, string> = {};
     const checks: Record<string, CheckMap> = {};
@@ -242,7 +226,7 @@ export class IndexStore {
         }
         const replaced = this.#readSnapshot()?.checksFile ?? before?.checksFile;
         await new DurableTextFile(join(this.dir, checksFile)).write(toLogJson({ schemaVersion: indexSchemaVersion, checks }));
-        await new DurableTextFile(this.file).write(JSON.stringify({ schemaVersion: indexSchemaVersion, boards: heads, stamps, checksFile } satisfies Snapshot));
+        await new DurableTextFile(this.file).write(JSON.stringify({ schemaVersion: indexSchemaVersion, boards: heads, stamps, checksFile, ...seen } satisfies Snapshot));
         for (const name of [aside, ...readdirSync(this.dir).filter((n) => checksPattern.test(n) && n !== checksFile && n !== replaced).map((n) => join(this.dir, n))]) {
           try {
             unlinkSync(name);

@@ -109,16 +109,18 @@ class Store implements LogStore {
   async #update<T>(serial: string, change: (board: BoardFile) => { board: BoardFile; result: T; touched?: readonly string[] }): Promise<T> {
     checkSerial(serial);
     const path = this.boardPath(serial);
-    const { result, journalBytes } = await withFileLock(path, async () => {
+    // Locks live apart from the boards so that taking one leaves the boards folder's time alone (the index's quick path).
+    const { result, journalBytes } = await withFileLock(join(this.dir, 'locks', `${serial}.json`), async () => {
       const db = new Low<BoardFile>(new BoardFileAdapter(path, serial), emptyBoard(serial));
       await db.read();
       const prev = fileStamp(path);
       const next = change(db.data);
       db.data = next.board;
+      const nonce = this.#index.intend(serial);
       await db.write();
       const stamp = fileStamp(path);
       if (stamp === null) throw new Error(`board file ${path} vanished right after it was written`);
-      return { result: next.result, journalBytes: this.#index.noteBoard(next.board, stamp, prev, next.touched ?? []).journalBytes };
+      return { result: next.result, journalBytes: this.#index.noteBoard(next.board, stamp, prev, next.touched ?? [], nonce).journalBytes };
     });
     if (journalBytes > journalLimitBytes) await this.#index.read();
     return result;
@@ -213,12 +215,22 @@ class Store implements LogStore {
 
 /**
  * Open (creating when needed) the bench log in `dir` (DESIGN §6):
- * `boards/<serial>.json`, `plans/<sha256>.json`, `captures/<sha256>.<ext>` and
- * the rebuildable `index.json`. Every write is durable when its promise resolves.
+ * - `boards/<serial>.json`: one board's runs, readings, rework notes and captures
+ *   (schema version in the file; older versions migrate on read, newer ones are
+ *   refused), the previous version kept as `<serial>.json.bak`;
+ * - `plans/<sha256>.json`: the exact plan text each run used;
+ * - `captures/<sha256>.<ext>`: raw capture files, by content;
+ * - `index.json`, `index-checks.<gen>.json`, `index.journal`: the rebuildable
+ *   index (see `IndexStore`).
+ * Every change to a board happens under that board's lock (`locks/<serial>.json.lock`)
+ * as read → change → durable replace, so concurrent processes lose nothing and
+ * a write is on disk when its promise resolves. A damaged board file throws a
+ * `LogDamageError` (one line: file, place, remedy; the commands exit 1 with it)
+ * and is never written over.
  */
 export async function openLog(dir: string): Promise<LogStore> {
   const root = resolve(dir);
   ensureFolder(root);
-  for (const sub of ['boards', 'plans', 'captures']) ensureFolder(join(root, sub));
+  for (const sub of ['boards', 'plans', 'captures', 'locks']) ensureFolder(join(root, sub));
   return new Store(root);
 }

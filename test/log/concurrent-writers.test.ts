@@ -11,6 +11,23 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 describe('concurrent writers on one board', () => {
   test('4 processes × 100 readings: all 400 kept, none twice, one run', async () => {
     const writers = ['a', 'b', 'c', 'd'].map((tag) => startWriter(dir, 'CONC-01', tag, 100));
+    // A second terminal watching the board while they write: it always reads a whole
+    // file, never sees readings vanish, and sees the others' readings as they land.
+    const watcher = await openLog(dir);
+    const seen: number[] = [];
+    let running = true;
+    void Promise.all(writers.map((w) => w.exited)).then(() => {
+      running = false;
+    });
+    while (running) {
+      const board = await watcher.readBoard('CONC-01').catch((e: unknown) => {
+        throw new Error(`a reader saw a broken board file mid-write: ${String(e)}`);
+      });
+      seen.push(board?.readings.length ?? 0);
+      await new Promise((r) => setTimeout(r, 20));
+    }
+    expect(seen).toEqual([...seen].sort((x, y) => x - y));
+    expect(seen.some((n) => n > 0 && n < 400)).toBe(true);
     const ends = await Promise.all(writers.map((w) => w.exited));
     for (const end of ends) expect(end.code, end.stderr).toBe(0);
 

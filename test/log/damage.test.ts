@@ -43,7 +43,7 @@ describe('a damaged board file is refused with one clear line and left untouched
   test('truncated JSON: says where, and how to restore from .bak', async () => {
     const cut = good.slice(0, Math.floor(good.length * 0.6));
     const message = await expectRefused('CUT', cut, /ends early at line \d+, column \d+/, good.replace('"GOOD"', '"CUT"'));
-    expect(message).toMatch(/restore it with: cp '.*CUT\.json\.bak' '.*CUT\.json'/);
+    expect(message).toMatch(/restore it with: cp '.*CUT\.json\.bak' '.*CUT\.json\.restore' && mv '.*CUT\.json\.restore' '.*CUT\.json'/);
   });
 
   test('a syntax error in the middle: position given', async () => {

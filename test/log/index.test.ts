@@ -1,4 +1,4 @@
-import { appendFileSync, existsSync, readdirSync, readFileSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
+import { appendFileSync, existsSync, readdirSync, readFileSync, renameSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterEach, describe, expect, test } from 'vitest';
 import { journalLimitBytes } from '../../src/log/index-store.js';
@@ -50,13 +50,41 @@ describe('the index', () => {
     expect(existsSync(join(log.dir, 'index.json'))).toBe(true);
   });
 
-  test('a board changed behind the index (restored from .bak) is read again', async () => {
+  test('a board changed behind the index (restored from .bak by copy and rename) is read again', async () => {
     const log = await seededLog(2);
     await log.readIndex();
     const path = log.boardPath('IX-000');
-    writeFileSync(path, readFileSync(`${path}.bak`));
+    writeFileSync(`${path}.restored`, readFileSync(`${path}.bak`));
+    renameSync(`${path}.restored`, path);
     const index = await log.readIndex();
     expect(index.boards['IX-000']?.readings).toBe(2);
+  });
+
+  test('a board file copied in from another log is picked up', async () => {
+    const log = await seededLog(1);
+    await log.readIndex();
+    const text = readFileSync(log.boardPath('IX-000'), 'utf8').replaceAll('"IX-000"', '"IX-NEW"');
+    writeFileSync(log.boardPath('IX-NEW'), text);
+    expect((await log.readIndex()).boards['IX-NEW']?.readings).toBe(3);
+  });
+
+  test('a writer killed between its board write and its journal line: the open intent sends the reader to that board', async () => {
+    const log = await seededLog(2);
+    await log.readIndex();
+    const run = (await log.readBoard('IX-000'))?.runs[0]?.id ?? '';
+    await log.appendReading('IX-000', reading(run, 'late.dc', 7));
+    const journal = join(log.dir, 'index.journal');
+    // Keep the intent, drop the line that closes it (the writer died right after its rename).
+    const lines = readFileSync(journal, 'utf8').trim().split('\n');
+    expect(JSON.parse(lines[0] ?? '{}')).toHaveProperty('intent');
+    writeFileSync(journal, `${lines[0]}\n`);
+    // Another board's write afterwards accounts for the folder's latest change,
+    // so only the open intent can tell the reader that IX-000 changed.
+    const other = (await log.readBoard('IX-001'))?.runs[0]?.id ?? '';
+    await log.appendReading('IX-001', reading(other, 'x.dc', 1));
+    const index = await log.readIndex();
+    expect(index.boards['IX-000']?.readings).toBe(4);
+    expect(index.boards['IX-000']?.checks['late.dc']?.latest.value).toBe(7);
   });
 
   test('a lost journal line (a crash between board write and journal append) is repaired by the stamp check', async () => {
@@ -83,7 +111,9 @@ describe('the index', () => {
     for (let i = 0; i < 5; i++) await log.appendReading('IX-002', reading(run, `d${i}.dc`, i));
     expect(readFileSync(snapshot, 'utf8')).toBe(text);
     expect(statSync(snapshot).mtimeMs).toBe(stamp);
-    expect(readFileSync(join(log.dir, 'index.journal'), 'utf8').trim().split('\n')).toHaveLength(5);
+    const written = readFileSync(join(log.dir, 'index.journal'), 'utf8').trim().split('\n').map((l) => JSON.parse(l));
+    expect(written.filter((l) => 'intent' in l)).toHaveLength(5);
+    expect(written.filter((l) => 'stamp' in l)).toHaveLength(5);
     const other = await openLog(log.dir);
     expect((await other.readIndex()).boards['IX-002']?.readings).toBe(8);
   });
@@ -130,9 +160,10 @@ describe('the index', () => {
     await log.appendReading('IX-000', reading(run, 'after.dc', 6));
     const journal = join(log.dir, 'index.journal');
     const lines = readFileSync(journal, 'utf8').trim().split('\n');
-    expect(lines).toHaveLength(2);
+    const notes = lines.filter((l) => !l.includes('"intent"'));
+    expect(notes).toHaveLength(2);
     // The second line's stamp matches the board file; only its `prev` shows the first is missing.
-    writeFileSync(journal, `${lines[1]}\n`);
+    writeFileSync(journal, `${lines.filter((l) => l !== notes[0]).join('\n')}\n`);
     const index = await log.readIndex();
     expect(index.boards['IX-000']?.readings).toBe(5);
     expect(index.boards['IX-000']?.checks['gap.dc']?.latest.value).toBe(5);
