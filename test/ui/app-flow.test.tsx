@@ -3,6 +3,7 @@ import { join } from 'node:path';
 import { afterEach, describe, expect, test } from 'vitest';
 import type { BenchLog } from '../../src/log/types.js';
 import { keys } from './keys.js';
+import { loadPlanText } from '../../src/plan/load.js';
 import { fixturePlan, type RenderedApp, renderApp } from './render-app.js';
 
 let app: RenderedApp | undefined;
@@ -79,10 +80,31 @@ describe('bench → new board → bring-up', () => {
     await app.type('FXB-0001');
     await app.press(keys.enter);
     await app.waitFor('Plan for FXB-0001');
-    expect(app.frame()).toContain('ui-fixture — UI test board (invented)');
-    expect(app.frame()).toContain('ui-fixture-b — Second invented board');
+    expect(app.frame()).toContain('ui-fixture (fixture-0.plan.json, 0 boards) — UI test board (invented)');
+    expect(app.frame()).toContain('ui-fixture-b (fixture-1.plan.json, 0 boards) — Second invented board');
     await app.press(keys.down, keys.enter);
     await app.waitFor('probebook · bring-up · FXB-0001 · ui-fixture-b');
+  });
+});
+
+describe('plans kept in the log', () => {
+  test('a plan only the log holds (an older board’s snapshot) is offered for a new board and opens', async () => {
+    const older = { ...fixturePlan, plan: 'ui-fixture-rev0', title: 'Earlier revision (invented)' };
+    app = await renderApp({
+      setup: async (log) => {
+        const plan = loadPlanText(JSON.stringify(older), 'older.plan.json');
+        await boardWithReadings({ log }, 'OLD-0001', plan, []);
+      },
+    });
+    await app.waitFor('OLD-0001');
+    await app.press('n');
+    await app.type('NEW-0001');
+    await app.press(keys.enter);
+    const frame = await app.waitFor('Plan for NEW-0001');
+    expect(frame).toContain('ui-fixture (fixture-0.plan.json, 0 boards) — UI test board (invented)');
+    expect(frame).toMatch(/ui-fixture-rev0 \(log snapshot [0-9a-f]{8}, 1 board\) — Earlier revision/);
+    await app.press(keys.down, keys.enter);
+    await app.waitFor('probebook · bring-up · NEW-0001 · ui-fixture-rev0');
   });
 });
 

@@ -51,7 +51,7 @@ export function PlanChoices({ serial, choices, selected, width }: PlanChoicesPro
         return (
           <Text key={c.plan.hash} inverse={i === selected} wrap="truncate-end">
             {i === selected ? `${pointer} ` : '  '}
-            {c.plan.plan} — {c.plan.title} ({where}, {used})
+            {c.plan.plan} ({where}, {used}) — {c.plan.title}
           </Text>
         );
       })}
