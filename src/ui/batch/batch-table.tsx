@@ -21,19 +21,20 @@ function word(c: BatchCheck): { text: string; tone: Tone } {
 
 /** Checks weakest first: counts, final yield, Cp, Cpk and a capability word. */
 export function BatchTable({ rows, selected, height, width }: BatchTableProps) {
-  // 1 pointer + 41 figures + 2 + 15 capability = 59 columns besides the check id.
-  const checkWidth = Math.max(12, width - 60);
+  // 1 pointer + 43 figures + 2 + 15 capability = 61 columns besides the check id;
+  // counts get 6 columns so 10,000 boards still leave a space between them.
+  const checkWidth = Math.max(12, width - 62);
   const { start, end } = scrollWindow(rows.length, selected, height, selected - Math.floor(height / 2));
   return (
     <Box flexDirection="column">
-      <Text bold wrap="truncate-end">{` ${cell('weakest first', checkWidth)}${cell('n', 6, 'right')}${cell('pass', 6, 'right')}${cell('marg', 5, 'right')}${cell('fail', 5, 'right')}${cell('final', 7, 'right')}${cell('Cp', 6, 'right')}${cell('Cpk', 6, 'right')}  capability`}</Text>
+      <Text bold wrap="truncate-end">{` ${cell('weakest first', checkWidth)}${cell('n', 6, 'right')}${cell('pass', 6, 'right')}${cell('marg', 6, 'right')}${cell('fail', 6, 'right')}${cell('final', 7, 'right')}${cell('Cp', 6, 'right')}${cell('Cpk', 6, 'right')}  capability`}</Text>
       {rows.slice(start, end).map((c, i) => {
         const isSelected = start + i === selected;
         const w = word(c);
         return (
           <Text key={`${c.plan ?? ''}/${c.check}`} inverse={isSelected} wrap="truncate-end">
             {isSelected ? pointer : ' '}
-            {`${cell(c.check, checkWidth)}${cell(String(c.n), 6, 'right')}${cell(String(c.pass), 6, 'right')}${cell(String(c.marginal), 5, 'right')}${cell(String(c.fail), 5, 'right')}${cell(pct(c.finalYield), 7, 'right')}${cell(index2(c.cp), 6, 'right')}${cell(index2(c.cpk), 6, 'right')}  `}
+            {`${cell(c.check, checkWidth)}${cell(String(c.n), 6, 'right')}${cell(String(c.pass), 6, 'right')}${cell(String(c.marginal), 6, 'right')}${cell(String(c.fail), 6, 'right')}${cell(pct(c.finalYield), 7, 'right')}${cell(index2(c.cp), 6, 'right')}${cell(index2(c.cpk), 6, 'right')}  `}
             <Text {...toneProps(w.tone)}>{cell(w.text, 15)}</Text>
           </Text>
         );

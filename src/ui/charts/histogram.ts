@@ -70,6 +70,9 @@ export function histogramChart(values: readonly number[], options: HistogramChar
   const legend: string[] = [`${n} board${n === 1 ? '' : 's'} in ${bins} bins`];
   if (options.band) legend.push(`[ ] band ${show(options.band.min)} … ${show(options.band.max)}`);
   if (nominal !== null) legend.push(`N nominal ${show(nominal)}`);
-  lines.push(`${' '.repeat(gutter)}${legend.join('   ')}`);
+  // The legend drops what does not fit rather than wrapping under the chart.
+  let text = legend[0] ?? '';
+  for (const part of legend.slice(1)) if (gutter + text.length + 3 + part.length <= width) text += `   ${part}`;
+  lines.push(`${' '.repeat(gutter)}${text}`);
   return lines.join('\n');
 }

@@ -18,10 +18,16 @@ describe('histogram chart', () => {
   });
 
   test('formats the axis in the check unit with SI prefixes', () => {
-    const text = histogramChart([3500, 3520, 3540], { width: 40, height: 2, band: { min: 3256, max: 3809 }, nominal: 3518, unit: 'Hz' });
+    const text = histogramChart([3500, 3520, 3540], { width: 80, height: 2, band: { min: 3256, max: 3809 }, nominal: 3518, unit: 'Hz' });
     expect(text).toContain('3.256 kHz');
     expect(text).toContain('3.809 kHz');
     expect(text).toContain('N nominal 3.518 kHz');
+  });
+
+  test('never wider than asked: a narrow chart drops legend parts instead of wrapping', () => {
+    const text = histogramChart([3500, 3520, 3540], { width: 40, height: 2, band: { min: 3256, max: 3809 }, nominal: 3518, unit: 'Hz' });
+    for (const line of text.split('\n')) expect([...line].length).toBeLessThanOrEqual(40);
+    expect(text).toContain('3 boards in 5 bins');
   });
 
   test('an open band side (±∞) gets no mark; no readings says so', () => {
