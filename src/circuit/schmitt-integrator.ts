@@ -25,13 +25,18 @@ function circuit(input: EvalInput<SchmittSettings>, pot: number): SchmittCircuit
   const { high, low } = swing(opamp, input.supplies);
   const vz = parts['clamp.vz'];
   const vf = parts['clamp.vf'];
+  const vz2 = parts['clamp.vz2'] ?? vz;
+  const vf2 = parts['clamp.vf2'] ?? vf;
+  const clamped = input.settings.hasClamp && vz !== undefined && vf !== undefined && vz2 !== undefined && vf2 !== undefined;
   return {
     r1: parts['R1'] ?? Number.NaN,
     r2: parts['R2'] ?? Number.NaN,
     r: (parts['Rt'] ?? Number.NaN) + (parts['RV'] ?? 0) * pot,
     c: parts['Ct'] ?? Number.NaN,
     rz: parts['Rz'] ?? 0,
-    vc: input.settings.hasClamp && vz !== undefined && vf !== undefined ? vz + vf : Number.POSITIVE_INFINITY,
+    // D1 in breakdown and D2 forward at the high level; the other way round at the low.
+    vc: clamped ? vz + vf2 : Number.POSITIVE_INFINITY,
+    vcLow: clamped ? vz2 + vf : Number.POSITIVE_INFINITY,
     high,
     low,
     slew: opamp.slew,
@@ -134,6 +139,8 @@ export const schmittIntegratorKind: StageKind<SchmittSettings> = {
     { role: 'Rz', unit: 'Ω', description: 'series resistor from the comparator to the clamped square node', optional: true },
     { role: 'clamp.vz', unit: 'V', description: 'zener voltage of the square clamp', optional: true },
     { role: 'clamp.vf', unit: 'V', description: 'forward drop of the square clamp zener', optional: true },
+    { role: 'clamp.vz2', unit: 'V', description: 'zener voltage of the second clamp zener (sets the low level)', optional: true },
+    { role: 'clamp.vf2', unit: 'V', description: 'forward drop of the second clamp zener (adds to the high level)', optional: true },
   ],
   outputs: ['square', 'triangle'],
   needsInput: false,

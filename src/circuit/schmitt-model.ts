@@ -45,8 +45,10 @@ export interface SchmittCircuit {
   readonly c: number;
   /** Series resistor to the clamped node, Ω; 0 when absent. */
   readonly rz: number;
-  /** Clamp level vz + vf, V; Infinity without a clamp. */
+  /** Clamp level of the high side (vz + vf2), V; Infinity without a clamp. */
   readonly vc: number;
+  /** Clamp level of the low side (vz2 + vf), V, as a magnitude; `vc` when absent. */
+  readonly vcLow?: number;
   /** Op-amp output limits (comparator and integrator), V. */
   readonly high: number;
   readonly low: number;
@@ -101,6 +103,7 @@ function regenDelay(alpha: number, tau: number, vov: number): number {
 
 export function schmittTiming(p: SchmittCircuit): SchmittTiming {
   const { r1, r2, r, c, slew, vc } = p;
+  const vcLow = p.vcLow ?? vc;
   // A finite-GBW integrator keeps its − input (dV/dt)/ωt off ground, against the
   // square: the capacitor sees s·(1 − 1/(ωt·RC)), i.e. RC grows by 1/ωt.
   const wt = 2 * Math.PI * p.gbw;
@@ -111,13 +114,13 @@ export function schmittTiming(p: SchmittCircuit): SchmittTiming {
   const m = p.rz > 0 ? 1 / (r1 + r2) / gLoad : 0;
   // Without Rz the zeners hold the comparator's own output (in current limit).
   const cHigh = p.rz > 0 ? p.high : Math.min(p.high, vc);
-  const cLow = p.rz > 0 ? p.low : Math.max(p.low, -vc);
+  const cLow = p.rz > 0 ? p.low : Math.max(p.low, -vcLow);
   const sH = Math.min(vc, k * cHigh);
-  const sL = Math.max(-vc, k * cLow);
+  const sL = Math.max(-vcLow, k * cLow);
   const ratio = r1 / r2;
   const thUp = -sL * ratio;
   const thDown = -sH * ratio;
-  const clampReach = Math.min(k * p.high, -k * p.low) / vc;
+  const clampReach = Math.min((k * p.high) / vc, (-k * p.low) / vcLow);
   const swingTime = (cHigh - cLow) / slew;
   const oscillates = sH > 0 && sL < 0 && thUp < p.high && thDown > p.low;
   const vov = slew / (2 * Math.PI * p.gbw);

@@ -101,6 +101,14 @@ export function parseSchmitt(raw: RawStage, file: string): ParsedStage<SchmittSe
       if (value === undefined) throw new PlanError(file, path, `missing; the clamp needs vz and vf, e.g. "${key}": ${example}`);
       parts[`clamp.${key}`] = positiveValue(value, 'V', example, file, path);
     }
+    // Two zeners, each with its own spread: `clamp.vz`/`clamp.vf` are the one in
+    // breakdown at the high level (D1), `clamp.vz2`/`clamp.vf2` its partner (D2).
+    // High level = vz + vf2, low level = −(vz2 + vf): a mismatched pair moves the
+    // duty away from 50 %, which is what a duty reading on a real board shows.
+    const vz = parts['clamp.vz'];
+    const vf = parts['clamp.vf'];
+    if (vz) parts['clamp.vz2'] = vz;
+    if (vf) parts['clamp.vf2'] = vf;
   }
   return { parts, settings: { hasPot, pot, hasClamp: clampJson !== undefined } };
 }

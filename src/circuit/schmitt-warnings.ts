@@ -82,7 +82,7 @@ export function schmittWarnings(
   }
   if (opts.hasClamp && t.clampReach <= 1) {
     const highOpen = t.squareHigh < p.vc;
-    const lowOpen = t.squareLow > -p.vc;
+    const lowOpen = t.squareLow > -(p.vcLow ?? p.vc);
     const where = highOpen && lowOpen ? 'never conducts' : highOpen ? 'does not conduct on the positive side' : 'does not conduct on the negative side';
     add(
       `the clamp ${where}: the comparator brings the square node only to about ${v(t.squareHigh)} / ${v(t.squareLow)}, against the zeners' ±${v(p.vc)}; the square follows the op-amp's swing there. Check vz, Rz and the rails.`,

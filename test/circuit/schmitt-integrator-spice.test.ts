@@ -34,6 +34,8 @@ interface Case {
   readonly neg?: number;
   /** Model the clamp as sharp diodes in series with sources at ±(vz + vf) instead of soft zeners. */
   readonly sharpClamp?: boolean;
+  /** The second zener (sets the low level) when it differs from the first: volts. */
+  readonly zener2?: { readonly vz: number; readonly vf: number };
 }
 
 function evaluateCase(c: Case): { out: EvalOutput; input: EvalInput<SchmittSettings> } {
@@ -41,7 +43,11 @@ function evaluateCase(c: Case): { out: EvalOutput; input: EvalInput<SchmittSetti
   if (c.clamp) json['clamp'] = c.clamp;
   if (c.pot !== undefined) json['pot'] = { RV: c.pot };
   const parsed = kind.parse({ json, path: 'stages[0]' }, 'spice.plan.json');
-  const parts = Object.fromEntries(Object.entries(parsed.parts).map(([role, p]) => [role, p.nominal]));
+  const parts: Record<string, number> = Object.fromEntries(Object.entries(parsed.parts).map(([role, p]) => [role, p.nominal]));
+  if (c.zener2) {
+    parts['clamp.vz2'] = c.zener2.vz;
+    parts['clamp.vf2'] = c.zener2.vf;
+  }
   const input: EvalInput<SchmittSettings> = { parts, settings: parsed.settings, opamp, supplies: { pos: c.pos ?? 12, neg: c.neg ?? -12 }, rails: {} };
   return { out: kind.evaluate(input), input };
 }
@@ -64,13 +70,16 @@ function deck(input: EvalInput<SchmittSettings>, pot: number, sharpClamp = false
   ];
   const vz = p['clamp.vz'];
   const vf = p['clamp.vf'];
-  if (vz !== undefined && vf !== undefined && sharpClamp) {
-    // An ideal clamp: diodes with N = 0.01 (a few mV drop) into sources at ±(vz + vf).
-    lines.push('dcp sq cp dsharp', `vcp cp 0 DC ${vz + vf}`, 'dcn cn sq dsharp', `vcn cn 0 DC ${-(vz + vf)}`, '.model dsharp D (IS=1e-15 N=0.01)');
-  } else if (vz !== undefined && vf !== undefined) {
-    // kT/q = 25.85 mV at 27 °C.
-    const is = 5e-3 / Math.exp(vf / 0.025852);
-    lines.push('dz1 sq zm dzener', 'dz2 0 zm dzener', `.model dzener D (IS=${is.toExponential(6)} N=1 BV=${vz} IBV=5m)`);
+  const vz2 = p['clamp.vz2'] ?? vz;
+  const vf2 = p['clamp.vf2'] ?? vf;
+  if (vz !== undefined && vf !== undefined && vz2 !== undefined && vf2 !== undefined && sharpClamp) {
+    // An ideal clamp: diodes with N = 0.01 (a few mV drop) into sources at +(vz + vf2) and −(vz2 + vf).
+    lines.push('dcp sq cp dsharp', `vcp cp 0 DC ${vz + vf2}`, 'dcn cn sq dsharp', `vcn cn 0 DC ${-(vz2 + vf)}`, '.model dsharp D (IS=1e-15 N=0.01)');
+  } else if (vz !== undefined && vf !== undefined && vz2 !== undefined && vf2 !== undefined) {
+    // kT/q = 25.85 mV at 27 °C. dz2 is the zener in breakdown at the high level
+    // (the plan's vz, vf); dz1 its partner (vz2, vf2): high = vz + vf2, low = −(vz2 + vf).
+    const isOf = (drop: number): string => (5e-3 / Math.exp(drop / 0.025852)).toExponential(6);
+    lines.push('dz1 sq zm dzb', 'dz2 0 zm dza', `.model dza D (IS=${isOf(vf)} N=1 BV=${vz} IBV=5m)`, `.model dzb D (IS=${isOf(vf2)} N=1 BV=${vz2} IBV=5m)`);
   }
   return lines.join('\n');
 }
@@ -151,6 +160,8 @@ const cases: readonly Case[] = [
   { name: 'clamped, 4.5 kHz (slew 38 % of a half)', parts: { ...base, Rt: '3k3', Ct: '22n', Rz: '1k' }, clamp: zener },
   { name: 'ideal clamp (diodes into sources), 4.5 kHz', parts: { ...base, Rt: '3k3', Ct: '22n', Rz: '1k' }, clamp: zener, sharpClamp: true },
   { name: 'asymmetric rails +15/−9 V, unclamped, 840 Hz', parts: { ...base, Rt: '5k6', Ct: '100n' }, pos: 15, neg: -9 },
+  // A mismatched zener pair (3.6 V against 4.3 V) moves the duty off 50 %.
+  { name: 'mismatched zeners 3.6 V / 4.3 V, clamped, 1.2 kHz', parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' }, clamp: { vz: '3.6 V', vf: '0.7 V' }, zener2: { vz: 4.3, vf: 0.7 } },
   { name: 'asymmetric rails +15/−9 V, clamped, 1.2 kHz', parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' }, clamp: zener, pos: 15, neg: -9 },
 ];
 
@@ -169,6 +180,8 @@ describe('schmitt-integrator against ngspice (0.5 V/µs, 1 MHz op-amps)', () => 
       // ngspice transient, measured as described at the top; 2 % each.
       expect(Math.abs(relErr(freq, sim.f))).toBeLessThan(limit);
       expect(Math.abs(relErr(v['duty'] ?? Number.NaN, sim.duty))).toBeLessThan(limit);
+      // A mismatched pair must show in the duty (levels 4.3 V and 5.0 V: duty ≈ 5.0/9.3 = 0.54 by the ramp-time ratio).
+      if (c.zener2) expect(Math.abs((v['duty'] ?? 0.5) - 0.5)).toBeGreaterThan(0.02);
       expect(Math.abs(relErr(v['square.vpp'] ?? Number.NaN, sim.squareVpp))).toBeLessThan(limit);
       expect(Math.abs(relErr(v['triangle.vpp'] ?? Number.NaN, sim.triangleVpp))).toBeLessThan(limit);
       // The triangle handed downstream has the simulated shape, overshoot and slewed corners included:
