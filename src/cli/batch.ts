@@ -110,11 +110,11 @@ export function batchTable(f: BatchFigures, filter: BatchFilter): string {
     return `${lines.join('\n')}\n`;
   }
   lines.push('');
-  lines.push(`${cell('check (weakest first)', 24)}${rcell('n', 6)}${rcell('pass', 6)}${rcell('marg', 5)}${rcell('fail', 5)}${rcell('final', 8)}${rcell('mean', 12)}${rcell('sd', 11)}${rcell('Cp', 6)}${rcell('Cpk', 6)}  capability`);
+  lines.push(`${cell('check (weakest first)', 24)}${rcell('n', 7)}${rcell('pass', 7)}${rcell('marg', 7)}${rcell('fail', 7)}${rcell('final', 8)}${rcell('mean', 12)}${rcell('sd', 11)}${rcell('Cp', 6)}${rcell('Cpk', 6)}  capability`);
   for (const c of [...f.checks].sort(weakestFirst)) {
     const word = c.status === 'ok' || c.status === 'one-sided' ? cpkWord(c.cpk) : c.status === 'no-band' ? 'no band' : 'not enough data';
     lines.push(
-      `${cell(c.check, 24)}${rcell(String(c.n), 6)}${rcell(String(c.pass), 6)}${rcell(String(c.marginal), 5)}${rcell(String(c.fail), 5)}${rcell(pct(c.finalYield), 8)}${rcell(fig(c.mean, c.unit), 12)}${rcell(fig(c.sd, c.unit, 3), 11)}${rcell(index2(c.cp), 6)}${rcell(index2(c.cpk), 6)}  ${word}`,
+      `${cell(c.check, 24)}${rcell(String(c.n), 7)}${rcell(String(c.pass), 7)}${rcell(String(c.marginal), 7)}${rcell(String(c.fail), 7)}${rcell(pct(c.finalYield), 8)}${rcell(fig(c.mean, c.unit), 12)}${rcell(fig(c.sd, c.unit, 3), 11)}${rcell(index2(c.cp), 6)}${rcell(index2(c.cpk), 6)}  ${word}`,
     );
   }
   const plans = new Set(f.checks.map((c) => c.plan));
