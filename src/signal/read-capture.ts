@@ -76,10 +76,11 @@ export async function readCaptureFile(
       onProgress?.(Math.min(1, seen / size) * (parser ? 1 : 0.5));
       if (seen >= size) break;
     }
-    const bytes = kept.length === 1 ? (kept[0] as Uint8Array) : joinChunks(kept, seen);
-    const capture = parser ? parser.end() : (reader ?? csvReader).read(bytes, { ...options, name }, (f) => onProgress?.(0.5 + f / 2));
+    // Only what was kept is joined: a streamed CSV keeps nothing.
+    const bytes = kept.length === 0 ? undefined : kept.length === 1 ? (kept[0] as Uint8Array) : joinChunks(kept, seen);
+    const capture = parser ? parser.end() : (reader ?? csvReader).read(bytes ?? new Uint8Array(0), { ...options, name }, (f) => onProgress?.(0.5 + f / 2));
     onProgress?.(1);
-    return options.keepBytes ? { capture, bytes } : { capture };
+    return options.keepBytes && bytes ? { capture, bytes } : { capture };
   } finally {
     await handle.close();
   }
