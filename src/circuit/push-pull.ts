@@ -1,3 +1,4 @@
+import { PlanError } from '../plan/errors.js';
 import { formatValue } from '../units/format.js';
 import { choiceAt, nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind, StageWarning } from './types.js';
@@ -11,7 +12,12 @@ import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind, StageWarni
  *   input − Vbe, input + Vbe, or 0 in between: a dead band of 2·Vbe (crossover).
  * - `bias: "diodes"`: two diodes between the bases, fed by the bias network, hold
  *   each base a diode drop away from the input; the drops cancel and the output
- *   follows the input.
+ *   follows the input. They cancel only as well as the bias diode's drop `vd`
+ *   matches Vbe: a diode that drops less than the transistor leaves a dead band
+ *   of 2·(Vbe − vd); one that drops more makes a standing (class-AB) current
+ *   instead. Without a plan value, vd is Vbe ± 8 % (a diode and a base-emitter
+ *   junction at similar currents match within about ±50 mV; common practice,
+ *   no source), so the dead band target is 0 … about 0.1 V, not an impossible 0.
  *
  * The output cannot go nearer a rail than a Vbe (the base can be driven at most to
  * the rail; common practice, no source). Vbe defaults to 0.65 V (a silicon junction
@@ -23,6 +29,8 @@ export interface PushPullSettings {
 }
 
 export const defaultVbe = 0.65;
+/** Spread of a bias diode's drop against Vbe when the plan gives none (common practice, no source). */
+const defaultMatch = 0.08;
 export const defaultHfe = 100;
 /** A TO-92 transistor gets too hot to touch near half a watt (common practice, no source). */
 const hotWatts = 0.5;
@@ -34,6 +42,8 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   const hfe = input.parts['hfe'] ?? defaultHfe;
   const load = input.settings.hasLoad ? (input.parts['Rload'] ?? Number.NaN) : Number.POSITIVE_INFINITY;
   const crossover = input.settings.bias === 'none';
+  // The part of Vbe the bias diode does not cancel (0 when it drops as much or more).
+  const dead = crossover ? vbe : Math.max(0, vbe - (input.parts['vd'] ?? vbe));
   const high = input.supplies.pos - vbe;
   const low = input.supplies.neg + vbe;
   const n = source.samples.length;
@@ -45,7 +55,7 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   let heatBottom = 0;
   for (let i = 0; i < n; i++) {
     const x = source.samples[i] as number;
-    let y = crossover ? (x > vbe ? x - vbe : x < -vbe ? x + vbe : 0) : x;
+    let y = x > dead ? x - dead : x < -dead ? x + dead : 0;
     if (y > high || y < low) {
       clipped = true;
       y = Math.min(high, Math.max(low, y));
@@ -58,7 +68,7 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
     else heatBottom += ((y - input.supplies.neg) * -y) / load;
   }
   const ipeak = Math.max(Math.abs(hi), Math.abs(lo)) / load;
-  const values: Record<string, number> = { 'out.vpp': hi - lo, deadband: crossover ? 2 * vbe : 0 };
+  const values: Record<string, number> = { 'out.vpp': hi - lo, deadband: 2 * dead };
   if (input.settings.hasLoad) {
     values['out.ipeak'] = ipeak;
     values['base.ipeak'] = ipeak / hfe;
@@ -98,6 +108,7 @@ export const pushPullKind: StageKind<PushPullSettings> = {
     { role: 'Rload', unit: 'Ω', description: 'load from the output to ground', optional: true },
     { role: 'vbe', unit: 'V', description: 'base-emitter drop of the output transistors', optional: true },
     { role: 'hfe', unit: 'V/V', description: 'current gain of the output transistors', optional: true },
+    { role: 'vd', unit: 'V', description: 'drop of each bias diode (diode bias only; default Vbe ± 8 %)', optional: true },
   ],
   outputs: ['out'],
   needsInput: true,
@@ -112,7 +123,14 @@ export const pushPullKind: StageKind<PushPullSettings> = {
     if (vbe) parts['vbe'] = vbe;
     const hfe = partAt(r, 'hfe', 'V/V', false, { positive: true, example: '100' });
     if (hfe) parts['hfe'] = hfe;
-    return { parts, settings: { bias: choiceAt(r, 'bias', ['none', 'diodes'] as const), hasLoad: load !== undefined } };
+    const bias = choiceAt(r, 'bias', ['none', 'diodes'] as const);
+    const vd = partAt(r, 'vd', 'V', false, { positive: true, example: '"0.65 V 8%"' });
+    if (vd && bias !== 'diodes') throw new PlanError(file, `${raw.path}.vd`, 'a bias diode drop only applies with "bias": "diodes"; remove it or set the bias');
+    if (bias === 'diodes') {
+      const v = vbe?.nominal ?? defaultVbe;
+      parts['vd'] = vd ?? { nominal: v, tol: defaultMatch, unit: 'V', text: `${v} V ${defaultMatch * 100}% (default: matched to Vbe)` };
+    }
+    return { parts, settings: { bias, hasLoad: load !== undefined } };
   },
   checks,
   evaluate,

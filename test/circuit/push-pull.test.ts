@@ -125,3 +125,31 @@ describe('push-pull currents and limits', () => {
     expect(Object.values(pushPullKind.faultHints).flat().join(' ')).toMatch(/get hot/);
   });
 });
+
+describe('diode bias: the dead band is what the bias diode does not cancel', () => {
+  test('a diode dropping 50 mV less than Vbe leaves a 0.1 V dead band; one dropping more leaves none', () => {
+    const parsed = pushPullKind.parse({ json: { id: 'drv', kind: 'push-pull', input: 'a.out', bias: 'diodes', vd: '0.6 V', parts: { Rload: '1k' } }, path: 'stages[3]' }, 'pp.plan.json');
+    // The default diode is matched to Vbe with a ±8 % spread (common practice, no source).
+    expect(parsed.parts['vd']?.nominal).toBeCloseTo(0.6, 12);
+    const parts = Object.fromEntries(Object.entries(parsed.parts).map(([k, p]) => [k, p.nominal]));
+    const sine = fromPhase(1000, (ph) => 4 * Math.sin(2 * Math.PI * ph));
+    const run = (vd: number) =>
+      pushPullKind.evaluate({ parts: { ...parts, vd }, settings: parsed.settings, opamp: defaultOpamp, supplies: { pos: 12, neg: -12 }, rails: {}, input: sine });
+    // 2·(Vbe − vd) with Vbe = 0.65 V (arithmetic on the stated model).
+    expect(run(0.6).values['deadband']).toBeCloseTo(0.1, 9);
+    expect(run(0.7).values['deadband']).toBe(0);
+    // The output loses what the dead band takes off each peak: 8 − 2·0.05 V.
+    expect(run(0.6).values['out.vpp']).toBeCloseTo(7.9, 6);
+  });
+
+  test('the default bias diode gives a dead band target of 0 … about 0.1 V', () => {
+    const parsed = pushPullKind.parse({ json: { id: 'drv', kind: 'push-pull', input: 'a.out', bias: 'diodes' }, path: 'stages[3]' }, 'pp.plan.json');
+    const vd = parsed.parts['vd'];
+    expect(vd?.nominal).toBeCloseTo(0.65, 12);
+    expect(vd?.tol).toBeCloseTo(0.08, 12);
+  });
+
+  test('vd without diode bias is a plan error naming the path', () => {
+    expect(() => pushPullKind.parse({ json: { id: 'drv', kind: 'push-pull', input: 'a.out', bias: 'none', vd: '0.6 V' }, path: 'stages[3]' }, 'pp.plan.json')).toThrow(/stages\[3\]\.vd: a bias diode drop only applies/);
+  });
+});
