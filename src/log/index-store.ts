@@ -8,12 +8,13 @@ import { errorCode, LogDamageError } from './errors.js';
 import { withFileLock } from './file-lock.js';
 import { boardSerials, bootId, folderTime, stampsOf } from './board-scan.js';
 import { type BoardHead, type CheckMap, headOf, type IntentLine, type JournalLine, type KnownBoard, replayJournal, reviveChecks, type SuspectLine } from './index-journal.js';
+import { packBoards, type PackedBoards, unpackBoards } from './index-rows.js';
 import { toLogJson } from './json-text.js';
 import { summarizeBoard } from './summary.js';
 import type { BoardFile, BoardSummary, DamagedBoard, LogIndex } from './types.js';
 
 /** Version of the index files (a cache: any other version is rebuilt, never refused). */
-export const indexSchemaVersion = 3;
+export const indexSchemaVersion = 4;
 
 /** Called while boards are read to rebuild the index: `done` of `total` board files. */
 export type IndexProgress = (done: number, total: number) => void;
@@ -28,9 +29,8 @@ const checksPattern = /^index-checks\.[0-9a-f]+\.json$/;
 
 interface Snapshot {
   readonly schemaVersion: number;
-  readonly boards: Record<string, BoardHead>;
-  /** The board file each summary was made from: `<inode>-<size>-<mtime ms>`. */
-  readonly stamps: Record<string, string>;
+  /** Each board's counts and state (no checks) and the stamp of the board file it was made from, packed. */
+  readonly boards: PackedBoards;
   /** The file holding every board's per-check summaries, written with this snapshot. */
   readonly checksFile: string;
   /** The boards folder's time when the boards were last all checked, and the boot it was on. */
@@ -57,14 +57,20 @@ function readText(path: string): string | null {
  * - `index-checks.<gen>.json`, every board's first/latest reading per check,
  *   written with the snapshot and read only when a caller looks at `checks`
  *   (the bench screen never does; the batch review does);
- * - `index.journal`: writers never rewrite the snapshot; after each board write
- *   they append one line (the board's counts, the checks that changed, and the
- *   old and new stamps).
- * Readers take the snapshot, replay the journal, and stat every board file:
- * a board whose stamp differs (a crash between the two writes, a file restored
+ * - `index.journal`: writers never rewrite the snapshot; before each board write
+ *   they append an intent line, after it one line (the board's counts, the
+ *   checks that changed, the old and new stamps, the boards folder's time).
+ * Readers take the snapshot, replay the journal, and check the board files: a
+ * board whose stamp differs (a crash between the two writes, a file restored
  * from `.bak`, a board copied in) or whose journal chain has a gap is read
- * again. A long journal is folded into a new snapshot. Deleting all three loses
- * nothing: the next read rebuilds them from the board files.
+ * again. Every board file is stat'ed unless the journal accounts for the boards
+ * folder's latest change (see `read`). A long journal is folded into a new
+ * snapshot. Deleting all of them loses nothing: the next read rebuilds them
+ * from the board files.
+ *
+ * Known limit of the quick path: a board file rewritten in place by hand (its
+ * folder untouched, e.g. an editor saving over it) is seen at the next full
+ * check, not before; restores are therefore advised as copy-then-rename.
  */
 export class IndexStore {
   readonly file: string;
@@ -110,7 +116,7 @@ export class IndexStore {
     const boot = bootId();
     const snapshot = this.#readSnapshot();
     const known = new Map<string, KnownBoard>();
-    if (snapshot) for (const [serial, head] of Object.entries(snapshot.boards)) known.set(serial, { head, stamp: snapshot.stamps[serial] ?? '', full: null, deltas: [], broken: false });
+    for (const [serial, head, stamp] of snapshot?.rows ?? []) known.set(serial, { head, stamp, full: null, deltas: [], broken: false });
     const journalText = readText(this.journal) ?? '';
     const facts = replayJournal(journalText, known);
     for (const s of snapshot?.suspects ?? []) facts.suspects.add(s);
@@ -177,7 +183,7 @@ export class IndexStore {
     };
   }
 
-  #readSnapshot(): Snapshot | null {
+  #readSnapshot(): (Snapshot & { rows: ReturnType<typeof unpackBoards> & object }) | null {
     const text = readText(this.file);
     if (text === null) return null;
     let data: Partial<Snapshot> | null;
@@ -186,8 +192,9 @@ export class IndexStore {
     } catch {
       return null; // the index is a cache of the board files: a damaged one is rebuilt, not refused
     }
-    if (!data || data.schemaVersion !== indexSchemaVersion || typeof data.boards !== 'object' || typeof data.stamps !== 'object' || typeof data.checksFile !== 'string' || !Array.isArray(data.suspects)) return null;
-    return data as Snapshot;
+    if (!data || data.schemaVersion !== indexSchemaVersion || typeof data.boards !== 'object' || data.boards === null || typeof data.checksFile !== 'string' || !Array.isArray(data.suspects)) return null;
+    const rows = unpackBoards(data.boards);
+    return rows ? { ...(data as Snapshot), rows } : null;
   }
 
   #readChecks(name: string): Record<string, CheckMap> | null {
@@ -205,14 +212,9 @@ export class IndexStore {
   }
 
   async #compact(boards: Record<string, BoardSummary>, known: ReadonlyMap<string, KnownBoard>, before: Snapshot | null, seen: Pick<Snapshot, 'dir' | 'boot' | 'suspects'>): Promise<void> {
-    const heads: Record<string, BoardHead> = {};
-    const stamps: Record<string, string> = {};
     const checks: Record<string, CheckMap> = {};
-    for (const [serial, k] of known) {
-      heads[serial] = k.head;
-      stamps[serial] = k.stamp;
-      checks[serial] = boards[serial]?.checks ?? {};
-    }
+    for (const serial of known.keys()) checks[serial] = boards[serial]?.checks ?? {};
+    const packed = packBoards([...known].map(([serial, k]) => [serial, k.head, k.stamp] as [string, BoardHead, string]));
     const checksFile = `index-checks.${randomBytes(6).toString('hex')}.json`;
     await this.#tryWrite(() =>
       withFileLock(this.file, async () => {
@@ -226,7 +228,7 @@ export class IndexStore {
         }
         const replaced = this.#readSnapshot()?.checksFile ?? before?.checksFile;
         await new DurableTextFile(join(this.dir, checksFile)).write(toLogJson({ schemaVersion: indexSchemaVersion, checks }));
-        await new DurableTextFile(this.file).write(JSON.stringify({ schemaVersion: indexSchemaVersion, boards: heads, stamps, checksFile, ...seen } satisfies Snapshot));
+        await new DurableTextFile(this.file).write(JSON.stringify({ schemaVersion: indexSchemaVersion, boards: packed, checksFile, ...seen } satisfies Snapshot));
         for (const name of [aside, ...readdirSync(this.dir).filter((n) => checksPattern.test(n) && n !== checksFile && n !== replaced).map((n) => join(this.dir, n))]) {
           try {
             unlinkSync(name);
@@ -253,7 +255,8 @@ export class IndexStore {
 /** A board summary whose `checks` are looked up the first time they are read. */
 function lazySummary(head: BoardHead, checks: () => CheckMap): BoardSummary {
   let cached: CheckMap | undefined;
-  return Object.defineProperty({ ...head }, 'checks', {
+  // The head is this reader's own object: adding `checks` to it spares a copy per board.
+  return Object.defineProperty(head, 'checks', {
     enumerable: true,
     get: () => (cached ??= checks()),
   }) as BoardSummary;
