@@ -83,10 +83,11 @@ export function evaluateAmplifier(shape: AmplifierShape, input: EvalInput<unknow
   const warnings: StageWarning[] = [];
   if (source.frequency > 0) {
     const h = 1 / (source.frequency * n);
-    const slewed = slewLimit(filtered, input.opamp.slew * h);
-    out = slewed.out;
     const needed = steepest / h;
-    if (needed > input.opamp.slew) {
+    // Clipping never steepens a step, so when no step of the unclipped output exceeds
+    // the slew limit the slew-limited waveform is the same one: skip its three passes.
+    if (needed > input.opamp.slew) out = slewLimit(filtered, input.opamp.slew * h).out;
+    if (needed > input.opamp.slew && !input.isTrial) {
       const peak = Math.max(Math.abs(wantHi), Math.abs(wantLo));
       // Full-power bandwidth SR / (2π·Vpeak): the highest frequency a full sine of this peak survives.
       const fpbw = input.opamp.slew / (2 * Math.PI * peak);
@@ -95,7 +96,7 @@ export function evaluateAmplifier(shape: AmplifierShape, input: EvalInput<unknow
       });
     }
   }
-  if (clipped) {
+  if (clipped && !input.isTrial) {
     warnings.push({
       message: `the output would swing ${formatValue(wantLo, 'V')} … ${formatValue(wantHi, 'V')} but the op-amp reaches only ${formatValue(low, 'V')} … ${formatValue(high, 'V')} on these rails (headroom ${formatValue(input.opamp.headroom, 'V')}): it clips`,
     });

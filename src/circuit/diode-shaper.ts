@@ -1,5 +1,5 @@
 import { type DiodeModel, defaultDiode, defaultDiodeName, diodeModels, diodeString } from './diode.js';
-import { type ShaperBranch, type ShaperNet, solveNode } from './shaper-solver.js';
+import { type ShaperBranch, type ShaperNet, solveNode, solveNodeSparse } from './shaper-solver.js';
 import { fastThd } from './spectrum.js';
 import { choiceAt, countAt, list, nested, ohmRange, onlyKeys, partAt, reader, type StageReader } from './stage-parse.js';
 import { PlanError } from '../plan/errors.js';
@@ -89,8 +89,10 @@ function evaluate(input: EvalInput<DiodeShaperSettings>): EvalOutput {
   // A memoryless node: a waveform that mirrors about its peak (a triangle) is solved
   // on one slope only and copied to the other, exactly.
   const m = mirrorOrder(vin);
-  const peaks = new Float64Array(net.branches.length);
-  solveNode(net, vin, m.order, out, peaks);
+  // A trial needs bench accuracy and no warnings: solve knots and interpolate (see solveNodeSparse).
+  const peaks = input.isTrial ? undefined : new Float64Array(net.branches.length);
+  if (peaks) solveNode(net, vin, m.order, out, peaks);
+  else solveNodeSparse(net, vin, m.order, out);
   m.fill(out);
   let hi = -Infinity;
   let lo = Infinity;
@@ -104,8 +106,10 @@ function evaluate(input: EvalInput<DiodeShaperSettings>): EvalOutput {
     'out.thd': source.frequency > 0 ? fastThd(out) : Number.NaN,
     'out.peak': hi,
   };
-  return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings: warningsFor(net, vin, out, peaks) };
+  return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings: peaks ? warningsFor(net, vin, out, peaks) : noWarnings };
 }
+
+const noWarnings: readonly StageWarning[] = Object.freeze([]);
 
 function warningsFor(net: ShaperNet, vin: Float64Array, out: Float64Array, peaks: Float64Array): StageWarning[] {
   const warnings: StageWarning[] = [];

@@ -66,6 +66,14 @@ export interface EvalInput<Settings> {
   /** Every rail of the board by id, volts (sampled), for stages tied to a rail (a divider). */
   readonly rails: Readonly<Record<string, number>>;
   readonly input?: Waveform;
+  /**
+   * A sampled evaluation (Monte Carlo trial, worst-case corner, sensitivity
+   * step): the caller reads only `values` and `outputs`. A kind may then skip
+   * its warnings and solve to bench accuracy (tens of µV) instead of to the
+   * last microvolt. Absent or false for the nominal evaluation and for anything
+   * shown to the user. @default false
+   */
+  readonly isTrial?: boolean;
 }
 
 /** A design warning raised while evaluating a stage. */

@@ -44,6 +44,8 @@ export interface Chain {
    * `reuse` takes the first so many stages from the nominal evaluation instead
    * of evaluating them: only valid when `x` differs from the nominal in no
    * variable of those stages and in no rail (one-part-at-a-time searches).
+   * Stages see `isTrial: true` here (bench accuracy, no warnings); `detail`
+   * evaluates exactly, for nominal values shown to the user.
    */
   evaluate(x: Float64Array, out: Float64Array, stages?: number, reuse?: number): void;
   /** Position of a stage in chain order, −1 for none (rails). */
@@ -54,6 +56,17 @@ export interface Chain {
 const noValues: Record<string, number> = Object.freeze({}) as Record<string, number>;
 const noOutputs: Record<string, Waveform> = Object.freeze({}) as Record<string, Waveform>;
 const noList: never[] = Object.freeze([]) as unknown as never[];
+
+/** Arguments of one stage evaluation, refilled in place on the hot path. */
+interface HotArgs {
+  parts: Record<string, number>;
+  settings: unknown;
+  opamp: PlanStage['opamp'];
+  supplies: Supplies;
+  rails: Record<string, number>;
+  input?: Waveform;
+  isTrial?: boolean;
+}
 
 interface StagePlan {
   readonly stage: PlanStage;
@@ -103,12 +116,14 @@ export function buildChain(plan: Plan): Chain {
 
   let nominalResults: (EvalOutput | undefined)[] | undefined;
   // The hot path (keep = false) refills these objects in place instead of building new ones per
-  // trial: stage kinds are pure functions of their input and keep no reference to it.
+  // trial: stage kinds are pure functions of their input and keep no reference to it. Its
+  // evaluations are marked as trials: nobody reads their warnings (`detail` is the exact path).
   const hotRails: Record<string, number> = Object.fromEntries(railIds.map((id) => [id, 0]));
   const hotSupplies = { pos: 0, neg: 0 };
   const hotArgs = stagePlans.map((sp) => {
     const parts: Record<string, number> = Object.fromEntries(sp.roles.map((r) => [r, 0]));
-    return { parts, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies: hotSupplies as Supplies, rails: hotRails } as { parts: Record<string, number>; settings: unknown; opamp: PlanStage['opamp']; supplies: Supplies; rails: Record<string, number>; input?: Waveform };
+    const args: HotArgs = { parts, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies: hotSupplies, rails: hotRails, isTrial: true };
+    return args;
   });
   const hotResults: (EvalOutput | undefined)[] = new Array(stagePlans.length);
 
@@ -143,7 +158,7 @@ export function buildChain(plan: Plan): Chain {
       if (s < reuse) result = nominalResults?.[s];
       else if (sp.inputStage < 0 || input) {
         try {
-          const args = keep ? { parts: {} as Record<string, number>, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies, rails } : (hotArgs[s] as NonNullable<(typeof hotArgs)[number]>);
+          const args: HotArgs = keep ? { parts: {}, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies, rails } : (hotArgs[s] as HotArgs);
           const parts = args.parts;
           for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
           if (input && !keep) args.input = input;
