@@ -52,7 +52,7 @@ export function BringUpScreen(props: BringUpProps) {
   const { captured } = b;
   // Drawn again only when the check, the size or a capture changes, not on every keystroke.
   const chart = useMemo(
-    () => (trace && layout.traceRows > 0 && !overlay ? traceChart(trace.samples, captured(trace.output), { width: layout.panelWidth, height: layout.traceRows, ...(trace.band ? { band: trace.band } : {}) }) : null),
+    () => (trace && layout.traceRows > 0 && !overlay ? traceChart(trace.samples, captured(trace.output, trace.samples), { width: layout.panelWidth, height: layout.traceRows, ...(trace.band ? { band: trace.band } : {}) }) : null),
     [trace, layout.traceRows, layout.panelWidth, overlay, captured],
   );
   const powerReading = last ? formatReading(last.value, last.unit) : '';

@@ -13,6 +13,8 @@ export interface CaptureFigures {
   readonly measurements: Measurements;
   readonly samples: Float64Array;
   readonly sampleRate: number;
+  /** One period averaged over the capture, from a rising mean-level crossing (empty when none). */
+  readonly period?: Float64Array;
 }
 
 /** A reading to save from a capture figure. */

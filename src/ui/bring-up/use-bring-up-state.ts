@@ -1,4 +1,5 @@
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import { alignPeriod } from '../../signal/align.js';
 import { explainReading, hintsFor } from '../../analysis/explain.js';
 import type { Target } from '../../analysis/types.js';
 import type { RunOutcome } from '../../log/types.js';
@@ -53,6 +54,7 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
   const [runId, setRunId] = useState<string | null>(resumeRun ?? null);
   // Two periods of the latest capture at each output, drawn over the expected trace.
   const [captures, setCaptures] = useState<ReadonlyMap<string, Float64Array>>(new Map());
+  const aligned = useRef(new Set<string>());
   const runRef = useRef<Promise<string> | null>(resumeRun ? Promise.resolve(resumeRun) : null);
   const busy = useRef(false);
 
@@ -187,7 +189,10 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
         await log.linkCapture(serial, { file, name: capture.name, at: new Date().toISOString(), check: t.check, run });
         const where = outputOf(plan, t);
         const periods = capture.measurements.frequency ? Math.round((2 * capture.sampleRate) / capture.measurements.frequency) : capture.samples.length;
-        if (where) setCaptures((m) => new Map(m).set(where, capture.samples.slice(0, Math.max(2, Math.min(capture.samples.length, periods)))));
+        // The averaged period (from CaptureAttach) is lined up with the expected trace when drawn; else two raw periods.
+        const drawn = capture.period && capture.period.length > 1 ? capture.period : capture.samples.slice(0, Math.max(2, Math.min(capture.samples.length, periods)));
+        if (where) setCaptures((m) => new Map(m).set(where, drawn));
+        if (where && capture.period && capture.period.length > 1) aligned.current.add(where);
         const planned = captureReadings(plan, targets.targets, t, capture, (check) => lockReason(stateRef.current, check) === null);
         if (planned.length === 0) {
           setStatus({ kind: 'rejected', message: `the capture has no figure for ${t.check}; it is saved as ${file}` });
@@ -250,7 +255,15 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
     statusRef,
     acknowledgeCautions: useCallback(() => dispatch({ type: 'acknowledge-cautions' }), [dispatch]),
     acknowledgePowerOff: useCallback(() => dispatch({ type: 'power-off-acknowledged' }), [dispatch]),
-    captured: useCallback((output: string) => captures.get(output) ?? null, [captures]),
+    captured: useCallback(
+      (output: string, expected?: Float64Array) => {
+        const c = captures.get(output);
+        if (!c) return null;
+        // One averaged period: rotate it onto the expected trace (two periods) for the overlay.
+        return expected && aligned.current.has(output) ? alignPeriod(expected.subarray(0, expected.length / 2), c, 2) : c;
+      },
+      [captures],
+    ),
     clearStatus: useCallback(() => setStatus((s) => (s.kind === 'rejected' || s.kind === 'note' ? { kind: 'idle' } : s)), []),
   };
 }
