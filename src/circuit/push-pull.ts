@@ -46,15 +46,14 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   const dead = crossover ? vbe : Math.max(0, vbe - (input.parts['vd'] ?? vbe));
   const high = input.supplies.pos - vbe;
   const low = input.supplies.neg + vbe;
-  const n = source.samples.length;
+  const samples = source.samples;
+  const n = samples.length;
   const out = new Float64Array(n);
   let hi = -Infinity;
   let lo = Infinity;
   let clipped = false;
-  let heatTop = 0;
-  let heatBottom = 0;
   for (let i = 0; i < n; i++) {
-    const x = source.samples[i] as number;
+    const x = samples[i] as number;
     let y = x > dead ? x - dead : x < -dead ? x + dead : 0;
     if (y > high || y < low) {
       clipped = true;
@@ -63,9 +62,21 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
     out[i] = y;
     if (y > hi) hi = y;
     if (y < lo) lo = y;
-    // Collector dissipation (Vce · Ie) of whichever transistor conducts.
-    if (y > 0) heatTop += ((input.supplies.pos - y) * y) / load;
-    else heatBottom += ((y - input.supplies.neg) * -y) / load;
+  }
+  // Collector dissipation (Vce · Ie) of whichever transistor conducts, for the warning only
+  // (a Monte Carlo trial reads no warnings).
+  let heatTop = 0;
+  let heatBottom = 0;
+  if (!input.isTrial && input.settings.hasLoad) {
+    const pos = input.supplies.pos;
+    const neg = input.supplies.neg;
+    for (let i = 0; i < n; i++) {
+      const y = out[i] as number;
+      if (y > 0) heatTop += (pos - y) * y;
+      else heatBottom += (y - neg) * -y;
+    }
+    heatTop /= load;
+    heatBottom /= load;
   }
   const ipeak = Math.max(Math.abs(hi), Math.abs(lo)) / load;
   const values: Record<string, number> = { 'out.vpp': hi - lo, deadband: 2 * dead };
@@ -74,6 +85,7 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
     values['base.ipeak'] = ipeak / hfe;
   }
   const warnings: StageWarning[] = [];
+  if (input.isTrial) return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings };
   if (crossover) {
     warnings.push({ message: `no bias: a dead band of ±${formatValue(vbe, 'V')} around zero (crossover distortion); the output loses a Vbe on each peak` });
   }
