@@ -90,6 +90,7 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
               serial={route.serial}
               operator={operator}
               onDirtyChange={setDirty}
+              onTypingChange={setTyping}
               {...(route.resumeRun ? { resumeRun: route.resumeRun } : {})}
             />
           )}
@@ -97,10 +98,10 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
       );
       break;
     case 'history':
-      screen = <HistoryScreen {...common} serial={route.serial} />;
+      screen = <HistoryScreen {...common} serial={route.serial} onTypingChange={setTyping} />;
       break;
     case 'batch':
-      screen = <BatchScreen {...common} onOpenBoard={(serial) => push({ screen: 'history', serial })} />;
+      screen = <BatchScreen {...common} onTypingChange={setTyping} onOpenBoard={(serial) => push({ screen: 'history', serial })} />;
       break;
     case 'plan':
       screen = (

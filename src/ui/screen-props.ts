@@ -12,6 +12,11 @@ export interface ScreenProps {
   readonly isActive?: boolean;
   /** Go back to the screen before (Esc). */
   readonly onExit: () => void;
+  /**
+   * Tell the app a text field has the keyboard (a rework note, a filter form),
+   * so that `q` types a q there instead of quitting.
+   */
+  readonly onTypingChange?: (isTyping: boolean) => void;
 }
 
 export interface BringUpProps extends ScreenProps {

@@ -196,4 +196,23 @@ describe('quitting', () => {
     await app.press('y');
     expect(app.quitCount()).toBe(1);
   });
+
+  test('q in the rework note is a letter, not quit (and no quit dialog)', async () => {
+    app = await renderApp();
+    await app.waitFor('No boards');
+    await app.press('n');
+    await app.type('FX-0003');
+    await app.press(keys.enter);
+    await app.waitFor('Cautions before first power');
+    await app.press(keys.enter);
+    await app.waitFor('rails.+12V.to-ground');
+    await app.press('r');
+    await app.waitFor('part');
+    await app.type('q');
+    expect(app.frame()).not.toContain('Quit probebook?');
+    expect(app.quitCount()).toBe(0);
+    await app.press(keys.escape);
+    await app.press('q');
+    expect(app.quitCount()).toBe(1);
+  });
 });

@@ -1,4 +1,5 @@
 import { Box, Text } from 'ink';
+import { useEffect } from 'react';
 import { describeFilter } from '../../review/filter.js';
 import { fig, pct } from '../../review/format.js';
 import { Header } from '../components/header.js';
@@ -16,8 +17,10 @@ import { batchPanels, selectedCheck, useBatchState } from './use-batch-state.js'
 const panelLabel = { histogram: 'Histogram', trend: 'Trend', outliers: 'Outliers' } as const;
 
 /** Every check across the boards: yield, spread, capability, with histogram, trend and outliers. */
-export function BatchScreen({ log, width, height, isActive = true, onExit, onOpenBoard }: BatchProps) {
+export function BatchScreen({ log, width, height, isActive = true, onExit, onOpenBoard, onTypingChange }: BatchProps) {
   const { state, dispatch } = useBatchState(log);
+  const isTyping = state.form !== null && state.form !== undefined;
+  useEffect(() => onTypingChange?.(isTyping), [isTyping, onTypingChange]);
   const rest = Math.max(6, height - 6);
   const tableRows = Math.max(2, Math.min(state.rows.length, Math.floor(rest * 0.35)));
   const panelRows = Math.max(4, rest - tableRows);

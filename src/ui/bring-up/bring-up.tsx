@@ -34,7 +34,7 @@ export function BringUpScreen(props: BringUpProps) {
   const { plan, targets, serial, width, height, isActive = true, onExit } = props;
   const b = useBringUpState(props);
   const { state, target, status } = b;
-  const keys = useBringUpKeys(b, { isActive, onExit, onDirtyChange: props.onDirtyChange, reworkDefaults: () => reworkDefaults(plan, b.explanationRef.current.explanations) });
+  const keys = useBringUpKeys(b, { isActive, onExit, onDirtyChange: props.onDirtyChange, onTypingChange: props.onTypingChange, reworkDefaults: () => reworkDefaults(plan, b.explanationRef.current.explanations) });
   const outputs = useMemo(() => nominalOutputs(plan), [plan]);
   const trace = useMemo(() => (target ? expectedTrace(plan, targets.targets, target, outputs) : null), [plan, targets, target, outputs]);
   const shape = useMemo(() => (trace ? shapeOf(trace.samples) : undefined), [trace]);

@@ -13,6 +13,7 @@ export interface BringUpKeysOptions {
   readonly isActive: boolean;
   readonly onExit: () => void;
   readonly onDirtyChange: ((isDirty: boolean) => void) | undefined;
+  readonly onTypingChange?: ((isTyping: boolean) => void) | undefined;
   /** The rework form's starting part and value (from the top explanation of a fail). */
   readonly reworkDefaults: () => ReworkFields;
 }
@@ -21,7 +22,7 @@ const emptyRework: ReworkFields = { part: '', from: '', to: '', note: '' };
 const printable = (input: string): string => input.replace(/[\u0000-\u001F\u007F]/g, '');
 
 /** The keyboard of the bring-up screen, and the screen-local state it edits (input text, cursor, forms). */
-export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, reworkDefaults }: BringUpKeysOptions) {
+export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, onTypingChange, reworkDefaults }: BringUpKeysOptions) {
   const [focus, setFocus, focusRef] = useLiveState<Focus>('input');
   const [text, setText, textRef] = useLiveState('');
   const [cursor, setCursor, cursorRef] = useLiveState(0);
@@ -44,6 +45,13 @@ export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, re
   useEffect(() => {
     dirty.current?.(isDirty);
   }, [isDirty]);
+  // In the rework and capture forms every letter is text: the app's `q` must not quit there.
+  const typing = useRef(onTypingChange);
+  typing.current = onTypingChange;
+  const isTyping = focus === 'rework' || focus === 'capture';
+  useEffect(() => {
+    typing.current?.(isTyping);
+  }, [isTyping]);
 
   const command = (input: string): boolean => {
     if (input === '?') setFocus('help');
