@@ -18,19 +18,28 @@ const sameLevel = 1e-12;
 export function mirrorOrder(samples: Float64Array): MirrorPlan {
   const n = samples.length;
   let p = 0;
+  let top = n > 0 ? (samples[0] as number) : 0;
   let lo = Infinity;
   for (let i = 0; i < n; i++) {
-    const v = samples[i] ?? 0;
-    if (v > (samples[p] ?? 0)) p = i;
+    const v = samples[i] as number;
+    if (v > top) {
+      top = v;
+      p = i;
+    }
     if (v < lo) lo = v;
   }
-  const span = (samples[p] ?? 0) - lo;
+  const span = top - lo;
   const half = Math.floor(n / 2);
   let mirrored = n >= 4;
+  const allowed = sameLevel * span;
+  // Walk both ways from the peak with wrapping indices (no modulo in the loop: it runs every trial).
+  let up = p;
+  let down = p;
   for (let j = 1; j <= half && mirrored; j++) {
-    const a = samples[(p + j) % n] ?? 0;
-    const b = samples[(p - j + n) % n] ?? 0;
-    if (Math.abs(a - b) > sameLevel * span) mirrored = false;
+    up = up + 1 === n ? 0 : up + 1;
+    down = down === 0 ? n - 1 : down - 1;
+    const d = (samples[up] as number) - (samples[down] as number);
+    if (d > allowed || d < -allowed) mirrored = false;
   }
   if (!mirrored) {
     if (last && !last.mirrored && last.n === n && last.p === p) return last.plan;
@@ -47,7 +56,13 @@ export function mirrorOrder(samples: Float64Array): MirrorPlan {
   const plan: MirrorPlan = {
     order,
     fill(out) {
-      for (let j = 1; j < n - half; j++) out[(p + j) % n] = out[(p - j + n) % n] ?? 0;
+      let up = p;
+      let down = p;
+      for (let j = 1; j < n - half; j++) {
+        up = up + 1 === n ? 0 : up + 1;
+        down = down === 0 ? n - 1 : down - 1;
+        out[up] = out[down] as number;
+      }
     },
   };
   last = { n, p, mirrored: true, plan };
