@@ -1,7 +1,7 @@
-// Build the `probebook` command: one production bundle (dist/probebook.js).
+// Build the `probebook` command: a production bundle (dist/probebook.js).
 // A bundle starts much faster than tsx or unbundled imports of react and ink.
 import { build } from 'esbuild';
-import { chmodSync } from 'node:fs';
+import { chmodSync, rmSync } from 'node:fs';
 
 // Ink imports react-devtools-core only when DEV=true, but a bundle hoists an
 // external import to the top and then fails to start without the package. Bundle
@@ -17,9 +17,18 @@ const noDevtools = {
   },
 };
 
+// One build with code splitting: `dist/probebook.js` (the command) and
+// `dist/targets-worker.js` (the bench screen runs a plan's Monte Carlo in a worker
+// thread so the screen keeps drawing) share their chunks, and the shell commands
+// (`targets`, `analyze`, `record`, …) never parse React and Ink, which live in a
+// chunk of their own loaded only for the TUI. Chunks sit beside the entry files:
+// the worker is found by `new URL('./targets-worker.js', import.meta.url)`.
+rmSync('dist', { recursive: true, force: true });
 await build({
-  entryPoints: ['src/cli/bin.ts'],
-  outfile: 'dist/probebook.js',
+  entryPoints: { probebook: 'src/cli/bin.ts', 'targets-worker': 'src/ui/bench/targets-worker.ts' },
+  outdir: 'dist',
+  chunkNames: 'chunk-[hash]',
+  splitting: true,
   bundle: true,
   platform: 'node',
   target: 'node20',
@@ -38,19 +47,3 @@ await build({
   logLevel: 'warning',
 });
 chmodSync('dist/probebook.js', 0o755);
-
-// The bench screen computes a plan's targets (the Monte Carlo) in a worker thread
-// so the screen keeps drawing: a second, small bundle beside the first.
-await build({
-  entryPoints: ['src/ui/bench/targets-worker.ts'],
-  outfile: 'dist/targets-worker.js',
-  bundle: true,
-  platform: 'node',
-  target: 'node20',
-  format: 'esm',
-  minify: true,
-  legalComments: 'none',
-  define: { 'process.env.NODE_ENV': '"production"' },
-  banner: { js: "import { createRequire as __probebookRequire } from 'node:module';\nconst require = __probebookRequire(import.meta.url);" },
-  logLevel: 'warning',
-});
