@@ -85,7 +85,8 @@ function evaluate(input: EvalInput<DiodeShaperSettings>): EvalOutput {
   if (!source) throw new Error('diode-shaper: no input waveform; the plan must name an "input"');
   const net = shaperNet(input);
   const vin = source.samples;
-  const out = new Float64Array(vin.length);
+  // Every sample is written below, so a trial's reused array needs no clearing.
+  const out = input.buffer ? input.buffer(0, vin.length) : new Float64Array(vin.length);
   // A memoryless node: a waveform that mirrors about its peak (a triangle) is solved
   // on one slope only and copied to the other, exactly.
   const m = mirrorOrder(vin);

@@ -48,7 +48,7 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   const low = input.supplies.neg + vbe;
   const samples = source.samples;
   const n = samples.length;
-  const out = new Float64Array(n);
+  const out = input.buffer ? input.buffer(0, n) : new Float64Array(n);
   let hi = -Infinity;
   let lo = Infinity;
   let clipped = false;

@@ -74,6 +74,14 @@ export interface EvalInput<Settings> {
    * shown to the user. @default false
    */
   readonly isTrial?: boolean;
+  /**
+   * On a trial, the stage's own output arrays to refill instead of allocating:
+   * `buffer(slot, length)` returns the same Float64Array of that length for the
+   * same slot on every trial of this stage (contents left from the last one), so
+   * an output written there lives only until the stage's next trial. Absent
+   * whenever the outputs are kept.
+   */
+  readonly buffer?: ((slot: number, length: number) => Float64Array) | undefined;
 }
 
 /** A design warning raised while evaluating a stage. */

@@ -66,6 +66,20 @@ interface HotArgs {
   rails: Record<string, number>;
   input?: Waveform;
   isTrial?: boolean;
+  buffer?: ((slot: number, length: number) => Float64Array) | undefined;
+}
+
+/** A stage's own output arrays for trials, by slot (see EvalInput.buffer). */
+function bufferPool(): (slot: number, length: number) => Float64Array {
+  const arrays: Float64Array[] = [];
+  return (slot, length) => {
+    let a = arrays[slot];
+    if (!a || a.length !== length) {
+      a = new Float64Array(length);
+      arrays[slot] = a;
+    }
+    return a;
+  };
 }
 
 interface StagePlan {
@@ -122,10 +136,11 @@ export function buildChain(plan: Plan): Chain {
   const hotSupplies = { pos: 0, neg: 0 };
   const hotArgs = stagePlans.map((sp) => {
     const parts: Record<string, number> = Object.fromEntries(sp.roles.map((r) => [r, 0]));
-    const args: HotArgs = { parts, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies: hotSupplies, rails: hotRails, isTrial: true };
+    const args: HotArgs = { parts, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies: hotSupplies, rails: hotRails, isTrial: true, buffer: undefined };
     return args;
   });
   const hotResults: (EvalOutput | undefined)[] = new Array(stagePlans.length);
+  const hotBuffers = stagePlans.map(() => bufferPool());
 
   const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length, reuse = 0, capture?: (EvalOutput | undefined)[]): ChainDetail => {
     const rails: Record<string, number> = keep ? {} : hotRails;
@@ -161,7 +176,11 @@ export function buildChain(plan: Plan): Chain {
           const args: HotArgs = keep ? { parts: {}, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies, rails } : (hotArgs[s] as HotArgs);
           const parts = args.parts;
           for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
-          if (input && !keep) args.input = input;
+          if (!keep) {
+            if (input) args.input = input;
+            // The captured nominal results are read again later: they must not share the trials' arrays.
+            args.buffer = capture ? undefined : hotBuffers[s];
+          }
           result = sp.stage.module.evaluate(input && keep ? { ...args, input } : args);
         } catch (error) {
           if (keep) failures.push({ stage: sp.stage.id, message: error instanceof Error ? error.message : String(error) });
