@@ -8,11 +8,16 @@ import type { Target, VerdictResult } from './types.js';
  * `fail` when it lies wholly outside, `marginal` when it straddles an edge.
  */
 export function verdictFor(target: Pick<Target, 'nominal' | 'worst'>, reading: number, spec: UncertaintySpec | undefined): VerdictResult {
-  const u = spec ? uncertaintyOf(reading, spec) : 0;
   const { min, max } = target.worst;
   const warnings: string[] = [];
+  // An over-range reading (a meter's OL on a resistance-to-ground check, +∞) has
+  // no finite uncertainty: it is judged against the band's limits alone.
+  const isOverRange = !Number.isFinite(reading);
+  if (isOverRange) warnings.push('an over-range reading (OL) is judged against the band limits alone, without a guard band');
+  const u = spec && !isOverRange ? uncertaintyOf(reading, spec) : 0;
   let verdict: VerdictResult['verdict'];
-  if (reading - u >= min && reading + u <= max) verdict = 'pass';
+  if (Number.isNaN(reading)) verdict = 'fail';
+  else if (reading - u >= min && reading + u <= max) verdict = 'pass';
   else if (reading + u < min || reading - u > max) verdict = 'fail';
   else verdict = 'marginal';
   if (2 * u >= max - min) warnings.push('the instrument uncertainty is as wide as the band: this reading cannot pass; use a better instrument or range');
