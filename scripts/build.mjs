@@ -1,7 +1,28 @@
 // Build the `probebook` command: a production bundle (dist/probebook.js).
 // A bundle starts much faster than tsx or unbundled imports of react and ink.
 import { build } from 'esbuild';
-import { chmodSync, rmSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { chmodSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { join } from 'node:path';
+
+// A build id from the sources and data tables: caches of computed targets are
+// keyed by it, so a changed model never serves bands computed by an older one.
+function buildId() {
+  const hash = createHash('sha256');
+  const walk = (dir) => {
+    for (const entry of readdirSync(dir, { withFileTypes: true }).sort((a, b) => a.name.localeCompare(b.name))) {
+      const path = join(dir, entry.name);
+      if (entry.isDirectory()) walk(path);
+      else {
+        hash.update(path);
+        hash.update(readFileSync(path));
+      }
+    }
+  };
+  walk('src');
+  walk('data');
+  return hash.digest('hex').slice(0, 16);
+}
 
 // Ink imports react-devtools-core only when DEV=true, but a bundle hoists an
 // external import to the top and then fails to start without the package. Bundle
@@ -40,7 +61,7 @@ await build({
   // Ink's layout engine (yoga, Emscripten) asks `typeof fetch` before it decodes
   // its embedded wasm; in Node 20 that touches the lazy global and loads undici
   // (tens of ms at start-up) to fetch a data: URL. probebook never uses fetch.
-  define: { 'process.env.NODE_ENV': '"production"', fetch: 'undefined' },
+  define: { 'process.env.NODE_ENV': '"production"', fetch: 'undefined', __PROBEBOOK_BUILD__: JSON.stringify(buildId()) },
   banner: {
     js: "#!/usr/bin/env node\nimport { createRequire as __probebookRequire } from 'node:module';\nconst require = __probebookRequire(import.meta.url);",
   },

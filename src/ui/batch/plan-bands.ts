@@ -7,8 +7,16 @@ import { loadPlanText } from '../../plan/load.js';
 import { createBandSource, type BandSource, type TargetList } from '../../review/bands.js';
 import { bandsFromText, bandsToText } from './bands-cache-text.js';
 
-/** Bump when the target engine changes what it computes, so cached bands are not reused. */
-export const targetsEngineKey = `e1-t${defaultTrials}-s${defaultSeed}`;
+// Replaced by the build script with a hash of src/ and data/ (scripts/build.mjs).
+declare const __PROBEBOOK_BUILD__: string | undefined;
+const build = typeof __PROBEBOOK_BUILD__ === 'string' ? __PROBEBOOK_BUILD__ : 'source';
+
+/**
+ * The cache key of computed bands: the engine's trials and seed and the build
+ * (a hash of the sources), so a changed model never reuses bands of an older one.
+ * Run from source (tsx, tests) the build is `source`: bump `e1` by hand there.
+ */
+export const targetsEngineKey = `e1-${build}-t${defaultTrials}-s${defaultSeed}`;
 
 /**
  * Where computed targets are cached between runs: `$PROBEBOOK_CACHE`, else the
