@@ -1,5 +1,5 @@
 import { type DiodeModel, defaultDiode, defaultDiodeName, diodeModels, diodeString } from './diode.js';
-import { type ShaperBranch, type ShaperNet, solveNode, solveNodeSparse } from './shaper-solver.js';
+import { type ShaperBranch, type ShaperNet, solveNode, solveTransfer } from './shaper-solver.js';
 import { fastThd } from './spectrum.js';
 import { choiceAt, countAt, list, nested, ohmRange, onlyKeys, partAt, reader, type StageReader } from './stage-parse.js';
 import { PlanError } from '../plan/errors.js';
@@ -88,13 +88,14 @@ function evaluate(input: EvalInput<DiodeShaperSettings>): EvalOutput {
   // Every sample is written below, so a trial's reused array needs no clearing.
   const out = input.buffer ? input.buffer(0, vin.length) : new Float64Array(vin.length);
   // A memoryless node: a waveform that mirrors about its peak (a triangle) is solved
-  // on one slope only and copied to the other, exactly.
-  const m = mirrorOrder(vin);
-  // A trial needs bench accuracy and no warnings: solve knots and interpolate (see solveNodeSparse).
+  // on one slope only and copied to the other, exactly. A trial needs bench accuracy
+  // and no warnings: the transfer curve at knots, interpolated (see solveTransfer).
   const peaks = input.isTrial ? undefined : new Float64Array(net.branches.length);
-  if (peaks) solveNode(net, vin, m.order, out, peaks);
-  else solveNodeSparse(net, vin, m.order, out);
-  m.fill(out);
+  if (peaks) {
+    const m = mirrorOrder(vin);
+    solveNode(net, vin, m.order, out, peaks);
+    m.fill(out);
+  } else solveTransfer(net, vin, out);
   let hi = -Infinity;
   let lo = Infinity;
   for (let i = 0; i < out.length; i++) {

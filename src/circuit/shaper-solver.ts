@@ -188,17 +188,20 @@ export function solveNode(net: ShaperNet, vin: Float64Array, order: ArrayLike<nu
 }
 
 /**
- * Samples between two solved knots on a Monte Carlo trial: every `trialStride`-th
- * sample of a monotonic run is solved and the rest follow by cubic Hermite
- * interpolation of v(vin), with dv/dvin from the implicit function at each knot
- * (gs over the node's total conductance, as Newton already has it). Over the
- * demo shaper's tolerance box the interpolated samples sit within about 0.2 mV
- * of the full solve and its THD within 1e-5 (bench/diode-shaper.bench.ts prints
- * both), far inside the
- * ngspice tolerances of the shaper's tests and a bench reading's uncertainty.
- * The ends of every run are knots, so a triangle's peak and trough are solved.
+ * A trial's transfer curve: the node is memoryless, so v depends on the input
+ * level alone, whatever the waveform's shape (a triangle whose slopes differ
+ * with the rails, a sine, a shaped wave). It is solved at knots spaced evenly
+ * from the lowest to the highest input, `knotWidths` junction widths N·Vt apart
+ * (the stiffest branch's), walking upwards so every Newton start is a close
+ * extrapolation; each sample then follows by cubic Hermite interpolation of
+ * v(vin) with dv/dvin from the implicit function at the knots (gs over the
+ * node's total conductance, which Newton already has). The extremes are knots,
+ * so peaks and peak-to-peak are solved, not interpolated. Over the demo
+ * shaper's tolerance box the samples sit within about 0.2 mV of the full solve
+ * and its THD within 1e-5 (bench/diode-shaper.bench.ts prints both), far inside
+ * the ngspice tolerances of the shaper's tests and a bench reading's uncertainty.
  */
-export const trialStride = 3;
+const knotWidths = 3;
 
 /**
  * A trial's knots settle once Newton's last step is under 1 mV: by the quadratic
@@ -207,62 +210,76 @@ export const trialStride = 3;
  */
 const trialTolerance = 1e-3;
 
-let knotScratch = new Int32Array(0);
+let levelScratch = new Float64Array(0);
+let valueScratch = new Float64Array(0);
 let slopeScratch = new Float64Array(0);
+let walkScratch = new Int32Array(0);
+let coefScratch = new Float64Array(0);
 
 /**
- * As `solveNode`, but solves only knots along `order` and interpolates the
- * samples between them (see `trialStride`). A stretch whose inputs do not move
- * one way (a turning point, a square's flat top) is solved sample by sample.
+ * As `solveNode` over every sample of `vin`, to bench accuracy (see `knotWidths`):
+ * for Monte Carlo trials. Never uses more knots than there are samples.
+ * Returns the number of Newton steps taken.
  */
-export function solveNodeSparse(net: ShaperNet, vin: Float64Array, order: ArrayLike<number>, out: Float64Array, stride = trialStride): number {
-  const m = order.length;
-  if (knotScratch.length < m) knotScratch = new Int32Array(m);
-  if (slopeScratch.length < vin.length) slopeScratch = new Float64Array(vin.length);
-  const knots = knotScratch;
-  const slopes = slopeScratch;
-  let count = 0;
-  // Positions (in `order`) of the segment starts whose interior is interpolated; marked by sign.
-  for (let j = 0; j < m - 1; j += stride) {
-    const end = Math.min(j + stride, m - 1);
-    const a = vin[order[j] as number] as number;
-    const b = vin[order[end] as number] as number;
-    let monotonic = b !== a && end - j > 1;
-    for (let q = j; q < end && monotonic; q++) {
-      const d = (vin[order[q + 1] as number] as number) - (vin[order[q] as number] as number);
-      if (d === 0 || (d > 0) !== (b > a)) monotonic = false;
-    }
-    knots[count++] = order[j] as number;
-    if (!monotonic) for (let q = j + 1; q < end; q++) knots[count++] = order[q] as number;
+export function solveTransfer(net: ShaperNet, vin: Float64Array, out: Float64Array): number {
+  const n = vin.length;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const v = vin[i] as number;
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
   }
-  if (m > 0) knots[count++] = order[m - 1] as number;
-  const steps = solveNode(net, vin, knots.subarray(0, count), out, undefined, slopes, trialTolerance);
-  for (let j = 0; j < m - 1; j += stride) {
-    const end = Math.min(j + stride, m - 1);
-    if (end - j < 2) continue;
-    const ia = order[j] as number;
-    const ib = order[end] as number;
-    const a = vin[ia] as number;
-    const h = (vin[ib] as number) - a;
-    // Was this segment solved whole? Then its interior is already in `out`.
-    let monotonic = h !== 0;
-    for (let q = j; q < end && monotonic; q++) {
-      const d = (vin[order[q + 1] as number] as number) - (vin[order[q] as number] as number);
-      if (d === 0 || (d > 0) !== (h > 0)) monotonic = false;
-    }
-    if (!monotonic) continue;
-    const va = out[ia] as number;
-    const vb = out[ib] as number;
-    const ma = (slopes[ia] as number) * h;
-    const mb = (slopes[ib] as number) * h;
-    for (let q = j + 1; q < end; q++) {
-      const iq = order[q] as number;
-      const t = ((vin[iq] as number) - a) / h;
-      const t2 = t * t;
-      const t3 = t2 * t;
-      // Cubic Hermite basis on [0, 1] (any numerical analysis text).
-      out[iq] = (2 * t3 - 3 * t2 + 1) * va + (t3 - 2 * t2 + t) * ma + (3 * t2 - 2 * t3) * vb + (t3 - t2) * mb;
-    }
+  let width = Infinity;
+  for (const br of net.branches) width = Math.min(width, br.diodes.nvt);
+  const range = hi - lo;
+  const intervals = Math.min(n - 1, Math.ceil(range / (knotWidths * width)));
+  if (!(intervals >= 2) || !Number.isFinite(range)) {
+    // A level or two (DC, a square), or a waveform with NaN: solve every sample.
+    if (walkScratch.length < n) walkScratch = new Int32Array(n);
+    for (let i = 0; i < n; i++) walkScratch[i] = i;
+    return solveNode(net, vin, walkScratch.subarray(0, n), out, undefined, undefined, trialTolerance);
+  }
+  const k = intervals + 1;
+  if (levelScratch.length < k) {
+    levelScratch = new Float64Array(k);
+    valueScratch = new Float64Array(k);
+    slopeScratch = new Float64Array(k);
+  }
+  if (walkScratch.length < k) walkScratch = new Int32Array(k);
+  const h = range / intervals;
+  for (let j = 0; j < k; j++) {
+    levelScratch[j] = j === intervals ? hi : lo + j * h;
+    walkScratch[j] = j;
+  }
+  const levels = levelScratch.subarray(0, k);
+  const values = valueScratch;
+  const slopes = slopeScratch;
+  const steps = solveNode(net, levels, walkScratch.subarray(0, k), values, undefined, slopes, trialTolerance);
+  // Cubic Hermite on each interval (any numerical analysis text), as power-series
+  // coefficients in t ∈ [0, 1]: p(t) = y0 + m0·t + (3Δ − 2m0 − m1)·t² + (m0 + m1 − 2Δ)·t³,
+  // Δ = y1 − y0 and the slopes scaled to the interval (m = h·dv/dvin).
+  if (coefScratch.length < 4 * intervals) coefScratch = new Float64Array(4 * intervals);
+  const coef = coefScratch;
+  for (let j = 0; j < intervals; j++) {
+    const y0 = values[j] as number;
+    const d = (values[j + 1] as number) - y0;
+    const m0 = h * (slopes[j] as number);
+    const m1 = h * (slopes[j + 1] as number);
+    coef[4 * j] = y0;
+    coef[4 * j + 1] = m0;
+    coef[4 * j + 2] = 3 * d - 2 * m0 - m1;
+    coef[4 * j + 3] = m0 + m1 - 2 * d;
+  }
+  const scale = 1 / h;
+  for (let i = 0; i < n; i++) {
+    const u = ((vin[i] as number) - lo) * scale;
+    let j = Math.floor(u);
+    if (j >= intervals) j = intervals - 1;
+    else if (j < 0) j = 0;
+    const t = u - j;
+    const c = 4 * j;
+    out[i] = (coef[c] as number) + t * ((coef[c + 1] as number) + t * ((coef[c + 2] as number) + t * (coef[c + 3] as number)));
   }
   return steps;
 }
