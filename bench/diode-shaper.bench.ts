@@ -1,7 +1,11 @@
 // Diode shaper speed: one evaluation (Newton node solve on half the samples of a
 // mirrored triangle, then an FFT for THD) of the demo exciter's shaper, against
 // the parts it is made of and the direct-DFT THD of waveform.ts. The tolerance
-// engine evaluates it once per Monte Carlo trial; goal well under 15 µs.
+// engine evaluates it once per Monte Carlo trial, as a trial (isTrial: the
+// transfer curve at knots, interpolated); goal well under 15 µs. The last lines
+// give how far a trial's output and THD lie from the full solve over random
+// corners of the demo shaper's tolerance box.
+// Times are CPU time of this process (process.cpuUsage), not wall time.
 // Figures and ratios from one run; nothing here fails a build.
 import { loadPlanFile } from '../src/plan/load.js';
 import { fastThd } from '../src/circuit/spectrum.js';
@@ -11,6 +15,7 @@ import type { EvalInput } from '../src/circuit/types.js';
 import { type DiodeShaperSettings, shaperNet } from '../src/circuit/diode-shaper.js';
 import { mirrorOrder } from '../src/circuit/mirror.js';
 import { solveNode } from '../src/circuit/shaper-solver.js';
+import { createRandom } from '../src/analysis/random.js';
 
 const plan = await loadPlanFile('demo/exciter.plan.json');
 const stage = plan.stages.find((s) => s.kind === 'diode-shaper');
@@ -23,17 +28,23 @@ skewed[40] = (skewed[40] as number) + 1e-6; // breaks the mirror: every sample s
 const input: EvalInput<unknown> = { parts, settings: stage.settings, opamp: defaultOpamp, supplies: { pos: 12, neg: -12 }, rails: {}, input: triangle };
 const unmirrored: EvalInput<unknown> = { ...input, input: { frequency: 2400, samples: skewed } };
 
+/** CPU µs per call. */
 function perCall(n: number, f: () => void): number {
   for (let i = 0; i < 2000; i++) f();
-  const t0 = performance.now();
+  const t0 = process.cpuUsage();
   for (let i = 0; i < n; i++) f();
-  return ((performance.now() - t0) * 1000) / n;
+  const d = process.cpuUsage(t0);
+  return (d.user + d.system) / n;
 }
 
 let sink = 0;
 const n = 20_000;
 const shaper = perCall(n, () => {
   sink += stage.module.evaluate(input).values['out.vpp'] ?? 0;
+});
+const trialInput: EvalInput<unknown> = { ...input, isTrial: true };
+const trial = perCall(n, () => {
+  sink += stage.module.evaluate(trialInput).values['out.vpp'] ?? 0;
 });
 const full = perCall(n, () => {
   sink += stage.module.evaluate(unmirrored).values['out.vpp'] ?? 0;
@@ -54,6 +65,7 @@ const expRef = perCall(n, () => {
 console.log(`branches ${(stage.settings as { branches: unknown[] }).branches.length}, samples ${triangle.samples.length}`);
 console.log(`shaper evaluate (mirrored triangle)   ${shaper.toFixed(2)} µs`);
 console.log(`shaper evaluate (every sample solved) ${full.toFixed(2)} µs   ratio ${(full / shaper).toFixed(2)}`);
+console.log(`shaper evaluate as a trial (knots)    ${trial.toFixed(2)} µs   ratio to mirrored ${(trial / shaper).toFixed(2)}`);
 console.log(`THD by FFT (fft.js)                   ${viaFft.toFixed(2)} µs`);
 console.log(`THD by direct DFT (waveform.ts)       ${direct.toFixed(2)} µs   ratio to FFT ${(direct / viaFft).toFixed(1)}`);
 console.log(`512 × Math.exp (machine yardstick)    ${expRef.toFixed(2)} µs   shaper / yardstick ${(shaper / expRef).toFixed(2)}`);
@@ -62,3 +74,22 @@ const steps = solveNode(shaperNet(input as EvalInput<DiodeShaperSettings>), tria
 console.log(`Newton steps per solved sample        ${(steps / plan0.order.length).toFixed(2)} (${plan0.order.length} of ${triangle.samples.length} samples solved)`);
 console.log(`10,000 shaper evaluations             ${(shaper * 10).toFixed(1)} ms`);
 if (!Number.isFinite(sink + exps)) console.log('(sink)');
+
+// A trial against the full solve over random corners of the tolerance box (seeded, invented spread).
+const random = createRandom(3);
+let worstSample = 0;
+let worstThd = 0;
+for (let t = 0; t < 300; t++) {
+  const p: Record<string, number> = {};
+  for (const [k, v] of Object.entries(stage.parts)) p[k] = v.nominal * (1 + v.tol * (2 * random.next() - 1));
+  const drive = 3.2 * (1 + 0.05 * (2 * random.next() - 1));
+  const skew = 0.5 + 0.02 * (2 * random.next() - 1);
+  const tri = fromPhase(2400, (x) => (x < skew ? drive * (2 * x / skew - 1) : drive * (1 - 2 * (x - skew) / (1 - skew))));
+  const exact = stage.module.evaluate({ ...input, parts: p, input: tri });
+  const fast = stage.module.evaluate({ ...input, parts: p, input: tri, isTrial: true });
+  const a = exact.outputs['out']?.samples ?? new Float64Array(0);
+  const b = fast.outputs['out']?.samples ?? new Float64Array(0);
+  for (let i = 0; i < a.length; i++) worstSample = Math.max(worstSample, Math.abs((a[i] as number) - (b[i] as number)));
+  worstThd = Math.max(worstThd, Math.abs((exact.values['out.thd'] ?? 0) - (fast.values['out.thd'] ?? 0)));
+}
+console.log(`trial vs full solve, 300 random corners: largest sample difference ${(worstSample * 1e6).toFixed(1)} µV, largest THD difference ${worstThd.toExponential(2)}`);

@@ -67,26 +67,31 @@ export function evaluateAmplifier(shape: AmplifierShape, input: EvalInput<unknow
   let wantHi = -Infinity;
   let wantLo = Infinity;
   let steepest = 0;
+  // One pass: scale, extremes, and the largest step between neighbours (the last wraps to the first).
+  let previous = n > 0 ? gain * (filtered[n - 1] as number) : 0;
   for (let i = 0; i < n; i++) {
     const y = gain * (filtered[i] as number);
     filtered[i] = y;
     if (y > wantHi) wantHi = y;
     if (y < wantLo) wantLo = y;
-  }
-  for (let i = 0; i < n; i++) {
-    const d = Math.abs((filtered[i + 1 < n ? i + 1 : 0] as number) - (filtered[i] as number));
+    const d = y > previous ? y - previous : previous - y;
     if (d > steepest) steepest = d;
+    previous = y;
   }
   const clipped = wantHi > high || wantLo < low;
   if (clipped) for (let i = 0; i < n; i++) filtered[i] = Math.min(high, Math.max(low, filtered[i] as number));
   let out = filtered;
+  let slewed = false;
   const warnings: StageWarning[] = [];
   if (source.frequency > 0) {
     const h = 1 / (source.frequency * n);
     const needed = steepest / h;
     // Clipping never steepens a step, so when no step of the unclipped output exceeds
     // the slew limit the slew-limited waveform is the same one: skip its three passes.
-    if (needed > input.opamp.slew) out = slewLimit(filtered, input.opamp.slew * h).out;
+    if (needed > input.opamp.slew) {
+      out = slewLimit(filtered, input.opamp.slew * h).out;
+      slewed = true;
+    }
     if (needed > input.opamp.slew && !input.isTrial) {
       const peak = Math.max(Math.abs(wantHi), Math.abs(wantLo));
       // Full-power bandwidth SR / (2π·Vpeak): the highest frequency a full sine of this peak survives.
@@ -101,12 +106,17 @@ export function evaluateAmplifier(shape: AmplifierShape, input: EvalInput<unknow
       message: `the output would swing ${formatValue(wantLo, 'V')} … ${formatValue(wantHi, 'V')} but the op-amp reaches only ${formatValue(low, 'V')} … ${formatValue(high, 'V')} on these rails (headroom ${formatValue(input.opamp.headroom, 'V')}): it clips`,
     });
   }
-  let hi = -Infinity;
-  let lo = Infinity;
-  for (let i = 0; i < n; i++) {
-    const v = out[i] as number;
-    if (v > hi) hi = v;
-    if (v < lo) lo = v;
+  // Clipping maps the extremes onto the limits; only a slewed waveform needs a new scan.
+  let hi = clipped ? Math.min(high, Math.max(low, wantHi)) : wantHi;
+  let lo = clipped ? Math.min(high, Math.max(low, wantLo)) : wantLo;
+  if (slewed) {
+    hi = -Infinity;
+    lo = Infinity;
+    for (let i = 0; i < n; i++) {
+      const v = out[i] as number;
+      if (v > hi) hi = v;
+      if (v < lo) lo = v;
+    }
   }
   return {
     outputs: { out: { frequency: source.frequency, samples: out } },
