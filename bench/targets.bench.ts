@@ -50,19 +50,29 @@ const full: number[] = [];
 const mcOnly: number[] = [];
 const divStage: number[] = [];
 const divChain: number[] = [];
+const yardstick: number[] = [];
 for (let r = 0; r < rounds; r++) {
   full.push(time(() => computeTargets(plan, { trials, seed: r + 1 })));
   mcOnly.push(time(() => sampleChain(chain, { trials, seed: r + 1, distribution: 'normal' })));
   divChain.push(time(() => sampleChain(dividerChain, { trials, seed: r + 1, distribution: 'normal' })));
+  // The divider's trials are too short to time alone: time twenty times as many and scale.
   divStage.push(
     time(() => {
       const parts = { Rtop: 10_000, Rbottom: 10_000 };
       let sink = 0;
-      for (let i = 0; i < trials; i++) {
+      for (let i = 0; i < 20 * trials; i++) {
         parts.Rtop = 10_000 + (i % 7);
         const out = dividerKind.evaluate({ parts, settings: dividerStage.settings, opamp: dividerStage.opamp, supplies: { pos: 12, neg: 0 }, rails: { '+12V': 12 } });
         sink += out.values['out.dc'] ?? 0;
       }
+      if (sink === 42) console.log('');
+    }) / 20,
+  );
+  // A yardstick of the machine's speed right now: a million Math.exp calls.
+  yardstick.push(
+    time(() => {
+      let sink = 0;
+      for (let i = 0; i < 1_000_000; i++) sink += Math.exp((i & 1023) * -1e-3);
       if (sink === 42) console.log('');
     }),
   );
@@ -76,6 +86,7 @@ console.log(`one-divider chain, same trials:                                ${ms
 console.log(`divider stage evaluate alone, same count:                      ${ms(median(divStage))}`);
 console.log(`ratio computeTargets / divider evaluations:                    ${(median(full) / median(divStage)).toFixed(1)}×`);
 console.log(`ratio Monte Carlo / one-divider chain:                         ${(median(mcOnly) / median(divChain)).toFixed(1)}×`);
+console.log(`a million Math.exp (machine yardstick):                        ${ms(median(yardstick))}; computeTargets = ${(median(full) / median(yardstick)).toFixed(1)} yardsticks`);
 
 // Where the time goes: each stage's own evaluate at nominal, µs per call.
 const detail = chain.detail(chain.nominal);

@@ -79,3 +79,83 @@ export function sortedFinite(values: Float64Array): Float64Array {
   for (const v of values) if (Number.isFinite(v)) out[j++] = v;
   return out.sort();
 }
+
+/** The extremes and two quantiles (as `quantileSorted`) of the finite values of one check. */
+export interface TailFigures {
+  readonly min: number;
+  readonly max: number;
+  readonly low: number;
+  readonly high: number;
+}
+
+/**
+ * `quantileSorted(sortedFinite(values), pLow)` and `(…, pHigh)` with the extremes,
+ * without sorting: the order statistics the two quantiles need are found by
+ * selection (Hoare's quickselect, expected O(n)) on a copy of the finite values.
+ * The same numbers as a full sort, since an order statistic is one value.
+ */
+export function tailFigures(values: Float64Array, pLow: number, pHigh: number): TailFigures {
+  let n = 0;
+  for (const v of values) if (Number.isFinite(v)) n++;
+  if (n === 0) return { min: Number.NaN, max: Number.NaN, low: Number.NaN, high: Number.NaN };
+  const a = new Float64Array(n);
+  let j = 0;
+  let min = Infinity;
+  let max = -Infinity;
+  for (const v of values) {
+    if (!Number.isFinite(v)) continue;
+    a[j++] = v;
+    if (v < min) min = v;
+    if (v > max) max = v;
+  }
+  return { min, max, low: quantileBySelection(a, pLow), high: quantileBySelection(a, pHigh) };
+}
+
+/** Type 7 quantile of `a` (finite values, reordered in place). */
+function quantileBySelection(a: Float64Array, p: number): number {
+  const n = a.length;
+  const h = (n - 1) * p;
+  const lo = Math.floor(h);
+  const hi = Math.min(n - 1, lo + 1);
+  select(a, lo);
+  const x = a[lo] as number;
+  // After selection everything right of `lo` is at least a[lo]: the next order statistic is their least.
+  let y = x;
+  if (hi > lo) {
+    y = Infinity;
+    for (let i = lo + 1; i < n; i++) if ((a[i] as number) < y) y = a[i] as number;
+  }
+  return x + (h - lo) * (y - x);
+}
+
+/** Reorder `a` so that a[k] is its k-th smallest, smaller ones left of it and larger ones right. */
+function select(a: Float64Array, k: number): void {
+  let left = 0;
+  let right = a.length - 1;
+  while (right > left) {
+    // Median of three as the pivot keeps sorted and reversed runs linear.
+    const mid = (left + right) >>> 1;
+    const p = median3(a[left] as number, a[mid] as number, a[right] as number);
+    let i = left;
+    let j = right;
+    while (i <= j) {
+      while ((a[i] as number) < p) i++;
+      while ((a[j] as number) > p) j--;
+      if (i <= j) {
+        const t = a[i] as number;
+        a[i] = a[j] as number;
+        a[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) right = j;
+    else if (k >= i) left = i;
+    else return;
+  }
+}
+
+function median3(x: number, y: number, z: number): number {
+  if (x < y) return y < z ? y : x < z ? z : x;
+  return x < z ? x : y < z ? z : y;
+}

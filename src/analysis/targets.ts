@@ -2,7 +2,7 @@ import { buildChain } from '../plan/chain.js';
 import { upstreamOf } from '../plan/stages.js';
 import type { Plan } from '../plan/types.js';
 import type { Distribution } from './random.js';
-import { quantileSorted, sampleChain, sortedFinite } from './sampling.js';
+import { sampleChain, tailFigures } from './sampling.js';
 import { contributorsOf, sensitivities } from './sensitivity.js';
 import type { DesignWarning, Target, TargetSet } from './types.js';
 import { cornerWarnings } from './corner-warnings.js';
@@ -101,12 +101,12 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
       return { ...base, nominal: Number.isFinite(max) ? max / 2 : 0, worst: band, stat: band, contributors: [] };
     }
     const nominal = nominalOut[i] as number;
-    const sorted = sortedFinite(samples.values[i] as Float64Array);
-    const statMin = quantileSorted(sorted, statCoverage.low);
-    const statMax = quantileSorted(sorted, statCoverage.high);
+    const tails = tailFigures(samples.values[i] as Float64Array, statCoverage.low, statCoverage.high);
+    const statMin = tails.low;
+    const statMax = tails.high;
     // The statistical band may never lie outside the worst case: widen by the sampled extremes.
-    const lo = finiteMin(worst.min[i] as number, sorted[0] ?? Number.NaN, nominal);
-    const hi = finiteMax(worst.max[i] as number, sorted[sorted.length - 1] ?? Number.NaN, nominal);
+    const lo = finiteMin(worst.min[i] as number, tails.min, nominal);
+    const hi = finiteMax(worst.max[i] as number, tails.max, nominal);
     const missing = samples.missing[i] ?? 0;
     if (missing > 0) {
       const entry = gaps.get(c.stage) ?? { most: 0, checks: [] };
