@@ -16,8 +16,12 @@ export function suggestNext(state: RunState): Suggestion | null {
     const r = currentReading(state, t.check);
     if (r) done.set(t.check, r.verdict);
   }
-  const last = state.last && !state.stale.has(state.last.check) ? { check: state.last.check, verdict: state.last.verdict } : undefined;
-  const proposed = nextCheck(state.targets, done, last);
+  const fresh = state.last && !state.stale.has(state.last.check) ? state.last : null;
+  // A wrong shape counts at least as marginal for where to look next (DESIGN §5: upstream first).
+  const shapeOff = fresh?.shapeWarning !== undefined && fresh.verdict === 'pass';
+  const last = fresh ? { check: fresh.check, verdict: shapeOff ? ('marginal' as const) : fresh.verdict } : undefined;
+  const suggested = nextCheck(state.targets, done, last);
+  const proposed = suggested && shapeOff && fresh ? { check: suggested.check, why: `${fresh.shapeWarning}; ${suggested.why}` } : suggested;
   const gated = { ...state, isCautionsPending: false, isPowerOff: false };
   if (proposed && lockReason(gated, proposed.check) === null) return state.stale.has(proposed.check) ? { check: proposed.check, why: againWhy(state) } : proposed;
   const open = state.targets.find((t) => !done.has(t.check) && lockReason(gated, t.check) === null);

@@ -16,6 +16,12 @@ export interface RunReading {
   readonly raw?: string;
   /** `captures/<hash>.<ext>` when the value came from a capture. */
   readonly capture?: string;
+  /**
+   * What was wrong with the captured shape (a square where a sine is expected,
+   * flat tops, a crossover notch): even a figure inside its band then sends the
+   * next suggestion upstream, as a marginal reading would.
+   */
+  readonly shapeWarning?: string;
 }
 
 /** A rework note the run knows of (already saved). */

@@ -248,3 +248,17 @@ describe('properties (fast-check, 150 random sessions)', () => {
     );
   });
 });
+
+describe('a capture with a wrong shape', () => {
+  test('sends the suggestion upstream even when its figure passes, and says why', () => {
+    // Safety checks, rails and the oscillator's frequency pass; the shaper's
+    // output figure passes but its capture looked clipped.
+    const before = apply(started(), passingReadings().slice(0, 6).map(record));
+    const plain = runReducer(before, record(reading('shaper.out.vpp', 3.08)));
+    const warned = runReducer(before, record({ ...reading('shaper.out.vpp', 3.08), capture: 'abc.csv', shapeWarning: 'the capture is clipped (flat tops): check the stage gain and the rails' }));
+    expect(plain.suggestion?.why ?? '').not.toContain('clipped');
+    expect(warned.suggestion?.why ?? '').toContain('the capture is clipped');
+    // Upstream first (DESIGN §5): the oscillator feeding the shaper.
+    expect(warned.suggestion?.check.startsWith('osc.')).toBe(true);
+  });
+});
