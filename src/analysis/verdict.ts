@@ -13,7 +13,6 @@ export function verdictFor(target: Pick<Target, 'nominal' | 'worst'>, reading: n
   // An over-range reading (a meter's OL on a resistance-to-ground check, +∞) has
   // no finite uncertainty: it is judged against the band's limits alone.
   const isOverRange = !Number.isFinite(reading);
-  if (isOverRange) warnings.push('an over-range reading (OL) is judged against the band limits alone, without a guard band');
   const u = spec && !isOverRange ? uncertaintyOf(reading, spec) : 0;
   let verdict: VerdictResult['verdict'];
   if (Number.isNaN(reading)) verdict = 'fail';

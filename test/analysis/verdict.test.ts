@@ -36,6 +36,7 @@ describe('verdict with a guard band', () => {
     const open = verdictFor(toGround, Number.POSITIVE_INFINITY, { relative: 0.01, absolute: 1 });
     expect(open.verdict).toBe('pass');
     expect(open.uncertainty).toBe(0);
+    expect(open.warnings).toEqual([]);
     expect(verdictFor(band, Number.POSITIVE_INFINITY, spec).verdict).toBe('fail');
     // A rail that reads 3 Ω to ground unpowered is a short (common practice, no source).
     expect(verdictFor(toGround, 3, { relative: 0.01, absolute: 1 }).verdict).toBe('fail');

@@ -53,7 +53,8 @@ describe('npm start in a real terminal', () => {
   test('a reading typed at the bring-up screen is shown with its verdict and is in the log file', async () => {
     const demoLog = join(logDir, 'demo-log');
     // NO_COLOR set: the screen must still say everything with marks and words.
-    const command = `cd '${repo}' && PROBEBOOK_DEMO_LOG='${demoLog}' PROBEBOOK_OPERATOR=e2e NO_COLOR=1 npm start; echo "probebook exited $?"; sleep 60`;
+    // CI=false: Ink draws only the last frame when it thinks it runs in CI (CI set, as .ci/run has it).
+    const command = `cd '${repo}' && CI=false PROBEBOOK_DEMO_LOG='${demoLog}' PROBEBOOK_OPERATOR=e2e NO_COLOR=1 npm start; echo "probebook exited $?"; sleep 60`;
     tmux('new-session', '-d', '-s', session, '-x', '80', '-y', '24', command);
 
     // The first start writes the invented demo log (and builds the bundle if needed).
