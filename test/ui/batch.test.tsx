@@ -7,6 +7,7 @@ import { BatchScreen } from '../../src/ui/batch/batch.js';
 import { fillDemoLog } from '../review/demo-boards.js';
 import { makeLog, type TestLog } from '../review/real-log.js';
 import { keys } from './keys.js';
+import { driveScreen } from './screen-driver.js';
 
 let t: TestLog;
 beforeAll(async () => {
@@ -20,19 +21,7 @@ function screen() {
   const opened: string[] = [];
   let exits = 0;
   const r = render(<BatchScreen log={t.log} width={80} height={23} onExit={() => void exits++} onOpenBoard={(s) => void opened.push(s)} />);
-  const frame = () => r.lastFrame() ?? '';
-  const waitFor = async (text: string | RegExp, timeoutMs = 8000) => {
-    const until = Date.now() + timeoutMs;
-    while (!(typeof text === 'string' ? frame().includes(text) : text.test(frame()))) {
-      if (Date.now() > until) throw new Error(`timed out waiting for ${String(text)}; the screen shows:\n${frame()}`);
-      await new Promise((res) => setTimeout(res, 20));
-    }
-  };
-  const press = async (key: string) => {
-    r.stdin.write(key);
-    await new Promise((res) => setTimeout(res, 40));
-  };
-  return { ...r, frame, waitFor, press, opened, exits: () => exits };
+  return { ...driveScreen(r), opened, exits: () => exits };
 }
 
 describe('batch screen', () => {

@@ -8,6 +8,7 @@ import { formatValue } from '../../src/units/format.js';
 import { fillDemoLog } from '../review/demo-boards.js';
 import { makeLog, type TestLog } from '../review/real-log.js';
 import { keys } from './keys.js';
+import { driveScreen } from './screen-driver.js';
 
 let t: TestLog;
 beforeAll(async () => {
@@ -20,19 +21,7 @@ beforeAll(async () => {
 function screen(serial: string) {
   let exits = 0;
   const r = render(<HistoryScreen log={t.log} serial={serial} width={80} height={23} onExit={() => void exits++} />);
-  const frame = () => r.lastFrame() ?? '';
-  const waitFor = async (text: string | RegExp, timeoutMs = 8000) => {
-    const until = Date.now() + timeoutMs;
-    while (!(typeof text === 'string' ? frame().includes(text) : text.test(frame()))) {
-      if (Date.now() > until) throw new Error(`timed out waiting for ${String(text)}; the screen shows:\n${frame()}`);
-      await new Promise((res) => setTimeout(res, 20));
-    }
-  };
-  const press = async (key: string) => {
-    r.stdin.write(key);
-    await new Promise((res) => setTimeout(res, 40));
-  };
-  return { ...r, frame, waitFor, press, exits: () => exits };
+  return { ...driveScreen(r), exits: () => exits };
 }
 
 describe('history screen', () => {
