@@ -45,6 +45,25 @@ describe('board history', () => {
     expect(alone).toMatchObject({ target: null, deviation: null });
   });
 
+  test('limit checks (rail to ground, idle current) have no deviation from their threshold', () => {
+    const run = board.runs[0];
+    const limitBoard = {
+      ...board,
+      readings: [
+        { ...(board.readings[0] as (typeof board.readings)[number]), id: 'g1', check: 'rails.+12V.to-ground', value: 14_600, unit: 'Ω' as const },
+        { ...(board.readings[0] as (typeof board.readings)[number]), id: 'i1', check: 'rails.idle-current', value: 0.015, unit: 'A' as const },
+      ],
+      runs: run ? [run] : [],
+    };
+    const hash = board.readings[0]?.planHash ?? '';
+    const bands = new Map([[hash, { bands: new Map([
+      ['rails.+12V.to-ground', { nominal: 100, worst: { min: 100, max: Infinity } }],
+      ['rails.idle-current', { nominal: 0.0175, worst: { min: 0, max: 0.035 } }],
+    ]) }]]) as unknown as Parameters<typeof timelineOf>[1];
+    const readings = timelineOf(limitBoard, bands).filter((e) => e.kind === 'reading');
+    expect(readings.map((e) => (e.kind === 'reading' ? e.deviation : 'x'))).toEqual([null, null]);
+  });
+
   test('before/after a rework: last reading before, first after; the reworked stage first', () => {
     const rows = reworkComparison(board, board.rework[0] ?? (undefined as never));
     expect(rows.map((r) => [r.check, r.before?.id ?? null, r.after?.id ?? null])).toEqual([
