@@ -3,7 +3,7 @@ import { invertingAmpKind } from '../../src/circuit/inverting-amp.js';
 import type { OpampModel, Waveform } from '../../src/circuit/types.js';
 import { fromPhase } from '../../src/circuit/waveform.js';
 import { PlanError } from '../../src/plan/errors.js';
-import { runSpice } from '../helpers/ngspice.js';
+import { corner, runSpice } from '../helpers/ngspice.js';
 import { opampSubckt } from '../helpers/spice-opamp.js';
 
 // Invented op-amp and supplies for the tests (not a particular part).
@@ -20,20 +20,6 @@ function spiceOpamp(op: OpampModel): string {
 
 function deck(op: OpampModel, rin: number, rf: number, source: string): string {
   return `${spiceOpamp(op)}\n${source}\nRin in inn ${rin}\nRf inn out ${rf}\nX1 0 inn out opa`;
-}
-
-/** The −3 dB frequency of an ngspice AC sweep, log-interpolated between points. */
-export function corner(freq: Float64Array, mag: Float64Array): number {
-  const target = (mag[0] as number) / Math.SQRT2;
-  for (let i = 1; i < freq.length; i++) {
-    const m0 = mag[i - 1] as number;
-    const m1 = mag[i] as number;
-    if (m1 <= target && m0 > target) {
-      const w = (m0 - target) / (m0 - m1);
-      return Math.exp(Math.log(freq[i - 1] as number) * (1 - w) + Math.log(freq[i] as number) * w);
-    }
-  }
-  return Number.NaN;
 }
 
 const sine = (peak: number, f: number): Waveform => fromPhase(f, (p) => peak * Math.sin(2 * Math.PI * p));

@@ -32,3 +32,17 @@ export function runSpice(netlist: string, analysis: string, vectors: readonly st
     rmSync(dir, { recursive: true, force: true });
   }
 }
+
+/** The −3 dB frequency of an ngspice AC sweep, log-interpolated between points. */
+export function corner(freq: Float64Array, mag: Float64Array): number {
+  const target = (mag[0] as number) / Math.SQRT2;
+  for (let i = 1; i < freq.length; i++) {
+    const m0 = mag[i - 1] as number;
+    const m1 = mag[i] as number;
+    if (m1 <= target && m0 > target) {
+      const w = (m0 - target) / (m0 - m1);
+      return Math.exp(Math.log(freq[i - 1] as number) * (1 - w) + Math.log(freq[i] as number) * w);
+    }
+  }
+  return Number.NaN;
+}
