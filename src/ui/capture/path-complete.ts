@@ -1,6 +1,6 @@
 import { readdirSync, statSync } from 'node:fs';
 import { homedir } from 'node:os';
-import { dirname, join, resolve, sep } from 'node:path';
+import { join, resolve } from 'node:path';
 
 export interface Completion {
   /** The text after completion (unchanged when nothing fits). */
@@ -54,9 +54,4 @@ function commonPrefix(names: readonly string[]): string {
   let prefix = names[0] ?? '';
   for (const n of names) while (!n.startsWith(prefix)) prefix = prefix.slice(0, -1);
   return prefix;
-}
-
-/** The parent folder of a typed path, for messages. */
-export function folderOf(text: string, cwd: string): string {
-  return text.endsWith(sep) ? expandPath(text, cwd) : dirname(expandPath(text, cwd));
 }
