@@ -30,6 +30,8 @@ describe('shape of the expected waveform', () => {
     expect(shapeOf(wave((p) => (p < 0.5 ? -1 + 4 * p : 3 - 4 * p)))).toBe('triangle');
     // A sine clipped at 70 % of its peak has a crest factor near 1.2: no class.
     expect(shapeOf(wave((p) => Math.max(-0.7, Math.min(0.7, Math.sin(2 * Math.PI * p)))))).toBeUndefined();
+    // A flat trace has no AC RMS, so no crest factor: no class.
+    expect(shapeOf(wave(() => 2.5))).toBeUndefined();
   });
 });
 

@@ -1,4 +1,5 @@
 import { basename } from 'node:path';
+import { shapeFeatures } from '../../signal/shape.js';
 import type { ExpectedShape } from '../../signal/summary.js';
 import { CaptureAttach } from '../capture/capture-attach.js';
 import type { CaptureFigures } from './capture-readings.js';
@@ -30,18 +31,9 @@ export function CaptureSlot({ expect, width, onDone, onCancel }: CaptureSlotProp
  */
 export function shapeOf(samples: Float64Array): ExpectedShape | undefined {
   if (samples.length < 8) return undefined;
-  let mean = 0;
-  for (const v of samples) mean += v;
-  mean /= samples.length;
-  let peak = 0;
-  let sq = 0;
-  for (const v of samples) {
-    peak = Math.max(peak, Math.abs(v - mean));
-    sq += (v - mean) ** 2;
-  }
-  const rms = Math.sqrt(sq / samples.length);
-  if (!(rms > 0)) return undefined;
-  const crest = peak / rms;
+  // The crest factor as src/signal computes it for a capture's period (NaN for a flat trace).
+  const crest = shapeFeatures(samples).crestFactor;
+  if (!Number.isFinite(crest)) return undefined;
   if (crest < 1.1) return 'square';
   if (crest > 1.35 && crest < 1.5) return 'sine';
   if (crest > 1.65 && crest < 1.85) return 'triangle';
