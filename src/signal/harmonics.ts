@@ -12,18 +12,6 @@
  * Hann window: F. J. Harris, Proc. IEEE 66(1), 1978 (from memory).
  */
 
-/** Hann window weights for `length` samples, and their sum (for tests and small records). */
-export function hann(length: number): { w: Float64Array; sum: number } {
-  const w = new Float64Array(length);
-  let sum = 0;
-  for (let n = 0; n < length; n++) {
-    const v = 0.5 - 0.5 * Math.cos((2 * Math.PI * n) / length);
-    w[n] = v;
-    sum += v;
-  }
-  return { w, sum };
-}
-
 /**
  * Amplitude and phase of the component at `nu` cycles per sample in the
  * segment x[from … from + length), mean `dc` removed, under a Hann window
