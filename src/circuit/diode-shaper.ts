@@ -5,6 +5,7 @@ import { choiceAt, countAt, list, nested, ohmRange, onlyKeys, partAt, reader, ty
 import { PlanError } from '../plan/errors.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind, StageWarning } from './types.js';
 import { mirrorOrder } from './mirror.js';
+import { extremes } from './waveform.js';
 
 /** One breakpoint branch as the plan wrote it; its R and bias are toleranced parts under `roles`. */
 export interface ShaperBranchSetting {
@@ -96,13 +97,7 @@ function evaluate(input: EvalInput<DiodeShaperSettings>): EvalOutput {
     solveNode(net, vin, m.order, out, peaks);
     m.fill(out);
   } else solveTransfer(net, vin, out);
-  let hi = -Infinity;
-  let lo = Infinity;
-  for (let i = 0; i < out.length; i++) {
-    const v = out[i] ?? 0;
-    if (v > hi) hi = v;
-    if (v < lo) lo = v;
-  }
+  const { hi, lo } = extremes(out);
   const values: Record<string, number> = {
     'out.vpp': hi - lo,
     'out.thd': source.frequency > 0 ? fastThd(out) : Number.NaN,

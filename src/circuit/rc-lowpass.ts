@@ -1,5 +1,6 @@
 import { singlePole } from './single-pole.js';
 import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
+import { extremes } from './waveform.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
 
 /** A passive RC low-pass has no settings beyond its parts. */
@@ -14,13 +15,7 @@ function evaluate(input: EvalInput<RcLowpassSettings>): EvalOutput {
   const fc = 1 / (2 * Math.PI * r * c);
   // Unloaded output: every harmonic attenuated as 1/(1 + j·f/fc) (see single-pole.ts).
   const out = singlePole(source.samples, source.frequency, fc);
-  let hi = -Infinity;
-  let lo = Infinity;
-  for (let i = 0; i < out.length; i++) {
-    const v = out[i] as number;
-    if (v > hi) hi = v;
-    if (v < lo) lo = v;
-  }
+  const { hi, lo } = extremes(out);
   return { outputs: { out: { frequency: source.frequency, samples: out } }, values: { fc, 'out.vpp': hi - lo }, warnings: [] };
 }
 

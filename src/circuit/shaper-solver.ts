@@ -1,4 +1,5 @@
 import { type DiodeString, junctionCeiling } from './diode.js';
+import { extremes } from './waveform.js';
 
 /**
  * The diode shaper's one node, in a form the solver can walk fast: `Rs` from the
@@ -229,13 +230,7 @@ let coefScratch = new Float64Array(0);
  */
 export function solveTransfer(net: ShaperNet, vin: Float64Array, out: Float64Array): number {
   const n = vin.length;
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (let i = 0; i < n; i++) {
-    const v = vin[i] as number;
-    if (v < lo) lo = v;
-    if (v > hi) hi = v;
-  }
+  const { hi, lo } = extremes(vin);
   let width = Infinity;
   for (const br of net.branches) width = Math.min(width, br.diodes.nvt);
   const range = hi - lo;

@@ -15,6 +15,18 @@ export function dc(level: number, n = 1): Waveform {
   return { frequency: 0, samples: new Float64Array(n).fill(level) };
 }
 
+/** Highest and lowest sample, in one pass (a stage's vpp and peak on the trial path). */
+export function extremes(samples: Float64Array): { hi: number; lo: number } {
+  let hi = -Infinity;
+  let lo = Infinity;
+  for (let i = 0; i < samples.length; i++) {
+    const v = samples[i] as number;
+    if (v > hi) hi = v;
+    if (v < lo) lo = v;
+  }
+  return { hi, lo };
+}
+
 export function vmax(w: Waveform): number {
   let m = -Infinity;
   for (const v of w.samples) if (v > m) m = v;
