@@ -1,6 +1,6 @@
 import { validateSerial } from '../log/serial.js';
 import { type LogStore, openLog } from '../log/store.js';
-import type { BoardFile } from '../log/types.js';
+import type { BenchLog, BoardFile } from '../log/types.js';
 import type { SnapshotBands } from '../review/bands.js';
 import { boardHashes, historyCounts, timelineOf } from '../review/history.js';
 import { planBandSource } from '../ui/batch/plan-bands.js';
@@ -28,7 +28,7 @@ export async function loadBoard(serial: string, logFlag: string | boolean | unde
 }
 
 /** The targets of every plan revision a board used, by hash (warnings for snapshots that would not load). */
-export async function boardBands(log: LogStore, board: BoardFile): Promise<{ bands: ReadonlyMap<string, SnapshotBands>; problems: string[] }> {
+export async function boardBands(log: Pick<BenchLog, 'readPlanSnapshot'>, board: BoardFile): Promise<{ bands: ReadonlyMap<string, SnapshotBands>; problems: string[] }> {
   const source = planBandSource(log);
   const bands = await source.load(boardHashes(board));
   return { bands, problems: source.problems().map((p) => p.message) };

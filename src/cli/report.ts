@@ -163,11 +163,20 @@ export const reportCommand: Command = async (argv, io) => {
   const serial = args.positionals[0];
   if (serial === undefined) throw new UsageError(`missing argument SERIAL; usage: ${usage}`);
   const { log, board, dir } = await loadBoard(serial, args.options.log, io);
-  const { bands, problems } = await boardBands(log, board);
+  // The bands and the plan titles both need each snapshot's text: read each file once.
+  const texts = new Map<string, Promise<string | null>>();
+  const snapshots = {
+    readPlanSnapshot(hash: string): Promise<string | null> {
+      let text = texts.get(hash);
+      if (!text) texts.set(hash, (text = log.readPlanSnapshot(hash)));
+      return text;
+    },
+  };
+  const { bands, problems } = await boardBands(snapshots, board);
   if (format === 'csv') io.stdout(boardCsv(board, bands));
   else {
     const titles = new Map<string, string | null>();
-    for (const r of board.runs) if (!titles.has(r.planHash)) titles.set(r.planHash, planTitle(await log.readPlanSnapshot(r.planHash)));
+    for (const r of board.runs) if (!titles.has(r.planHash)) titles.set(r.planHash, planTitle(await snapshots.readPlanSnapshot(r.planHash)));
     io.stdout(boardMarkdown(board, bands, { titles, dir, printed: new Date() }));
   }
   for (const p of problems) io.stderr(`probebook: warning: ${p}\n`);
