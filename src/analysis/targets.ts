@@ -39,7 +39,8 @@ export const statCoverage = { low: 0.00135, high: 0.99865 } as const;
  *   the Monte Carlo extremes; statistical band the 0.135–99.865 % interval of a
  *   seeded Monte Carlo over all variables at once.
  *
- * Unbounded band sides are ±Infinity here; `targetsJson` writes them as null.
+ * The first two are limit checks (`isLimit`): callers show no deviation from
+ * their nominal. Unbounded band sides are ±Infinity here; `targetsJson` writes them as null.
  */
 export function computeTargets(plan: Plan, options: TargetOptions = {}): TargetSet {
   const trials = options.trials ?? defaultTrials;
@@ -88,6 +89,7 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
       instrument: c.instrument,
       how: c.how,
       phase: c.phase,
+      isLimit: c.phase === 'unpowered' || c.phase === 'first-power',
       upstream,
       ...(stage?.input ? { input: `${stage.input.stage}.${stage.input.output}` } : {}),
     };

@@ -33,6 +33,13 @@ export interface Target {
   /** How to measure it, one short line. */
   readonly how: string;
   readonly phase: Phase;
+  /**
+   * A limit check (the unpowered rail-to-ground resistance, the idle current):
+   * its band is a threshold (≥ / ≤) and its `nominal` only that threshold or the
+   * middle of 0 … limit, so a deviation from nominal means nothing. Always set by
+   * `computeTargets`; optional only so hand-built targets elsewhere need not name it.
+   */
+  readonly isLimit?: boolean;
   /** Stage ids upstream of this check's stage, nearest first (empty for rails and chain heads). */
   readonly upstream?: readonly string[];
   /** The upstream output this check's stage takes (`"osc.triangle"`), when it has an input. */

@@ -174,6 +174,14 @@ describe('engine properties', () => {
     expect(set.targets.find((t) => t.check === 'rails.idle-current')?.worst.max).toBe(Infinity);
   });
 
+  test('the unpowered rail-to-ground checks and the idle current are limit checks, every other check is not', () => {
+    const set = computeTargets(plan, { trials: 200 });
+    expect(set.targets.filter((t) => t.isLimit).map((t) => t.check)).toEqual(['rails.+12V.to-ground', 'rails.-12V.to-ground', 'rails.idle-current']);
+    // A limit check's band has one side only (≥ threshold) or runs from 0 to the limit (DESIGN §5).
+    for (const t of set.targets.filter((x) => x.isLimit)) expect(t.worst.max === Infinity || t.worst.min === 0).toBe(true);
+    expect(set.targets.filter((t) => !t.isLimit).length).toBeGreaterThan(3);
+  });
+
   test('asking again with the same plan object and options returns the same result', () => {
     const a = computeTargets(plan, { trials: 300, seed: 9 });
     expect(computeTargets(plan, { trials: 300, seed: 9 })).toBe(a);
