@@ -265,7 +265,8 @@ function isBlank(buf: Uint8Array, from: number, to: number): boolean {
   return true;
 }
 
-function concat(parts: readonly Uint8Array[], length: number): Uint8Array {
+/** The parts joined into one array of `length` bytes (the part itself when there is one). */
+export function concat(parts: readonly Uint8Array[], length: number): Uint8Array {
   if (parts.length === 1 && parts[0]) return parts[0];
   const out = new Uint8Array(length);
   let at = 0;

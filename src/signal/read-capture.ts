@@ -1,6 +1,6 @@
 import { open } from 'node:fs/promises';
 import { basename } from 'node:path';
-import { CsvParser } from './csv-parser.js';
+import { CsvParser, concat } from './csv-parser.js';
 import { csvReader } from './csv-reader.js';
 import { type Capture, CaptureError, type CaptureReader, type ProgressFn, type ReadOptions } from './types.js';
 import { wavReader } from './wav-reader.js';
@@ -77,23 +77,13 @@ export async function readCaptureFile(
       if (seen >= size) break;
     }
     // Only what was kept is joined: a streamed CSV keeps nothing.
-    const bytes = kept.length === 0 ? undefined : kept.length === 1 ? (kept[0] as Uint8Array) : joinChunks(kept, seen);
+    const bytes = kept.length === 0 ? undefined : concat(kept, seen);
     const capture = parser ? parser.end() : (reader ?? csvReader).read(bytes ?? new Uint8Array(0), { ...options, name }, (f) => onProgress?.(0.5 + f / 2));
     onProgress?.(1);
     return options.keepBytes && bytes ? { capture, bytes } : { capture };
   } finally {
     await handle.close();
   }
-}
-
-function joinChunks(chunks: readonly Uint8Array[], length: number): Uint8Array {
-  const out = new Uint8Array(length);
-  let at = 0;
-  for (const c of chunks) {
-    out.set(c, at);
-    at += c.length;
-  }
-  return out;
 }
 
 function ioMessage(path: string, error: unknown): string {
