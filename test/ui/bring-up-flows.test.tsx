@@ -67,6 +67,19 @@ describe('bring-up screen: list, capture, end of run', () => {
     await s.until('rails.-9V.to-ground ›');
   });
 
+  test('keys that arrive in one chunk in the stage list each move the cursor', async () => {
+    const { open } = await setup();
+    const s = await open();
+    await s.until('Cautions before first power');
+    await s.press(keys.enter);
+    await s.until('rails.+9V.to-ground ›');
+    // One write of `jjj`, as a multiplexer or a busy event loop delivers it: three steps down, as in the test above.
+    await s.press(keys.tab, 'jjj', keys.enter);
+    expect(await s.until('is locked')).toMatch(/rails\.\+9V\.dc is locked: unpowered checks first/);
+    await s.press('kk', keys.enter);
+    expect(await s.until('rails.-9V.to-ground ›')).toContain('how: power off');
+  });
+
   test('a capture becomes readings of the checks at its test point, linked to the saved file', async () => {
     const { tmp, open } = await setup();
     const serial = 'FX-CAP';

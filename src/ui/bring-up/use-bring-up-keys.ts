@@ -1,4 +1,5 @@
 import { type Key, useInput } from 'ink';
+import { splitKeys } from '../components/key-chunks.js';
 import { useEffect, useRef, useState } from 'react';
 import { useLiveState } from './use-live-state.js';
 import { endOptions } from '../../run/gates.js';
@@ -180,7 +181,11 @@ export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, on
         });
         return;
       }
-      handle(input, key);
+      // The list and the end panel take one key at a time, so `jjk` sent in one write moves three times;
+      // the reading line and the rework form keep a pasted value whole.
+      const f = focusRef.current;
+      if (f === 'list' || f === 'end') for (const one of splitKeys(input, key)) handle(one, key);
+      else handle(input, key);
     },
     { isActive: isActive && focus !== 'capture' },
   );
