@@ -49,13 +49,6 @@ export function mean(w: Waveform): number {
   return s / w.samples.length;
 }
 
-/** Apply a function sample by sample. */
-export function mapSamples(w: Waveform, f: (v: number, i: number) => number): Waveform {
-  const out = new Float64Array(w.samples.length);
-  for (let i = 0; i < out.length; i++) out[i] = f(w.samples[i] ?? 0, i);
-  return { frequency: w.frequency, samples: out };
-}
-
 const tableCache = new Map<number, { cos: Float64Array; sin: Float64Array }>();
 
 function tables(n: number): { cos: Float64Array; sin: Float64Array } {

@@ -3,8 +3,6 @@ import table from '../../data/e-series.json' with { type: 'json' };
 /** The preferred number series of IEC 60063:2015. */
 export type SeriesName = 'E3' | 'E6' | 'E12' | 'E24' | 'E48' | 'E96' | 'E192';
 
-export const seriesNames: readonly SeriesName[] = ['E3', 'E6', 'E12', 'E24', 'E48', 'E96', 'E192'];
-
 /** The mantissas (1 ≤ m < 10) of a series, ascending. */
 export function seriesValues(name: SeriesName): readonly number[] {
   return table.series[name];
