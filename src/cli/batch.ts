@@ -19,7 +19,7 @@ export const batchOptions = { plan: 'string', rev: 'string', check: 'string', fr
 const usage = 'probebook batch [--plan ID] [--rev HASH] [--check ID] [--from DATE] [--to DATE] [--json] [--log DIR]';
 
 /** The filter the options describe, or a UsageError that says what to type. */
-export function filterFromOptions(options: ParsedArgs['options']): BatchFilter {
+function filterFromOptions(options: ParsedArgs['options']): BatchFilter {
   const text = (name: string): string | undefined => {
     const v = options[name];
     if (v === undefined) return undefined;
@@ -59,7 +59,7 @@ function checkFilterAgainstIndex(index: LogIndex, filter: BatchFilter, dir: stri
 }
 
 /** Read the index, load the bands of the revisions it selects, and compute the figures. */
-export async function loadBatch(
+async function loadBatch(
   index: LogIndex,
   bands: BandSource,
   filter: BatchFilter,
@@ -101,7 +101,7 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
 }
 
 /** The readable table: weakest check first. */
-export function batchTable(f: BatchFigures, filter: BatchFilter): string {
+function batchTable(f: BatchFigures, filter: BatchFilter): string {
   const lines: string[] = [];
   lines.push(`batch · ${describeFilter(filter)} · ${f.boards} board${f.boards === 1 ? '' : 's'}${f.incomplete ? ` (${f.incomplete} not through every check)` : ''}`);
   lines.push(`first-pass yield ${pct(f.firstPassYield)} (${f.firstPassBoards}/${f.boards}) · final yield ${pct(f.finalYield)} (${f.finalPassBoards}/${f.boards})`);
@@ -132,7 +132,7 @@ export function batchTable(f: BatchFigures, filter: BatchFilter): string {
 }
 
 /** What `batch --help` prints. */
-export const batchHelpText = `${usage}
+const batchHelpText = `${usage}
   the latest reading of each check on each board: n, pass/marginal/fail, mean, sd,
   min, max, Cp and Cpk against the worst-case band, first-pass and final yield;
   the table lists the weakest check first, --json prints {"checks":[…]} in plan order.
