@@ -187,14 +187,12 @@ export const recordCommand: Command = async (argv, io) => {
 
   const dir = resolveLogDir(args.options.log, io.env);
   const log = await openLog(dir);
-  const before = await log.readBoard(serial);
-  const open = before ? [...before.runs].reverse().find((r) => r.ended === null) : undefined;
-  const doneBefore = open && before ? latestVerdicts(before.readings, open.id) : new Map<string, Verdict>();
-  const warnings = [...result.warnings, ...skippedSafety(set.targets, target, doneBefore)];
+  // The skipped-safety warnings are judged under the board's lock, from the run's readings as saved.
   const saved = await log.appendToOpenRun(
     serial,
     { plan: plan.plan, planHash: plan.hash, planText: plan.text, operator },
-    { check, value, unit: target.unit, raw: text, operator, verdict: result.verdict, planHash: plan.hash, ...(warnings.length ? { warnings } : {}) },
+    { check, value, unit: target.unit, raw: text, operator, verdict: result.verdict, planHash: plan.hash, ...(result.warnings.length ? { warnings: result.warnings } : {}) },
+    (board, run) => skippedSafety(set.targets, target, latestVerdicts(board.readings, run.id)),
   );
   const done = latestVerdicts(saved.board.readings, saved.run.id);
   let next = nextCheck(set.targets, done, { check, verdict: result.verdict });

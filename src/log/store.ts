@@ -26,8 +26,10 @@ export interface LogStore extends BenchLog {
   /**
    * Save a reading into the board's open run, starting one first when none is
    * open, in one locked step (two terminals cannot both start a run).
+   * `warningsFor` adds warnings judged from the board as it is under the lock
+   * (e.g. the run's readings so far), so they never come from a stale copy.
    */
-  appendToOpenRun(serial: string, run: RunStart, reading: Omit<ReadingInput, 'run'>): Promise<AppendResult>;
+  appendToOpenRun(serial: string, run: RunStart, reading: Omit<ReadingInput, 'run'>, warningsFor?: (board: BoardFile, run: Run) => readonly string[]): Promise<AppendResult>;
   /** The path of a board's file (for messages). */
   boardPath(serial: string): string;
 }
@@ -169,7 +171,7 @@ class Store implements LogStore {
     });
   }
 
-  async appendToOpenRun(serial: string, start: RunStart, input: Omit<ReadingInput, 'run'>): Promise<AppendResult> {
+  async appendToOpenRun(serial: string, start: RunStart, input: Omit<ReadingInput, 'run'>, warningsFor?: (board: BoardFile, run: Run) => readonly string[]): Promise<AppendResult> {
     this.#savePlan(start);
     checkReadingInput({ ...input, run: 'pending' });
     return this.#update(serial, (current) => {
@@ -177,7 +179,9 @@ class Store implements LogStore {
       let run = [...board.runs].reverse().find((r) => r.ended === null);
       const startedRun = run === undefined;
       if (!run) ({ board, run } = newRun(board, start, new Date().toISOString()));
-      const reading = readingFrom({ ...input, run: run.id }, run);
+      const extra = warningsFor?.(board, run) ?? [];
+      const warnings = [...(input.warnings ?? []), ...extra];
+      const reading = readingFrom({ ...input, run: run.id, ...(warnings.length ? { warnings } : {}) }, run);
       board = { ...board, readings: [...board.readings, reading] };
       return { board, result: { run, reading, board, startedRun }, touched: [reading.check] };
     });
