@@ -1,4 +1,4 @@
-import { mkdtempSync, rmSync, writeFileSync, mkdirSync, copyFileSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync, mkdirSync, copyFileSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { render } from 'ink-testing-library';
@@ -66,10 +66,12 @@ describe('CaptureAttach', () => {
     const result = onDone.mock.calls[0]?.[0];
     expect(result?.path).toBe(join(dir, 'scope', 'driver-notch.tsv'));
     expect(result?.measurements.notch).toBe(true);
+    // The demo file's own settings (invented, demo/make-captures.ts): 5 µs steps, 4000 rows.
     expect(result?.sampleRate).toBeCloseTo(200e3, 3);
     expect(result?.samples.length).toBe(4000);
-    // The file's own bytes, for the log's copy by hash.
+    // The file's own bytes, for the log's copy by hash: the same bytes as on disk.
     expect(result?.bytes.length).toBe(66404);
+    expect(Buffer.compare(Buffer.from(result?.bytes ?? []), readFileSync(join(dir, 'scope', 'driver-notch.tsv')))).toBe(0);
     expect(onCancel).not.toHaveBeenCalled();
     unmount();
   });
