@@ -22,6 +22,7 @@ describe('divider', () => {
       }),
       { numRuns: 200 },
     );
+    // Equal halves from the −15 V rail: half the rail, −7.5 V (divider formula, by hand).
     expect(run(10e3, 10e3, 15, '-12V').values['out.dc']).toBeCloseTo(-7.5, 12);
   });
 

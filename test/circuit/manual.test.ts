@@ -42,6 +42,7 @@ describe('manual targets', () => {
     const p = parse(plan);
     // Position part: nominal 1, tolerance 50 %: its box 0.5 … 1.5 is the band's min … max.
     expect(p.parts['checks[1].band']).toMatchObject({ nominal: 1, tol: 0.5, unit: '1' });
+    // Expected ends are the plan's own limits (offset −5 … 5 mV, bias 2 mA ± 0.1 mA), no computation.
     expect(valueAt(plan, 'checks[1].band', 0.5)['offset']).toBeCloseTo(-0.005, 15);
     expect(valueAt(plan, 'checks[1].band', 1.5)['offset']).toBeCloseTo(0.005, 15);
     expect(valueAt(plan, 'checks[2].band', 0.5)['bias']).toBeCloseTo(0.0019, 15);
