@@ -10,6 +10,8 @@ export interface CheckBand {
   readonly stat: Band;
   readonly testPoint: string | null;
   readonly how: string;
+  /** A limit check (≥ / ≤): its nominal is only the threshold, nothing to deviate from (`Target.isLimit`). */
+  readonly isLimit: boolean;
 }
 
 /** The targets of one plan snapshot, by check id. */
@@ -30,7 +32,7 @@ export interface SnapshotProblem {
 /** What the target engine returns, as far as the review needs it. */
 export interface TargetList {
   readonly plan: string;
-  readonly targets: readonly Pick<Target, 'check' | 'unit' | 'nominal' | 'worst' | 'stat' | 'testPoint' | 'how'>[];
+  readonly targets: readonly Pick<Target, 'check' | 'unit' | 'nominal' | 'worst' | 'stat' | 'testPoint' | 'how' | 'isLimit'>[];
 }
 
 export interface BandSourceDeps {
@@ -53,7 +55,7 @@ export interface BandSource {
 export function toSnapshotBands(hash: string, set: TargetList): SnapshotBands {
   const bands = new Map<string, CheckBand>();
   for (const t of set.targets) {
-    bands.set(t.check, { check: t.check, unit: t.unit, nominal: t.nominal, worst: t.worst, stat: t.stat, testPoint: t.testPoint, how: t.how });
+    bands.set(t.check, { check: t.check, unit: t.unit, nominal: t.nominal, worst: t.worst, stat: t.stat, testPoint: t.testPoint, how: t.how, isLimit: t.isLimit ?? false });
   }
   return { hash, plan: set.plan, order: [...bands.keys()], bands };
 }

@@ -9,7 +9,7 @@ export type TimelineEntry =
       readonly reading: Reading;
       /** The target as it was when measured (from the reading's plan snapshot), or null. */
       readonly target: CheckBand | null;
-      /** (value − nominal) / |nominal|, or null without a target or with a zero nominal. */
+      /** (value − nominal) / |nominal|, or null without a target, with a zero nominal or for a limit check. */
       readonly deviation: number | null;
     }
   | { readonly kind: 'rework'; readonly at: string; readonly rework: Rework }
@@ -22,16 +22,6 @@ export function boardHashes(board: BoardFile): string[] {
   return [...new Set([...board.runs.map((r) => r.planHash), ...board.readings.map((r) => r.planHash)])];
 }
 
-/**
- * Whether a check's nominal means something to deviate from: the unpowered
- * rail-to-ground resistance and the idle current are limits (≥ / ≤), their
- * "nominal" only a threshold. The same rule as `hasNominal` in src/cli/record.ts
- * (kept here too: the review core imports no CLI code).
- */
-function hasNominal(check: string): boolean {
-  return !(check === 'rails.idle-current' || (check.startsWith('rails.') && check.endsWith('.to-ground')));
-}
-
 /** One board's runs, readings, rework notes and captures in time order. */
 export function timelineOf(board: BoardFile, bands: ReadonlyMap<string, SnapshotBands>): TimelineEntry[] {
   const entries: TimelineEntry[] = [];
@@ -40,7 +30,7 @@ export function timelineOf(board: BoardFile, bands: ReadonlyMap<string, Snapshot
   for (const capture of board.captures) entries.push({ kind: 'capture', at: capture.at, capture });
   for (const reading of board.readings) {
     const target = bands.get(reading.planHash)?.bands.get(reading.check) ?? null;
-    const deviation = target && target.nominal !== 0 && hasNominal(reading.check) && Number.isFinite(reading.value) ? (reading.value - target.nominal) / Math.abs(target.nominal) : null;
+    const deviation = target && target.nominal !== 0 && !target.isLimit && Number.isFinite(reading.value) ? (reading.value - target.nominal) / Math.abs(target.nominal) : null;
     entries.push({ kind: 'reading', at: reading.at, reading, target, deviation });
   }
   // Stable: entries at the same instant keep run → rework → capture → reading order.

@@ -57,8 +57,8 @@ describe('board history', () => {
     };
     const hash = board.readings[0]?.planHash ?? '';
     const bands = new Map([[hash, { bands: new Map([
-      ['rails.+12V.to-ground', { nominal: 100, worst: { min: 100, max: Infinity } }],
-      ['rails.idle-current', { nominal: 0.0175, worst: { min: 0, max: 0.035 } }],
+      ['rails.+12V.to-ground', { nominal: 100, worst: { min: 100, max: Infinity }, isLimit: true }],
+      ['rails.idle-current', { nominal: 0.0175, worst: { min: 0, max: 0.035 }, isLimit: true }],
     ]) }]]) as unknown as Parameters<typeof timelineOf>[1];
     const readings = timelineOf(limitBoard, bands).filter((e) => e.kind === 'reading');
     expect(readings.map((e) => (e.kind === 'reading' ? e.deviation : 'x'))).toEqual([null, null]);

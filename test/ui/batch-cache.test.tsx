@@ -8,7 +8,7 @@ import { makeLog, runBoard } from '../review/real-log.js';
 
 describe('targets cache for the review', () => {
   test('keeps open band sides (±∞) through the cache text', () => {
-    const set = { plan: 'p', targets: [{ check: 'rails.+9V.to-ground', unit: 'Ω' as const, nominal: 100, worst: { min: 100, max: Infinity }, stat: { min: 100, max: Infinity }, testPoint: null, how: 'ohms' }] };
+    const set = { plan: 'p', targets: [{ check: 'rails.+9V.to-ground', unit: 'Ω' as const, nominal: 100, worst: { min: 100, max: Infinity }, stat: { min: 100, max: Infinity }, testPoint: null, how: 'ohms', isLimit: true }] };
     expect(bandsFromText(bandsToText(set))).toEqual(set);
     expect(bandsFromText('{"plan": 1}')).toBeNull();
     expect(bandsFromText('{not json')).toBeNull();
@@ -28,6 +28,9 @@ describe('targets cache for the review', () => {
     const again = await planBandSource(t.log, { cacheDir }).get(t.plan.hash);
     expect(again?.bands.get('osc.freq')?.worst).toEqual(t.target('osc.freq').worst);
     expect(again?.bands.get('rails.+9V.to-ground')?.worst.max).toBe(Infinity);
+    // The limit-check mark survives the cache (the engine sets it; a lost mark would bring back a deviation from a threshold).
+    expect(again?.bands.get('rails.+9V.to-ground')?.isLimit).toBe(true);
+    expect(again?.bands.get('osc.freq')?.isLimit).toBe(false);
     expect(first?.order).toEqual(t.targets.targets.map((x) => x.check));
   });
 

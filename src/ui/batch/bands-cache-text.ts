@@ -6,7 +6,7 @@ const decode = (_key: string, v: unknown) => (v === 'Infinity' ? Infinity : v ==
 
 /** The part of a target set the review needs, as cache text. */
 export function bandsToText(set: TargetList): string {
-  const targets = set.targets.map((t) => ({ check: t.check, unit: t.unit, nominal: t.nominal, worst: t.worst, stat: t.stat, testPoint: t.testPoint, how: t.how }));
+  const targets = set.targets.map((t) => ({ check: t.check, unit: t.unit, nominal: t.nominal, worst: t.worst, stat: t.stat, testPoint: t.testPoint, how: t.how, isLimit: t.isLimit ?? false }));
   return `${JSON.stringify({ plan: set.plan, targets }, encode)}\n`;
 }
 
@@ -22,7 +22,7 @@ export function bandsFromText(text: string): TargetList | null {
   const d = data as Partial<TargetList> | null;
   if (!d || typeof d.plan !== 'string' || !Array.isArray(d.targets)) return null;
   const ok = d.targets.every(
-    (t) => t && typeof t.check === 'string' && typeof t.nominal === 'number' && typeof t.worst?.min === 'number' && typeof t.worst?.max === 'number' && typeof t.stat?.min === 'number',
+    (t) => t && typeof t.check === 'string' && typeof t.nominal === 'number' && typeof t.worst?.min === 'number' && typeof t.worst?.max === 'number' && typeof t.stat?.min === 'number' && typeof t.isLimit === 'boolean',
   );
   return ok ? (d as TargetList) : null;
 }

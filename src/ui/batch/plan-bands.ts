@@ -14,9 +14,10 @@ const build = typeof __PROBEBOOK_BUILD__ === 'string' ? __PROBEBOOK_BUILD__ : 's
 /**
  * The cache key of computed bands: the engine's trials and seed and the build
  * (a hash of the sources), so a changed model never reuses bands of an older one.
- * Run from source (tsx, tests) the build is `source`: bump `e1` by hand there.
+ * Run from source (tsx, tests) the build is `source`: bump the `e` number by hand there
+ * when the cache text changes (e2: the limit-check mark).
  */
-export const targetsEngineKey = `e1-${build}-t${defaultTrials}-s${defaultSeed}`;
+export const targetsEngineKey = `e2-${build}-t${defaultTrials}-s${defaultSeed}`;
 
 /**
  * Where computed targets are cached between runs: `$PROBEBOOK_CACHE`, else the
