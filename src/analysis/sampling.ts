@@ -55,32 +55,10 @@ export function sampleChain(chain: Chain, options: SampleOptions): Samples {
 }
 
 /**
- * Quantile of the finite values (linear interpolation between order statistics,
- * Hyndman and Fan type 7, the default of R and NumPy). `sorted` must be
- * ascending with non-finite values removed.
+ * The extremes and two quantiles of the finite values of one check (linear
+ * interpolation between order statistics, Hyndman and Fan type 7, the default
+ * of R and NumPy).
  */
-export function quantileSorted(sorted: Float64Array, p: number): number {
-  const n = sorted.length;
-  if (n === 0) return Number.NaN;
-  const h = (n - 1) * p;
-  const lo = Math.floor(h);
-  const hi = Math.min(n - 1, lo + 1);
-  const a = sorted[lo] as number;
-  const b = sorted[hi] as number;
-  return a + (h - lo) * (b - a);
-}
-
-/** The finite values of one check, sorted ascending. */
-export function sortedFinite(values: Float64Array): Float64Array {
-  let n = 0;
-  for (const v of values) if (Number.isFinite(v)) n++;
-  const out = new Float64Array(n);
-  let j = 0;
-  for (const v of values) if (Number.isFinite(v)) out[j++] = v;
-  return out.sort();
-}
-
-/** The extremes and two quantiles (as `quantileSorted`) of the finite values of one check. */
 export interface TailFigures {
   readonly min: number;
   readonly max: number;
@@ -89,8 +67,8 @@ export interface TailFigures {
 }
 
 /**
- * `quantileSorted(sortedFinite(values), pLow)` and `(…, pHigh)` with the extremes,
- * without sorting: the order statistics the two quantiles need are found by
+ * The type 7 quantiles at `pLow` and `pHigh` and the extremes of the finite
+ * values, without sorting: the order statistics the two quantiles need are found by
  * selection (Hoare's quickselect, expected O(n)) on a copy of the finite values.
  * The same numbers as a full sort, since an order statistic is one value.
  */
