@@ -1,33 +1,16 @@
 import { writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { afterEach, beforeAll, describe, expect, test } from 'vitest';
-import type { TargetSet } from '../../src/analysis/types.js';
-import type { Plan } from '../../src/plan/types.js';
+import { describe, expect, test } from 'vitest';
 import { shortCautions } from '../../src/ui/bring-up/cautions.js';
-import { loadFixture, renderBringUp, tempLog } from './bring-up-harness.js';
+import { bringUpSuite, type tempLog } from './bring-up-harness.js';
 import { keys } from './keys.js';
 
-let fixture: { plan: Plan; targets: TargetSet };
-const cleanups: (() => Promise<void>)[] = [];
-beforeAll(async () => {
-  fixture = await loadFixture();
-});
-afterEach(async () => {
-  for (const c of cleanups.splice(0)) await c();
-});
-
-async function setup(options: Parameters<typeof renderBringUp>[2] = {}) {
-  const tmp = await tempLog();
-  cleanups.push(tmp.cleanup);
-  return { tmp, open: async (o = options) => {
-    const s = await renderBringUp(fixture, tmp.log, o);
-    cleanups.push(async () => s.unmount());
-    return s;
-  } };
-}
+const suite = bringUpSuite();
+const setup = suite.setup;
 
 /** Every check of the fixture at its nominal value (the to-ground checks open), saved straight into the log. */
 async function fillRun(tmp: Awaited<ReturnType<typeof tempLog>>, serial: string, skipLast = 0): Promise<string> {
+  const { fixture } = suite;
   const run = await tmp.log.startRun(serial, { plan: fixture.plan.plan, planHash: fixture.plan.hash, planText: fixture.plan.text, operator: 'tester' });
   const all = fixture.targets.targets;
   for (const t of all.slice(0, all.length - skipLast)) {
@@ -89,7 +72,7 @@ describe('bring-up screen: list, capture, end of run', () => {
     await s.press(keys.enter);
     await s.until('osc.freq ›');
     // An invented square at the fixture's nominal frequency: ±7.8 V, 1 MHz sampling, 4 periods.
-    const f = fixture.targets.targets.find((t) => t.check === 'osc.freq')?.nominal ?? 0;
+    const f = suite.fixture.targets.targets.find((t) => t.check === 'osc.freq')?.nominal ?? 0;
     const rows = ['time,ch1'];
     const n = Math.round((4 / f) * 1e6);
     for (let i = 0; i < n; i++) rows.push(`${(i * 1e-6).toExponential(6)},${(i * 1e-6 * f) % 1 < 0.5 ? 7.8 : -7.8}`);

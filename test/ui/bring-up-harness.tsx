@@ -2,6 +2,7 @@ import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { render } from 'ink-testing-library';
+import { afterEach, beforeAll } from 'vitest';
 import { computeTargets } from '../../src/analysis/targets.js';
 import type { TargetSet } from '../../src/analysis/types.js';
 import { openLog } from '../../src/log/store.js';
@@ -88,4 +89,37 @@ export async function tempLog(): Promise<{ log: BenchLog; dir: string; cleanup: 
 
 export async function boardJson(dir: string, serial: string): Promise<string> {
   return readFile(join(dir, 'boards', `${serial}.json`), 'utf8');
+}
+
+/**
+ * The hooks every bring-up screen test file needs: the fixture loaded once
+ * (read `suite.fixture` inside a test), and every temporary log and screen
+ * removed after each test. `setup` makes a log and `open` draws a screen on it.
+ */
+export function bringUpSuite() {
+  const cleanups: (() => Promise<void>)[] = [];
+  const suite = {
+    fixture: undefined as unknown as { plan: Plan; targets: TargetSet },
+    /** Run `c` after the current test (before the next one starts). */
+    onCleanup: (c: () => Promise<void>) => void cleanups.push(c),
+    setup: async (options: ScreenOptions = {}) => {
+      const tmp = await tempLog();
+      cleanups.push(tmp.cleanup);
+      return {
+        tmp,
+        open: async (o: ScreenOptions = options) => {
+          const s = await renderBringUp(suite.fixture, tmp.log, o);
+          cleanups.push(async () => s.unmount());
+          return s;
+        },
+      };
+    },
+  };
+  beforeAll(async () => {
+    suite.fixture = await loadFixture();
+  });
+  afterEach(async () => {
+    for (const c of cleanups.splice(0)) await c();
+  });
+  return suite;
 }

@@ -1,29 +1,18 @@
-import { afterEach, beforeAll, describe, expect, test } from 'vitest';
-import type { Target, TargetSet } from '../../src/analysis/types.js';
-import type { Plan } from '../../src/plan/types.js';
-import { boardJson, loadFixture, renderBringUp, tempLog } from './bring-up-harness.js';
+import { describe, expect, test } from 'vitest';
+import type { Target } from '../../src/analysis/types.js';
+import { boardJson, bringUpSuite, renderBringUp, type ScreenOptions } from './bring-up-harness.js';
 import { keys } from './keys.js';
 
-let fixture: { plan: Plan; targets: TargetSet };
-const cleanups: (() => Promise<void>)[] = [];
+const suite = bringUpSuite();
 const target = (check: string): Target => {
-  const t = fixture.targets.targets.find((x) => x.check === check);
+  const t = suite.fixture.targets.targets.find((x) => x.check === check);
   if (!t) throw new Error(`no ${check}`);
   return t;
 };
 
-beforeAll(async () => {
-  fixture = await loadFixture();
-});
-afterEach(async () => {
-  for (const c of cleanups.splice(0)) await c();
-});
-
-async function setup(options: Parameters<typeof renderBringUp>[2] = {}) {
-  const tmp = await tempLog();
-  cleanups.push(tmp.cleanup);
-  const screen = await renderBringUp(fixture, tmp.log, options);
-  cleanups.push(async () => screen.unmount());
+async function setup(options: ScreenOptions = {}) {
+  const { tmp, open } = await suite.setup(options);
+  const screen = await open();
   return { ...screen, dir: tmp.dir, log: tmp.log };
 }
 
@@ -135,8 +124,8 @@ describe('bring-up screen', () => {
     await s.read(`${target('osc.freq').nominal}`);
     const run = (await s.board())?.runs[0]?.id ?? '';
     s.unmount();
-    const again = await renderBringUp(fixture, s.log, { resumeRun: run });
-    cleanups.push(async () => again.unmount());
+    const again = await renderBringUp(suite.fixture, s.log, { resumeRun: run });
+    suite.onCleanup(async () => again.unmount());
     await again.until('resumed run');
     await again.press(keys.enter);
     // Every earlier reading keeps its mark and the next check follows osc.freq.
