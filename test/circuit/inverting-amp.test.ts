@@ -4,7 +4,7 @@ import type { OpampModel, Waveform } from '../../src/circuit/types.js';
 import { fromPhase } from '../../src/circuit/waveform.js';
 import { PlanError } from '../../src/plan/errors.js';
 import { corner, runSpice } from '../helpers/ngspice.js';
-import { opampSubckt } from '../helpers/spice-opamp.js';
+import { opampSubcktFor } from '../helpers/spice-opamp.js';
 
 // Invented op-amp and supplies for the tests (not a particular part).
 const opamp: OpampModel = { gbw: 1e6, slew: 0.5e6, headroom: 1.5, maxSupply: 15, aol: 2e5 };
@@ -14,12 +14,8 @@ function run(parts: Record<string, number>, input: Waveform, op: OpampModel = op
   return invertingAmpKind.evaluate({ parts, settings: {}, opamp: op, supplies, rails: {}, input });
 }
 
-function spiceOpamp(op: OpampModel): string {
-  return opampSubckt('opa', { gbw: op.gbw, slew: op.slew, aol: op.aol, vhigh: supplies.pos - op.headroom, vlow: supplies.neg + op.headroom });
-}
-
 function deck(op: OpampModel, rin: number, rf: number, source: string): string {
-  return `${spiceOpamp(op)}\n${source}\nRin in inn ${rin}\nRf inn out ${rf}\nX1 0 inn out opa`;
+  return `${opampSubcktFor('opa', op, supplies)}\n${source}\nRin in inn ${rin}\nRf inn out ${rf}\nX1 0 inn out opa`;
 }
 
 const sine = (peak: number, f: number): Waveform => fromPhase(f, (p) => peak * Math.sin(2 * Math.PI * p));

@@ -4,7 +4,7 @@ import type { OpampModel, Waveform } from '../../src/circuit/types.js';
 import { fromPhase } from '../../src/circuit/waveform.js';
 import { PlanError } from '../../src/plan/errors.js';
 import { corner, runSpice } from '../helpers/ngspice.js';
-import { opampSubckt } from '../helpers/spice-opamp.js';
+import { opampSubcktFor } from '../helpers/spice-opamp.js';
 
 // Invented op-amp and supplies for the tests (not a particular part).
 const opamp: OpampModel = { gbw: 1e6, slew: 0.5e6, headroom: 1.5, maxSupply: 15, aol: 2e5 };
@@ -16,8 +16,7 @@ function run(parts: Record<string, number>, input: Waveform, op: OpampModel = op
 }
 
 function deck(op: OpampModel, rg: number, rf: number, source: string): string {
-  const sub = opampSubckt('opa', { gbw: op.gbw, slew: op.slew, aol: op.aol, vhigh: supplies.pos - op.headroom, vlow: supplies.neg + op.headroom });
-  return `${sub}\n${source}\nRg inn 0 ${rg}\nRf inn out ${rf}\nX1 in inn out opa`;
+  return `${opampSubcktFor('opa', op, supplies)}\n${source}\nRg inn 0 ${rg}\nRf inn out ${rf}\nX1 in inn out opa`;
 }
 
 describe('noninverting-amp against ngspice AC (behavioural single-pole op-amp)', () => {

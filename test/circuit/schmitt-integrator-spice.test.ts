@@ -2,7 +2,7 @@ import { describe, expect, test } from 'vitest';
 import { schmittIntegratorKind as kind, type SchmittSettings } from '../../src/circuit/schmitt-integrator.js';
 import type { EvalInput, EvalOutput, OpampModel } from '../../src/circuit/types.js';
 import { runSpice } from '../helpers/ngspice.js';
-import { opampSubckt } from '../helpers/spice-opamp.js';
+import { opampSubcktFor } from '../helpers/spice-opamp.js';
 
 /*
  * The oscillator against ngspice (Debian package, an independent simulator).
@@ -55,10 +55,8 @@ function evaluateCase(c: Case): { out: EvalOutput; input: EvalInput<SchmittSetti
 /** The deck for the nominal parts, with the integrator resistor Rt + RV·setting. */
 function deck(input: EvalInput<SchmittSettings>, pot: number, sharpClamp = false): string {
   const p = input.parts;
-  const high = input.supplies.pos - opamp.headroom;
-  const low = input.supplies.neg + opamp.headroom;
   const lines = [
-    opampSubckt('oa', { gbw: opamp.gbw, slew: opamp.slew, aol: opamp.aol, vhigh: high, vlow: low }),
+    opampSubcktFor('oa', opamp, input.supplies),
     'xcmp np 0 cmp oa',
     `r1 tri np ${p['R1']}`,
     `r2 sq np ${p['R2']}`,

@@ -1,3 +1,5 @@
+import type { OpampModel, Supplies } from '../../src/circuit/types.js';
+
 /**
  * A behavioural op-amp for ngspice decks in the tests, independent of the
  * equations in `src/circuit`:
@@ -64,4 +66,12 @@ export function opampSubckt(name: string, o: SpiceOpampOptions): string {
     `.model ${model} D (IS=1e-15 N=0.01)`,
     `.ends ${name}`,
   ].join('\n');
+}
+
+/**
+ * `opampSubckt` for a plan's op-amp on these supplies: its output limits are the
+ * rails less the headroom (worked here, not through src/circuit/opamp.ts).
+ */
+export function opampSubcktFor(name: string, op: OpampModel, supplies: Supplies): string {
+  return opampSubckt(name, { gbw: op.gbw, slew: op.slew, aol: op.aol, vhigh: supplies.pos - op.headroom, vlow: supplies.neg + op.headroom });
 }
