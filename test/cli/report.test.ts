@@ -60,6 +60,11 @@ describe('probebook report SERIAL --format csv', () => {
     expect(rows[2]?.value).toBe('0.0195');
     expect(rows[5]?.test_point).toBe('TP4');
     expect(Number(rows[5]?.worst_min)).toBeGreaterThan(3.1);
+    // Divider formula Vout = V·Rb/(Rt+Rb) (any circuits handbook) at the fixture's low corner:
+    // +10V at −2 %, Rtop 6k8 at +1 %, Rbottom 3k3 at −1 %; within 5 mV (toBeCloseTo 2 places), never narrower.
+    const low = (10 * 0.98 * 3300 * 0.99) / (6800 * 1.01 + 3300 * 0.99);
+    expect(Number(rows[5]?.worst_min)).toBeCloseTo(low, 2);
+    expect(Number(rows[5]?.worst_min)).toBeLessThanOrEqual(low * (1 + 1e-9));
   });
 
   test('text that a spreadsheet would run as a formula is defused; numbers are not', () => {
