@@ -33,11 +33,13 @@ describe('histogram bins', () => {
 
   test('the range spans the band even when the data do not', () => {
     const h = histogramBins([5, 5.1], { bins: 4, band: { min: 0, max: 8 } });
+    // Hand-worked (exact): the band's edges 0 and 8 are wider than the data 5 … 5.1.
     expect([h.lo, h.hi]).toEqual([0, 8]);
   });
 
   test('one value alone still gets a bin; non-finite values are left out and counted', () => {
     const h = histogramBins([3, Number.NaN, Infinity], { bins: 3 });
+    // Hand-counted (exact): 3 is the one finite value; NaN and ∞ are the two dropped.
     expect(h.counts.reduce((a, b) => a + b, 0)).toBe(1);
     expect(h.dropped).toBe(2);
     expect(h.hi).toBeGreaterThan(h.lo);

@@ -37,6 +37,8 @@ describe('histogram chart', () => {
   });
 
   test('about 2·√n bins, at least 5, never more than the columns', () => {
+    // The 2·√n rule is common practice, no source; the figures are hand-worked:
+    // ⌈2·√6⌉ = ⌈4.9⌉ = 5; 2·√100 = 20; 2·√10000 = 200, held to the 70 columns.
     expect(defaultBins(6, 70)).toBe(5);
     expect(defaultBins(100, 70)).toBe(20);
     expect(defaultBins(10_000, 70)).toBe(70);
