@@ -16,7 +16,7 @@ export interface AnalyzedCapture extends MeasureResult {
 }
 
 /** Pick a channel by number (1-based) or by name (case-insensitive). */
-export function pickChannel(capture: Capture, which: string | undefined): CaptureChannel {
+function pickChannel(capture: Capture, which: string | undefined): CaptureChannel {
   const { channels } = capture;
   const names = channels.map((c, i) => `${i + 1} (${c.name})`).join(', ');
   if (which === undefined || which === '') {

@@ -128,7 +128,7 @@ function findHeader(lines: readonly string[], start: number, delimiter: string, 
 const unitWords = /^(s|ms|us|µs|μs|ns|ps|V|mV|uV|µV|μV|kV|A|mA|uA|µA|μA|Hz|kHz)$/i;
 
 /** `Time (s)`, `CH1 [V]`, `CH2/mV`, `CH3 mV` → label and unit. */
-export function splitUnit(raw: string): { label: string; unit: string } {
+function splitUnit(raw: string): { label: string; unit: string } {
   const bracket = /^(.*?)\s*[([]\s*([^)\]]*?)\s*[)\]]\s*$/.exec(raw);
   if (bracket) return { label: (bracket[1] ?? '').trim(), unit: (bracket[2] ?? '').trim() };
   const slash = /^(.*?)\s*\/\s*(\S+)$/.exec(raw);

@@ -7,7 +7,7 @@ import { transitions } from './transitions.js';
 import { CaptureError, type Measurements } from './types.js';
 
 /** Fewest samples worth measuring. */
-export const minSamples = 16;
+const minSamples = 16;
 /** Longest segment the frequency refinement and the harmonics look at, samples. */
 const maxSpectrumSamples = 1 << 18;
 const maxHarmonicSamples = 1 << 17;

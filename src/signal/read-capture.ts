@@ -9,7 +9,7 @@ import { wavReader } from './wav-reader.js';
 export const readers: readonly CaptureReader[] = [wavReader, csvReader];
 
 /** Pick the reader for a file from its name and first bytes. */
-export function pickReader(name: string, head: Uint8Array): CaptureReader {
+function pickReader(name: string, head: Uint8Array): CaptureReader {
   const reader = readers.find((r) => r.canRead(name, head));
   if (!reader) throw new CaptureError(`${name}: binary data, neither CSV text nor a WAV file`);
   return reader;
