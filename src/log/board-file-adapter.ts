@@ -1,8 +1,8 @@
 import type { Adapter } from 'lowdb';
 import { checkBoardShape } from './board-schema.js';
 import { DurableTextFile } from './durable-text-file.js';
-import { readFileSync } from 'node:fs';
-import { errorCode, LogDamageError } from './errors.js';
+import { LogDamageError } from './errors.js';
+import { readTextIfAny } from './read-text.js';
 import { fromLogJson, toLogJson } from './json-text.js';
 import { type Migration, boardMigrations, migrateBoard } from './migrate.js';
 import { type BoardFile, boardSchemaVersion } from './types.js';
@@ -29,19 +29,10 @@ function problemOf(text: string, serial: string, migrations: Readonly<Record<num
   return { board: shape.board };
 }
 
-function readTextSync(path: string): string | null {
-  try {
-    return readFileSync(path, 'utf8');
-  } catch (error) {
-    if (errorCode(error) === 'ENOENT') return null;
-    throw error;
-  }
-}
-
 function remedy(file: string, serial: string, isNewer: boolean, migrations: Readonly<Record<number, Migration>>): string {
   if (isNewer) return 'Open this log with the newer probebook that wrote it (update probebook).';
   const backup = `${file}.bak`;
-  const bak = readTextSync(backup);
+  const bak = readTextIfAny(backup);
   if (bak !== null && 'board' in problemOf(bak, serial, migrations)) {
     return `The previous good version is ${backup}; restore it with: cp '${backup}' '${file}.restore' && mv '${file}.restore' '${file}' (it lacks at most the last change; check it with probebook history).`;
   }
@@ -53,7 +44,7 @@ function remedy(file: string, serial: string, isNewer: boolean, migrations: Read
  * when there is none, a LogDamageError when it cannot be read as it stands.
  */
 export function readBoardFileSync(file: string, serial: string, migrations: Readonly<Record<number, Migration>> = boardMigrations): BoardFile | null {
-  const text = readTextSync(file);
+  const text = readTextIfAny(file);
   if (text === null) return null;
   const result = problemOf(text, serial, migrations);
   if ('board' in result) return result.board;

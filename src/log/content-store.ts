@@ -1,9 +1,10 @@
 import { createHash } from 'node:crypto';
-import { mkdirSync, readFileSync, renameSync, statSync, unlinkSync } from 'node:fs';
+import { mkdirSync, renameSync, statSync, unlinkSync } from 'node:fs';
 import { extname, join } from 'node:path';
 import { randomBytes } from 'node:crypto';
 import { syncDir, writeFlushed } from './durable-text-file.js';
 import { errorCode, LogInputError } from './errors.js';
+import { readTextIfAny } from './read-text.js';
 
 export function sha256Hex(bytes: string | Uint8Array): string {
   return createHash('sha256').update(bytes).digest('hex');
@@ -56,12 +57,7 @@ export class ContentStore {
   /** The text of `<hash>.<ext>`, or null when it is not kept. */
   getText(hash: string, ext: string): string | null {
     if (!hashPattern.test(hash)) throw new LogInputError(`${JSON.stringify(hash)} is not a sha256 in hex`);
-    try {
-      return readFileSync(join(this.dir, `${hash}.${ext}`), 'utf8');
-    } catch (error) {
-      if (errorCode(error) === 'ENOENT') return null;
-      throw error;
-    }
+    return readTextIfAny(join(this.dir, `${hash}.${ext}`));
   }
 
   has(hash: string, ext: string): boolean {

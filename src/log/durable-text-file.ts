@@ -1,8 +1,9 @@
 import { randomBytes } from 'node:crypto';
-import { closeSync, copyFileSync, fsyncSync, linkSync, openSync, readFileSync, renameSync, unlinkSync, writeSync } from 'node:fs';
+import { closeSync, copyFileSync, fsyncSync, linkSync, openSync, renameSync, unlinkSync, writeSync } from 'node:fs';
 import { basename, dirname } from 'node:path';
 import type { Adapter } from 'lowdb';
 import { errorCode } from './errors.js';
+import { readTextIfAny } from './read-text.js';
 
 export interface DurableTextOptions {
   /** Keep the version being replaced as `<file>.bak`. @default false */
@@ -71,12 +72,7 @@ export class DurableTextFile implements Adapter<string> {
   }
 
   async read(): Promise<string | null> {
-    try {
-      return readFileSync(this.file, 'utf8');
-    } catch (error) {
-      if (errorCode(error) === 'ENOENT') return null;
-      throw error;
-    }
+    return readTextIfAny(this.file);
   }
 
   async write(text: string): Promise<void> {

@@ -1,10 +1,11 @@
-import { appendFileSync, readdirSync, readFileSync, renameSync, statSync, unlinkSync } from 'node:fs';
+import { appendFileSync, readdirSync, renameSync, statSync, unlinkSync } from 'node:fs';
 export { fileStamp } from './board-scan.js';
 import { randomBytes } from 'node:crypto';
 import { join } from 'node:path';
 import { readBoardFileSync } from './board-file-adapter.js';
 import { DurableTextFile } from './durable-text-file.js';
 import { errorCode, LogDamageError } from './errors.js';
+import { readTextIfAny } from './read-text.js';
 import { withFileLock } from './file-lock.js';
 import { boardSerials, bootId, folderTime, stampsOf } from './board-scan.js';
 import { type BoardHead, type CheckMap, headOf, type IntentLine, type JournalLine, type KnownBoard, replayJournal, reviveChecks, type SuspectLine } from './index-journal.js';
@@ -38,15 +39,6 @@ interface Snapshot {
   readonly boot: string;
   /** Boards that could not be read (damaged): checked on every read. */
   readonly suspects: readonly string[];
-}
-
-function readText(path: string): string | null {
-  try {
-    return readFileSync(path, 'utf8');
-  } catch (error) {
-    if (errorCode(error) === 'ENOENT') return null;
-    throw error;
-  }
 }
 
 /**
@@ -117,7 +109,7 @@ export class IndexStore {
     const snapshot = this.#readSnapshot();
     const known = new Map<string, KnownBoard>();
     for (const [serial, head, stamp] of snapshot?.rows ?? []) known.set(serial, { head, stamp, full: null, deltas: [], broken: false });
-    const journalText = readText(this.journal) ?? '';
+    const journalText = readTextIfAny(this.journal) ?? '';
     const facts = replayJournal(journalText, known);
     for (const s of snapshot?.suspects ?? []) facts.suspects.add(s);
     const lastDir = Math.max(snapshot?.dir ?? -1, facts.dir ?? -1);
@@ -184,7 +176,7 @@ export class IndexStore {
   }
 
   #readSnapshot(): (Snapshot & { rows: ReturnType<typeof unpackBoards> & object }) | null {
-    const text = readText(this.file);
+    const text = readTextIfAny(this.file);
     if (text === null) return null;
     let data: Partial<Snapshot> | null;
     try {
@@ -199,7 +191,7 @@ export class IndexStore {
 
   #readChecks(name: string): Record<string, CheckMap> | null {
     if (!checksPattern.test(name)) return null;
-    const text = readText(join(this.dir, name));
+    const text = readTextIfAny(join(this.dir, name));
     if (text === null) return null;
     try {
       const data = JSON.parse(text) as { schemaVersion?: unknown; checks?: Record<string, CheckMap> };
