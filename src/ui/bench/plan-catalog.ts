@@ -1,4 +1,4 @@
-import { computeTargets } from '../../analysis/targets.js';
+import { computeTargets, defaultSeed, defaultTrials } from '../../analysis/targets.js';
 import type { TargetSet } from '../../analysis/types.js';
 import type { BenchLog, BoardSummary, LogIndex } from '../../log/types.js';
 import { loadPlanText } from '../../plan/load.js';
@@ -15,9 +15,9 @@ export interface PlanChoice {
 }
 
 export interface TargetOptions {
-  /** Monte Carlo trials. @default 10000 (as `probebook targets`) */
+  /** Monte Carlo trials. @default defaultTrials (as `probebook targets`) */
   readonly trials?: number;
-  /** @default 1 (as `probebook targets`) */
+  /** @default defaultSeed (as `probebook targets`) */
   readonly seed?: number;
   /** Compute in a worker thread so the screen keeps drawing. @default true */
   readonly offThread?: boolean;
@@ -91,7 +91,7 @@ export class PlanCatalog {
   targets(plan: Plan): TargetSet {
     let set = this.targetSets.get(plan.hash);
     if (!set) {
-      set = computeTargets(plan, { trials: this.options.trials ?? 10_000, seed: this.options.seed ?? 1 });
+      set = computeTargets(plan, { trials: this.options.trials ?? defaultTrials, seed: this.options.seed ?? defaultSeed });
       this.targetSets.set(plan.hash, set);
     }
     return set;
@@ -106,8 +106,8 @@ export class PlanCatalog {
     if (ready) return Promise.resolve(ready);
     const running = this.pending.get(plan.hash);
     if (running) return running;
-    const trials = this.options.trials ?? 10_000;
-    const seed = this.options.seed ?? 1;
+    const trials = this.options.trials ?? defaultTrials;
+    const seed = this.options.seed ?? defaultSeed;
     const off = this.options.offThread === false ? null : targetsOffThread(plan, trials, seed, onProgress);
     const job = (async () => {
       let set: TargetSet;
