@@ -1,16 +1,8 @@
-import type { Band } from '../../analysis/types.js';
 import { formatValue } from '../../units/format.js';
 import type { Unit } from '../../units/unit.js';
 
-/** A band as a technician reads it: `2.31 … 2.71 kHz`, `≥ 100 Ω` when open above, `≤ 45 mA` when open below. */
-export function formatBand(band: Band, unit: Unit): string {
-  const lo = Number.isFinite(band.min);
-  const hi = Number.isFinite(band.max);
-  if (lo && hi) return `${formatValue(band.min, unit)} … ${formatValue(band.max, unit)}`;
-  if (lo) return `≥ ${formatValue(band.min, unit)}`;
-  if (hi) return `≤ ${formatValue(band.max, unit)}`;
-  return 'any value';
-}
+/** A band as a technician reads it: `2.31 kHz … 2.71 kHz`, `≥ 100 Ω` when open above, `≤ 45 mA` when open below (the plan screen's, 4 digits). */
+export { formatBand } from '../plan-screen/format-band.js';
 
 /** A reading, with `OL` for an open circuit. */
 export function formatReading(value: number, unit: Unit): string {
