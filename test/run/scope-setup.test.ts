@@ -20,6 +20,8 @@ describe('1-2-5 ranges', () => {
   });
 
   test('a 2.5 kHz, 9.2 Vpp square: two periods over 10 div, six of 8 div', () => {
+    // Hand-worked from the bench habit of two periods across the 10 horizontal divisions and the
+    // signal over about six of the 8 vertical ones (common practice, no source).
     // 2 periods = 800 µs over 10 div = 80 µs/div → 100 µs/div; 9.2/6 = 1.53 V → 2 V/div.
     expect(scopeSetup(2500, 9.2)).toEqual({ timePerDiv: 1e-4, voltsPerDiv: 2 });
     // 1 kHz, 1 Vpp: 200 µs/div exactly, 0.167 V → 200 mV/div.
