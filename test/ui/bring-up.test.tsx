@@ -82,6 +82,19 @@ describe('bring-up screen', () => {
     expect(s.exits).toHaveLength(0);
   });
 
+  test('a held Backspace arriving as one chunk erases as many characters as it holds', async () => {
+    // A terminal sends DEL (0x7F) per Backspace; over tmux or ssh several arrive in one write.
+    const s = await setup();
+    await s.until('Cautions before first power');
+    await s.press(keys.enter);
+    await s.until('rails.+9V.to-ground ›');
+    await s.type('22k5');
+    await s.until('rails.+9V.to-ground › 22k5');
+    await s.press(keys.backspace.repeat(3));
+    await s.until('rails.+9V.to-ground › 2');
+    expect(s.frame()).not.toContain('22k');
+  });
+
   test('a frequency a decade low is explained by a ×10 timing capacitor, osc.Ct', async () => {
     const s = await setup();
     await powerUp(s);

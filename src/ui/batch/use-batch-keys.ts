@@ -2,6 +2,7 @@ import { useInput } from 'ink';
 import { useRef, type Dispatch } from 'react';
 import { editForm, moveField } from './filter-form-state.js';
 import { selectedCheck, type BatchAction, type BatchState } from './use-batch-state.js';
+import { erasures } from '../components/key-chunks.js';
 
 /** Keys of the batch screen; the filter form takes the keyboard while it is open. */
 export function useBatchKeys(
@@ -28,7 +29,12 @@ export function useBatchKeys(
         if (key.return) return dispatch({ type: 'form-apply' });
         if (key.tab || key.downArrow) return edit(moveField(form, key.shift ? -1 : 1));
         if (key.upArrow) return edit(moveField(form, -1));
-        if (key.backspace || key.delete) return edit(editForm(form, '', true));
+        const erased = erasures(input, key);
+        if (erased > 0) {
+          let next = form;
+          for (let n = 0; n < erased; n++) next = editForm(next, '', true);
+          return edit(next);
+        }
         if (key.ctrl || key.meta || key.leftArrow || key.rightArrow) return;
         return edit(editForm(form, input, false));
       }

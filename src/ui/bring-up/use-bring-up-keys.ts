@@ -1,5 +1,5 @@
 import { type Key, useInput } from 'ink';
-import { splitKeys } from '../components/key-chunks.js';
+import { erasures, splitKeys } from '../components/key-chunks.js';
 import { useEffect, useRef, useState } from 'react';
 import { useLiveState } from './use-live-state.js';
 import { endOptions } from '../../run/gates.js';
@@ -87,7 +87,7 @@ export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, on
         setReworkError(error);
         if (!error) setFocus('input');
       });
-    } else if (key.backspace || key.delete) setRework((r) => ({ ...r, [reworkFocus]: r[reworkFocus].slice(0, -1) }));
+    } else if (erasures(input, key) > 0) setRework((r) => ({ ...r, [reworkFocus]: r[reworkFocus].slice(0, -erasures(input, key)) }));
     else if (!key.ctrl && !key.meta && printable(input)) setRework((r) => ({ ...r, [reworkFocus]: (r[reworkFocus] + printable(input)).slice(0, 200) }));
   };
 
@@ -130,7 +130,7 @@ export function useBringUpKeys(b: BringUp, { isActive, onExit, onDirtyChange, on
     } else if (key.upArrow || key.downArrow) {
       setFocus('list');
       setCursor((c) => moveSelection(c, key.upArrow ? -1 : 1, state.targets.length));
-    } else if (key.backspace || key.delete) setText((t) => t.slice(0, -1));
+    } else if (erasures(input, key) > 0) setText((t) => t.slice(0, -erasures(input, key)));
     else if (key.ctrl || key.meta) return;
     else if (text === '' && command(input)) return;
     else if (printable(input)) {

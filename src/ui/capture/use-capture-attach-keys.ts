@@ -1,6 +1,7 @@
 import { type Key, useInput } from 'ink';
 import type { RefObject } from 'react';
 import type { AttachState } from './use-capture-attach-state.js';
+import { erasures } from '../components/key-chunks.js';
 
 export interface AttachKeyActions {
   readonly type: (chars: string) => void;
@@ -33,7 +34,7 @@ export function useCaptureAttachKeys(latest: RefObject<AttachState>, actions: At
       if (key.escape) actions.cancel();
       else if (key.return) actions.load();
       else if (key.tab) actions.complete();
-      else if (key.backspace || key.delete) actions.erase();
+      else if (erasures(input, key) > 0) for (let n = erasures(input, key); n > 0; n--) actions.erase();
       else if (!key.ctrl && !key.meta && !key.upArrow && !key.downArrow && !key.leftArrow && !key.rightArrow && input.length > 0) {
         // Pasted text arrives as one chunk; keep only its printable part.
         const printable = input.replace(/[\u0000-\u001F\u007F]/g, '');
