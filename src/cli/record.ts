@@ -6,7 +6,6 @@ import { validateSerial } from '../log/serial.js';
 import { openLog } from '../log/store.js';
 import type { Reading, RunOutcome } from '../log/types.js';
 import { loadPlanFile } from '../plan/load.js';
-import { idleCurrentCheck } from '../plan/checks.js';
 import type { Plan } from '../plan/types.js';
 import type { Unit } from '../units/unit.js';
 import { formatValue } from '../units/format.js';
@@ -81,15 +80,6 @@ function latestVerdicts(readings: readonly Reading[], run: string): Map<string, 
   return done;
 }
 
-/**
- * Whether a deviation from nominal means anything: not for the unpowered
- * rail-to-ground checks and the idle current, whose "nominal" is a limit or the
- * middle of 0 … limit.
- */
-export function hasNominal(check: string): boolean {
-  return !(check === idleCurrentCheck || (check.startsWith('rails.') && check.endsWith('.to-ground')));
-}
-
 /** A band in words: `3.159 V … 3.378 V`, `at least 100 Ω`, `at most 25 mA`. */
 export function bandWords(worst: Band, unit: Unit): string {
   if (worst.max === Infinity) return `at least ${formatValue(worst.min, unit)}`;
@@ -98,22 +88,22 @@ export function bandWords(worst: Band, unit: Unit): string {
 }
 
 /** The signed deviation in % of nominal (`+4.06 %`), or null where it means nothing. */
-export function deviationWords(check: string, value: number, deviation: number | null): string | null {
-  if (!Number.isFinite(value) || !hasNominal(check) || deviation === null || !Number.isFinite(deviation)) return null;
+export function deviationWords(value: number, deviation: number | null): string | null {
+  if (!Number.isFinite(value) || deviation === null || !Number.isFinite(deviation)) return null;
   return `${deviation >= 0 ? '+' : ''}${(deviation * 100).toFixed(2)} %`;
 }
 
 function bandText(t: Target): string {
   const band = bandWords(t.worst, t.unit);
   if (!Number.isFinite(t.worst.min) || !Number.isFinite(t.worst.max)) return band;
-  return hasNominal(t.check) ? `${band} (worst case), nominal ${formatValue(t.nominal, t.unit)}` : `${band} (worst case)`;
+  return !t.isLimit ? `${band} (worst case), nominal ${formatValue(t.nominal, t.unit)}` : `${band} (worst case)`;
 }
 
 function deviationText(deviation: number, value: number, target: Target): string {
   if (!Number.isFinite(value)) return 'open circuit';
-  if (!hasNominal(target.check)) return 'a limit check';
+  if (target.isLimit) return 'a limit check';
   if (Number.isNaN(deviation)) return 'deviation n/a (nominal 0)';
-  return `${deviationWords(target.check, value, deviation)} from nominal`;
+  return `${deviationWords(value, deviation)} from nominal`;
 }
 
 interface Outcome {
@@ -212,7 +202,7 @@ export const recordCommand: Command = async (argv, io) => {
         next: next ? { check: next.check, why: next.why } : null,
         nominal: target.nominal,
         worst: { min: finite(target.worst.min), max: finite(target.worst.max) },
-        deviation: hasNominal(check) ? finite(result.deviation) : null,
+        deviation: target.isLimit ? null : finite(result.deviation),
         uncertainty: result.uncertainty,
         warnings: saved.reading.warnings ?? [],
         runEnded: ended,

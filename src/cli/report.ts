@@ -8,7 +8,7 @@ import { parseArgs } from './args.js';
 import type { Command } from './command.js';
 import { UsageError } from './errors.js';
 import { boardBands, loadBoard, localTime, utcOffset } from './history.js';
-import { bandWords, deviationWords, hasNominal } from './record.js';
+import { bandWords, deviationWords } from './record.js';
 
 const usage = 'probebook report SERIAL --format md|csv [--log DIR]   (or report --batch …, see probebook report --batch --help)';
 
@@ -46,7 +46,7 @@ interface Row {
 function rowsOf(board: BoardFile, bands: ReadonlyMap<string, SnapshotBands>): Row[] {
   return board.readings.map((reading) => {
     const band = bands.get(reading.planHash)?.bands.get(reading.check) ?? null;
-    const deviation = band && band.nominal !== 0 && hasNominal(reading.check) && Number.isFinite(reading.value) ? (reading.value - band.nominal) / Math.abs(band.nominal) : null;
+    const deviation = band && band.nominal !== 0 && !band.isLimit && Number.isFinite(reading.value) ? (reading.value - band.nominal) / Math.abs(band.nominal) : null;
     return { reading, band, deviation };
   });
 }
@@ -64,7 +64,7 @@ export function boardCsv(board: BoardFile, bands: ReadonlyMap<string, SnapshotBa
       [
         boardCsvField(board.serial), boardCsvField(r.run), boardCsvField(r.check, true), boardCsvField(r.value), boardCsvField(uncertaintyKey(r.unit)), boardCsvField(r.raw, true),
         boardCsvField(r.verdict), boardCsvField(r.at), boardCsvField(r.operator, true), boardCsvField(r.planHash), boardCsvField(r.id),
-        boardCsvField(band && hasNominal(r.check) ? band.nominal : null), boardCsvField(finite(band?.worst.min)), boardCsvField(finite(band?.worst.max)),
+        boardCsvField(band && !band.isLimit ? band.nominal : null), boardCsvField(finite(band?.worst.min)), boardCsvField(finite(band?.worst.max)),
         boardCsvField(deviation), boardCsvField(band?.testPoint ?? null, true), boardCsvField(r.capture ?? null), boardCsvField((r.warnings ?? []).join(' | '), true),
       ].join(','),
     );
@@ -123,10 +123,10 @@ export function boardMarkdown(board: BoardFile, bands: ReadonlyMap<string, Snaps
     rowsOf(board, bands).forEach(({ reading: r, band, deviation }, i) => {
       const mark = r.warnings && r.warnings.length > 0 ? ` [${notes.length + 1}]` : '';
       for (const w of r.warnings ?? []) notes.push(`${i + 1}. ${r.check}: ${w}`);
-      const nominal = band && hasNominal(r.check) ? formatValue(band.nominal, band.unit) : '—';
+      const nominal = band && !band.isLimit ? formatValue(band.nominal, band.unit) : '—';
       const verdict = r.verdict === 'pass' ? 'pass' : `**${r.verdict}**`;
       out.push(
-        `| ${i + 1} | ${localTime(r.at)} | ${runNumber.get(r.run) ?? '?'} | ${mdCell(r.check)} | ${mdCell(band?.testPoint ?? '—')} | ${formatValue(r.value, r.unit)} | \`${mdCell(r.raw)}\` | ${band ? bandWords(band.worst, band.unit) : 'unknown'} | ${nominal} | ${deviationWords(r.check, r.value, deviation) ?? '—'} | ${verdict}${mark} | ${mdCell(r.operator)} |`,
+        `| ${i + 1} | ${localTime(r.at)} | ${runNumber.get(r.run) ?? '?'} | ${mdCell(r.check)} | ${mdCell(band?.testPoint ?? '—')} | ${formatValue(r.value, r.unit)} | \`${mdCell(r.raw)}\` | ${band ? bandWords(band.worst, band.unit) : 'unknown'} | ${nominal} | ${deviationWords(r.value, deviation) ?? '—'} | ${verdict}${mark} | ${mdCell(r.operator)} |`,
       );
     });
     out.push('');
