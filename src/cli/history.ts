@@ -3,7 +3,7 @@ import { type LogStore, openLog } from '../log/store.js';
 import type { BenchLog, BoardFile } from '../log/types.js';
 import type { SnapshotBands } from '../review/bands.js';
 import { boardHashes, historyCounts, timelineOf } from '../review/history.js';
-import { planBandSource } from '../ui/batch/plan-bands.js';
+import { planBandSource, resolveCacheDir } from '../ui/batch/plan-bands.js';
 import { formatValue } from '../units/format.js';
 import { parseArgs } from './args.js';
 import type { Command, CommandIo } from './command.js';
@@ -28,8 +28,9 @@ export async function loadBoard(serial: string, logFlag: string | boolean | unde
 }
 
 /** The targets of every plan revision a board used, by hash (warnings for snapshots that would not load). */
-export async function boardBands(log: Pick<BenchLog, 'readPlanSnapshot'>, board: BoardFile): Promise<{ bands: ReadonlyMap<string, SnapshotBands>; problems: string[] }> {
-  const source = planBandSource(log);
+export async function boardBands(log: Pick<BenchLog, 'readPlanSnapshot'>, board: BoardFile, env: NodeJS.ProcessEnv): Promise<{ bands: ReadonlyMap<string, SnapshotBands>; problems: string[] }> {
+  // The command's own environment decides the cache folder (PROBEBOOK_CACHE), as `batch` does.
+  const source = planBandSource(log, { cacheDir: resolveCacheDir(env) });
   const bands = await source.load(boardHashes(board));
   return { bands, problems: source.problems().map((p) => p.message) };
 }
@@ -112,7 +113,7 @@ export const historyCommand: Command = async (argv, io) => {
     io.stdout(`${JSON.stringify(historyJson(board))}\n`);
     return 0;
   }
-  const { bands, problems } = await boardBands(log, board);
+  const { bands, problems } = await boardBands(log, board, io.env);
   io.stdout(historyText(board, bands, dir));
   for (const p of problems) io.stderr(`probebook: warning: ${p}\n`);
   return 0;

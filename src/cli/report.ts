@@ -172,7 +172,7 @@ export const reportCommand: Command = async (argv, io) => {
       return text;
     },
   };
-  const { bands, problems } = await boardBands(snapshots, board);
+  const { bands, problems } = await boardBands(snapshots, board, io.env);
   if (format === 'csv') io.stdout(boardCsv(board, bands));
   else {
     const titles = new Map<string, string | null>();
