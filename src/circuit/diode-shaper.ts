@@ -2,7 +2,7 @@ import { type DiodeModel, defaultDiode, defaultDiodeName, diodeModels, diodeStri
 import { type ShaperBranch, type ShaperNet, solveNode, solveTransfer } from './shaper-solver.js';
 import { fastThd } from './spectrum.js';
 import { choiceAt, countAt, list, nested, ohmRange, onlyKeys, partAt, reader, type StageReader } from './stage-parse.js';
-import { PlanError } from '../plan/errors.js';
+import { StageParseError } from './errors.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind, StageWarning } from './types.js';
 import { mirrorOrder } from './mirror.js';
 import { extremes } from './waveform.js';
@@ -33,7 +33,7 @@ function parseDiode(r: StageReader): { model: DiodeModel; name: string } {
   if (typeof raw === 'string') {
     const model = diodeModels[raw];
     if (!model) {
-      throw new PlanError(r.file, `${r.path}.diode`, `no diode model ${JSON.stringify(raw)}; write ${Object.keys(diodeModels).map((m) => JSON.stringify(m)).join(' or ')}, or { "is": "2.52n", "n": 1.752, "rs": "0.568" }`);
+      throw new StageParseError(r.file, `${r.path}.diode`, `no diode model ${JSON.stringify(raw)}; write ${Object.keys(diodeModels).map((m) => JSON.stringify(m)).join(' or ')}, or { "is": "2.52n", "n": 1.752, "rs": "0.568" }`);
     }
     return { model, name: raw };
   }
@@ -54,7 +54,7 @@ function parse(raw: Parameters<StageKind['parse']>[0], file: string): { parts: R
   if (load) parts['Rload'] = load;
   const example = '{ "diodes": 1, "polarity": "+", "R": "2k2 1%", "bias": "0 V" }';
   const items = list(r, 'branches', true, example);
-  if (items.length === 0) throw new PlanError(file, `${raw.path}.branches`, `is empty; a shaper needs at least one branch, e.g. [${example}]`);
+  if (items.length === 0) throw new StageParseError(file, `${raw.path}.branches`, `is empty; a shaper needs at least one branch, e.g. [${example}]`);
   const branches = items.map((b, i): ShaperBranchSetting => {
     onlyKeys(b, ['diodes', 'polarity', 'R', 'bias']);
     const rRole = `branches[${i}].R`;

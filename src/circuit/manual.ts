@@ -1,4 +1,4 @@
-import { PlanError } from '../plan/errors.js';
+import { StageParseError } from './errors.js';
 import { parseValue } from '../units/parse.js';
 import { type Unit, unitAliases } from '../units/unit.js';
 import { list, onlyKeys, partAt, reader, type StageReader, textAt } from './stage-parse.js';
@@ -47,7 +47,7 @@ function unitFrom(r: StageReader): Unit {
   const text = textAt(r, 'unit', true, '"V", "A", "Hz", "s", "ohm", "F", "W", "V/V" or "%"');
   if (text === '%' || text === '1') return '1';
   const unit = unitAliases[text] ?? unitAliases[text.toLowerCase()];
-  if (!unit) throw new PlanError(r.file, `${r.path}.unit`, `${JSON.stringify(text)} is not a unit; write "V", "A", "Hz", "s", "ohm", "F", "W", "V/V" or "%" (no prefix)`);
+  if (!unit) throw new StageParseError(r.file, `${r.path}.unit`, `${JSON.stringify(text)} is not a unit; write "V", "A", "Hz", "s", "ohm", "F", "W", "V/V" or "%" (no prefix)`);
   return unit;
 }
 
@@ -56,40 +56,40 @@ const keyPattern = /^[A-Za-z][A-Za-z0-9_-]*(?:\.[A-Za-z0-9_-]+)*$/;
 function readCheck(r: StageReader, i: number, seen: Set<string>, parts: Record<string, PartValue>): ManualCheck {
   onlyKeys(r, ['id', 'quantity', 'unit', 'nominal', 'tol', 'min', 'max', 'instrument', 'how']);
   const key = textAt(r, 'id', true, '"ref.dc"');
-  if (!keyPattern.test(key)) throw new PlanError(r.file, `${r.path}.id`, `${JSON.stringify(key)} is not a check key; use letters, digits and dots, e.g. "ref.dc"`);
-  if (seen.has(key)) throw new PlanError(r.file, `${r.path}.id`, `${JSON.stringify(key)} is used twice in this stage; every check needs its own id`);
+  if (!keyPattern.test(key)) throw new StageParseError(r.file, `${r.path}.id`, `${JSON.stringify(key)} is not a check key; use letters, digits and dots, e.g. "ref.dc"`);
+  if (seen.has(key)) throw new StageParseError(r.file, `${r.path}.id`, `${JSON.stringify(key)} is used twice in this stage; every check needs its own id`);
   seen.add(key);
   const quantity = textAt(r, 'quantity', true, '"reference voltage"');
   const unit = unitFrom(r);
   const instrument = r.json['instrument'] === undefined ? 'meter' : (textAt(r, 'instrument', true, '"meter"') as CheckSpec['instrument']);
   if (!['meter', 'scope', 'counter'].includes(instrument)) {
-    throw new PlanError(r.file, `${r.path}.instrument`, `${JSON.stringify(instrument)} is not one of "meter", "scope" or "counter"`);
+    throw new StageParseError(r.file, `${r.path}.instrument`, `${JSON.stringify(instrument)} is not one of "meter", "scope" or "counter"`);
   }
   const how = textAt(r, 'how', false, '"DC voltmeter from TP7 to ground"') ?? `${instrument === 'meter' ? 'meter' : instrument} reading as the plan describes`;
   const hasNominal = r.json['nominal'] !== undefined;
   const hasBand = r.json['min'] !== undefined || r.json['max'] !== undefined;
   const base = { key, quantity, unit, instrument, how };
-  if (hasNominal && hasBand) throw new PlanError(r.file, r.path, 'give either "nominal" and "tol", or "min" and "max", not both');
-  if (!hasNominal && !hasBand) throw new PlanError(r.file, r.path, 'no target; write "nominal" and "tol" (e.g. "2.5 V", "2%") or "min" and "max" (e.g. "-5 mV", "5 mV")');
+  if (hasNominal && hasBand) throw new StageParseError(r.file, r.path, 'give either "nominal" and "tol", or "min" and "max", not both');
+  if (!hasNominal && !hasBand) throw new StageParseError(r.file, r.path, 'no target; write "nominal" and "tol" (e.g. "2.5 V", "2%") or "min" and "max" (e.g. "-5 mV", "5 mV")');
   const example = unit === '1' ? '0.05' : `"1 ${unit === 'Ω' ? 'ohm' : unit}"`;
   if (hasNominal) {
     const nominal = partAt(r, 'nominal', unit, true, { example });
     const tolRaw = r.json['tol'];
-    if (typeof tolRaw !== 'string') throw new PlanError(r.file, `${r.path}.tol`, `${tolRaw === undefined ? 'missing' : 'must be text'}; write a percentage ("2%") or an amount in ${unit === '1' ? 'the same unit' : unit} (e.g. ${example})`);
+    if (typeof tolRaw !== 'string') throw new StageParseError(r.file, `${r.path}.tol`, `${tolRaw === undefined ? 'missing' : 'must be text'}; write a percentage ("2%") or an amount in ${unit === '1' ? 'the same unit' : unit} (e.g. ${example})`);
     const pct = /^\s*±?\s*(\d+(?:\.\d+)?)\s*%\s*$/.exec(tolRaw);
     if (pct && unit !== '1') {
       const role = `checks[${i}].nominal`;
       parts[role] = { ...nominal, tol: Number(pct[1]) / 100, text: `${nominal.text} ${tolRaw.trim()}` };
-      if (nominal.nominal === 0) throw new PlanError(r.file, `${r.path}.tol`, `a percentage of a zero nominal is zero; write an amount (e.g. ${example}) or "min" and "max"`);
+      if (nominal.nominal === 0) throw new StageParseError(r.file, `${r.path}.tol`, `a percentage of a zero nominal is zero; write an amount (e.g. ${example}) or "min" and "max"`);
       return { ...base, role };
     }
     const amount = parseValue(tolRaw, { expected: unit, allowTolerance: false });
-    if (!amount.ok || !(amount.value > 0)) throw new PlanError(r.file, `${r.path}.tol`, `${JSON.stringify(tolRaw)} is not a tolerance; write a percentage ("2%") or an amount (e.g. ${example})`);
+    if (!amount.ok || !(amount.value > 0)) throw new StageParseError(r.file, `${r.path}.tol`, `${JSON.stringify(tolRaw)} is not a tolerance; write a percentage ("2%") or an amount (e.g. ${example})`);
     return bandCheck(base, i, nominal.nominal - amount.value, nominal.nominal + amount.value, parts);
   }
   const min = partAt(r, 'min', unit, true, { example });
   const max = partAt(r, 'max', unit, true, { example });
-  if (!(max.nominal > min.nominal)) throw new PlanError(r.file, `${r.path}.max`, `${JSON.stringify(max.text)} must be above min ${JSON.stringify(min.text)}`);
+  if (!(max.nominal > min.nominal)) throw new StageParseError(r.file, `${r.path}.max`, `${JSON.stringify(max.text)} must be above min ${JSON.stringify(min.text)}`);
   return bandCheck(base, i, min.nominal, max.nominal, parts);
 }
 
@@ -122,7 +122,7 @@ export const manualKind: StageKind<ManualSettings> = {
     const parts: Record<string, PartValue> = {};
     const seen = new Set<string>();
     const entries = list(r, 'checks', true, '{ "id": "ref.dc", "quantity": "reference voltage", "unit": "V", "nominal": "2.5 V", "tol": "2%" }');
-    if (entries.length === 0) throw new PlanError(file, `${raw.path}.checks`, 'is empty; write at least one check');
+    if (entries.length === 0) throw new StageParseError(file, `${raw.path}.checks`, 'is empty; write at least one check');
     const checks = entries.map((e, i) => readCheck(e, i, seen, parts));
     return { parts, settings: { checks } };
   },

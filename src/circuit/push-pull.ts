@@ -1,4 +1,4 @@
-import { PlanError } from '../plan/errors.js';
+import { StageParseError } from './errors.js';
 import { formatValue } from '../units/format.js';
 import { choiceAt, nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind, StageWarning } from './types.js';
@@ -137,7 +137,7 @@ export const pushPullKind: StageKind<PushPullSettings> = {
     if (hfe) parts['hfe'] = hfe;
     const bias = choiceAt(r, 'bias', ['none', 'diodes'] as const);
     const vd = partAt(r, 'vd', 'V', false, { positive: true, example: '"0.65 V 8%"' });
-    if (vd && bias !== 'diodes') throw new PlanError(file, `${raw.path}.vd`, 'a bias diode drop only applies with "bias": "diodes"; remove it or set the bias');
+    if (vd && bias !== 'diodes') throw new StageParseError(file, `${raw.path}.vd`, 'a bias diode drop only applies with "bias": "diodes"; remove it or set the bias');
     if (bias === 'diodes') {
       const v = vbe?.nominal ?? defaultVbe;
       parts['vd'] = vd ?? { nominal: v, tol: defaultMatch, unit: 'V', text: `${v} V ${defaultMatch * 100}% (default: matched to Vbe)` };

@@ -1,4 +1,4 @@
-import { PlanError } from '../plan/errors.js';
+import { StageParseError } from './errors.js';
 import { parseValue } from '../units/parse.js';
 import { type Unit, unitNoun } from '../units/unit.js';
 import type { ParsedStage, PartValue, RawStage } from './types.js';
@@ -26,7 +26,7 @@ function objectAt(json: Readonly<Record<string, unknown>>, key: string, file: st
   const value = json[key];
   if (value === undefined) return undefined;
   if (typeof value !== 'object' || value === null || Array.isArray(value)) {
-    throw new PlanError(file, path, `must be an object, e.g. ${example}`);
+    throw new StageParseError(file, path, `must be an object, e.g. ${example}`);
   }
   return value as Readonly<Record<string, unknown>>;
 }
@@ -34,15 +34,15 @@ function objectAt(json: Readonly<Record<string, unknown>>, key: string, file: st
 /** A toleranced value that must be above zero, as text with its unit. */
 function positiveValue(raw: unknown, unit: Unit, example: string, file: string, path: string): PartValue {
   if (typeof raw !== 'string') {
-    throw new PlanError(file, path, `${JSON.stringify(raw)} is not ${unitNoun[unit]}; write it as text, e.g. ${example}`);
+    throw new StageParseError(file, path, `${JSON.stringify(raw)} is not ${unitNoun[unit]}; write it as text, e.g. ${example}`);
   }
   const parsed = parseValue(raw, { expected: unit });
   if (!parsed.ok) {
-    throw new PlanError(file, path, `${JSON.stringify(raw)} is not ${unitNoun[unit]}; write e.g. ${example}`);
+    throw new StageParseError(file, path, `${JSON.stringify(raw)} is not ${unitNoun[unit]}; write e.g. ${example}`);
   }
-  if (!(parsed.value > 0)) throw new PlanError(file, path, `${JSON.stringify(raw)} must be above zero; write e.g. ${example}`);
+  if (!(parsed.value > 0)) throw new StageParseError(file, path, `${JSON.stringify(raw)} must be above zero; write e.g. ${example}`);
   const tol = parsed.tol ?? 0;
-  if (tol >= 1) throw new PlanError(file, path, `${JSON.stringify(raw)}: a tolerance of 100 % or more is not a part; write e.g. ${example}`);
+  if (tol >= 1) throw new StageParseError(file, path, `${JSON.stringify(raw)}: a tolerance of 100 % or more is not a part; write e.g. ${example}`);
   return { nominal: parsed.value, tol, unit, text: raw };
 }
 
@@ -51,19 +51,19 @@ export function parseSchmitt(raw: RawStage, file: string): ParsedStage<SchmittSe
   const base = raw.path;
   const partsJson = objectAt(raw.json, 'parts', file, `${base}.parts`, '{ "R1": "10k 1%", "R2": "22k 1%", "Rt": "3k3 1%", "Ct": "22n 5%" }');
   if (!partsJson) {
-    throw new PlanError(file, `${base}.parts`, 'missing; a schmitt-integrator needs R1, R2, Rt and Ct, e.g. { "R1": "10k 1%", "R2": "22k 1%", "Rt": "3k3 1%", "Ct": "22n 5%" }');
+    throw new StageParseError(file, `${base}.parts`, 'missing; a schmitt-integrator needs R1, R2, Rt and Ct, e.g. { "R1": "10k 1%", "R2": "22k 1%", "Rt": "3k3 1%", "Ct": "22n 5%" }');
   }
   const parts: Record<string, PartValue> = {};
   for (const key of Object.keys(partsJson)) {
     if (!(key in partUnits)) {
-      throw new PlanError(file, `${base}.parts.${key}`, `is not a part of a schmitt-integrator; its parts are ${Object.keys(partUnits).join(', ')}`);
+      throw new StageParseError(file, `${base}.parts.${key}`, `is not a part of a schmitt-integrator; its parts are ${Object.keys(partUnits).join(', ')}`);
     }
   }
   for (const [role, spec] of Object.entries(partUnits)) {
     const value = partsJson[role];
     const path = `${base}.parts.${role}`;
     if (value === undefined) {
-      if (spec.required) throw new PlanError(file, path, `missing; write the fitted ${role}, e.g. "${role}": ${spec.example}`);
+      if (spec.required) throw new StageParseError(file, path, `missing; write the fitted ${role}, e.g. "${role}": ${spec.example}`);
       continue;
     }
     parts[role] = positiveValue(value, spec.unit, spec.example, file, path);
@@ -74,15 +74,15 @@ export function parseSchmitt(raw: RawStage, file: string): ParsedStage<SchmittSe
   const potJson = objectAt(raw.json, 'pot', file, `${base}.pot`, '{ "RV": 0.5 }');
   if (potJson) {
     for (const key of Object.keys(potJson)) {
-      if (key !== 'RV') throw new PlanError(file, `${base}.pot.${key}`, 'is not a pot of a schmitt-integrator; the only pot is RV, e.g. { "RV": 0.5 }');
+      if (key !== 'RV') throw new StageParseError(file, `${base}.pot.${key}`, 'is not a pot of a schmitt-integrator; the only pot is RV, e.g. { "RV": 0.5 }');
     }
     const setting = potJson['RV'];
     if (setting !== undefined) {
       const path = `${base}.pot.RV`;
-      if (!hasPot) throw new PlanError(file, path, `a setting is given but parts has no RV; add the pot, e.g. "RV": "10k 20%", or drop the setting`);
+      if (!hasPot) throw new StageParseError(file, path, `a setting is given but parts has no RV; add the pot, e.g. "RV": "10k 20%", or drop the setting`);
       const value = typeof setting === 'number' ? setting : typeof setting === 'string' ? Number(setting) : Number.NaN;
       if (!Number.isFinite(value) || value < 0 || value > 1) {
-        throw new PlanError(file, path, `${JSON.stringify(setting)} is not a wiper setting; write a number from 0 (RV shorted) to 1 (all of RV in), e.g. 0.5`);
+        throw new StageParseError(file, path, `${JSON.stringify(setting)} is not a wiper setting; write a number from 0 (RV shorted) to 1 (all of RV in), e.g. 0.5`);
       }
       pot = value;
     }
@@ -92,13 +92,13 @@ export function parseSchmitt(raw: RawStage, file: string): ParsedStage<SchmittSe
   if (clampJson) {
     for (const key of Object.keys(clampJson)) {
       if (key !== 'vz' && key !== 'vf') {
-        throw new PlanError(file, `${base}.clamp.${key}`, 'is not a clamp value; write the zener voltage vz and the forward drop vf, e.g. { "vz": "3.9 V", "vf": "0.7 V" }');
+        throw new StageParseError(file, `${base}.clamp.${key}`, 'is not a clamp value; write the zener voltage vz and the forward drop vf, e.g. { "vz": "3.9 V", "vf": "0.7 V" }');
       }
     }
     for (const [key, example] of [['vz', '"3.9 V 5%"'], ['vf', '"0.7 V"']] as const) {
       const path = `${base}.clamp.${key}`;
       const value = clampJson[key];
-      if (value === undefined) throw new PlanError(file, path, `missing; the clamp needs vz and vf, e.g. "${key}": ${example}`);
+      if (value === undefined) throw new StageParseError(file, path, `missing; the clamp needs vz and vf, e.g. "${key}": ${example}`);
       parts[`clamp.${key}`] = positiveValue(value, 'V', example, file, path);
     }
     // Two zeners, each with its own spread: `clamp.vz`/`clamp.vf` are the one in

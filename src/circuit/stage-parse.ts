@@ -1,4 +1,4 @@
-import { PlanError } from '../plan/errors.js';
+import { StageParseError } from './errors.js';
 import { formatValue } from '../units/format.js';
 import { parseValue } from '../units/parse.js';
 import { type Unit, unitExample, unitNoun } from '../units/unit.js';
@@ -6,7 +6,7 @@ import type { PartValue, RawStage } from './types.js';
 
 /**
  * Small readers shared by the stage kinds' `parse`: each names the JSON path of
- * what it reads, so every mistake in a plan becomes a PlanError the technician
+ * what it reads, so every mistake in a plan becomes a StageParseError the technician
  * can act on (`stages[2].parts.Rf: "33x" is not a resistance; write e.g. "33k 1%"`).
  */
 export interface StageReader {
@@ -25,11 +25,11 @@ export function nested(r: StageReader, key: string, required = false): StageRead
   const value = r.json[key];
   const path = `${r.path}.${key}`;
   if (value === undefined) {
-    if (required) throw new PlanError(r.file, path, `missing; this stage kind needs "${key}"`);
+    if (required) throw new StageParseError(r.file, path, `missing; this stage kind needs "${key}"`);
     return { file: r.file, path, json: {} };
   }
   if (typeof value !== 'object' || value === null || Array.isArray(value)) {
-    throw new PlanError(r.file, path, `must be an object, e.g. { "R": "10k 1%" }`);
+    throw new StageParseError(r.file, path, `must be an object, e.g. { "R": "10k 1%" }`);
   }
   return { file: r.file, path, json: value as Record<string, unknown> };
 }
@@ -39,14 +39,14 @@ export function list(r: StageReader, key: string, required: boolean, example: st
   const value = r.json[key];
   const path = `${r.path}.${key}`;
   if (value === undefined) {
-    if (required) throw new PlanError(r.file, path, `missing; write a list, e.g. [${example}]`);
+    if (required) throw new StageParseError(r.file, path, `missing; write a list, e.g. [${example}]`);
     return [];
   }
-  if (!Array.isArray(value)) throw new PlanError(r.file, path, `must be a list, e.g. [${example}]`);
+  if (!Array.isArray(value)) throw new StageParseError(r.file, path, `must be a list, e.g. [${example}]`);
   return value.map((item, i) => {
     const itemPath = `${path}[${i}]`;
     if (typeof item !== 'object' || item === null || Array.isArray(item)) {
-      throw new PlanError(r.file, itemPath, `must be an object, e.g. ${example}`);
+      throw new StageParseError(r.file, itemPath, `must be an object, e.g. ${example}`);
     }
     return { file: r.file, path: itemPath, json: item as Record<string, unknown> };
   });
@@ -77,35 +77,35 @@ export function partAt(r: StageReader, key: string, unit: Unit, required: boolea
   const raw = r.json[key];
   const example = rule.example ?? unitExample[unit];
   if (raw === undefined || raw === null) {
-    if (required) throw new PlanError(r.file, path, `missing; write ${unitNoun[unit]}, e.g. ${example}`);
+    if (required) throw new StageParseError(r.file, path, `missing; write ${unitNoun[unit]}, e.g. ${example}`);
     return undefined;
   }
   let part: PartValue;
   if (typeof raw === 'number') {
     // Plain numbers only where no unit can be mistaken (emission coefficient, hfe, pot setting).
     if (unit !== '1' && unit !== 'V/V') {
-      throw new PlanError(r.file, path, `${raw} has no unit; write it as text, e.g. ${example}`);
+      throw new StageParseError(r.file, path, `${raw} has no unit; write it as text, e.g. ${example}`);
     }
-    if (!Number.isFinite(raw)) throw new PlanError(r.file, path, `${raw} is not a finite number; write e.g. ${example}`);
+    if (!Number.isFinite(raw)) throw new StageParseError(r.file, path, `${raw} is not a finite number; write e.g. ${example}`);
     part = { nominal: raw, tol: 0, unit, text: String(raw) };
   } else if (typeof raw === 'string') {
     const parsed = parseValue(raw, { expected: unit });
-    if (!parsed.ok) throw new PlanError(r.file, path, `${parsed.message.replace(/(; write |, e\.g\. ).*$/, '')}; write e.g. ${example}`);
+    if (!parsed.ok) throw new StageParseError(r.file, path, `${parsed.message.replace(/(; write |, e\.g\. ).*$/, '')}; write e.g. ${example}`);
     if (parsed.tol !== undefined && parsed.tol >= 1) {
-      throw new PlanError(r.file, path, `${JSON.stringify(raw)}: a tolerance of 100 % or more is not a part; write e.g. ${example}`);
+      throw new StageParseError(r.file, path, `${JSON.stringify(raw)}: a tolerance of 100 % or more is not a part; write e.g. ${example}`);
     }
     part = { nominal: parsed.value, tol: parsed.tol ?? 0, unit, text: raw };
   } else {
-    throw new PlanError(r.file, path, `must be text such as ${example}`);
+    throw new StageParseError(r.file, path, `must be text such as ${example}`);
   }
   if (rule.positive && !(part.nominal > 0)) {
-    throw new PlanError(r.file, path, `${JSON.stringify(part.text)} must be above zero; write e.g. ${example}`);
+    throw new StageParseError(r.file, path, `${JSON.stringify(part.text)} must be above zero; write e.g. ${example}`);
   }
   if (rule.plausible && (part.nominal < rule.plausible[0] || part.nominal > rule.plausible[1])) {
-    throw new PlanError(r.file, path, `${JSON.stringify(part.text)} reads as ${formatValue(part.nominal, unit)}, not a plausible value here; write e.g. ${example}`);
+    throw new StageParseError(r.file, path, `${JSON.stringify(part.text)} reads as ${formatValue(part.nominal, unit)}, not a plausible value here; write e.g. ${example}`);
   }
   if (rule.nonNegative && part.nominal < 0) {
-    throw new PlanError(r.file, path, `${JSON.stringify(part.text)} must not be negative; write e.g. ${example}`);
+    throw new StageParseError(r.file, path, `${JSON.stringify(part.text)} must not be negative; write e.g. ${example}`);
   }
   return part;
 }
@@ -116,7 +116,7 @@ export function countAt(r: StageReader, key: string, fallback: number, min: numb
   const raw = r.json[key];
   if (raw === undefined) return fallback;
   if (typeof raw !== 'number' || !Number.isInteger(raw) || raw < min || raw > max) {
-    throw new PlanError(r.file, path, `${JSON.stringify(raw)} must be a whole number from ${min} to ${max}, e.g. ${fallback}`);
+    throw new StageParseError(r.file, path, `${JSON.stringify(raw)} must be a whole number from ${min} to ${max}, e.g. ${fallback}`);
   }
   return raw;
 }
@@ -127,9 +127,9 @@ export function choiceAt<T extends string>(r: StageReader, key: string, choices:
   const raw = r.json[key];
   if (raw === undefined && fallback !== undefined) return fallback;
   const shown = choices.map((c) => JSON.stringify(c)).join(' or ');
-  if (raw === undefined) throw new PlanError(r.file, path, `missing; write ${shown}`);
+  if (raw === undefined) throw new StageParseError(r.file, path, `missing; write ${shown}`);
   if (typeof raw !== 'string' || !(choices as readonly string[]).includes(raw)) {
-    throw new PlanError(r.file, path, `${JSON.stringify(raw)} is not one of ${shown}`);
+    throw new StageParseError(r.file, path, `${JSON.stringify(raw)} is not one of ${shown}`);
   }
   return raw as T;
 }
@@ -141,10 +141,10 @@ export function textAt(r: StageReader, key: string, required: boolean, example: 
   const path = `${r.path}.${key}`;
   const raw = r.json[key];
   if (raw === undefined) {
-    if (required) throw new PlanError(r.file, path, `missing; write e.g. ${example}`);
+    if (required) throw new StageParseError(r.file, path, `missing; write e.g. ${example}`);
     return undefined;
   }
-  if (typeof raw !== 'string' || raw.trim() === '') throw new PlanError(r.file, path, `must be text, e.g. ${example}`);
+  if (typeof raw !== 'string' || raw.trim() === '') throw new StageParseError(r.file, path, `must be text, e.g. ${example}`);
   return raw.trim();
 }
 
@@ -152,7 +152,7 @@ export function textAt(r: StageReader, key: string, required: boolean, example: 
 export function onlyKeys(r: StageReader, known: readonly string[]): void {
   for (const key of Object.keys(r.json)) {
     if (!known.includes(key)) {
-      throw new PlanError(r.file, `${r.path}.${key}`, `is not a key here; known keys are ${known.join(', ')}`);
+      throw new StageParseError(r.file, `${r.path}.${key}`, `is not a key here; known keys are ${known.join(', ')}`);
     }
   }
 }

@@ -82,6 +82,74 @@ export interface EvalInput<Settings> {
    * whenever the outputs are kept.
    */
   readonly buffer?: ((slot: number, length: number) => Float64Array) | undefined;
+  /**
+   * The total load on each of the stage's outputs: every downstream stage's
+   * input impedance in parallel with any external load the plan names, at
+   * frequency `f` (Hz). Undefined for an output nothing loads (an open
+   * circuit). A kind whose output has a source impedance (a passive network, a
+   * shaper node, a follower) applies it; an op-amp output may ignore it until
+   * it would current-limit. Absent: nothing loads any output (as before loading).
+   */
+  readonly load?: ((output: string, f: number) => Complex | undefined) | undefined;
+  /**
+   * A single non-value fault to evaluate physically (an open diode removes its
+   * branch, a reversed zener clamps at its forward drop, a shorted timing
+   * capacitor stops the oscillator). Value faults are plain part values and
+   * need no flag. Absent on a healthy board.
+   */
+  readonly fault?: StageFault | undefined;
+}
+
+/** A complex number, used for impedances in ohms (re + j·im). */
+export interface Complex {
+  readonly re: number;
+  readonly im: number;
+}
+
+/**
+ * How a part can be wrong on a freshly built board (DESIGN §5a):
+ * `value` a wrong value fitted (solved for), `open`, `short`, `reversed`
+ * (polarised parts only), `missing` (not fitted, where that differs from open).
+ */
+export type FaultMode = 'value' | 'open' | 'short' | 'reversed' | 'missing';
+
+/** One non-value fault applied to a stage for one evaluation. */
+export interface StageFault {
+  /** The part role or part group (`Ct`, `clamp`, `branches[1].diodes`). */
+  readonly role: string;
+  readonly mode: Exclude<FaultMode, 'value'>;
+}
+
+/** The fault modes one part (or part group) of a stage can have. */
+export interface PartFaults {
+  /** The part role or group, as in `StageFault.role`. */
+  readonly role: string;
+  /** Modes other than `value` (every toleranced part has `value`). */
+  readonly modes: readonly Exclude<FaultMode, 'value'>[];
+  /** The part in bench words ("zener pair", "upper bias diode"). */
+  readonly description: string;
+}
+
+/** One sample of a stage's parts and its settings: what its impedances follow from. */
+export interface ImpedanceInput<Settings> {
+  readonly parts: Readonly<Record<string, number>>;
+  readonly settings: Settings;
+  readonly opamp: OpampModel;
+}
+
+/**
+ * Traits of a stage kind that code outside `src/circuit` reads, instead of
+ * matching kind names (STYLE 21). All default to false / absent.
+ */
+export interface StageTraits {
+  /** Built around the plan's op-amp: supply ceiling, full-power bandwidth, DC level at its outputs. */
+  readonly usesOpamp?: boolean;
+  /** A linear amplifier whose signal must stay inside the op-amp's full-power and small-signal bandwidth. */
+  readonly isAmplifier?: boolean;
+  /** The settings key naming a rail the stage is fed from (`"from"`); the plan loader checks the id. */
+  readonly railSetting?: string;
+  /** Targets written by hand, with no model: no part of the stage can explain a deviation. */
+  readonly isHandWritten?: boolean;
 }
 
 /** A design warning raised while evaluating a stage. */
@@ -111,6 +179,17 @@ export interface CheckSpec {
   readonly instrument: 'meter' | 'scope' | 'counter';
   /** How to set up the measurement, one short line. */
   readonly how: string;
+  /**
+   * Which figure of a scope capture answers this check, if any (the capture
+   * analysis's `frequency`, `vpp`, `duty`, `thd`, `mean`). Absent: the capture
+   * does not give it.
+   */
+  readonly captureFigure?: 'frequency' | 'vpp' | 'duty' | 'thd' | 'mean';
+  /**
+   * A design figure nobody probes at a test point (a base drive current): still
+   * in `targets`, marked so, never asked for on the bring-up screen. @default false
+   */
+  readonly isDesignFigure?: boolean;
 }
 
 /** A raw stage object from a plan, and where it sits, for error messages. */
@@ -142,8 +221,8 @@ export interface StageKind<Settings = unknown> {
   /** Whether the stage takes an `input`. */
   readonly needsInput: boolean;
   /**
-   * Read the kind-specific part of the plan entry. Throws `PlanError` (from
-   * `src/plan/errors.ts`) with the JSON path for anything wrong.
+   * Read the kind-specific part of the plan entry. Throws `StageParseError` (from
+   * `src/circuit/errors.ts`) with the JSON path for anything wrong.
    */
   parse(raw: RawStage, file: string): ParsedStage<Settings>;
   /** The checks this stage offers, given its settings (some depend on a pot or a clamp). */
@@ -152,4 +231,22 @@ export interface StageKind<Settings = unknown> {
   evaluate(input: EvalInput<Settings>): EvalOutput;
   /** Fault hints by check key: what usually causes a deviation, for the technician. */
   readonly faultHints: Readonly<Record<string, readonly string[]>>;
+  /** Traits read by the rest of the code (op-amp based, tied to a rail, hand-written). */
+  readonly traits?: StageTraits;
+  /**
+   * Impedance the stage's input presents at frequency `f` (Hz), for one sample
+   * of its parts. Absent: an open circuit (no load on the upstream output).
+   * Non-linear inputs give their large-signal equivalent.
+   */
+  inputImpedance?(x: ImpedanceInput<Settings>, f: number): Complex;
+  /**
+   * Source (Thevenin) impedance of an output at `f` (Hz). Absent: zero (an
+   * ideal source, such as an op-amp output inside its limits).
+   */
+  outputImpedance?(x: ImpedanceInput<Settings>, output: string, f: number): Complex;
+  /**
+   * Non-value fault modes of the stage's parts (every toleranced part can also
+   * be the wrong value). `evaluate` honours `EvalInput.fault` for each of them.
+   */
+  faults?(settings: Settings): readonly PartFaults[];
 }

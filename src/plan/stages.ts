@@ -1,5 +1,6 @@
 import type { OpampModel, PartValue, StageKind } from '../circuit/types.js';
 import { PlanError } from './errors.js';
+import { StageParseError } from '../circuit/errors.js';
 import { readOpamp, checkTolerance } from './values.js';
 import type { InputRef, PlanStage } from './types.js';
 import type { z } from 'zod';
@@ -48,7 +49,14 @@ export function resolveStages(
     if (typeof raw.from === 'string' && railIds.length > 0 && !railIds.includes(raw.from)) {
       throw new PlanError(file, `${path}.from`, `${JSON.stringify(raw.from)} is not a rail of this plan; the rails are ${quoteList(railIds)}`);
     }
-    const parsed = module.parse({ json: raw as Readonly<Record<string, unknown>>, path }, file);
+    let parsed: ReturnType<typeof module.parse>;
+    try {
+      parsed = module.parse({ json: raw as Readonly<Record<string, unknown>>, path }, file);
+    } catch (error) {
+      // A kind's own parse error carries the path and the remedy; the plan adds nothing but its class.
+      if (error instanceof StageParseError) throw new PlanError(error.file, error.path, error.detail);
+      throw error;
+    }
     const parts: Record<string, PartValue> = {};
     for (const [role, part] of Object.entries(parsed.parts)) {
       const where = rolePath(path, raw, role);

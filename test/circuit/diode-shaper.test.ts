@@ -6,7 +6,7 @@ import { nodeCurrent } from '../../src/circuit/shaper-solver.js';
 import { defaultOpamp } from '../../src/circuit/opamp.js';
 import type { Waveform } from '../../src/circuit/types.js';
 import { fromPhase, thd } from '../../src/circuit/waveform.js';
-import { PlanError } from '../../src/plan/errors.js';
+import { StageParseError } from '../../src/circuit/errors.js';
 import { runSpice } from '../helpers/ngspice.js';
 
 /**
@@ -259,7 +259,7 @@ describe('diode-shaper plan errors name the path', () => {
     try {
       diodeShaperKind.parse({ json, path: 'stages[1]' }, 'x.plan.json');
     } catch (e) {
-      expect(e).toBeInstanceOf(PlanError);
+      expect(e).toBeInstanceOf(StageParseError);
       return (e as Error).message;
     }
     throw new Error('no error');

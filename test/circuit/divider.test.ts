@@ -2,7 +2,7 @@ import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
 import { dividerKind } from '../../src/circuit/divider.js';
 import { defaultOpamp } from '../../src/circuit/opamp.js';
-import { PlanError } from '../../src/plan/errors.js';
+import { StageParseError } from '../../src/circuit/errors.js';
 
 function run(top: number, bottom: number, rail: number, from = '+12V') {
   return dividerKind.evaluate({ parts: { Rtop: top, Rbottom: bottom }, settings: { from }, opamp: defaultOpamp, supplies: { pos: 12, neg: -12 }, rails: { '+12V': rail, '-12V': -rail } });
@@ -36,7 +36,7 @@ describe('divider', () => {
     [{ parts: { Rtop: '10k', Rbottom: '4k7' }, from: 12 }, /stages\[0\]\.from: must be text/],
   ])('plan error %j', (json, message) => {
     const parse = () => dividerKind.parse({ json, path: 'stages[0]' }, 'x.plan.json');
-    expect(parse).toThrow(PlanError);
+    expect(parse).toThrow(StageParseError);
     expect(parse).toThrow(message);
   });
 });

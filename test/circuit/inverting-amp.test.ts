@@ -2,7 +2,7 @@ import { describe, expect, test } from 'vitest';
 import { invertingAmpKind } from '../../src/circuit/inverting-amp.js';
 import type { OpampModel, Waveform } from '../../src/circuit/types.js';
 import { fromPhase } from '../../src/circuit/waveform.js';
-import { PlanError } from '../../src/plan/errors.js';
+import { StageParseError } from '../../src/circuit/errors.js';
 import { corner, runSpice } from '../helpers/ngspice.js';
 import { opampSubcktFor } from '../helpers/spice-opamp.js';
 
@@ -89,7 +89,7 @@ describe('inverting-amp plan', () => {
     [{ parts: { Rin: '10k', Rf: '33k', Rg: '1k' } }, /stages\[2\]\.parts\.Rg: is not a key here/],
     [{}, /stages\[2\]\.parts: missing/],
   ])('%j', (json, message) => {
-    expect(() => parse(json)).toThrow(PlanError);
+    expect(() => parse(json)).toThrow(StageParseError);
     expect(() => parse(json)).toThrow(message);
   });
   test('fault hints name the swapped resistors', () => {

@@ -1,7 +1,7 @@
 import { describe, expect, test } from 'vitest';
 import { manualKind } from '../../src/circuit/manual.js';
 import { defaultOpamp } from '../../src/circuit/opamp.js';
-import { PlanError } from '../../src/plan/errors.js';
+import { StageParseError } from '../../src/circuit/errors.js';
 
 const parse = (json: Record<string, unknown>) => manualKind.parse({ json, path: 'stages[5]' }, 'x.plan.json');
 
@@ -63,7 +63,7 @@ describe('manual targets', () => {
     [{ checks: [{ id: 'a', quantity: 'q', unit: 'V', nominal: '1 V', tol: '5%', instrument: 'probe' }] }, /stages\[5\]\.checks\[0\]\.instrument: "probe"/],
     [{ checks: [{ id: 'a', quantity: 'q', unit: 'V', nominal: '1 A', tol: '5%' }] }, /stages\[5\]\.checks\[0\]\.nominal: .*current/],
   ])('plan error %j', (json, message) => {
-    expect(() => parse(json)).toThrow(PlanError);
+    expect(() => parse(json)).toThrow(StageParseError);
     expect(() => parse(json)).toThrow(message);
   });
 });

@@ -2,7 +2,7 @@ import { describe, expect, test } from 'vitest';
 import { noninvertingAmpKind } from '../../src/circuit/noninverting-amp.js';
 import type { OpampModel, Waveform } from '../../src/circuit/types.js';
 import { fromPhase } from '../../src/circuit/waveform.js';
-import { PlanError } from '../../src/plan/errors.js';
+import { StageParseError } from '../../src/circuit/errors.js';
 import { corner, runSpice } from '../helpers/ngspice.js';
 import { opampSubcktFor } from '../helpers/spice-opamp.js';
 
@@ -59,7 +59,7 @@ describe('noninverting-amp plan', () => {
     [{ parts: { Rg: '10k', Rf: '22 nF' } }, /stages\[3\]\.parts\.Rf: .*capacitance.*write e\.g\. "22k 1%"/],
     [{ parts: { Rg: 10000, Rf: '22k' } }, /stages\[3\]\.parts\.Rg: 10000 has no unit/],
   ])('%j', (json, message) => {
-    expect(() => parse(json)).toThrow(PlanError);
+    expect(() => parse(json)).toThrow(StageParseError);
     expect(() => parse(json)).toThrow(message);
   });
   test('fault hints cover a missing Rg', () => {

@@ -3,7 +3,7 @@ import { pushPullKind, type PushPullSettings } from '../../src/circuit/push-pull
 import { defaultOpamp } from '../../src/circuit/opamp.js';
 import type { Waveform } from '../../src/circuit/types.js';
 import { fromPhase } from '../../src/circuit/waveform.js';
-import { PlanError } from '../../src/plan/errors.js';
+import { StageParseError } from '../../src/circuit/errors.js';
 import { runSpice } from '../helpers/ngspice.js';
 
 /**
@@ -117,7 +117,7 @@ describe('push-pull currents and limits', () => {
     [{ bias: 'none', vbe: '0.7 A' }, /stages\[3\]\.vbe: .*current/],
     [{ bias: 'none', parts: { Rload: '-8' } }, /stages\[3\]\.parts\.Rload: "-8" must be above zero/],
   ])('plan error %j', (json, message) => {
-    expect(() => pushPullKind.parse({ json, path: 'stages[3]' }, 'x.plan.json')).toThrow(PlanError);
+    expect(() => pushPullKind.parse({ json, path: 'stages[3]' }, 'x.plan.json')).toThrow(StageParseError);
     expect(() => pushPullKind.parse({ json, path: 'stages[3]' }, 'x.plan.json')).toThrow(message);
   });
 

@@ -3,7 +3,7 @@ import { rcLowpassKind } from '../../src/circuit/rc-lowpass.js';
 import { defaultOpamp } from '../../src/circuit/opamp.js';
 import type { Waveform } from '../../src/circuit/types.js';
 import { fromPhase } from '../../src/circuit/waveform.js';
-import { PlanError } from '../../src/plan/errors.js';
+import { StageParseError } from '../../src/circuit/errors.js';
 import { runSpice } from '../helpers/ngspice.js';
 
 function run(r: number, c: number, input: Waveform) {
@@ -72,7 +72,7 @@ describe('rc-lowpass plan', () => {
     [{ parts: { R: '10k', C: '10 ohm' } }, /stages\[4\]\.parts\.C: .*resistance.*capacitance/],
   ])('%j', (json, message) => {
     const parse = () => rcLowpassKind.parse({ json, path: 'stages[4]' }, 'x.plan.json');
-    expect(parse).toThrow(PlanError);
+    expect(parse).toThrow(StageParseError);
     expect(parse).toThrow(message);
   });
 });

@@ -4,7 +4,7 @@ import { defaultOpamp } from '../../src/circuit/opamp.js';
 import { schmittIntegratorKind as kind, type SchmittSettings } from '../../src/circuit/schmitt-integrator.js';
 import type { EvalInput, EvalOutput, OpampModel } from '../../src/circuit/types.js';
 import { harmonic, thd, vmax, vmin, vpp } from '../../src/circuit/waveform.js';
-import { PlanError } from '../../src/plan/errors.js';
+import { StageParseError } from '../../src/circuit/errors.js';
 
 // Invented example values; no published board.
 const file = 'bench-osc.plan.json';
@@ -20,14 +20,14 @@ function run(json: Record<string, unknown>, opamp: OpampModel = defaultOpamp, po
   return kind.evaluate(input);
 }
 
-function planError(json: Record<string, unknown>): PlanError {
+function planError(json: Record<string, unknown>): StageParseError {
   try {
     parse(json);
   } catch (e) {
-    if (e instanceof PlanError) return e;
+    if (e instanceof StageParseError) return e;
     throw e;
   }
-  throw new Error('expected a PlanError');
+  throw new Error('expected a StageParseError');
 }
 
 /** An op-amp so fast that slew, GBW and overdrive drop out. */

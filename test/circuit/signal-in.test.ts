@@ -2,7 +2,7 @@ import { describe, expect, test } from 'vitest';
 import { signalInKind } from '../../src/circuit/signal-in.js';
 import { defaultOpamp } from '../../src/circuit/opamp.js';
 import { thd } from '../../src/circuit/waveform.js';
-import { PlanError } from '../../src/plan/errors.js';
+import { StageParseError } from '../../src/circuit/errors.js';
 
 function run(json: Record<string, unknown>) {
   const p = signalInKind.parse({ json, path: 'stages[0]' }, 'x.plan.json');
@@ -43,7 +43,7 @@ describe('signal-in', () => {
     [{ shape: 'sine', peak: '1 V', frequency: '1 kHz', parts: { R: '1k' } }, /stages\[0\]\.parts\.R: is not a key here/],
   ])('plan error %j', (json, message) => {
     const parse = () => signalInKind.parse({ json, path: 'stages[0]' }, 'x.plan.json');
-    expect(parse).toThrow(PlanError);
+    expect(parse).toThrow(StageParseError);
     expect(parse).toThrow(message);
   });
 });
