@@ -8,19 +8,21 @@ import type { BenchState } from './use-bench-state.js';
  */
 export function useBenchKeys(state: BenchState, pageSize: number, isActive: boolean) {
   const { mode } = state;
-  const typing = mode.kind === 'new-serial' || mode.kind === 'filter' || mode.kind === 'busy';
+  const isTyping = mode.kind === 'new-serial' || mode.kind === 'filter' || mode.kind === 'busy';
   useInput(
     (chunk, key) => {
       for (const input of splitKeys(chunk, key)) handle(input, key);
     },
-    { isActive: isActive && !typing },
+    { isActive: isActive && !isTyping },
   );
 
   function handle(input: string, key: Key) {
     if (mode.kind === 'help') {
-      if (input === '?' || key.escape || key.return) state.setMode({ kind: 'list' });
+      if (input === '?' || key.escape || key.return) state.setMode(mode.from);
       return;
     }
+    // Every dialog answers `?` with its own help, and comes back as it was.
+    if (input === '?') return state.setMode({ kind: 'help', from: mode });
     if (mode.kind === 'confirm-run') {
       if (key.return || input === 'y') state.confirmRun();
       else if (key.escape || input === 'n') state.setMode({ kind: 'list' });
@@ -49,7 +51,6 @@ export function useBenchKeys(state: BenchState, pageSize: number, isActive: bool
     else if (input === 'h') state.openHistory();
     else if (input === 'b') state.openBatch();
     else if (input === 'p') state.openPlan();
-    else if (input === '?') state.setMode({ kind: 'help' });
     else if (key.escape) {
       if (state.filter) state.setFilter('');
       state.setMessage(null);

@@ -1,7 +1,7 @@
 import { type Key, useInput } from 'ink';
 import { erasures, splitKeys } from '../components/key-chunks.js';
 import { useEffect, useRef, useState } from 'react';
-import { useLiveState } from './use-live-state.js';
+import { useLiveState } from '../components/use-live-state.js';
 import { endOptions } from '../../run/gates.js';
 import type { EndOutcome } from '../../run/types.js';
 import { moveSelection } from '../components/scroll-window.js';

@@ -8,7 +8,7 @@ import { createRunState } from '../../run/create.js';
 import { lockReason } from '../../run/gates.js';
 import { runReducer } from '../../run/reducer.js';
 import type { EndOutcome, RunAction, RunState } from '../../run/types.js';
-import { useLiveState } from './use-live-state.js';
+import { useLiveState } from '../components/use-live-state.js';
 import type { BringUpProps } from '../screen-props.js';
 import { type CaptureFigures, captureReadings, captureWarnings } from './capture-readings.js';
 import { outputOf } from './expected-trace.js';

@@ -4,6 +4,7 @@ import { type ExpectedShape, shapeMismatch, summaryLines } from '../../signal/su
 import { traceChart } from '../charts/trace.js';
 import { KeyBar } from '../components/key-bar.js';
 import { TextField } from '../components/text-field.js';
+import { useTextField } from '../components/use-text-field.js';
 import { toneProps } from '../theme.js';
 import { useCaptureAttachKeys } from './use-capture-attach-keys.js';
 import { useCaptureAttachState } from './use-capture-attach-state.js';
@@ -40,15 +41,24 @@ export interface CaptureAttachProps {
 
 /** Attach a scope capture (CSV or WAV) to the current check: path with Tab completion, progress, figures. */
 export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd = process.cwd(), width = 72 }: CaptureAttachProps) {
-  const { state, latest, type, erase, complete, load, back } = useCaptureAttachState(cwd);
+  const { state, latest, edited, complete, load, back } = useCaptureAttachState(cwd);
   const { phase } = state;
+  const field = useTextField({
+    onSubmit: load,
+    onCancel,
+    onChange: edited,
+    onOtherKey: (_input, key) => {
+      if (key.tab) field.set(complete(field.current()));
+    },
+    isActive: false,
+  });
   const attach = () => {
     const current = latest.current.phase;
     if (current.kind !== 'done') return;
     const { analyzed, path } = current;
     onDone({ path, bytes: analyzed.bytes ?? new Uint8Array(0), measurements: analyzed.measurements, samples: analyzed.channel.samples, sampleRate: analyzed.capture.sampleRate, period: analyzed.period });
   };
-  useCaptureAttachKeys(latest, { type, erase, complete, load, back, attach, cancel: onCancel }, isActive);
+  useCaptureAttachKeys(latest, field, { back, attach }, isActive);
 
   if (phase.kind === 'loading') {
     return (
@@ -78,7 +88,7 @@ export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd =
   return (
     <Box flexDirection="column">
       <Text bold>Attach a capture (CSV or WAV){expect ? `, expecting a ${expect}` : ''}</Text>
-      <TextField label="file" value={state.text} placeholder="path, then --dt 1us / --scale 10 / --channel 2 if needed" isFocused={isActive} />
+      <TextField label="file" value={field.value} cursor={field.cursor} placeholder="path, then --dt 1us / --scale 10 / --channel 2 if needed" isFocused={isActive} />
       {state.candidates.length > 0 ? <Text {...toneProps('dim')}>{state.candidates.join('  ')}</Text> : null}
       {state.message ? <Text {...toneProps('warn')}>{state.message}</Text> : null}
       <KeyBar hints={[['Tab', 'complete'], ['Enter', 'read'], ['Esc', 'cancel']]} width={width} />
