@@ -1,3 +1,4 @@
+import type { CheckSpec } from '../circuit/types.js';
 import type { Unit } from '../units/unit.js';
 
 /** A closed interval in the check's unit. */
@@ -44,6 +45,8 @@ export interface Target {
   readonly upstream?: readonly string[];
   /** The upstream output this check's stage takes (`"osc.triangle"`), when it has an input. */
   readonly input?: string;
+  /** Which figure of a scope capture answers the check, as its stage kind declares (absent: none). */
+  readonly captureFigure?: CheckSpec['captureFigure'];
 }
 
 export interface DesignWarning {

@@ -19,6 +19,8 @@ export interface PlanCheck {
   readonly phase: Phase;
   /** The rail a rail check is about. */
   readonly rail?: string;
+  /** Which figure of a scope capture answers the check, as its stage kind declares (absent: none). */
+  readonly captureFigure?: CheckSpec['captureFigure'];
 }
 
 /** The id of the idle-current check (DESIGN §4, contract). */
@@ -84,6 +86,7 @@ export function planChecks(plan: { readonly rails: readonly Rail[]; readonly sta
         how: spec.how,
         testPoint: tp ?? null,
         phase: 'stage',
+        ...(spec.captureFigure ? { captureFigure: spec.captureFigure } : {}),
       });
     }
   }
