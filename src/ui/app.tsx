@@ -41,8 +41,8 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
   const [lastSerial, setLastSerial] = useState<string | undefined>(undefined);
   // What the screen last said, read by the quit key at once: a screen tells the app in the same key
   // event that opens an editor, before React renders, so a `q` right behind it is never taken for quit.
-  const [isDirty, setDirty, dirtyRef] = useLiveState(false);
-  const [isTyping, setTyping, typingRef] = useLiveState(false);
+  const [, setDirty, dirtyRef] = useLiveState(false);
+  const [, setTyping, typingRef] = useLiveState(false);
   const [isConfirming, setConfirming] = useState(false);
   const route = stack[stack.length - 1] ?? { screen: 'bench' };
 
@@ -58,15 +58,16 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
     setStack((s) => (s.length > 1 ? s.slice(0, -1) : s));
   }, [setDirty, setTyping]);
 
-  // The only global key. Off while an editor has the keyboard, and asked again per key (the
-  // listener of the last render may still be attached for a moment after an editor opens).
+  // The only global key, off while an editor has the keyboard. That is asked per key, not through
+  // `isActive`: a listener is attached or dropped only after the next render, so a `q` right after
+  // an editor opens (or closes) would reach the wrong one.
   useInput(
     (input) => {
       if (input !== 'q' || typingRef.current) return;
       if (dirtyRef.current) setConfirming(true);
       else exit();
     },
-    { isActive: !isConfirming && !isTyping },
+    { isActive: !isConfirming },
   );
 
   const isActive = !isConfirming;

@@ -64,7 +64,7 @@ export function benchHelpFor(from: DialogMode): { readonly topic?: string; reado
         topic: 'a new board',
         entries: [
           ['text', 'the serial as printed on the board (letters, digits, - _ .)'],
-          ['← → Home End', 'move in the text; Backspace and Delete erase; Ctrl-U clears'],
+          ['← → Home End', 'move in the text; Backspace erases; Ctrl-U clears'],
           ['Enter', 'go on to choose its plan'],
           ['Esc', 'cancel'],
           ['?', 'this help (in an empty field)'],

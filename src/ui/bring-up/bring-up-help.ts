@@ -33,7 +33,7 @@ export function bringUpHelpFor(from: string, isPowerOff: boolean): { readonly to
       topic: 'rework note',
       entries: [
         ['text', 'part as <stage>.<part> (osc.Ct), its value before (from) and after (to), and why (note)'],
-        ['← → Home End', 'move in the field; Backspace and Delete erase; Ctrl-U clears it'],
+        ['← → Home End', 'move in the field; Backspace erases; Ctrl-U clears it'],
         ['Tab Shift-Tab', 'next or previous field (Enter moves on too)'],
         ['Enter on note', 'save the note; the reworked stage and those after it are measured again'],
         ['Esc', 'close the form without saving'],

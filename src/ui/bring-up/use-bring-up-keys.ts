@@ -66,8 +66,10 @@ export function useBringUpKeys(run: BringUp, screen: BringUpScreenState, isActiv
     } else if (focus === 'end') for (const one of splitKeys(input, key)) onEnd(one, key);
     else if (focus === 'list') for (const one of splitKeys(input, key)) onList(one, key);
     else if (focus === 'input') {
-      if (screen.reading.current() === '' && commands.has(input)) command(input);
-      else screen.reading.handle(input, key);
+      const isEmpty = screen.reading.current() === '';
+      if (isEmpty && commands.has(input)) command(input);
+      // `q` on an empty line is the app's (quit); no reading starts with it.
+      else if (!(isEmpty && input === 'q')) screen.reading.handle(input, key);
     }
   };
 

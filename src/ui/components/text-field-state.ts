@@ -13,8 +13,6 @@ export type TextFieldAction =
   | { readonly type: 'insert'; readonly text: string }
   /** Backspace: erase `count` characters before the cursor. */
   | { readonly type: 'erase'; readonly count: number }
-  /** Delete: erase the character under the cursor. */
-  | { readonly type: 'erase-forward' }
   | { readonly type: 'move'; readonly delta: number }
   | { readonly type: 'home' }
   | { readonly type: 'end' }
@@ -51,8 +49,6 @@ export function textFieldReducer(state: TextFieldState, action: TextFieldAction,
       if (from === cursor) return state;
       return { text: text.slice(0, from) + text.slice(cursor), cursor: from };
     }
-    case 'erase-forward':
-      return cursor >= text.length ? state : { text: text.slice(0, cursor) + text.slice(cursor + 1), cursor };
     case 'move': {
       const next = Math.min(text.length, Math.max(0, cursor + action.delta));
       return next === cursor ? state : { text, cursor: next };
@@ -86,8 +82,9 @@ export type FieldStep =
 export function fieldSteps(input: string, key: Key): FieldStep[] {
   if (key.escape) return [{ kind: 'cancel' }];
   if (key.return) return [{ kind: 'submit' }];
-  if (key.backspace) return [{ kind: 'edit', action: { type: 'erase', count: 1 } }];
-  if (key.delete) return [{ kind: 'edit', action: { type: 'erase-forward' } }];
+  // Ink reports the Backspace key of most terminals (DEL, 0x7f) as `delete`, the same as the
+  // Delete key (ESC [3~), and gives no way to tell them apart: both erase before the cursor.
+  if (key.backspace || key.delete) return [{ kind: 'edit', action: { type: 'erase', count: 1 } }];
   if (key.leftArrow) return [{ kind: 'edit', action: { type: 'move', delta: -1 } }];
   if (key.rightArrow) return [{ kind: 'edit', action: { type: 'move', delta: 1 } }];
   if (key.home) return [{ kind: 'edit', action: { type: 'home' } }];
