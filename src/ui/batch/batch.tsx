@@ -7,7 +7,7 @@ import { HelpBox } from '../components/help-box.js';
 import { KeyBar } from '../components/key-bar.js';
 import type { BatchProps } from '../screen-props.js';
 import { toneProps } from '../theme.js';
-import { batchHelp, batchHints, batchNotes } from './batch-help.js';
+import { batchHelp, batchHints, batchNotes, filterFormHelp, filterFormNotes } from './batch-help.js';
 import { BatchPanel } from './batch-panel.js';
 import { BatchTable } from './batch-table.js';
 import { FilterForm } from './filter-form.js';
@@ -24,13 +24,14 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
   const rest = Math.max(6, height - 6);
   const tableRows = Math.max(2, Math.min(state.rows.length, Math.floor(rest * 0.35)));
   const panelRows = Math.max(4, rest - tableRows);
-  useBatchKeys(state, dispatch, { onExit, onOpenBoard }, tableRows, isActive);
+  const { cursor, isFormHelpOpen } = useBatchKeys(state, dispatch, { onExit, onOpenBoard, onTypingChange }, tableRows, isActive);
   const f = state.figures;
   const c = selectedCheck(state);
   const note = f ? `${f.boards} boards · first-pass ${pct(f.firstPassYield)} · final ${pct(f.finalYield)}` : '';
   let body;
   if (state.isHelpOpen) body = <HelpBox title="batch" entries={batchHelp} notes={batchNotes} width={width} />;
-  else if (state.form) body = <FilterForm form={state.form} width={width} />;
+  else if (state.form && isFormHelpOpen) body = <HelpBox title="batch" topic="the filter form" entries={filterFormHelp} notes={filterFormNotes} width={width} />;
+  else if (state.form) body = <FilterForm form={state.form} cursor={cursor} width={width} />;
   else if (state.status === 'error') body = <Text {...toneProps('bad')}>Cannot review the batch: {state.message}</Text>;
   else if (state.status !== 'ready' || !f) {
     const p = state.progress;

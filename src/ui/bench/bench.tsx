@@ -32,7 +32,7 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
   const { mode, boards, selected, message } = state;
   const dialogRows = mode.kind === 'new-serial' ? 6 : mode.kind === 'choose-plan' ? mode.choices.length + 3 : mode.kind === 'confirm-run' ? 4 : 0;
   const listRows = Math.max(1, height - 5 - dialogRows - (state.damaged.length > 0 ? 1 : 0));
-  useBenchKeys(state, listRows, isActive);
+  useBenchKeys(state, listRows, isActive, onTypingChange);
   const isTyping = mode.kind === 'new-serial' || mode.kind === 'filter';
   useEffect(() => onTypingChange?.(isTyping), [isTyping, onTypingChange]);
   const start = useRef(0);

@@ -1,12 +1,12 @@
 import { type Key, useInput } from 'ink';
 import { splitKeys } from '../components/key-chunks.js';
-import type { BenchState } from './use-bench-state.js';
+import type { BenchMode, BenchState } from './use-bench-state.js';
 
 /**
  * Keys of the bench screen. The serial and filter fields take their own keys
  * (see `new-board.tsx`, `board-filter.tsx`); this hook is idle meanwhile.
  */
-export function useBenchKeys(state: BenchState, pageSize: number, isActive: boolean) {
+export function useBenchKeys(state: BenchState, pageSize: number, isActive: boolean, onTypingChange?: (isTyping: boolean) => void) {
   const { mode } = state;
   const isTyping = mode.kind === 'new-serial' || mode.kind === 'filter' || mode.kind === 'busy';
   useInput(
@@ -15,6 +15,12 @@ export function useBenchKeys(state: BenchState, pageSize: number, isActive: bool
     },
     { isActive: isActive && !isTyping },
   );
+
+  /** Open a text field, telling the app at once (a `q` right behind `n` is a letter, not quit). */
+  function startTyping(next: BenchMode) {
+    onTypingChange?.(true);
+    state.setMode(next);
+  }
 
   function handle(input: string, key: Key) {
     if (mode.kind === 'help') {
@@ -46,8 +52,8 @@ export function useBenchKeys(state: BenchState, pageSize: number, isActive: bool
     else if (key.return) state.openSelected();
     else if (input === 'n') {
       state.setMessage(null);
-      state.setMode({ kind: 'new-serial' });
-    } else if (input === '/') state.setMode({ kind: 'filter' });
+      startTyping({ kind: 'new-serial' });
+    } else if (input === '/') startTyping({ kind: 'filter' });
     else if (input === 'h') state.openHistory();
     else if (input === 'b') state.openBatch();
     else if (input === 'p') state.openPlan();

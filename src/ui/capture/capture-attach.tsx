@@ -5,6 +5,9 @@ import { traceChart } from '../charts/trace.js';
 import { KeyBar } from '../components/key-bar.js';
 import { TextField } from '../components/text-field.js';
 import { useTextField } from '../components/use-text-field.js';
+import { HelpBox } from '../components/help-box.js';
+import { useLiveState } from '../components/use-live-state.js';
+import { attachHelp, attachNotes } from './attach-help.js';
 import { toneProps } from '../theme.js';
 import { useCaptureAttachKeys } from './use-capture-attach-keys.js';
 import { useCaptureAttachState } from './use-capture-attach-state.js';
@@ -43,7 +46,10 @@ export interface CaptureAttachProps {
 export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd = process.cwd(), width = 72 }: CaptureAttachProps) {
   const { state, latest, edited, complete, load, back } = useCaptureAttachState(cwd);
   const { phase } = state;
+  const [isHelpOpen, setHelpOpen, helpRef] = useLiveState(false);
+  const toggleHelp = () => setHelpOpen((open) => !open);
   const field = useTextField({
+    onHelp: toggleHelp,
     onSubmit: load,
     onCancel,
     onChange: edited,
@@ -58,14 +64,16 @@ export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd =
     const { analyzed, path } = current;
     onDone({ path, bytes: analyzed.bytes ?? new Uint8Array(0), measurements: analyzed.measurements, samples: analyzed.channel.samples, sampleRate: analyzed.capture.sampleRate, period: analyzed.period });
   };
-  useCaptureAttachKeys(latest, field, { back, attach }, isActive);
+  useCaptureAttachKeys(latest, field, { back, attach, toggleHelp, isHelpOpen: () => helpRef.current }, isActive);
+
+  if (isHelpOpen) return <HelpBox title="capture" topic="attaching a capture" entries={attachHelp} notes={attachNotes} width={width} />;
 
   if (phase.kind === 'loading') {
     return (
       <Box flexDirection="column">
         <Text bold>Reading {phase.path}</Text>
         <Text>{progressBar(phase.fraction, Math.min(40, width - 10))}</Text>
-        <KeyBar hints={[['Esc', 'stop waiting']]} width={width} />
+        <KeyBar hints={[['Esc', 'stop waiting'], ['?', 'help']]} width={width} />
       </Box>
     );
   }
@@ -81,7 +89,7 @@ export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd =
         {otherChannels(analyzed) ? <Text {...toneProps('dim')}>{otherChannels(analyzed)}</Text> : null}
         {m.warnings.map((w) => <Text key={w} {...toneProps('dim')}>note: {w}</Text>)}
         <Text>{traceChart(null, capturedWindow(analyzed.channel.samples, analyzed.capture.sampleRate, m.frequency, 3), { width, height: 8 })}</Text>
-        <KeyBar hints={[['Enter', 'attach these figures'], ['Esc', 'another file']]} width={width} />
+        <KeyBar hints={[['Enter', 'attach these figures'], ['Esc', 'another file'], ['?', 'help']]} width={width} />
       </Box>
     );
   }
@@ -91,7 +99,7 @@ export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd =
       <TextField label="file" value={field.value} cursor={field.cursor} placeholder="path, then --dt 1us / --scale 10 / --channel 2 if needed" isFocused={isActive} />
       {state.candidates.length > 0 ? <Text {...toneProps('dim')}>{state.candidates.join('  ')}</Text> : null}
       {state.message ? <Text {...toneProps('warn')}>{state.message}</Text> : null}
-      <KeyBar hints={[['Tab', 'complete'], ['Enter', 'read'], ['Esc', 'cancel']]} width={width} />
+      <KeyBar hints={[['Tab', 'complete'], ['Enter', 'read'], ['Esc', 'cancel'], ['?', 'help']]} width={width} />
     </Box>
   );
 }

@@ -6,6 +6,9 @@ import type { AttachState } from './use-capture-attach-state.js';
 export interface AttachKeyActions {
   readonly back: () => void;
   readonly attach: () => void;
+  /** Open or close the box's help (`?`; in the path field only while it is empty). */
+  readonly toggleHelp: () => void;
+  readonly isHelpOpen: () => boolean;
 }
 
 /**
@@ -18,7 +21,10 @@ export function useCaptureAttachKeys(latest: RefObject<AttachState>, field: Text
   useInput(
     (input: string, key: Key) => {
       const { phase } = latest.current;
-      if (phase.kind === 'path') field.handle(input, key);
+      if (actions.isHelpOpen()) {
+        if (input === '?' || key.escape) actions.toggleHelp();
+      } else if (phase.kind === 'path') field.handle(input, key);
+      else if (input === '?') actions.toggleHelp();
       else if (phase.kind === 'loading') {
         if (key.escape) actions.back();
       } else if (key.return) actions.attach();
