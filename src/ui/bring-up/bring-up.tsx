@@ -68,7 +68,7 @@ export function BringUpScreen(props: BringUpProps) {
         <Box flexDirection="column" width={layout.panelWidth} height={layout.bodyRows} overflow="hidden" marginLeft={layout.listWidth > 0 ? 1 : 0}>
           {focus === 'capture' && target ? (
             <>
-              <Text bold wrap="truncate-end">capture for {target.check}{target.testPoint ? ` at ${target.testPoint}` : ''}</Text>
+              <Box flexShrink={0}><Text bold wrap="truncate-end">capture for {target.check}{target.testPoint ? ` at ${target.testPoint}` : ''}</Text></Box>
               <CaptureSlot expect={shape} width={layout.panelWidth} onDone={(c) => { ui.closeCapture(); void run.attachCapture(c, shape); }} onCancel={ui.closeCapture} />
             </>
           ) : (

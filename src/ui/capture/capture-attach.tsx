@@ -82,14 +82,17 @@ export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd =
     const m = analyzed.measurements;
     const mismatch = expect ? shapeMismatch(m, expect) : null;
     return (
-      <Box flexDirection="column">
-        <Text bold>{analyzed.capture.source}, channel {analyzed.channel.name}</Text>
-        {summaryLines(m).map((line) => <Text key={line}>{line}</Text>)}
-        {mismatch ? <Text {...toneProps('warn')}>⚠ {mismatch.message}</Text> : null}
-        {otherChannels(analyzed) ? <Text {...toneProps('dim')}>{otherChannels(analyzed)}</Text> : null}
-        {m.warnings.map((w) => <Text key={w} {...toneProps('dim')}>note: {w}</Text>)}
-        <Text>{traceChart(null, capturedWindow(analyzed.channel.samples, analyzed.capture.sampleRate, m.frequency, 3), { width, height: 8 })}</Text>
+      // Rows keep their height (a squeezed row is drawn over by the next); in a short panel the trace,
+      // last, is what gets cut, and the keys stay above it.
+      <Box flexDirection="column" flexShrink={0}>
+        {/* One row each: a line wrapped inside the bring-up panel's fixed height would be drawn over the next. */}
+        <Text bold wrap="truncate-middle">{analyzed.capture.source}, channel {analyzed.channel.name}</Text>
+        {summaryLines(m).map((line) => <Text key={line} wrap="truncate-end">{line}</Text>)}
+        {mismatch ? <Text wrap="truncate-end" {...toneProps('warn')}>⚠ {mismatch.message}</Text> : null}
+        {otherChannels(analyzed) ? <Text wrap="truncate-end" {...toneProps('dim')}>{otherChannels(analyzed)}</Text> : null}
+        {m.warnings.map((w) => <Text key={w} wrap="truncate-end" {...toneProps('dim')}>note: {w}</Text>)}
         <KeyBar hints={[['Enter', 'attach these figures'], ['Esc', 'another file'], ['?', 'help']]} width={width} />
+        <Text>{traceChart(null, capturedWindow(analyzed.channel.samples, analyzed.capture.sampleRate, m.frequency, 3), { width, height: 8 })}</Text>
       </Box>
     );
   }
