@@ -71,6 +71,7 @@ function readingFrom(input: ReadingInput, run: Run | undefined): Reading {
     planHash: input.planHash,
     ...(input.capture === undefined ? {} : { capture: input.capture }),
     ...(warnings.length === 0 ? {} : { warnings }),
+    ...(input.instrument === undefined ? {} : { instrument: { name: input.instrument.name, identity: input.instrument.identity } }),
   };
 }
 
