@@ -38,7 +38,7 @@ describe('record --from (DESIGN §7a)', () => {
     // 3.271 V lies inside the divider's band (10 V · 3k3/(6k8+3k3) = 3.267 V nominal, any circuits handbook).
     expect(out.verdict).toBe('pass');
     const board = await (await openLog(t.dir)).readBoard('F-001');
-    expect(board.readings[0]).toMatchObject({ value: 3.271, raw: '+3.27100000E+00', instrument: { name: 'dmm', identity: idn } });
+    expect(board?.readings[0]).toMatchObject({ value: 3.271, raw: '+3.27100000E+00', instrument: { name: 'dmm', identity: idn } });
   });
 
   test('readable output names the instrument and its answer', async () => {
