@@ -1,15 +1,19 @@
 import type { Command, CommandIo } from './command.js';
 import { UsageError } from './errors.js';
 import { PlanError } from '../plan/errors.js';
+import { InstrumentsFileError } from '../bench/errors.js';
 
 const usage = `usage:
   probebook                          the bench screen (TUI) on the configured log
   probebook targets PLAN [--json] [--trials N] [--seed S]
   probebook analyze CAPTURE [--json] [--expect sine|square|triangle]
   probebook record --plan PLAN --board SERIAL --check ID --value TEXT [--operator NAME] [--json]
+  probebook record --plan PLAN --board SERIAL --check ID --from INSTRUMENT [--instruments FILE] [--json]
   probebook history SERIAL [--json]
   probebook batch [--plan ID] [--check ID] [--json]
   probebook report SERIAL --format md|csv
+  probebook instruments [--instruments FILE] [--json]
+  probebook instruments --simulate PLAN [--port N] [--write FILE]
 all accept --log DIR (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook)`;
 
 // Commands load lazily so that `targets` never pays for React and Ink.
@@ -20,6 +24,7 @@ const commands: Readonly<Record<string, () => Promise<Command>>> = {
   history: async () => (await import('./history.js')).historyCommand,
   batch: async () => (await import('./batch.js')).batchCommand,
   report: async () => (await import('./report.js')).reportCommand,
+  instruments: async () => (await import('./instruments.js')).instrumentsCommand,
 };
 
 /** Run probebook with `argv` (without node and script); returns the exit status. */
@@ -38,7 +43,7 @@ export async function main(argv: readonly string[], io: CommandIo): Promise<numb
     if (!load) throw new UsageError(`unknown command ${JSON.stringify(first)}; try probebook --help`);
     return await (await load())(rest, io);
   } catch (error) {
-    if (error instanceof UsageError || error instanceof PlanError) {
+    if (error instanceof UsageError || error instanceof PlanError || error instanceof InstrumentsFileError) {
       io.stderr(`probebook: ${error.message}\n`);
       return 2;
     }

@@ -24,6 +24,14 @@ export interface Reading {
   readonly capture?: string;
   /** Suspect-but-usable notes (skipped safety checks, instrument too coarse). */
   readonly warnings?: readonly string[];
+  /** The bench instrument the value was read from (`record --from`), with its `*IDN?` answer. */
+  readonly instrument?: InstrumentRef;
+}
+
+/** Which instrument gave a reading. */
+export interface InstrumentRef {
+  readonly name: string;
+  readonly identity: string | null;
 }
 
 export type RunOutcome = 'in-progress' | 'passed' | 'failed' | 'aborted' | 'power-off';
@@ -120,6 +128,7 @@ export interface ReadingInput {
   readonly planHash: string;
   readonly capture?: string;
   readonly warnings?: readonly string[];
+  readonly instrument?: InstrumentRef;
 }
 
 /**
