@@ -3,7 +3,7 @@ import { computeTargets } from '../analysis/targets.js';
 import type { Band, Target, TargetSet, Verdict } from '../analysis/types.js';
 import { uncertaintyFor, verdictFor } from '../analysis/verdict.js';
 import { validateSerial } from '../log/serial.js';
-import { openLog } from '../log/store.js';
+import { openStore } from '../log/open-store.js';
 import type { InstrumentRef, Reading, RunOutcome } from '../log/types.js';
 import { readFromInstrument } from './instrument-reading.js';
 import { loadPlanFile } from '../plan/load.js';
@@ -197,7 +197,7 @@ export const recordCommand: Command = async (argv, io) => {
   const operator = operatorOf(args.options.operator, io.env);
 
   const dir = resolveLogDir(args.options.log, io.env);
-  const log = await openLog(dir);
+  const log = await openStore(dir);
   // The skipped-safety warnings are judged under the board's lock, from the run's readings as saved.
   const saved = await log.appendToOpenRun(
     serial,
@@ -230,7 +230,7 @@ export const recordCommand: Command = async (argv, io) => {
       })}\n`,
     );
   } else {
-    io.stdout(readable(outcome, serial, dir));
+    io.stdout(readable(outcome, serial, log.dir));
   }
   return 0;
 };

@@ -1,4 +1,5 @@
 import { mkdirSync, statSync } from 'node:fs';
+import { readdir, readFile } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { Low } from 'lowdb';
 import { BoardFileAdapter } from './board-file-adapter.js';
@@ -26,6 +27,15 @@ export interface LogStore extends BenchLog {
   appendToOpenRun(serial: string, run: RunStart, reading: Omit<ReadingInput, 'run'>, warningsFor?: (board: BoardFile, run: Run) => readonly string[]): Promise<AppendResult>;
   /** The path of a board's file (for messages). */
   boardPath(serial: string): string;
+  /** Every board serial in the log (for `log copy`). */
+  listSerials(): Promise<string[]>;
+  /**
+   * Merge a board copied from another log with the plan snapshots and capture
+   * bytes it refers to (`log copy`): by id, idempotent.
+   */
+  mergeBoard(source: BoardFile, plans: ReadonlyMap<string, string>, captures: ReadonlyMap<string, Uint8Array>): Promise<MergeCounts>;
+  /** Release connections (a database); nothing to do for a folder. */
+  close(): Promise<void>;
 }
 
 export function emptyBoard(serial: string): BoardFile {
@@ -132,10 +142,39 @@ class Store implements LogStore {
     return this.#update(serial, addReworkChange(serial, note));
   }
 
-  /** Merge a board copied from another log (`log copy`); idempotent. */
-  async mergeBoard(source: BoardFile): Promise<MergeCounts> {
+  async mergeBoard(source: BoardFile, plans: ReadonlyMap<string, string>, captures: ReadonlyMap<string, Uint8Array>): Promise<MergeCounts> {
+    checkSerial(source.serial);
+    for (const [hash, text] of plans) if (!this.#plans.has(hash, 'json')) this.#plans.put(text, 'json', hash);
+    for (const [file, bytes] of captures) {
+      const [hash, ext] = file.split('.');
+      if (hash && ext && !this.#captures.has(hash, ext)) this.#captures.put(bytes, ext, hash);
+    }
     return this.#update(source.serial, mergeBoardChange(source));
   }
+
+  async readCapture(file: string): Promise<Uint8Array | null> {
+    const m = /^([0-9a-f]{64})\.([a-z0-9]{1,8})$/.exec(file);
+    if (!m) return null;
+    try {
+      return new Uint8Array(await readFile(join(this.dir, 'captures', file)));
+    } catch (error) {
+      if (errorCode(error) === 'ENOENT') return null;
+      throw error;
+    }
+  }
+
+  async listSerials(): Promise<string[]> {
+    let names: string[];
+    try {
+      names = await readdir(this.#boards);
+    } catch (error) {
+      if (errorCode(error) === 'ENOENT') return [];
+      throw error;
+    }
+    return names.filter((n) => n.endsWith('.json')).map((n) => n.slice(0, -5)).filter((s) => validateSerial(s) === null).sort();
+  }
+
+  async close(): Promise<void> {}
 
   async readPlanSnapshot(hash: string): Promise<string | null> {
     return this.#plans.getText(hash, 'json');

@@ -151,4 +151,6 @@ export interface BenchLog {
   /** Copy a capture into the log by content hash; returns its ref (not yet linked to a board). */
   saveCapture(bytes: Uint8Array, name: string): Promise<{ file: string }>;
   linkCapture(serial: string, ref: CaptureRef): Promise<void>;
+  /** The bytes of a saved capture (`<sha256>.<ext>`), or null when the log does not hold it. */
+  readCapture(file: string): Promise<Uint8Array | null>;
 }
