@@ -151,6 +151,9 @@ export class PgStore implements LogStore {
     } catch (error) {
       throw serverError(error, this.dir);
     }
+    // A connection lost while checked out is reported by the query that fails; the event itself must not crash the process.
+    const ignore = () => undefined;
+    client.on('error', ignore);
     let isCommitting = false;
     let broken = false;
     try {
@@ -173,6 +176,7 @@ export class PgStore implements LogStore {
       if (error instanceof LogInputError) throw error;
       throw serverError(error, this.dir, isCommitting);
     } finally {
+      client.off('error', ignore);
       client.release(broken);
     }
   }
