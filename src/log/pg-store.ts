@@ -8,7 +8,8 @@ import { LogServerError, serverError } from './pg-errors.js';
 import { validateSerial } from './serial.js';
 import type { LogStore } from './store.js';
 import { summarizeBoard } from './summary.js';
-import { type BoardFile, boardSchemaVersion, type BoardSummary, type CaptureRef, type CheckSummary, type LogIndex, type Reading, type ReadingInput, type Rework, type Run, type RunOutcome } from './types.js';
+import { type BoardFile, boardSchemaVersion, type BoardState, type BoardSummary, type CaptureRef, type CheckSummary, type LogIndex, type Reading, type ReadingInput, type Rework, type Run, type RunOutcome } from './types.js';
+import type { Verdict } from '../analysis/types.js';
 import { checkReadingInput, checkRunStart, type RunStart } from './validate-input.js';
 
 type Db = pg.ClientBase | pg.Pool;
@@ -187,19 +188,27 @@ export class PgStore implements LogStore {
 
   readIndex(): Promise<LogIndex> {
     return this.#read(async () => {
-      const [boards, checks] = await Promise.all([
-        this.#pool.query('SELECT serial, plan, plan_hash, state, last_run_at, runs, readings, rework FROM board_summary'),
-        this.#pool.query('SELECT serial, check_id, first_value, first_verdict, first_at, latest_value, latest_verdict, latest_at, count FROM check_summary'),
-      ]);
+      // One compact row set: the server builds a JSON array of arrays and the client parses it
+      // in one JSON.parse, several times faster than the driver's row objects at 10⁵ boards
+      // (measured with bench/pg.bench.ts). Floats keep full precision in PostgreSQL's JSON
+      // output; ±Infinity arrives as a string and Number() reads it back.
+      const boards = await this.#pool.query<{ j: string }>(
+        `SELECT coalesce(json_agg(json_build_array(serial, plan, plan_hash, state, last_run_at, runs, readings, rework)), '[]')::text AS j FROM board_summary`,
+      );
+      const checks = await this.#pool.query<{ j: string }>(
+        `SELECT coalesce(json_agg(json_build_array(serial, check_id, first_value, first_verdict, first_at, latest_value, latest_verdict, latest_at, count)), '[]')::text AS j FROM check_summary`,
+      );
+      type CheckRow = [string, string, number | string, Verdict, string, number | string, Verdict, string, number];
+      type BoardRow = [string, string | null, string | null, BoardState, string | null, number, number, number];
       const byBoard = new Map<string, Record<string, CheckSummary>>();
-      for (const c of checks.rows) {
-        let m = byBoard.get(c.serial);
-        if (!m) byBoard.set(c.serial, (m = {}));
-        m[c.check_id] = { first: { value: Number(c.first_value), verdict: c.first_verdict, at: c.first_at }, latest: { value: Number(c.latest_value), verdict: c.latest_verdict, at: c.latest_at }, count: c.count };
+      for (const c of JSON.parse(checks.rows[0]?.j ?? '[]') as CheckRow[]) {
+        let m = byBoard.get(c[0]);
+        if (!m) byBoard.set(c[0], (m = {}));
+        m[c[1]] = { first: { value: Number(c[2]), verdict: c[3], at: c[4] }, latest: { value: Number(c[5]), verdict: c[6], at: c[7] }, count: c[8] };
       }
       const out: Record<string, BoardSummary> = {};
-      for (const b of boards.rows) {
-        out[b.serial] = { serial: b.serial, plan: b.plan, planHash: b.plan_hash, state: b.state, lastRunAt: b.last_run_at, runs: b.runs, readings: b.readings, rework: b.rework, checks: byBoard.get(b.serial) ?? {} };
+      for (const b of JSON.parse(boards.rows[0]?.j ?? '[]') as BoardRow[]) {
+        out[b[0]] = { serial: b[0], plan: b[1], planHash: b[2], state: b[3], lastRunAt: b[4], runs: b[5], readings: b[6], rework: b[7], checks: byBoard.get(b[0]) ?? {} };
       }
       return { schemaVersion: indexSchemaVersion, boards: out, damaged: [] };
     });
