@@ -67,6 +67,17 @@ try {
   await c.end();
   console.log(`filled ${boards} boards × 25 readings in ${(ms(t0) / 1000).toFixed(1)} s`);
 
+  // Where the batch's time goes: the index fetch alone.
+  const probe = await openStore(url);
+  const fetchTimes: number[] = [];
+  for (let i = 0; i < 3; i++) {
+    const t = performance.now();
+    await probe.readIndex();
+    fetchTimes.push(ms(t));
+  }
+  await probe.close();
+  console.log(`index fetch alone (board and check summaries): median ${fmt(quantile(fetchTimes, 0.5))}`);
+
   // batch --json for one plan, whole command in process (targets cached after the first call).
   const batchTimes: number[] = [];
   for (let i = 0; i < 4; i++) {

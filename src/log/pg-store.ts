@@ -19,6 +19,9 @@ function checkSerial(serial: string): void {
   if (problem) throw new LogInputError(problem);
 }
 
+type CheckRow = [string, string, number, Verdict, string, number, Verdict, string, number];
+type BoardRow = [string, string | null, string | null, BoardState, string | null, number, number, number];
+
 /** A board as the folder log would hold it, read from the tables in write order. */
 async function loadBoard(db: Db, serial: string): Promise<BoardFile | null> {
   const board = await db.query<{ plan: string | null }>('SELECT plan FROM boards WHERE serial = $1', [serial]);
@@ -188,26 +191,21 @@ export class PgStore implements LogStore {
 
   readIndex(): Promise<LogIndex> {
     return this.#read(async () => {
-      // One compact row set: the server builds a JSON array of arrays and the client parses it
-      // in one JSON.parse, several times faster than the driver's row objects at 10⁵ boards
-      // (measured with bench/pg.bench.ts). Floats keep full precision in PostgreSQL's JSON
-      // output; ±Infinity arrives as a string and Number() reads it back.
-      const boards = await this.#pool.query<{ j: string }>(
-        `SELECT coalesce(json_agg(json_build_array(serial, plan, plan_hash, state, last_run_at, runs, readings, rework)), '[]')::text AS j FROM board_summary`,
-      );
-      const checks = await this.#pool.query<{ j: string }>(
-        `SELECT coalesce(json_agg(json_build_array(serial, check_id, first_value, first_verdict, first_at, latest_value, latest_verdict, latest_at, count)), '[]')::text AS j FROM check_summary`,
-      );
-      type CheckRow = [string, string, number | string, Verdict, string, number | string, Verdict, string, number];
-      type BoardRow = [string, string | null, string | null, BoardState, string | null, number, number, number];
+      // Rows as arrays, not objects (the driver's row objects cost most of the fetch at 10⁵ boards;
+      // measured with bench/pg.bench.ts). ±Infinity arrives as a float8 the driver parses.
+      const boards = await this.#pool.query<BoardRow>({ text: 'SELECT serial, plan, plan_hash, state, last_run_at, runs, readings, rework FROM board_summary', rowMode: 'array' });
+      const checks = await this.#pool.query<CheckRow>({
+        text: 'SELECT serial, check_id, first_value, first_verdict, first_at, latest_value, latest_verdict, latest_at, count FROM check_summary',
+        rowMode: 'array',
+      });
       const byBoard = new Map<string, Record<string, CheckSummary>>();
-      for (const c of JSON.parse(checks.rows[0]?.j ?? '[]') as CheckRow[]) {
+      for (const c of checks.rows) {
         let m = byBoard.get(c[0]);
         if (!m) byBoard.set(c[0], (m = {}));
-        m[c[1]] = { first: { value: Number(c[2]), verdict: c[3], at: c[4] }, latest: { value: Number(c[5]), verdict: c[6], at: c[7] }, count: c[8] };
+        m[c[1]] = { first: { value: c[2], verdict: c[3], at: c[4] }, latest: { value: c[5], verdict: c[6], at: c[7] }, count: c[8] };
       }
       const out: Record<string, BoardSummary> = {};
-      for (const b of JSON.parse(boards.rows[0]?.j ?? '[]') as BoardRow[]) {
+      for (const b of boards.rows) {
         out[b[0]] = { serial: b[0], plan: b[1], planHash: b[2], state: b[3], lastRunAt: b[4], runs: b[5], readings: b[6], rework: b[7], checks: byBoard.get(b[0]) ?? {} };
       }
       return { schemaVersion: indexSchemaVersion, boards: out, damaged: [] };
