@@ -31,7 +31,7 @@ export async function main(argv: readonly string[], io: CommandIo): Promise<numb
       return 0;
     }
     if (first === undefined || first.startsWith('--')) {
-      const { tuiCommand } = await import('../ui/main.js');
+      const { tuiCommand } = await import('./tui.js');
       return await tuiCommand(argv, io);
     }
     const load = commands[first];

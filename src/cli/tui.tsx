@@ -1,11 +1,11 @@
 import { render } from 'ink';
-import type { Command } from '../cli/command.js';
-import { resolveLogDir } from '../cli/log-dir.js';
+import type { Command } from './command.js';
+import { resolveLogDir } from './log-dir.js';
 import { openLog } from '../log/store.js';
 import { loadPlanFile } from '../plan/load.js';
-import { App } from './app.js';
-import { PlanCatalog } from './bench/plan-catalog.js';
-import { UsageError } from '../cli/errors.js';
+import { App } from '../ui/app.js';
+import { PlanCatalog } from '../ui/bench/plan-catalog.js';
+import { UsageError } from './errors.js';
 
 export const tuiUsage = 'probebook [--log DIR] [--plan FILE]... [--operator NAME]';
 
