@@ -1,4 +1,3 @@
-import { existsSync } from 'node:fs';
 import { openLog } from '../log/store.js';
 import type { LogIndex } from '../log/types.js';
 import type { BandSource } from '../review/bands.js';
@@ -7,16 +6,17 @@ import { batchJson } from '../review/batch-json.js';
 import type { BatchFigures } from '../review/batch-types.js';
 import { describeFilter, parseDateBound, type BatchFilter } from '../review/filter.js';
 import { cell, cpkWord, fig, index2, pct, rcell } from '../review/format.js';
-import { bandCacheWarnings, planBandSource, resolveCacheDir } from '../ui/batch/plan-bands.js';
+import { planBandSource } from '../ui/batch/plan-bands.js';
 import { parseArgs, type ParsedArgs } from './args.js';
 import type { Command, CommandIo } from './command.js';
 import { UsageError } from './errors.js';
 import { resolveLogDir } from './log-dir.js';
+import { cacheHelp, targetsCacheFor } from './targets-cache.js';
 
 /** Options every batch view shares (the shell table, the JSON and the reports). */
-export const batchOptions = { plan: 'string', rev: 'string', check: 'string', from: 'string', to: 'string', log: 'string' } as const;
+export const batchOptions = { plan: 'string', rev: 'string', check: 'string', from: 'string', to: 'string', log: 'string', cache: 'string' } as const;
 
-const usage = 'probebook batch [--plan ID] [--rev HASH] [--check ID] [--from DATE] [--to DATE] [--json] [--log DIR]';
+const usage = 'probebook batch [--plan ID] [--rev HASH] [--check ID] [--from DATE] [--to DATE] [--json] [--log DIR] [--cache DIR]';
 
 /** The filter the options describe, or a UsageError that says what to type. */
 function filterFromOptions(options: ParsedArgs['options']): BatchFilter {
@@ -73,8 +73,7 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
   const filter = filterFromOptions(options);
   const dir = resolveLogDir(options.log, io.env);
   // A review only reads: a mistyped --log must not leave an empty log behind.
-  if (!existsSync(dir)) throw new UsageError(`there is no log at ${dir}; pass --log DIR of an existing log (or record readings first)`);
-  const log = await openLog(dir);
+  const log = await openLog(dir, { isReadOnly: true });
   let shown = 0;
   const index = await log.readIndex((done, total) => {
     // A rebuild of thousands of boards takes a while: say so every tenth.
@@ -85,18 +84,14 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
   });
   checkFilterAgainstIndex(index, filter, dir);
   let said = -1;
-  const bands = planBandSource(log, {
-    cacheDir: resolveCacheDir(io.env),
-    onProgress: (hash, done, total) => {
-      // The first review of a new plan revision runs its Monte Carlo once (then cached).
-      const tenth = Math.floor((10 * done) / total);
-      if (tenth === said) return;
-      said = tenth;
-      io.stderr(`computing the targets of plan snapshot ${hash.slice(0, 12)} (once, then cached): ${tenth * 10} %\n`);
-    },
+  const bands = planBandSource(log, targetsCacheFor(options.cache, io), (hash, done, total) => {
+    // The first review of a new plan revision runs its Monte Carlo once (then cached).
+    const tenth = Math.floor((10 * done) / total);
+    if (tenth === said) return;
+    said = tenth;
+    io.stderr(`computing the targets of plan snapshot ${hash.slice(0, 12)} (once, then cached): ${tenth * 10} %\n`);
   });
   const figures = await loadBatch(index, bands, filter);
-  for (const w of bandCacheWarnings()) io.stderr(`probebook: warning: ${w}\n`);
   return { figures, filter, dir };
 }
 
@@ -132,14 +127,15 @@ function batchTable(f: BatchFigures, filter: BatchFilter): string {
 }
 
 /** What `batch --help` prints. */
-const batchHelpText = `${usage}
+const batchHelpText = `usage: ${usage}
   the latest reading of each check on each board: n, pass/marginal/fail, mean, sd,
   min, max, Cp and Cpk against the worst-case band, first-pass and final yield;
   the table lists the weakest check first, --json prints {"checks":[…]} in plan order.
   --plan ID      one plan            --rev HASH   one plan revision (4+ hex digits)
   --check ID     one check           --from/--to  date range of the latest reading
                                                   (2026-11-30 or 2026-11-30T14:00:00Z, UTC)
-`;
+  --log DIR      the log to read (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook); only read, never created
+${cacheHelp}`;
 
 export const batchCommand: Command = async (argv, io) => {
   if (argv.includes('--help') || argv.includes('-h')) {

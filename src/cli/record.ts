@@ -1,5 +1,5 @@
 import { nextCheck } from '../analysis/next-check.js';
-import { computeTargets } from '../analysis/targets.js';
+import { defaultSeed, defaultTrials } from '../analysis/targets.js';
 import type { Band, Target, TargetSet, Verdict } from '../analysis/types.js';
 import { uncertaintyFor, verdictFor } from '../analysis/verdict.js';
 import { validateSerial } from '../log/serial.js';
@@ -14,8 +14,9 @@ import { parseArgs } from './args.js';
 import type { Command } from './command.js';
 import { UsageError } from './errors.js';
 import { resolveLogDir } from './log-dir.js';
+import { cacheHelp, targetsCacheFor } from './targets-cache.js';
 
-const usage = 'probebook record --plan PLAN --board SERIAL --check ID --value TEXT [--operator NAME] [--json] [--log DIR]';
+const usage = 'probebook record --plan PLAN --board SERIAL --check ID --value TEXT [--operator NAME] [--json] [--log DIR] [--cache DIR]';
 
 /** The reading as `record --json` and `history --json` print it (DESIGN §7); ±∞ (an open circuit) as null. */
 export function readingJson(r: Reading) {
@@ -152,11 +153,11 @@ function findTarget(set: TargetSet, plan: Plan, check: string): Target {
  */
 export const recordCommand: Command = async (argv, io) => {
   const args = parseArgs(argv, {
-    options: { plan: 'string', board: 'string', check: 'string', value: 'string', operator: 'string', json: 'boolean', log: 'string', help: 'boolean' },
+    options: { plan: 'string', board: 'string', check: 'string', value: 'string', operator: 'string', json: 'boolean', log: 'string', cache: 'string', help: 'boolean' },
     usage,
   });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\nCaution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`);
+    io.stdout(`usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\n  --log DIR      the log to write (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook)\n${cacheHelp}Caution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`);
     return 0;
   }
   const need = (name: string): string => {
@@ -167,15 +168,16 @@ export const recordCommand: Command = async (argv, io) => {
   const [planFile, serial, check, text] = [need('plan'), need('board').trim(), need('check').trim(), need('value')];
   const serialProblem = validateSerial(serial);
   if (serialProblem) throw new UsageError(`--board: ${serialProblem}`);
+  const dir = resolveLogDir(args.options.log, io.env);
   const plan = await loadPlanFile(planFile, { cwd: io.cwd });
-  const set = computeTargets(plan);
+  // The plan's targets come from the one cache (computed once per plan revision and build).
+  const set = targetsCacheFor(args.options.cache, io).forPlan(plan, { trials: defaultTrials, seed: defaultSeed });
   const target = findTarget(set, plan, check);
   const value = readValue(text, target);
   // An open circuit (OL) is beyond the meter's range, not a figure with a relative error: no guard band.
   const result = verdictFor(target, value, Number.isFinite(value) ? uncertaintyFor(plan, check, target.unit) : undefined);
   const operator = operatorOf(args.options.operator, io.env);
 
-  const dir = resolveLogDir(args.options.log, io.env);
   const log = await openLog(dir);
   // The skipped-safety warnings are judged under the board's lock, from the run's readings as saved.
   const saved = await log.appendToOpenRun(

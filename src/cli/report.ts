@@ -8,9 +8,10 @@ import { parseArgs } from './args.js';
 import type { Command } from './command.js';
 import { UsageError } from './errors.js';
 import { boardBands, loadBoard, localTime, utcOffset } from './history.js';
+import { cacheHelp, targetsCacheFor } from './targets-cache.js';
 import { bandWords, deviationWords } from './record.js';
 
-const usage = 'probebook report SERIAL --format md|csv [--log DIR]   (or report --batch …, see probebook report --batch --help)';
+const usage = 'probebook report SERIAL --format md|csv [--log DIR] [--cache DIR]   (or report --batch …, see probebook report --batch --help)';
 
 export const reportCautions =
   'Cautions: check every rail to ground with the power off before first power; apply first power through a current-limited supply; ' +
@@ -153,9 +154,9 @@ export function boardMarkdown(board: BoardFile, bands: ReadonlyMap<string, Snaps
 /** `probebook report SERIAL --format md|csv` (DESIGN §7); `report --batch …` goes to the batch report. */
 export const reportCommand: Command = async (argv, io) => {
   if (argv.includes('--batch')) return (await import('./report-batch.js')).reportBatchCommand(argv, io);
-  const args = parseArgs(argv, { options: { format: 'string', log: 'string', help: 'boolean' }, positionals: [0, 1], usage });
+  const args = parseArgs(argv, { options: { format: 'string', log: 'string', cache: 'string', help: 'boolean' }, positionals: [0, 1], usage });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  --format md    a traveler to print: board, plan revision, runs, every reading with its band and verdict, rework notes (default)\n  --format csv   one row per reading (RFC 4180) for a spreadsheet: ${boardCsvColumns.join(', ')}\n`);
+    io.stdout(`usage: ${usage}\n  --format md    a traveler to print: board, plan revision, runs, every reading with its band and verdict, rework notes (default)\n  --format csv   one row per reading (RFC 4180) for a spreadsheet: ${boardCsvColumns.join(', ')}\n  --log DIR      the log to read (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook); only read, never created\n${cacheHelp}`);
     return 0;
   }
   const format = args.options.format ?? 'md';
@@ -172,7 +173,7 @@ export const reportCommand: Command = async (argv, io) => {
       return text;
     },
   };
-  const { bands, problems } = await boardBands(snapshots, board, io.env);
+  const { bands, problems } = await boardBands(snapshots, board, targetsCacheFor(args.options.cache, io));
   if (format === 'csv') io.stdout(boardCsv(board, bands));
   else {
     const titles = new Map<string, string | null>();

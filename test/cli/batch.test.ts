@@ -94,7 +94,7 @@ describe('batch table', () => {
     const missing = join(t.dir, 'no-such-log');
     const r = await run(['batch', '--log', missing]);
     expect(r.status).toBe(2);
-    expect(r.stderr).toBe(`probebook: there is no log at ${missing}; pass --log DIR of an existing log (or record readings first)\n`);
+    expect(r.stderr).toBe(`probebook: there is no log at ${missing}; check --log (or $PROBEBOOK_LOG), or record a reading first\n`);
     expect(existsSync(missing)).toBe(false);
   });
 

@@ -1,12 +1,17 @@
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { main } from '../../src/cli/main.js';
+
+/** A targets cache of this test file's own: no test writes into the user's cache folder. */
+const cacheDir = mkdtempSync(join(tmpdir(), 'probebook-cache-'));
 
 /** Run in-process with captured output, from the repository root. */
 async function run(args: readonly string[]): Promise<{ status: number; stdout: string; stderr: string }> {
   let stdout = '';
   let stderr = '';
-  const status = await main(args, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t), env: {}, cwd: process.cwd() });
+  const status = await main(args, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t), env: { PROBEBOOK_CACHE: cacheDir }, cwd: process.cwd() });
   return { status, stdout, stderr };
 }
 

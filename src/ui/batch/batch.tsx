@@ -17,8 +17,8 @@ import { batchPanels, selectedCheck, useBatchState } from './use-batch-state.js'
 const panelLabel = { histogram: 'Histogram', trend: 'Trend', outliers: 'Outliers' } as const;
 
 /** Every check across the boards: yield, spread, capability, with histogram, trend and outliers. */
-export function BatchScreen({ log, width, height, isActive = true, onExit, onOpenBoard, onTypingChange }: BatchProps) {
-  const { state, dispatch } = useBatchState(log);
+export function BatchScreen({ log, width, height, isActive = true, onExit, onOpenBoard, onTypingChange, targetsCache }: BatchProps) {
+  const { state, dispatch } = useBatchState(log, targetsCache);
   const isTyping = state.form !== null && state.form !== undefined;
   useEffect(() => onTypingChange?.(isTyping), [isTyping, onTypingChange]);
   const rest = Math.max(6, height - 6);

@@ -5,7 +5,8 @@ import type { BenchLog } from '../../log/types.js';
 import { weakestFirst } from '../../review/batch.js';
 import type { BatchCheck, BatchFigures } from '../../review/batch-types.js';
 import type { BatchFilter } from '../../review/filter.js';
-import { planBandSource } from './plan-bands.js';
+import type { TargetsCache } from '../../log/targets-cache.js';
+import { memoryTargetsCache, planBandSource } from './plan-bands.js';
 import { scanBatch } from './scan-batch.js';
 import { applyForm, formFromFilter, type FilterForm } from './filter-form-state.js';
 
@@ -116,11 +117,14 @@ export function batchReducer(state: BatchState, action: BatchAction): BatchState
 }
 
 /** Load the index once, then rescan the in-memory index whenever the filter changes. */
-export function useBatchState(log: BenchLog) {
+export function useBatchState(log: BenchLog, targetsCache?: TargetsCache) {
   const [state, dispatch] = useReducer(batchReducer, initialBatchState);
   const bands = useMemo(
-    () => planBandSource(log, { onProgress: (_hash, done, total) => dispatch({ type: 'progress', done, total, what: 'computing targets of a plan revision (once, then cached)' }) }),
-    [log],
+    () =>
+      planBandSource(log, targetsCache ?? memoryTargetsCache(), (_hash, done, total) =>
+        dispatch({ type: 'progress', done, total, what: 'computing targets of a plan revision (once, then cached)' }),
+      ),
+    [log, targetsCache],
   );
   const index = useRef<LogIndex | null>(null);
   const [loaded, markLoaded] = useReducer((n: number) => n + 1, 0);
