@@ -110,7 +110,7 @@ export function boardMarkdown(board: BoardFile, bands: ReadonlyMap<string, Snaps
   if (board.runs.length === 0) out.push('No runs yet.', '');
   else {
     out.push('| # | run | started | ended | operator | outcome | plan revision |', '| ---: | --- | --- | --- | --- | --- | --- |');
-    board.runs.forEach((r, i) => out.push(`| ${i + 1} | ${r.id} | ${localTime(r.started)} | ${r.ended ? localTime(r.ended) : '—'} | ${mdCell(r.operator)} | ${r.outcome} | \`${r.planHash.slice(0, 12)}\` |`));
+    for (const [i, r] of board.runs.entries()) out.push(`| ${i + 1} | ${r.id} | ${localTime(r.started)} | ${r.ended ? localTime(r.ended) : '—'} | ${mdCell(r.operator)} | ${r.outcome} | \`${r.planHash.slice(0, 12)}\` |`);
     out.push('');
   }
 

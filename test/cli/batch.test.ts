@@ -39,7 +39,7 @@ describe('batch --json', () => {
     // PB-0003 failed first, PB-0006 fails still: first-pass 4 of 6, final 5 of 6.
     expect(freq?.firstPassYield as number).toBeCloseTo(4 / 6, 12);
     expect(freq?.finalYield as number).toBeCloseTo(5 / 6, 12);
-    expect((freq?.outliers as { serial: string }[]).map((o) => o.serial)).toEqual(['PB-0006']);
+    expect(((freq?.outliers ?? []) as { serial: string }[]).map((o) => o.serial)).toEqual(['PB-0006']);
   });
 
   test('zero spread gives sd 0, null cp and cpk and a no-spread status, never NaN', async () => {
