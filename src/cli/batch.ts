@@ -5,7 +5,7 @@ import { batchFigures, revisionsOf, weakestFirst } from '../review/batch.js';
 import { batchJson } from '../review/batch-json.js';
 import type { BatchFigures } from '../review/batch-types.js';
 import { describeFilter, parseDateBound, type BatchFilter } from '../review/filter.js';
-import { cell, cpkWord, fig, index2, pct, rcell } from '../review/format.js';
+import { padCell, cpkWord, formatFigure, formatIndex, formatPercent, padCellRight } from '../review/format.js';
 import { planBandSource } from '../ui/batch/plan-bands.js';
 import { parseArgs, type ParsedArgs } from './args.js';
 import type { Command, CommandIo } from './command.js';
@@ -99,17 +99,17 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
 function batchTable(f: BatchFigures, filter: BatchFilter): string {
   const lines: string[] = [];
   lines.push(`batch · ${describeFilter(filter)} · ${f.boards} board${f.boards === 1 ? '' : 's'}${f.incomplete ? ` (${f.incomplete} not through every check)` : ''}`);
-  lines.push(`first-pass yield ${pct(f.firstPassYield)} (${f.firstPassBoards}/${f.boards}) · final yield ${pct(f.finalYield)} (${f.finalPassBoards}/${f.boards})`);
+  lines.push(`first-pass yield ${formatPercent(f.firstPassYield)} (${f.firstPassBoards}/${f.boards}) · final yield ${formatPercent(f.finalYield)} (${f.finalPassBoards}/${f.boards})`);
   if (f.checks.length === 0) {
     lines.push('no readings match; widen the filter or record some readings first');
     return `${lines.join('\n')}\n`;
   }
   lines.push('');
-  lines.push(`${cell('check (weakest first)', 24)}${rcell('n', 7)}${rcell('pass', 7)}${rcell('marg', 7)}${rcell('fail', 7)}${rcell('final', 8)}${rcell('mean', 12)}${rcell('sd', 11)}${rcell('Cp', 6)}${rcell('Cpk', 6)}  capability`);
+  lines.push(`${padCell('check (weakest first)', 24)}${padCellRight('n', 7)}${padCellRight('pass', 7)}${padCellRight('marg', 7)}${padCellRight('fail', 7)}${padCellRight('final', 8)}${padCellRight('mean', 12)}${padCellRight('sd', 11)}${padCellRight('Cp', 6)}${padCellRight('Cpk', 6)}  capability`);
   for (const c of [...f.checks].sort(weakestFirst)) {
     const word = c.status === 'ok' || c.status === 'one-sided' ? cpkWord(c.cpk) : c.status === 'no-band' ? 'no band' : 'not enough data';
     lines.push(
-      `${cell(c.check, 24)}${rcell(String(c.n), 7)}${rcell(String(c.pass), 7)}${rcell(String(c.marginal), 7)}${rcell(String(c.fail), 7)}${rcell(pct(c.finalYield), 8)}${rcell(fig(c.mean, c.unit), 12)}${rcell(fig(c.sd, c.unit, 3), 11)}${rcell(index2(c.cp), 6)}${rcell(index2(c.cpk), 6)}  ${word}`,
+      `${padCell(c.check, 24)}${padCellRight(String(c.n), 7)}${padCellRight(String(c.pass), 7)}${padCellRight(String(c.marginal), 7)}${padCellRight(String(c.fail), 7)}${padCellRight(formatPercent(c.finalYield), 8)}${padCellRight(formatFigure(c.mean, c.unit), 12)}${padCellRight(formatFigure(c.sd, c.unit, 3), 11)}${padCellRight(formatIndex(c.cp), 6)}${padCellRight(formatIndex(c.cpk), 6)}  ${word}`,
     );
   }
   const plans = new Set(f.checks.map((c) => c.plan));
@@ -117,7 +117,7 @@ function batchTable(f: BatchFigures, filter: BatchFilter): string {
   const notes = f.checks.filter((c) => c.status !== 'ok');
   for (const c of notes) lines.push(`${c.check}: ${c.note}`);
   for (const c of f.checks.filter((x) => x.bandsDiffer)) lines.push(`${c.check}: boards of older plan revisions were judged against a different band`);
-  const outliers = f.checks.flatMap((c) => c.outliers.map((o) => `${o.serial} (${c.check} ${fig(o.value, c.unit)}, ${o.reasons.join(', ')})`));
+  const outliers = f.checks.flatMap((c) => c.outliers.map((o) => `${o.serial} (${c.check} ${formatFigure(o.value, c.unit)}, ${o.reasons.join(', ')})`));
   if (outliers.length > 0) {
     lines.push('', `outlier boards (${outliers.length}): ${outliers.slice(0, 8).join('; ')}${outliers.length > 8 ? '; …' : ''}`);
     lines.push('open one with: probebook history SERIAL');

@@ -11,7 +11,7 @@ import type { Command, CommandIo } from './command.js';
 import { UsageError } from './errors.js';
 import { resolveLogDir } from './log-dir.js';
 import { cacheHelp, targetsCacheFor } from './targets-cache.js';
-import { bandWords, closeChecks, deviationWords, readingJson } from './record.js';
+import { bandWords, closeMatches, deviationWords, readingJson } from './record.js';
 
 const usage = 'probebook history SERIAL [--json] [--log DIR] [--cache DIR]';
 
@@ -25,7 +25,7 @@ export async function loadBoard(serial: string, logFlag: string | boolean | unde
   const board = await log.readBoard(serial);
   if (board) return { log, board, dir };
   const known = Object.keys((await log.readIndex()).boards);
-  const close = closeChecks(serial, known);
+  const close = closeMatches(serial, known);
   const hint = known.length === 0 ? 'the log has no boards yet (record a reading first, or pass --log DIR)' : close.length > 0 ? `close ones: ${close.join(', ')}` : `it has ${known.length} board${known.length === 1 ? '' : 's'}, e.g. ${known.slice(0, 3).join(', ')}`;
   throw new UsageError(`no board ${serial} in ${dir}; ${hint}`);
 }

@@ -40,7 +40,7 @@ function editDistance(a: string, b: string): number {
 }
 
 /** Check ids of the plan that look like `typed`: same stage, or a few edits away. */
-export function closeChecks(typed: string, ids: readonly string[]): string[] {
+export function closeMatches(typed: string, ids: readonly string[]): string[] {
   const stage = typed.split('.')[0] ?? '';
   return ids
     .map((id) => ({ id, d: editDistance(typed.toLowerCase(), id.toLowerCase()) - (id.startsWith(`${stage}.`) ? 2 : 0) }))
@@ -141,7 +141,7 @@ function outcomeOf(done: ReadonlyMap<string, Verdict>): RunOutcome {
 function findTarget(set: TargetSet, plan: Plan, check: string): Target {
   const target = set.targets.find((t) => t.check === check);
   if (target) return target;
-  const close = closeChecks(check, set.targets.map((t) => t.check));
+  const close = closeMatches(check, set.targets.map((t) => t.check));
   throw new UsageError(`no check ${JSON.stringify(check)} in plan ${plan.file}; ${close.length ? `close ones: ${close.join(', ')}` : 'probebook targets PLAN lists them'}; nothing was saved`);
 }
 

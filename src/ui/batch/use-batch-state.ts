@@ -73,8 +73,9 @@ export function batchReducer(state: BatchState, action: BatchAction): BatchState
       return { ...state, status: 'scanning', progress: null };
     case 'figures': {
       const rows = [...action.figures.checks].sort(weakestFirst);
-      const keep = rows.findIndex((c) => c.check === selectedCheck(state)?.check && c.plan === selectedCheck(state)?.plan);
-      return { ...state, status: 'ready', progress: null, figures: action.figures, rows, selected: keep >= 0 ? keep : 0, outlierSelected: 0 };
+      // The check selected before the rescan stays selected when it is still listed.
+      const stillSelected = rows.findIndex((c) => c.check === selectedCheck(state)?.check && c.plan === selectedCheck(state)?.plan);
+      return { ...state, status: 'ready', progress: null, figures: action.figures, rows, selected: stillSelected >= 0 ? stillSelected : 0, outlierSelected: 0 };
     }
     case 'failed':
       return { ...state, status: 'error', message: action.message };
