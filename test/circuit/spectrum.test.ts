@@ -52,3 +52,18 @@ describe('fastThd (one real FFT) against the THD definition', () => {
     expect(fastThd(new Float64Array(200))).toBeNaN();
   });
 });
+
+describe('the record length is even: its last bin lies exactly at half the sample rate', () => {
+  // Eight samples of a unit sine plus 0.3·(−1)^n: bin 4 of 8 is exactly fs/2, no
+  // harmonic (Nyquist–Shannon); harmonics 2 and 3 are zero, so the THD is 0.
+  // Invented values; worked by hand.
+  const samples = Float64Array.from({ length: 8 }, (_, i) => Math.sin((2 * Math.PI * i) / 8) + 0.3 * (i % 2 === 0 ? 1 : -1));
+
+  test('fastThd (FFT path) leaves the fs/2 bin out', () => {
+    expect(fastThd(samples)).toBeLessThan(1e-12);
+  });
+
+  test('thd() (direct path) leaves it out too', () => {
+    expect(thd({ frequency: 1e3, samples })).toBeLessThan(1e-12);
+  });
+});
