@@ -123,6 +123,26 @@ describe('edges per IEEE Std 181-2011', () => {
     expect(Math.abs((m.duty ?? 0) - 0.5)).toBeLessThan(1e-3);
   });
 
+  test('an asymmetric edge: the fall is measured on the falling edges, not copied from the rise', () => {
+    // Invented edges: rising with τ = 2 µs, falling with τ = 6 µs (a pull-up
+    // stronger than the pull-down). Each 10–90 % transition is ln 9 · its own τ
+    // (single-pole edge, handbook; IEEE Std 181-2011 reference levels).
+    const tauRise = 2e-6;
+    const tauFall = 6e-6;
+    const rate = 20e6;
+    const half = 250e-6;
+    const x = Float64Array.from({ length: Math.round(rate * half * 12.3) }, (_, i) => {
+      const t = i / rate + 17e-6;
+      const k = Math.floor(t / half);
+      const into = t - k * half;
+      const level = k % 2 === 0 ? 1 : -1;
+      return level - 2 * level * Math.exp(-into / (level > 0 ? tauRise : tauFall));
+    });
+    const m = measure(x, rate).measurements;
+    expect(Math.abs((m.rise ?? 0) / (Math.log(9) * tauRise) - 1)).toBeLessThan(2e-3);
+    expect(Math.abs((m.fall ?? 0) / (Math.log(9) * tauFall) - 1)).toBeLessThan(2e-3);
+  });
+
   test('overshoot of a second-order edge is exp(−ζπ/√(1−ζ²)) of the step', () => {
     const zeta = 0.5;
     const wn = 2 * Math.PI * 50e3;
