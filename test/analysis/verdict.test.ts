@@ -22,6 +22,7 @@ describe('verdict with a guard band', () => {
     const want = reading - u >= 9.5 && reading + u <= 10.5 ? 'pass' : reading + u < 9.5 || reading - u > 10.5 ? 'fail' : 'marginal';
     expect(r.verdict).toBe(want);
     expect(r.verdict).toBe(expected);
+    // U = 1 % of the reading + 20 mV, the spec above (hand arithmetic).
     expect(r.uncertainty).toBeCloseTo(u, 12);
   });
 
@@ -45,6 +46,7 @@ describe('verdict with a guard band', () => {
 
   test('deviation and position', () => {
     const r = verdictFor(band, 10.25, undefined);
+    // (10.25 − 10)/10 and (10.25 − 9.5)/(10.5 − 9.5), hand arithmetic.
     expect(r.deviation).toBeCloseTo(0.025, 12);
     expect(r.position).toBeCloseTo(0.75, 12);
   });

@@ -20,6 +20,7 @@ const expected = Math.sqrt(0.03 ** 2 + 0.1 ** 2 + 0.05 ** 2 + 0.02 ** 2);
 describe('fastThd (one real FFT) against the THD definition', () => {
   test('a synthesised tone with known harmonics, power-of-two record (FFT path)', () => {
     const w = fromPhase(1e3, tone, 256);
+    // The hand-worked RSS of the synthesised harmonics above.
     expect(fastThd(w.samples)).toBeCloseTo(expected, 12);
     // And the direct DFT of waveform.ts on the same record agrees with it.
     expect(fastThd(w.samples)).toBeCloseTo(thd(w), 12);

@@ -34,6 +34,7 @@ describe('batch --json', () => {
     const s = sampleStandardDeviation(latestFreq);
     expect(freq?.mean as number).toBeCloseTo(m, 9);
     expect(freq?.sd as number).toBeCloseTo(s, 9);
+    // NIST/SEMATECH e-Handbook §6.1.6: Cp = (USL − LSL)/(6σ), Cpk = min(USL − μ, μ − LSL)/(3σ).
     expect(freq?.cp as number).toBeCloseTo((band.max - band.min) / (6 * s), 12);
     expect(freq?.cpk as number).toBeCloseTo(Math.min(band.max - m, m - band.min) / (3 * s), 12);
     // PB-0003 failed first, PB-0006 fails still: first-pass 4 of 6, final 5 of 6.
