@@ -72,6 +72,8 @@ async function loadBatch(
 export async function runBatch(options: ParsedArgs['options'], io: CommandIo): Promise<{ figures: BatchFigures; filter: BatchFilter; dir: string }> {
   const filter = filterFromOptions(options);
   const dir = resolveLogDir(options.log, io.env);
+  // Every argument is checked before the log is opened.
+  const cache = targetsCacheFor(options.cache, io);
   // A review only reads: a mistyped --log must not leave an empty log behind.
   const log = await openLog(dir, { isReadOnly: true });
   let shown = 0;
@@ -84,7 +86,7 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
   });
   checkFilterAgainstIndex(index, filter, dir);
   let said = -1;
-  const bands = planBandSource(log, targetsCacheFor(options.cache, io), (hash, done, total) => {
+  const bands = planBandSource(log, cache, (hash, done, total) => {
     // The first review of a new plan revision runs its Monte Carlo once (then cached).
     const tenth = Math.floor((10 * done) / total);
     if (tenth === said) return;

@@ -112,12 +112,14 @@ export const historyCommand: Command = async (argv, io) => {
   }
   const serial = args.positionals[0];
   if (serial === undefined) throw new UsageError(`missing argument SERIAL; usage: ${usage}`);
+  // Every argument is checked before the log is opened (nothing touches the disk until then).
+  const cache = targetsCacheFor(args.options.cache, io);
   const { log, board, dir } = await loadBoard(serial, args.options.log, io);
   if (args.options.json) {
     io.stdout(`${JSON.stringify(historyJson(board))}\n`);
     return 0;
   }
-  const { bands, problems } = await boardBands(log, board, targetsCacheFor(args.options.cache, io));
+  const { bands, problems } = await boardBands(log, board, cache);
   io.stdout(historyText(board, bands, dir));
   for (const p of problems) io.stderr(`probebook: warning: ${p}\n`);
   return 0;

@@ -163,6 +163,8 @@ export const reportCommand: Command = async (argv, io) => {
   if (format !== 'md' && format !== 'csv') throw new UsageError(`--format ${JSON.stringify(format)} is not known; use md (a printable traveler) or csv (a spreadsheet)`);
   const serial = args.positionals[0];
   if (serial === undefined) throw new UsageError(`missing argument SERIAL; usage: ${usage}`);
+  // Every argument is checked before the log is opened.
+  const cache = targetsCacheFor(args.options.cache, io);
   const { log, board, dir } = await loadBoard(serial, args.options.log, io);
   // The bands and the plan titles both need each snapshot's text: read each file once.
   const texts = new Map<string, Promise<string | null>>();
@@ -173,7 +175,7 @@ export const reportCommand: Command = async (argv, io) => {
       return text;
     },
   };
-  const { bands, problems } = await boardBands(snapshots, board, targetsCacheFor(args.options.cache, io));
+  const { bands, problems } = await boardBands(snapshots, board, cache);
   if (format === 'csv') io.stdout(boardCsv(board, bands));
   else {
     const titles = new Map<string, string | null>();
