@@ -115,10 +115,17 @@ describe('--log and --cache on the command line (issue 10 items 7 and 9)', () =>
     [['batch', '--log', '']],
     [['report', 'H-001', '--log=']],
     [['targets', biasPlan, '--log=']],
+    [['analyze', 'demo/captures/exciter-sine.csv', '--log=']],
   ])('an empty --log is refused with one line: %j', async (argv) => {
     const r = await cli(argv, env);
     expect(r.status).toBe(2);
     expect(r.stderr).toBe('probebook: --log needs a folder (or a PostgreSQL URL); leave it out to use $PROBEBOOK_LOG or the data folder\n');
+  });
+
+  test('the bench screen refuses an empty --log too, in one line, before it needs a terminal', async () => {
+    const r = await cli(['--log='], env);
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatch(/^probebook: --log needs a value; usage: probebook \[--log DIR\][^\n]*\n$/);
   });
 
   test('history and report keep their targets in --cache DIR, not in PROBEBOOK_CACHE; an edited entry is recomputed and said once', async () => {
