@@ -8,7 +8,7 @@ import { buildSync } from 'esbuild';
 import { describe, expect, test, vi } from 'vitest';
 import { computeTargets } from '../../src/analysis/targets.js';
 import type { TargetSet } from '../../src/analysis/types.js';
-import { buildId, hashTree } from '../../src/log/build-id.js';
+import { buildId, hashTree, unstampedId } from '../../src/log/build-id.js';
 import { resolveCacheDir } from '../../src/log/cache-dir.js';
 import { TargetsCache } from '../../src/log/targets-cache.js';
 import { xdgBase } from '../../src/log/xdg.js';
@@ -198,6 +198,22 @@ describe('the build id and the folders', () => {
     const before = hashTree(root, ['src', 'data']);
     writeFileSync(join(root, 'data', 'table.json'), '[2]\n');
     expect(hashTree(root, ['src', 'data'])).not.toBe(before);
+  });
+
+  test('bundled without a stamp and away from the sources: the running file\'s hash, else a fresh id', () => {
+    const dir = tempDir('bundle');
+    const file = join(dir, 'chunk.js');
+    writeFileSync(file, 'export const model = 1;\n');
+    const first = unstampedId(file);
+    expect(first).toMatch(/^file-[0-9a-f]{16}$/);
+    writeFileSync(file, 'export const model = 2;\n');
+    expect(unstampedId(file)).not.toBe(first);
+    // A file that cannot be read: an id of its own, never one shared with another process.
+    const missing = join(dir, 'gone.js');
+    expect(unstampedId(missing)).toMatch(/^process-[0-9a-f]{16}$/);
+    expect(unstampedId(missing)).not.toBe(unstampedId(missing));
+    // In the checkout, the sources' hash.
+    expect(unstampedId(fileURLToPath(new URL('../../src/log/build-id.ts', import.meta.url)))).toBe(buildId());
   });
 
   test('cache folder: --cache, then PROBEBOOK_CACHE, then an absolute XDG_CACHE_HOME (a relative one is ignored, XDG Base Directory Specification)', () => {
