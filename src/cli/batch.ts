@@ -1,4 +1,4 @@
-import { openLog } from '../log/store.js';
+import { openStore } from '../log/open-store.js';
 import type { LogIndex } from '../log/types.js';
 import type { BandSource } from '../review/bands.js';
 import { batchFigures, revisionsOf, weakestFirst } from '../review/batch.js';
@@ -75,7 +75,7 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
   // Every argument is checked before the log is opened.
   const cache = targetsCacheFor(options.cache, io);
   // A review only reads: a mistyped --log must not leave an empty log behind.
-  const log = await openLog(dir, { isReadOnly: true });
+  const log = await openStore(dir, { mustExist: true });
   let shown = 0;
   const index = await log.readIndex((done, total) => {
     // A rebuild of thousands of boards takes a while: say so every tenth.
@@ -84,7 +84,7 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
       io.stderr(`reading board files for the index: ${done} of ${total}\n`);
     }
   });
-  checkFilterAgainstIndex(index, filter, dir);
+  checkFilterAgainstIndex(index, filter, log.dir);
   let said = -1;
   const bands = planBandSource(log, cache, (hash, done, total) => {
     // The first review of a new plan revision runs its Monte Carlo once (then cached).
@@ -94,7 +94,7 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
     io.stderr(`computing the targets of plan snapshot ${hash.slice(0, 12)} (once, then cached): ${tenth * 10} %\n`);
   });
   const figures = await loadBatch(index, bands, filter);
-  return { figures, filter, dir };
+  return { figures, filter, dir: log.dir };
 }
 
 /** The readable table: weakest check first. */
