@@ -41,9 +41,9 @@ describe('CaptureAttach', () => {
     const onDone = vi.fn<(r: CaptureAttachResult) => void>();
     const onCancel = vi.fn();
     const ui = render(<CaptureAttach onDone={onDone} onCancel={onCancel} expect="sine" cwd={dir} width={70} />);
-    const { stdin, lastFrame, unmount } = ui;
+    const { stdin, unmount } = ui;
     await waitForFrame(ui, 'Attach a capture');
-    expect(lastFrame()).toContain('Attach a capture (CSV or WAV), expecting a sine');
+    expect(ui.lastFrame()).toContain('Attach a capture (CSV or WAV), expecting a sine');
     await writeAndWait(ui, 'scope/dr');
     stdin.write(keys.tab);
     await frameWith(ui, 'file: scope/driver-notch.tsv');
@@ -69,7 +69,7 @@ describe('CaptureAttach', () => {
 
   test('several matches are listed; a bad file shows its reason and keeps the path for editing', async () => {
     const ui = render(<CaptureAttach onDone={() => {}} onCancel={() => {}} cwd={dir} />);
-    const { stdin, lastFrame, unmount } = ui;
+    const { stdin, unmount } = ui;
     await waitForFrame(ui, 'Attach a capture');
     await writeAndWait(ui, 'scope/osc-');
     stdin.write(keys.tab);
@@ -88,7 +88,7 @@ describe('CaptureAttach', () => {
     const onCancel = vi.fn();
     const onDone = vi.fn();
     const ui = render(<CaptureAttach onDone={onDone} onCancel={onCancel} cwd={dir} />);
-    const { stdin, lastFrame, unmount } = ui;
+    const { stdin, unmount } = ui;
     await waitForFrame(ui, 'Attach a capture');
     await writeAndWait(ui, 'scope/osc-square.csv --channel 2');
     stdin.write(keys.enter);
@@ -105,7 +105,7 @@ describe('CaptureAttach', () => {
 
   test('a missing file and a bad setting are messages, not crashes', async () => {
     const ui = render(<CaptureAttach onDone={() => {}} onCancel={() => {}} cwd={dir} />);
-    const { stdin, lastFrame, unmount } = ui;
+    const { stdin, unmount } = ui;
     await waitForFrame(ui, 'Attach a capture');
     await writeAndWait(ui, 'nope.csv');
     stdin.write(keys.enter);
@@ -123,11 +123,11 @@ describe('CaptureAttach', () => {
   test('keys are ignored while inactive', async () => {
     const onCancel = vi.fn();
     const ui = render(<CaptureAttach onDone={() => {}} onCancel={onCancel} cwd={dir} isActive={false} />);
-    const { stdin, lastFrame, unmount } = ui;
+    const { stdin, unmount } = ui;
     await waitForFrame(ui, 'Attach a capture');
     stdin.write('abc');
     await writeAndWait(ui, keys.escape);
-    expect(lastFrame()).not.toContain('abc');
+    expect(ui.lastFrame()).not.toContain('abc');
     expect(onCancel).not.toHaveBeenCalled();
     unmount();
   });

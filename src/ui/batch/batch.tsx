@@ -1,7 +1,7 @@
 import { Box, Text } from 'ink';
 import { useEffect } from 'react';
 import { describeFilter } from '../../review/filter.js';
-import { fig as figure, pct as percent } from '../../review/format.js';
+import { formatFigure, formatPercent } from '../../review/format.js';
 import { Header } from '../components/header.js';
 import { HelpBox } from '../components/help-box.js';
 import { KeyBar } from '../components/key-bar.js';
@@ -17,8 +17,8 @@ import { batchPanels, selectedCheck, useBatchState } from './use-batch-state.js'
 const panelLabel = { histogram: 'Histogram', trend: 'Trend', outliers: 'Outliers' } as const;
 
 /** Every check across the boards: yield, spread, capability, with histogram, trend and outliers. */
-export function BatchScreen({ log, width, height, isActive = true, onExit, onOpenBoard, onTypingChange }: BatchProps) {
-  const { state, dispatch } = useBatchState(log);
+export function BatchScreen({ log, width, height, isActive = true, onExit, onOpenBoard, onTypingChange, targetsCache }: BatchProps) {
+  const { state, dispatch } = useBatchState(log, targetsCache);
   const isTyping = state.form !== null && state.form !== undefined;
   useEffect(() => onTypingChange?.(isTyping), [isTyping, onTypingChange]);
   const rest = Math.max(6, height - 6);
@@ -27,7 +27,7 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
   const { cursor, isFormHelpOpen } = useBatchKeys(state, dispatch, { onExit, onOpenBoard, onTypingChange }, tableRows, isActive);
   const figures = state.figures;
   const check = selectedCheck(state);
-  const note = figures ? `${figures.boards} boards · first-pass ${percent(figures.firstPassYield)} · final ${percent(figures.finalYield)}` : '';
+  const note = figures ? `${figures.boards} boards · first-pass ${formatPercent(figures.firstPassYield)} · final ${formatPercent(figures.finalYield)}` : '';
   let body;
   if (state.isHelpOpen) body = <HelpBox title="batch" entries={batchHelp} notes={batchNotes} width={width} />;
   else if (state.form && isFormHelpOpen) body = <HelpBox title="batch" topic="the filter form" entries={filterFormHelp} notes={filterFormNotes} width={width} />;
@@ -42,7 +42,7 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
       <>
         <BatchTable rows={state.rows} selected={state.selected} height={tableRows} width={width} />
         <Text wrap="truncate-end">
-          {`${check.check}: mean ${figure(check.mean, check.unit)} · sd ${figure(check.sd, check.unit, 3)} · min ${figure(check.min, check.unit)} · max ${figure(check.max, check.unit)}`}
+          {`${check.check}: mean ${formatFigure(check.mean, check.unit)} · sd ${formatFigure(check.sd, check.unit, 3)} · min ${formatFigure(check.min, check.unit)} · max ${formatFigure(check.max, check.unit)}`}
         </Text>
         <Text wrap="truncate-end">
           {batchPanels.map((p) => (

@@ -1,4 +1,4 @@
-import { useCallback, useEffect, useRef } from 'react';
+import { useEffect, useRef } from 'react';
 import { endOptions } from '../../run/gates.js';
 import type { EndOutcome } from '../../run/types.js';
 import { useLiveState } from '../components/use-live-state.js';
@@ -107,7 +107,7 @@ export function useBringUpScreenState(run: BringUp, { onExit, onDirtyChange, onT
     screenRef,
     reading,
     reworkField,
-    focus: useCallback((focus: Focus) => dispatch({ type: 'focus', focus }), []),
+    focus: (focus: Focus) => dispatch({ type: 'focus', focus }),
     toggleHelp: () => dispatch({ type: 'toggle-help' }),
     exit: () => callbacks.current.onExit(),
     moveList,

@@ -28,7 +28,7 @@ export function useCaptureAttachState(cwd: string) {
   useEffect(() => () => void (readId.current += 1), []);
 
   /** The path was edited: the last completion's names and message no longer apply. */
-  const edited = useCallback(() => setState((s) => (s.candidates.length === 0 && s.message === null ? s : { ...s, candidates: [], message: null })), []);
+  const edited = useCallback(() => setState((s) => (s.candidates.length === 0 && s.message === null ? s : { ...s, candidates: [], message: null })), [setState]);
   /** Complete the typed path (Tab); returns the completed text. */
   const complete = useCallback(
     (text: string): string => {
@@ -37,12 +37,12 @@ export function useCaptureAttachState(cwd: string) {
       setState((s) => ({ ...s, candidates: c.candidates, message }));
       return c.text;
     },
-    [cwd],
+    [cwd, setState],
   );
   const back = useCallback(() => {
     readId.current += 1;
     setState((s) => ({ ...s, phase: { kind: 'path' } }));
-  }, []);
+  }, [setState]);
 
   const load = useCallback(
     (text: string) => {
