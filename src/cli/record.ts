@@ -15,7 +15,7 @@ import type { Command } from './command.js';
 import { UsageError } from './errors.js';
 import { resolveLogDir } from './log-dir.js';
 
-const usage = 'probebook record --plan PLAN --board SERIAL --check ID --value TEXT [--operator NAME] [--json] [--log DIR]';
+const usage = 'probebook record --plan PLAN --board SERIAL --check ID --value TEXT [--operator NAME] [--decimal-comma] [--json] [--log DIR]';
 
 /** The reading as `record --json` and `history --json` print it (DESIGN §7); ±∞ (an open circuit) as null. */
 export function readingJson(r: Reading) {
@@ -51,10 +51,21 @@ export function closeChecks(typed: string, ids: readonly string[]): string[] {
 
 const openWords = /^(ol|o\.l\.|open|inf|infinity|∞)$/i;
 
+/**
+ * Whether the bench writes decimal commas (`"1,500"` is 1.5): `--decimal-comma`,
+ * `PROBEBOOK_DECIMAL_COMMA=1`, or the plan's `"decimalComma": true`. Without
+ * it a comma before exactly three digits is refused as ambiguous.
+ */
+export function decimalCommaOf(flag: string | boolean | undefined, env: NodeJS.ProcessEnv, plan?: Pick<Plan, 'decimalComma'>): boolean {
+  if (flag === true || plan?.decimalComma === true) return true;
+  const setting = env.PROBEBOOK_DECIMAL_COMMA?.trim().toLowerCase();
+  return setting === '1' || setting === 'true' || setting === 'yes';
+}
+
 /** The reading typed for a check, in SI base units, or a UsageError saying what to type. */
-export function readValue(text: string, target: Target): number {
+export function readValue(text: string, target: Target, options: { readonly decimalComma?: boolean } = {}): number {
   if (target.unit === 'Ω' && openWords.test(text.trim())) return Infinity;
-  const parsed = parseValue(text, { expected: target.unit, allowTolerance: false });
+  const parsed = parseValue(text, { expected: target.unit, allowTolerance: false, decimalComma: options.decimalComma ?? false });
   if (!parsed.ok) throw new UsageError(`check ${target.check}: ${parsed.message}${target.unit === 'Ω' ? ' (an open circuit may be typed OL)' : ''}; nothing was saved`);
   return parsed.value;
 }
@@ -152,11 +163,12 @@ function findTarget(set: TargetSet, plan: Plan, check: string): Target {
  */
 export const recordCommand: Command = async (argv, io) => {
   const args = parseArgs(argv, {
-    options: { plan: 'string', board: 'string', check: 'string', value: 'string', operator: 'string', json: 'boolean', log: 'string', help: 'boolean' },
+    options: { plan: 'string', board: 'string', check: 'string', value: 'string', operator: 'string', json: 'boolean', log: 'string', help: 'boolean', 'decimal-comma': 'boolean' },
     usage,
+    negativeNumbers: ['value'],
   });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\nCaution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`);
+    io.stdout(`usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL;\n                 no spaces inside the number; "1,500" is refused as ambiguous (write 1.5 or 1500)\n  --decimal-comma  the bench writes decimal commas ("1,500" is 1.5); also PROBEBOOK_DECIMAL_COMMA=1 or the plan's "decimalComma": true\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\nCaution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`);
     return 0;
   }
   const need = (name: string): string => {
@@ -170,7 +182,7 @@ export const recordCommand: Command = async (argv, io) => {
   const plan = await loadPlanFile(planFile, { cwd: io.cwd });
   const set = computeTargets(plan);
   const target = findTarget(set, plan, check);
-  const value = readValue(text, target);
+  const value = readValue(text, target, { decimalComma: decimalCommaOf(args.options['decimal-comma'], io.env, plan) });
   // An open circuit (OL) is beyond the meter's range, not a figure with a relative error: no guard band.
   const result = verdictFor(target, value, Number.isFinite(value) ? uncertaintyFor(plan, check, target.unit) : undefined);
   const operator = operatorOf(args.options.operator, io.env);

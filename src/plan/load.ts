@@ -95,7 +95,8 @@ export function loadPlanText(text: string, file: string, kinds: Readonly<Record<
     checkUncertainty,
     stages,
   };
-  const withNote = raw.note === undefined ? base : { ...base, note: raw.note };
+  const withComma = raw.decimalComma === true ? { ...base, decimalComma: true } : base;
+  const withNote = raw.note === undefined ? withComma : { ...withComma, note: raw.note };
   if (raw.idleCurrent === undefined) return withNote;
   const idle = readValue(raw.idleCurrent.max, 'A', file, 'idleCurrent.max', { allowTolerance: false }).value;
   if (!(idle > 0)) throw new PlanError(file, 'idleCurrent.max', 'must be a current above zero, e.g. "45 mA"');

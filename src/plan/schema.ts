@@ -63,6 +63,8 @@ export const planSchema = z.strictObject({
   opamp: z.optional(opampSchema),
   uncertainty: z.optional(uncertaintySchema),
   checkUncertainty: z.optional(z.record(z.string(), text('an uncertainty such as "0.1%"'))),
+  /** The bench writes decimal commas: a reading typed as `"1,500"` against this plan is 1.5 (else refused as ambiguous). */
+  decimalComma: z.optional(z.boolean({ error: 'expected true or false' })),
   stages: z.array(stageSchema, { error: 'expected a list of stages' }).min(1, { error: 'a plan needs at least one stage' }),
 });
 

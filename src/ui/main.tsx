@@ -45,6 +45,9 @@ export function parseTuiArgs(argv: readonly string[]): TuiArgs {
       i++;
     }
     if (value === undefined || value.trim() === '') throw new UsageError(`--${name} needs a value; usage: ${tuiUsage}`);
+    // As the commands' parser: a flag is never taken as a value, and only --plan may repeat.
+    if (value.startsWith('-')) throw new UsageError(`--${name} needs a value, but ${JSON.stringify(value.slice(0, 40))} looks like an option; usage: ${tuiUsage}`);
+    if ((name === 'log' && log !== undefined) || (name === 'operator' && operator !== undefined)) throw new UsageError(`--${name} is given twice; give it once`);
     if (name === 'log') log = value;
     else if (name === 'operator') operator = value.trim();
     else plans.push(...value.split(',').map((p) => p.trim()).filter((p) => p !== ''));
