@@ -5,6 +5,7 @@ import type { SnapshotBands } from '../review/bands.js';
 import { boardHashes, historyCounts, timelineOf } from '../review/history.js';
 import { planBandSource, resolveCacheDir } from '../ui/batch/plan-bands.js';
 import { formatValue } from '../units/format.js';
+import { flatten } from '../units/text.js';
 import { parseArgs } from './args.js';
 import type { Command, CommandIo } from './command.js';
 import { UsageError } from './errors.js';
@@ -85,7 +86,8 @@ export function historyText(board: BoardFile, bands: ReadonlyMap<string, Snapsho
   rows.sort((a, b) => Date.parse(a.at) - Date.parse(b.at) || a.order - b.order);
   for (const row of rows) lines.push(`${localTime(row.at)}  ${row.text}`);
   if (rows.length === 0) lines.push('no runs or readings yet');
-  return `${lines.join('\n')}\n`;
+  // Names and notes come from the log as typed (older logs kept them raw): one line each, no control characters.
+  return `${lines.map(flatten).join('\n')}\n`;
 }
 
 /** `history --json` (DESIGN §7 contract keys, plus `captures`). */

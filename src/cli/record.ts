@@ -10,6 +10,7 @@ import type { Plan } from '../plan/types.js';
 import type { Unit } from '../units/unit.js';
 import { formatValue } from '../units/format.js';
 import { parseValue } from '../units/parse.js';
+import { maxOperatorLength, oneLine } from '../units/text.js';
 import { parseArgs } from './args.js';
 import type { Command } from './command.js';
 import { UsageError } from './errors.js';
@@ -22,9 +23,20 @@ export function readingJson(r: Reading) {
   return { id: r.id, run: r.run, check: r.check, value: Number.isFinite(r.value) ? r.value : null, unit: r.unit, raw: r.raw, at: r.at, operator: r.operator, verdict: r.verdict };
 }
 
-/** `--operator`, else `$PROBEBOOK_OPERATOR`, else `$USER`, else "unknown". */
+/**
+ * `--operator`, else `$PROBEBOOK_OPERATOR`, else `$USER`, else "unknown", as one
+ * clean line (control characters and line breaks never reach the log: they
+ * would colour a terminal or forge history lines), at most 64 characters.
+ */
 export function operatorOf(flag: string | boolean | undefined, env: NodeJS.ProcessEnv): string {
-  for (const v of [flag, env.PROBEBOOK_OPERATOR, env.USER]) if (typeof v === 'string' && v.trim() !== '') return v.trim();
+  const sources: [string | boolean | undefined, string][] = [[flag, '--operator'], [env.PROBEBOOK_OPERATOR, 'PROBEBOOK_OPERATOR'], [env.USER, 'USER']];
+  for (const [v, from] of sources) {
+    if (typeof v !== 'string') continue;
+    const name = oneLine(v);
+    if (name === '') continue;
+    if (name.length > maxOperatorLength) throw new UsageError(`${from}: an operator name is at most ${maxOperatorLength} characters (got ${name.length}); nothing was saved`);
+    return name;
+  }
   return 'unknown';
 }
 

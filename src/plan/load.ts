@@ -4,6 +4,7 @@ import { resolve } from 'node:path';
 import { defaultOpamp } from '../circuit/opamp.js';
 import { stageKinds } from '../circuit/registry.js';
 import type { StageKind } from '../circuit/types.js';
+import { oneLine } from '../units/text.js';
 import type { UncertaintySpec } from '../units/uncertainty.js';
 import type { Unit } from '../units/unit.js';
 import { planChecks } from './checks.js';
@@ -84,7 +85,8 @@ export function loadPlanText(text: string, file: string, kinds: Readonly<Record<
 
   const base = {
     plan: raw.plan,
-    title: raw.title,
+    // A title reaches every screen and report: one clean line.
+    title: oneLine(raw.title),
     file,
     hash: createHash('sha256').update(text, 'utf8').digest('hex'),
     text,

@@ -6,6 +6,7 @@ import { loadPlanFile } from '../plan/load.js';
 import { App } from './app.js';
 import { PlanCatalog } from './bench/plan-catalog.js';
 import { UsageError } from '../cli/errors.js';
+import { maxOperatorLength, oneLine } from '../units/text.js';
 
 export const tuiUsage = 'probebook [--log DIR] [--plan FILE]... [--operator NAME]';
 
@@ -57,7 +58,12 @@ export function parseTuiArgs(argv: readonly string[]): TuiArgs {
 
 /** `--operator`, else `$PROBEBOOK_OPERATOR`, else `$USER`, else `unknown` (as `probebook record`). */
 export function operatorFrom(flag: string | undefined, env: NodeJS.ProcessEnv): string {
-  return flag || env.PROBEBOOK_OPERATOR || env.USER || 'unknown';
+  // One clean line of at most 64 characters: no escape sequence or line break reaches the log.
+  for (const v of [flag, env.PROBEBOOK_OPERATOR, env.USER]) {
+    const name = oneLine(v ?? '').slice(0, maxOperatorLength);
+    if (name !== '') return name;
+  }
+  return 'unknown';
 }
 
 export const notTerminalMessage =
