@@ -6,7 +6,7 @@ import { captureExtension, ContentStore, sha256Hex } from './content-store.js';
 import { errorCode, LogInputError } from './errors.js';
 import { withFileLock } from './file-lock.js';
 import { newId } from './ids.js';
-import { fileStamp, IndexStore, type IndexProgress, journalLimitBytes } from './index-store.js';
+import { fileStamp, IndexStore, type IndexProgress, type IndexReadOptions, journalLimitBytes } from './index-store.js';
 import { validateSerial } from './serial.js';
 import { type BenchLog, type BoardFile, boardSchemaVersion, type CaptureRef, type LogIndex, type Reading, type ReadingInput, type Rework, type Run, type RunOutcome } from './types.js';
 import { checkReadingInput, checkRunStart, type RunStart } from './validate-input.js';
@@ -21,8 +21,8 @@ export interface AppendResult {
 
 /** The bench log with the extras the commands use on top of the shared interface. */
 export interface LogStore extends BenchLog {
-  /** The index; `onProgress` hears about boards read again while it is rebuilt. */
-  readIndex(onProgress?: IndexProgress): Promise<LogIndex>;
+  /** The index; `onProgress` hears about boards read again while it is rebuilt; `verify` checks every board file. */
+  readIndex(onProgress?: IndexProgress, options?: IndexReadOptions): Promise<LogIndex>;
   /**
    * Save a reading into the board's open run, starting one first when none is
    * open, in one locked step (two terminals cannot both start a run).
@@ -98,8 +98,8 @@ class Store implements LogStore {
     return join(this.#boards, `${serial}.json`);
   }
 
-  readIndex(onProgress?: IndexProgress): Promise<LogIndex> {
-    return this.#index.read(onProgress);
+  readIndex(onProgress?: IndexProgress, options?: IndexReadOptions): Promise<LogIndex> {
+    return this.#index.read(onProgress, options);
   }
 
   async readBoard(serial: string): Promise<BoardFile | null> {
