@@ -200,7 +200,8 @@ export const recordCommand: Command = async (argv, io) => {
   const operator = operatorOf(args.options.operator, io.env);
 
   const dir = resolveLogDir(args.options.log, io.env);
-  const log = await openLog(dir);
+  // A busy board (another bench writing it) is said at once, not after a silent wait.
+  const log = await openLog(dir, { onLockWait: (message) => io.stderr(`probebook: ${message}\n`) });
   // The skipped-safety warnings are judged under the board's lock, from the run's readings as saved.
   const saved = await log.appendToOpenRun(
     serial,

@@ -1,9 +1,9 @@
-import { mkdirSync, statSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { Low } from 'lowdb';
 import { BoardFileAdapter } from './board-file-adapter.js';
 import { captureExtension, ContentStore, sha256Hex } from './content-store.js';
-import { errorCode, LogInputError } from './errors.js';
+import { ioFailure, LogInputError } from './errors.js';
+import { ensureFolder } from './folder.js';
 import { withFileLock } from './file-lock.js';
 import { newId } from './ids.js';
 import { fileStamp, IndexStore, type IndexProgress, type IndexReadOptions, journalLimitBytes } from './index-store.js';
@@ -17,6 +17,12 @@ export interface AppendResult {
   readonly reading: Reading;
   readonly board: BoardFile;
   readonly startedRun: boolean;
+}
+
+/** How a log talks back while it works. */
+export interface LogOptions {
+  /** Told at once (one line) when a board's lock is held by another process and the write waits for it. */
+  readonly onLockWait?: (message: string) => void;
 }
 
 /** The bench log with the extras the commands use on top of the shared interface. */
@@ -41,17 +47,6 @@ export function emptyBoard(serial: string): BoardFile {
 function checkSerial(serial: string): void {
   const problem = validateSerial(serial);
   if (problem) throw new LogInputError(problem);
-}
-
-function ensureFolder(path: string): void {
-  try {
-    mkdirSync(path, { recursive: true });
-  } catch (error) {
-    const code = errorCode(error);
-    if (code === 'EEXIST' || code === 'ENOTDIR') throw new Error(`log folder ${path} cannot be made: a file of that name is in the way; pass another --log DIR`);
-    throw error;
-  }
-  if (!statSync(path).isDirectory()) throw new Error(`log folder ${path} is a file, not a folder; pass another --log DIR`);
 }
 
 function readingFrom(input: ReadingInput, run: Run | undefined): Reading {
@@ -87,7 +82,10 @@ class Store implements LogStore {
   readonly #captures: ContentStore;
   readonly #index: IndexStore;
 
-  constructor(readonly dir: string) {
+  constructor(
+    readonly dir: string,
+    readonly options: LogOptions = {},
+  ) {
     this.#boards = join(dir, 'boards');
     this.#plans = new ContentStore(join(dir, 'plans'));
     this.#captures = new ContentStore(join(dir, 'captures'));
@@ -99,12 +97,18 @@ class Store implements LogStore {
   }
 
   readIndex(onProgress?: IndexProgress, options?: IndexReadOptions): Promise<LogIndex> {
-    return this.#index.read(onProgress, options);
+    return this.#index.read(onProgress, options).catch((error: unknown) => {
+      throw ioFailure(error, `cannot read the index of the log ${this.dir}`);
+    });
   }
 
   async readBoard(serial: string): Promise<BoardFile | null> {
     checkSerial(serial);
-    return new BoardFileAdapter(this.boardPath(serial), serial).read();
+    try {
+      return await new BoardFileAdapter(this.boardPath(serial), serial).read();
+    } catch (error) {
+      throw ioFailure(error, `cannot read board ${serial}`, this.boardPath(serial));
+    }
   }
 
   /** Read, change and durably write one board under its lock; then note it in the index journal. */
@@ -112,6 +116,9 @@ class Store implements LogStore {
     checkSerial(serial);
     const path = this.boardPath(serial);
     // Locks live apart from the boards so that taking one leaves the boards folder's time alone (the index's quick path).
+    // A file-system failure anywhere in the step is one line with the remedy (no raw `EPERM … .tmp` path).
+    const saving = `cannot save board ${serial} in the log ${this.dir}`;
+    const lockOptions = this.options.onLockWait ? { onWait: (who: string) => this.options.onLockWait?.(`board ${serial} is busy: waiting for ${who} (up to 30 s)`) } : {};
     const { result, journalBytes } = await withFileLock(join(this.dir, 'locks', `${serial}.json`), async () => {
       const db = new Low<BoardFile>(new BoardFileAdapter(path, serial), emptyBoard(serial));
       await db.read();
@@ -123,15 +130,23 @@ class Store implements LogStore {
       const stamp = fileStamp(path);
       if (stamp === null) throw new Error(`board file ${path} vanished right after it was written`);
       return { result: next.result, journalBytes: this.#index.noteBoard(next.board, stamp, prev, next.touched ?? [], nonce).journalBytes };
+    }, lockOptions).catch((error: unknown) => {
+      throw ioFailure(error, saving);
     });
-    if (journalBytes > journalLimitBytes) await this.#index.read();
+    if (journalBytes > journalLimitBytes) await this.#index.read().catch((error: unknown) => {
+      throw ioFailure(error, `board ${serial} is saved, but the index of ${this.dir} could not be updated`);
+    });
     return result;
   }
 
   #savePlan(start: RunStart): void {
     checkRunStart(start);
     if (sha256Hex(start.planText) !== start.planHash) throw new LogInputError(`plan ${start.plan}: planHash is not the sha256 of planText`);
-    this.#plans.put(start.planText, 'json', start.planHash);
+    try {
+      this.#plans.put(start.planText, 'json', start.planHash);
+    } catch (error) {
+      throw ioFailure(error, `cannot keep the plan snapshot in the log ${this.dir}`);
+    }
   }
 
   #checkPlanKept(hash: string): void {
@@ -204,7 +219,11 @@ class Store implements LogStore {
   }
 
   async saveCapture(bytes: Uint8Array, name: string): Promise<{ file: string }> {
-    return { file: this.#captures.put(bytes, captureExtension(name)) };
+    try {
+      return { file: this.#captures.put(bytes, captureExtension(name)) };
+    } catch (error) {
+      throw ioFailure(error, `cannot keep the capture ${name} in the log ${this.dir}`);
+    }
   }
 
   async linkCapture(serial: string, ref: CaptureRef): Promise<void> {
@@ -232,9 +251,9 @@ class Store implements LogStore {
  * `LogDamageError` (one line: file, place, remedy; the commands exit 1 with it)
  * and is never written over.
  */
-export async function openLog(dir: string): Promise<LogStore> {
+export async function openLog(dir: string, options: LogOptions = {}): Promise<LogStore> {
   const root = resolve(dir);
   ensureFolder(root);
   for (const sub of ['boards', 'plans', 'captures', 'locks']) ensureFolder(join(root, sub));
-  return new Store(root);
+  return new Store(root, options);
 }
