@@ -187,7 +187,11 @@ export function parseValue(text: string, options: ParseOptions = {}): ParseResul
   }
   const compact = joinUnit(body);
   if (compact === undefined) {
-    return fail(`${shown} has a space inside the number; write the number without spaces (e.g. 12 or 1.2), with at most a space before its unit${expected ? ` (${unitExample[expected]})` : ''}`);
+    // Offer the two readings the typist may have meant: the digits joined, or the space as a decimal point.
+    const joined = body.replace(/\s+/g, '');
+    const dotted = body.replace(/(\d)\s+(\d)/, '$1.$2').replace(/\s+/g, '');
+    const offer = dotted !== joined && !body.includes('.') ? `write ${joined} or ${dotted}` : `write ${joined}`;
+    return fail(`${shown} has a space inside the number: ${offer.length > 60 ? 'write the number without spaces' : offer} (a space may only stand before the unit${expected ? `, as in ${unitExample[expected]}` : ''})`);
   }
 
   let value: number;
