@@ -73,3 +73,15 @@ describe('properties', () => {
     );
   });
 });
+
+describe('long runs of spaces in the plan keys with patterns of their own', () => {
+  // A rail tolerance of 50 k spaces took seconds (quadratic backtracking); now a one-line refusal.
+  test.each([
+    ['a rail tolerance', (s: string) => demo.replace('"tol": "2%"', `"tol": "${s}x"`)],
+    ['an instrument uncertainty', (s: string) => demo.replace(/"V": "[^"]*"/, `"V": "1${s}x"`)],
+  ])('%s', (_name, make) => {
+    const text = make(' '.repeat(50_000));
+    expect(text).not.toBe(demo);
+    expect(outcome(text)).toBe('refused');
+  });
+});
