@@ -26,6 +26,8 @@ export const analyzeCommand: Command = async (argv, io) => {
     options: { json: 'boolean', expect: 'string', channel: 'string', dt: 'string', scale: 'string', log: 'string', help: 'boolean' },
     positionals: [0, 1],
     usage,
+    // A negative number here is a value (refused below as not positive, with the reason), not a flag.
+    negativeNumbers: ['dt', 'scale'],
   });
   if (options.help) {
     io.stdout(
