@@ -3,8 +3,9 @@ import { computeTargets } from '../analysis/targets.js';
 import type { Band, Target, TargetSet, Verdict } from '../analysis/types.js';
 import { uncertaintyFor, verdictFor } from '../analysis/verdict.js';
 import { validateSerial } from '../log/serial.js';
-import { openLog } from '../log/store.js';
-import type { Reading, RunOutcome } from '../log/types.js';
+import { openStore } from '../log/open-store.js';
+import type { InstrumentRef, Reading, RunOutcome } from '../log/types.js';
+import { readFromInstrument } from './instrument-reading.js';
 import { loadPlanFile } from '../plan/load.js';
 import type { Plan } from '../plan/types.js';
 import type { Unit } from '../units/unit.js';
@@ -16,11 +17,14 @@ import type { Command } from './command.js';
 import { UsageError } from './errors.js';
 import { resolveLogDir } from './log-dir.js';
 
-const usage = 'probebook record --plan PLAN --board SERIAL --check ID --value TEXT [--operator NAME] [--decimal-comma] [--json] [--log DIR]';
+const usage = 'probebook record --plan PLAN --board SERIAL --check ID (--value TEXT | --from INSTRUMENT [--instruments FILE]) [--operator NAME] [--decimal-comma] [--json] [--log DIR]';
 
 /** The reading as `record --json` and `history --json` print it (DESIGN §7); ±∞ (an open circuit) as null. */
 export function readingJson(r: Reading) {
-  return { id: r.id, run: r.run, check: r.check, value: Number.isFinite(r.value) ? r.value : null, unit: r.unit, raw: r.raw, at: r.at, operator: r.operator, verdict: r.verdict };
+  return {
+    id: r.id, run: r.run, check: r.check, value: Number.isFinite(r.value) ? r.value : null, unit: r.unit, raw: r.raw, at: r.at, operator: r.operator, verdict: r.verdict,
+    ...(r.instrument ? { instrument: { name: r.instrument.name, identity: r.instrument.identity } } : {}),
+  };
 }
 
 /**
@@ -143,7 +147,7 @@ function readable(o: Outcome, serial: string, logDir: string): string {
   const { reading: r, target: t } = o;
   const unit = t.unit;
   const lines = [
-    `${r.verdict.toUpperCase()}  ${r.check} = ${formatValue(r.value, unit)}  (typed ${JSON.stringify(r.raw)})`,
+    `${r.verdict.toUpperCase()}  ${r.check} = ${Number.isFinite(r.value) ? formatValue(r.value, unit) : 'OL'}  (${r.instrument ? `from ${r.instrument.name}, answered` : 'typed'} ${JSON.stringify(r.raw)})`,
     `  band ${bandText(t)}; ${deviationText(o.deviation, r.value, t)}`,
     `  reading uncertainty ±${formatValue(o.uncertainty, unit)} (guard band)${t.testPoint ? `, at ${t.testPoint}` : ''}`,
   ];
@@ -175,12 +179,12 @@ function findTarget(set: TargetSet, plan: Plan, check: string): Target {
  */
 export const recordCommand: Command = async (argv, io) => {
   const args = parseArgs(argv, {
-    options: { plan: 'string', board: 'string', check: 'string', value: 'string', operator: 'string', json: 'boolean', log: 'string', help: 'boolean', 'decimal-comma': 'boolean' },
+    options: { plan: 'string', board: 'string', check: 'string', value: 'string', from: 'string', instruments: 'string', operator: 'string', json: 'boolean', log: 'string', help: 'boolean', 'decimal-comma': 'boolean' },
     usage,
     negativeNumbers: ['value'],
   });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL;\n                 no spaces inside the number; "1,500" is refused as ambiguous (write 1.5 or 1500)\n  --decimal-comma  the bench writes decimal commas ("1,500" is 1.5); also PROBEBOOK_DECIMAL_COMMA=1 or the plan's "decimalComma": true\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\nverdict: guarded acceptance with the guard band w = U (ILAC-G8:09/2019 terms), U the plan's instrument uncertainty for the reading:\n  pass when reading ± U lies inside the worst-case band, fail when wholly outside, marginal otherwise;\n  a band that stops at a physical floor (a dead band of 0 V, a THD, an idle current) is guarded on its open side only: a reading at the floor passes\nCaution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`);
+    io.stdout(`usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL;\n                 no spaces inside the number; "1,500" is refused as ambiguous (write 1.5 or 1500)\n  --decimal-comma  the bench writes decimal commas ("1,500" is 1.5); also PROBEBOOK_DECIMAL_COMMA=1 or the plan's "decimalComma": true\n  --from NAME    take the reading from that bench instrument (SCPI; see probebook instruments --help);\n                 its query by check id, else by unit; an overload (9.9E37) is recorded as OL;\n                 no answer within its timeout, or no number, records nothing (exit 1)\n  --instruments FILE  the instruments file (else $PROBEBOOK_INSTRUMENTS, else $XDG_CONFIG_HOME/probebook/instruments.json)\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\nverdict: guarded acceptance with the guard band w = U (ILAC-G8:09/2019 terms), U the plan's instrument uncertainty for the reading:\n  pass when reading ± U lies inside the worst-case band, fail when wholly outside, marginal otherwise;\n  a band that stops at a physical floor (a dead band of 0 V, a THD, an idle current) is guarded on its open side only: a reading at the floor passes\nCaution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`);
     return 0;
   }
   const need = (name: string): string => {
@@ -188,25 +192,42 @@ export const recordCommand: Command = async (argv, io) => {
     if (typeof v !== 'string' || v.trim() === '') throw new UsageError(`--${name} is needed; usage: ${usage}`);
     return v;
   };
-  const [planFile, serial, check, text] = [need('plan'), need('board').trim(), need('check').trim(), need('value')];
+  const fromName = args.options.from;
+  if (fromName !== undefined && args.options.value !== undefined) throw new UsageError(`give --value or --from, not both; usage: ${usage}`);
+  if (fromName === undefined && args.options.instruments !== undefined) throw new UsageError(`--instruments goes with --from; usage: ${usage}`);
+  const [planFile, serial, check] = [need('plan'), need('board').trim(), need('check').trim()];
   const serialProblem = validateSerial(serial);
   if (serialProblem) throw new UsageError(`--board: ${serialProblem}`);
+  if (fromName === undefined) need('value');
+  else if (typeof fromName !== 'string' || fromName.trim() === '') throw new UsageError(`--from needs an instrument name; usage: ${usage}`);
   const plan = await loadPlanFile(planFile, { cwd: io.cwd });
   const set = computeTargets(plan);
   const target = findTarget(set, plan, check);
-  const value = readValue(text, target, { decimalComma: decimalCommaOf(args.options['decimal-comma'], io.env, plan) });
+  let text: string;
+  let value: number;
+  let instrument: InstrumentRef | undefined;
+  if (typeof fromName === 'string') {
+    // Nothing is saved unless the instrument gave a usable number (DESIGN §7a).
+    const taken = await readFromInstrument(fromName.trim(), typeof args.options.instruments === 'string' ? args.options.instruments : undefined, target, io);
+    text = taken.raw;
+    value = taken.value;
+    instrument = taken.instrument;
+  } else {
+    text = need('value');
+    value = readValue(text, target, { decimalComma: decimalCommaOf(args.options['decimal-comma'], io.env, plan) });
+  }
   // An open circuit (OL) is beyond the meter's range, not a figure with a relative error: no guard band.
   const result = verdictFor(target, value, Number.isFinite(value) ? uncertaintyFor(plan, check, target.unit) : undefined);
   const operator = operatorOf(args.options.operator, io.env);
 
   const dir = resolveLogDir(args.options.log, io.env);
   // A busy board (another bench writing it) is said at once, not after a silent wait.
-  const log = await openLog(dir, { onLockWait: (message) => io.stderr(`probebook: ${message}\n`) });
+  const log = await openStore(dir, { onLockWait: (message) => io.stderr(`probebook: ${message}\n`) });
   // The skipped-safety warnings are judged under the board's lock, from the run's readings as saved.
   const saved = await log.appendToOpenRun(
     serial,
     { plan: plan.plan, planHash: plan.hash, planText: plan.text, operator },
-    { check, value, unit: target.unit, raw: text, operator, verdict: result.verdict, planHash: plan.hash, ...(result.warnings.length ? { warnings: result.warnings } : {}) },
+    { check, value, unit: target.unit, raw: text, operator, verdict: result.verdict, planHash: plan.hash, ...(result.warnings.length ? { warnings: result.warnings } : {}), ...(instrument ? { instrument } : {}) },
     (board, run) => skippedSafety(set.targets, target, latestVerdicts(board.readings, run.id)),
   );
   const done = latestVerdicts(saved.board.readings, saved.run.id);
@@ -234,7 +255,7 @@ export const recordCommand: Command = async (argv, io) => {
       })}\n`,
     );
   } else {
-    io.stdout(readable(outcome, serial, dir));
+    io.stdout(readable(outcome, serial, log.dir));
   }
   return 0;
 };
