@@ -81,7 +81,7 @@ function findTolerance(body: string): { index: number; percent: string } | undef
 }
 
 /** Read a prefix-and-unit suffix such as `kHz`, `nF`, `mA`, `V`, `k`, `R`, `V/us`. */
-function readSuffix(suffix: string, expected: Unit | undefined): { scale: number; unit: Unit | undefined } | undefined {
+function readSuffix(suffix: string): { scale: number; unit: Unit | undefined } | undefined {
   if (suffix === '') return { scale: 1, unit: undefined };
   const slew = slewPattern.exec(suffix);
   if (slew) {
@@ -102,7 +102,6 @@ function readSuffix(suffix: string, expected: Unit | undefined): { scale: number
     const rest = unitOf(suffix.slice(length));
     if (scale !== undefined && rest) return { scale, unit: rest };
   }
-  void expected;
   return undefined;
 }
 
@@ -206,7 +205,7 @@ export function parseValue(text: string, options: ParseOptions = {}): ParseResul
   } else {
     const num = numberPattern.exec(compact);
     if (!num) return fail(`${shown} is not a number${hint}`);
-    const suffix = readSuffix(compact.slice(num[0].length), expected);
+    const suffix = readSuffix(compact.slice(num[0].length));
     if (!suffix) return fail(`${shown}: ${quoteTyped(compact.slice(num[0].length))} is not a unit or prefix${hint}`);
     value = Number(num[0]) * suffix.scale;
     unit = suffix.unit;
