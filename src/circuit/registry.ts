@@ -6,6 +6,9 @@ import { manualKind } from './manual.js';
 import { noninvertingAmpKind } from './noninverting-amp.js';
 import { pushPullKind } from './push-pull.js';
 import { rcLowpassKind } from './rc-lowpass.js';
+import { rcHighpassKind } from './rc-highpass.js';
+import { sallenKeyHighpassKind } from './sallen-key-highpass.js';
+import { sallenKeyLowpassKind } from './sallen-key-lowpass.js';
 import { schmittIntegratorKind } from './schmitt-integrator.js';
 import { signalInKind } from './signal-in.js';
 
@@ -20,4 +23,7 @@ export const stageKinds: Readonly<Record<string, StageKind<unknown>>> = {
   divider: dividerKind as StageKind<unknown>,
   'signal-in': signalInKind as StageKind<unknown>,
   manual: manualKind as StageKind<unknown>,
+  'rc-highpass': rcHighpassKind as StageKind<unknown>,
+  'sallen-key-lowpass': sallenKeyLowpassKind as StageKind<unknown>,
+  'sallen-key-highpass': sallenKeyHighpassKind as StageKind<unknown>,
 };
