@@ -75,15 +75,20 @@ export function evaluateSallenKey(variant: SallenKeyVariant, input: EvalInput<Sa
   const target = input.buffer ? input.buffer(0, n) : new Float64Array(n);
   const warnings: StageWarning[] = [];
   if (!(ideal.denominator > 0)) {
-    // Positive feedback through the K path outweighs the damping: a right-half-plane pole pair.
-    // The output runs to the rails (latches or oscillates near f0); no filter figure can be read.
+    // Positive feedback through the K path outweighs the damping: right-half-plane poles. A
+    // complex pair (|Q| > 0.5) grows into an oscillation near f0 that the rails limit; real
+    // poles (|Q| ≤ 0.5, or a first-order remnant when a capacitor is open) run the output to a
+    // rail and hold it there. Either way no filter figure can be read.
     const { high, low } = swing(input.opamp, input.supplies);
-    for (let i = 0; i < n; i++) target[i] = i < n / 2 ? high : low;
+    const isOscillating = Math.abs(ideal.q) > 0.5 && Number.isFinite(ideal.q);
+    for (let i = 0; i < n; i++) target[i] = isOscillating && i >= n / 2 ? low : high;
     if (!input.isTrial) {
-      warnings.push({ message: `K = 1 + Rf/Rg = ${k.toPrecision(3)} is too high for these parts: the damping term goes negative, the stage oscillates or latches at a rail instead of filtering` });
+      const what = isOscillating ? 'oscillates near f0 between the rails' : 'latches at a rail';
+      warnings.push({ message: `K = ${k.toPrecision(3)} is too high for these parts: the damping term goes negative and the stage ${what} instead of filtering` });
     }
-    const values = { f0: Number.NaN, q: Number.NaN, fc: Number.NaN, gain: Number.NaN, 'out.vpp': high - low };
-    return { outputs: { out: { frequency: Number.isFinite(nominalIdeal.f0) ? nominalIdeal.f0 : source.frequency, samples: target } }, values, warnings };
+    const values = { f0: Number.NaN, q: Number.NaN, fc: Number.NaN, gain: Number.NaN, 'out.vpp': isOscillating ? high - low : 0 };
+    const frequency = isOscillating && Number.isFinite(ideal.f0) ? ideal.f0 : 0;
+    return { outputs: { out: { frequency, samples: isOscillating ? target : target.subarray(0, 1) } }, values, warnings };
   }
   const net = buildNet(hasGain ? 6 : 5, placement(variant, hasGain), input.parts, fault, { out: OUT, plus: P, minus: hasGain ? N : OUT });
   const rtol = input.isTrial ? 1e-6 : 1e-10;
