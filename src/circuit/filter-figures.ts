@@ -42,14 +42,24 @@ export function filterFigures(net: LinearNet, out: number, op: OpampModel, shape
     // Coarse log grid for the peak, then golden section between the grid neighbours.
     let best = 0;
     let bestF = guess;
-    for (let f = guess / 30; f <= guess * 30; f *= 1.1) {
+    let isEdge = true;
+    const first = guess / 30;
+    const last = guess * 30;
+    for (let f = first; f <= last; f *= 1.1) {
       const m = mag(f);
       if (m > best) {
         best = m;
         bestF = f;
+        isEdge = f === first || f * 1.1 > last;
       }
     }
     if (!(best > 1e-9)) return { ...none, gain: 0 };
+    if (isEdge) {
+      // No peak inside three decades around the design (a faulted section that became a
+      // low- or high-pass): no centre to read; the gain is read at the design f0.
+      const h = at(guess);
+      return { ...none, gain: h.re < 0 ? -Math.hypot(h.re, h.im) : Math.hypot(h.re, h.im) };
+    }
     const f0 = findPeak(mag, bestF / 1.1, bestF * 1.1, rtol);
     const h = at(f0);
     const peak = Math.hypot(h.re, h.im);

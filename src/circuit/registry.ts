@@ -3,6 +3,7 @@ import { dividerKind } from './divider.js';
 import { diodeShaperKind } from './diode-shaper.js';
 import { invertingAmpKind } from './inverting-amp.js';
 import { manualKind } from './manual.js';
+import { mfbBandpassKind } from './mfb-bandpass.js';
 import { noninvertingAmpKind } from './noninverting-amp.js';
 import { pushPullKind } from './push-pull.js';
 import { rcLowpassKind } from './rc-lowpass.js';
@@ -26,4 +27,5 @@ export const stageKinds: Readonly<Record<string, StageKind<unknown>>> = {
   'rc-highpass': rcHighpassKind as StageKind<unknown>,
   'sallen-key-lowpass': sallenKeyLowpassKind as StageKind<unknown>,
   'sallen-key-highpass': sallenKeyHighpassKind as StageKind<unknown>,
+  'mfb-bandpass': mfbBandpassKind as StageKind<unknown>,
 };
