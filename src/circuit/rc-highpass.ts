@@ -62,13 +62,16 @@ function evaluate(input: EvalInput<RcHighpassSettings>): EvalOutput {
   const h = (f: number, o: ComplexSlot) => response(c, r, input, f, o);
   let fc = ideal;
   if (input.load || input.fault) {
-    // Loaded or faulted: where |H| rises through 1/√2 (|H| → 1 as f → ∞: C becomes a short).
+    // Loaded or faulted: where |H| rises through 1/√2 of its high-frequency level (1 with a
+    // resistive load; C/(C + Cload) with a capacitive one), read four decades above the corner.
+    h(ideal * 1e4, slot);
+    const top = Math.hypot(slot.re, slot.im);
     const g = (f: number) => {
       h(f, slot);
-      return Math.hypot(slot.re, slot.im) - Math.SQRT1_2;
+      return Math.hypot(slot.re, slot.im) - top * Math.SQRT1_2;
     };
     const low = ideal / 1e4;
-    fc = g(low) >= 0 ? 0 : firstCrossing(g, low, ideal * 1e4, 1.5, input.isTrial ? 1e-5 : 1e-9);
+    fc = !(top > 1e-9) ? Number.NaN : g(low) >= 0 ? 0 : firstCrossing(g, low, ideal * 1e4, 1.5, input.isTrial ? 1e-5 : 1e-9);
   }
   const n = source.samples.length;
   const target = input.buffer ? input.buffer(0, n) : new Float64Array(n);
