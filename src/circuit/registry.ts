@@ -12,6 +12,7 @@ import { sallenKeyHighpassKind } from './sallen-key-highpass.js';
 import { sallenKeyLowpassKind } from './sallen-key-lowpass.js';
 import { schmittIntegratorKind } from './schmitt-integrator.js';
 import { signalInKind } from './signal-in.js';
+import { wienBridgeKind } from './wien-bridge.js';
 
 /** Every stage kind, by the name a plan uses. Adding a kind: one file and one line here. */
 export const stageKinds: Readonly<Record<string, StageKind<unknown>>> = {
@@ -28,4 +29,5 @@ export const stageKinds: Readonly<Record<string, StageKind<unknown>>> = {
   'sallen-key-lowpass': sallenKeyLowpassKind as StageKind<unknown>,
   'sallen-key-highpass': sallenKeyHighpassKind as StageKind<unknown>,
   'mfb-bandpass': mfbBandpassKind as StageKind<unknown>,
+  'wien-bridge': wienBridgeKind as StageKind<unknown>,
 };

@@ -1,0 +1,92 @@
+import { type DiodeModel, thermalVoltage } from './diode.js';
+
+/**
+ * The non-inverting gain path of a Wien-bridge oscillator as a static
+ * non-linearity from the (+) input to the output: with the op-amp's loop
+ * closed, V(−) follows V(+) = v, so Rg carries i = v/Rg, which also flows
+ * through Rf1 and through Rf2 with its two antiparallel diodes; the output is
+ * v + i·Rf1 + vD(i), held by the op-amp's gain and then by its swing.
+ * vD(i) solves i = vD/Rf2 + Is·(e^(Vj/(n·Vt)) − 1) − Is·(1 − e^(−vD/(n·Vt))),
+ * vD = Vj + Id·RS (Shockley law with series resistance, see diode.ts; the
+ * reverse diode's current never exceeds Is, so its RS is left out).
+ */
+export interface WienGainPath {
+  /** Ω; an open part is 1e15 Ω, a shorted one 1 mΩ. */
+  readonly rg: number;
+  readonly rf1: number;
+  /** Ω; Infinity without Rf2 (then there are no diodes either). */
+  readonly rf2: number;
+  /** The diode pair across Rf2, or undefined when there is none (or it is open). */
+  readonly diode: DiodeModel | undefined;
+  /** Op-amp DC gain: the path never amplifies more than that. */
+  readonly aol: number;
+  readonly high: number;
+  readonly low: number;
+}
+
+/** Voltage across Rf2 ∥ diodes at a current i ≥ 0 (odd in i), by Newton from above (the curve is convex). */
+export function limiterVoltage(p: WienGainPath, i: number, nvt: number): number {
+  if (i <= 0) return i < 0 ? -limiterVoltage(p, -i, nvt) : 0;
+  if (!p.diode) return Number.isFinite(p.rf2) ? i * p.rf2 : 0;
+  const { is, rs } = p.diode;
+  const g2 = Number.isFinite(p.rf2) ? 1 / p.rf2 : 0;
+  // Junction voltage Vj: residual r(Vj) = (Vj + Id·RS)·g2 + Id + Is·(1 − e^(−vD/nVt)) − i, increasing and convex.
+  let vj = Math.min(nvt * Math.log1p(i / is), g2 > 0 ? i / g2 : Number.POSITIVE_INFINITY);
+  for (let k = 0; k < 60; k++) {
+    const e = Math.exp(vj / nvt);
+    const id = is * (e - 1);
+    const vd = vj + id * rs;
+    const reverse = is * -Math.expm1(-vd / nvt);
+    const r = vd * g2 + id + reverse - i;
+    const did = (is * e) / nvt;
+    const slope = (1 + did * rs) * g2 + did;
+    const step = r / slope;
+    vj -= step;
+    if (Math.abs(step) < 1e-12 + 1e-10 * Math.abs(vj)) break;
+  }
+  const id = is * Math.expm1(vj / nvt);
+  return vj + id * rs;
+}
+
+/** Output for a (+)-input voltage v: the gain path, capped at the op-amp's own gain, then clipped at its swing. */
+export function pathOutput(p: WienGainPath, v: number, nvt: number): number {
+  const i = v / p.rg;
+  let out = v + i * p.rf1 + limiterVoltage(p, i, nvt);
+  const cap = p.aol * Math.abs(v);
+  if (Math.abs(out) > cap) out = Math.sign(out) * cap;
+  return Math.min(p.high, Math.max(p.low, out));
+}
+
+/** Small-signal gain of the path at v → 0 (diodes at their zero-bias resistance n·Vt/Is each). */
+export function smallSignalGain(p: WienGainPath, nvt = thermalVoltage() * (p.diode?.n ?? 1)): number {
+  let rd = Number.isFinite(p.rf2) ? p.rf2 : Number.POSITIVE_INFINITY;
+  if (p.diode) {
+    const pair = nvt / (2 * p.diode.is);
+    rd = Number.isFinite(rd) ? (rd * pair) / (rd + pair) : pair;
+  }
+  return Math.min(1 + (p.rf1 + rd) / p.rg, p.aol);
+}
+
+/**
+ * One period of the output for a sine of amplitude `vp` at the (+) input
+ * (`samples` long, starting at the rising zero crossing), and its fundamental
+ * amplitude (DFT bin 1: the describing function times vp). The waveform is
+ * computed on a quarter period and mirrored: the path is odd and a sine is
+ * symmetric about its peak.
+ */
+export function pathWave(p: WienGainPath, vp: number, out: Float64Array, nvt: number): number {
+  const n = out.length;
+  const quarter = n / 4;
+  for (let k = 0; k <= quarter; k++) {
+    const s = Math.sin((2 * Math.PI * k) / n);
+    const hi = pathOutput(p, vp * s, nvt);
+    const lo = pathOutput(p, -vp * s, nvt);
+    out[k] = hi;
+    if (k > 0 && k < quarter) out[n / 2 - k] = hi;
+    if (k < n / 2) out[(n / 2 + k) % n] = lo;
+    if (k > 0 && k < quarter) out[n - k] = lo;
+  }
+  let b1 = 0;
+  for (let k = 0; k < n; k++) b1 += (out[k] as number) * Math.sin((2 * Math.PI * k) / n);
+  return (2 * b1) / n;
+}
