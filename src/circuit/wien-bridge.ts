@@ -111,7 +111,7 @@ function evaluate(input: EvalInput<WienBridgeSettings>): EvalOutput {
   let bestRe = 0;
   let fa = f0 / 1000;
   let ia = at(fa).im;
-  for (let fb = fa * 1.15; fb <= f0 * 1000; fb *= 1.15) {
+  for (let fb = fa * 1.25; fb <= f0 * 1000; fb *= 1.25) {
     const ib = at(fb).im;
     if (ia * ib < 0) {
       const fx = findRoot((f) => at(f).im, fa, fb, isTrial ? 1e-7 : 1e-11);
@@ -132,7 +132,11 @@ function evaluate(input: EvalInput<WienBridgeSettings>): EvalOutput {
   }
   // Amplitude at the (+) input where the describing gain falls to the target (log-axis root).
   const top = 2 * Math.max(Math.abs(high), Math.abs(low));
-  const vp = findRoot((v) => pathWave(path, v, out, nvt) / v - target, top * 1e-9, top, isTrial ? 1e-6 : 1e-10);
+  // From 1 µ of the swing (no diode conducts yet, the gain is the small-signal one) to the swing.
+  // The describing gain from 64 samples a period: the fundamental of a smooth wave needs no
+  // more (trapezoid rule on a periodic function); the output is then drawn at full length.
+  const coarse = new Float64Array(64);
+  const vp = findRoot((v) => pathWave(path, v, coarse, nvt) / v - target, top * 1e-6, top, isTrial ? 1e-6 : 1e-10);
   pathWave(path, vp, out, nvt);
   const limited = limitOutput(out, best, opamp, input.supplies, isTrial);
   if (!isTrial) {

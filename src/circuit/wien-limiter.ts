@@ -8,7 +8,8 @@ import { type DiodeModel, thermalVoltage } from './diode.js';
  * v + i·Rf1 + vD(i), held by the op-amp's gain and then by its swing.
  * vD(i) solves i = vD/Rf2 + Is·(e^(Vj/(n·Vt)) − 1) − Is·(1 − e^(−vD/(n·Vt))),
  * vD = Vj + Id·RS (Shockley law with series resistance, see diode.ts; the
- * reverse diode's current never exceeds Is, so its RS is left out).
+ * reverse diode's current never exceeds Is, so its RS is left out and its
+ * exponential is replaced by a rational form with the same slope and ceiling).
  */
 export interface WienGainPath {
   /** Ω; an open part is 1e15 Ω, a shorted one 1 mΩ. */
@@ -24,36 +25,50 @@ export interface WienGainPath {
   readonly low: number;
 }
 
-/** Voltage across Rf2 ∥ diodes at a current i ≥ 0 (odd in i), by Newton from above (the curve is convex). */
-export function limiterVoltage(p: WienGainPath, i: number, nvt: number): number {
-  if (i <= 0) return i < 0 ? -limiterVoltage(p, -i, nvt) : 0;
+/**
+ * Voltage across Rf2 ∥ diodes at a current i (odd in i). Solved for the diode
+ * current Id: the junction then drops Vj = n·Vt·ln(1 + Id/Is), and the residual
+ * (Vj + Id·RS)/Rf2 + Id + reverse − i is increasing and concave in Id, so
+ * Newton from below (from 0, or from the previous sample's Id, `hint`) climbs
+ * to the root without overshooting; an iterate past it drops back to 0 at worst.
+ */
+export function limiterVoltage(p: WienGainPath, i: number, nvt: number, hint = Number.NaN): number {
+  if (i <= 0) return i < 0 ? -limiterVoltage(p, -i, nvt, hint) : 0;
   if (!p.diode) return Number.isFinite(p.rf2) ? i * p.rf2 : 0;
   const { is, rs } = p.diode;
   const g2 = Number.isFinite(p.rf2) ? 1 / p.rf2 : 0;
-  // Junction voltage Vj: residual r(Vj) = (Vj + Id·RS)·g2 + Id + Is·(1 − e^(−vD/nVt)) − i, increasing and convex.
-  let vj = Math.min(nvt * Math.log1p(i / is), g2 > 0 ? i / g2 : Number.POSITIVE_INFINITY);
-  for (let k = 0; k < 60; k++) {
-    const e = Math.exp(vj / nvt);
-    const id = is * (e - 1);
-    const vd = vj + id * rs;
-    const reverse = is * -Math.expm1(-vd / nvt);
+  let id = hint >= 0 && hint < i ? hint : 0;
+  for (let k = 0; k < 100; k++) {
+    const vd = nvt * Math.log1p(id / is) + id * rs;
+    // The reverse diode passes at most Is (nA): a rational form with its zero-bias
+    // conductance Is/(n·Vt) and that ceiling stands in for Is·(1 − e^(−vD/nVt)), within Is/4.
+    const reverse = (is * vd) / (nvt + vd);
     const r = vd * g2 + id + reverse - i;
-    const did = (is * e) / nvt;
-    const slope = (1 + did * rs) * g2 + did;
-    const step = r / slope;
-    vj -= step;
-    if (Math.abs(step) < 1e-12 + 1e-10 * Math.abs(vj)) break;
+    const slope = (nvt / (is + id) + rs) * g2 + 1;
+    const next = Math.max(0, Math.min(i, id - r / slope));
+    const step = next - id;
+    id = next;
+    if (Math.abs(step) <= 1e-12 * id + 1e-21) break;
   }
-  const id = is * Math.expm1(vj / nvt);
-  return vj + id * rs;
+  lastCurrent = id;
+  return nvt * Math.log1p(id / is) + id * rs;
+}
+
+/** Diode current of the last `limiterVoltage` solve, the next sample's starting point. */
+let lastCurrent = 0;
+
+/** Output for a (+)-input voltage v ≥ 0 before the swing: the gain path, capped at the op-amp's own gain. */
+function pathUnclipped(p: WienGainPath, v: number, nvt: number, hint: number): number {
+  const i = v / p.rg;
+  let out = v + i * p.rf1 + limiterVoltage(p, i, nvt, hint);
+  const cap = p.aol * Math.abs(v);
+  if (Math.abs(out) > cap) out = Math.sign(out) * cap;
+  return out;
 }
 
 /** Output for a (+)-input voltage v: the gain path, capped at the op-amp's own gain, then clipped at its swing. */
 export function pathOutput(p: WienGainPath, v: number, nvt: number): number {
-  const i = v / p.rg;
-  let out = v + i * p.rf1 + limiterVoltage(p, i, nvt);
-  const cap = p.aol * Math.abs(v);
-  if (Math.abs(out) > cap) out = Math.sign(out) * cap;
+  const out = v < 0 ? -pathUnclipped(p, -v, nvt, Number.NaN) : pathUnclipped(p, v, nvt, Number.NaN);
   return Math.min(p.high, Math.max(p.low, out));
 }
 
@@ -77,10 +92,14 @@ export function smallSignalGain(p: WienGainPath, nvt = thermalVoltage() * (p.dio
 export function pathWave(p: WienGainPath, vp: number, out: Float64Array, nvt: number): number {
   const n = out.length;
   const quarter = n / 4;
+  let hint = Number.NaN;
   for (let k = 0; k <= quarter; k++) {
     const s = Math.sin((2 * Math.PI * k) / n);
-    const hi = pathOutput(p, vp * s, nvt);
-    const lo = pathOutput(p, -vp * s, nvt);
+    // The path is odd: one solve serves both half-waves; the swing may not be symmetric.
+    const y = pathUnclipped(p, vp * s, nvt, hint);
+    hint = p.diode ? lastCurrent : Number.NaN;
+    const hi = Math.min(p.high, Math.max(p.low, y));
+    const lo = Math.min(p.high, Math.max(p.low, -y));
     out[k] = hi;
     if (k > 0 && k < quarter) out[n / 2 - k] = hi;
     if (k < n / 2) out[(n / 2 + k) % n] = lo;

@@ -1,0 +1,11 @@
+import * as lim from './src/circuit/wien-limiter.js';
+import { defaultDiode, thermalVoltage } from './src/circuit/diode.js';
+const nvt = thermalVoltage() * defaultDiode.n;
+const path = { rg: 10e3, rf1: 15e3, rf2: 10e3, diode: defaultDiode, aol: 2e5, high: 10.5, low: -10.5 };
+const out = new Float64Array(256);
+let t0 = performance.now();
+for (let i = 0; i < 2000; i++) lim.pathWave(path, 1.0 + i * 1e-5, out, nvt);
+console.log('pathWave', ((performance.now() - t0) / 2000 * 1000).toFixed(1), 'µs');
+t0 = performance.now();
+for (let i = 0; i < 100000; i++) lim.limiterVoltage(path, 1e-4 + i * 1e-10, nvt);
+console.log('limiterVoltage cold', ((performance.now() - t0) / 100000 * 1000).toFixed(2), 'µs');
