@@ -1,7 +1,7 @@
 import type { ComplexSlot, Response } from './harmonic-response.js';
 import type { LinearNet } from './linear-net.js';
 import { netResponse } from './filter-net.js';
-import { findPeak, firstCrossing } from './response-search.js';
+import { findPeak, firstCrossing, nearestCrossing } from './response-search.js';
 import type { OpampModel } from './types.js';
 
 /** What a bench sweep of a second-order section reads (DESIGN §3 definitions). */
@@ -40,18 +40,23 @@ export function filterFigures(net: LinearNet, out: number, op: OpampModel, shape
   const none = { response, f0: Number.NaN, q: Number.NaN, fc: Number.NaN, bw: Number.NaN };
   if (shape === 'bandpass') {
     // Coarse log grid for the peak, then golden section between the grid neighbours.
+    // The peak sits within a factor 3 of the design f0 on any usable op-amp; look wider only if not.
     let best = 0;
     let bestF = guess;
     let isEdge = true;
-    const first = guess / 30;
-    const last = guess * 30;
-    for (let f = first; f <= last; f *= 1.1) {
-      const m = mag(f);
-      if (m > best) {
-        best = m;
-        bestF = f;
-        isEdge = f === first || f * 1.1 > last;
+    for (const span of [3, 100]) {
+      best = 0;
+      const first = guess / span;
+      const last = guess * span;
+      for (let f = first; f <= last; f *= 1.1) {
+        const m = mag(f);
+        if (m > best) {
+          best = m;
+          bestF = f;
+          isEdge = f === first || f * 1.1 > last;
+        }
       }
+      if (!isEdge) break;
     }
     if (!(best > 1e-9)) return { ...none, gain: 0 };
     if (isEdge) {
@@ -73,16 +78,17 @@ export function filterFigures(net: LinearNet, out: number, op: OpampModel, shape
   if (shape === 'lowpass') {
     const gain = at(0).re;
     if (!(Math.abs(gain) > 1e-9)) return { ...none, gain };
-    const f0 = firstCrossing(realPart, guess / 30, guess * 30, 1.15, rtol);
+    // One −90° crossing and one −3 dB point near the design f0 (the op-amp moves them by tens of % at most).
+    const f0 = nearestCrossing(realPart, guess, 1.3, 1000, rtol);
     const q = mag(f0) / Math.abs(gain);
-    const fc = firstCrossing((f) => mag(f) - Math.abs(gain) / Math.SQRT2, guess / 30, guess * 100, 1.15, rtol);
+    const fc = nearestCrossing((f) => mag(f) - Math.abs(gain) / Math.SQRT2, Number.isFinite(f0) ? f0 : guess, 1.3, 1000, rtol);
     return { response, f0, q, fc, gain, bw: Number.NaN };
   }
-  const f0 = firstCrossing(realPart, guess / 30, guess * 30, 1.15, rtol);
+  const f0 = nearestCrossing(realPart, guess, 1.3, 1000, rtol);
   const top = Number.isFinite(f0) ? 30 * f0 : 30 * guess;
   const gain = mag(top);
   if (!(gain > 1e-9)) return { ...none, gain };
   const q = mag(f0) / gain;
-  const fc = firstCrossing((f) => mag(f) - gain / Math.SQRT2, top, guess / 100, 1.15, rtol);
+  const fc = nearestCrossing((f) => mag(f) - gain / Math.SQRT2, Number.isFinite(f0) ? f0 : guess, 1.3, 1000, rtol);
   return { response, f0, q, fc, gain, bw: Number.NaN };
 }

@@ -73,3 +73,32 @@ export function findPeak(g: (f: number) => number, lo: number, hi: number, rtol 
   }
   return Math.exp((a + b) / 2);
 }
+
+/**
+ * The sign change of `g` nearest to `center` (log axis), stepping out on both
+ * sides by `ratio` up to `reach` either way, refined by `findRoot`; NaN when
+ * there is none. For functions with one crossing near a known estimate (the
+ * phase point and the −3 dB point of a second-order section), this needs a
+ * few solves where a walk from far below needs tens.
+ */
+export function nearestCrossing(g: (f: number) => number, center: number, ratio = 1.3, reach = 1000, rtol = 1e-9): number {
+  const gc = g(center);
+  if (gc === 0) return center;
+  let lo = center;
+  let hi = center;
+  let glo = gc;
+  let ghi = gc;
+  while (hi / center < reach) {
+    const up = hi * ratio;
+    const gu = g(up);
+    if (gu * ghi <= 0) return findRoot(g, hi, up, rtol);
+    hi = up;
+    ghi = gu;
+    const down = lo / ratio;
+    const gd = g(down);
+    if (gd * glo <= 0) return findRoot(g, down, lo, rtol);
+    lo = down;
+    glo = gd;
+  }
+  return Number.NaN;
+}
