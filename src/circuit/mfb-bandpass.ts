@@ -77,7 +77,7 @@ function evaluate(input: EvalInput<MfbBandpassSettings>): EvalOutput {
 
 const checks: readonly CheckSpec[] = [
   { key: 'f0', quantity: 'centre frequency (peak)', unit: 'Hz', output: 'out', instrument: 'scope', how: 'small sine in, tune the generator for the largest output (the output is then in antiphase with the input); read the generator' },
-  { key: 'q', quantity: 'Q (f0 over bandwidth)', unit: '1', output: 'out', instrument: 'scope', how: 'f0 divided by the bandwidth between the two −3 dB points' },
+  { key: 'q', quantity: 'Q (f0 over bandwidth, a plain ratio)', unit: 'V/V', output: 'out', instrument: 'scope', how: 'f0 divided by the bandwidth between the two −3 dB points' },
   { key: 'bw', quantity: '−3 dB bandwidth', unit: 'Hz', output: 'out', instrument: 'scope', how: 'tune the generator below and above f0 to where the output is 0.707 of its peak; the difference of the two readings' },
   { key: 'gain', quantity: 'gain at f0 (negative: inverted)', unit: 'V/V', output: 'out', instrument: 'scope', how: 'output over input peak-to-peak at f0, small signal so nothing clips; negative, the output is inverted' },
   { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the filter output with the chain signal applied, 10× probe, read peak-to-peak', captureFigure: 'vpp' },

@@ -161,7 +161,7 @@ export function sallenKeyChecks(variant: SallenKeyVariant): readonly CheckSpec[]
   const passband = variant === 'lowpass' ? 'at a tenth of f0 or lower' : 'at thirty times f0';
   return [
     { key: 'f0', quantity: 'natural frequency (90° phase point)', unit: 'Hz', output: 'out', instrument: 'scope', how: `two channels, input and output, small sine: tune the generator until the output is ${lag} the input (X-Y: an upright ellipse); read the generator` },
-    { key: 'q', quantity: 'Q (gain at f0 over passband gain)', unit: '1', output: 'out', instrument: 'scope', how: `output over input at f0, divided by the passband gain (${passband})` },
+    { key: 'q', quantity: 'Q (gain at f0 over passband gain)', unit: 'V/V', output: 'out', instrument: 'scope', how: `output over input at f0, divided by the passband gain (${passband})` },
     { key: 'fc', quantity: '−3 dB corner frequency', unit: 'Hz', output: 'out', instrument: 'scope', how: 'small sine, tune the generator until the output is 0.707 of its passband level; read the generator' },
     { key: 'gain', quantity: 'passband gain', unit: 'V/V', output: 'out', instrument: 'scope', how: `output over input peak-to-peak ${passband}, small signal so nothing clips` },
     { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the filter output with the chain signal applied, 10× probe, read peak-to-peak', captureFigure: 'vpp' },

@@ -9,7 +9,8 @@ import { findRoot } from './response-search.js';
 import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartFaults, PartValue, StageFault, StageKind, StageWarning } from './types.js';
 import { defaultSamples } from './waveform.js';
-import { pathWave, smallSignalGain, type WienGainPath } from './wien-limiter.js';
+import { balance, balancedOutput } from './wien-balance.js';
+import { pathFunction, pathWave, smallSignalGain, type WienGainPath } from './wien-limiter.js';
 
 export interface WienBridgeSettings {
   /** Rf2 with its antiparallel diode pair is fitted. */
@@ -136,8 +137,21 @@ function evaluate(input: EvalInput<WienBridgeSettings>): EvalOutput {
   // The describing gain from 64 samples a period: the fundamental of a smooth wave needs no
   // more (trapezoid rule on a periodic function); the output is then drawn at full length.
   const coarse = new Float64Array(64);
-  const vp = findRoot((v) => pathWave(path, v, coarse, nvt) / v - target, top * 1e-6, top, isTrial ? 1e-6 : 1e-10);
-  pathWave(path, vp, out, nvt);
+  const shape = pathFunction(path, nvt, 1.5 * top);
+  const vp = findRoot((v) => pathWave(shape, v, coarse) / v - target, top * 1e-6, top, isTrial ? 1e-6 : 1e-10);
+  // Refine with the harmonics the bridge returns (wien-balance.ts), from the describing-function start.
+  const problem = {
+    shape,
+    loopAt: (f: number, o: { re: number; im: number }) => loop(parts, fault, opamp, f, o),
+    bridgeAt: (f: number, o: { re: number; im: number }) => {
+      loop(parts, fault, opamp, f, o);
+      o.re += 1 / opamp.aol;
+      o.im += f / opamp.gbw;
+    },
+  };
+  const balanced = isTrial ? balance(problem, best, vp, 32, 2, 1e-6) : balance(problem, best, vp, 64, 3, 1e-10);
+  best = balanced.f;
+  balancedOutput(problem, balanced, out);
   const limited = limitOutput(out, best, opamp, input.supplies, isTrial);
   if (!isTrial) {
     const clips = (out.some((v) => v >= high - 1e-9) || out.some((v) => v <= low + 1e-9));

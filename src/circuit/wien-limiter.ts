@@ -89,17 +89,13 @@ export function smallSignalGain(p: WienGainPath, nvt = thermalVoltage() * (p.dio
  * computed on a quarter period and mirrored: the path is odd and a sine is
  * symmetric about its peak.
  */
-export function pathWave(p: WienGainPath, vp: number, out: Float64Array, nvt: number): number {
+export function pathWave(shape: (v: number) => number, vp: number, out: Float64Array): number {
   const n = out.length;
   const quarter = n / 4;
-  let hint = Number.NaN;
   for (let k = 0; k <= quarter; k++) {
     const s = Math.sin((2 * Math.PI * k) / n);
-    // The path is odd: one solve serves both half-waves; the swing may not be symmetric.
-    const y = pathUnclipped(p, vp * s, nvt, hint);
-    hint = p.diode ? lastCurrent : Number.NaN;
-    const hi = Math.min(p.high, Math.max(p.low, y));
-    const lo = Math.min(p.high, Math.max(p.low, -y));
+    const hi = shape(vp * s);
+    const lo = shape(-vp * s);
     out[k] = hi;
     if (k > 0 && k < quarter) out[n / 2 - k] = hi;
     if (k < n / 2) out[(n / 2 + k) % n] = lo;
@@ -108,4 +104,66 @@ export function pathWave(p: WienGainPath, vp: number, out: Float64Array, nvt: nu
   let b1 = 0;
   for (let k = 0; k < n; k++) b1 += (out[k] as number) * Math.sin((2 * Math.PI * k) / n);
   return (2 * b1) / n;
+}
+
+/**
+ * The gain path as a table, for the hundreds of evaluations one oscillator
+ * solve makes. With the diode current as the parameter, every point is
+ * explicit (no Newton): Vj on a uniform grid (fine through the knee), Id =
+ * Is·(e^(Vj/nVt) − 1), vD = Vj + Id·RS, i = vD/Rf2 + Id + reverse, v = i·Rg,
+ * out = v + i·Rf1 + vD, and the exact slope d(out)/dv = 1 + (Rf1 + dvD/di)/Rg.
+ * Between points, cubic Hermite interpolation with those slopes; the grid
+ * reaches v = vmax, and beyond it the path continues on its last slope. The
+ * op-amp's gain cap and swing are applied after. Tested against the Newton
+ * solve (`pathOutput`) in test/circuit/wien-bridge.test.ts.
+ */
+export function pathFunction(p: WienGainPath, nvt: number, vmax: number, points = 257): (v: number) => number {
+  const clip = (v: number, y: number) => {
+    const cap = p.aol * Math.abs(v);
+    const capped = Math.abs(y) > cap ? Math.sign(y) * cap : y;
+    return Math.min(p.high, Math.max(p.low, capped));
+  };
+  if (!p.diode) {
+    const slope = 1 + (p.rf1 + (Number.isFinite(p.rf2) ? p.rf2 : 0)) / p.rg;
+    return (v) => clip(v, v * slope);
+  }
+  const { is, rs } = p.diode;
+  const g2 = Number.isFinite(p.rf2) ? 1 / p.rf2 : 0;
+  limiterVoltage(p, vmax / p.rg, nvt);
+  const vjMax = nvt * Math.log1p(lastCurrent / is) * 1.001 + 1e-9;
+  const vs = new Float64Array(points);
+  const ys = new Float64Array(points);
+  const ds = new Float64Array(points);
+  for (let k = 0; k < points; k++) {
+    const vj = (vjMax * k) / (points - 1);
+    const id = is * Math.expm1(vj / nvt);
+    const vd = vj + id * rs;
+    const reverse = (is * vd) / (nvt + vd);
+    const i = vd * g2 + id + reverse;
+    // dvD/di: the diode's incremental resistance n·Vt/(Is + Id) plus RS, with Rf2 and the reverse diode alongside.
+    const rd = nvt / (is + id) + rs;
+    const dRev = (is * nvt) / ((nvt + vd) * (nvt + vd));
+    const dvdi = 1 / (g2 + 1 / rd + dRev);
+    vs[k] = i * p.rg;
+    ys[k] = i * p.rg + i * p.rf1 + vd;
+    ds[k] = 1 + (p.rf1 + dvdi) / p.rg;
+  }
+  const last = points - 1;
+  const unclipped = (x: number): number => {
+    if (x >= (vs[last] as number)) return (ys[last] as number) + (ds[last] as number) * (x - (vs[last] as number));
+    let lo = 0;
+    let hi = last;
+    while (hi - lo > 1) {
+      const mid = (lo + hi) >> 1;
+      if ((vs[mid] as number) <= x) lo = mid;
+      else hi = mid;
+    }
+    const x0 = vs[lo] as number;
+    const h = (vs[hi] as number) - x0;
+    const t = (x - x0) / h;
+    const t2 = t * t;
+    const t3 = t2 * t;
+    return (2 * t3 - 3 * t2 + 1) * (ys[lo] as number) + (t3 - 2 * t2 + t) * h * (ds[lo] as number) + (-2 * t3 + 3 * t2) * (ys[hi] as number) + (t3 - t2) * h * (ds[hi] as number);
+  };
+  return (v) => clip(v, v < 0 ? -unclipped(-v) : unclipped(v));
 }
