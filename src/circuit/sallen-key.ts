@@ -119,6 +119,8 @@ export function sallenKeyInputImpedance(variant: SallenKeyVariant, x: ImpedanceI
   const dr = 1 - (net.re[A] as number);
   const di = -(net.im[A] as number);
   const d = dr * dr + di * di;
+  // No current into the section at all (at DC the follower holds node A at the input): an open circuit.
+  if (d === 0) return { re: Number.POSITIVE_INFINITY, im: 0 };
   if (variant === 'lowpass') {
     const r1 = x.parts['R1'] ?? Number.NaN;
     return { re: (r1 * dr) / d, im: (-r1 * di) / d };
