@@ -142,6 +142,7 @@ function evaluate(input: EvalInput<WienBridgeSettings>): EvalOutput {
   // Refine with the harmonics the bridge returns (wien-balance.ts), from the describing-function start.
   const problem = {
     shape,
+    slew: opamp.slew,
     loopAt: (f: number, o: { re: number; im: number }) => loop(parts, fault, opamp, f, o),
     bridgeAt: (f: number, o: { re: number; im: number }) => {
       loop(parts, fault, opamp, f, o);
@@ -149,9 +150,15 @@ function evaluate(input: EvalInput<WienBridgeSettings>): EvalOutput {
       o.im += f / opamp.gbw;
     },
   };
-  const balanced = isTrial ? balance(problem, best, vp, 32, 2, 1e-6) : balance(problem, best, vp, 64, 3, 1e-10);
-  best = balanced.f;
-  balancedOutput(problem, balanced, out);
+  const balanced = balance(problem, best, vp, 64, 60, isTrial ? 1e-6 : 1e-9);
+  if (balanced.converged) {
+    best = balanced.f;
+    balancedOutput(problem, balanced, out);
+  } else {
+    // Far into slewing the balance may not settle: keep the describing-function answer, and say so.
+    pathWave(shape, vp, out);
+    if (!isTrial) warnings.push({ message: 'the frequency and level are the first-harmonic estimate only: the output is far into slewing, and the real oscillator runs lower than shown' });
+  }
   const limited = limitOutput(out, best, opamp, input.supplies, isTrial);
   if (!isTrial) {
     const clips = (out.some((v) => v >= high - 1e-9) || out.some((v) => v <= low + 1e-9));
