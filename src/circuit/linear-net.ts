@@ -60,15 +60,38 @@ export class LinearNet {
 
   /** Solve at `f` Hz with the input at 1 V; the op-amp (if any) is `op`. Fills `re`/`im`. */
   solve(f: number, op?: OpampModel): void {
+    this.assemble(0, 2 * Math.PI * f, op);
+    this.eliminate();
+    this.re[0] = 0;
+    this.im[0] = 0;
+    this.re[1] = 1;
+    this.im[1] = 0;
+    for (let i = 0; i < this.m; i++) {
+      this.re[i + 2] = this.br[i] as number;
+      this.im[i + 2] = this.bi[i] as number;
+    }
+  }
+
+  /**
+   * The determinant of the nodal matrix at a complex frequency s = σ + jω (rad/s), into
+   * `out`: its zeros are the net's natural frequencies with the input held at 0 V.
+   */
+  determinant(sigma: number, omega: number, op: OpampModel | undefined, out: { re: number; im: number }): void {
+    this.assemble(sigma, omega, op);
+    out.re = 1;
+    out.im = 0;
+    this.eliminate(out);
+  }
+
+  private assemble(sigma: number, w: number, op?: OpampModel): void {
     const { m, ar, ai, br, bi } = this;
-    const w = 2 * Math.PI * f;
     ar.fill(0);
     ai.fill(0);
     br.fill(0);
     bi.fill(0);
     const outRow = this.opamp && op ? this.opamp.out - 2 : -1;
     for (const e of this.elements) {
-      const yr = e.g;
+      const yr = e.g + sigma * e.c;
       const yi = w * e.c;
       if (yr === 0 && yi === 0) continue;
       const ia = e.a - 2;
@@ -99,19 +122,10 @@ export class LinearNet {
     }
     if (outRow >= 0 && this.opamp && op) {
       const { plus, minus } = this.opamp;
-      add(ar, outRow * m + outRow, 1 / op.aol);
+      add(ar, outRow * m + outRow, 1 / op.aol + sigma / (2 * Math.PI * op.gbw));
       add(ai, outRow * m + outRow, w / (2 * Math.PI * op.gbw));
       this.place(outRow, plus, -1);
       this.place(outRow, minus, 1);
-    }
-    this.eliminate();
-    this.re[0] = 0;
-    this.im[0] = 0;
-    this.re[1] = 1;
-    this.im[1] = 0;
-    for (let i = 0; i < m; i++) {
-      this.re[i + 2] = br[i] as number;
-      this.im[i + 2] = bi[i] as number;
     }
   }
 
@@ -126,8 +140,11 @@ export class LinearNet {
     this.ar[i] = (this.ar[i] as number) + k;
   }
 
-  /** Gaussian elimination with partial pivoting, in place; the solution is left in br/bi. */
-  private eliminate(): void {
+  /**
+   * Gaussian elimination with partial pivoting, in place; the solution is left in br/bi.
+   * With `det`, the product of the pivots (signed by the row swaps) is multiplied into it.
+   */
+  private eliminate(det?: { re: number; im: number }): void {
     const { m, ar, ai, br, bi } = this;
     for (let col = 0; col < m; col++) {
       let pivot = col;
@@ -143,9 +160,18 @@ export class LinearNet {
         for (let c = 0; c < m; c++) swap(ar, pivot * m + c, col * m + c), swap(ai, pivot * m + c, col * m + c);
         swap(br, pivot, col);
         swap(bi, pivot, col);
+        if (det) {
+          det.re = -det.re;
+          det.im = -det.im;
+        }
       }
       const pr = ar[col * m + col] as number;
       const pi = ai[col * m + col] as number;
+      if (det) {
+        const r = det.re * pr - det.im * pi;
+        det.im = det.re * pi + det.im * pr;
+        det.re = r;
+      }
       const d = pr * pr + pi * pi;
       if (d === 0) continue;
       for (let r = col + 1; r < m; r++) {

@@ -4,6 +4,7 @@ import { filterFigures } from './filter-figures.js';
 import { applyResponse } from './harmonic-response.js';
 import { swing } from './opamp.js';
 import { limitOutput } from './opamp-output.js';
+import { netStability } from './net-stability.js';
 import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartFaults, PartValue, StageKind, StageWarning } from './types.js';
 
@@ -46,15 +47,18 @@ function evaluate(input: EvalInput<MfbBandpassSettings>): EvalOutput {
   const target = input.buffer ? input.buffer(0, n) : new Float64Array(n);
   const warnings: StageWarning[] = [];
   const fault = input.fault;
-  if (fault?.role === 'R3' && (fault.mode === 'open' || fault.mode === 'missing')) {
-    // No DC path from the output to the − input: the op-amp runs open loop on its own
-    // offset and bias current and sits at a rail.
-    const { high } = swing(input.opamp, input.supplies);
-    target.fill(high);
-    if (!input.isTrial) warnings.push({ message: 'with R3 open the op-amp has no DC feedback and latches at a rail' });
-    return { outputs: { out: { frequency: 0, samples: target.subarray(0, 1) } }, values: { f0: Number.NaN, q: Number.NaN, bw: Number.NaN, gain: Number.NaN, 'out.vpp': 0 }, warnings };
-  }
   const net = buildNet(5, placed, input.parts, fault, { out: OUT, plus: 0, minus: N });
+  // Healthy, the section is always stable (negative feedback only); with R3 open the − input
+  // has no DC path at all and the op-amp drifts to a rail on its own offset and bias current.
+  const behaviour = netStability(net, input.opamp, 2 * Math.PI * ideal.f0);
+  if (behaviour.kind !== 'stable') {
+    const { high, low } = swing(input.opamp, input.supplies);
+    const isOscillating = behaviour.kind === 'oscillates';
+    for (let i = 0; i < n; i++) target[i] = isOscillating && i >= n / 2 ? low : high;
+    if (!input.isTrial) warnings.push({ message: isOscillating ? 'the section is unstable with this fault: it oscillates between the rails' : 'the op-amp has no DC feedback (R3 open or the like) and drifts to a rail' });
+    const values = { f0: Number.NaN, q: Number.NaN, bw: Number.NaN, gain: Number.NaN, 'out.vpp': isOscillating ? high - low : 0 };
+    return { outputs: { out: { frequency: isOscillating ? behaviour.frequency : 0, samples: isOscillating ? target : target.subarray(0, 1) } }, values, warnings };
+  }
   const figures = filterFigures(net, OUT, input.opamp, 'bandpass', ideal.f0, input.isTrial ? 1e-6 : 1e-10);
   const out = applyResponse(source.samples, source.frequency, figures.response, target);
   const limited = limitOutput(out, source.frequency, input.opamp, input.supplies, input.isTrial === true);

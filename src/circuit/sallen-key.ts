@@ -5,6 +5,7 @@ import { filterFigures, type FilterFigures } from './filter-figures.js';
 import { applyResponse, type ComplexSlot } from './harmonic-response.js';
 import { swing } from './opamp.js';
 import { limitOutput } from './opamp-output.js';
+import { netStability } from './net-stability.js';
 import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import type { CheckSpec, Complex, EvalInput, EvalOutput, ImpedanceInput, PartFaults, PartValue, RawStage, StageWarning } from './types.js';
 
@@ -74,23 +75,25 @@ export function evaluateSallenKey(variant: SallenKeyVariant, input: EvalInput<Sa
   const n = source.samples.length;
   const target = input.buffer ? input.buffer(0, n) : new Float64Array(n);
   const warnings: StageWarning[] = [];
-  if (!(ideal.denominator > 0)) {
-    // Positive feedback through the K path outweighs the damping: right-half-plane poles. A
-    // complex pair (|Q| > 0.5) grows into an oscillation near f0 that the rails limit; real
-    // poles (|Q| ≤ 0.5, or a first-order remnant when a capacitor is open) run the output to a
-    // rail and hold it there. Either way no filter figure can be read.
+  const net = buildNet(hasGain ? 6 : 5, placement(variant, hasGain), input.parts, fault, { out: OUT, plus: P, minus: hasGain ? N : OUT });
+  // Its natural frequencies with the op-amp as it is (net-stability.ts): too much positive
+  // feedback through the K path, or the op-amp's own lag at high Q, leaves poles on the right.
+  const stability = netStability(net, input.opamp, 2 * Math.PI * nominalIdeal.f0);
+  if (stability.kind !== 'stable') {
+    // A complex pair grows into an oscillation near f0 that the rails limit; a real pole runs
+    // the output to a rail and holds it there. Either way no filter figure can be read.
     const { high, low } = swing(input.opamp, input.supplies);
-    const isOscillating = Math.abs(ideal.q) > 0.5 && Number.isFinite(ideal.q);
+    const isOscillating = stability.kind === 'oscillates';
     for (let i = 0; i < n; i++) target[i] = isOscillating && i >= n / 2 ? low : high;
     if (!input.isTrial) {
-      const what = isOscillating ? 'oscillates near f0 between the rails' : 'latches at a rail';
-      warnings.push({ message: `K = ${k.toPrecision(3)} is too high for these parts: the damping term goes negative and the stage ${what} instead of filtering` });
+      const what = isOscillating ? `oscillates between the rails (near ${formatValue(stability.frequency, 'Hz')} at onset)` : 'latches at a rail';
+      const why = ideal.denominator > 0 ? `the op-amp's lag at this Q (gain-bandwidth ${formatValue(input.opamp.gbw, 'Hz')})` : `K = ${k.toPrecision(3)}, too high for these parts`;
+      warnings.push({ message: `the section is unstable (${why}): the stage ${what} instead of filtering` });
     }
     const values = { f0: Number.NaN, q: Number.NaN, fc: Number.NaN, gain: Number.NaN, 'out.vpp': isOscillating ? high - low : 0 };
-    const frequency = isOscillating && Number.isFinite(ideal.f0) ? ideal.f0 : 0;
+    const frequency = isOscillating ? stability.frequency : 0;
     return { outputs: { out: { frequency, samples: isOscillating ? target : target.subarray(0, 1) } }, values, warnings };
   }
-  const net = buildNet(hasGain ? 6 : 5, placement(variant, hasGain), input.parts, fault, { out: OUT, plus: P, minus: hasGain ? N : OUT });
   const rtol = input.isTrial ? 1e-6 : 1e-10;
   const figures: FilterFigures = filterFigures(net, OUT, input.opamp, variant, nominalIdeal.f0, rtol);
   const out = applyResponse(source.samples, source.frequency, figures.response, target);
