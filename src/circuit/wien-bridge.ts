@@ -6,6 +6,7 @@ import { shortConductance } from './linear-net.js';
 import { swing } from './opamp.js';
 import { limitOutput } from './opamp-output.js';
 import { findRoot } from './response-search.js';
+import { fastThd } from './spectrum.js';
 import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartFaults, PartValue, StageFault, StageKind, StageWarning } from './types.js';
 import { defaultSamples } from './waveform.js';
@@ -102,7 +103,7 @@ function evaluate(input: EvalInput<WienBridgeSettings>): EvalOutput {
   const still = (level: number, why: string): EvalOutput => {
     out.fill(level);
     if (!isTrial) warnings.push({ message: why });
-    return { outputs: { out: { frequency: 0, samples: out.subarray(0, 1) } }, values: { freq: Number.NaN, 'out.vpp': 0 }, warnings };
+    return { outputs: { out: { frequency: 0, samples: out.subarray(0, 1) } }, values: { freq: Number.NaN, 'out.vpp': 0, 'out.thd': Number.NaN }, warnings };
   };
   // Positive feedback down to DC (a capacitor shorted; R2 open, leaving the capacitive divider
   // C1/(C1 + C2)): a real right-half-plane pole, the output runs to a rail and stays.
@@ -167,12 +168,15 @@ function evaluate(input: EvalInput<WienBridgeSettings>): EvalOutput {
     if (!fault && g0 < target * 1.05) warnings.push({ message: `the start-up margin is thin (small-signal gain ${g0.toPrecision(4)} against ${target.toPrecision(4)} needed): with part tolerances some boards will not start` });
     warnings.push(...limited.warnings);
   }
-  return { outputs: { out: { frequency: best, samples: out } }, values: { freq: best, 'out.vpp': limited.hi - limited.lo }, warnings };
+  // THD per DESIGN §4 (harmonics 2…50 over the fundamental), of the output as drawn: the diodes'
+  // and the swing's distortion; an op-amp's own distortion near its gain-bandwidth is not in it.
+  return { outputs: { out: { frequency: best, samples: out } }, values: { freq: best, 'out.vpp': limited.hi - limited.lo, 'out.thd': fastThd(out) }, warnings };
 }
 
 const checks: readonly CheckSpec[] = [
   { key: 'freq', quantity: 'frequency', unit: 'Hz', output: 'out', instrument: 'counter', how: 'counter or scope frequency readout at the oscillator output, 10× probe (a 1× probe loads the bridge)', captureFigure: 'frequency' },
   { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the oscillator output once the amplitude has settled (a second or so), 10× probe, read peak-to-peak', captureFigure: 'vpp' },
+  { key: 'out.thd', quantity: 'total harmonic distortion', unit: '1', output: 'out', instrument: 'scope', how: 'distortion analyser, or a scope capture analysed for THD (harmonics 2 to 50): the limiting diodes leave a few per cent', captureFigure: 'thd' },
 ];
 
 function faults(settings: WienBridgeSettings): readonly PartFaults[] {
@@ -226,6 +230,11 @@ export const wienBridgeKind: StageKind<WienBridgeSettings> = {
       'a bridge capacitor the wrong value (C1 or C2): f0 moves with √(C1·C2)',
       'R1 or R2 the wrong value or swapped with another arm',
       'a slow op-amp: its phase lag pulls the frequency down when the gain-bandwidth is not far above 3·f0',
+    ],
+    'out.thd': [
+      'high: the amplitude runs into the rails (a diode open, Rf2 open, or Rf1 too large)',
+      'high: the start-up gain set far above the bridge loss, so the diodes work hard',
+      'low and the amplitude unsteady: the start-up margin is too thin',
     ],
     'out.vpp': [
       'no output at all: the stage did not start — Rf2 shorted, Rg too large or Rf1 too small (the gain must exceed 1 + R1/R2 + C2/C1, 3 for equal arms)',

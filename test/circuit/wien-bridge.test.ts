@@ -33,6 +33,10 @@ describe('wien-bridge against an ngspice transient (behavioural op-amp, 1N4148-c
     // ngspice transient, the last 20 of 150 periods: amplitude within 5 %, frequency within 1 % (3 % where the GBW matters).
     expect(rel(v['out.vpp'] as number, s.vpp)).toBeLessThan(0.05);
     expect(rel(v['freq'] as number, s.freq)).toBeLessThan(ftol);
+    // THD of the last ten periods, where the op-amp is fast: within 5 % of ngspice's (relative). On the
+    // 1 MHz op-amp at 19 kHz the model's THD is 21 % off: ngspice's op-amp input stage (tanh) adds
+    // distortion of its own there, which the model leaves out.
+    if (ftol === 0.01) expect(rel(v['out.thd'] as number, s.thd)).toBeLessThan(0.05);
   });
 
   test('on the 1 MHz op-amp the ideal f0 is more than 5 % high; the model is not', () => {
@@ -60,6 +64,7 @@ describe('wien-bridge against an ngspice transient (behavioural op-amp, 1N4148-c
     // pulls it 2.3 % below the linear loop's; the harmonic balance follows).
     expect(rel(r.values['out.vpp'] as number, s.vpp)).toBeLessThan(0.02);
     expect(rel(r.values['freq'] as number, s.freq)).toBeLessThan(0.01);
+    expect(rel(r.values['out.thd'] as number, s.thd)).toBeLessThan(0.05);
     expect(r.warnings.map((w) => w.message).join()).toMatch(/clips at .*fit Rf2/);
   });
 

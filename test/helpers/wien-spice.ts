@@ -7,9 +7,12 @@ import { opampSubcktFor } from './spice-opamp.js';
  * + input), with the behavioural op-amp and, when Rf2 is given, two
  * antiparallel diodes across it (SPICE diode model IS, N, RS). Returns the
  * settled peak-to-peak (last `keep` periods) and the frequency from rising
- * zero crossings over the same stretch (linear interpolation between points).
+ * zero crossings over the same stretch (linear interpolation between points),
+ * and the THD (harmonics 2 to 50 over the fundamental, DESIGN §4) of the last
+ * ten whole periods, resampled at 4096 points between crossings and
+ * transformed by a direct DFT written here (nothing from src/).
  */
-export function spiceWien(parts: Record<string, number>, op: OpampModel, supplies: Supplies, diode = { is: 2.52e-9, n: 1.752, rs: 0.568 }, periods = 150, keep = 20): { vpp: number; freq: number } {
+export function spiceWien(parts: Record<string, number>, op: OpampModel, supplies: Supplies, diode = { is: 2.52e-9, n: 1.752, rs: 0.568 }, periods = 150, keep = 20): { vpp: number; freq: number; thd: number } {
   const f0 = 1 / (2 * Math.PI * Math.sqrt((parts['R1'] as number) * (parts['R2'] as number) * (parts['C1'] as number) * (parts['C2'] as number)));
   const T = 1 / f0;
   const hasRf2 = parts['Rf2'] !== undefined;
@@ -43,5 +46,28 @@ export function spiceWien(parts: Record<string, number>, op: OpampModel, supplie
   }
   const first = crossings[0] as number;
   const last = crossings[crossings.length - 1] as number;
-  return { vpp: hi - lo, freq: (crossings.length - 1) / (last - first) };
+  const t0 = crossings[crossings.length - 11] as number;
+  const n = 4096;
+  const s = new Float64Array(n);
+  let j = 0;
+  for (let i = 0; i < n; i++) {
+    const x = t0 + ((last - t0) * i) / n;
+    while ((time[j + 1] as number) < x) j++;
+    const w = (x - (time[j] as number)) / ((time[j + 1] as number) - (time[j] as number));
+    s[i] = (v[j] as number) * (1 - w) + (v[j + 1] as number) * w;
+  }
+  let fundamental = 0;
+  let sum = 0;
+  for (let k = 1; k <= 50; k++) {
+    let re = 0;
+    let im = 0;
+    for (let i = 0; i < n; i++) {
+      const a = (2 * Math.PI * 10 * k * i) / n;
+      re += (s[i] as number) * Math.cos(a);
+      im += (s[i] as number) * Math.sin(a);
+    }
+    if (k === 1) fundamental = Math.hypot(re, im);
+    else sum += re * re + im * im;
+  }
+  return { vpp: hi - lo, freq: (crossings.length - 1) / (last - first), thd: Math.sqrt(sum) / fundamental };
 }
