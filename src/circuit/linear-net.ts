@@ -157,7 +157,10 @@ export class LinearNet {
         }
       }
       if (pivot !== col) {
-        for (let c = 0; c < m; c++) swap(ar, pivot * m + c, col * m + c), swap(ai, pivot * m + c, col * m + c);
+        for (let c = 0; c < m; c++) {
+          swap(ar, pivot * m + c, col * m + c);
+          swap(ai, pivot * m + c, col * m + c);
+        }
         swap(br, pivot, col);
         swap(bi, pivot, col);
         if (det) {

@@ -2,7 +2,7 @@ import { formatValue } from '../units/format.js';
 import { StageParseError } from './errors.js';
 import { buildNet, faultedValue, type PlacedPart } from './filter-net.js';
 import { filterFigures, type FilterFigures } from './filter-figures.js';
-import { applyResponse, type ComplexSlot } from './harmonic-response.js';
+import { applyResponse } from './harmonic-response.js';
 import { swing } from './opamp.js';
 import { limitOutput } from './opamp-output.js';
 import { netStability } from './net-stability.js';
