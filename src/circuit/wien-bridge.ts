@@ -88,6 +88,11 @@ function evaluate(input: EvalInput<WienBridgeSettings>): EvalOutput {
   const { parts, opamp, fault } = input;
   const { f0, startGain: needed } = wienIdeal(parts);
   const { high, low } = swing(opamp, input.supplies);
+  if (!(high > 0 && low < 0)) {
+    // Single supply: the bridge here is referred to ground and needs the output to swing both ways.
+    const why = `the op-amp's output reaches only ${formatValue(low, 'V')} … ${formatValue(high, 'V')}: a Wien bridge referred to ground needs a negative rail (a mid-rail bias is not modelled)`;
+    return { outputs: { out: { frequency: 0, samples: new Float64Array([Math.max(low, Math.min(high, 0))]) } }, values: { freq: Number.NaN, 'out.vpp': 0, 'out.thd': Number.NaN }, warnings: input.isTrial ? [] : [{ message: why }] };
+  }
   const path = gainPath(input, high, low);
   const nvt = thermalVoltage() * input.settings.diode.n;
   const g0 = smallSignalGain(path, nvt);

@@ -135,6 +135,11 @@ describe('wien-bridge closed forms and the limiter', () => {
   test('Rf2 shorted (with its diodes): gain 2.5, it does not start', () => {
     expect(run(equalArms, op, { role: 'Rf2', mode: 'short' }).values['out.vpp']).toBe(0);
   });
+  test('on a single supply (no negative rail) it is refused with a reason, not computed', () => {
+    const r = wienBridgeKind.evaluate({ parts: equalArms, settings: { hasLimiter: true, diode: defaultDiode, diodeName: 'test' }, opamp: op, supplies: { pos: 12, neg: 0 }, rails: {} });
+    expect(r.values['freq']).toBeNaN();
+    expect(r.warnings.map((w) => w.message).join()).toMatch(/needs a negative rail/);
+  });
   test('a thin start-up margin is warned about', () => {
     const r = run({ ...equalArms, Rf1: 10.2e3 });
     expect(r.warnings.map((w) => w.message).join()).toMatch(/start-up margin is thin/);
