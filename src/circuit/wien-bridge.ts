@@ -181,7 +181,7 @@ function evaluate(input: EvalInput<WienBridgeSettings>): EvalOutput {
 const checks: readonly CheckSpec[] = [
   { key: 'freq', quantity: 'frequency', unit: 'Hz', output: 'out', instrument: 'counter', how: 'counter or scope frequency readout at the oscillator output, 10× probe (a 1× probe loads the bridge)', captureFigure: 'frequency' },
   { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the oscillator output once the amplitude has settled (a second or so), 10× probe, read peak-to-peak', captureFigure: 'vpp' },
-  { key: 'out.thd', quantity: 'total harmonic distortion', unit: '1', output: 'out', instrument: 'scope', how: 'distortion analyser, or a scope capture analysed for THD (harmonics 2 to 50): the limiting diodes leave a few per cent', captureFigure: 'thd' },
+  { key: 'out.thd', quantity: 'total harmonic distortion', unit: '1', output: 'out', instrument: 'scope', how: 'distortion analyser, or a scope capture analysed for THD (harmonics 2 to 50): the limiting diodes leave a few per cent', captureFigure: 'thd', floor: 0 },
 ];
 
 function faults(settings: WienBridgeSettings): readonly PartFaults[] {
