@@ -32,6 +32,9 @@ export const invertingAmpKind: StageKind<InvertingAmpSettings> = {
   },
   checks: () => amplifierChecks,
   evaluate,
+  // The inverting input is a virtual ground: the source sees Rin (Sedra and Smith;
+  // Rf/(1 + Aol) in series is below a milliohm for any Aol ≫ Rf/Rin).
+  inputImpedance: (x) => ({ re: x.parts['Rin'] ?? Number.NaN, im: 0 }),
   faultHints: {
     gain: [
       'Rf and Rin swapped: the gain reads as 1/gain (−0.3 instead of −3.3)',

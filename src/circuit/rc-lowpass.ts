@@ -1,26 +1,80 @@
+import { add, capacitor, isOpen, loadedShare, parallel, resistance } from './complex.js';
+import { applyResponse } from './response.js';
 import { singlePole } from './single-pole.js';
 import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import { extremes } from './waveform.js';
-import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
+import type { CheckSpec, Complex, EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
 
 /** A passive RC low-pass has no settings beyond its parts. */
 export type RcLowpassSettings = Readonly<Record<string, never>>;
 
+/** A harmonic this far up stands for "well above the signal" when telling a resistive load from a reactive one. */
+const probeHarmonic = 64;
+
+/**
+ * Loaded: the output node is C in parallel with the load ZL, fed through R, so
+ * H(f) = Zp/(R + Zp) with Zp = 1/(jωC) ‖ ZL (Kirchhoff at the node). `fc` is
+ * the −3 dB corner of that loaded transfer function, |H(fc)| = |H(0)|/√2, the
+ * corner a technician finds on the bench with the next stage connected.
+ * A resistive load RL (real and the same at the fundamental and far above it,
+ * as an inverting amplifier's Rin or a follower's bias network) keeps a single
+ * pole: H(0) = RL/(R + RL) and fc = 1/(2π·(R‖RL)·C) (Thevenin equivalent of R
+ * and RL), computed in the time domain like the unloaded stage. Any other load
+ * goes harmonic by harmonic (response.ts) and its corner is found by bisection.
+ */
 function evaluate(input: EvalInput<RcLowpassSettings>): EvalOutput {
   const source = input.input;
   if (!source) throw new Error('rc-lowpass: no input waveform; the plan must name an "input"');
   const r = input.parts['R'] ?? Number.NaN;
   const c = input.parts['C'] ?? Number.NaN;
-  // Corner of a first-order RC section: fc = 1 / (2π·R·C) (any circuits handbook).
-  const fc = 1 / (2 * Math.PI * r * c);
-  // Unloaded output: every harmonic attenuated as 1/(1 + j·f/fc) (see single-pole.ts).
-  const out = singlePole(source.samples, source.frequency, fc);
+  const load = input.load;
+  const f0 = source.frequency;
+  const zl = load ? load('out', f0 > 0 ? f0 : 0) : undefined;
+  const zHigh = load && f0 > 0 ? load('out', probeHarmonic * f0) : zl;
+  let fc: number;
+  let out: Float64Array;
+  if (zl === undefined || isOpen(zl)) {
+    // Corner of a first-order RC section: fc = 1 / (2π·R·C) (any circuits handbook).
+    fc = 1 / (2 * Math.PI * r * c);
+    // Unloaded output: every harmonic attenuated as 1/(1 + j·f/fc) (see single-pole.ts).
+    out = singlePole(source.samples, f0, fc);
+  } else if (zl.im === 0 && zHigh !== undefined && zHigh.im === 0 && zHigh.re === zl.re) {
+    const rl = zl.re;
+    // Thevenin: RL/(R + RL) of the input behind R‖RL, corner 1/(2π·(R‖RL)·C).
+    const share = rl / (r + rl);
+    fc = 1 / (2 * Math.PI * ((r * rl) / (r + rl)) * c);
+    out = singlePole(source.samples, f0, fc);
+    for (let i = 0; i < out.length; i++) out[i] = share * (out[i] as number);
+  } else {
+    const h = (f: number): Complex => loadedShare(resistance(r), parallel(capacitor(c, f), load?.('out', f)));
+    out = applyResponse(source.samples, f0, h);
+    fc = loadedCorner(h, 1 / (2 * Math.PI * r * c));
+  }
   const { hi, lo } = extremes(out);
-  return { outputs: { out: { frequency: source.frequency, samples: out } }, values: { fc, 'out.vpp': hi - lo }, warnings: [] };
+  return { outputs: { out: { frequency: f0, samples: out } }, values: { fc, 'out.vpp': hi - lo }, warnings: [] };
+}
+
+/** Where |h(f)| falls to |h(0)|/√2, by bisection on log f around the unloaded corner `guess`. */
+export function loadedCorner(h: (f: number) => Complex, guess: number): number {
+  const g0 = h(0);
+  const target = 0.5 * (g0.re * g0.re + g0.im * g0.im);
+  const mag2 = (f: number): number => {
+    const g = h(f);
+    return g.re * g.re + g.im * g.im;
+  };
+  let lo = guess / 1e3;
+  let hi = guess * 1e3;
+  if (!(mag2(lo) > target) || !(mag2(hi) < target)) return Number.NaN;
+  for (let i = 0; i < 60 && hi / lo > 1 + 1e-9; i++) {
+    const mid = Math.sqrt(lo * hi);
+    if (mag2(mid) > target) lo = mid;
+    else hi = mid;
+  }
+  return Math.sqrt(lo * hi);
 }
 
 const checks: readonly CheckSpec[] = [
-  { key: 'fc', quantity: '−3 dB corner frequency', unit: 'Hz', output: 'out', instrument: 'scope', how: 'small sine in, raise the generator frequency until the output is 0.707 of the input (45° behind); read the generator' },
+  { key: 'fc', quantity: '−3 dB corner frequency', unit: 'Hz', output: 'out', instrument: 'scope', how: 'next stage connected, small sine in: raise the generator frequency until the output falls to 0.707 of its low-frequency level; read the generator' },
   { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the filter output with the chain signal applied, 10× probe (a 1× probe adds about 100 pF), read peak-to-peak' },
 ];
 
@@ -45,6 +99,10 @@ export const rcLowpassKind: StageKind<RcLowpassSettings> = {
   },
   checks: () => checks,
   evaluate,
+  // Input: R in series with C ‖ the load on the output (Kirchhoff, series and parallel impedances).
+  inputImpedance: (x, f) => add(resistance(x.parts['R'] ?? Number.NaN), parallel(capacitor(x.parts['C'] ?? Number.NaN, f), x.load?.('out', f))),
+  // Output, seen from downstream: the Thevenin impedance R ‖ 1/(jωC).
+  outputImpedance: (x, _output, f) => parallel(resistance(x.parts['R'] ?? Number.NaN), capacitor(x.parts['C'] ?? Number.NaN, f)),
   faultHints: {
     fc: [
       'C a decade off (1n or 100n fitted for 10n): the corner moves tenfold',

@@ -1,0 +1,84 @@
+import FFT from 'fft.js';
+import type { Complex } from './types.js';
+
+/**
+ * The periodic steady state of a linear network driven by one period of a
+ * waveform: every harmonic k (at k·frequency) multiplied by the transfer
+ * function h(k·frequency), DC by h(0). Through one real FFT and its inverse
+ * (fft.js) for power-of-two lengths, a direct DFT otherwise. Used where a stage's
+ * response is not a plain single pole (a passive stage under a reactive load, a
+ * generator's source impedance into a frequency-dependent input); the plain
+ * single pole keeps its faster time-domain form (single-pole.ts).
+ * Harmonics up to half the sample count are kept; the Nyquist bin takes the real
+ * part of h only, so a real waveform stays real.
+ */
+export function applyResponse(samples: Float64Array, frequency: number, h: (f: number) => Complex, out: Float64Array = new Float64Array(samples.length)): Float64Array {
+  const n = samples.length;
+  if (!(frequency > 0) || n < 2) {
+    const g = h(0).re;
+    for (let i = 0; i < n; i++) out[i] = g * (samples[i] as number);
+    return out;
+  }
+  if ((n & (n - 1)) === 0 && n >= 4) return viaFft(samples, frequency, h, out);
+  return viaDft(samples, frequency, h, out);
+}
+
+const plans = new Map<number, { fft: FFT; spectrum: number[]; back: number[] }>();
+
+function viaFft(samples: Float64Array, frequency: number, h: (f: number) => Complex, out: Float64Array): Float64Array {
+  const n = samples.length;
+  let p = plans.get(n);
+  if (!p) {
+    const fft = new FFT(n);
+    p = { fft, spectrum: fft.createComplexArray(), back: fft.createComplexArray() };
+    plans.set(n, p);
+  }
+  const { fft, spectrum, back } = p;
+  fft.realTransform(spectrum, samples);
+  const half = n / 2;
+  for (let k = 0; k <= half; k++) {
+    const g = h(k * frequency);
+    const re = spectrum[2 * k] as number;
+    const im = spectrum[2 * k + 1] as number;
+    if (k === 0 || k === half) {
+      spectrum[2 * k] = re * g.re;
+      spectrum[2 * k + 1] = 0;
+    } else {
+      spectrum[2 * k] = re * g.re - im * g.im;
+      spectrum[2 * k + 1] = re * g.im + im * g.re;
+    }
+  }
+  // The mirror half of a real signal's spectrum: bin n−k is the conjugate of bin k.
+  for (let k = 1; k < half; k++) {
+    spectrum[2 * (n - k)] = spectrum[2 * k] as number;
+    spectrum[2 * (n - k) + 1] = -(spectrum[2 * k + 1] as number);
+  }
+  fft.inverseTransform(back, spectrum);
+  for (let i = 0; i < n; i++) out[i] = back[2 * i] as number;
+  return out;
+}
+
+function viaDft(samples: Float64Array, frequency: number, h: (f: number) => Complex, out: Float64Array): Float64Array {
+  const n = samples.length;
+  const half = Math.floor(n / 2);
+  out.fill(0);
+  for (let k = 0; k <= half; k++) {
+    let re = 0;
+    let im = 0;
+    for (let i = 0; i < n; i++) {
+      const a = (2 * Math.PI * k * i) / n;
+      re += (samples[i] as number) * Math.cos(a);
+      im -= (samples[i] as number) * Math.sin(a);
+    }
+    const g = h(k * frequency);
+    const yr = re * g.re - im * g.im;
+    const yi = re * g.im + im * g.re;
+    // Both halves of the spectrum at once: 2·Re(Y·e^{jθ})/n, except DC and Nyquist once.
+    const w = k === 0 || (n % 2 === 0 && k === half) ? 1 / n : 2 / n;
+    for (let i = 0; i < n; i++) {
+      const a = (2 * Math.PI * k * i) / n;
+      out[i] = (out[i] as number) + w * (yr * Math.cos(a) - yi * Math.sin(a));
+    }
+  }
+  return out;
+}
