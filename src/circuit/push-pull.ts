@@ -1,7 +1,8 @@
 import { StageParseError } from './errors.js';
 import { formatValue } from '../units/format.js';
 import { choiceAt, nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
-import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind, StageWarning } from './types.js';
+import { evaluateNetwork } from './push-pull-network.js';
+import type { CheckSpec, EvalInput, EvalOutput, ImpedanceInput, PartValue, StageKind, StageWarning } from './types.js';
 
 /**
  * A complementary emitter follower (NPN on top, PNP below, emitters joined at the
@@ -26,6 +27,12 @@ import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind, StageWarni
 export interface PushPullSettings {
   readonly bias: 'none' | 'diodes';
   readonly hasLoad: boolean;
+  /**
+   * Diode bias with its resistors `Rb1` (+rail → NPN base) and `Rb2` (PNP base →
+   * −rail) given: the stage is solved as built (push-pull-network.ts), every
+   * junction at its own current, and offers `iq` and `out.dc`. @default false
+   */
+  readonly hasNetwork?: boolean;
 }
 
 export const defaultVbe = 0.65;
@@ -35,12 +42,22 @@ export const defaultHfe = 100;
 /** A TO-92 transistor gets too hot to touch near half a watt (common practice, no source). */
 const hotWatts = 0.5;
 
+/** Total load on the output at f: Rload in parallel with what the plan or the chain hangs there, Ω. */
+export function outputLoad(input: { readonly parts: Readonly<Record<string, number>>; readonly settings: PushPullSettings; readonly load?: EvalInput<PushPullSettings>['load'] }, f: number): number {
+  let g = input.settings.hasLoad ? 1 / (input.parts['Rload'] ?? Number.NaN) : 0;
+  const z = input.load?.('out', f);
+  // A follower's output node is resistive at audio frequencies: its large-signal load is the real part.
+  if (z !== undefined && Number.isFinite(z.re) && z.re > 0) g += 1 / z.re;
+  return g > 0 ? 1 / g : Number.POSITIVE_INFINITY;
+}
+
 function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   const source = input.input;
   if (!source) throw new Error('push-pull: no input waveform; the plan must name an "input"');
+  if (input.settings.hasNetwork) return evaluateNetwork(input, source);
   const vbe = input.parts['vbe'] ?? defaultVbe;
   const hfe = input.parts['hfe'] ?? defaultHfe;
-  const load = input.settings.hasLoad ? (input.parts['Rload'] ?? Number.NaN) : Number.POSITIVE_INFINITY;
+  const load = outputLoad(input, source.frequency);
   const crossover = input.settings.bias === 'none';
   // The part of Vbe the bias diode does not cancel (0 when it drops as much or more).
   const dead = crossover ? vbe : Math.max(0, vbe - (input.parts['vd'] ?? vbe));
@@ -99,15 +116,40 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings };
 }
 
+/**
+ * What the driver sees, as a large-signal equivalent: each base takes its
+ * emitter's current over (hfe + 1), i.e. the load times (hfe + 1) (emitter
+ * follower, Horowitz and Hill), and with the diode bias network the bias
+ * resistors too, since a swing of v moves v/Rb1 + v/Rb2 between the diodes and
+ * the driver (Kirchhoff at the two bases): Rb1 ‖ Rb2 ‖ (hfe + 1)·RL. Inside the
+ * dead band of an unbiased stage nothing flows; the equivalent is that of the
+ * conducting half. Open without a load.
+ */
+function inputImpedance(x: ImpedanceInput<PushPullSettings>, f: number): { re: number; im: number } {
+  const rl = outputLoad(x, f);
+  const hn = x.parts['hfe'] ?? defaultHfe;
+  const hp = x.parts['hfe.pnp'] ?? hn;
+  let g = Number.isFinite(rl) ? 1 / ((0.5 * (hn + hp) + 1) * rl) : 0;
+  if (x.settings.hasNetwork) g += 1 / (x.parts['Rb1'] ?? Number.NaN) + 1 / (x.parts['Rb2'] ?? Number.NaN);
+  return { re: g > 0 ? 1 / g : Number.POSITIVE_INFINITY, im: 0 };
+}
+
 function checks(settings: PushPullSettings): readonly CheckSpec[] {
   const list: CheckSpec[] = [
     { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the output across the load, read peak-to-peak' },
     { key: 'deadband', quantity: 'crossover dead band (total width)', unit: 'V', output: 'out', instrument: 'scope', how: 'scope in X-Y mode, input on X and output on Y: read the width of the flat step around zero' },
   ];
+  if (settings.hasNetwork) {
+    list.push(
+      { key: 'iq', quantity: 'quiescent collector current per transistor', unit: 'A', instrument: 'meter', how: 'no signal (drive at 0 V): ammeter in series with one collector, or the rail current less the bias resistor\'s; caution, the transistors may run hot' },
+      { key: 'out.dc', quantity: 'output offset, no signal', unit: 'V', output: 'out', instrument: 'meter', how: 'no signal (drive at 0 V): DC voltmeter from the output to ground' },
+    );
+  }
+  // Nobody probes these at a test point: design figures, in targets but not on the bring-up list.
   if (settings.hasLoad) {
     list.push(
-      { key: 'out.ipeak', quantity: 'peak load current', unit: 'A', output: 'out', instrument: 'scope', how: 'scope across the load resistor: peak voltage over its value' },
-      { key: 'base.ipeak', quantity: 'peak base drive current', unit: 'A', instrument: 'scope', how: 'scope across a series base resistor if fitted, or from the driver\'s output; peak voltage over the resistor' },
+      { key: 'out.ipeak', quantity: 'peak load current', unit: 'A', output: 'out', instrument: 'scope', how: 'scope across the load resistor: peak voltage over its value', isDesignFigure: true },
+      { key: 'base.ipeak', quantity: 'peak base drive current', unit: 'A', instrument: 'scope', how: 'scope across a series base resistor if fitted, or from the driver\'s output; peak voltage over the resistor', isDesignFigure: true },
     );
   }
   return list;
@@ -120,14 +162,18 @@ export const pushPullKind: StageKind<PushPullSettings> = {
     { role: 'Rload', unit: 'Ω', description: 'load from the output to ground', optional: true },
     { role: 'vbe', unit: 'V', description: 'base-emitter drop of the output transistors', optional: true },
     { role: 'hfe', unit: 'V/V', description: 'current gain of the output transistors', optional: true },
-    { role: 'vd', unit: 'V', description: 'drop of each bias diode (diode bias only; default Vbe ± 8 %)', optional: true },
+    { role: 'vd', unit: 'V', description: 'drop of each bias diode (diode bias without Rb1/Rb2 only; default Vbe ± 8 %)', optional: true },
+    { role: 'Rb1', unit: 'Ω', description: 'bias resistor from the positive rail to the NPN base (diode bias)', optional: true },
+    { role: 'Rb2', unit: 'Ω', description: 'bias resistor from the PNP base to the negative rail (diode bias)', optional: true },
+    { role: 'vbe.pnp', unit: 'V', description: 'base-emitter drop of the PNP at 1 mA (with Rb1/Rb2; default: the plan\'s vbe)', optional: true },
+    { role: 'hfe.pnp', unit: 'V/V', description: 'current gain of the PNP (with Rb1/Rb2; default: the plan\'s hfe)', optional: true },
   ],
   outputs: ['out'],
   needsInput: true,
   parse(raw, file) {
     const r = reader(raw, file);
     const p = nested(r, 'parts');
-    onlyKeys(p, ['Rload']);
+    onlyKeys(p, ['Rload', 'Rb1', 'Rb2']);
     const parts: Record<string, PartValue> = {};
     const load = partAt(p, 'Rload', 'Ω', false, { positive: true, plausible: ohmRange, example: '"1k 5%"' });
     if (load) parts['Rload'] = load;
@@ -138,14 +184,37 @@ export const pushPullKind: StageKind<PushPullSettings> = {
     const bias = choiceAt(r, 'bias', ['none', 'diodes'] as const);
     const vd = partAt(r, 'vd', 'V', false, { positive: true, example: '"0.65 V 8%"' });
     if (vd && bias !== 'diodes') throw new StageParseError(file, `${raw.path}.vd`, 'a bias diode drop only applies with "bias": "diodes"; remove it or set the bias');
-    if (bias === 'diodes') {
+    const rb1 = partAt(p, 'Rb1', 'Ω', false, { positive: true, plausible: ohmRange, example: '"4k7 5%"' });
+    const rb2 = partAt(p, 'Rb2', 'Ω', false, { positive: true, plausible: ohmRange, example: '"4k7 5%"' });
+    const hasNetwork = rb1 !== undefined || rb2 !== undefined;
+    if (hasNetwork) {
+      if (bias !== 'diodes') throw new StageParseError(file, `${raw.path}.parts.${rb1 ? 'Rb1' : 'Rb2'}`, 'bias resistors only apply with "bias": "diodes"; set the bias or remove them');
+      if (!rb1 || !rb2) throw new StageParseError(file, `${raw.path}.parts.${rb1 ? 'Rb2' : 'Rb1'}`, 'missing; the diode bias network needs both Rb1 (+rail to the NPN base) and Rb2 (PNP base to −rail), e.g. "4k7 5%"');
+      if (vd) throw new StageParseError(file, `${raw.path}.vd`, 'with Rb1 and Rb2 the bias diodes follow the diode law at their real current; remove "vd"');
+      parts['Rb1'] = rb1;
+      parts['Rb2'] = rb2;
+      // The PNP is its own part: by default the plan's vbe and hfe, varied independently of the NPN's.
+      const pnp = nested(r, 'pnp');
+      onlyKeys(pnp, ['vbe', 'hfe']);
+      const vbeP = partAt(pnp, 'vbe', 'V', false, { positive: true, example: '"0.7 V 10%"' });
+      const hfeP = partAt(pnp, 'hfe', 'V/V', false, { positive: true, example: '150' });
+      const v = vbe ?? { nominal: defaultVbe, tol: 0, unit: 'V' as const, text: `${defaultVbe} V (default)` };
+      const h = hfe ?? { nominal: defaultHfe, tol: 0, unit: 'V/V' as const, text: `${defaultHfe} (default)` };
+      parts['vbe'] = v;
+      parts['hfe'] = h;
+      parts['vbe.pnp'] = vbeP ?? v;
+      parts['hfe.pnp'] = hfeP ?? h;
+    } else if (raw.json['pnp'] !== undefined) {
+      throw new StageParseError(file, `${raw.path}.pnp`, 'separate PNP values apply to the diode bias network only; add Rb1 and Rb2 or remove "pnp"');
+    } else if (bias === 'diodes') {
       const v = vbe?.nominal ?? defaultVbe;
       parts['vd'] = vd ?? { nominal: v, tol: defaultMatch, unit: 'V', text: `${v} V ${defaultMatch * 100}% (default: matched to Vbe)` };
     }
-    return { parts, settings: { bias, hasLoad: load !== undefined } };
+    return { parts, settings: { bias, hasLoad: load !== undefined, hasNetwork } };
   },
   checks,
   evaluate,
+  inputImpedance,
   faultHints: {
     'out.vpp': [
       'the drive level is off: check the upstream stage first',
@@ -160,5 +229,16 @@ export const pushPullKind: StageKind<PushPullSettings> = {
     ],
     'out.ipeak': ['the load is not the value the plan assumes', 'the output is clipping: check the rails'],
     'base.ipeak': ['a lower-gain transistor fitted (hfe below the plan\'s)', 'the driver cannot supply the base current: its output sags at the peaks'],
+    iq: [
+      'a bias diode shorted or the wrong type: the standing current collapses (crossover returns) or climbs',
+      'Rb1 or Rb2 the wrong value: the diodes carry another current and drop more or less',
+      'transistors of another type, or not sharing heat with the diodes: the current drifts as they warm',
+      'caution: a standing current that rises as the parts warm is thermal runaway; power off and let them cool',
+    ],
+    'out.dc': [
+      'Rb1 and Rb2 unequal (a wrong value fitted): the midpoint pulls one way',
+      'one transistor or bias diode open: the output sits a Vbe toward one rail',
+      'the driver stage has an offset: check its DC level first',
+    ],
   },
 };
