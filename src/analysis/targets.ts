@@ -92,6 +92,7 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
       isLimit: c.phase === 'unpowered' || c.phase === 'first-power',
       upstream,
       ...(stage?.input ? { input: `${stage.input.stage}.${stage.input.output}` } : {}),
+      ...(c.isDesignFigure ? { isDesignFigure: true } : {}),
     };
     if (c.phase === 'unpowered') {
       const band = { min: plan.railShortMin, max: Infinity };

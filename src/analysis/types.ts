@@ -44,6 +44,8 @@ export interface Target {
   readonly upstream?: readonly string[];
   /** The upstream output this check's stage takes (`"osc.triangle"`), when it has an input. */
   readonly input?: string;
+  /** A design figure nobody probes at a test point (a base drive current): listed, never asked for. */
+  readonly isDesignFigure?: boolean;
 }
 
 export interface DesignWarning {

@@ -215,6 +215,12 @@ export const pushPullKind: StageKind<PushPullSettings> = {
   checks,
   evaluate,
   inputImpedance,
+  // Seen from the load: the base source over (hfe + 1) plus the emitter's Vt/Ie at about 1 mA
+  // (emitter follower output resistance, Horowitz and Hill); an estimate, the stage solves its own load.
+  outputImpedance: (x) => {
+    const rb = x.settings.hasNetwork ? 1 / (1 / (x.parts['Rb1'] ?? Number.NaN) + 1 / (x.parts['Rb2'] ?? Number.NaN)) : 0;
+    return { re: rb / ((x.parts['hfe'] ?? defaultHfe) + 1) + 26, im: 0 };
+  },
   faultHints: {
     'out.vpp': [
       'the drive level is off: check the upstream stage first',

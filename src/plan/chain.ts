@@ -164,7 +164,8 @@ export function buildChain(plan: Plan): Chain {
     let cur = s;
     while (true) {
       const sp = stagePlans[cur] as StagePlan;
-      if (sp.inputStage < 0 || !sp.stage.module.inputImpedance) break;
+      // Only an upstream output with a source impedance feels its load (an op-amp output does not).
+      if (sp.inputStage < 0 || !sp.stage.module.inputImpedance || !stagePlans[sp.inputStage]?.stage.module.outputImpedance) break;
       cur = sp.inputStage;
       first = Math.min(first, cur);
     }

@@ -19,6 +19,8 @@ export interface PlanCheck {
   readonly phase: Phase;
   /** The rail a rail check is about. */
   readonly rail?: string;
+  /** A design figure nobody probes (CheckSpec.isDesignFigure): in targets, never on the bring-up list. */
+  readonly isDesignFigure?: boolean;
 }
 
 /** The id of the idle-current check (DESIGN §4, contract). */
@@ -84,6 +86,7 @@ export function planChecks(plan: { readonly rails: readonly Rail[]; readonly sta
         how: spec.how,
         testPoint: tp ?? null,
         phase: 'stage',
+        ...(spec.isDesignFigure ? { isDesignFigure: true } : {}),
       });
     }
   }
