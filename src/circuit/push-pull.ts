@@ -1,5 +1,6 @@
 import { StageParseError } from './errors.js';
 import { formatValue } from '../units/format.js';
+import { thermalVoltage } from './diode.js';
 import { choiceAt, nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import { evaluateNetwork } from './push-pull-network.js';
 import type { CheckSpec, EvalInput, EvalOutput, ImpedanceInput, PartValue, StageKind, StageWarning } from './types.js';
@@ -51,6 +52,37 @@ export function outputLoad(input: { readonly parts: Readonly<Record<string, numb
   return g > 0 ? 1 / g : Number.POSITIVE_INFINITY;
 }
 
+/**
+ * The unbiased follower into a load RL, each half by the diode law: the
+ * conducting emitter carries Ie = y/RL, so vin − y = Vt·ln(1 + y/(RL·IS·(1 + 1/β)))
+ * (Ebers–Moll, IS from the plan's vbe taken at 1 mA collector current), solved
+ * per sample by Newton's method from the last sample's output (g is concave
+ * and rising: a few steps). The dead band, by our definition the drive width
+ * where dy/dvin < 1/2: dy/dvin = (RL·IS′ + y)/(RL·IS′ + y + Vt) is 1/2 at
+ * y = Vt − RL·IS′, i.e. at vin = Vt·(1 + ln(1 + Vt/(RL·IS′))) − RL·IS′ on each side.
+ */
+function unbiasedLaw(vbe: number, hfe: number, rl: number): { out: (x: number, guess: number) => number; deadband: number } {
+  const vt = thermalVoltage();
+  const ise = (1e-3 / Math.expm1(vbe / vt)) * (1 + 1 / hfe);
+  const k = rl * ise;
+  const half = (x: number, guess: number): number => {
+    // Solve y + Vt·ln(1 + y/k) = x for y ≥ 0 (x > 0).
+    let y = Math.max(0, Math.min(x, guess));
+    for (let it = 0; it < 50; it++) {
+      const g = y + vt * Math.log1p(y / k) - x;
+      const d = g / (1 + vt / (k + y));
+      y = Math.max(y - d, 0.5 * y);
+      if (Math.abs(d) < 1e-10) break;
+    }
+    return y;
+  };
+  const edge = vt * (1 + Math.log1p(vt / k)) - k;
+  return {
+    out: (x, guess) => (x > 0 ? half(x, Math.abs(guess)) : x < 0 ? -half(-x, Math.abs(guess)) : 0),
+    deadband: 2 * Math.max(0, edge),
+  };
+}
+
 function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   const source = input.input;
   if (!source) throw new Error('push-pull: no input waveform; the plan must name an "input"');
@@ -61,6 +93,8 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   const crossover = input.settings.bias === 'none';
   // The part of Vbe the bias diode does not cancel (0 when it drops as much or more).
   const dead = crossover ? vbe : Math.max(0, vbe - (input.parts['vd'] ?? vbe));
+  // Unbiased into a load: each junction by the diode law at the current it carries.
+  const law = crossover && Number.isFinite(load) ? unbiasedLaw(vbe, hfe, load) : undefined;
   const high = input.supplies.pos - vbe;
   const low = input.supplies.neg + vbe;
   const samples = source.samples;
@@ -71,7 +105,7 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   let clipped = false;
   for (let i = 0; i < n; i++) {
     const x = samples[i] as number;
-    let y = x > dead ? x - dead : x < -dead ? x + dead : 0;
+    let y = law ? law.out(x, i > 0 ? (out[i - 1] as number) : 0) : x > dead ? x - dead : x < -dead ? x + dead : 0;
     if (y > high || y < low) {
       clipped = true;
       y = Math.min(high, Math.max(low, y));
@@ -96,7 +130,7 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
     heatBottom /= load;
   }
   const ipeak = Math.max(Math.abs(hi), Math.abs(lo)) / load;
-  const values: Record<string, number> = { 'out.vpp': hi - lo, deadband: 2 * dead };
+  const values: Record<string, number> = { 'out.vpp': hi - lo, deadband: law ? law.deadband : 2 * dead };
   if (input.settings.hasLoad) {
     values['out.ipeak'] = ipeak;
     values['base.ipeak'] = ipeak / hfe;
