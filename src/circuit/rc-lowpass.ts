@@ -48,29 +48,53 @@ function evaluate(input: EvalInput<RcLowpassSettings>): EvalOutput {
   } else {
     const h = (f: number): Complex => loadedShare(resistance(r), parallel(capacitor(c, f), load?.('out', f)));
     out = applyResponse(source.samples, f0, h);
-    fc = loadedCorner(h, 1 / (2 * Math.PI * r * c));
+    // A start near the answer: the corner with the load's resistance at the fundamental.
+    const rl = zl.re > 0 ? zl.re : Number.POSITIVE_INFINITY;
+    fc = loadedCorner(h, 1 / (2 * Math.PI * (Number.isFinite(rl) ? (r * rl) / (r + rl) : r) * c));
   }
   const { hi, lo } = extremes(out);
   return { outputs: { out: { frequency: f0, samples: out } }, values: { fc, 'out.vpp': hi - lo }, warnings: [] };
 }
 
-/** Where |h(f)| falls to |h(0)|/√2, by bisection on log f around the unloaded corner `guess`. */
+/**
+ * Where |h(f)| falls to |h(0)|/√2: a bracket around `guess` (widened until it
+ * holds the crossing), then regula falsi with the Illinois step on
+ * ln|h|² against ln f, which is nearly straight there; to 1e-9 relative.
+ */
 export function loadedCorner(h: (f: number) => Complex, guess: number): number {
   const g0 = h(0);
-  const target = 0.5 * (g0.re * g0.re + g0.im * g0.im);
-  const mag2 = (f: number): number => {
-    const g = h(f);
-    return g.re * g.re + g.im * g.im;
+  const target = Math.log(0.5 * (g0.re * g0.re + g0.im * g0.im));
+  const err = (lf: number): number => {
+    const g = h(Math.exp(lf));
+    return Math.log(g.re * g.re + g.im * g.im) - target;
   };
-  let lo = guess / 1e3;
-  let hi = guess * 1e3;
-  if (!(mag2(lo) > target) || !(mag2(hi) < target)) return Number.NaN;
-  for (let i = 0; i < 60 && hi / lo > 1 + 1e-9; i++) {
-    const mid = Math.sqrt(lo * hi);
-    if (mag2(mid) > target) lo = mid;
-    else hi = mid;
+  let a = Math.log(guess) - 0.1;
+  let b = Math.log(guess) + 0.1;
+  let fa = err(a);
+  let fb = err(b);
+  for (let i = 0; i < 40 && !(fa > 0 && fb < 0); i++) {
+    if (!(fa > 0)) fa = err((a -= 0.5 + i));
+    if (!(fb < 0)) fb = err((b += 0.5 + i));
   }
-  return Math.sqrt(lo * hi);
+  if (!(fa > 0 && fb < 0)) return Number.NaN;
+  let side = 0;
+  for (let i = 0; i < 100 && b - a > 1e-9; i++) {
+    const x = (a * fb - b * fa) / (fb - fa);
+    const fx = err(x);
+    if (fx > 0) {
+      a = x;
+      fa = fx;
+      if (side === 1) fb /= 2;
+      side = 1;
+    } else {
+      b = x;
+      fb = fx;
+      if (side === -1) fa /= 2;
+      side = -1;
+    }
+    if (Math.abs(fx) < 1e-12) return Math.exp(x);
+  }
+  return Math.exp(0.5 * (a + b));
 }
 
 const checks: readonly CheckSpec[] = [
