@@ -56,67 +56,114 @@ export function outputLoad(input: { readonly parts: Readonly<Record<string, numb
 /**
  * The unbiased follower into a load RL, each half by the diode law: the
  * conducting emitter carries Ie = y/RL, so vin − y = Vt·ln(1 + y/(RL·IS·(1 + 1/β)))
- * (Ebers–Moll, IS from the plan's vbe taken at 1 mA collector current), solved
- * by Newton's method (see `half`). The dead band, by our definition the drive width
- * where dy/dvin < 1/2: dy/dvin = (RL·IS′ + y)/(RL·IS′ + y + Vt) is 1/2 at
- * y = Vt − RL·IS′, i.e. at vin = Vt·(1 + ln(1 + Vt/(RL·IS′))) − RL·IS′ on each side.
+ * (Ebers–Moll, IS from the plan's vbe taken at 1 mA collector current). With
+ * k = RL·IS·(1 + 1/β) the curve is odd (y(−x) = −y(x)) and explicit when walked
+ * along the junction voltage u·Vt: y = k·(e^u − 1), x = y + Vt·u, dy/dx =
+ * (k + y)/(k + y + Vt). The dead band, by our definition the drive width where
+ * dy/dx < 1/2: that is at y = Vt − k, i.e. x = Vt·(1 + ln(1 + Vt/k)) − k on each side.
+ *
+ * The samples: knots uniform in u through the dead band and the knee (up to
+ * y = 8·Vt), then uniform in y up to the largest drive (whose output is solved
+ * by Newton's method, see `lawSolve`); each sample finds its interval through a
+ * uniform grid of cells and follows by cubic Hermite interpolation. Against a
+ * bisection per sample, sines of 1–10 V into 100 Ω … 10 kΩ: within 0.35 mV
+ * (test/circuit/push-pull.test.ts holds it to 1 mV). Module state and plain
+ * functions, no closures: a trial allocates nothing here.
  */
-function unbiasedLaw(vbe: number, hfe: number, rl: number): { out: (x: number) => number; slope: (y: number) => number; deadband: number } {
-  const vt = thermalVoltage();
-  const ise = (1e-3 / Math.expm1(vbe / vt)) * (1 + 1 / hfe);
-  const k = rl * ise;
-  const half = (x: number): number => {
-    // Solve y + Vt·ln(1 + y/k) = x for y ≥ 0 (x > 0) in u = ln(1 + y/k), the junction
-    // voltage over Vt: F(u) = k·(e^u − 1) + Vt·u − x is convex and rising, so Newton's
-    // method from u = ln(1 + x/k) (where y = x, above the root) descends monotonically.
-    let u = Math.log1p(x / k);
-    for (let it = 0; it < 60; it++) {
-      const e = k * Math.exp(u);
-      const d = (e - k + vt * u - x) / (e + vt);
-      u -= d;
-      if (d < 1e-12) break;
-    }
-    return k * Math.expm1(u);
-  };
-  const edge = vt * (1 + Math.log1p(vt / k)) - k;
-  return {
-    out: (x) => (x > 0 ? half(x) : x < 0 ? -half(-x) : 0),
-    slope: (y) => (k + Math.abs(y)) / (k + Math.abs(y) + vt),
-    deadband: 2 * Math.max(0, edge),
-  };
+const kneeKnots = 24;
+const lineKnots = 24;
+const knotCount = kneeKnots + lineKnots + 1;
+const lawX = new Float64Array(knotCount);
+const lawY = new Float64Array(knotCount);
+const lawS = new Float64Array(knotCount);
+/** A uniform grid over 0…top naming the knot each cell starts in: a sample's interval in a step or two. */
+const cells = 64;
+const cellStart = new Int32Array(cells + 1);
+let lawTop = 0;
+let lawYTop = 0;
+let lawLast = 0;
+let lawPerCell = 0;
+
+/** k = RL·IS·(1 + 1/β), A·Ω = V, for the plan's vbe at 1 mA. */
+function lawK(vbe: number, hfe: number, rl: number, vt: number): number {
+  return rl * (1e-3 / Math.expm1(vbe / vt)) * (1 + 1 / hfe);
 }
 
 /**
- * The unbiased transfer curve over the drive's range: solved at knots, each
- * sample by cubic Hermite interpolation with the slope from the diode law (the
- * extremes are knots). Against a bisection per sample, sines of 1–10 V into
- * 100 Ω … 10 kΩ: within 0.02 mV on the demo line driver (3.85 V into 600 Ω), 3.5 mV
- * at worst (10 V into 10 kΩ, 0.02 % of the swing); 96 intervals cost about 1 µs.
+ * y for a drive x > 0: y + Vt·ln(1 + y/k) = x, in u = ln(1 + y/k). F(u) = k·(e^u − 1)
+ * + Vt·u − x is convex and rising, so Newton's method converges from anywhere,
+ * monotonically once above the root. Start: the output a junction drop below
+ * the drive (just below the root), or inside the dead band u = x/Vt (above it).
  */
-const lawIntervals = 96;
-const lawY = new Float64Array(lawIntervals + 1);
-const lawS = new Float64Array(lawIntervals + 1);
-
-function lawCurve(law: ReturnType<typeof unbiasedLaw>, samples: Float64Array): (x: number) => number {
-  const { hi, lo } = extremes(samples);
-  if (!(hi > lo)) return law.out;
-  const h = (hi - lo) / lawIntervals;
-  for (let j = 0; j <= lawIntervals; j++) {
-    const y = law.out(j === lawIntervals ? hi : lo + j * h);
-    lawY[j] = y;
-    lawS[j] = law.slope(y);
+function lawSolve(x: number, k: number, vt: number): number {
+  const y0 = x - vt * Math.log1p(x / k);
+  let u = y0 > 0 ? Math.log1p(y0 / k) : x / vt;
+  for (let it = 0; it < 60; it++) {
+    const e = k * Math.exp(u);
+    const d = (e - k + vt * u - x) / (e + vt);
+    u -= d;
+    if (Math.abs(d) < 1e-11) break;
   }
-  return (x) => {
-    const u = (x - lo) / h;
-    const j = Math.min(lawIntervals - 1, Math.max(0, Math.floor(u)));
-    const t = u - j;
-    const y0 = lawY[j] as number;
-    const d = (lawY[j + 1] as number) - y0;
-    const m0 = h * (lawS[j] as number);
-    const m1 = h * (lawS[j + 1] as number);
-    // Cubic Hermite (any numerical analysis text).
-    return y0 + t * (m0 + t * (3 * d - 2 * m0 - m1 + t * (m0 + m1 - 2 * d)));
-  };
+  return k * Math.expm1(u);
+}
+
+function lawDeadband(k: number, vt: number): number {
+  return 2 * Math.max(0, vt * (1 + Math.log1p(vt / k)) - k);
+}
+
+function lawKnot(i: number, u: number, y: number, k: number, vt: number): void {
+  lawX[i] = y + vt * u;
+  lawY[i] = y;
+  lawS[i] = (k + y) / (k + y + vt);
+}
+
+/** Fill the knots for drives up to `top` (> 0). */
+function lawCurve(top: number, k: number, vt: number): void {
+  const yTop = lawSolve(top, k, vt);
+  const yKnee = Math.min(8 * vt, yTop);
+  const uKnee = Math.log1p(yKnee / k);
+  let count = 0;
+  for (let j = 0; j <= kneeKnots; j++) {
+    const u = (uKnee * j) / kneeKnots;
+    lawKnot(count++, u, k * Math.expm1(u), k, vt);
+  }
+  if (yTop > yKnee) {
+    for (let j = 1; j <= lineKnots; j++) {
+      const y = yKnee + ((yTop - yKnee) * j) / lineKnots;
+      lawKnot(count++, Math.log1p(y / k), y, k, vt);
+    }
+  }
+  // The last knot is the largest drive itself (rounding aside): the peak is solved, not interpolated.
+  lawX[count - 1] = top;
+  lawY[count - 1] = yTop;
+  lawTop = top;
+  lawYTop = yTop;
+  lawLast = count - 1;
+  lawPerCell = cells / top;
+  let knot = 0;
+  for (let c = 0; c <= cells; c++) {
+    const edge = c / lawPerCell;
+    while (knot < lawLast - 1 && (lawX[knot + 1] as number) <= edge) knot++;
+    cellStart[c] = knot;
+  }
+}
+
+/** The output for drive x from the knots `lawCurve` filled. */
+function lawAt(x: number): number {
+  const ax = x < 0 ? -x : x;
+  if (ax >= lawTop) return x < 0 ? -lawYTop : lawYTop;
+  let a = cellStart[Math.floor(ax * lawPerCell)] as number;
+  while (a < lawLast - 1 && (lawX[a + 1] as number) <= ax) a++;
+  const x0 = lawX[a] as number;
+  const h = (lawX[a + 1] as number) - x0;
+  const t = (ax - x0) / h;
+  const y0 = lawY[a] as number;
+  const d = (lawY[a + 1] as number) - y0;
+  const m0 = h * (lawS[a] as number);
+  const m1 = h * (lawS[a + 1] as number);
+  // Cubic Hermite (any numerical analysis text).
+  const y = y0 + t * (m0 + t * (3 * d - 2 * m0 - m1 + t * (m0 + m1 - 2 * d)));
+  return x < 0 ? -y : y;
 }
 
 function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
@@ -130,8 +177,18 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   // The part of Vbe the bias diode does not cancel (0 when it drops as much or more).
   const dead = crossover ? vbe : Math.max(0, vbe - (input.parts['vd'] ?? vbe));
   // Unbiased into a load: each junction by the diode law at the current it carries.
-  const law = crossover && Number.isFinite(load) ? unbiasedLaw(vbe, hfe, load) : undefined;
-  const lawAt = law ? lawCurve(law, source.samples) : (x: number) => x;
+  const law = crossover && Number.isFinite(load);
+  const vt = thermalVoltage();
+  const k = law ? lawK(vbe, hfe, load, vt) : 0;
+  if (law) {
+    const e = extremes(source.samples);
+    const top = Math.max(Math.abs(e.hi), Math.abs(e.lo));
+    if (top > 0) lawCurve(top, k, vt);
+    else {
+      lawTop = 0;
+      lawYTop = 0;
+    }
+  }
   const high = input.supplies.pos - vbe;
   const low = input.supplies.neg + vbe;
   const samples = source.samples;
@@ -167,7 +224,7 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
     heatBottom /= load;
   }
   const ipeak = Math.max(Math.abs(hi), Math.abs(lo)) / load;
-  const values: Record<string, number> = { 'out.vpp': hi - lo, deadband: law ? law.deadband : 2 * dead };
+  const values: Record<string, number> = { 'out.vpp': hi - lo, deadband: law ? lawDeadband(k, vt) : 2 * dead };
   if (input.settings.hasLoad) {
     values['out.ipeak'] = ipeak;
     values['base.ipeak'] = ipeak / hfe;

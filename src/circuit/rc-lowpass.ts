@@ -1,4 +1,4 @@
-import { add, capacitor, isOpen, loadedShare, parallel, resistance } from './complex.js';
+import { add, capacitor, isOpen, parallel, resistance } from './complex.js';
 import { applyResponse } from './response.js';
 import { singlePole } from './single-pole.js';
 import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
@@ -46,41 +46,79 @@ function evaluate(input: EvalInput<RcLowpassSettings>): EvalOutput {
     out = singlePole(source.samples, f0, fc);
     for (let i = 0; i < out.length; i++) out[i] = share * (out[i] as number);
   } else {
-    const h = (f: number): Complex => loadedShare(resistance(r), parallel(capacitor(c, f), load?.('out', f)));
-    out = applyResponse(source.samples, f0, h);
+    active.r = r;
+    active.c = c;
+    active.load = load;
+    out = applyResponse(source.samples, f0, activeResponse);
     // A start near the answer: the corner with the load's resistance at the fundamental.
     const rl = zl.re > 0 ? zl.re : Number.POSITIVE_INFINITY;
-    fc = loadedCorner(h, 1 / (2 * Math.PI * (Number.isFinite(rl) ? (r * rl) / (r + rl) : r) * c));
+    fc = loadedCorner(activeMagnitude, 1 / (2 * Math.PI * (Number.isFinite(rl) ? (r * rl) / (r + rl) : r) * c));
+    active.load = undefined;
   }
   const { hi, lo } = extremes(out);
   return { outputs: { out: { frequency: f0, samples: out } }, values: { fc, 'out.vpp': hi - lo }, warnings: [] };
 }
 
 /**
- * Where |h(f)| falls to |h(0)|/√2: a bracket around `guess` (widened until it
- * holds the crossing), then regula falsi with the Illinois step on
- * ln|h|² against ln f, which is nearly straight there; to 1e-9 relative.
+ * The loaded stage being evaluated, for the plain functions below (no closure
+ * per trial). H = Zp/(R + Zp) with Zp = 1/(jωC) ‖ ZL is 1/(1 + R·(jωC + YL)),
+ * YL = 1/ZL = gL + j·bL: one division, no complex objects.
  */
-export function loadedCorner(h: (f: number) => Complex, guess: number): number {
-  const g0 = h(0);
-  const target = Math.log(0.5 * (g0.re * g0.re + g0.im * g0.im));
-  const err = (lf: number): number => {
-    const g = h(Math.exp(lf));
-    return Math.log(g.re * g.re + g.im * g.im) - target;
-  };
+const active: { r: number; c: number; load: EvalInput<RcLowpassSettings>['load'] } = { r: 0, c: 0, load: undefined };
+
+/** Real and imaginary parts of 1/H at f, into `inverse`. */
+const inverse = { re: 1, im: 0 };
+function inverseResponse(f: number): void {
+  const z = active.load?.('out', f);
+  let gl = 0;
+  let bl = 0;
+  if (z !== undefined && Number.isFinite(z.re) && Number.isFinite(z.im)) {
+    const d = z.re * z.re + z.im * z.im;
+    gl = z.re / d;
+    bl = -z.im / d;
+  }
+  inverse.re = 1 + active.r * gl;
+  inverse.im = active.r * (2 * Math.PI * f * active.c + bl);
+}
+
+function activeResponse(f: number): Complex {
+  inverseResponse(f);
+  const d = inverse.re * inverse.re + inverse.im * inverse.im;
+  return { re: inverse.re / d, im: -inverse.im / d };
+}
+
+/** |H(f)|² of the active stage. */
+function activeMagnitude(f: number): number {
+  inverseResponse(f);
+  return 1 / (inverse.re * inverse.re + inverse.im * inverse.im);
+}
+
+/**
+ * Where |h(f)|² (`mag2`) falls to half of |h(0)|²: a bracket around `guess`
+ * (widened until it holds the crossing), then regula falsi with the Illinois
+ * step on ln|h|² against ln f, which is nearly straight there; to 1e-9 relative.
+ */
+export function loadedCorner(mag2: (f: number) => number, guess: number): number {
+  const target = Math.log(0.5 * mag2(0));
   let a = Math.log(guess) - 0.1;
   let b = Math.log(guess) + 0.1;
-  let fa = err(a);
-  let fb = err(b);
+  let fa = Math.log(mag2(Math.exp(a))) - target;
+  let fb = Math.log(mag2(Math.exp(b))) - target;
   for (let i = 0; i < 40 && !(fa > 0 && fb < 0); i++) {
-    if (!(fa > 0)) fa = err((a -= 0.5 + i));
-    if (!(fb < 0)) fb = err((b += 0.5 + i));
+    if (!(fa > 0)) {
+      a -= 0.5 + i;
+      fa = Math.log(mag2(Math.exp(a))) - target;
+    }
+    if (!(fb < 0)) {
+      b += 0.5 + i;
+      fb = Math.log(mag2(Math.exp(b))) - target;
+    }
   }
   if (!(fa > 0 && fb < 0)) return Number.NaN;
   let side = 0;
   for (let i = 0; i < 100 && b - a > 1e-9; i++) {
     const x = (a * fb - b * fa) / (fb - fa);
-    const fx = err(x);
+    const fx = Math.log(mag2(Math.exp(x))) - target;
     if (fx > 0) {
       a = x;
       fa = fx;

@@ -25,6 +25,36 @@ export function applyResponse(samples: Float64Array, frequency: number, h: (f: n
 
 const plans = new Map<number, { fft: FFT; spectrum: number[]; back: number[] }>();
 
+/** With this few harmonics (a sine has one), summing them directly beats the inverse transform. */
+const sparse = 4;
+const bins = new Int32Array(sparse);
+
+/** out = Σ over the carried bins of the (already filtered) half spectrum, as a real signal. */
+function synthesize(spectrum: number[], which: Int32Array, count: number, n: number, out: Float64Array): Float64Array {
+  out.fill(0);
+  for (let c = 0; c < count; c++) {
+    const k = which[c] as number;
+    const re = spectrum[2 * k] as number;
+    const im = spectrum[2 * k + 1] as number;
+    // Bins k and n − k together: (2/n)·(re·cos θ − im·sin θ); DC and Nyquist once (1/n).
+    const w = k === 0 || 2 * k === n ? 1 / n : 2 / n;
+    if (re === 0 && im === 0) continue;
+    const step = (2 * Math.PI * k) / n;
+    // A rotation per sample (cos, sin of kθ by recurrence) instead of n trigonometric calls.
+    const cs = Math.cos(step);
+    const sn = Math.sin(step);
+    let c0 = 1;
+    let s0 = 0;
+    for (let i = 0; i < n; i++) {
+      out[i] = (out[i] as number) + w * (re * c0 - im * s0);
+      const c1 = c0 * cs - s0 * sn;
+      s0 = s0 * cs + c0 * sn;
+      c0 = c1;
+    }
+  }
+  return out;
+}
+
 function viaFft(samples: Float64Array, frequency: number, h: (f: number) => Complex, out: Float64Array): Float64Array {
   const n = samples.length;
   let p = plans.get(n);
@@ -41,10 +71,12 @@ function viaFft(samples: Float64Array, frequency: number, h: (f: number) => Comp
   let power = 0;
   for (let k = 0; k <= half; k++) power += (spectrum[2 * k] as number) ** 2 + (spectrum[2 * k + 1] as number) ** 2;
   const floor = power * 1e-24;
+  let carried = 0;
   for (let k = 0; k <= half; k++) {
     const re = spectrum[2 * k] as number;
     const im = spectrum[2 * k + 1] as number;
     if (re * re + im * im <= floor) continue;
+    if (++carried <= sparse) bins[carried - 1] = k;
     const g = h(k * frequency);
     if (k === 0 || k === half) {
       spectrum[2 * k] = re * g.re;
@@ -54,6 +86,7 @@ function viaFft(samples: Float64Array, frequency: number, h: (f: number) => Comp
       spectrum[2 * k + 1] = re * g.im + im * g.re;
     }
   }
+  if (carried <= sparse) return synthesize(spectrum, bins, carried, n, out);
   // The mirror half of a real signal's spectrum: bin n−k is the conjugate of bin k.
   for (let k = 1; k < half; k++) {
     spectrum[2 * (n - k)] = spectrum[2 * k] as number;

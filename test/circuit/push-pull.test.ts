@@ -99,6 +99,36 @@ describe('push-pull against ngspice DC sweeps (2N3904/2N3906 models from memory)
   });
 });
 
+describe('push-pull without bias: the diode law at knots against a solve per sample', () => {
+  test.each([
+    [600, 3.85],
+    [100, 1],
+    [1000, 5],
+    [10_000, 10],
+    [330, 2],
+  ])('Rload %d Ω, %d V peak: every sample within 1 mV of a bisection', (rl, peak) => {
+    const r = run({ bias: 'none', parts: { Rload: String(rl) }, vbe: '0.65 V' }, sine(peak));
+    // Ebers–Moll with IS from Vbe = 0.65 V at 1 mA (kT/q at 27 °C, SI 2019 constants), β = 100 (the default):
+    // y + Vt·ln(1 + y/k) = |x|, k = RL·IS·(1 + 1/β), bisected to 1e-12 V.
+    const vt = 0.025865;
+    const k = rl * (1e-3 / Math.expm1(0.65 / vt)) * 1.01;
+    const samples = sine(peak).samples;
+    let worst = 0;
+    for (let i = 0; i < samples.length; i++) {
+      const x = samples[i] as number;
+      let lo = 0;
+      let hi = Math.abs(x);
+      for (let it = 0; it < 200 && hi - lo > 1e-12; it++) {
+        const m = (lo + hi) / 2;
+        if (m + vt * Math.log1p(m / k) > Math.abs(x)) hi = m;
+        else lo = m;
+      }
+      worst = Math.max(worst, Math.abs(Math.sign(x) * lo - (r.outputs['out']?.samples[i] as number)));
+    }
+    expect(worst).toBeLessThan(1e-3);
+  });
+});
+
 describe('push-pull currents and limits', () => {
   test('peak load current and base drive Ipeak/hfe', () => {
     const r = run({ bias: 'diodes', parts: { Rload: '470' }, hfe: 80 }, sine(4.7));
