@@ -52,7 +52,7 @@ function evaluate(input: EvalInput<RcLowpassSettings>): EvalOutput {
     out = applyResponse(source.samples, f0, activeResponse);
     // A start near the answer: the corner with the load's resistance at the fundamental.
     const rl = zl.re > 0 ? zl.re : Number.POSITIVE_INFINITY;
-    fc = loadedCorner(activeMagnitude, 1 / (2 * Math.PI * (Number.isFinite(rl) ? (r * rl) / (r + rl) : r) * c));
+    fc = activeCorner(1 / (2 * Math.PI * (Number.isFinite(rl) ? (r * rl) / (r + rl) : r) * c));
     active.load = undefined;
   }
   const { hi, lo } = extremes(out);
@@ -91,6 +91,30 @@ function activeResponse(f: number): Complex {
 function activeMagnitude(f: number): number {
   inverseResponse(f);
   return 1 / (inverse.re * inverse.re + inverse.im * inverse.im);
+}
+
+/**
+ * The active stage's loaded corner by fixed-point iteration: with the load's
+ * admittance held at its value at the last estimate, |1/H|² = (1 + R·gL)² +
+ * (ωRC + R·bL)² = 2·|1/H(0)|² is solved for ω in closed form; the load varies
+ * slowly with f, so a few rounds settle to 1e-10. Should they not, the
+ * bracketing search below decides.
+ */
+function activeCorner(guess: number): number {
+  inverseResponse(0);
+  const target = 2 * (inverse.re * inverse.re + inverse.im * inverse.im);
+  let w = 2 * Math.PI * guess;
+  const rc = active.r * active.c;
+  for (let it = 0; it < 12; it++) {
+    inverseResponse(w / (2 * Math.PI));
+    const disc = target - inverse.re * inverse.re;
+    if (!(disc > 0)) break;
+    const next = (Math.sqrt(disc) - (inverse.im - w * rc)) / rc;
+    if (!(next > 0)) break;
+    if (Math.abs(next - w) < 1e-10 * w) return next / (2 * Math.PI);
+    w = next;
+  }
+  return loadedCorner(activeMagnitude, guess);
 }
 
 /**
