@@ -129,7 +129,8 @@ export function evaluateNetwork(input: EvalInput<PushPullSettings>, source: Wave
     deadband: zero.converged ? deadband(net, zero) : Number.NaN,
     // Per transistor: the two collector currents differ only by the offset's load current.
     iq: zero.converged ? 0.5 * (zero.icn + zero.icp) : Number.NaN,
-    'out.dc': zero.converged ? zero.y : Number.NaN,
+    // Below a nanovolt the offset is rounding, not a level (a matched pair sits at 0).
+    'out.dc': zero.converged ? (Math.abs(zero.y) < 1e-9 ? 0 : zero.y) : Number.NaN,
   };
   if (input.settings.hasLoad) {
     values['out.ipeak'] = Math.max(Math.abs(hi), Math.abs(lo)) / rload;
