@@ -49,7 +49,9 @@ export function planDeck(plan: Plan, options: DeckOptions = {}): string {
   const pos = Math.max(0, ...plan.rails.map((r) => r.nominal));
   const neg = Math.min(0, ...plan.rails.map((r) => r.nominal));
   const lines: string[] = [`Vrail_pos vp 0 DC ${pos}`, `Vrail_neg vn 0 DC ${neg}`];
-  plan.rails.forEach((r, i) => lines.push(`Vrail_${i} ${railNode(plan, r.id)} 0 DC ${r.nominal}`));
+  plan.rails.forEach((r, i) => {
+    lines.push(`Vrail_${i} ${railNode(plan, r.id)} 0 DC ${r.nominal}`);
+  });
   const keep = options.from ? downstream(plan, options.from) : undefined;
   for (const stage of plan.stages) {
     if (keep && !keep.has(stage.id)) continue;
