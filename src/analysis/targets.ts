@@ -94,6 +94,7 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
       upstream,
       ...(stage?.input ? { input: `${stage.input.stage}.${stage.input.output}` } : {}),
       ...(c.captureFigure ? { captureFigure: c.captureFigure } : {}),
+      ...(c.isDesignFigure ? { isDesignFigure: true } : {}),
     };
     if (c.phase === 'unpowered') {
       const band = { min: plan.railShortMin, max: Infinity };

@@ -53,6 +53,8 @@ export interface Target {
   readonly input?: string;
   /** Which figure of a scope capture answers the check, as its stage kind declares (absent: none). */
   readonly captureFigure?: CheckSpec['captureFigure'];
+  /** A design figure nobody probes at a test point (a base drive current): listed, never asked for. */
+  readonly isDesignFigure?: boolean;
 }
 
 export interface DesignWarning {

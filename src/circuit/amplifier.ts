@@ -33,28 +33,54 @@ export function closedLoop(shape: AmplifierShape, opamp: OpampModel): { gain: nu
   };
 }
 
-/** Limit every step of a periodic waveform to `maxStep` volts, in steady state. */
-function slewLimit(target: Float64Array, maxStep: number): { out: Float64Array; limited: boolean } {
-  const n = target.length;
+/**
+ * The slewing output, integrated: an op-amp whose input pair saturates (the
+ * tanh law of a long-tailed pair) with one pole at GBW moves its output at
+ * dy/dt = SR·tanh((ideal − y)/(SR·τ)), τ = 1/(2π·bw), since its differential
+ * input is (ideal − y)/NG and full slew needs an overdrive of SR/(2π·GBW)
+ * (Sedra and Smith, slew rate and the input stage). Small errors give the
+ * closed-loop single pole, large ones the slew rate, and in between the output
+ * stops slewing before it reaches the ideal peak, which a hard slew clamp
+ * (or SR/(4f)) overstates by several per cent. `ideal` is the gain times the
+ * input, linear between samples; clipping holds y at the swing limits (no
+ * wind-up, as an output stage saturates). Trapezoidal steps (A-stable) with
+ * Newton's method on each, fine enough to resolve τ, until the period repeats.
+ */
+function slewFollow(ideal: Float64Array, frequency: number, slew: number, bw: number, low: number, high: number): Float64Array {
+  const n = ideal.length;
   const out = new Float64Array(n);
-  let y = target[0] as number;
-  let limited = false;
-  // Three periods: the first reaches the steady state, the last is kept.
-  for (let pass = 0; pass < 3; pass++) {
+  const tau = 1 / (2 * Math.PI * bw);
+  const v = slew * tau;
+  const h = 1 / (frequency * n);
+  const m = Math.min(64, Math.max(1, Math.ceil((2 * h) / tau)));
+  const hs = h / m;
+  const rate = (u: number, y: number): number => slew * Math.tanh((u - y) / v);
+  let y = ideal[0] as number;
+  for (let pass = 0; pass < 12; pass++) {
+    const start = y;
     for (let i = 0; i < n; i++) {
-      const want = target[i] as number;
-      const d = want - y;
-      if (d > maxStep) {
-        y += maxStep;
-        if (pass === 2) limited = true;
-      } else if (d < -maxStep) {
-        y -= maxStep;
-        if (pass === 2) limited = true;
-      } else y = want;
-      if (pass === 2) out[i] = y;
+      out[i] = y;
+      const u0 = ideal[i] as number;
+      const u1 = ideal[i + 1 < n ? i + 1 : 0] as number;
+      for (let k = 0; k < m; k++) {
+        const a = u0 + ((u1 - u0) * k) / m;
+        const b = u0 + ((u1 - u0) * (k + 1)) / m;
+        const f0 = rate(a, y);
+        // y1 = y + hs/2·(f0 + rate(b, y1)), by Newton from the explicit guess.
+        let y1 = y + hs * f0;
+        for (let it = 0; it < 20; it++) {
+          const t = Math.tanh((b - y1) / v);
+          const g = y1 - y - 0.5 * hs * (f0 + slew * t);
+          const d = g / (1 + (0.5 * hs * slew * (1 - t * t)) / v);
+          y1 -= d;
+          if (Math.abs(d) < 1e-9) break;
+        }
+        y = Math.min(high, Math.max(low, y1));
+      }
     }
+    if (pass >= 2 && Math.abs(y - start) < 1e-7) break;
   }
-  return { out, limited };
+  return out;
 }
 
 export function evaluateAmplifier(shape: AmplifierShape, input: EvalInput<unknown>, kind: string): EvalOutput {
@@ -89,7 +115,9 @@ export function evaluateAmplifier(shape: AmplifierShape, input: EvalInput<unknow
     // Clipping never steepens a step, so when no step of the unclipped output exceeds
     // the slew limit the slew-limited waveform is the same one: skip its three passes.
     if (needed > input.opamp.slew) {
-      out = slewLimit(filtered, input.opamp.slew * h).out;
+      const ideal = new Float64Array(n);
+      for (let i = 0; i < n; i++) ideal[i] = gain * (source.samples[i] as number);
+      out = slewFollow(ideal, source.frequency, input.opamp.slew, bw, low, high);
       slewed = true;
     }
     if (needed > input.opamp.slew && !input.isTrial) {

@@ -3,7 +3,7 @@ import { type ShaperBranch, type ShaperNet, solveNode, solveTransfer } from './s
 import { fastThd } from './spectrum.js';
 import { choiceAt, countAt, list, nested, ohmRange, onlyKeys, partAt, reader, type StageReader } from './stage-parse.js';
 import { StageParseError } from './errors.js';
-import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind, StageWarning } from './types.js';
+import type { CheckSpec, Complex, EvalInput, EvalOutput, ImpedanceInput, PartValue, StageKind, StageWarning } from './types.js';
 import { mirrorOrder } from './mirror.js';
 import { extremes } from './waveform.js';
 
@@ -78,7 +78,12 @@ export function shaperNet(input: EvalInput<DiodeShaperSettings>): ShaperNet {
     }),
   );
   const rload = settings.hasLoad ? (parts['Rload'] ?? Number.NaN) : Number.POSITIVE_INFINITY;
-  return { gs: 1 / (parts['Rs'] ?? Number.NaN), gl: 1 / rload, branches };
+  // What the chain hangs on the node (the next stage's input, an external load) adds its
+  // large-signal equivalent, the resistive part at the fundamental, to Rload.
+  const frequency = input.input?.frequency ?? 0;
+  const z = input.load?.('out', frequency > 0 ? frequency : 0);
+  const gExtra = z !== undefined && Number.isFinite(z.re) && z.re > 0 ? z.re / (z.re * z.re + z.im * z.im) : 0;
+  return { gs: 1 / (parts['Rs'] ?? Number.NaN), gl: 1 / rload + gExtra, branches };
 }
 
 function evaluate(input: EvalInput<DiodeShaperSettings>): EvalOutput {
@@ -124,6 +129,22 @@ function warningsFor(net: ShaperNet, vin: Float64Array, out: Float64Array, peaks
   return warnings;
 }
 
+/**
+ * The driver sees Rs into the node. Its large-signal equivalent here: Rs plus the
+ * node loaded as at the peaks, one polarity's branches conducting (their R in
+ * parallel) with Rload and whatever the chain hangs on the node. Rough, and
+ * meant for a driver with a source impedance of its own; an op-amp output (the
+ * usual driver) ignores it.
+ */
+function inputImpedance(x: ImpedanceInput<DiodeShaperSettings>, f: number): Complex {
+  const { parts, settings } = x;
+  let g = settings.hasLoad ? 1 / (parts['Rload'] ?? Number.NaN) : 0;
+  for (const b of settings.branches) if (b.polarity === '+') g += 1 / (parts[b.rRole] ?? Number.NaN);
+  const z = x.load?.('out', f);
+  if (z !== undefined && Number.isFinite(z.re) && z.re > 0) g += 1 / z.re;
+  return { re: (parts['Rs'] ?? Number.NaN) + (g > 0 ? 1 / g : Number.POSITIVE_INFINITY), im: 0 };
+}
+
 const shaperChecks: readonly CheckSpec[] = [
   { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the shaper output, 10× probe, read peak-to-peak' },
   { key: 'out.thd', captureFigure: 'thd', quantity: 'total harmonic distortion', unit: '1', output: 'out', instrument: 'scope', how: 'scope FFT (or save a capture and run analyze) at the shaper output, harmonics 2–50', floor: 0 },
@@ -145,6 +166,13 @@ export const diodeShaperKind: StageKind<DiodeShaperSettings> = {
   parse,
   checks: () => shaperChecks,
   evaluate,
+  inputImpedance,
+  // Seen from downstream with the branches off: Rs ‖ Rload (small signal about 0 V).
+  outputImpedance: (x) => {
+    const rs = x.parts['Rs'] ?? Number.NaN;
+    const rl = x.settings.hasLoad ? (x.parts['Rload'] ?? Number.NaN) : Number.POSITIVE_INFINITY;
+    return { re: Number.isFinite(rl) ? (rs * rl) / (rs + rl) : rs, im: 0 };
+  },
   faultHints: {
     'out.thd': [
       'a diode fitted backwards: that branch conducts on the wrong half-cycle and one side flattens early',

@@ -135,6 +135,12 @@ export interface ImpedanceInput<Settings> {
   readonly parts: Readonly<Record<string, number>>;
   readonly settings: Settings;
   readonly opamp: OpampModel;
+  /**
+   * The load on the stage's own outputs, as `EvalInput.load`: a passive stage's
+   * input impedance depends on what hangs on its output (an RC low-pass input is
+   * R + (1/(jωC) ‖ load)). Absent: nothing loads them.
+   */
+  readonly load?: ((output: string, f: number) => Complex | undefined) | undefined;
 }
 
 /**

@@ -79,7 +79,8 @@ export interface TableHeader {
  * columns wide; long check ids are shortened with an ellipsis.
  */
 export function targetsTable(set: TargetSet, header: TableHeader): string {
-  const rows = set.targets.map((t) => [t.check, t.testPoint ?? '', nominalText(t), formatBand(t.worst.min, t.worst.max, t.unit), t.phase === 'stage' || t.phase === 'rails' ? formatBand(t.stat.min, t.stat.max, t.unit) : '', contributorText(t)]);
+  // A design figure has no test point to probe: its TP column says so.
+  const rows = set.targets.map((t) => [t.check, t.isDesignFigure ? 'design' : (t.testPoint ?? ''), nominalText(t), formatBand(t.worst.min, t.worst.max, t.unit), t.phase === 'stage' || t.phase === 'rails' ? formatBand(t.stat.min, t.stat.max, t.unit) : '', contributorText(t)]);
   const heads = ['check', 'TP', 'nominal', 'worst-case band', 'statistical band', 'top contributor'];
   const caps = [26, 6, 12, 22, 22, 20];
   const widths = heads.map((h, c) => Math.min(caps[c] ?? 20, Math.max([...h].length, ...rows.map((r) => [...(r[c] ?? '')].length))));
@@ -100,6 +101,10 @@ export function targetsTable(set: TargetSet, header: TableHeader): string {
     out.push(line(rows[i] ?? []));
   }
   out.push('');
+  if (set.targets.some((t) => t.isDesignFigure)) {
+    out.push(...wrap('TP "design": a design figure, worked out from the parts but not probed at a test point; the bring-up does not ask for it.', tableWidth, '', ''));
+    out.push('');
+  }
   if (set.warnings.length === 0) out.push('No design warnings.');
   else {
     out.push(`Design warnings (${set.warnings.length}):`);

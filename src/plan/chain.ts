@@ -1,6 +1,7 @@
-import type { EvalOutput, Supplies, Waveform } from '../circuit/types.js';
+import type { Complex, EvalOutput, Supplies, Waveform } from '../circuit/types.js';
 import type { Unit } from '../units/unit.js';
 import { type PlanCheck, planChecks } from './checks.js';
+import { externalLoadPrefix } from './stages.js';
 import type { Plan, PlanStage } from './types.js';
 
 /** A toleranced value of the chain: a rail (`rails.+12V`) or a stage's part (`osc.Ct`). */
@@ -68,6 +69,15 @@ interface HotArgs {
   input?: Waveform;
   isTrial?: boolean;
   buffer?: ((slot: number, length: number) => Float64Array) | undefined;
+  load?: ((output: string, f: number) => Complex | undefined) | undefined;
+}
+
+/** What a stage kind's `inputImpedance` reads, for the current sample (parts looked up on each call). */
+interface ImpedanceArgs {
+  readonly parts: Record<string, number>;
+  readonly settings: unknown;
+  readonly opamp: PlanStage['opamp'];
+  load: ((output: string, f: number) => Complex | undefined) | undefined;
 }
 
 /** A stage's own output arrays for trials, by slot (see EvalInput.buffer). */
@@ -138,6 +148,40 @@ export function buildChain(plan: Plan): Chain {
     return { stage, roles, varIndex, outIndex, inputStage: stage.input ? (stagePosition.get(stage.input.stage) ?? -1) : -1 };
   });
 
+  // Loading (DESIGN §3: every stage's input loads the output it takes). For each
+  // stage and output: the downstream stages that take it (when their kind has an
+  // input impedance) and any external load the plan names. The load functions read
+  // the parts of the current sample from `sampleParts`, which `run` fills for every
+  // stage before it evaluates any: an upstream output depends on downstream parts.
+  const sampleParts: Record<string, number>[] = stagePlans.map(() => ({}));
+  const impedanceArgs: ImpedanceArgs[] = stagePlans.map((sp, i) => ({
+    get parts() {
+      return sampleParts[i] as Record<string, number>;
+    },
+    settings: sp.stage.settings,
+    opamp: sp.stage.opamp,
+    load: undefined,
+  }));
+  const loadFns = stagePlans.map((sp, s) => loadFunction(sp.stage, s, stagePlans, sampleParts, impedanceArgs));
+  // A downstream passive stage's input depends on its own load: hand it its load function.
+  impedanceArgs.forEach((a, i) => {
+    a.load = loadFns[i];
+  });
+  // How far up the chain a change of stage s's parts reaches through loading: the
+  // first stage whose evaluation it can change (s itself when nothing upstream feels it).
+  const reach = stagePlans.map((_, s) => {
+    let first = s;
+    let cur = s;
+    while (true) {
+      const sp = stagePlans[cur] as StagePlan;
+      // Only an upstream output with a source impedance feels its load (an op-amp output does not).
+      if (sp.inputStage < 0 || !sp.stage.module.inputImpedance || !stagePlans[sp.inputStage]?.stage.module.outputImpedance) break;
+      cur = sp.inputStage;
+      first = Math.min(first, cur);
+    }
+    return first;
+  });
+
   let nominalResults: (EvalOutput | undefined)[] | undefined;
   // The hot path (keep = false) refills these objects in place instead of building new ones per
   // trial: stage kinds are pure functions of their input and keep no reference to it. Its
@@ -146,7 +190,7 @@ export function buildChain(plan: Plan): Chain {
   const hotSupplies = { pos: 0, neg: 0 };
   const hotArgs = stagePlans.map((sp) => {
     const parts: Record<string, number> = Object.fromEntries(sp.roles.map((r) => [r, 0]));
-    const args: HotArgs = { parts, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies: hotSupplies, rails: hotRails, isTrial: true, buffer: undefined };
+    const args: HotArgs = { parts, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies: hotSupplies, rails: hotRails, isTrial: true, buffer: undefined, load: undefined };
     return args;
   });
   const hotResults: (EvalOutput | undefined)[] = new Array(stagePlans.length);
@@ -175,6 +219,13 @@ export function buildChain(plan: Plan): Chain {
     const outputs: Record<string, Waveform> = keep ? {} : noOutputs;
     const warnings: { stage: string; message: string }[] = keep ? [] : noList;
     const failures: { stage: string; message: string }[] = keep ? [] : noList;
+    // Every stage's parts first: the load functions of upstream stages read them.
+    for (let s = 0; s < stagePlans.length; s++) {
+      const sp = stagePlans[s] as StagePlan;
+      const parts = keep ? {} : (hotArgs[s] as HotArgs).parts;
+      for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
+      sampleParts[s] = parts;
+    }
     for (let s = 0; s < upTo; s++) {
       const sp = stagePlans[s] as StagePlan;
       let input: Waveform | undefined;
@@ -183,10 +234,11 @@ export function buildChain(plan: Plan): Chain {
       if (s < reuse) result = nominalResults?.[s];
       else if (sp.inputStage < 0 || input) {
         try {
-          const args: HotArgs = keep ? { parts: {}, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies, rails } : (hotArgs[s] as HotArgs);
-          const parts = args.parts;
-          for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
+          const args: HotArgs = keep
+            ? { parts: sampleParts[s] as Record<string, number>, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies, rails, load: loadFns[s] }
+            : (hotArgs[s] as HotArgs);
           if (!keep) {
+            args.load = loadFns[s];
             if (input) args.input = input;
             // The captured nominal results are read again later: they must not share the trials' arrays.
             args.buffer = capture ? undefined : hotBuffers[s];
@@ -224,6 +276,8 @@ export function buildChain(plan: Plan): Chain {
           run(nominal, undefined, false, stagePlans.length, 0, nominalResults);
         }
         from = Math.min(reuse, upTo);
+        // A stage after `from` whose parts load an earlier stage's output changes that one too.
+        for (let s = from; s < stagePlans.length; s++) from = Math.min(from, reach[s] as number);
       }
       run(x, out, false, upTo, from);
     },
@@ -238,5 +292,54 @@ export function buildChain(plan: Plan): Chain {
       });
       return { ...d, values };
     },
+  };
+}
+
+/**
+ * The load on each output of stage `s` (EvalInput.load), or undefined when nothing
+ * with an impedance takes any of its outputs. Sums admittances: every downstream
+ * input on that output and any external `loads.<output>` resistance, in parallel.
+ * Allocation-light: it keeps its lists and allocates only the impedances the kinds
+ * return and the one it gives back.
+ */
+function loadFunction(
+  stage: PlanStage,
+  s: number,
+  plans: readonly { readonly stage: PlanStage; readonly inputStage: number }[],
+  sampleParts: readonly Record<string, number>[],
+  impedanceArgs: readonly ImpedanceArgs[],
+): ((output: string, f: number) => Complex | undefined) | undefined {
+  const outputs = stage.module.outputs;
+  const takers: number[][] = outputs.map((o) =>
+    plans.flatMap((p, i) => (p.inputStage === s && p.stage.input?.output === o && p.stage.module.inputImpedance ? [i] : [])),
+  );
+  const external = outputs.map((o) => (Object.hasOwn(stage.parts, `${externalLoadPrefix}${o}`) ? `${externalLoadPrefix}${o}` : ''));
+  if (takers.every((t) => t.length === 0) && external.every((e) => e === '')) return undefined;
+  return (output, f) => {
+    const o = outputs.indexOf(output);
+    if (o < 0) return undefined;
+    let yre = 0;
+    let yim = 0;
+    let any = false;
+    for (const t of takers[o] as number[]) {
+      const p = plans[t] as { stage: PlanStage };
+      const z = p.stage.module.inputImpedance?.(impedanceArgs[t] as never, f);
+      if (!z || !Number.isFinite(z.re) || !Number.isFinite(z.im)) continue;
+      const d = z.re * z.re + z.im * z.im;
+      if (d === 0) return { re: 0, im: 0 };
+      yre += z.re / d;
+      yim -= z.im / d;
+      any = true;
+    }
+    const role = external[o] as string;
+    if (role !== '') {
+      const r = (sampleParts[s] as Record<string, number>)[role] ?? Number.NaN;
+      yre += 1 / r;
+      any = true;
+    }
+    if (!any) return undefined;
+    const d = yre * yre + yim * yim;
+    if (d === 0) return undefined;
+    return { re: yre / d, im: -yim / d };
   };
 }

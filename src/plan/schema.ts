@@ -56,6 +56,11 @@ export const stageSchema = z.looseObject({
   input: z.optional(text('an upstream output such as "osc.triangle"')),
   testPoints: z.optional(z.record(z.string(), name('a test point name such as "TP3"', 40), { error: 'expected test points by output, e.g. {"out": "TP4"}' })),
   opamp: z.optional(opampSchema),
+  /**
+   * External loads on the stage's outputs, by output name (`{"out": "600 ohm 5%"}`):
+   * a line, a meter or scope input the bench hangs there. An addition to the contract keys.
+   */
+  loads: z.optional(z.record(z.string(), valueText, { error: 'expected loads by output, e.g. {"out": "600 ohm 5%"}' })),
 });
 
 export const planSchema = z.strictObject({

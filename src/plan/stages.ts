@@ -1,12 +1,19 @@
 import type { OpampModel, PartValue, StageKind } from '../circuit/types.js';
 import { PlanError } from './errors.js';
 import { StageParseError } from '../circuit/errors.js';
-import { readOpamp, checkTolerance } from './values.js';
+import { readOpamp, checkTolerance, readValue } from './values.js';
 import type { InputRef, PlanStage } from './types.js';
 import type { z } from 'zod';
 import type { stageSchema } from './schema.js';
 
 type RawStageJson = z.infer<typeof stageSchema>;
+
+/**
+ * An external load the plan hangs on an output (`"loads": {"out": "600 ohm"}`)
+ * becomes a toleranced part of its stage, role `loads.<output>`: it varies with
+ * the rest and the chain adds it to that output's load.
+ */
+export const externalLoadPrefix = 'loads.';
 
 function quoteList(items: readonly string[]): string {
   return items.map((s) => JSON.stringify(s)).join(', ');
@@ -66,6 +73,15 @@ export function resolveStages(
       checkTolerance(part.tol, part.text, file, where);
       if (!Number.isFinite(part.nominal)) throw new PlanError(file, where, `${JSON.stringify(part.text)} is not a finite value`);
       parts[role] = part;
+    }
+    for (const [output, text] of Object.entries(raw.loads ?? {})) {
+      const where = `${path}.loads.${output}`;
+      if (!module.outputs.includes(output)) {
+        throw new PlanError(file, where, `${JSON.stringify(output)} is not an output of a ${raw.kind} stage; its outputs are ${quoteList(module.outputs)}`);
+      }
+      const v = readValue(text, 'Ω', file, where);
+      if (!(v.value > 0)) throw new PlanError(file, where, `${JSON.stringify(text)} must be above zero; write the load's resistance, e.g. "600 ohm 5%"`);
+      parts[`${externalLoadPrefix}${output}`] = { nominal: v.value, tol: v.tol, unit: 'Ω', text: v.text };
     }
     const testPoints: Record<string, string> = { ...(raw.testPoints ?? {}) };
     const checkKeys = module.checks(parsed.settings).map((c) => c.key);
