@@ -32,6 +32,8 @@ export const defaultVbe = 0.65;
 /** Spread of a bias diode's drop against Vbe when the plan gives none (common practice, no source). */
 const defaultMatch = 0.08;
 export const defaultHfe = 100;
+/** Spread of hfe when the plan gives none (see parse). */
+export const defaultHfeTol = 0.5;
 /** A TO-92 transistor gets too hot to touch near half a watt (common practice, no source). */
 const hotWatts = 0.5;
 
@@ -134,7 +136,9 @@ export const pushPullKind: StageKind<PushPullSettings> = {
     const vbe = partAt(r, 'vbe', 'V', false, { positive: true, example: '"0.65 V 10%"' });
     if (vbe) parts['vbe'] = vbe;
     const hfe = partAt(r, 'hfe', 'V/V', false, { positive: true, example: '100' });
-    if (hfe) parts['hfe'] = hfe;
+    // hfe written without a tolerance spreads ±50 %: data sheets give a small-signal
+    // transistor's hfe as a min … max range of about 2:1 to 3:1 (from memory; common practice).
+    if (hfe) parts['hfe'] = hfe.tol > 0 ? hfe : { ...hfe, tol: defaultHfeTol, text: `${hfe.text} ${defaultHfeTol * 100}% (default hfe spread)` };
     const bias = choiceAt(r, 'bias', ['none', 'diodes'] as const);
     const vd = partAt(r, 'vd', 'V', false, { positive: true, example: '"0.65 V 8%"' });
     if (vd && bias !== 'diodes') throw new StageParseError(file, `${raw.path}.vd`, 'a bias diode drop only applies with "bias": "diodes"; remove it or set the bias');

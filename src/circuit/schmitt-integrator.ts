@@ -144,6 +144,7 @@ export const schmittIntegratorKind: StageKind<SchmittSettings> = {
   ],
   outputs: ['square', 'triangle'],
   needsInput: false,
+  traits: { usesOpamp: true },
   parse: parseSchmitt,
   checks: (settings) => (settings.hasPot ? [...baseChecks.slice(0, 1), ...potChecks, ...baseChecks.slice(1)] : baseChecks),
   evaluate,

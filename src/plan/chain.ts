@@ -1,4 +1,5 @@
-import type { EvalOutput, Supplies, Waveform } from '../circuit/types.js';
+import type { EvalOutput, OpampModel, Supplies, Waveform } from '../circuit/types.js';
+import { type OpampSpreadKey, type Spread, opampSpreadKeys } from './active-spread.js';
 import type { Unit } from '../units/unit.js';
 import { type PlanCheck, planChecks } from './checks.js';
 import type { Plan, PlanStage } from './types.js';
@@ -15,6 +16,18 @@ export interface ChainVariable {
   readonly tol: number;
   readonly unit: Unit;
   readonly text: string;
+  /**
+   * Half-width of the variable's box in its unit: the value lies in nominal ± spread.
+   * Set on every variable the chain builds; absent on hand-built ones, where it is
+   * |nominal|·tol (see `spreadOf`). A variable centred on zero (an op-amp's offset
+   * `opamp.vos`) has tol 0 and only a spread.
+   */
+  readonly spread?: number;
+}
+
+/** Half-width of a variable's box (nominal ± this), in its unit. */
+export function spreadOf(v: ChainVariable): number {
+  return v.spread ?? Math.abs(v.nominal) * v.tol;
 }
 
 /** One evaluation with every output kept, for the nominal case and for explanations. */
@@ -53,6 +66,8 @@ export interface Chain {
   detail(x: Float64Array): ChainDetail;
 }
 
+const opampUnits: Readonly<Record<OpampSpreadKey, Unit>> = { gbw: 'Hz', slew: 'V/s', headroom: 'V', vos: 'V', ib: 'A' };
+
 const noValues: Record<string, number> = Object.freeze({}) as Record<string, number>;
 const noOutputs: Record<string, Waveform> = Object.freeze({}) as Record<string, Waveform>;
 const noList: never[] = Object.freeze([]) as unknown as never[];
@@ -67,7 +82,12 @@ interface HotArgs {
   input?: Waveform;
   isTrial?: boolean;
   buffer?: ((slot: number, length: number) => Float64Array) | undefined;
+  temperature?: number | undefined;
 }
+
+/** Op-amp keys a chain may vary, and where a stage's sampled value sits in `x` (−1: the plan's fixed value). */
+const opampKeys = opampSpreadKeys;
+type MutableOpamp = { -readonly [K in keyof OpampModel]: OpampModel[K] };
 
 /** A stage's own output arrays for trials, by slot (see EvalInput.buffer). */
 function bufferPool(): (slot: number, length: number) => Float64Array {
@@ -90,6 +110,8 @@ interface StagePlan {
   readonly outIndex: readonly (readonly [string, number])[];
   /** Index of the input stage in the stage list, −1 when none. */
   readonly inputStage: number;
+  /** Variable index of each of `opampKeys` for this stage's op-amp, −1 when fixed; null when none varies. */
+  readonly opampIndex: Int32Array | null;
 }
 
 /**
@@ -105,9 +127,30 @@ export function buildChain(plan: Plan): Chain {
   }
   for (const stage of plan.stages) {
     for (const [role, part] of Object.entries(stage.parts)) {
-      variables.push({ name: `${stage.id}.${role}`, stage: stage.id, role, nominal: part.nominal, tol: part.tol, unit: part.unit, text: part.text });
+      variables.push({ name: `${stage.id}.${role}`, stage: stage.id, role, nominal: part.nominal, tol: part.tol, unit: part.unit, text: part.text, spread: Math.abs(part.nominal) * part.tol });
     }
   }
+  // Active parts (issue 11): the op-amp's toleranced keys, once for the plan's part (shared by every
+  // op-amp stage that does not name its own) and once per stage with its own; then the temperature.
+  const opampStages = plan.stages.filter((s) => s.module.traits?.usesOpamp === true);
+  const opampVariable = (prefix: string, stageId: string, key: OpampSpreadKey, model: OpampModel, spread: Spread): void => {
+    const nominal = model[key] ?? 0;
+    const name = `${prefix}opamp.${key}`;
+    if (variables.some((v) => v.name === name)) return;
+    variables.push({ name, stage: stageId, role: `opamp.${key}`, nominal, tol: nominal === 0 ? 0 : spread.half / Math.abs(nominal), unit: opampUnits[key], text: spread.text, spread: spread.half });
+  };
+  for (const s of opampStages) {
+    const own = s.hasOwnOpamp === true;
+    for (const key of opampKeys) {
+      const spread = s.opampSpread?.[key];
+      if (spread && spread.half > 0) opampVariable(own ? `${s.id}.` : '', own ? s.id : 'opamp', key, s.opamp, spread);
+    }
+  }
+  if (plan.temperature) {
+    const t = plan.temperature;
+    variables.push({ name: 'temperature', stage: 'temperature', role: 'temperature', nominal: t.nominal, tol: (t.max - t.nominal) / t.nominal, unit: 'K', text: t.text, spread: t.max - t.nominal });
+  }
+  const temperatureIndex = variables.findIndex((v) => v.name === 'temperature');
   const checks = planChecks(plan);
   const checkIndex = new Map(checks.map((c, i) => [c.check, i] as const));
 
@@ -125,7 +168,9 @@ export function buildChain(plan: Plan): Chain {
     const roles = Object.keys(stage.parts);
     const varIndex = Int32Array.from(roles, (role) => variables.findIndex((v) => v.name === `${stage.id}.${role}`));
     const outIndex = checks.flatMap((c, i) => (c.stage === stage.id ? [[c.key, i] as const] : []));
-    return { stage, roles, varIndex, outIndex, inputStage: stage.input ? stageIds.indexOf(stage.input.stage) : -1 };
+    const prefix = stage.hasOwnOpamp === true ? `${stage.id}.` : '';
+    const opampIndex = Int32Array.from(opampKeys, (key) => (stage.module.traits?.usesOpamp === true ? variables.findIndex((v) => v.name === `${prefix}opamp.${key}`) : -1));
+    return { stage, roles, varIndex, outIndex, inputStage: stage.input ? stageIds.indexOf(stage.input.stage) : -1, opampIndex: opampIndex.some((i) => i >= 0) ? opampIndex : null };
   });
 
   let nominalResults: (EvalOutput | undefined)[] | undefined;
@@ -136,7 +181,8 @@ export function buildChain(plan: Plan): Chain {
   const hotSupplies = { pos: 0, neg: 0 };
   const hotArgs = stagePlans.map((sp) => {
     const parts: Record<string, number> = Object.fromEntries(sp.roles.map((r) => [r, 0]));
-    const args: HotArgs = { parts, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies: hotSupplies, rails: hotRails, isTrial: true, buffer: undefined };
+    const opamp = sp.opampIndex ? { ...sp.stage.opamp } : sp.stage.opamp;
+    const args: HotArgs = { parts, settings: sp.stage.settings, opamp, supplies: hotSupplies, rails: hotRails, isTrial: true, buffer: undefined };
     return args;
   });
   const hotResults: (EvalOutput | undefined)[] = new Array(stagePlans.length);
@@ -173,9 +219,17 @@ export function buildChain(plan: Plan): Chain {
       if (s < reuse) result = nominalResults?.[s];
       else if (sp.inputStage < 0 || input) {
         try {
-          const args: HotArgs = keep ? { parts: {}, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies, rails } : (hotArgs[s] as HotArgs);
+          const args: HotArgs = keep ? { parts: {}, settings: sp.stage.settings, opamp: sp.opampIndex ? { ...sp.stage.opamp } : sp.stage.opamp, supplies, rails } : (hotArgs[s] as HotArgs);
           const parts = args.parts;
           for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
+          if (sp.opampIndex) {
+            const op = args.opamp as MutableOpamp;
+            for (let k = 0; k < opampKeys.length; k++) {
+              const vi = sp.opampIndex[k] as number;
+              if (vi >= 0) op[opampKeys[k] as OpampSpreadKey] = x[vi] as number;
+            }
+          }
+          if (temperatureIndex >= 0) args.temperature = x[temperatureIndex] as number;
           if (!keep) {
             if (input) args.input = input;
             // The captured nominal results are read again later: they must not share the trials' arrays.
