@@ -10,7 +10,8 @@ import { type Chain, spreadOf } from '../plan/chain.js';
  *   one way with every part;
  * - `search`: the check is not monotone (a variable's middle or other end
  *   went further than the sensitivity corner), so the band is the best of a
- *   multi-start coordinate and pattern search over the box.
+ *   multi-start coordinate search over the box (with pattern steps inside the
+ *   box where a variable's middle went further than its ends).
  */
 export type BoundMethod = 'corners' | 'monotone' | 'search';
 
@@ -138,12 +139,16 @@ export function worstCase(chain: Chain, perSigma: readonly Float64Array[], optio
 
   const u = new Float64Array(nVar);
   take(u, chain.checks.length > 0 ? Number.MAX_SAFE_INTEGER : 0);
+  const nominalOut = Float64Array.from(out);
 
   for (const group of groups(chain, options.upstream)) {
     const depth = group.depth;
     const checks = group.checks.filter((c) => chain.checks[c]?.phase !== 'unpowered' && chain.checks[c]?.phase !== 'first-power');
     if (checks.length === 0) continue;
-    const vars = group.variables.filter((i) => (spread[i] as number) > 0 && checks.some((c) => (perSigma[i]?.[c] ?? 0) !== 0));
+    // Sensitivities at the nominal say which variables matter; a check with no value there (a stage
+    // that stops at the nominal but runs elsewhere in the box) has none to say it, so all may.
+    const blind = checks.some((c) => !Number.isFinite(nominalOut[c] as number));
+    const vars = group.variables.filter((i) => (spread[i] as number) > 0 && (blind || checks.some((c) => (perSigma[i]?.[c] ?? 0) !== 0)));
     const useCorners = vars.length <= cornerLimit;
     if (useCorners) {
       const corners = 2 ** vars.length;
@@ -170,24 +175,28 @@ export function worstCase(chain: Chain, perSigma: readonly Float64Array[], optio
         if (!useCorners) take(corner, depth);
         const best = (side > 0 ? bestU.max : bestU.min).get(c);
         const first = useCorners ? start(best) : corner;
-        if (search(first, vars, depth, c, side)) moved = true;
-        if (moved) {
-          // Multi-start: from the nominal and from the best point anything found so far.
-          search(new Float64Array(nVar), vars, depth, c, side);
-          const again = (side > 0 ? bestU.max : bestU.min).get(c);
-          if (again) search(start(again), vars, depth, c, side);
-        }
+        const found = search(first, vars, depth, c, side);
+        if (found !== 'none') moved = true;
+        // Multi-start where the check has an inside optimum: from the nominal too. Then from the
+        // best point any evaluation found for it (often another check's search).
+        if (found === 'inside') search(new Float64Array(nVar), vars, depth, c, side);
+        const again = (side > 0 ? bestU.max : bestU.min).get(c);
+        if (found !== 'none' && again) search(start(again), vars, depth, c, side);
       }
       method[c] = moved ? 'search' : useCorners ? 'corners' : 'monotone';
+      if (process.env['PB_WC_DEBUG']) console.error(`  ${chain.checks[c]?.check}: ${method[c]}, evaluations so far ${evaluations}`);
     }
     if (process.env['PB_WC_DEBUG']) console.error(`group depth ${depth}: ${vars.length} vars, ${checks.length} checks, evaluations so far ${evaluations}, memo hits ${hits}`);
   }
 
   /**
    * Coordinate search for check c on one side from `point` (changed in place).
-   * Returns true when any move went further than the start (a non-monotone check).
+   * Returns `none` when no move went further than the start, `vertex` when only
+   * moves from end to end did (a corner other than the sensitivities' one: a
+   * kink such as the larger of two peaks), `inside` when a move to a variable's
+   * middle did (an optimum inside the box: pattern steps follow).
    */
-  function search(point: Float64Array, vars: readonly number[], depth: number, c: number, side: 1 | -1): boolean {
+  function search(point: Float64Array, vars: readonly number[], depth: number, c: number, side: 1 | -1): 'none' | 'vertex' | 'inside' {
     const read = (): number => {
       const v = out[c] as number;
       return Number.isFinite(v) ? side * v : -Infinity;
@@ -195,6 +204,7 @@ export function worstCase(chain: Chain, perSigma: readonly Float64Array[], optio
     take(point, depth);
     let here = read();
     let improved = false;
+    let inside = false;
     const tryAt = (i: number, to: number): boolean => {
       const was = point[i] as number;
       if (to === was) return false;
@@ -218,6 +228,7 @@ export function worstCase(chain: Chain, perSigma: readonly Float64Array[], optio
         for (const to of candidates) {
           if (tryAt(i, to)) {
             gained = true;
+            if (to === 0) inside = true;
             break;
           }
         }
@@ -225,7 +236,8 @@ export function worstCase(chain: Chain, perSigma: readonly Float64Array[], optio
       if (!gained) break;
       improved = true;
     }
-    if (!improved) return false;
+    if (!improved) return 'none';
+    if (!inside) return 'vertex';
     // Pattern steps: the optimum lies off the vertices, walk to it coordinate by coordinate.
     for (const h of patternSteps) {
       for (let pass = 0; pass < maxPasses; pass++) {
@@ -237,7 +249,7 @@ export function worstCase(chain: Chain, perSigma: readonly Float64Array[], optio
         if (!gained) break;
       }
     }
-    return true;
+    return 'inside';
   }
 
   for (let c = 0; c < nCheck; c++) {

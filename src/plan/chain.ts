@@ -188,7 +188,7 @@ export function buildChain(plan: Plan): Chain {
   const hotResults: (EvalOutput | undefined)[] = new Array(stagePlans.length);
   const hotBuffers = stagePlans.map(() => bufferPool());
 
-  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length, reuse = 0, capture?: (EvalOutput | undefined)[]): ChainDetail => {
+  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length, reuse = 0, capture?: (EvalOutput | undefined)[], carry = 0): ChainDetail => {
     const rails: Record<string, number> = keep ? {} : hotRails;
     for (let i = 0; i < railIds.length; i++) {
       const v = x[i] ?? Number.NaN;
@@ -217,6 +217,7 @@ export function buildChain(plan: Plan): Chain {
       if (sp.inputStage >= 0) input = results[sp.inputStage]?.outputs[sp.stage.input?.output ?? ''];
       let result: EvalOutput | undefined;
       if (s < reuse) result = nominalResults?.[s];
+      else if (s < carry) result = hotResults[s];
       else if (sp.inputStage < 0 || input) {
         try {
           const args: HotArgs = keep ? { parts: {}, settings: sp.stage.settings, opamp: sp.opampIndex ? { ...sp.stage.opamp } : sp.stage.opamp, supplies, rails } : (hotArgs[s] as HotArgs);
@@ -254,6 +255,11 @@ export function buildChain(plan: Plan): Chain {
   };
 
   const nominal = Float64Array.from(variables, (v) => v.nominal);
+  // Chain position of each variable's stage; 0 for the rails, the op-amp and the temperature (they reach every stage).
+  const varStage = Int32Array.from(variables, (v) => Math.max(0, stageIds.indexOf(v.stage)));
+  const hotX = new Float64Array(variables.length);
+  /** Stages whose hot results hold for `hotX` (0: none). */
+  let hotValid = 0;
   return {
     variables,
     checks,
@@ -269,7 +275,19 @@ export function buildChain(plan: Plan): Chain {
         }
         from = Math.min(reuse, upTo);
       }
-      run(x, out, false, upTo, from);
+      // Incremental evaluation: stages upstream of every variable that changed since the last
+      // hot evaluation keep their results (their output arrays are untouched since). A search
+      // that moves one part at a time re-evaluates only that part's stage and what follows.
+      let carry = 0;
+      if (hotValid > 0 && from === 0) {
+        carry = Math.min(hotValid, upTo);
+        for (let i = 0; i < x.length && carry > 0; i++) {
+          if (x[i] !== hotX[i]) carry = Math.min(carry, Math.max(0, varStage[i] as number));
+        }
+      }
+      run(x, out, false, upTo, from, undefined, carry);
+      hotX.set(x);
+      hotValid = upTo;
     },
     stageIndex(id) {
       return stageIds.indexOf(id);

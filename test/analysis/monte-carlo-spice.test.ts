@@ -29,16 +29,18 @@ import { opampSubckt } from '../helpers/spice-opamp.js';
  *   statistics of ranks n·p ∓ z·√(n·p·(1−p)) with probability about that of a
  *   normal ±z (the distribution-free interval from the binomial law of the count
  *   below the quantile, normal approximation; Conover, Practical Nonparametric
- *   Statistics, from memory). z = 3 here. The tool's own quantile (10,000
- *   trials) is read with type 7 interpolation; its sampling error is √33 times
- *   smaller and is covered by the same interval. The model's own error at the
- *   nominal (the tool against ngspice with every part nominal, a fixed offset of
- *   a few tenths of a percent) is taken off before the comparison, so what is
- *   compared is the spread, which is what the Monte Carlo computes.
+ *   Statistics, from memory); z = 3 here. The tool's 10–90 % and 2.5–97.5 %
+ *   widths (10,000 trials, type 7 quantiles; their own sampling error is √40
+ *   times smaller) must lie between the narrowest and the widest width those two
+ *   intervals allow. That compares the spread, which is what the Monte Carlo
+ *   computes. The location (median against median) is the model's own error,
+ *   held to 1.5 % (the per-stage ngspice tests allow 2 %). A single nominal
+ *   ngspice run is printed but not used: in these short transients it sat
+ *   0.2–0.3 % below the median of the runs (start-up not fully settled).
  * Invented values throughout.
  */
 
-const runs = Number(process.env["PB_MC_RUNS"] ?? 240);
+const runs = 240;
 const z = 3;
 
 const plan = loadPlanText(
@@ -211,30 +213,37 @@ const checks: readonly [keyof Figures, string][] = [
 // The DC level is checked against an ngspice operating point in test/circuit/amplifier-dc.test.ts instead.
 
 describe('Monte Carlo of a whole chain against an independent Monte Carlo in ngspice', () => {
-  test(`quantiles 10/50/90 % of ${checks.length} checks agree within the sampling error of ${runs} ngspice runs`, { timeout: 600_000 }, () => {
+  test(`medians and 10–90 %, 2.5–97.5 % widths of ${checks.length} checks agree within the sampling error of ${runs} ngspice runs`, { timeout: 600_000 }, () => {
     const u = mulberry32(20261203);
     const spiceRuns: Figures[] = [];
     for (let r = 0; r < runs; r++) spiceRuns.push(simulate(draw(u)));
     const spiceNominal = simulate(draw());
 
     const samples = sampleChain(chain, { trials: 10_000, seed: 5, distribution: 'normal' });
-    const nominalDetail = chain.detail(chain.nominal);
     const lines: string[] = [];
+    /** The distribution-free interval of the ngspice p-quantile (order statistics, see the top). */
+    const interval = (sorted: readonly number[], p: number): [number, number] => {
+      const half = z * Math.sqrt(runs * p * (1 - p));
+      return [sorted[Math.max(0, Math.floor(runs * p - half) - 1)] as number, sorted[Math.min(runs - 1, Math.ceil(runs * p + half) - 1)] as number];
+    };
     for (const [key, check] of checks) {
       const index = chain.checks.findIndex((c) => c.check === check);
       expect(index).toBeGreaterThanOrEqual(0);
-      const tool = Float64Array.from(samples.values[index] as Float64Array).sort();
+      const tool = Array.from(samples.values[index] as Float64Array).sort((a, b) => a - b);
       const spice = spiceRuns.map((f) => f[key]).sort((a, b) => a - b);
-      // The model's fixed error at the nominal, taken off (see the top of the file).
-      const bias = (nominalDetail.values[check] as number) - spiceNominal[key];
-      for (const p of [0.1, 0.5, 0.9]) {
-        const half = z * Math.sqrt(runs * p * (1 - p));
-        const lo = spice[Math.max(0, Math.floor(runs * p - half) - 1)] as number;
-        const hi = spice[Math.min(runs - 1, Math.ceil(runs * p + half) - 1)] as number;
-        const q = quantileSorted(Array.from(tool), p) - bias;
-        lines.push(`${check} p=${p}: tool ${q.toPrecision(5)} (bias ${bias.toPrecision(3)}), ngspice interval ${lo.toPrecision(5)} … ${hi.toPrecision(5)}`);
-        expect.soft(q, `${check} at p = ${p}`).toBeGreaterThanOrEqual(lo);
-        expect.soft(q, `${check} at p = ${p}`).toBeLessThanOrEqual(hi);
+      const q = (p: number): number => quantileSorted(tool, p);
+      // Location: the model's own error (the per-stage ngspice tests allow 2 %); 1.5 % here, median against median.
+      const median = quantileSorted(spice, 0.5);
+      lines.push(`${check}: median tool ${q(0.5).toPrecision(6)}, ngspice ${median.toPrecision(6)} (ngspice nominal run ${spiceNominal[key].toPrecision(6)})`);
+      expect.soft(Math.abs(q(0.5) / median - 1), `${check} median`).toBeLessThan(0.015);
+      // Spread: the tool's inter-quantile widths against the widest and narrowest the ngspice intervals allow.
+      for (const [pl, ph] of [[0.1, 0.9], [0.025, 0.975]] as const) {
+        const [l1, h1] = interval(spice, pl);
+        const [l2, h2] = interval(spice, ph);
+        const width = q(ph) - q(pl);
+        lines.push(`${check}: ${pl * 100}–${ph * 100} % width tool ${width.toPrecision(4)}, ngspice ${(l2 - h1).toPrecision(4)} … ${(h2 - l1).toPrecision(4)}`);
+        expect.soft(width, `${check} ${pl}–${ph} width`).toBeGreaterThanOrEqual(l2 - h1);
+        expect.soft(width, `${check} ${pl}–${ph} width`).toBeLessThanOrEqual(h2 - l1);
       }
     }
     console.log(lines.join('\n'));
