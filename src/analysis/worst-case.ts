@@ -107,7 +107,6 @@ export function worstCase(chain: Chain, perSigma: readonly Float64Array[], optio
   // Points already evaluated at a depth (checks of one stage often share their corners and
   // their neighbours): the values they gave, so the search reads them again without evaluating.
   const seen = new Map<string, Float64Array>();
-  let hits = 0;
 
   /** Evaluate the chain at u (first `depth` stages) and widen every check it gives; `out` holds the values. */
   const take = (u: Float64Array, depth: number): void => {
@@ -116,7 +115,6 @@ export function worstCase(chain: Chain, perSigma: readonly Float64Array[], optio
     const known = seen.get(key);
     if (known) {
       out.set(known);
-      hits++;
       return;
     }
     for (let i = 0; i < nVar; i++) x[i] = (nominal[i] as number) + (u[i] as number) * (spread[i] as number);
@@ -184,9 +182,7 @@ export function worstCase(chain: Chain, perSigma: readonly Float64Array[], optio
         if (found !== 'none' && again) search(start(again), vars, depth, c, side);
       }
       method[c] = moved ? 'search' : useCorners ? 'corners' : 'monotone';
-      if (process.env['PB_WC_DEBUG']) console.error(`  ${chain.checks[c]?.check}: ${method[c]}, evaluations so far ${evaluations}`);
     }
-    if (process.env['PB_WC_DEBUG']) console.error(`group depth ${depth}: ${vars.length} vars, ${checks.length} checks, evaluations so far ${evaluations}, memo hits ${hits}`);
   }
 
   /**

@@ -74,7 +74,7 @@ export function evaluateAmplifier(shape: AmplifierShape, input: EvalInput<unknow
   const source = input.input;
   if (!source) throw new Error(`${kind}: no input waveform; the plan must name an "input"`);
   const { gain, bw } = closedLoop(shape, input.opamp);
-  const filtered = singlePole(source.samples, source.frequency, bw);
+  const filtered = singlePole(source.samples, source.frequency, bw, input.buffer?.(0, source.samples.length));
   const n = filtered.length;
   const offset = outputOffset(shape, input.opamp);
   const { high, low } = swing(input.opamp, input.supplies);

@@ -14,7 +14,7 @@ function evaluate(input: EvalInput<RcLowpassSettings>): EvalOutput {
   // Corner of a first-order RC section: fc = 1 / (2π·R·C) (any circuits handbook).
   const fc = 1 / (2 * Math.PI * r * c);
   // Unloaded output: every harmonic attenuated as 1/(1 + j·f/fc) (see single-pole.ts).
-  const out = singlePole(source.samples, source.frequency, fc);
+  const out = singlePole(source.samples, source.frequency, fc, input.buffer?.(0, source.samples.length));
   const { hi, lo } = extremes(out);
   return { outputs: { out: { frequency: source.frequency, samples: out } }, values: { fc, 'out.vpp': hi - lo }, warnings: [] };
 }
