@@ -69,6 +69,8 @@ export interface WorstCase {
 
 /** Coordinate steps of the pattern search after the vertex pass, as a fraction of the half-width. */
 const patternSteps = [0.5, 0.25, 0.125] as const;
+/** Points the search remembers (about 8 bytes per check each) before it starts afresh. */
+const maxRemembered = 20_000;
 /** Passes over all variables at one step before giving up on further gains (a safety bound). */
 const maxPasses = 6;
 
@@ -120,6 +122,8 @@ export function worstCase(chain: Chain, perSigma: readonly Float64Array[], optio
     for (let i = 0; i < nVar; i++) x[i] = (nominal[i] as number) + (u[i] as number) * (spread[i] as number);
     chain.evaluate(x, out, depth);
     evaluations++;
+    // Bounded: a large plan's search must not hold every point it ever visited.
+    if (seen.size >= maxRemembered) seen.clear();
     seen.set(key, Float64Array.from(out));
     for (let c = 0; c < nCheck; c++) {
       const v = out[c] as number;
