@@ -108,33 +108,56 @@ export function worstCase(chain: Chain, perSigma: readonly Float64Array[], optio
 
   // Points already evaluated at a depth (checks of one stage often share their corners and
   // their neighbours): the values they gave, so the search reads them again without evaluating.
-  const seen = new Map<string, Float64Array>();
+  // Keyed by a hash of (depth, u), each bucket checked point by point, so a collision costs a compare.
+  interface Point {
+    readonly depth: number;
+    readonly u: Float64Array;
+    readonly out: Float64Array;
+  }
+  const seen = new Map<number, Point[]>();
+  let remembered = 0;
+  const same = (a: Float64Array, b: Float64Array): boolean => {
+    for (let i = 0; i < nVar; i++) if (a[i] !== b[i]) return false;
+    return true;
+  };
 
   /** Evaluate the chain at u (first `depth` stages) and widen every check it gives; `out` holds the values. */
   const take = (u: Float64Array, depth: number): void => {
-    let key = `${depth}`;
-    for (let i = 0; i < nVar; i++) if (u[i] !== 0) key += `|${i}:${u[i]}`;
-    const known = seen.get(key);
-    if (known) {
-      out.set(known);
-      return;
+    // u holds multiples of 1/8 (ends, middles and the pattern steps): 8·u is a small integer.
+    let h = Math.imul(depth + 1, 0x9e3779b1);
+    for (let i = 0; i < nVar; i++) h = Math.imul(h ^ ((u[i] as number) * 8 + 16 + 33 * i), 0x01000193);
+    const bucket = seen.get(h);
+    if (bucket) {
+      for (const p of bucket) {
+        if (p.depth === depth && same(p.u, u)) {
+          out.set(p.out);
+          return;
+        }
+      }
     }
     for (let i = 0; i < nVar; i++) x[i] = (nominal[i] as number) + (u[i] as number) * (spread[i] as number);
     chain.evaluate(x, out, depth);
     evaluations++;
     // Bounded: a large plan's search must not hold every point it ever visited.
-    if (seen.size >= maxRemembered) seen.clear();
-    seen.set(key, Float64Array.from(out));
+    if (remembered >= maxRemembered) {
+      seen.clear();
+      remembered = 0;
+    }
+    const point: Point = { depth, u: Float64Array.from(u), out: Float64Array.from(out) };
+    const list = seen.get(h);
+    if (list) list.push(point);
+    else seen.set(h, [point]);
+    remembered++;
     for (let c = 0; c < nCheck; c++) {
       const v = out[c] as number;
       if (!Number.isFinite(v)) continue;
       if (v > (max[c] as number)) {
         max[c] = v;
-        bestU.max.set(c, Float64Array.from(u));
+        bestU.max.set(c, point.u);
       }
       if (v < (min[c] as number)) {
         min[c] = v;
-        bestU.min.set(c, Float64Array.from(u));
+        bestU.min.set(c, point.u);
       }
     }
   };
