@@ -130,6 +130,7 @@ const faultHints: Readonly<Record<string, readonly string[]>> = {
 export const schmittIntegratorKind: StageKind<SchmittSettings> = {
   kind: 'schmitt-integrator',
   summary: 'square/triangle relaxation oscillator: comparator with hysteresis into an integrator',
+  traits: { usesOpamp: true, isAmplifier: false, isHandWritten: false },
   roles: [
     { role: 'R1', unit: 'Ω', description: 'hysteresis resistor from the triangle to the comparator input' },
     { role: 'R2', unit: 'Ω', description: 'feedback resistor from the square to the comparator input' },
@@ -144,7 +145,6 @@ export const schmittIntegratorKind: StageKind<SchmittSettings> = {
   ],
   outputs: ['square', 'triangle'],
   needsInput: false,
-  traits: { usesOpamp: true },
   parse: parseSchmitt,
   checks: (settings) => (settings.hasPot ? [...baseChecks.slice(0, 1), ...potChecks, ...baseChecks.slice(1)] : baseChecks),
   evaluate,
