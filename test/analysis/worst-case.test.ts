@@ -1,5 +1,6 @@
 import { describe, expect, test } from 'vitest';
 import { sensitivities } from '../../src/analysis/sensitivity.js';
+import { sampleChain } from '../../src/analysis/sampling.js';
 import { computeTargets } from '../../src/analysis/targets.js';
 import { targetsJson } from '../../src/analysis/targets-json.js';
 import { worstCase } from '../../src/analysis/worst-case.js';
@@ -137,4 +138,34 @@ describe('worst case: deterministic search of the tolerance box', () => {
     expect(byCheck.get('osc.freq')).toMatch(/^(monotone|search)$/);
     expect(byCheck.get('rails.idle-current')).toBeUndefined();
   });
+});
+
+describe('the searched worst case holds every Monte Carlo trial', () => {
+  // 20,000 trials spread uniformly over the box (they reach its corners more often than the normal model)
+  // on both demo plans: no trial may fall outside the searched band. Relative slack 1e-9 for rounding
+  // between evaluation paths.
+  for (const file of ['demo/exciter.plan.json', 'demo/line-driver.plan.json']) {
+    test(file, async () => {
+      const demo = await loadPlanFile(file);
+      const set = computeTargets(demo, { trials: 200 });
+      const chain = buildChain(demo);
+      const samples = sampleChain(chain, { trials: 20_000, seed: 3, distribution: 'uniform' });
+      chain.checks.forEach((c, i) => {
+        const t = set.targets.find((x) => x.check === c.check);
+        if (!t || t.isLimit) return;
+        const values = samples.values[i] as Float64Array;
+        const slack = 1e-9 * Math.max(Math.abs(t.worst.min), Math.abs(t.worst.max));
+        let lo = Infinity;
+        let hi = -Infinity;
+        for (const v of values) {
+          if (!Number.isFinite(v)) continue;
+          lo = Math.min(lo, v);
+          hi = Math.max(hi, v);
+        }
+        if (lo === Infinity) return;
+        expect(lo, `${c.check} low`).toBeGreaterThanOrEqual(t.worst.min - slack);
+        expect(hi, `${c.check} high`).toBeLessThanOrEqual(t.worst.max + slack);
+      });
+    });
+  }
 });
