@@ -41,6 +41,11 @@ export interface Target {
    * `computeTargets`; optional only so hand-built targets elsewhere need not name it.
    */
   readonly isLimit?: boolean;
+  /**
+   * The quantity's physical floor (0 for a dead band, a THD, an idle current):
+   * where the band reaches down to it, the verdict guards only the open side.
+   */
+  readonly floor?: number;
   /** Stage ids upstream of this check's stage, nearest first (empty for rails and chain heads). */
   readonly upstream?: readonly string[];
   /** The upstream output this check's stage takes (`"osc.triangle"`), when it has an input. */

@@ -1,5 +1,5 @@
 import type { OpampModel } from '../circuit/types.js';
-import { parseValue } from '../units/parse.js';
+import { maxValueLength, parseValue } from '../units/parse.js';
 import { type Unit, unitExample, unitNoun } from '../units/unit.js';
 import { PlanError } from './errors.js';
 import type { RawOpamp } from './schema.js';
@@ -52,6 +52,8 @@ export function readSpreadValue(raw: string | number, unit: Unit, file: string, 
     return { value: raw, half: 0 };
   }
   const whole = parseValue(raw, { expected: unit, allowTolerance: true });
+  // Too long for any value: refused before the split below, which is quadratic in the words.
+  if (raw.length > maxValueLength) throw new PlanError(file, path, whole.ok ? `${raw.length} characters is too long for a value` : whole.message);
   if (whole.ok) {
     const tol = whole.tol ?? 0;
     checkTolerance(tol, raw, file, path);
@@ -123,7 +125,7 @@ export interface TemperatureRange {
 
 /** `"15 °C"`, `"15 C"`, `"-10 °C"`, `"300 K"` → kelvin. */
 function readTemperature(raw: unknown, file: string, path: string): number {
-  const text = typeof raw === 'string' ? raw : '';
+  const text = typeof raw === 'string' && raw.length <= maxValueLength ? raw : '';
   const m = /^\s*([-−+]?\d+(?:[.,]\d+)?)\s*(°\s*C|℃|C|K)\s*$/i.exec(text);
   if (!m) throw new PlanError(file, path, `${JSON.stringify(raw)} is not a temperature; write e.g. "15 °C"`);
   const value = Number((m[1] ?? '').replace('−', '-').replace(',', '.'));

@@ -136,3 +136,11 @@ describe('default spreads of active parts', () => {
     expect(Math.abs(d.values['gain.out.dc'] ?? 1)).toBeLessThan(1e-6);
   });
 });
+
+describe('hostile op-amp values', () => {
+  test('a value of 100,000 words is refused with its path and the length limit', () => {
+    const long = `1.5 V ${'x '.repeat(100_000)}`;
+    expect(errorOf(plan({ opamp: { headroom: long } })).message).toMatch(/opamp\.headroom.*too long/);
+    expect(errorOf(plan({ temperature: { min: `${'1'.repeat(300)} °C`, max: '40 °C' } })).message).toMatch(/temperature\.min.*not a temperature/);
+  });
+});
