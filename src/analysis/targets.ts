@@ -95,6 +95,7 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
       ...(c.floor === undefined ? {} : { floor: c.floor }),
       upstream,
       ...(stage?.input ? { input: `${stage.input.stage}.${stage.input.output}` } : {}),
+      ...(c.captureFigure ? { captureFigure: c.captureFigure } : {}),
     };
     if (c.phase === 'unpowered') {
       const band = { min: plan.railShortMin, max: Infinity };

@@ -1,3 +1,4 @@
+import type { CheckSpec } from '../circuit/types.js';
 import type { Phase } from '../plan/types.js';
 import type { Unit } from '../units/unit.js';
 
@@ -57,6 +58,8 @@ export interface Target {
    * Absent on limit checks (their band is a threshold).
    */
   readonly method?: 'corners' | 'monotone' | 'search';
+  /** Which figure of a scope capture answers the check, as its stage kind declares (absent: none). */
+  readonly captureFigure?: CheckSpec['captureFigure'];
 }
 
 export interface DesignWarning {

@@ -18,6 +18,8 @@ export interface PlanCheck {
   readonly phase: Phase;
   /** The rail a rail check is about. */
   readonly rail?: string;
+  /** Which figure of a scope capture answers the check, as its stage kind declares (absent: none). */
+  readonly captureFigure?: CheckSpec['captureFigure'];
   /** The quantity's physical floor (CheckSpec.floor), when it has one. */
   readonly floor?: number;
 }
@@ -87,6 +89,7 @@ export function planChecks(plan: { readonly rails: readonly Rail[]; readonly sta
         how: spec.how,
         testPoint: tp ?? null,
         phase: 'stage',
+        ...(spec.captureFigure ? { captureFigure: spec.captureFigure } : {}),
         ...(spec.floor === undefined ? {} : { floor: spec.floor }),
       });
     }
