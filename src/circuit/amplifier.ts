@@ -24,6 +24,19 @@ export interface AmplifierShape {
   readonly ideal: number;
   /** Noise gain, 1 + Rf/Rin or 1 + Rf/Rg. */
   readonly noiseGain: number;
+  /** Feedback resistor, Ω: the op-amp's bias current into the inverting input flows through it. */
+  readonly rf?: number;
+}
+
+/**
+ * The output's DC shift from the op-amp's own input errors: vos × noise gain
+ * (the offset sits in series with the non-inverting input, so it sees the noise
+ * gain in either configuration) plus ib × Rf (the inverting input's bias current
+ * flows from the output through Rf, the non-inverting input driven from a low
+ * impedance). Sedra and Smith, DC imperfections of op-amps.
+ */
+export function outputOffset(shape: AmplifierShape, opamp: OpampModel): number {
+  return (opamp.vos ?? 0) * shape.noiseGain + (opamp.ib ?? 0) * (shape.rf ?? 0);
 }
 
 export function closedLoop(shape: AmplifierShape, opamp: OpampModel): { gain: number; bw: number } {
@@ -87,8 +100,9 @@ export function evaluateAmplifier(shape: AmplifierShape, input: EvalInput<unknow
   const source = input.input;
   if (!source) throw new Error(`${kind}: no input waveform; the plan must name an "input"`);
   const { gain, bw } = closedLoop(shape, input.opamp);
-  const filtered = singlePole(source.samples, source.frequency, bw);
+  const filtered = singlePole(source.samples, source.frequency, bw, input.buffer?.(0, source.samples.length));
   const n = filtered.length;
+  const offset = outputOffset(shape, input.opamp);
   const { high, low } = swing(input.opamp, input.supplies);
   let wantHi = -Infinity;
   let wantLo = Infinity;
@@ -96,7 +110,7 @@ export function evaluateAmplifier(shape: AmplifierShape, input: EvalInput<unknow
   // One pass: scale, extremes, and the largest step between neighbours (the last wraps to the first).
   let previous = n > 0 ? gain * (filtered[n - 1] as number) : 0;
   for (let i = 0; i < n; i++) {
-    const y = gain * (filtered[i] as number);
+    const y = gain * (filtered[i] as number) + offset;
     filtered[i] = y;
     if (y > wantHi) wantHi = y;
     if (y < wantLo) wantLo = y;
@@ -146,9 +160,13 @@ export function evaluateAmplifier(shape: AmplifierShape, input: EvalInput<unknow
       if (v < lo) lo = v;
     }
   }
+  // What a DC meter reads: the mean over a whole period, after clipping and slewing
+  // (a stage stuck at a rail reads that rail's swing limit).
+  let sum = 0;
+  for (let i = 0; i < n; i++) sum += out[i] as number;
   return {
     outputs: { out: { frequency: source.frequency, samples: out } },
-    values: { gain, bw, 'out.vpp': hi - lo },
+    values: { gain, bw, 'out.vpp': hi - lo, 'out.dc': n > 0 ? sum / n : Number.NaN },
     warnings,
   };
 }
@@ -157,10 +175,25 @@ export const amplifierChecks: readonly CheckSpec[] = [
   { key: 'gain', quantity: 'gain', unit: 'V/V', output: 'out', instrument: 'scope', how: 'two channels, input and output, at a frequency well below the bandwidth: output over input peak-to-peak, negative when the output is inverted' },
   { key: 'bw', quantity: '−3 dB bandwidth', unit: 'Hz', output: 'out', instrument: 'scope', how: 'small sine in, raise the generator frequency until the output falls to 0.707 of its low-frequency level; read the generator' },
   { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the amplifier output with the chain signal applied, read peak-to-peak' },
+  {
+    key: 'out.dc',
+    quantity: 'DC level (average)',
+    unit: 'V',
+    output: 'out',
+    instrument: 'meter',
+    captureFigure: 'mean',
+    how: 'meter on DC volts from the amplifier output to ground, signal running (it reads the average); a reading within a volt or two of a rail means the stage is stuck there — the commonest fault on a new board: check the feedback resistor, the input pins and the op-amp\'s supply pins before anything downstream',
+  },
 ];
 
 /** Fault hints both amplifier kinds share. */
 export const amplifierHints: Readonly<Record<string, readonly string[]>> = {
+  'out.dc': [
+    'stuck at a rail: the feedback loop is open (Rf missing or a dry joint) or an input pin is lifted',
+    'stuck at a rail: the op-amp fitted the wrong way round or not powered (check both supply pins first)',
+    'a steady offset of tens of millivolts: the op-amp\'s input offset times the noise gain, or bias current through a large Rf',
+    'the upstream stage\'s own DC level passed on and amplified: measure the input\'s DC level too',
+  ],
   bw: [
     'a slower op-amp fitted than the plan assumes (lower gain-bandwidth)',
     'a capacitor across the feedback resistor, or a wrong value there',

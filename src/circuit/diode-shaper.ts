@@ -1,4 +1,4 @@
-import { type DiodeModel, defaultDiode, defaultDiodeName, diodeModels, diodeString } from './diode.js';
+import { type DiodeModel, defaultDiode, defaultDiodeName, diodeModels, diodeString, nominalTemperature, saturationAt, thermalVoltage } from './diode.js';
 import { type ShaperBranch, type ShaperNet, solveNode, solveTransfer } from './shaper-solver.js';
 import { fastThd } from './spectrum.js';
 import { choiceAt, countAt, list, nested, ohmRange, onlyKeys, partAt, reader, type StageReader } from './stage-parse.js';
@@ -27,22 +27,39 @@ export interface DiodeShaperSettings {
 /** A diode of this class is rated a few hundred mA; warn well below (common practice, no source). */
 const diodeCurrentWarn = 0.1;
 
-function parseDiode(r: StageReader): { model: DiodeModel; name: string } {
+/**
+ * Spreads of the diode's IS and N when the plan gives none: IS ±50 % and N ±2 %
+ * together move a small-signal diode's forward drop by about ±30 mV at a given
+ * current, the part-to-part spread of one type (from memory of data-sheet
+ * forward-voltage ranges; common practice, no source). Every diode of a stage
+ * shares one sample (one reel).
+ */
+export const defaultIsTol = 0.5;
+export const defaultNTol = 0.02;
+
+function diodeParts(model: DiodeModel, is?: PartValue, n?: PartValue): Record<string, PartValue> {
+  const part = (given: PartValue | undefined, nominal: number, tol: number, unit: PartValue['unit'], what: string): PartValue =>
+    given && given.tol > 0 ? given : { nominal, tol, unit, text: `${given?.text ?? nominal} ${tol * 100}% (default ${what} spread)` };
+  return { 'diode.is': part(is, model.is, defaultIsTol, 'A', 'IS'), 'diode.n': part(n, model.n, defaultNTol, '1', 'N') };
+}
+
+function parseDiode(r: StageReader): { model: DiodeModel; name: string; parts: Record<string, PartValue> } {
   const raw = r.json['diode'];
-  if (raw === undefined) return { model: defaultDiode, name: defaultDiodeName };
+  if (raw === undefined) return { model: defaultDiode, name: defaultDiodeName, parts: diodeParts(defaultDiode) };
   if (typeof raw === 'string') {
     const model = diodeModels[raw];
     if (!model) {
       throw new StageParseError(r.file, `${r.path}.diode`, `no diode model ${JSON.stringify(raw)}; write ${Object.keys(diodeModels).map((m) => JSON.stringify(m)).join(' or ')}, or { "is": "2.52n", "n": 1.752, "rs": "0.568" }`);
     }
-    return { model, name: raw };
+    return { model, name: raw, parts: diodeParts(model) };
   }
   const d = nested(r, 'diode');
   onlyKeys(d, ['is', 'n', 'rs']);
   const is = partAt(d, 'is', 'A', true, { positive: true, example: '"2.52n"' });
   const n = partAt(d, 'n', '1', true, { positive: true, example: '1.752' });
   const rs = partAt(d, 'rs', 'Ω', false, { nonNegative: true, example: '"0.568"' });
-  return { model: { is: is.nominal, n: n.nominal, rs: rs?.nominal ?? 0 }, name: 'custom' };
+  const model = { is: is.nominal, n: n.nominal, rs: rs?.nominal ?? 0 };
+  return { model, name: 'custom', parts: diodeParts(model, is, n) };
 }
 
 function parse(raw: Parameters<StageKind['parse']>[0], file: string): { parts: Record<string, PartValue>; settings: DiodeShaperSettings } {
@@ -64,17 +81,24 @@ function parse(raw: Parameters<StageKind['parse']>[0], file: string): { parts: R
     return { diodes: countAt(b, 'diodes', 1, 1, 10), polarity: choiceAt(b, 'polarity', ['+', '-'] as const), rRole, biasRole };
   });
   const diode = parseDiode(r);
+  Object.assign(parts, diode.parts);
   return { parts, settings: { branches, hasLoad: load !== undefined, diode: diode.model, diodeName: diode.name } };
 }
 
 /** The node as the solver sees it, for one sample of the parts. */
 export function shaperNet(input: EvalInput<DiodeShaperSettings>): ShaperNet {
   const { parts, settings } = input;
+  // One sample of the diodes (IS, N) at the board temperature (Vt = kT/q and the SPICE law for IS).
+  const base = settings.diode;
+  const model: DiodeModel = { is: parts['diode.is'] ?? base.is, n: parts['diode.n'] ?? base.n, rs: base.rs };
+  const kelvin = input.temperature ?? nominalTemperature;
+  const vt = thermalVoltage(kelvin);
+  const is = saturationAt(model, kelvin);
   const branches = settings.branches.map(
     (b): ShaperBranch => ({
       sign: b.polarity === '+' ? 1 : -1,
       bias: parts[b.biasRole] ?? 0,
-      diodes: diodeString(settings.diode, b.diodes, parts[b.rRole] ?? Number.NaN),
+      diodes: diodeString(model, b.diodes, parts[b.rRole] ?? Number.NaN, vt, is),
     }),
   );
   const rload = settings.hasLoad ? (parts['Rload'] ?? Number.NaN) : Number.POSITIVE_INFINITY;
@@ -160,6 +184,8 @@ export const diodeShaperKind: StageKind<DiodeShaperSettings> = {
     { role: 'Rload', unit: 'Ω', description: 'load from the shaper node to ground', optional: true },
     { role: 'branches[i].R', unit: 'Ω', description: 'breakpoint branch resistor (sets the slope above the breakpoint)' },
     { role: 'branches[i].bias', unit: 'V', description: 'breakpoint branch bias voltage (sets where the branch starts to conduct)' },
+    { role: 'diode.is', unit: 'A', description: 'the diodes\' saturation current IS (default spread ±50 %)', optional: true },
+    { role: 'diode.n', unit: '1', description: 'the diodes\' emission coefficient N (default spread ±2 %)', optional: true },
   ],
   outputs: ['out'],
   needsInput: true,

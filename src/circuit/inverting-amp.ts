@@ -9,7 +9,7 @@ function evaluate(input: EvalInput<InvertingAmpSettings>): EvalOutput {
   const rin = input.parts['Rin'] ?? Number.NaN;
   const rf = input.parts['Rf'] ?? Number.NaN;
   // Gain −Rf/Rin, noise gain 1 + Rf/Rin (Sedra and Smith, the inverting configuration).
-  return evaluateAmplifier({ ideal: -rf / rin, noiseGain: 1 + rf / rin }, input, 'inverting-amp');
+  return evaluateAmplifier({ ideal: -rf / rin, noiseGain: 1 + rf / rin, rf }, input, 'inverting-amp');
 }
 
 /**

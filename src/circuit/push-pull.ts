@@ -41,6 +41,8 @@ export const defaultVbe = 0.65;
 /** Spread of a bias diode's drop against Vbe when the plan gives none (common practice, no source). */
 const defaultMatch = 0.08;
 export const defaultHfe = 100;
+/** Spread of hfe when the plan gives none (see parse). */
+export const defaultHfeTol = 0.5;
 /** A TO-92 transistor gets too hot to touch near half a watt (common practice, no source). */
 const hotWatts = 0.5;
 
@@ -309,7 +311,9 @@ export const pushPullKind: StageKind<PushPullSettings> = {
     const vbe = partAt(r, 'vbe', 'V', false, { positive: true, example: '"0.65 V 10%"' });
     if (vbe) parts['vbe'] = vbe;
     const hfe = partAt(r, 'hfe', 'V/V', false, { positive: true, example: '100' });
-    if (hfe) parts['hfe'] = hfe;
+    // hfe written without a tolerance spreads ±50 %: data sheets give a small-signal
+    // transistor's hfe as a min … max range of about 2:1 to 3:1 (from memory; common practice).
+    if (hfe) parts['hfe'] = hfe.tol > 0 ? hfe : { ...hfe, tol: defaultHfeTol, text: `${hfe.text} ${defaultHfeTol * 100}% (default hfe spread)` };
     const bias = choiceAt(r, 'bias', ['none', 'diodes'] as const);
     const vd = partAt(r, 'vd', 'V', false, { positive: true, example: '"0.65 V 8%"' });
     if (vd && bias !== 'diodes') throw new StageParseError(file, `${raw.path}.vd`, 'a bias diode drop only applies with "bias": "diodes"; remove it or set the bias');
@@ -328,11 +332,12 @@ export const pushPullKind: StageKind<PushPullSettings> = {
       const vbeP = partAt(pnp, 'vbe', 'V', false, { positive: true, example: '"0.7 V 10%"' });
       const hfeP = partAt(pnp, 'hfe', 'V/V', false, { positive: true, example: '150' });
       const v = vbe ?? { nominal: defaultVbe, tol: 0, unit: 'V' as const, text: `${defaultVbe} V (default)` };
-      const h = hfe ?? { nominal: defaultHfe, tol: 0, unit: 'V/V' as const, text: `${defaultHfe} (default)` };
+      // hfe keeps its default spread here too (a written hfe without a tolerance got it above).
+      const h = parts['hfe'] ?? { nominal: defaultHfe, tol: defaultHfeTol, unit: 'V/V' as const, text: `${defaultHfe} ${defaultHfeTol * 100}% (default)` };
       parts['vbe'] = v;
       parts['hfe'] = h;
       parts['vbe.pnp'] = vbeP ?? v;
-      parts['hfe.pnp'] = hfeP ?? h;
+      parts['hfe.pnp'] = hfeP ? (hfeP.tol > 0 ? hfeP : { ...hfeP, tol: defaultHfeTol, text: `${hfeP.text} ${defaultHfeTol * 100}% (default hfe spread)` }) : h;
     } else if (raw.json['pnp'] !== undefined) {
       throw new StageParseError(file, `${raw.path}.pnp`, 'separate PNP values apply to the diode bias network only; add Rb1 and Rb2 or remove "pnp"');
     } else if (bias === 'diodes') {

@@ -37,7 +37,7 @@ function evaluate(input: EvalInput<RcLowpassSettings>): EvalOutput {
     // Corner of a first-order RC section: fc = 1 / (2π·R·C) (any circuits handbook).
     fc = 1 / (2 * Math.PI * r * c);
     // Unloaded output: every harmonic attenuated as 1/(1 + j·f/fc) (see single-pole.ts).
-    out = singlePole(source.samples, f0, fc);
+    out = singlePole(source.samples, f0, fc, input.buffer?.(0, source.samples.length));
   } else if (zl.im === 0 && zHigh !== undefined && zHigh.im === 0 && zHigh.re === zl.re) {
     const rl = zl.re;
     // Thevenin: RL/(R + RL) of the input behind R‖RL, corner 1/(2π·(R‖RL)·C).

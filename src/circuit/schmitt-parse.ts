@@ -13,6 +13,9 @@ export interface SchmittSettings {
   readonly hasClamp: boolean;
 }
 
+/** Spread of a zener's vz when the plan gives none (see where it is used). */
+export const defaultZenerTol = 0.05;
+
 const partUnits: Readonly<Record<string, { unit: Unit; example: string; required: boolean }>> = {
   R1: { unit: 'Ω', example: '"10k 1%"', required: true },
   R2: { unit: 'Ω', example: '"22k 1%"', required: true },
@@ -99,7 +102,10 @@ export function parseSchmitt(raw: RawStage, file: string): ParsedStage<SchmittSe
       const path = `${base}.clamp.${key}`;
       const value = clampJson[key];
       if (value === undefined) throw new StageParseError(file, path, `missing; the clamp needs vz and vf, e.g. "${key}": ${example}`);
-      parts[`clamp.${key}`] = positiveValue(value, 'V', example, file, path);
+      const part = positiveValue(value, 'V', example, file, path);
+      // A zener written without a tolerance spreads as the common ±5 % selection of
+      // small zener series does (the "C" grade; from memory of data sheets, common practice).
+      parts[`clamp.${key}`] = key === 'vz' && part.tol === 0 ? { ...part, tol: defaultZenerTol, text: `${part.text} ${defaultZenerTol * 100}% (default zener spread)` } : part;
     }
     // Two zeners, each with its own spread: `clamp.vz`/`clamp.vf` are the one in
     // breakdown at the high level (D1), `clamp.vz2`/`clamp.vf2` its partner (D2).
