@@ -96,3 +96,64 @@ export function scanNumber(buf: Uint8Array, pos: number, end: number, decimal: n
   else value = mantissa / 1e308 / (pow10[-exponent - 308] ?? Infinity);
   return negative ? -value : value;
 }
+
+/**
+ * The fast path of `scanNumber` for the common field: an optional sign,
+ * digits, an optional decimal part and exponent, at most 17 digits, no spaces
+ * or quotes. The caller guarantees a line feed before the end of `buf`, so no
+ * read goes past it. Returns NaN for anything else (the caller then uses
+ * `scanNumber`); otherwise the very value `scanNumber` gives (same digits,
+ * same arithmetic), with the position after it in `scan.end`.
+ */
+export function scanPlain(buf: Uint8Array, pos: number, decimal: number): number {
+  let i = pos;
+  let c = buf[i] as number;
+  let negative = false;
+  if (c === MINUS || c === PLUS) {
+    negative = c === MINUS;
+    c = buf[++i] as number;
+  }
+  let mantissa = 0;
+  let digits = 0;
+  let exponent = 0;
+  while (c >= ZERO && c <= NINE) {
+    mantissa = mantissa * 10 + (c - ZERO);
+    digits++;
+    c = buf[++i] as number;
+  }
+  if (c === decimal) {
+    c = buf[++i] as number;
+    while (c >= ZERO && c <= NINE) {
+      mantissa = mantissa * 10 + (c - ZERO);
+      exponent--;
+      digits++;
+      c = buf[++i] as number;
+    }
+  }
+  // More than 17 digits: scanNumber drops the excess, so leave it to scanNumber.
+  if (digits === 0 || digits > 17) return Number.NaN;
+  if (c === LOWER_E || c === UPPER_E) {
+    c = buf[++i] as number;
+    let expNegative = false;
+    if (c === MINUS || c === PLUS) {
+      expNegative = c === MINUS;
+      c = buf[++i] as number;
+    }
+    let e = 0;
+    let expDigits = 0;
+    while (c >= ZERO && c <= NINE) {
+      if (e < 100000) e = e * 10 + (c - ZERO);
+      expDigits++;
+      c = buf[++i] as number;
+    }
+    if (expDigits === 0) return Number.NaN;
+    exponent += expNegative ? -e : e;
+  }
+  scan.end = i;
+  let value: number;
+  if (mantissa === 0) value = 0;
+  else if (exponent >= 0) value = exponent > 308 ? Infinity : mantissa * (pow10[exponent] as number);
+  else if (exponent >= -308) value = mantissa / (pow10[-exponent] as number);
+  else value = mantissa / 1e308 / (pow10[-exponent - 308] ?? Infinity);
+  return negative ? -value : value;
+}
