@@ -25,7 +25,12 @@ export function moments(x: Float64Array, from = 0, to = x.length): Moments {
   const n = to - from;
   let sum = 0;
   for (let i = from; i < to; i++) sum += x[i] as number;
-  const mean = sum / n;
+  return momentsAbout(x, from, to, sum / n);
+}
+
+/** `moments` given the mean over [from, to): the second pass alone. */
+export function momentsAbout(x: Float64Array, from: number, to: number, mean: number): Moments {
+  const n = to - from;
   // Second pass about the mean: no cancellation for a small AC part on a large DC level.
   let sq = 0;
   let abs = 0;

@@ -1,6 +1,6 @@
 import { crossings, periodFromCrossings } from './crossings.js';
 import { harmonicAnalysis, refineFrequency } from './harmonics.js';
-import { extremes, moments, stateLevels } from './levels.js';
+import { moments, momentsAbout, stateLevels } from './levels.js';
 import { averagePeriod } from './period-average.js';
 import { classify, hasNotch, isClipped, shapeFeatures } from './shape.js';
 import { transitions } from './transitions.js';
@@ -29,12 +29,20 @@ export function measure(x: Float64Array, sampleRate: number): MeasureResult {
   const n = x.length;
   if (n < minSamples) throw new CaptureError(`only ${n} samples; at least ${minSamples} are needed to measure anything`);
   if (!(sampleRate > 0) || !Number.isFinite(sampleRate)) throw new CaptureError(`sample rate ${sampleRate} Hz is not usable`);
+  // One pass for the check, the extremes and the sum (each as `extremes` and
+  // `moments` form them), then one about the mean: two passes, not four.
+  let min = Infinity;
+  let max = -Infinity;
+  let sum = 0;
   for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(x[i] as number)) throw new CaptureError(`sample ${i + 1} is ${x[i]}; the capture must hold numbers only`);
+    const v = x[i] as number;
+    if (!Number.isFinite(v)) throw new CaptureError(`sample ${i + 1} is ${v}; the capture must hold numbers only`);
+    if (v < min) min = v;
+    if (v > max) max = v;
+    sum += v;
   }
-  const { min, max } = extremes(x);
   const vpp = max - min;
-  const whole = moments(x);
+  const whole = momentsAbout(x, 0, n, sum / n);
   const warnings: string[] = [];
   const none = {
     samples: n, sampleRate, min, max, vpp,
