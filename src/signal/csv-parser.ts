@@ -1,5 +1,5 @@
 import { type CsvDialect, detectDialect, unitScale } from './csv-dialect.js';
-import { scan, scanNumber, scanPlain } from './number-scan.js';
+import { plainValue, scan, scanNumber, scanPlain } from './number-scan.js';
 import { type Capture, CaptureError, type ReadOptions } from './types.js';
 
 const LF = 10;
@@ -187,9 +187,9 @@ export class CsvParser {
       let t = 0;
       let c = 0;
       for (; c < n; c++) {
-        const value = scanPlain(buf, pos, decimal);
-        if (Number.isNaN(value)) break; // not a plain number
-        const after = scan.end;
+        const after = scanPlain(buf, pos, decimal);
+        if (after < 0) break; // not a plain number
+        const value = plainValue[0] as number;
         const b = buf[after];
         if (c < n - 1) {
           if (b !== delimiter) break;
