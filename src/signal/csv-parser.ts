@@ -176,13 +176,21 @@ export class CsvParser {
     const delimiter = this.delimiter;
     const decimal = this.decimal;
     let columns = this.columns;
+    // The per-row state in locals, written back on the way out (fewer loads
+    // and stores per row than fields of `this`).
+    let rows = this.rows;
+    let capacity = this.capacity;
+    let tPrev = this.tPrev;
+    let minStep = this.minStep;
+    let maxStep = this.maxStep;
     let pos = start;
     while (pos < limit) {
-      if (this.rows === this.capacity) {
+      if (rows === capacity) {
+        this.rows = rows;
         this.grow();
         columns = this.columns;
+        capacity = this.capacity;
       }
-      const row = this.rows;
       const rowStart = pos;
       let t = 0;
       let c = 0;
@@ -198,26 +206,35 @@ export class CsvParser {
         else if (b === CR && buf[after + 1] === LF) pos = after + 2;
         else break;
         if (c === timeColumn) t = value;
-        else (columns[c] as Float64Array)[row] = value;
+        else (columns[c] as Float64Array)[rows] = value;
       }
       if (c < n) {
-        this.tLast = this.tPrev;
-        return rowStart;
+        pos = rowStart;
+        break;
       }
-      this.line++;
       if (timeColumn >= 0) {
-        if (row === 0) this.t0 = t;
+        if (rows === 0) this.t0 = t;
         else {
-          const step = t - this.tPrev;
-          if (!(step > 0)) this.time(t); // throws, naming this line
-          if (step < this.minStep) this.minStep = step;
-          if (step > this.maxStep) this.maxStep = step;
+          const step = t - tPrev;
+          if (!(step > 0)) {
+            this.line += rows - this.rows + 1;
+            this.rows = rows;
+            this.tPrev = tPrev;
+            this.time(t); // throws, naming this line and the time before
+          }
+          if (step < minStep) minStep = step;
+          if (step > maxStep) maxStep = step;
         }
-        this.tPrev = t;
+        tPrev = t;
       }
-      this.rows = row + 1;
+      rows++;
     }
-    if (timeColumn >= 0) this.tLast = this.tPrev;
+    this.line += rows - this.rows;
+    this.rows = rows;
+    this.tPrev = tPrev;
+    this.tLast = tPrev;
+    this.minStep = minStep;
+    this.maxStep = maxStep;
     return pos;
   }
 

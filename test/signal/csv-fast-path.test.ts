@@ -94,7 +94,7 @@ describe('the CSV row loop', () => {
     rows.push('5000,1.2.3');
     expect(() => readCaptureBytes(encode(`${rows.join('\n')}\n`), { name: 'bad.csv' })).toThrow(new CaptureError('bad.csv, line 5002: field 2 is not a number in "5000,1.2.3"; expected 2 numbers separated by "," with "." as the decimal marker'));
     rows[5001] = '4999,1';
-    expect(() => readCaptureBytes(encode(`${rows.join('\n')}\n`), { name: 'bad.csv' })).toThrow(/line 5002: time 4999 does not increase/);
+    expect(() => readCaptureBytes(encode(`${rows.join('\n')}\n`), { name: 'bad.csv' })).toThrow(/line 5002: time 4999 does not increase \(the row before had 4999\)/);
   });
 });
 
