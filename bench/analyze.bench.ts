@@ -8,7 +8,8 @@
 // rounds), with peak RSS over file size.
 // Goal (issue 15): probebook ≤ 0.5× numpy at both sizes, peak RSS ≤ 2× the file
 // size. Without python3 or numpy the bench says so and shows probebook's own
-// figures only. The captures are invented: a shaped sine with noise, written here.
+// figures only. BENCH_BASELINE=/path/to/an/older/dist/probebook.js adds that
+// command's row, measured in the same rounds, for a before/after in one run. The captures are invented: a shaped sine with noise, written here.
 import { spawnSync } from 'node:child_process';
 import { closeSync, existsSync, mkdirSync, openSync, readFileSync, statSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
@@ -99,38 +100,39 @@ console.log(`node ${process.version}, python ${python.stdout.trim()}, numpy ${ha
 const bare = timed([process.execPath, '-e', '0']);
 console.log(`node -e 0: ${bare.seconds.toFixed(3)} s, peak RSS ${(bare.rssKb / 1024).toFixed(1)} MB (the floor under any figure below)`);
 const na = 'n/a';
+const baseline = process.env.BENCH_BASELINE;
+const contenders: { label: string; command: string }[] = [{ label: '', command: bundle }, ...(baseline ? [{ label: ' (baseline)', command: baseline }] : [])];
 const rows: string[][] = [['samples', 'file MB', 'read bytes s', 'probebook s', 'numpy s', 'pb/numpy', 'pb/read', 'CPU pb/np', 'pb RSS MB', 'pb RSS/file', 'node -e 0 RSS/file', 'np RSS/file']];
 for (const n of sizes) {
   const file = makeCapture(n);
   const size = statSync(file).size;
   const read: number[] = [];
-  const pb: Timed[] = [];
   const np: Timed[] = [];
-  const ratios: number[] = [];
-  const cpuRatios: number[] = [];
+  const pb: Timed[][] = contenders.map(() => []);
   for (let r = 0; r < rounds; r++) {
     read.push(readBytes(file));
-    const a = timed([process.execPath, bundle, 'analyze', file, '--json']);
-    pb.push(a);
-    if (!hasNumpy) continue;
-    const b = timed(['python3', join('bench', 'analyze_reference.py'), file]);
-    np.push(b);
-    ratios.push(a.seconds / b.seconds);
-    cpuRatios.push(a.cpu / b.cpu);
+    contenders.forEach((c, i) => pb[i]?.push(timed([process.execPath, c.command, 'analyze', file, '--json'])));
+    if (hasNumpy) np.push(timed(['python3', join('bench', 'analyze_reference.py'), file]));
   }
-  const ours = JSON.parse(pb[0]?.out ?? '{}') as Record<string, number>;
+  const ours = JSON.parse(pb[0]?.[0]?.out ?? '{}') as Record<string, number>;
   if (hasNumpy) {
     const theirs = JSON.parse(np[0]?.out ?? '{}') as Record<string, number>;
     console.log(`${n} samples: frequency ${ours.frequency?.toFixed(4)} vs ${theirs.frequency?.toFixed(4)} Hz, THD ${ours.thd?.toFixed(5)} vs ${theirs.thd?.toFixed(5)}, Vrms ${ours.vrms?.toFixed(5)} vs ${theirs.vrms?.toFixed(5)}`);
   } else console.log(`${n} samples: frequency ${ours.frequency?.toFixed(4)} Hz, THD ${ours.thd?.toFixed(5)}, Vrms ${ours.vrms?.toFixed(5)}`);
-  const pbS = median(pb.map((t) => t.seconds));
-  const pbRss = Math.max(...pb.map((t) => t.rssKb)) * 1024;
-  rows.push([
-    String(n), (size / 1e6).toFixed(1), median(read).toFixed(3), pbS.toFixed(3), hasNumpy ? median(np.map((t) => t.seconds)).toFixed(3) : na,
-    hasNumpy ? `${median(ratios).toFixed(2)}×` : na, `${(pbS / median(read)).toFixed(1)}×`, hasNumpy ? `${median(cpuRatios).toFixed(2)}×` : na,
-    (pbRss / 1e6).toFixed(1), `${(pbRss / size).toFixed(2)}×`, `${((bare.rssKb * 1024) / size).toFixed(2)}×`,
-    hasNumpy ? `${((Math.max(...np.map((t) => t.rssKb)) * 1024) / size).toFixed(2)}×` : na,
-  ]);
+  contenders.forEach((c, i) => {
+    const runs = pb[i] ?? [];
+    // Paired per round: this command against numpy's run of the same round.
+    const ratios = runs.map((t, r) => t.seconds / (np[r]?.seconds ?? Number.NaN));
+    const cpuRatios = runs.map((t, r) => t.cpu / (np[r]?.cpu ?? Number.NaN));
+    const pbS = median(runs.map((t) => t.seconds));
+    const pbRss = Math.max(...runs.map((t) => t.rssKb)) * 1024;
+    rows.push([
+      `${n}${c.label}`, (size / 1e6).toFixed(1), median(read).toFixed(3), pbS.toFixed(3), hasNumpy ? median(np.map((t) => t.seconds)).toFixed(3) : na,
+      hasNumpy ? `${median(ratios).toFixed(2)}×` : na, `${(pbS / median(read)).toFixed(1)}×`, hasNumpy ? `${median(cpuRatios).toFixed(2)}×` : na,
+      (pbRss / 1e6).toFixed(1), `${(pbRss / size).toFixed(2)}×`, `${((bare.rssKb * 1024) / size).toFixed(2)}×`,
+      hasNumpy ? `${((Math.max(...np.map((t) => t.rssKb)) * 1024) / size).toFixed(2)}×` : na,
+    ]);
+  });
 }
 const widths = rows[0]?.map((_, c) => Math.max(...rows.map((r) => (r[c] ?? '').length))) ?? [];
 for (const r of rows) console.log(r.map((cell, c) => cell.padStart(widths[c] ?? 0)).join('  '));
