@@ -123,37 +123,44 @@ function rotate4(v: Float64Array, count: number, n: number, k: number, steps: Fl
   let i2 = im[k + 2] as number;
   let r3 = re[k + 3] as number;
   let i3 = im[k + 3] as number;
-  for (let j = 0; j < count; j++) {
-    const vj = v[j] as number;
-    r0 += vj * c0;
-    i0 += vj * s0;
-    r1 += vj * c1;
-    i1 += vj * s1;
-    r2 += vj * c2;
-    i2 += vj * s2;
-    r3 += vj * c3;
-    i3 += vj * s3;
-    const t0 = c0 * cr0 - s0 * sr0;
-    s0 = c0 * sr0 + s0 * cr0;
-    c0 = t0;
-    const t1 = c1 * cr1 - s1 * sr1;
-    s1 = c1 * sr1 + s1 * cr1;
-    c1 = t1;
-    const t2 = c2 * cr2 - s2 * sr2;
-    s2 = c2 * sr2 + s2 * cr2;
-    c2 = t2;
-    const t3 = c3 * cr3 - s3 * sr3;
-    s3 = c3 * sr3 + s3 * cr3;
-    c3 = t3;
+  // The stores come first in a two-round loop, so they have run (and the
+  // compiler has seen them) before the long loop is compiled on the stack:
+  // otherwise each call left that code at the stores (seen with --trace-deopt).
+  // Round 0 stores the values just loaded, round 1 the sums.
+  for (let round = 0; ; round++) {
+    re[k] = r0;
+    im[k] = i0;
+    re[k + 1] = r1;
+    im[k + 1] = i1;
+    re[k + 2] = r2;
+    im[k + 2] = i2;
+    re[k + 3] = r3;
+    im[k + 3] = i3;
+    if (round === 1) break;
+    for (let j = 0; j < count; j++) {
+      const vj = v[j] as number;
+      r0 += vj * c0;
+      i0 += vj * s0;
+      r1 += vj * c1;
+      i1 += vj * s1;
+      r2 += vj * c2;
+      i2 += vj * s2;
+      r3 += vj * c3;
+      i3 += vj * s3;
+      const t0 = c0 * cr0 - s0 * sr0;
+      s0 = c0 * sr0 + s0 * cr0;
+      c0 = t0;
+      const t1 = c1 * cr1 - s1 * sr1;
+      s1 = c1 * sr1 + s1 * cr1;
+      c1 = t1;
+      const t2 = c2 * cr2 - s2 * sr2;
+      s2 = c2 * sr2 + s2 * cr2;
+      c2 = t2;
+      const t3 = c3 * cr3 - s3 * sr3;
+      s3 = c3 * sr3 + s3 * cr3;
+      c3 = t3;
+    }
   }
-  re[k] = r0;
-  im[k] = i0;
-  re[k + 1] = r1;
-  im[k + 1] = i1;
-  re[k + 2] = r2;
-  im[k + 2] = i2;
-  re[k + 3] = r3;
-  im[k + 3] = i3;
 }
 
 /** One frequency, `k`, over one windowed block starting at sample `n`. */
@@ -165,16 +172,20 @@ function rotate1(v: Float64Array, count: number, n: number, k: number, steps: Fl
   let s = Math.sin(step * n);
   let r = re[k] as number;
   let i = im[k] as number;
-  for (let j = 0; j < count; j++) {
-    const vj = v[j] as number;
-    r += vj * c;
-    i += vj * s;
-    const c2 = c * cr - s * sr;
-    s = c * sr + s * cr;
-    c = c2;
+  // Stores first, as in rotate4.
+  for (let round = 0; ; round++) {
+    re[k] = r;
+    im[k] = i;
+    if (round === 1) break;
+    for (let j = 0; j < count; j++) {
+      const vj = v[j] as number;
+      r += vj * c;
+      i += vj * s;
+      const c2 = c * cr - s * sr;
+      s = c * sr + s * cr;
+      c = c2;
+    }
   }
-  re[k] = r;
-  im[k] = i;
 }
 
 /**
