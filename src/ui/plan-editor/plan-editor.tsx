@@ -60,7 +60,7 @@ export function PlanEditor({ file, initial, savedText, save, onExit, width, heig
     <Box flexDirection="column" width={formWidth}>
       <FormList draft={state.draft} rows={state.rows} start={view.start} count={formRows} selected={state.selected} problems={problems} width={formWidth} />
       {state.editing ? (
-        <FieldEditor key={state.editing.key} row={row} initial={rowText(state.draft, row)} onChange={state.typed} onSubmit={state.commit} onCancel={state.cancelEdit} />
+        <FieldEditor key={state.editing.key} row={state.rows.find((r) => r.key === state.editing?.key) ?? row} initial={state.editing.text} onChange={state.typed} onSubmit={state.commit} onCancel={state.cancelEdit} />
       ) : (
         <Text wrap="truncate-end" {...toneProps(problem ? 'bad' : state.notice ? (state.notice.tone === 'good' ? 'good' : 'bad') : 'dim')}>
           {problem ? `✗ ${problem}` : state.notice ? `${state.notice.tone === 'good' ? '✓' : '✗'} ${state.notice.text}` : `${state.isDirty ? 'unsaved changes' : 'saved'} · ${state.rows.length} rows`}

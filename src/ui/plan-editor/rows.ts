@@ -64,7 +64,7 @@ function stageRows(stage: JsonObject, i: number, kinds: Readonly<Record<string, 
   const section = `stage ${i + 1}: ${id}`;
   const at = (...rest: (string | number)[]): PathKeys => ['stages', i, ...rest];
   const row = (r: Omit<Row, 'key' | 'section' | 'stageIndex'>): Row => ({ ...r, key: JSON.stringify(r.path) + (r.action ?? ''), section, stageIndex: i });
-  const rows: Row[] = [row({ label: `▸ ${id}`, path: at('id'), kind: 'text', help: module ? `${kind}: ${module.summary}` : `unknown kind ${JSON.stringify(kind)}: the kinds are ${Object.keys(kinds).join(', ')}` })];
+  const rows: Row[] = [row({ label: `▸ stage ${i + 1}`, path: at('id'), kind: 'text', help: module ? `${kind}: ${module.summary}` : `unknown kind ${JSON.stringify(kind)}: the kinds are ${Object.keys(kinds).join(', ')}` })];
   if (!module) return [...rows, row({ label: 'kind', path: at('kind'), kind: 'json', help: `the stage kind, one of ${Object.keys(kinds).join(', ')}` })];
   if (module.needsInput || stage['input'] !== undefined) {
     rows.push(row({ label: 'input', path: at('input'), kind: 'input', help: 'the upstream output this stage takes (←/→ or Enter to choose); signals flow down the chain' }));

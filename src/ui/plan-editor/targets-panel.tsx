@@ -39,6 +39,13 @@ export function TargetsPanel({ live, stage, rows, width }: TargetsPanelProps) {
       <Text wrap="truncate-end" {...toneProps('dim')}>
         {cell('check', check)}{cell('nominal', 12)}{cell('worst-case band', band)}{showStat ? cell('statistical band', band) : ''}
       </Text>
+      {shown.length === 0
+        ? live.problems.slice(0, tableRows).map((p) => (
+            <Text key={p.path} wrap="truncate-end" {...toneProps('bad')}>
+              ✗ {p.path || 'plan'}: {p.detail}
+            </Text>
+          ))
+        : null}
       {shown.slice(0, tableRows).map((t) => (
         <Text key={t.check} wrap="truncate-end" {...tone}>
           {cell(t.check, check - 1)} {cell(formatNominal(t), 11)} {cell(formatBand(t.worst, t.unit), band - 1)}{' '}
@@ -46,8 +53,10 @@ export function TargetsPanel({ live, stage, rows, width }: TargetsPanelProps) {
         </Text>
       ))}
       {shown.length > tableRows ? <Text {...toneProps('dim')}>… {shown.length - tableRows} more (select a stage to see its own)</Text> : null}
-      <Text wrap="truncate-end" {...toneProps(warnings.length > 0 ? 'warn' : 'good')}>
-        {warnings.length === 0 ? (live.set ? '✓ no design warnings' : '') : `⚠ ${warnings.length} warning${warnings.length === 1 ? '' : 's'}: ${warnings.map((w) => `${w.stage}: ${w.message}`).join(' · ')}`}
+      <Text wrap="truncate-end" {...toneProps(live.problems[0] ? 'bad' : warnings.length > 0 ? 'warn' : 'good')}>
+        {live.problems[0] && shown.length > 0
+          ? `✗ ${live.problems[0].path || 'plan'}: ${live.problems[0].detail}`
+          : warnings.length === 0 ? (live.set ? '✓ no design warnings' : '') : `⚠ ${warnings.length} warning${warnings.length === 1 ? '' : 's'}: ${warnings.map((w) => `${w.stage}: ${w.message}`).join(' · ')}`}
       </Text>
     </Box>
   );

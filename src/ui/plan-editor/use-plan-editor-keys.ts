@@ -8,7 +8,7 @@ import type { PlanEditorState } from './use-plan-editor-state.js';
  */
 export function usePlanEditorKeys(state: PlanEditorState, pageSize: number, isActive: boolean) {
   const onDialog = (input: string, key: Key) => {
-    const d = state.dialog;
+    const d = state.dialogNow();
     if (!d) return;
     if (input === '?') return state.toggleHelp();
     if (d.kind === 'help') {
@@ -42,5 +42,12 @@ export function usePlanEditorKeys(state: PlanEditorState, pageSize: number, isAc
     else if (input === '?') state.toggleHelp();
     else if (key.escape || input === 'q') state.requestLeave();
   };
-  useInput((input, key) => (state.dialog ? onDialog(input, key) : onForm(input, key)), { isActive: isActive && state.editing === null });
+  useInput(
+    (input, key) => {
+      if (state.isEditingNow()) return;
+      if (state.dialogNow()) onDialog(input, key);
+      else onForm(input, key);
+    },
+    { isActive: isActive && state.editing === null },
+  );
 }
