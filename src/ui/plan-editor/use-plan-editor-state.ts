@@ -29,7 +29,8 @@ export interface PlanEditorStateOptions {
 /** The plan editor's state: the draft, the selected row, the field being typed, the dialog and the last notice. */
 export function usePlanEditorState({ file, initial, savedText, save, onExit }: PlanEditorStateOptions) {
   const [draft, setDraftState] = useState<Draft>(initial);
-  const [saved, setSaved] = useState<string | null>(savedText);
+  // What is on disk, as this editor would write it: opening a file is not a change, whatever its layout.
+  const [saved, setSaved] = useState<string | null>(() => (savedText === null ? null : serialiseDraft(initial)));
   const [selected, setSelectedState] = useState(0);
   const [editing, setEditingState] = useState<{ readonly key: string; readonly text: string } | null>(null);
   const [dialog, setDialogState] = useState<Dialog | null>(null);
