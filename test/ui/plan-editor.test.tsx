@@ -62,9 +62,9 @@ describe('plan editor', () => {
     await s.waitFor('plan id');
     expect(s.frame()).toContain('bench-7');
     expect(s.frame()).toContain('● unsaved');
-    expect(s.frame()).toMatch(/plan id: the plan id/);
+    expect(s.frame()).toMatch(/plan id — the plan id/);
     await select(s, /nominal\s+12 V/);
-    expect(s.frame()).toContain('nominal: the rail voltage, signed');
+    expect(s.frame()).toContain('nominal — the rail voltage, signed');
     await select(s, /op-amp slew\s+0\.5 V\/us/);
     expect(s.frame()).toContain('slew rate of the op-amp');
     await select(s, /uncertainty V\s+0\.5% \+ 2 mV/);
@@ -255,6 +255,6 @@ describe('plan editor', () => {
     const wide = open({ width: 140, height: 30 });
     await wide.waitFor('statistical band done');
     expect(wide.frame()).toMatch(/plan id.*Targets/);
-    expect(wide.frame()).toContain('statistical band');
+    expect(wide.frame()).toMatch(/worst-case band\s+statistical band/);
   });
 });

@@ -11,7 +11,7 @@ import { AskBox } from './ask-box.js';
 import { editorHelp, editorKeys, editorNotes } from './editor-help.js';
 import { FieldEditor } from './field-line.js';
 import { FormList } from './form-list.js';
-import { rowForProblem, rowText } from './rows.js';
+import { rowForProblem } from './rows.js';
 import { StageCatalog } from './stage-catalog.js';
 import { TargetsPanel } from './targets-panel.js';
 import { useLiveTargets } from './use-live-targets.js';
@@ -39,7 +39,7 @@ export function PlanEditor({ file, initial, savedText, save, onExit, width, heig
   const state = usePlanEditorState({ file, initial, savedText, save, onExit });
   const live = useLiveTargets(state.preview, file, { trials, seed: defaultSeed });
   const isWide = width >= 120;
-  const formWidth = isWide ? Math.min(64, Math.floor(width / 2)) : width;
+  const formWidth = isWide ? Math.min(56, Math.floor(width * 0.45)) : width;
   const panelWidth = isWide ? width - formWidth - 2 : width;
   const detailRows = 3;
   const panelRows = isWide ? height - 2 : Math.max(4, Math.floor((height - 2 - detailRows) / 2.6));
@@ -68,7 +68,7 @@ export function PlanEditor({ file, initial, savedText, save, onExit, width, heig
       )}
       {state.editing ? null : <Text wrap="truncate-end">{state.notice && problem ? `${state.notice.tone === 'good' ? '✓' : '✗'} ${state.notice.text}` : ' '}</Text>}
       <Text wrap="truncate-end" {...toneProps('dim')}>
-        {row.label.replace(/^▸ /, '').trim()}: {row.help}
+        {row.label.replace(/^▸ /, '').trim()} — {row.help}
       </Text>
     </Box>
   );

@@ -23,7 +23,10 @@ export function refineOffThread(text: string, file: string, trials: number, seed
   if (existsSync(fileURLToPath(js))) worker = new Worker(js, { workerData: { text, file, trials, seed } });
   else if (existsSync(fileURLToPath(ts))) {
     // Under tsx (development, tests) the worker registers tsx itself: Node 20 does not pass `--import` hooks on.
-    const code = `import('tsx/esm/api').then((api) => { api.register(); return import(${JSON.stringify(ts.href)}); }).catch((e) => { require('node:worker_threads').parentPort.postMessage({ type: 'error', message: String((e && e.message) || e) }); });`;
+    // tsx is found from here, not from the working folder (the editor may run anywhere).
+    const local = new URL('../../../node_modules/tsx/dist/esm/api/index.mjs', import.meta.url);
+    const api = existsSync(fileURLToPath(local)) ? local.href : 'tsx/esm/api';
+    const code = `import(${JSON.stringify(api)}).then((api) => { api.register(); return import(${JSON.stringify(ts.href)}); }).catch((e) => { require('node:worker_threads').parentPort.postMessage({ type: 'error', message: String((e && e.message) || e) }); });`;
     worker = new Worker(code, { eval: true, workerData: { text, file, trials, seed } });
   } else return null;
   let settle: ((action: () => void) => void) | undefined;

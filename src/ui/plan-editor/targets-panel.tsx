@@ -26,8 +26,8 @@ export function TargetsPanel({ live, stage, rows, width }: TargetsPanelProps) {
   const mine = stage === undefined ? all : all.filter((t) => t.stage === stage);
   const shown: readonly Target[] = mine.length > 0 ? mine : all;
   const warnings = live.set?.warnings ?? [];
-  const showStat = width >= 96;
-  const band = 24;
+  const showStat = width >= 70;
+  const band = width >= 96 ? 24 : 22;
   const check = Math.max(12, width - 12 - band - (showStat ? band : 0) - 2);
   const tone = live.isStale || live.status === 'problems' ? toneProps('dim') : {};
   const tableRows = Math.max(1, rows - 3 - (shown.length > rows - 3 ? 1 : 0));
