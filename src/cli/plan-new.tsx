@@ -42,12 +42,13 @@ const leaveAltScreen = '\u001B[?1049l';
 
 /** `probebook plan new FILE` (DESIGN §7b): the plan editor screen on a new or existing plan. */
 export const planNewCommand: Command = async (argv, io) => {
-  const args = parseArgs(argv, { options: { help: 'boolean' }, positionals: [1, 1], usage });
+  const args = parseArgs(argv, { options: { help: 'boolean' }, positionals: [0, 1], usage });
   if (args.options.help) {
     io.stdout(`usage: ${usage}\n  the plan editor: a form for the board, its rails and stages with the targets beside it,\n  updated as you type; it saves only a plan that loads (the old file kept as FILE.bak).\n  FILE may be new. ? shows the keys on the screen.\n`);
     return 0;
   }
-  const file = args.positionals[0] as string;
+  const file = args.positionals[0];
+  if (file === undefined) throw new UsageError(`missing argument FILE; usage: ${usage}`);
   const path = resolve(io.cwd, file);
   const { draft, savedText } = await openDraft(path, file);
   if (!process.stdin.isTTY || !process.stdout.isTTY) {

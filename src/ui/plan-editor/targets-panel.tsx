@@ -30,7 +30,10 @@ export function TargetsPanel({ live, stage, rows, width }: TargetsPanelProps) {
   const band = width >= 96 ? 24 : 22;
   const check = Math.max(12, width - 12 - band - (showStat ? band : 0) - 2);
   const tone = live.isStale || live.status === 'problems' ? toneProps('dim') : {};
-  const tableRows = Math.max(1, rows - 3 - (shown.length > rows - 3 ? 1 : 0));
+  // Title, column heads and the warnings line take three rows; a "more" line one when the rest does not fit.
+  const room = Math.max(1, rows - 3);
+  const hasMore = shown.length > room && room >= 2;
+  const tableRows = hasMore ? room - 1 : room;
   return (
     <Box flexDirection="column" width={width}>
       <Text bold wrap="truncate-end">
@@ -52,7 +55,7 @@ export function TargetsPanel({ live, stage, rows, width }: TargetsPanelProps) {
           {showStat ? cell(live.status === 'done' ? formatBand(t.stat, t.unit) : 'refining…', band - 1) : ''}
         </Text>
       ))}
-      {shown.length > tableRows ? <Text {...toneProps('dim')}>… {shown.length - tableRows} more (select a stage to see its own)</Text> : null}
+      {hasMore ? <Text {...toneProps('dim')}>… {shown.length - tableRows} more (select a stage to see its own)</Text> : null}
       <Text wrap="truncate-end" {...toneProps(live.problems[0] ? 'bad' : warnings.length > 0 ? 'warn' : 'good')}>
         {live.problems[0] && shown.length > 0
           ? `✗ ${live.problems[0].path || 'plan'}: ${live.problems[0].detail}`

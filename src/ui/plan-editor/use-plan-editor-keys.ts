@@ -1,4 +1,5 @@
 import { type Key, useInput } from 'ink';
+import { splitKeys } from '../components/key-chunks.js';
 import type { PlanEditorState } from './use-plan-editor-state.js';
 
 /**
@@ -43,10 +44,13 @@ export function usePlanEditorKeys(state: PlanEditorState, pageSize: number, isAc
     else if (key.escape || input === 'q') state.requestLeave();
   };
   useInput(
-    (input, key) => {
-      if (state.isEditingNow()) return;
-      if (state.dialogNow()) onDialog(input, key);
-      else onForm(input, key);
+    (chunk, key) => {
+      // Keys typed faster than a frame arrive as one chunk ("kkk"): one at a time.
+      for (const input of splitKeys(chunk, key)) {
+        if (state.isEditingNow()) return;
+        if (state.dialogNow()) onDialog(input, key);
+        else onForm(input, key);
+      }
     },
     { isActive: isActive && state.editing === null },
   );
