@@ -171,7 +171,7 @@ describe('plan editor', () => {
     await s.waitFor('editor-fixture');
     await select(s, /refs C/);
     await s.press(keys.enter);
-    await s.waitFor(/^refs C: /m);
+    await s.waitFor(/^refs C:.*\n✓ empty/m);
     await s.press('C7');
     await s.press(keys.enter);
     await s.waitFor(/refs C\s+C7/);
