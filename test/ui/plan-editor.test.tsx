@@ -22,6 +22,8 @@ const twoStage = {
 const twoStageText = `${JSON.stringify(twoStage, null, 2)}\n`;
 
 let view: ReturnType<typeof driveScreen> | undefined;
+/** A just-opened field subscribes to the keyboard right after its first frame. */
+const settle = () => new Promise((r) => setTimeout(r, 80));
 afterEach(() => view?.unmount());
 
 function open(options: { initial?: Draft; savedText?: string | null; width?: number; height?: number } = {}) {
@@ -114,6 +116,7 @@ describe('plan editor', () => {
     await select(s, /^›.\s*R\s+1k 1%/);
     await s.press(keys.enter);
     await s.waitFor(/^R: 1k 1%/m);
+    await settle();
     for (let i = 0; i < 6; i++) await s.press(keys.backspace);
     await s.press('4k7 x');
     const bad = parseValue('4k7 x', { expected: 'Ω' });
@@ -132,6 +135,7 @@ describe('plan editor', () => {
     await select(s, /^›.\s*R\s+1k 1%/);
     await s.press(keys.enter);
     await s.waitFor(/^R: 1k 1%/m);
+    await settle();
     await s.press(keys.backspace);
     await s.press(keys.backspace);
     await s.press(keys.backspace);
@@ -154,6 +158,7 @@ describe('plan editor', () => {
     await select(s, /^›.\s*C\s+10n 5%/);
     await s.press(keys.enter);
     await s.waitFor(/^C: 10n 5%/m);
+    await settle();
     for (let i = 0; i < 6; i++) await s.press(keys.backspace);
     await s.press('10 x');
     await s.press(keys.enter);
@@ -172,6 +177,7 @@ describe('plan editor', () => {
     await select(s, /refs C/);
     await s.press(keys.enter);
     await s.waitFor(/^refs C:.*\n✓ empty/m);
+    await settle();
     await s.press('C7');
     await s.press(keys.enter);
     await s.waitFor(/refs C\s+C7/);
@@ -193,6 +199,7 @@ describe('plan editor', () => {
     await select(s, /^›.\s*R\s+1k/);
     await s.press(keys.enter);
     await s.waitFor(/^R: 1k 1%/m);
+    await settle();
     for (let i = 0; i < 5; i++) await s.press(keys.backspace);
     await s.press('1k2 1%');
     await s.press(keys.enter);
