@@ -1,4 +1,4 @@
-import type { Chain, ChainDetail } from '../plan/chain.js';
+import { type Chain, type ChainDetail, spreadOf } from '../plan/chain.js';
 import type { DesignWarning } from './types.js';
 
 /**
@@ -23,13 +23,14 @@ export function cornerWarnings(chain: Chain, perSigma: readonly Float64Array[], 
       let moved = false;
       chain.variables.forEach((v, i) => {
         const d = perSigma[i]?.[c] ?? 0;
-        let sign = d === 0 || v.tol === 0 ? 0 : Math.sign(d) * direction;
+        let sign = d === 0 || spreadOf(v) === 0 ? 0 : Math.sign(d) * direction;
         if (v.stage === 'rails' && rails !== 'follow') sign = rails === 'low' ? -1 : 1;
-        x[i] = v.nominal * (1 + sign * v.tol);
+        x[i] = v.nominal + sign * spreadOf(v);
         if (sign !== 0) moved = true;
       });
       if (!moved) continue;
-      const detail = chain.detail(x);
+      // A stage's warnings depend only on it and the stages upstream of it.
+      const detail = chain.detail(x, chain.stageIndex(check.stage) + 1);
       const fresh = detail.warnings.find((w) => w.stage === check.stage && !seenAtNominal.has(`${w.stage}\u0000${w.message}`));
       if (fresh) {
         found.set(check.stage, {

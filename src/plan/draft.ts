@@ -220,7 +220,7 @@ export function inputChoices(draft: Draft, index: number, kinds: Readonly<Record
 }
 
 // Key order of a saved plan: the contract keys in DESIGN §3's order, then anything else as it was.
-const topOrder = ['$schema', 'plan', 'title', 'note', 'rails', 'idleCurrent', 'railShortMin', 'opamp', 'uncertainty', 'checkUncertainty', 'stages'];
+const topOrder = ['$schema', 'plan', 'title', 'note', 'rails', 'idleCurrent', 'railShortMin', 'opamp', 'temperature', 'uncertainty', 'checkUncertainty', 'decimalComma', 'stages'];
 const railOrder = ['id', 'nominal', 'tol', 'testPoint'];
 const stageFirst = ['id', 'kind', 'input'];
 const stageLast = ['testPoints', 'refs'];

@@ -1,9 +1,11 @@
 import { createHash } from 'node:crypto';
-import { readFile } from 'node:fs/promises';
+import { constants } from 'node:fs';
+import { type FileHandle, open } from 'node:fs/promises';
 import { resolve } from 'node:path';
 import { defaultOpamp } from '../circuit/opamp.js';
 import { stageKinds } from '../circuit/registry.js';
 import type { StageKind } from '../circuit/types.js';
+import { oneLine } from '../units/text.js';
 import type { UncertaintySpec } from '../units/uncertainty.js';
 import type { Unit } from '../units/unit.js';
 import { planChecks } from './checks.js';
@@ -12,7 +14,8 @@ import { findJsonFault } from './json-position.js';
 import { type RawPlan, jsonPath, planSchema } from './schema.js';
 import { resolveStages } from './stages.js';
 import type { Plan, Rail } from './types.js';
-import { readOpamp, readTolerance, readUncertainty, readValue } from './values.js';
+import { readTolerance, readUncertainty, readValue } from './values.js';
+import { defaultVos, readOpampSpec, readTemperatureRange } from './active-spread.js';
 
 /**
  * Below this rail-to-ground resistance, read unpowered, a rail counts as shorted
@@ -20,6 +23,19 @@ import { readOpamp, readTolerance, readUncertainty, readValue } from './values.j
  * proven otherwise; 100 Ω leaves room for the bulk capacitors charging the meter).
  */
 export const defaultRailShortMin = 100;
+
+/**
+ * Plan size limits: far above any real board (the demo plans have 5 stages and
+ * 4 branches), low enough that loading and `targets` stay fast. Every step of
+ * loading and chain building is linear in the stages; only the one-part-at-a-time
+ * worst-case search grows with stages × parts, which 200 stages keeps in seconds.
+ */
+export const maxPlanBytes = 1_000_000;
+export const maxStages = 200;
+/** The longest list inside a stage (a shaper's `branches`, a manual stage's `checks`). */
+export const maxStageList = 64;
+/** The deepest nesting of objects and lists in a plan file. */
+export const maxPlanDepth = 64;
 
 /** Units of the plan's `uncertainty` map by key. */
 const uncertaintyUnits: Readonly<Record<string, Unit>> = { V: 'V', A: 'A', Hz: 'Hz', ohm: 'Ω', s: 's', F: 'F', 'V/V': 'V/V', '1': '1' };
@@ -30,13 +46,24 @@ const uncertaintyUnits: Readonly<Record<string, Unit>> = { V: 'V', A: 'A', Hz: '
  */
 export async function loadPlanFile(file: string, options: { readonly cwd?: string } = {}): Promise<Plan> {
   let text: string;
+  let handle: FileHandle | undefined;
   try {
-    text = await readFile(options.cwd === undefined ? file : resolve(options.cwd, file), 'utf8');
+    // Opened without blocking: a FIFO or a device would otherwise hang the open (or the read) forever.
+    handle = await open(options.cwd === undefined ? file : resolve(options.cwd, file), constants.O_RDONLY | constants.O_NONBLOCK);
+    const info = await handle.stat();
+    if (info.isDirectory()) throw new PlanError(file, '', 'is a folder; give the path of a *.plan.json file');
+    if (!info.isFile()) throw new PlanError(file, '', 'is not a regular file (a pipe, a device or a socket); give the path of a *.plan.json file');
+    if (info.size > maxPlanBytes) throw new PlanError(file, '', `is ${(info.size / 1e6).toFixed(1)} MB; a plan is at most ${maxPlanBytes / 1e6} MB (${maxStages} stages), so this is not one`);
+    text = await handle.readFile('utf8');
   } catch (error) {
+    if (error instanceof PlanError) throw error;
     const code = (error as NodeJS.ErrnoException).code;
     if (code === 'ENOENT') throw new PlanError(file, '', 'no such file; give the path of a *.plan.json file');
     if (code === 'EISDIR') throw new PlanError(file, '', 'is a folder; give the path of a *.plan.json file');
+    if (code === 'EACCES' || code === 'EPERM') throw new PlanError(file, '', 'cannot be read: permission denied; check the file\'s permissions');
     throw new PlanError(file, '', `cannot be read (${code ?? (error as Error).message})`);
+  } finally {
+    await handle?.close();
   }
   return loadPlanText(text, file);
 }
@@ -78,7 +105,9 @@ function readPlan(text: string, file: string, kinds: Readonly<Record<string, Sta
       return undefined;
     }
   };
+  if (text.length > maxPlanBytes) throw new PlanError(file, '', `is ${(text.length / 1e6).toFixed(1)} MB; a plan is at most ${maxPlanBytes / 1e6} MB`);
   const json = parseJson(text, file);
+  checkSize(json, file);
   const result = planSchema.safeParse(json);
   if (!result.success) {
     const issues = result.error.issues;
@@ -94,9 +123,12 @@ function readPlan(text: string, file: string, kinds: Readonly<Record<string, Sta
   const raw = result.data;
 
   const rails = problems ? raw.rails.flatMap((r, i) => attempt(() => readRails({ ...raw, rails: raw.rails.slice(0, i + 1) }, file).slice(i)) ?? []) : readRails(raw, file);
-  const opampBase = attempt(() => readOpamp(raw.opamp, defaultOpamp, file, 'opamp')) ?? defaultOpamp;
+  const fallbackSpec = { model: defaultOpamp, spread: { vos: defaultVos } };
+  const opampSpec = attempt(() => readOpampSpec(raw.opamp, fallbackSpec, file, 'opamp')) ?? fallbackSpec;
+  const opampBase = opampSpec.model;
+  const temperature = attempt(() => readTemperatureRange(raw.temperature, file));
   // A rail with a mistake is still a rail of the plan for the stages' `from` (not a second mistake).
-  const stages = resolveStages(raw.stages, kinds, opampBase, file, problems ? raw.rails.map((r) => r.id) : rails.map((r) => r.id), problems);
+  const stages = resolveStages(raw.stages, kinds, opampSpec, file, problems ? raw.rails.map((r) => r.id) : rails.map((r) => r.id), problems);
 
   const uncertainty: Partial<Record<Unit, UncertaintySpec>> = {};
   for (const [key, spec] of Object.entries(raw.uncertainty ?? {})) {
@@ -133,18 +165,22 @@ function readPlan(text: string, file: string, kinds: Readonly<Record<string, Sta
 
   const base = {
     plan: raw.plan,
-    title: raw.title,
+    // A title reaches every screen and report: one clean line.
+    title: oneLine(raw.title),
     file,
     hash: createHash('sha256').update(text, 'utf8').digest('hex'),
     text,
     rails,
     railShortMin,
     opamp: opampBase,
+    opampSpread: opampSpec.spread,
+    ...(temperature ? { temperature } : {}),
     uncertainty,
     checkUncertainty,
     stages,
   };
-  const withNote = raw.note === undefined ? base : { ...base, note: raw.note };
+  const withComma = raw.decimalComma === true ? { ...base, decimalComma: true } : base;
+  const withNote = raw.note === undefined ? withComma : { ...withComma, note: raw.note };
   let idle: number | undefined;
   if (raw.idleCurrent !== undefined) {
     const max = raw.idleCurrent.max;
@@ -158,9 +194,47 @@ function readPlan(text: string, file: string, kinds: Readonly<Record<string, Sta
   return idle === undefined ? withNote : { ...withNote, idleCurrentMax: idle };
 }
 
+/** Refuse plans beyond the size limits before any stage is read, naming the place. */
+function checkSize(json: unknown, file: string): void {
+  if (json === null || typeof json !== 'object') return;
+  const stages = (json as { stages?: unknown }).stages;
+  if (!Array.isArray(stages)) return;
+  if (stages.length > maxStages) throw new PlanError(file, 'stages', `${stages.length} stages; a plan holds at most ${maxStages} (split the board into several plans)`);
+  stages.forEach((stage: unknown, i) => {
+    if (stage === null || typeof stage !== 'object') return;
+    for (const [key, value] of Object.entries(stage)) {
+      if (Array.isArray(value) && value.length > maxStageList) {
+        throw new PlanError(file, `stages[${i}].${key}`, `${value.length} entries; a stage holds at most ${maxStageList} (e.g. 64 branches per shaper)`);
+      }
+    }
+  });
+}
+
+/** The deepest nesting of `{`/`[` outside strings, in one pass, stopping once past `limit`. */
+export function nestingDepth(text: string, limit: number): number {
+  let depth = 0;
+  let deepest = 0;
+  let inString = false;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (inString) {
+      if (c === 0x5c) i++; // backslash: skip the escaped character
+      else if (c === 0x22) inString = false;
+    } else if (c === 0x22) inString = true;
+    else if (c === 0x7b || c === 0x5b) {
+      depth++;
+      if (depth > deepest) deepest = depth;
+      if (deepest > limit) return deepest;
+    } else if (c === 0x7d || c === 0x5d) depth--;
+  }
+  return deepest;
+}
+
 function parseJson(text: string, file: string): unknown {
   // Editors on some systems write a byte-order mark; it is not part of the JSON.
   const body = text.charCodeAt(0) === 0xfeff ? ` ${text.slice(1)}` : text;
+  // Checked before parsing: the fault finder below recurses once per level.
+  if (nestingDepth(body, maxPlanDepth) > maxPlanDepth) throw new PlanError(file, '', `is nested more than ${maxPlanDepth} levels deep; a plan is a few levels of objects and lists`);
   try {
     return JSON.parse(body);
   } catch {
@@ -192,8 +266,9 @@ const topKeys = Object.keys(planSchema.shape).filter((k) => k !== '$schema');
 const nestedKeys: Readonly<Record<string, readonly string[]>> = {
   'rails[0]': ['id', 'nominal', 'tol', 'testPoint'],
   idleCurrent: ['max'],
-  opamp: ['gbw', 'slew', 'headroom', 'maxSupply', 'aol'],
-  'stages[0].opamp': ['gbw', 'slew', 'headroom', 'maxSupply', 'aol'],
+  opamp: ['gbw', 'slew', 'headroom', 'maxSupply', 'aol', 'vos', 'ib'],
+  'stages[0].opamp': ['gbw', 'slew', 'headroom', 'maxSupply', 'aol', 'vos', 'ib'],
+  temperature: ['min', 'max'],
   uncertainty: ['V', 'A', 'Hz', 'ohm', 's', 'F', 'V/V', '1'],
 };
 

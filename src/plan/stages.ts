@@ -1,12 +1,20 @@
 import type { OpampModel, PartValue, StageKind } from '../circuit/types.js';
 import { PlanError } from './errors.js';
 import { StageParseError } from '../circuit/errors.js';
-import { readOpamp, checkTolerance } from './values.js';
+import { checkTolerance, readValue } from './values.js';
+import { type OpampSpec, readOpampSpec } from './active-spread.js';
 import type { InputRef, PlanStage } from './types.js';
 import type { z } from 'zod';
 import type { stageSchema } from './schema.js';
 
 type RawStageJson = z.infer<typeof stageSchema>;
+
+/**
+ * An external load the plan hangs on an output (`"loads": {"out": "600 ohm"}`)
+ * becomes a toleranced part of its stage, role `loads.<output>`: it varies with
+ * the rest and the chain adds it to that output's load.
+ */
+export const externalLoadPrefix = 'loads.';
 
 function quoteList(items: readonly string[]): string {
   return items.map((s) => JSON.stringify(s)).join(', ');
@@ -27,11 +35,13 @@ function rolePath(stagePath: string, json: Readonly<Record<string, unknown>>, ro
 export function resolveStages(
   raws: readonly RawStageJson[],
   kinds: Readonly<Record<string, StageKind<unknown>>>,
-  planOpamp: OpampModel,
+  planOpamp: OpampModel | OpampSpec,
   file: string,
   railIds: readonly string[] = [],
   problems?: PlanError[],
 ): PlanStage[] {
+  // A bare model (callers from before spreads) is an exact op-amp.
+  const planSpec: OpampSpec = 'model' in planOpamp ? planOpamp : { model: planOpamp, spread: {} };
   // With `problems`, a stage with a mistake is noted there and left out, and the others are
   // still checked (`plan check`: every problem at once); without it the first mistake throws.
   const attempt = <T>(work: () => T): T | undefined => {
@@ -105,6 +115,16 @@ export function resolveStages(
       if (!Number.isFinite(part.nominal)) throw new PlanError(file, where, `${JSON.stringify(part.text)} is not a finite value`);
       parts[role] = part;
     }
+    for (const [output, text] of Object.entries(raw.loads ?? {})) {
+      const where = `${path}.loads.${output}`;
+      if (!module.outputs.includes(output)) {
+        throw new PlanError(file, where, `${JSON.stringify(output)} is not an output of a ${raw.kind} stage; its outputs are ${quoteList(module.outputs)}`);
+      }
+      const v = readValue(text, 'Ω', file, where);
+      if (!(v.value > 0)) throw new PlanError(file, where, `${JSON.stringify(text)} must be above zero; write the load's resistance, e.g. "600 ohm 5%"`);
+      parts[`${externalLoadPrefix}${output}`] = { nominal: v.value, tol: v.tol, unit: 'Ω', text: v.text };
+    }
+    const opampSpec = readOpampSpec(raw.opamp, planSpec, file, `${path}.opamp`);
     const testPoints: Record<string, string> = { ...(raw.testPoints ?? {}) };
     const checkKeys = module.checks(parsed.settings).map((c) => c.key);
     for (const key of Object.keys(testPoints)) {
@@ -125,7 +145,9 @@ export function resolveStages(
       parts,
       settings: parsed.settings,
       testPoints,
-      opamp: readOpamp(raw.opamp, planOpamp, file, `${path}.opamp`),
+      opamp: opampSpec.model,
+      opampSpread: opampSpec.spread,
+      ...(raw.opamp ? { hasOwnOpamp: true } : {}),
       path,
     };
     return raw.input === undefined ? base : { ...base, inputText: raw.input };
@@ -157,22 +179,27 @@ function chainOrder(stages: readonly PlanStage[], file: string): PlanStage[] {
   const byId = new Map(stages.map((s) => [s.id, s] as const));
   const state = new Map<string, 'visiting' | 'done'>();
   const out: PlanStage[] = [];
-  const visit = (s: PlanStage, trail: readonly string[]): void => {
-    const st = state.get(s.id);
-    if (st === 'done') return;
-    if (st === 'visiting') {
-      const loop = [...trail.slice(trail.indexOf(s.id)), s.id];
-      throw new PlanError(file, `${s.path}.input`, `the inputs form a loop (${loop.join(' → ')}); a signal chain must start at a stage without an input`);
+  // Walks each stage's inputs upstream without recursion (a long chain must not
+  // overflow the stack) and with one shared trail (copying it per step was quadratic).
+  for (const start of stages) {
+    const trail: PlanStage[] = [];
+    let s: PlanStage | undefined = start;
+    while (s && state.get(s.id) !== 'done') {
+      if (state.get(s.id) === 'visiting') {
+        const ids = trail.map((t) => t.id);
+        const loop = [...ids.slice(ids.indexOf(s.id)), s.id];
+        throw new PlanError(file, `${s.path}.input`, `the inputs form a loop (${loop.join(' → ')}); a signal chain must start at a stage without an input`);
+      }
+      state.set(s.id, 'visiting');
+      trail.push(s);
+      s = s.input ? byId.get(s.input.stage) : undefined;
     }
-    state.set(s.id, 'visiting');
-    if (s.input) {
-      const up = byId.get(s.input.stage);
-      if (up) visit(up, [...trail, s.id]);
+    for (let i = trail.length - 1; i >= 0; i--) {
+      const done = trail[i] as PlanStage;
+      state.set(done.id, 'done');
+      out.push(done);
     }
-    state.set(s.id, 'done');
-    out.push(s);
-  };
-  for (const s of stages) visit(s, []);
+  }
   return out;
 }
 

@@ -121,7 +121,8 @@ describe('resume and new runs', () => {
     });
     await app.waitFor('FX-0042');
     await app.press(keys.enter);
-    await app.waitFor('2/14 read');
+    // 15 checks: the fixture's amplifier gained its DC level check (amp.out.dc).
+    await app.waitFor('2/15 read');
     await app.press(keys.enter); // the cautions again, as the board may have been off the bench
     await app.waitFor('rails.idle-current');
     const board = await app.log.readBoard('FX-0042');
@@ -212,10 +213,8 @@ describe('quitting', () => {
     expect(app.frame()).not.toContain('Quit probebook?');
     expect(app.quitCount()).toBe(0);
     await app.press(keys.escape);
-    // Back on the input line, the app has the `q` again (poll: the hand-back takes a frame or two).
+    // Back on the input line, the app has the `q` again: the screen hands it back in the same key event.
     await app.waitFor('type a reading');
-    // The hand-back runs in an effect after that frame; give a loaded machine a moment.
-    await new Promise((r) => setTimeout(r, 300));
     await app.press('q');
     await app.waitFor(() => (app?.quitCount() ?? 0) > 0);
     expect(app.quitCount()).toBe(1);
