@@ -96,7 +96,7 @@ describe('plan editor', () => {
   });
 
   test('every part of a stage has a row: input, each role, its ref, each output\'s test point, other keys as JSON', async () => {
-    const s = open({ height: 60 });
+    const s = open({ height: 80 });
     await s.waitFor('▸ stage 2');
     const f = s.frame();
     expect(f).toMatch(/input\s+gen\.out/);

@@ -36,10 +36,14 @@ const board: readonly Omit<Row, 'key' | 'section'>[] = [
 
 const limits: readonly Omit<Row, 'key' | 'section'>[] = [
   { label: 'idle current max', path: ['idleCurrent', 'max'], kind: 'value', unit: 'A', isOptional: true, help: 'first power goes through a current-limited supply set near this; above it the run says "power off"' },
-  { label: 'op-amp GBW', path: ['opamp', 'gbw'], kind: 'value', unit: 'Hz', isOptional: true, help: 'gain-bandwidth product of the op-amp (data sheet, typical), e.g. "1 MHz"' },
+  { label: 'op-amp GBW', path: ['opamp', 'gbw'], kind: 'value', unit: 'Hz', isOptional: true, help: 'gain-bandwidth product of the op-amp (data sheet, typical), e.g. "1 MHz" or "1 MHz 30%"' },
   { label: 'op-amp slew', path: ['opamp', 'slew'], kind: 'value', unit: 'V/s', isOptional: true, help: 'slew rate of the op-amp, e.g. "0.5 V/us": sets full-power bandwidth and square edges' },
   { label: 'op-amp headroom', path: ['opamp', 'headroom'], kind: 'value', unit: 'V', isOptional: true, help: 'how far the output stays from each rail, e.g. "1.5 V" (rail-to-rail parts: "0.1 V")' },
   { label: 'op-amp max supply', path: ['opamp', 'maxSupply'], kind: 'value', unit: 'V', isOptional: true, help: 'highest supply per rail the op-amp takes, e.g. "15 V"; a rail above it is a design warning' },
+  { label: 'op-amp offset', path: ['opamp', 'vos'], kind: 'value', unit: 'V', isOptional: true, help: 'input offset voltage, the data sheet\'s ± maximum, e.g. "2 mV" (±5 mV when empty): moves every DC level' },
+  { label: 'op-amp bias current', path: ['opamp', 'ib'], kind: 'value', unit: 'A', isOptional: true, help: 'input bias current, e.g. "80 nA 50%": flows through the resistors at the inputs' },
+  { label: 'ambient min', path: ['temperature', 'min'], kind: 'text', isOptional: true, help: 'lowest ambient the board works in, e.g. "15 °C" (with max): diode drops follow it' },
+  { label: 'ambient max', path: ['temperature', 'max'], kind: 'text', isOptional: true, help: 'highest ambient the board works in, e.g. "40 °C" (with min)' },
   { label: 'uncertainty V', path: ['uncertainty', 'V'], kind: 'text', isOptional: true, help: 'the voltmeter\'s uncertainty, relative + absolute, e.g. "0.5% + 2 mV": the guard band of every volt reading' },
   { label: 'uncertainty A', path: ['uncertainty', 'A'], kind: 'text', isOptional: true, help: 'the ammeter\'s uncertainty, e.g. "1% + 0.1 mA" (the idle current reading)' },
   { label: 'uncertainty Hz', path: ['uncertainty', 'Hz'], kind: 'text', isOptional: true, help: 'the counter\'s uncertainty, e.g. "0.01%"' },
