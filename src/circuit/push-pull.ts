@@ -1,7 +1,8 @@
 import { StageParseError } from './errors.js';
 import { formatValue } from '../units/format.js';
 import { choiceAt, nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
-import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind, StageWarning } from './types.js';
+import { faultedParts, isFault, resistorFaults } from './faults.js';
+import type { CheckSpec, EvalInput, EvalOutput, PartFaults, PartValue, StageKind, StageWarning } from './types.js';
 
 /**
  * A complementary emitter follower (NPN on top, PNP below, emitters joined at the
@@ -40,10 +41,21 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   if (!source) throw new Error('push-pull: no input waveform; the plan must name an "input"');
   const vbe = input.parts['vbe'] ?? defaultVbe;
   const hfe = input.parts['hfe'] ?? defaultHfe;
-  const load = input.settings.hasLoad ? (input.parts['Rload'] ?? Number.NaN) : Number.POSITIVE_INFINITY;
+  const load = input.settings.hasLoad ? (faultedParts(input, ['Rload'])['Rload'] ?? Number.NaN) : Number.POSITIVE_INFINITY;
   const crossover = input.settings.bias === 'none';
   // The part of Vbe the bias diode does not cancel (0 when it drops as much or more).
   const dead = crossover ? vbe : Math.max(0, vbe - (input.parts['vd'] ?? vbe));
+  const f = input.fault;
+  // A shorted bias diode leaves its transistor's whole Vbe uncancelled: a dead band on that half only.
+  const deadUp = isFault(f, 'bias[0]', 'short') ? vbe : dead;
+  const deadDown = isFault(f, 'bias[1]', 'short') ? vbe : dead;
+  // A missing (or open) bias diode leaves its base on the bias resistor alone, pulled to its rail:
+  // that transistor turns hard on and the output sits a Vbe from the rail (and runs hot).
+  const stuckHigh = isFault(f, 'bias[0]', 'missing') || isFault(f, 'bias[0]', 'open');
+  const stuckLow = isFault(f, 'bias[1]', 'missing') || isFault(f, 'bias[1]', 'open');
+  // An open output transistor: its half of the wave is missing.
+  const noUpper = isFault(f, 'Q[0]', 'open');
+  const noLower = isFault(f, 'Q[1]', 'open');
   const high = input.supplies.pos - vbe;
   const low = input.supplies.neg + vbe;
   const samples = source.samples;
@@ -54,7 +66,10 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   let clipped = false;
   for (let i = 0; i < n; i++) {
     const x = samples[i] as number;
-    let y = x > dead ? x - dead : x < -dead ? x + dead : 0;
+    let y = x > deadUp ? x - deadUp : x < -deadDown ? x + deadDown : 0;
+    if ((noUpper && y > 0) || (noLower && y < 0)) y = 0;
+    if (stuckHigh) y = high;
+    else if (stuckLow) y = low;
     if (y > high || y < low) {
       clipped = true;
       y = Math.min(high, Math.max(low, y));
@@ -79,7 +94,7 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
     heatBottom /= load;
   }
   const ipeak = Math.max(Math.abs(hi), Math.abs(lo)) / load;
-  const values: Record<string, number> = { 'out.vpp': hi - lo, deadband: 2 * dead };
+  const values: Record<string, number> = { 'out.vpp': hi - lo, deadband: stuckHigh || stuckLow ? Number.NaN : deadUp + deadDown };
   if (input.settings.hasLoad) {
     values['out.ipeak'] = ipeak;
     values['base.ipeak'] = ipeak / hfe;
@@ -97,6 +112,18 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
     warnings.push({ message: `each output transistor dissipates about ${formatValue(watts, 'W')}: too hot for a small package without a heatsink; do not touch the transistors while the signal runs` });
   }
   return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings };
+}
+
+function faults(settings: PushPullSettings): readonly PartFaults[] {
+  const list: PartFaults[] = [
+    { role: 'Q[0]', modes: ['open'], description: 'upper (NPN) output transistor' },
+    { role: 'Q[1]', modes: ['open'], description: 'lower (PNP) output transistor' },
+  ];
+  if (settings.hasLoad) list.push(...resistorFaults(['Rload'], { Rload: 'load resistor' }));
+  if (settings.bias === 'diodes') {
+    list.push({ role: 'bias[0]', modes: ['missing', 'short'], description: 'upper bias diode' }, { role: 'bias[1]', modes: ['missing', 'short'], description: 'lower bias diode' });
+  }
+  return list;
 }
 
 function checks(settings: PushPullSettings): readonly CheckSpec[] {
@@ -146,6 +173,7 @@ export const pushPullKind: StageKind<PushPullSettings> = {
   },
   checks,
   evaluate,
+  faults,
   faultHints: {
     'out.vpp': [
       'the drive level is off: check the upstream stage first',

@@ -1,6 +1,8 @@
 import { singlePole } from './single-pole.js';
 import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import { extremes } from './waveform.js';
+import { faultedParts, isFault, resistorFaults } from './faults.js';
+import { dc } from './waveform.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
 
 /** A passive RC low-pass has no settings beyond its parts. */
@@ -9,8 +11,11 @@ export type RcLowpassSettings = Readonly<Record<string, never>>;
 function evaluate(input: EvalInput<RcLowpassSettings>): EvalOutput {
   const source = input.input;
   if (!source) throw new Error('rc-lowpass: no input waveform; the plan must name an "input"');
-  const r = input.parts['R'] ?? Number.NaN;
-  const c = input.parts['C'] ?? Number.NaN;
+  const parts = faultedParts(input, ['R'], ['C']);
+  const r = parts['R'] ?? Number.NaN;
+  const c = parts['C'] ?? Number.NaN;
+  // C shorted: the output node is tied to ground; nothing passes and no corner can be found.
+  if (isFault(input.fault, 'C', 'short')) return { outputs: { out: dc(0) }, values: { fc: Number.NaN, 'out.vpp': 0 }, warnings: [] };
   // Corner of a first-order RC section: fc = 1 / (2π·R·C) (any circuits handbook).
   const fc = 1 / (2 * Math.PI * r * c);
   // Unloaded output: every harmonic attenuated as 1/(1 + j·f/fc) (see single-pole.ts).
@@ -45,6 +50,7 @@ export const rcLowpassKind: StageKind<RcLowpassSettings> = {
   },
   checks: () => checks,
   evaluate,
+  faults: () => [...resistorFaults(['R'], { R: 'series resistor' }), { role: 'C', modes: ['open', 'short'], description: 'filter capacitor' }],
   faultHints: {
     fc: [
       'C a decade off (1n or 100n fitted for 10n): the corner moves tenfold',

@@ -1,4 +1,4 @@
-import type { EvalOutput, Supplies, Waveform } from '../circuit/types.js';
+import type { EvalOutput, StageFault, Supplies, Waveform } from '../circuit/types.js';
 import type { Unit } from '../units/unit.js';
 import { type PlanCheck, planChecks } from './checks.js';
 import type { Plan, PlanStage } from './types.js';
@@ -26,6 +26,11 @@ export interface ChainDetail {
   readonly failures: readonly { readonly stage: string; readonly message: string }[];
 }
 
+/** A single non-value fault on one stage's part, for one evaluation (diagnosis, DESIGN §5a). */
+export interface ChainFault extends StageFault {
+  readonly stage: string;
+}
+
 /**
  * A plan made ready for sampling. `evaluate` is the hot loop of the tolerance
  * engine: one call evaluates the whole chain for one sample `x` (one value per
@@ -45,12 +50,13 @@ export interface Chain {
    * of evaluating them: only valid when `x` differs from the nominal in no
    * variable of those stages and in no rail (one-part-at-a-time searches).
    * Stages see `isTrial: true` here (bench accuracy, no warnings); `detail`
-   * evaluates exactly, for nominal values shown to the user.
+   * evaluates exactly, for nominal values shown to the user. `fault` applies
+   * one non-value fault to its stage for this evaluation only.
    */
-  evaluate(x: Float64Array, out: Float64Array, stages?: number, reuse?: number): void;
+  evaluate(x: Float64Array, out: Float64Array, stages?: number, reuse?: number, fault?: ChainFault): void;
   /** Position of a stage in chain order, −1 for none (rails). */
   stageIndex(id: string): number;
-  detail(x: Float64Array): ChainDetail;
+  detail(x: Float64Array, fault?: ChainFault): ChainDetail;
 }
 
 const noValues: Record<string, number> = Object.freeze({}) as Record<string, number>;
@@ -67,6 +73,7 @@ interface HotArgs {
   input?: Waveform;
   isTrial?: boolean;
   buffer?: ((slot: number, length: number) => Float64Array) | undefined;
+  fault?: StageFault | undefined;
 }
 
 /** A stage's own output arrays for trials, by slot (see EvalInput.buffer). */
@@ -142,7 +149,7 @@ export function buildChain(plan: Plan): Chain {
   const hotResults: (EvalOutput | undefined)[] = new Array(stagePlans.length);
   const hotBuffers = stagePlans.map(() => bufferPool());
 
-  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length, reuse = 0, capture?: (EvalOutput | undefined)[]): ChainDetail => {
+  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length, reuse = 0, capture?: (EvalOutput | undefined)[], fault?: ChainFault): ChainDetail => {
     const rails: Record<string, number> = keep ? {} : hotRails;
     for (let i = 0; i < railIds.length; i++) {
       const v = x[i] ?? Number.NaN;
@@ -181,6 +188,8 @@ export function buildChain(plan: Plan): Chain {
             // The captured nominal results are read again later: they must not share the trials' arrays.
             args.buffer = capture ? undefined : hotBuffers[s];
           }
+          // The fault reaches its own stage only, and only for this evaluation.
+          args.fault = fault && fault.stage === sp.stage.id ? fault : undefined;
           result = sp.stage.module.evaluate(input && keep ? { ...args, input } : args);
         } catch (error) {
           if (keep) failures.push({ stage: sp.stage.id, message: error instanceof Error ? error.message : String(error) });
@@ -204,7 +213,7 @@ export function buildChain(plan: Plan): Chain {
     variables,
     checks,
     nominal,
-    evaluate(x, out, stages, reuse) {
+    evaluate(x, out, stages, reuse, fault) {
       out.fill(Number.NaN);
       const upTo = stages === undefined ? stagePlans.length : Math.max(0, Math.min(stagePlans.length, stages));
       let from = 0;
@@ -215,13 +224,13 @@ export function buildChain(plan: Plan): Chain {
         }
         from = Math.min(reuse, upTo);
       }
-      run(x, out, false, upTo, from);
+      run(x, out, false, upTo, from, undefined, fault);
     },
     stageIndex(id) {
       return stageIds.indexOf(id);
     },
-    detail(x) {
-      const d = run(x, undefined, true);
+    detail(x, fault) {
+      const d = run(x, undefined, true, stagePlans.length, 0, undefined, fault);
       const values: Record<string, number> = { ...d.values };
       railIds.forEach((id, i) => {
         values[`rails.${id}.dc`] = x[i] ?? Number.NaN;
