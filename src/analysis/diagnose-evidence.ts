@@ -13,6 +13,9 @@ export interface DiagnosisReading {
   readonly verdict: Verdict;
 }
 
+/** What the diagnosis needs of a check's target: its band (a `Target`, or the review's cached `CheckBand`). */
+export type DiagnosisTarget = Pick<Target, 'check' | 'unit' | 'nominal' | 'worst' | 'stat'> & { readonly isLimit?: boolean };
+
 /** A reading made ready for comparing predictions against it. */
 export interface Evidence {
   readonly check: string;
@@ -21,7 +24,9 @@ export interface Evidence {
   readonly value: number;
   readonly verdict: Verdict;
   readonly unit: Unit;
-  readonly target: Target;
+  /** The check's stage id, or `rails`. */
+  readonly stage: string;
+  readonly target: DiagnosisTarget;
   /** The reading's expanded uncertainty U, in its unit. */
   readonly u: number;
   /** Standard deviation of the healthy board's spread at this check (statistical band / 6). */
@@ -56,7 +61,7 @@ export function modelErrorOf(unit: Unit, predicted: number): number {
  * check, with a modelled target (the unpowered and first-power limits have no
  * model value and are left to their hints).
  */
-export function gatherEvidence(plan: Plan, chain: Chain, targets: readonly Target[], readings: readonly DiagnosisReading[]): { evidence: Evidence[]; unmodelled: DiagnosisReading[] } {
+export function gatherEvidence(plan: Plan, chain: Chain, targets: readonly DiagnosisTarget[], readings: readonly DiagnosisReading[]): { evidence: Evidence[]; unmodelled: DiagnosisReading[] } {
   const healthy = new Float64Array(chain.checks.length);
   chain.evaluate(chain.nominal, healthy);
   const latest = new Map<string, DiagnosisReading>();
@@ -67,16 +72,17 @@ export function gatherEvidence(plan: Plan, chain: Chain, targets: readonly Targe
   for (const r of latest.values()) {
     const target = byCheck.get(r.check);
     const index = chain.checks.findIndex((c) => c.check === r.check);
-    const stage = plan.stages.find((s) => s.id === target?.stage);
+    const check = chain.checks[index];
+    const stage = plan.stages.find((s) => s.id === check?.stage);
     const handWritten = stage?.module.traits?.isHandWritten === true || stage?.kind === 'manual';
-    if (!target || index < 0 || target.isLimit || target.phase === 'unpowered' || target.phase === 'first-power' || handWritten || !Number.isFinite(r.value)) {
+    if (!target || !check || target.isLimit || check.phase === 'unpowered' || check.phase === 'first-power' || handWritten || !Number.isFinite(r.value)) {
       unmodelled.push(r);
       continue;
     }
     const spec = uncertaintyFor(plan, r.check, uncertaintyKey(target.unit));
     const u = spec ? uncertaintyOf(r.value, spec) : 0;
     const width = Number.isFinite(target.stat.max - target.stat.min) ? target.stat.max - target.stat.min : 0;
-    const e = { check: r.check, index, value: r.value, verdict: r.verdict, unit: target.unit, target, u, spread: width / 6, deviates: false };
+    const e = { check: r.check, index, value: r.value, verdict: r.verdict, unit: target.unit, stage: check.stage, target, u, spread: width / 6, deviates: false };
     // Outside its band, and not what a healthy board can read within the model's error: a marginal
     // reading the nominal board reproduces asks for no cause.
     evidence.push({ ...e, deviates: r.verdict === 'fail' || (r.verdict === 'marginal' && !reproduces(e, healthy[index] as number)) });

@@ -58,7 +58,7 @@ export function separatingCheck(plan: Plan, chain: Chain, evidence: readonly Evi
     }
   }
   const names = faults.map((f) => `${f.part}${refOf(plan, f.stage, f.role) ? ` (${refOf(plan, f.stage, f.role)})` : ''}`);
-  return `no check of the plan tells ${names.join(' from ')}: power off and measure the parts in place (an ohmmeter across the resistor; lift one leg of the capacitor for a capacitance meter)`;
+  return `no check of the plan tells ${names.join(' from ')}: power off and check them in place (an ohmmeter across a resistor, the diode test across a junction, a capacitance meter with one leg lifted)`;
 }
 
 /** Entropy in bits of a set of weights (normalised here). */

@@ -55,7 +55,9 @@ export const valueReach = 30;
 
 function range(v: ChainVariable): [number, number] {
   if (v.stage === 'rails') return [0.05, 1.5];
-  if (v.unit === 'V' || v.unit === 'V/V') return [0.2, 5];
+  // Junction drops and current gains stray within a factor of two at most (common practice, no source); zener voltages further.
+  if (v.unit === 'V' && /(^|\.)vz2?$/.test(v.role)) return [0.2, 5];
+  if (v.unit === 'V' || v.unit === 'V/V') return [0.5, 2];
   return [1 / valueReach, valueReach];
 }
 

@@ -9,9 +9,9 @@ import { type ValueClass, modePrior } from './diagnose-priors.js';
 import { predict, searchValue } from './diagnose-search.js';
 import { nextSeparating, separatingCheck } from './diagnose-next.js';
 import { hintsFor } from './explain.js';
-import type { Target } from './types.js';
+import type { DiagnosisTarget } from './diagnose-evidence.js';
 
-export type { DiagnosisReading } from './diagnose-evidence.js';
+export type { DiagnosisReading, DiagnosisTarget } from './diagnose-evidence.js';
 
 /** A part (or rail) that could be wrong in another way and gives the same readings. */
 export interface Alternative {
@@ -119,7 +119,7 @@ function nonValueFaults(plan: Plan): { fault: ChainFault; description: string; v
  * and ranked by prior × likelihood over all the readings. Faults the readings
  * cannot tell apart are grouped, with the check that would separate them.
  */
-export function diagnose(plan: Plan, targets: readonly Target[], readings: readonly DiagnosisReading[], options: DiagnoseOptions = {}): Diagnosis {
+export function diagnose(plan: Plan, targets: readonly DiagnosisTarget[], readings: readonly DiagnosisReading[], options: DiagnoseOptions = {}): Diagnosis {
   const chain = options.chain ?? buildChain(plan);
   const { evidence, unmodelled } = gatherEvidence(plan, chain, targets, readings);
   const deviating = evidence.filter((e) => e.deviates);
@@ -131,7 +131,7 @@ export function diagnose(plan: Plan, targets: readonly Target[], readings: reado
 
   // Causality: a part can only move the checks of its own stage and of stages downstream of it.
   const reach = new Map(plan.stages.map((s) => [s.id, new Set([s.id, ...plan.stages.filter((d) => upstreamOf(plan.stages, d.id).includes(s.id)).map((d) => d.id)])] as const));
-  const canExplain = (stage: string): boolean => stage === 'rails' || deviating.some((e) => reach.get(stage)?.has(e.target.stage) === true);
+  const canExplain = (stage: string): boolean => stage === 'rails' || deviating.some((e) => reach.get(stage)?.has(e.stage) === true);
   const raws: Raw[] = [];
   chain.variables.forEach((v, i) => {
     const stage = plan.stages.find((s) => s.id === v.stage);

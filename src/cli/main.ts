@@ -8,6 +8,7 @@ const usage = `usage:
   probebook analyze CAPTURE [--json] [--expect sine|square|triangle]
   probebook record --plan PLAN --board SERIAL --check ID --value TEXT [--operator NAME] [--json]
   probebook history SERIAL [--json]
+  probebook diagnose SERIAL [--run ID] [--top N] [--json]
   probebook batch [--plan ID] [--check ID] [--json]
   probebook report SERIAL --format md|csv
 all accept --log DIR (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook)`;
@@ -18,6 +19,7 @@ const commands: Readonly<Record<string, () => Promise<Command>>> = {
   analyze: async () => (await import('./analyze.js')).analyzeCommand,
   record: async () => (await import('./record.js')).recordCommand,
   history: async () => (await import('./history.js')).historyCommand,
+  diagnose: async () => (await import('./diagnose.js')).diagnoseCommand,
   batch: async () => (await import('./batch.js')).batchCommand,
   report: async () => (await import('./report.js')).reportCommand,
 };
