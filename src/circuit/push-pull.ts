@@ -1,6 +1,7 @@
 import { StageParseError } from './errors.js';
 import { formatValue } from '../units/format.js';
 import { choiceAt, nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
+import { thermalVoltage } from './diode.js';
 import { faultedParts, isFault, resistorFaults } from './faults.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartFaults, PartValue, StageKind, StageWarning } from './types.js';
 
@@ -49,10 +50,15 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   // A shorted bias diode leaves its transistor's whole Vbe uncancelled: a dead band on that half only.
   const deadUp = isFault(f, 'bias[0]', 'short') ? vbe : dead;
   const deadDown = isFault(f, 'bias[1]', 'short') ? vbe : dead;
-  // A missing (or open) bias diode leaves its base on the bias resistor alone, pulled to its rail:
-  // that transistor turns hard on and the output sits a Vbe from the rail (and runs hot).
+  // A missing (or open) bias diode leaves its base on the bias resistor alone: that transistor
+  // is driven hard on and fights the other one (a large standing current, both run hot). The
+  // other one still follows the input on its own half, which the driven one clamps near 0 V:
+  // the far half of the wave is lost (checked against ngspice in the diagnosis fault set).
   const stuckHigh = isFault(f, 'bias[0]', 'missing') || isFault(f, 'bias[0]', 'open');
   const stuckLow = isFault(f, 'bias[1]', 'missing') || isFault(f, 'bias[1]', 'open');
+  // The follower that still works carries the driven one's current, about hfe times the bias
+  // current: its Vbe exceeds its bias diode's drop by Vt·ln(hfe) (Shockley law, Vt = kT/q).
+  const fight = stuckHigh || stuckLow ? thermalVoltage() * Math.log(hfe) : 0;
   // An open output transistor: its half of the wave is missing.
   const noUpper = isFault(f, 'Q[0]', 'open');
   const noLower = isFault(f, 'Q[1]', 'open');
@@ -68,8 +74,8 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
     const x = samples[i] as number;
     let y = x > deadUp ? x - deadUp : x < -deadDown ? x + deadDown : 0;
     if ((noUpper && y > 0) || (noLower && y < 0)) y = 0;
-    if (stuckHigh) y = high;
-    else if (stuckLow) y = low;
+    if (stuckHigh) y = y < 0 ? 0 : y + fight;
+    else if (stuckLow) y = y > 0 ? 0 : y - fight;
     if (y > high || y < low) {
       clipped = true;
       y = Math.min(high, Math.max(low, y));

@@ -75,7 +75,7 @@ function frequencyOf(t: SchmittTiming): number {
 function evaluate(input: EvalInput<SchmittSettings>): EvalOutput {
   const s = input.settings;
   const p = circuit(input, s.pot);
-  if (isFault(input.fault, 'Ct', 'short')) return shortedCt(p);
+  if (isFault(input.fault, 'Ct', 'short')) return shortedCt(p, input.fault?.variant ?? 0);
   const t = schmittTiming(p);
   const warnings = schmittWarnings(p, t, { hasClamp: s.hasClamp, hasRz: p.rz > 0 });
   const values: Record<string, number> = {
@@ -116,11 +116,12 @@ function evaluate(input: EvalInput<SchmittSettings>): EvalOutput {
  * Ct shorted: the integrator's output is tied to its − input, a virtual ground,
  * so the triangle is a flat 0 V; the comparator's + input then sees only the
  * square through R1/(R1 + R2), positive feedback, and latches: the square sits
- * at one level (taken as the high one; the low one is its mirror).
+ * at one level, high (variant 0) or low (variant 1), whichever it held when the
+ * loop stopped.
  */
-function shortedCt(p: SchmittCircuit): EvalOutput {
+function shortedCt(p: SchmittCircuit, variant: number): EvalOutput {
   const t = schmittTiming(p);
-  const level = t.squareHigh;
+  const level = variant === 1 ? t.squareLow : t.squareHigh;
   return {
     outputs: {
       square: { frequency: 0, samples: new Float64Array(defaultSamples).fill(level) },
@@ -134,7 +135,7 @@ function shortedCt(p: SchmittCircuit): EvalOutput {
 function faults(settings: SchmittSettings): readonly PartFaults[] {
   const words: Record<string, string> = { R1: 'hysteresis resistor', R2: 'feedback resistor', Rt: 'timing resistor', RV: 'frequency pot', Rz: 'zener feed resistor' };
   const roles = resistorRoles.filter((r) => (r !== 'RV' || settings.hasPot) && (r !== 'Rz' || settings.hasClamp));
-  const list: PartFaults[] = [...resistorFaults(roles, words), { role: 'Ct', modes: ['open', 'short'], description: 'timing capacitor' }];
+  const list: PartFaults[] = [...resistorFaults(roles, words), { role: 'Ct', modes: ['open', 'short'], description: 'timing capacitor', variants: { short: ['timing capacitor shorted, square latched high', 'timing capacitor shorted, square latched low'] } }];
   if (settings.hasClamp) {
     list.push({ role: 'clamp', modes: ['reversed', 'open', 'short'], description: 'zener pair', variants: { reversed: ['upper zener fitted backwards', 'lower zener fitted backwards'] } });
   }
