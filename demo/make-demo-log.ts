@@ -284,7 +284,7 @@ async function faultyBoard(serial: string, what: string, change: { part?: string
 }
 const clampStage = exciter.stages.find((s) => s.id === 'osc' && 'clamp' in (s.refs ?? {}));
 if (clampStage) {
-  await faultyBoard('EXB-0110', 'upper zener of the clamp pair fitted backwards', { fault: { stage: 'osc', role: 'clamp', mode: 'reversed', variant: 0 } });
+  await faultyBoard('EXB-0110', 'high-side zener of the clamp pair fitted backwards', { fault: { stage: 'osc', role: 'clamp', mode: 'reversed', variant: 0 } });
   if (ct) await faultyBoard('EXB-0111', 'timing capacitor a decade low (1n fitted for 10n)', { part: 'osc.Ct', value: ct.nominal / 10 });
   const rf = exciter.stages.find((s) => s.id === 'gain')?.parts['Rf'];
   if (rf) await faultyBoard('EXB-0112', 'gain-stage feedback resistor one E24 step high (16k for 15k)', { part: 'gain.Rf', value: 16_000 });

@@ -137,7 +137,7 @@ function faults(settings: SchmittSettings): readonly PartFaults[] {
   const roles = resistorRoles.filter((r) => (r !== 'RV' || settings.hasPot) && (r !== 'Rz' || settings.hasClamp));
   const list: PartFaults[] = [...resistorFaults(roles, words), { role: 'Ct', modes: ['open', 'short'], description: 'timing capacitor', variants: { short: ['timing capacitor shorted, square latched high', 'timing capacitor shorted, square latched low'] } }];
   if (settings.hasClamp) {
-    list.push({ role: 'clamp', modes: ['reversed', 'open', 'short'], description: 'zener pair', variants: { reversed: ['upper zener fitted backwards', 'lower zener fitted backwards'] } });
+    list.push({ role: 'clamp', modes: ['reversed', 'open', 'short'], description: 'zener pair', variants: { reversed: ['the high-side zener fitted backwards (square top at two forward drops)', 'the low-side zener fitted backwards (square bottom at two forward drops)'] } });
   }
   return list;
 }

@@ -97,12 +97,14 @@ export function boardDeck(plan: Plan, fault: PlantedFault = {}): BoardDeck {
           const vf = value(id, 'clamp.vf');
           const isOf = (drop: number) => (5e-3 / Math.exp(drop / vt)).toExponential(6);
           lines.push(`.model dz_${id} D (IS=${isOf(vf)} N=1 BV=${vz} IBV=5m)`);
-          // Upper zener: anode at the square, cathode at the middle; lower: anode at ground.
+          // dz1: anode at the square, cathode at the middle (forward at the high level, in breakdown
+          // at the low); dz2: anode at ground (in breakdown at the high level). Variant 0 turns the
+          // zener that breaks down at the high level round, variant 1 the one at the low level.
           const reversed = is(s, 'clamp', 'reversed');
-          const up = reversed && (fault.variant ?? 0) === 0;
-          const down = reversed && (fault.variant ?? 0) === 1;
-          lines.push(up ? `dz1_${id} ${id}_zm ${sq} dz_${id}` : `dz1_${id} ${sq} ${id}_zm dz_${id}`);
-          lines.push(down ? `dz2_${id} ${id}_zm 0 dz_${id}` : `dz2_${id} 0 ${id}_zm dz_${id}`);
+          const high = reversed && (fault.variant ?? 0) === 0;
+          const low = reversed && (fault.variant ?? 0) === 1;
+          lines.push(low ? `dz1_${id} ${id}_zm ${sq} dz_${id}` : `dz1_${id} ${sq} ${id}_zm dz_${id}`);
+          lines.push(high ? `dz2_${id} ${id}_zm 0 dz_${id}` : `dz2_${id} 0 ${id}_zm dz_${id}`);
         }
       }
     } else if (s.kind === 'diode-shaper') {
