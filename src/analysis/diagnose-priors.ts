@@ -9,8 +9,10 @@ import { nearestStandard, type SeriesName } from '../units/e-series.js';
  * ratios matter, because the scores are normalised over the kept hypotheses.
  *
  * - A wrong value from the kit is the commonest fault: the neighbouring bin of
- *   the same series (a 15k for an 18k) or a decade slip (a 220n for a 22n, a
- *   three-digit code misread) — 2 % each.
+ *   the same series (a 15k for an 18k) or a decade slip — 2 % each; 2.5 % for
+ *   a capacitor's decade slip, whose three-digit code (223 for 22n, 224 for
+ *   220n) differs in a digit that is easily misread, where a resistor's decade
+ *   is a whole colour band.
  * - A polarised part fitted backwards (a diode, one zener of a pair): 2 %.
  * - Another standard value from the wrong reel: 0.5 %; a two-decade slip 0.4 %.
  * - A part not fitted: 0.5 %; a dry joint or cracked part (open): 0.3 %; a
@@ -38,8 +40,9 @@ const classPrior: Readonly<Record<Exclude<ValueClass, 'off-standard' | 'rail'>, 
 };
 
 /** The prior of a wrong value `ratio` × the fitted one, by its class. */
-export function valuePrior(cls: ValueClass, ratio: number): number {
+export function valuePrior(cls: ValueClass, ratio: number, unit?: string): number {
   const far = Math.abs(Math.log(ratio));
+  if (cls === 'decade' && unit === 'F') return 0.025;
   if (cls === 'rail') return 0.01 * Math.exp(-far / 0.3);
   if (cls === 'off-standard') return 0.001 * Math.exp(-far / Math.log(3));
   return classPrior[cls];

@@ -135,7 +135,7 @@ export function searchValue(chain: Chain, i: number, evidence: readonly Evidence
     if (Math.abs(ratio - 1) <= v.tol + 1e-9) continue;
     const predicted = at(c.value);
     if (!reproducesAll(evidence, predicted)) continue;
-    kept.push({ value: c.value, cls: c.cls, predicted, logLikelihood: logLikelihood(evidence, predicted), prior: valuePrior(c.cls, ratio), verified: true });
+    kept.push({ value: c.value, cls: c.cls, predicted, logLikelihood: logLikelihood(evidence, predicted), prior: valuePrior(c.cls, ratio, v.unit), verified: true });
   }
   kept.sort((p, q) => q.logLikelihood + Math.log(q.prior) - (p.logLikelihood + Math.log(p.prior)));
   // The most probable candidate that is no jump's edge.

@@ -4,7 +4,7 @@ import { upstreamOf } from '../plan/stages.js';
 import type { Plan } from '../plan/types.js';
 import type { Unit } from '../units/unit.js';
 import { type DiagnosisReading, type Evidence, gatherEvidence, logLikelihood, reproduces, reproducesAll } from './diagnose-evidence.js';
-import { hypothesisLabel, refOf } from './diagnose-labels.js';
+import { hypothesisLabel, refOf, shortLabel } from './diagnose-labels.js';
 import { type ValueClass, modePrior } from './diagnose-priors.js';
 import { predict, searchValue } from './diagnose-search.js';
 import { nextSeparating, separatingCheck } from './diagnose-next.js';
@@ -38,6 +38,8 @@ export interface Hypothesis {
   /** Which way the mode happened, for parts that can fail one mode in several ways. */
   readonly variant: number;
   readonly label: string;
+  /** The same in a few words, for a one-line panel. */
+  readonly short: string;
   /** 0…1: prior × likelihood, normalised over the listed hypotheses. */
   readonly score: number;
   /** The readings outside their band (fail or marginal) this fault reproduces. */
@@ -193,6 +195,7 @@ function rank(plan: Plan, chain: Chain, evidence: readonly Evidence[], raws: rea
       valueClass: h.r.valueClass,
       variant: h.r.variant,
       label: h.label,
+      short: shortLabel(h.r, h.ref, deviating),
       score: h.score + rest.reduce((s, a) => s + a.score, 0),
       explains: deviating.filter((e) => reproduces(e, h.r.predicted[e.index] as number)).map((e) => e.check),
       predicted: record(h.r.predicted, evidence),

@@ -1,5 +1,5 @@
 import { Box, Text } from 'ink';
-import { memo, useMemo } from 'react';
+import { memo, useMemo, useRef } from 'react';
 import { judge } from '../../run/assess.js';
 import { lockReason, openChecks } from '../../run/gates.js';
 import { scopeSetup } from '../../run/scope-setup.js';
@@ -23,6 +23,8 @@ import { useBringUpKeys } from './use-bring-up-keys.js';
 import { knownParts, useBringUpState } from './use-bring-up-state.js';
 import { reworkDefaults } from './rework-defaults.js';
 import { VerdictPanel } from './verdict-panel.js';
+import { DiagnosisPanel } from './diagnosis-panel.js';
+import { useDiagnosis } from './use-diagnosis.js';
 import { endOptions } from '../../run/gates.js';
 
 const MemoHeader = memo(Header);
@@ -34,7 +36,11 @@ export function BringUpScreen(props: BringUpProps) {
   const { plan, targets, serial, width, height, isActive = true, onExit } = props;
   const b = useBringUpState(props);
   const { state, target, status } = b;
-  const keys = useBringUpKeys(b, { isActive, onExit, onDirtyChange: props.onDirtyChange, onTypingChange: props.onTypingChange, reworkDefaults: () => reworkDefaults(plan, b.explanationRef.current.explanations) });
+  // After a fail: every reading of the run diagnosed together (DESIGN §5a); r starts a rework from hypothesis 1.
+  const diagnosis = useDiagnosis(plan, targets.targets, state);
+  const diagnosisRef = useRef(diagnosis);
+  diagnosisRef.current = diagnosis;
+  const keys = useBringUpKeys(b, { isActive, onExit, onDirtyChange: props.onDirtyChange, onTypingChange: props.onTypingChange, reworkDefaults: () => reworkDefaults(plan, b.explanationRef.current.explanations, diagnosisRef.current?.hypotheses[0]) });
   const outputs = useMemo(() => nominalOutputs(plan), [plan]);
   const trace = useMemo(() => (target ? expectedTrace(plan, targets.targets, target, outputs) : null), [plan, targets, target, outputs]);
   const shape = useMemo(() => (trace ? shapeOf(trace.samples) : undefined), [trace]);
@@ -44,7 +50,9 @@ export function BringUpScreen(props: BringUpProps) {
   const result = useMemo(() => (last && lastTarget ? judge(plan, lastTarget, last.value) : null), [plan, last, lastTarget]);
   const lock = useMemo(() => (target ? lockReason(state, target.check) : null), [state, target]);
   const checkRows = 4 + (scope ? 1 : 0) + (lock ? 1 : 0);
-  const wanted = result ? 2 + Math.min(3, b.explanation.explanations.length) + Math.min(2, b.explanation.hints.length) + (result.warnings.length > 0 ? 1 : 0) : 0;
+  const diagnosisRows = diagnosis && diagnosis.hypotheses.length + diagnosis.unexplained.length > 0 ? Math.min(3, diagnosis.hypotheses.length) + 3 + Math.min(2, b.explanation.hints.length) : 0;
+  const explained = diagnosisRows > 0 ? [] : b.explanation.explanations;
+  const wanted = result ? 2 + Math.min(3, explained.length) + Math.min(2, b.explanation.hints.length) + (result.warnings.length > 0 ? 1 : 0) + diagnosisRows : 0;
   const labelWidth = Math.max(...state.targets.map((t) => t.check.length - t.stage.length - 1), 8);
   const layout = bringUpLayout(width, height, checkRows, wanted, labelWidth);
   const done = state.targets.length - openChecks(state).length;
@@ -81,7 +89,8 @@ export function BringUpScreen(props: BringUpProps) {
               {keys.focus === 'rework' ? <ReworkForm {...keys.rework} parts={knownParts(plan)} width={layout.panelWidth} /> : null}
               {keys.focus === 'end' ? <EndPanel options={endOptions(state)} cursor={keys.endCursor} width={layout.panelWidth} isAllMeasured={openChecks(state).length === 0} /> : null}
               {chart ? <Text>{chart}</Text> : null}
-              {!overlay && last && lastTarget && result && layout.verdictRows > 0 ? <VerdictPanel reading={last} target={lastTarget} result={result} explanations={b.explanation.explanations} hints={b.explanation.hints} maxLines={layout.verdictRows} width={layout.panelWidth} /> : null}
+              {!overlay && last && lastTarget && result && layout.verdictRows > 0 ? <VerdictPanel reading={last} target={lastTarget} result={result} explanations={explained} hints={diagnosisRows > 0 ? [] : b.explanation.hints} maxLines={Math.max(2, layout.verdictRows - diagnosisRows)} width={layout.panelWidth} /> : null}
+              {!overlay && diagnosis && diagnosisRows > 0 && layout.verdictRows > 2 ? <DiagnosisPanel diagnosis={diagnosis} hints={b.explanation.hints} maxLines={Math.min(diagnosisRows + 1, layout.verdictRows - 2)} width={layout.panelWidth} /> : null}
               <Text wrap="truncate-end" {...toneProps('accent')}>{nextLine}</Text>
               <InputLine check={state.selected} text={keys.text} status={status} isFocused={keys.focus === 'input'} placeholder={next && next.check !== state.selected ? 'type a reading, or Enter for the next check' : 'type a reading'} width={layout.panelWidth} />
             </>
