@@ -51,11 +51,16 @@ function classWords(cls: ValueClass | null, ratio: number, fitted: string): stri
   }
 }
 
-/** The deviating reading that stands out most: the one a label quotes. */
-export function headline(deviating: readonly Evidence[]): Evidence | undefined {
+/**
+ * The reading a label quotes: the one that stands out most among the deviating
+ * readings of the fault's own stage (where the technician would look first),
+ * else among all of them.
+ */
+export function headline(deviating: readonly Evidence[], stage?: string): Evidence | undefined {
+  const own = deviating.filter((e) => e.stage === stage);
   let best: Evidence | undefined;
   let worst = -1;
-  for (const e of deviating) {
+  for (const e of own.length > 0 ? own : deviating) {
     const z = Math.abs(e.value - e.target.nominal) / sigmaOf(e, e.target.nominal);
     if (z > worst) {
       worst = z;
@@ -76,7 +81,7 @@ const shortClass: Readonly<Record<ValueClass, string>> = { decade: 'decade slip'
 export function shortLabel(h: Labelled, ref: string | null, deviating: readonly Evidence[]): string {
   const name = `${h.part}${ref ? ` (${ref})` : ''}`;
   const what = h.mode === 'value' && h.value !== null && h.unit ? `${formatValue(h.value, h.unit, { digits: 3 })}${h.valueClass ? ` (${shortClass[h.valueClass]})` : ''}` : modeWords[h.mode];
-  const e = headline(deviating);
+  const e = headline(deviating, h.stage);
   return e ? `${name} ${what}: ${e.check} would read ${predictedWords(h.predicted[e.index] as number, e.unit)}` : `${name} ${what}`;
 }
 
@@ -94,6 +99,6 @@ export function hypothesisLabel(plan: Plan, chain: Chain, h: Labelled, ref: stri
   } else {
     what = `${name} ${modeWords[h.mode]} — ${h.variantWords ?? h.description}`;
   }
-  const e = headline(deviating);
+  const e = headline(deviating, h.stage);
   return e ? `${what}: ${e.check} would read ${predictedWords(h.predicted[e.index] as number, e.unit)}` : what;
 }
