@@ -80,7 +80,7 @@ const shortClass: Readonly<Record<ValueClass, string>> = { decade: 'decade slip'
 /** The same in a few words for a one-line panel: `osc.Ct (C7) 220 nF (decade slip): osc.freq would read 113 Hz`. */
 export function shortLabel(h: Labelled, ref: string | null, deviating: readonly Evidence[]): string {
   const name = `${h.part}${ref ? ` (${ref})` : ''}`;
-  const what = h.mode === 'value' && h.value !== null && h.unit ? `${formatValue(h.value, h.unit, { digits: 3 })}${h.valueClass ? ` (${shortClass[h.valueClass]})` : ''}` : modeWords[h.mode];
+  const what = h.mode === 'value' && h.value !== null && h.unit ? `${formatValue(h.value, h.unit, { digits: 3 })}${h.valueClass ? ` (${shortClass[h.valueClass]})` : ''}` : `${modeWords[h.mode]}${h.variantWords ? ` (${h.variantWords})` : ''}`;
   const e = headline(deviating, h.stage);
   return e ? `${name} ${what}: ${e.check} would read ${predictedWords(h.predicted[e.index] as number, e.unit)}` : `${name} ${what}`;
 }
@@ -97,7 +97,7 @@ export function hypothesisLabel(plan: Plan, chain: Chain, h: Labelled, ref: stri
     const fitted = v ? formatValue(v.nominal, v.unit) : '?';
     what = `${name} would be ${formatValue(h.value, h.unit)}, ${classWords(h.valueClass, v ? h.value / v.nominal : 1, fitted)}`;
   } else {
-    what = `${name} ${modeWords[h.mode]} — ${h.variantWords ?? h.description}`;
+    what = `${name} ${modeWords[h.mode]} — ${h.variantWords ? `${h.description}, ${h.variantWords}` : h.description}`;
   }
   const e = headline(deviating, h.stage);
   return e ? `${what}: ${e.check} would read ${predictedWords(h.predicted[e.index] as number, e.unit)}` : what;

@@ -11,8 +11,12 @@ interface Predicting {
   readonly stage: string;
   readonly role: string;
   readonly part: string;
+  readonly variantWords: string | null;
   readonly predicted: Float64Array;
 }
+
+/** A fault's name in a sentence: its part, and which way when the part can fail one mode in several. */
+const nameOf = (f: Predicting): string => (f.variantWords ? `${f.part} (${f.variantWords})` : f.part);
 
 /** How far apart two predictions of a check must be for one reading to tell them apart. */
 function resolution(plan: Plan, chain: Chain, k: number, value: number): number {
@@ -54,7 +58,7 @@ export function separatingCheck(plan: Plan, chain: Chain, evidence: readonly Evi
     }
     const c = chain.checks[bestK];
     if (c && best > 1) {
-      return `read ${c.check}${c.testPoint ? ` at ${c.testPoint}` : ''}: ${a.part} predicts ${formatValue(a.predicted[bestK] as number, c.unit)}, ${b.part} ${formatValue(b.predicted[bestK] as number, c.unit)}`;
+      return `read ${c.check}${c.testPoint ? ` at ${c.testPoint}` : ''}: ${nameOf(a)} predicts ${formatValue(a.predicted[bestK] as number, c.unit)}, ${nameOf(b)} ${formatValue(b.predicted[bestK] as number, c.unit)}`;
     }
   }
   const names = faults.map((f) => `${f.part}${refOf(plan, f.stage, f.role) ? ` (${refOf(plan, f.stage, f.role)})` : ''}`);

@@ -20,6 +20,8 @@ export interface Alternative {
   readonly mode: FaultMode;
   readonly value: number | null;
   readonly label: string;
+  /** Which way the mode happened, in bench words, for parts that can fail one mode in several ways. */
+  readonly variantWords: string | null;
   readonly score: number;
 }
 
@@ -37,6 +39,8 @@ export interface Hypothesis {
   readonly valueClass: ValueClass | null;
   /** Which way the mode happened, for parts that can fail one mode in several ways. */
   readonly variant: number;
+  /** The same in bench words, or null. */
+  readonly variantWords: string | null;
   readonly label: string;
   /** The same in a few words, for a one-line panel. */
   readonly short: string;
@@ -178,7 +182,7 @@ function rank(plan: Plan, chain: Chain, evidence: readonly Evidence[], raws: rea
   const hypotheses: Hypothesis[] = groups.slice(0, top).map((g, n) => {
     const [head, ...rest] = g.map(entry);
     const h = head as ReturnType<typeof entry>;
-    const alternatives: Alternative[] = rest.map((a) => ({ part: a.r.part, ref: a.ref, mode: a.r.mode, value: a.r.value, label: a.label, score: a.score }));
+    const alternatives: Alternative[] = rest.map((a) => ({ part: a.r.part, ref: a.ref, mode: a.r.mode, value: a.r.value, label: a.label, variantWords: a.r.variantWords, score: a.score }));
     const record = (p: Float64Array, only?: readonly Evidence[]) => {
       const o: Record<string, number> = {};
       if (only) for (const e of only) o[e.check] = p[e.index] as number;
@@ -194,6 +198,7 @@ function rank(plan: Plan, chain: Chain, evidence: readonly Evidence[], raws: rea
       unit: h.r.unit,
       valueClass: h.r.valueClass,
       variant: h.r.variant,
+      variantWords: h.r.variantWords,
       label: h.label,
       short: shortLabel(h.r, h.ref, deviating),
       score: h.score + rest.reduce((s, a) => s + a.score, 0),

@@ -135,9 +135,9 @@ function shortedCt(p: SchmittCircuit, variant: number): EvalOutput {
 function faults(settings: SchmittSettings): readonly PartFaults[] {
   const words: Record<string, string> = { R1: 'hysteresis resistor', R2: 'feedback resistor', Rt: 'timing resistor', RV: 'frequency pot', Rz: 'zener feed resistor' };
   const roles = resistorRoles.filter((r) => (r !== 'RV' || settings.hasPot) && (r !== 'Rz' || settings.hasClamp));
-  const list: PartFaults[] = [...resistorFaults(roles, words), { role: 'Ct', modes: ['open', 'short'], description: 'timing capacitor', variants: { short: ['timing capacitor shorted, square latched high', 'timing capacitor shorted, square latched low'] } }];
+  const list: PartFaults[] = [...resistorFaults(roles, words), { role: 'Ct', modes: ['open', 'short'], description: 'timing capacitor', variants: { short: ['square latched high', 'square latched low'] } }];
   if (settings.hasClamp) {
-    list.push({ role: 'clamp', modes: ['reversed', 'open', 'short'], description: 'zener pair', variants: { reversed: ['the high-side zener fitted backwards (square top at two forward drops)', 'the low-side zener fitted backwards (square bottom at two forward drops)'] } });
+    list.push({ role: 'clamp', modes: ['reversed', 'open', 'short'], description: 'zener pair', variants: { reversed: ['high-side zener backwards', 'low-side zener backwards'] } });
   }
   return list;
 }

@@ -15,6 +15,9 @@ export function useDiagnosis(plan: Plan, targets: readonly Target[], state: Pick
   const last = state.last;
   return useMemo(() => {
     if (!last || last.verdict === 'pass' || state.stale.has(last.check)) return null;
+    // The safety checks (rail to ground, idle current) have no model to diagnose: their hints say it.
+    const phase = targets.find((t) => t.check === last.check)?.phase;
+    if (phase !== 'stage' && phase !== 'rails') return null;
     const readings = [...state.latest.values()].filter((r) => !state.stale.has(r.check));
     try {
       return diagnose(plan, targets, readings, { chain, top: 3 });
