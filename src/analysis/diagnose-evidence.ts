@@ -51,9 +51,18 @@ const modelError: Readonly<Partial<Record<Unit, { readonly rel: number; readonly
   'Ω': { rel: 0.01, abs: 0 },
 };
 
-export function modelErrorOf(unit: Unit, predicted: number): number {
+/**
+ * A part that is open, shorted, backwards or missing works where the plan's
+ * tolerances say nothing about it (a zener conducting forward, a transistor
+ * driven hard on): its junction drops spread by some tens of millivolts either
+ * way (common practice, no source). Such a fault's predictions are held to
+ * this much more relative error, on top of the model's own.
+ */
+export const faultModeError = 0.05;
+
+export function modelErrorOf(unit: Unit, predicted: number, extra = 0): number {
   const m = modelError[unit] ?? { rel: 0.02, abs: 0 };
-  return m.rel * Math.abs(predicted) + m.abs;
+  return (m.rel + extra) * Math.abs(predicted) + m.abs;
 }
 
 /**
@@ -97,11 +106,11 @@ export function gatherEvidence(plan: Plan, chain: Chain, targets: readonly Diagn
  * less) and the model's error (taken as two standard deviations), root-sum-square
  * (JCGM 100:2008, combined standard uncertainty).
  */
-export function sigmaOf(e: Evidence, predicted: number): number {
+export function sigmaOf(e: Evidence, predicted: number, extra = 0): number {
   const p = Number.isFinite(predicted) ? predicted : 0;
   const scale = e.target.nominal !== 0 && Number.isFinite(e.target.nominal) ? Math.min(10, Math.abs(p / e.target.nominal)) : 1;
   const spread = e.spread * scale;
-  const model = modelErrorOf(e.unit, p) / 2;
+  const model = modelErrorOf(e.unit, p, extra) / 2;
   const s = Math.sqrt((e.u / 2) ** 2 + spread ** 2 + model ** 2);
   // A floor so that an exact instrument on an exact check still has a finite likelihood.
   return Math.max(s, 1e-12 + 1e-6 * Math.abs(e.value));
@@ -114,10 +123,10 @@ export function sigmaOf(e: Evidence, predicted: number): number {
  * A prediction of "no value" (NaN: an oscillator that stopped, a corner that
  * cannot be found) reproduces only a reading of about zero.
  */
-export function reproduces(e: Evidence, predicted: number): boolean {
+export function reproduces(e: Evidence, predicted: number, extra = 0): boolean {
   const p = Number.isFinite(predicted) ? predicted : 0;
   const scale = e.target.nominal !== 0 && Number.isFinite(e.target.nominal) ? Math.min(10, Math.abs(p / e.target.nominal)) : 1;
-  const allowed = e.u + modelErrorOf(e.unit, p) + 3 * e.spread * scale;
+  const allowed = e.u + modelErrorOf(e.unit, p, extra) + 3 * e.spread * scale;
   return Math.abs(e.value - p) <= allowed;
 }
 
@@ -126,9 +135,9 @@ export function reproduces(e: Evidence, predicted: number): boolean {
  * Gaussian terms ln N(reading; predicted, σ), σ from `sigmaOf`
  * (the product of independent normal densities, any statistics text).
  */
-export function logLikelihood(evidence: readonly Evidence[], predicted: Float64Array): number {
+export function logLikelihood(evidence: readonly Evidence[], predicted: Float64Array, extra = 0): number {
   let sum = 0;
-  for (const e of evidence) sum += gaussianLog(e.value, predicted[e.index] ?? Number.NaN, sigmaOf(e, predicted[e.index] ?? Number.NaN));
+  for (const e of evidence) sum += gaussianLog(e.value, predicted[e.index] ?? Number.NaN, sigmaOf(e, predicted[e.index] ?? Number.NaN, extra));
   return sum;
 }
 
@@ -140,7 +149,7 @@ export function gaussianLog(x: number, mu: number, sigma: number): number {
 }
 
 /** Whether a set of predictions reproduces every reading (DESIGN §5a verification). */
-export function reproducesAll(evidence: readonly Evidence[], predicted: Float64Array): boolean {
-  for (const e of evidence) if (!reproduces(e, predicted[e.index] ?? Number.NaN)) return false;
+export function reproducesAll(evidence: readonly Evidence[], predicted: Float64Array, extra = 0): boolean {
+  for (const e of evidence) if (!reproduces(e, predicted[e.index] ?? Number.NaN, extra)) return false;
   return true;
 }

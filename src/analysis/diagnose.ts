@@ -3,7 +3,7 @@ import { buildChain, type Chain, type ChainFault } from '../plan/chain.js';
 import { upstreamOf } from '../plan/stages.js';
 import type { Plan } from '../plan/types.js';
 import type { Unit } from '../units/unit.js';
-import { type DiagnosisReading, type Evidence, gatherEvidence, logLikelihood, reproduces, reproducesAll } from './diagnose-evidence.js';
+import { type DiagnosisReading, type Evidence, faultModeError, gatherEvidence, logLikelihood, reproduces, reproducesAll } from './diagnose-evidence.js';
 import { hypothesisLabel, refOf, shortLabel } from './diagnose-labels.js';
 import { type ValueClass, modePrior } from './diagnose-priors.js';
 import { predict, searchValue } from './diagnose-search.js';
@@ -94,6 +94,8 @@ interface Raw {
   readonly predicted: Float64Array;
   readonly logLikelihood: number;
   readonly prior: number;
+  /** Extra relative model error the fault's predictions are held to (see `faultModeError`). */
+  readonly extra: number;
 }
 
 /** Every non-value fault the plan's stages declare, with the part's words. */
@@ -145,16 +147,16 @@ export function diagnose(plan: Plan, targets: readonly DiagnosisTarget[], readin
     const found = searchValue(chain, i, evidence, canExplain);
     if (!found) return;
     const unit = v.unit;
-    raws.push({ stage: v.stage, role: v.role, part: v.name, mode: 'value', variant: 0, value: found.value, unit, valueClass: found.cls, description: stage?.module.roles.find((r) => r.role === v.role)?.description ?? (v.stage === 'rails' ? 'supply rail' : v.role), variantWords: null, predicted: found.predicted, logLikelihood: found.logLikelihood, prior: found.prior });
+    raws.push({ stage: v.stage, role: v.role, part: v.name, mode: 'value', variant: 0, value: found.value, unit, valueClass: found.cls, description: stage?.module.roles.find((r) => r.role === v.role)?.description ?? (v.stage === 'rails' ? 'supply rail' : v.role), variantWords: null, predicted: found.predicted, logLikelihood: found.logLikelihood, prior: found.prior, extra: 0 });
   });
   for (const { fault, description, variantWords } of nonValueFaults(plan)) {
     if (!canExplain(fault.stage)) continue;
     const predicted = predict(chain, chain.nominal, chain.stageIndex(fault.stage), fault);
-    if (!reproducesAll(evidence, predicted)) continue;
-    raws.push({ stage: fault.stage, role: fault.role, part: `${fault.stage}.${fault.role}`, mode: fault.mode, variant: fault.variant ?? 0, value: null, unit: null, valueClass: null, description, variantWords, predicted, logLikelihood: logLikelihood(evidence, predicted), prior: modePrior[fault.mode] });
+    if (!reproducesAll(evidence, predicted, faultModeError)) continue;
+    raws.push({ stage: fault.stage, role: fault.role, part: `${fault.stage}.${fault.role}`, mode: fault.mode, variant: fault.variant ?? 0, value: null, unit: null, valueClass: null, description, variantWords, predicted, logLikelihood: logLikelihood(evidence, predicted, faultModeError), prior: modePrior[fault.mode], extra: faultModeError });
   }
   // A fault must explain something: one that reproduces the readings only because it changes nothing read is no cause.
-  const causes = raws.filter((r) => deviating.some((e) => reproduces(e, r.predicted[e.index] as number)));
+  const causes = raws.filter((r) => deviating.some((e) => reproduces(e, r.predicted[e.index] as number, r.extra)));
   return rank(plan, chain, evidence, causes, hints, options.top ?? 10);
 }
 
@@ -202,7 +204,7 @@ function rank(plan: Plan, chain: Chain, evidence: readonly Evidence[], raws: rea
       label: h.label,
       short: shortLabel(h.r, h.ref, deviating),
       score: h.score + rest.reduce((s, a) => s + a.score, 0),
-      explains: deviating.filter((e) => reproduces(e, h.r.predicted[e.index] as number)).map((e) => e.check),
+      explains: deviating.filter((e) => reproduces(e, h.r.predicted[e.index] as number, h.r.extra)).map((e) => e.check),
       predicted: record(h.r.predicted, evidence),
       predictedAll: record(h.r.predicted),
       alternatives,

@@ -178,11 +178,14 @@ describe('diagnosis on ngspice-simulated single-fault boards', () => {
           if (predicted === undefined) continue;
           // Written here, not taken from the diagnosis: the reading's U, the statistical band's
           // half-width (the other parts' spread) scaled to the predicted level, and 2 % + 10 mV
-          // for the model (common practice, no source).
+          // for the model (10 % for a THD, whose residual harmonics hang on the diode knee), 5 %
+          // more for a part open, shorted, backwards or missing, whose junction drops the plan's
+          // tolerances do not describe (common practice, no source).
           const p = Number.isFinite(predicted) ? predicted : 0;
           const scale = t.nominal !== 0 ? Math.min(10, Math.abs(p / t.nominal)) : 1;
           const u = uncertaintyOf(r.value, uncertaintyFor(plan, r.check, uncertaintyKey(t.unit)) ?? { relative: 0, absolute: 0 });
-          const allowed = u + ((t.stat.max - t.stat.min) / 2) * scale + 0.02 * Math.abs(p) + 0.01;
+          const model = (r.check.endsWith('.thd') ? 0.1 : 0.02) + (h.mode === 'value' ? 0 : 0.05);
+          const allowed = u + ((t.stat.max - t.stat.min) / 2) * scale + model * Math.abs(p) + 0.01;
           expect(Math.abs(r.value - p), `${o.c.name}: ${h.part} ${h.mode} predicts ${r.check} = ${p}, read ${r.value}`).toBeLessThanOrEqual(allowed);
         }
       }
