@@ -23,6 +23,8 @@ export interface Alternative {
   /** Which way the mode happened, in bench words, for parts that can fail one mode in several ways. */
   readonly variantWords: string | null;
   readonly score: number;
+  /** Its predicted value for every check of the plan: the readings so far cannot tell it from the head, an unread check may. */
+  readonly predictedAll: Readonly<Record<string, number>>;
 }
 
 /** One verified single-fault hypothesis (DESIGN §5a). */
@@ -184,13 +186,13 @@ function rank(plan: Plan, chain: Chain, evidence: readonly Evidence[], raws: rea
   const hypotheses: Hypothesis[] = groups.slice(0, top).map((g, n) => {
     const [head, ...rest] = g.map(entry);
     const h = head as ReturnType<typeof entry>;
-    const alternatives: Alternative[] = rest.map((a) => ({ part: a.r.part, ref: a.ref, mode: a.r.mode, value: a.r.value, label: a.label, variantWords: a.r.variantWords, score: a.score }));
     const record = (p: Float64Array, only?: readonly Evidence[]) => {
       const o: Record<string, number> = {};
       if (only) for (const e of only) o[e.check] = p[e.index] as number;
       else chain.checks.forEach((c, k) => (o[c.check] = p[k] as number));
       return o;
     };
+    const alternatives: Alternative[] = rest.map((a) => ({ part: a.r.part, ref: a.ref, mode: a.r.mode, value: a.r.value, label: a.label, variantWords: a.r.variantWords, score: a.score, predictedAll: record(a.r.predicted) }));
     return {
       rank: n + 1,
       part: h.r.part,
