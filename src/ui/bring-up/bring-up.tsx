@@ -26,10 +26,21 @@ import { VerdictPanel } from './verdict-panel.js';
 import { DiagnosisPanel } from './diagnosis-panel.js';
 import { useDiagnosis } from './use-diagnosis.js';
 import { endOptions } from '../../run/gates.js';
+import type { Diagnosis } from '../../analysis/diagnose.js';
+import type { Target } from '../../analysis/types.js';
+import type { RunState } from '../../run/types.js';
 
 const MemoHeader = memo(Header);
 const MemoKeyBar = memo(KeyBar);
 const keyHints: readonly KeyHint[] = [['Tab', 'list/input'], ['r', 'rework'], ['a', 'capture'], ['e', 'end run'], ['Esc', 'back'], ['?', 'help']];
+
+/** The diagnosis's most informative next check, when the last stage reading failed and the run's order allows it. */
+function separatingNext(diagnosis: Diagnosis | null, state: RunState, targets: readonly Target[]): { check: string; why: string } | null {
+  const next = diagnosis?.next;
+  const phase = (check: string | undefined) => targets.find((t) => t.check === check)?.phase;
+  if (!next || state.ended || phase(state.last?.check) !== 'stage' || phase(state.suggestion?.check) !== 'stage') return null;
+  return lockReason(state, next.check) === null ? next : null;
+}
 
 /** The bring-up screen: walks one board through every check in a safe order. */
 export function BringUpScreen(props: BringUpProps) {
@@ -40,7 +51,12 @@ export function BringUpScreen(props: BringUpProps) {
   const diagnosis = useDiagnosis(plan, targets.targets, state);
   const diagnosisRef = useRef(diagnosis);
   diagnosisRef.current = diagnosis;
-  const keys = useBringUpKeys(b, { isActive, onExit, onDirtyChange: props.onDirtyChange, onTypingChange: props.onTypingChange, reworkDefaults: () => reworkDefaults(plan, b.explanationRef.current.explanations, diagnosisRef.current?.hypotheses[0]) });
+  // After a stage fails, the check that best separates the likely faults comes next (Enter takes it),
+  // unless the run's own order asks for a safety or rail check first.
+  const separating = separatingNext(diagnosis, state, targets.targets);
+  const separatingRef = useRef(separating);
+  separatingRef.current = separating;
+  const keys = useBringUpKeys({ ...b, acceptSuggestion: () => (separatingRef.current ? void b.select(separatingRef.current.check) : b.acceptSuggestion()) }, { isActive, onExit, onDirtyChange: props.onDirtyChange, onTypingChange: props.onTypingChange, reworkDefaults: () => reworkDefaults(plan, b.explanationRef.current.explanations, diagnosisRef.current?.hypotheses[0]) });
   const outputs = useMemo(() => nominalOutputs(plan), [plan]);
   const trace = useMemo(() => (target ? expectedTrace(plan, targets.targets, target, outputs) : null), [plan, targets, target, outputs]);
   const shape = useMemo(() => (trace ? shapeOf(trace.samples) : undefined), [trace]);
@@ -64,7 +80,7 @@ export function BringUpScreen(props: BringUpProps) {
     [trace, layout.traceRows, layout.panelWidth, overlay, captured],
   );
   const powerReading = last ? formatReading(last.value, last.unit) : '';
-  const next = state.suggestion;
+  const next = separating ?? state.suggestion;
   const nextLine = state.ended
     ? `run ended: ${state.ended} · Esc back to the bench`
     : next

@@ -12,7 +12,10 @@ export interface DiagnosisPanelProps {
   readonly width: number;
 }
 
-/** The likely faults after a fail, in bench words with the part's designator, most likely first. */
+/**
+ * The likely faults after a fail, in bench words with the part's designator,
+ * most likely first (the check that best separates them is the screen's next line).
+ */
 function DiagnosisPanelView({ diagnosis, hints, maxLines, width }: DiagnosisPanelProps) {
   const lines: { key: string; text: string; tone?: 'dim' | 'warn' | 'accent' }[] = [];
   diagnosis.hypotheses.slice(0, 3).forEach((h) => {
@@ -22,7 +25,6 @@ function DiagnosisPanelView({ diagnosis, hints, maxLines, width }: DiagnosisPane
   if (diagnosis.hypotheses.length === 0 && diagnosis.unexplained.length > 0) {
     lines.push({ key: 'none', text: 'no single fault reproduces these readings: two faults, a model limit or a slip of the probe?', tone: 'warn' });
   }
-  if (diagnosis.next) lines.push({ key: 'next', text: `to tell them apart: ${diagnosis.next.why}`, tone: 'accent' });
   const separate = diagnosis.hypotheses[0]?.separate;
   if (separate) lines.push({ key: 'sep', text: separate, tone: 'dim' });
   if (diagnosis.hypotheses.length > 0) lines.push({ key: 'rw', text: 'r starts a rework note from hypothesis 1', tone: 'dim' });
