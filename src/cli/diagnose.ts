@@ -111,11 +111,19 @@ export const diagnoseCommand: Command = async (argv, io: CommandIo) => {
   const top = typeof topText === 'string' ? Number(topText) : 5;
   if (!Number.isInteger(top) || top < 1) throw new UsageError(`--top ${String(topText)} is not a count; write a whole number from 1, e.g. --top 3`);
   const { log, board } = await loadBoard(serial, args.options.log, io);
-  const run = pickRun(board, typeof args.options.run === 'string' ? args.options.run : undefined);
-  const plan = await planOf(log, run);
-  const source = planBandSource(log, { cacheDir: resolveCacheDir(io.env) });
-  const bands = await source.get(run.planHash);
-  if (!bands) throw new Error(`the targets of plan ${run.plan} (${run.planHash.slice(0, 12)}) could not be computed: ${source.problems().map((p) => p.message).join('; ')}`);
+  let run: Run;
+  let plan: Plan;
+  let bands: Awaited<ReturnType<ReturnType<typeof planBandSource>['get']>>;
+  try {
+    run = pickRun(board, typeof args.options.run === 'string' ? args.options.run : undefined);
+    plan = await planOf(log, run);
+    const source = planBandSource(log, { cacheDir: resolveCacheDir(io.env) });
+    bands = await source.get(run.planHash);
+    if (!bands) throw new Error(`the targets of plan ${run.plan} (${run.planHash.slice(0, 12)}) could not be computed: ${source.problems().map((p) => p.message).join('; ')}`);
+  } finally {
+    // Everything is read: a shared (PostgreSQL) log lets its connections go.
+    await log.close();
+  }
   const readings = board.readings.filter((r) => r.run === run.id);
   const d = diagnose(plan, [...bands.bands.values()], readings, { top });
   if (args.options.json) io.stdout(`${JSON.stringify(diagnosisJson(board.serial, run.id, run.plan, d))}\n`);

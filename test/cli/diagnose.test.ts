@@ -74,3 +74,22 @@ describe('probebook diagnose', () => {
     expect(help.stdout).toContain('usage: probebook diagnose SERIAL');
   });
 });
+
+describe('probebook diagnose on a PostgreSQL log', () => {
+  test('the same answer as on the folder', async () => {
+    const { freshDatabase } = await import('../helpers/pg-database.js');
+    const db = await freshDatabase('diagnose');
+    try {
+      const pgEnv = { ...env, PROBEBOOK_LOG: db.url };
+      for (const [check, value] of [['rails.+10V.dc', '10.01'], ['ref.out.dc', '3.465']] as const) {
+        const r = await cli(['record', '--plan', biasPlan, '--board', 'D-101', '--check', check, '--value', value], pgEnv);
+        expect(r.status, r.stderr).toBe(0);
+      }
+      const r = await cli(['diagnose', 'D-101', '--json'], pgEnv);
+      expect(r.status, r.stderr).toBe(0);
+      expect(JSON.parse(r.stdout).hypotheses[0]).toMatchObject({ part: 'ref.Rbottom', mode: 'value', value: 3600 });
+    } finally {
+      await db.drop();
+    }
+  });
+});
