@@ -1,3 +1,4 @@
+import { readFile } from 'node:fs/promises';
 import { describe, expect, test } from 'vitest';
 import { diodeShaperKind, type DiodeShaperSettings } from '../../src/circuit/diode-shaper.js';
 import type { EvalInput } from '../../src/circuit/types.js';
@@ -52,8 +53,19 @@ describe('fault modes of the stage kinds', () => {
   // then conducts forward through both diodes on one side (about 2·vf) and needs both to break
   // down on the other (2·vz = 6.6 V here, which the fault-set oscillator's Rz divider, about 9 V,
   // does reach).
-  test.each([0, 1])('a zener fitted backwards (variant %i): the square and the frequency match ngspice within 3 %', (variant) => {
-    const json = { ...(faultSetPlans['osc'] as { stages: object[] }), stages: [(faultSetPlans['osc'] as { stages: object[] }).stages[0]] };
+  // The demo exciter's oscillator too (Rz 2k2, 6.2 V zeners, RV at 0.4): there one side reaches only the
+  // Rz divider's drive (about 9 V, below 2·vz = 12.4 V), so the square reads about 10.2 V peak-to-peak.
+  // On that unclamped side the model leaves out the triangle's pull on the square node through R2: ngspice
+  // reads that level 1 % lower, the triangle 3 % smaller and the frequency 3.5 % higher (measured here),
+  // inside the 5 % a faulted part is held to (diagnose-evidence.ts, faultModeError) plus the model's 1.5 %.
+  test.each([
+    ['fault-set', 0],
+    ['fault-set', 1],
+    ['exciter demo', 0],
+  ] as const)('%s oscillator, a zener fitted backwards (variant %i): the square within 3 %, the frequency within 3 % (5 % with one side unclamped) of ngspice', async (which, variant) => {
+    const exciter = JSON.parse(await readFile('demo/exciter.plan.json', 'utf8')) as { stages: object[] };
+    const source = which === 'fault-set' ? (faultSetPlans['osc'] as { stages: object[] }) : exciter;
+    const json = { ...source, checkUncertainty: {}, stages: [source.stages[0]] };
     const plan = loadPlanText(JSON.stringify(json), 'zener.plan.json');
     const chain = buildChain(plan);
     const model = chain.detail(chain.nominal, { stage: 'osc', role: 'clamp', mode: 'reversed', variant }).values;
@@ -64,8 +76,9 @@ describe('fault modes of the stage kinds', () => {
     const sq = readWave(tab['time'] ?? new Float64Array(), tab['v(osc_sq)'] ?? new Float64Array(), 4 * period);
     expect(Math.abs(sq.high - (model['osc.square.high'] as number))).toBeLessThan(0.03 * Math.abs(sq.high) + 0.02);
     expect(Math.abs(sq.low - (model['osc.square.low'] as number))).toBeLessThan(0.03 * Math.abs(sq.low) + 0.02);
-    expect(sq.frequency / (model['osc.freq'] as number)).toBeGreaterThan(0.97);
-    expect(sq.frequency / (model['osc.freq'] as number)).toBeLessThan(1.03);
+    const fTolerance = which === 'fault-set' ? 0.03 : 0.05;
+    expect(sq.frequency / (model['osc.freq'] as number)).toBeGreaterThan(1 - fTolerance);
+    expect(sq.frequency / (model['osc.freq'] as number)).toBeLessThan(1 + fTolerance);
     // One side at about two forward drops (2 × 0.65 V, with the knee's spread), the other near −2·vz.
     const forward = variant === 0 ? sq.high : -sq.low;
     expect(forward).toBeGreaterThan(1.1);
