@@ -55,9 +55,11 @@ export const valueReach = 30;
 
 function range(v: ChainVariable): [number, number] {
   if (v.stage === 'rails') return [0.05, 1.5];
-  // Junction drops and current gains stray within a factor of two at most (common practice, no source); zener voltages further.
-  if (v.unit === 'V' && /(^|\.)vz2?$/.test(v.role)) return [0.2, 5];
-  if (v.unit === 'V' || v.unit === 'V/V') return [0.5, 2];
+  // A silicon junction drops 0.55–0.8 V whatever is wrong with it, and a current gain strays within a factor
+  // of two (common practice, no source); zener and bias voltages may be anything another part gives.
+  if (v.unit === 'V' && /(^|\.)(vbe|vd|vf2?)$/.test(v.role)) return [0.8, 1.25];
+  if (v.unit === 'V/V') return [0.5, 2];
+  if (v.unit === 'V') return [0.2, 5];
   return [1 / valueReach, valueReach];
 }
 

@@ -67,7 +67,8 @@ function simulate(c: FaultCase, seed: number): Outcome['readings'] {
   const deck = boardDeck(plan, c.fault);
   const { period, dc } = timing(plan, c);
   const names = Object.values(deck.nodes);
-  const stop = dc ? period : 9 * period;
+  // Twelve periods, read over the last six: a lopsided oscillator (one side unclamped) takes a few to settle.
+  const stop = dc ? period : 12 * period;
   const step = dc ? period / 100 : period / 1500;
   const tab = runSpice(deck.netlist, `tran ${step.toExponential(4)} ${stop.toExponential(4)} 0 ${step.toExponential(4)} uic`, names.map((n) => `v(${n})`));
   const t = tab['time'] ?? new Float64Array();
@@ -75,7 +76,7 @@ function simulate(c: FaultCase, seed: number): Outcome['readings'] {
   const wave = (output: string): WaveReading => {
     let w = waves.get(output);
     if (!w) {
-      w = readWave(t, tab[`v(${deck.nodes[output]})`] ?? new Float64Array(), dc ? period / 2 : 4 * period);
+      w = readWave(t, tab[`v(${deck.nodes[output]})`] ?? new Float64Array(), dc ? period / 2 : 6 * period);
       waves.set(output, w);
     }
     return w;

@@ -72,8 +72,8 @@ describe('fault modes of the stage kinds', () => {
     const period = 1 / (model['osc.freq'] as number);
     const deck = boardDeck(plan, { stage: 'osc', role: 'clamp', mode: 'reversed', variant });
     const step = period / 2000;
-    const tab = runSpice(deck.netlist, `tran ${step.toExponential(4)} ${(9 * period).toExponential(4)} 0 ${step.toExponential(4)} uic`, ['v(osc_sq)']);
-    const sq = readWave(tab['time'] ?? new Float64Array(), tab['v(osc_sq)'] ?? new Float64Array(), 4 * period);
+    const tab = runSpice(deck.netlist, `tran ${step.toExponential(4)} ${(16 * period).toExponential(4)} 0 ${step.toExponential(4)} uic`, ['v(osc_sq)']);
+    const sq = readWave(tab['time'] ?? new Float64Array(), tab['v(osc_sq)'] ?? new Float64Array(), 8 * period);
     expect(Math.abs(sq.high - (model['osc.square.high'] as number))).toBeLessThan(0.03 * Math.abs(sq.high) + 0.02);
     expect(Math.abs(sq.low - (model['osc.square.low'] as number))).toBeLessThan(0.03 * Math.abs(sq.low) + 0.02);
     const fTolerance = which === 'fault-set' ? 0.03 : 0.05;
