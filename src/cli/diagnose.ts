@@ -2,13 +2,14 @@ import { type Diagnosis, diagnose } from '../analysis/diagnose.js';
 import type { BoardFile, Run } from '../log/types.js';
 import { loadPlanText } from '../plan/load.js';
 import type { Plan } from '../plan/types.js';
-import { planBandSource, resolveCacheDir } from '../ui/batch/plan-bands.js';
+import { planBandSource } from '../ui/batch/plan-bands.js';
 import { parseArgs } from './args.js';
 import type { Command, CommandIo } from './command.js';
 import { UsageError } from './errors.js';
 import { loadBoard } from './history.js';
+import { cacheHelp, targetsCacheFor } from './targets-cache.js';
 
-const usage = 'probebook diagnose SERIAL [--run ID] [--top N] [--json] [--log DIR]';
+const usage = 'probebook diagnose SERIAL [--run ID] [--top N] [--json] [--log DIR] [--cache DIR]';
 
 const help = `usage: ${usage}
   which single part on the board explains its readings, and how (wrong value, open,
@@ -18,7 +19,8 @@ const help = `usage: ${usage}
   --top N    list at most N hypotheses (default 5)
   --json     {"serial","run","plan","hypotheses":[{"rank","part","ref","mode","value",
              "label","score","explains","predicted"}],"unexplained":[…]}
-`;
+  --log DIR  the log to read (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook); only read, never created
+${cacheHelp}`;
 
 /** The run to diagnose: the one named (an id or a unique start of one), else the latest with readings. */
 export function pickRun(board: BoardFile, wanted: string | undefined): Run {
@@ -100,7 +102,7 @@ async function planOf(log: { readPlanSnapshot(hash: string): Promise<string | nu
 
 /** `probebook diagnose SERIAL` (DESIGN §5a, §7). */
 export const diagnoseCommand: Command = async (argv, io: CommandIo) => {
-  const args = parseArgs(argv, { options: { json: 'boolean', log: 'string', help: 'boolean', run: 'string', top: 'string' }, positionals: [0, 1], usage });
+  const args = parseArgs(argv, { options: { json: 'boolean', log: 'string', cache: 'string', help: 'boolean', run: 'string', top: 'string' }, positionals: [0, 1], usage });
   if (args.options.help) {
     io.stdout(help);
     return 0;
@@ -110,6 +112,8 @@ export const diagnoseCommand: Command = async (argv, io: CommandIo) => {
   const topText = args.options.top;
   const top = typeof topText === 'string' ? Number(topText) : 5;
   if (!Number.isInteger(top) || top < 1) throw new UsageError(`--top ${String(topText)} is not a count; write a whole number from 1, e.g. --top 3`);
+  // Every argument is checked before the log is opened.
+  const cache = targetsCacheFor(args.options.cache, io);
   const { log, board } = await loadBoard(serial, args.options.log, io);
   let run: Run;
   let plan: Plan;
@@ -117,7 +121,7 @@ export const diagnoseCommand: Command = async (argv, io: CommandIo) => {
   try {
     run = pickRun(board, typeof args.options.run === 'string' ? args.options.run : undefined);
     plan = await planOf(log, run);
-    const source = planBandSource(log, { cacheDir: resolveCacheDir(io.env) });
+    const source = planBandSource(log, cache);
     bands = await source.get(run.planHash);
     if (!bands) throw new Error(`the targets of plan ${run.plan} (${run.planHash.slice(0, 12)}) could not be computed: ${source.problems().map((p) => p.message).join('; ')}`);
   } finally {
