@@ -87,9 +87,9 @@ export function shortLabel(h: Labelled, ref: string | null, deviating: readonly 
 
 /**
  * A hypothesis in bench words with its designator, e.g.
- * `osc.clamp (D3/D4) reversed — upper zener fitted backwards: osc.square.vpp would read 1.3 V`.
+ * * `osc.clamp (D3/D4) reversed — zener pair, high-side zener backwards: osc.square.high would read 1.3 V`.
  */
-export function hypothesisLabel(plan: Plan, chain: Chain, h: Labelled, ref: string | null, deviating: readonly Evidence[]): string {
+export function hypothesisLabel(chain: Chain, h: Labelled, ref: string | null, deviating: readonly Evidence[]): string {
   const name = `${h.part}${ref ? ` (${ref})` : ''}`;
   let what: string;
   if (h.mode === 'value' && h.value !== null && h.unit) {

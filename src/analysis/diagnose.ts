@@ -181,7 +181,7 @@ function rank(plan: Plan, chain: Chain, evidence: readonly Evidence[], raws: rea
   const entry = (i: number) => {
     const r = raws[i] as Raw;
     const ref = refOf(plan, r.stage, r.role);
-    return { r, ref, score: total > 0 ? (posts[i] as number) / total : 0, label: hypothesisLabel(plan, chain, r, ref, deviating) };
+    return { r, ref, score: total > 0 ? (posts[i] as number) / total : 0, label: hypothesisLabel(chain, r, ref, deviating) };
   };
   const hypotheses: Hypothesis[] = groups.slice(0, top).map((g, n) => {
     const [head, ...rest] = g.map(entry);
@@ -189,7 +189,10 @@ function rank(plan: Plan, chain: Chain, evidence: readonly Evidence[], raws: rea
     const record = (p: Float64Array, only?: readonly Evidence[]) => {
       const o: Record<string, number> = {};
       if (only) for (const e of only) o[e.check] = p[e.index] as number;
-      else chain.checks.forEach((c, k) => (o[c.check] = p[k] as number));
+      else
+        chain.checks.forEach((c, k) => {
+          o[c.check] = p[k] as number;
+        });
       return o;
     };
     const alternatives: Alternative[] = rest.map((a) => ({ part: a.r.part, ref: a.ref, mode: a.r.mode, value: a.r.value, label: a.label, variantWords: a.r.variantWords, score: a.score, predictedAll: record(a.r.predicted) }));
