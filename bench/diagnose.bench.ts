@@ -41,7 +41,7 @@ function readingsFor(values: Readonly<Record<string, number>>): DiagnosisReading
     });
 }
 
-const faulted = readingsFor(chain.detail(chain.nominal, { stage: 'osc', role: 'clamp', mode: 'reversed', variant: 0 }).values);
+const faulted = readingsFor(chain.detail(chain.nominal, undefined, { stage: 'osc', role: 'clamp', mode: 'reversed', variant: 0 }).values);
 const healthy = readingsFor(chain.detail(chain.nominal).values);
 const out = new Float64Array(chain.checks.length);
 

@@ -265,7 +265,7 @@ async function faultyBoard(serial: string, what: string, change: { part?: string
   const chain = buildChain(exciterPlan);
   const x = Float64Array.from(chain.nominal);
   if (change.part) x[chain.variables.findIndex((v) => v.name === change.part)] = change.value ?? Number.NaN;
-  const predicted = chain.detail(x, change.fault).values;
+  const predicted = chain.detail(x, undefined, change.fault).values;
   const b = await newBoard(log, exciterPlan, exciterTargets, serial);
   const firstStage = exciterTargets.find((t) => t.phase === 'stage');
   await readGood(b, undefined, firstStage?.check);

@@ -3,11 +3,16 @@ import { dividerKind } from './divider.js';
 import { diodeShaperKind } from './diode-shaper.js';
 import { invertingAmpKind } from './inverting-amp.js';
 import { manualKind } from './manual.js';
+import { mfbBandpassKind } from './mfb-bandpass.js';
 import { noninvertingAmpKind } from './noninverting-amp.js';
 import { pushPullKind } from './push-pull.js';
 import { rcLowpassKind } from './rc-lowpass.js';
+import { rcHighpassKind } from './rc-highpass.js';
+import { sallenKeyHighpassKind } from './sallen-key-highpass.js';
+import { sallenKeyLowpassKind } from './sallen-key-lowpass.js';
 import { schmittIntegratorKind } from './schmitt-integrator.js';
 import { signalInKind } from './signal-in.js';
+import { wienBridgeKind } from './wien-bridge.js';
 
 /** Every stage kind, by the name a plan uses. Adding a kind: one file and one line here. */
 export const stageKinds: Readonly<Record<string, StageKind<unknown>>> = {
@@ -20,4 +25,9 @@ export const stageKinds: Readonly<Record<string, StageKind<unknown>>> = {
   divider: dividerKind as StageKind<unknown>,
   'signal-in': signalInKind as StageKind<unknown>,
   manual: manualKind as StageKind<unknown>,
+  'rc-highpass': rcHighpassKind as StageKind<unknown>,
+  'sallen-key-lowpass': sallenKeyLowpassKind as StageKind<unknown>,
+  'sallen-key-highpass': sallenKeyHighpassKind as StageKind<unknown>,
+  'mfb-bandpass': mfbBandpassKind as StageKind<unknown>,
+  'wien-bridge': wienBridgeKind as StageKind<unknown>,
 };

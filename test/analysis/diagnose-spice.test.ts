@@ -57,7 +57,7 @@ function timing(plan: Plan, c: FaultCase): { period: number; dc: boolean } {
   const nominal = 1 / (chain.detail(chain.nominal).values['osc.freq'] ?? 1000);
   const x = Float64Array.from(chain.nominal);
   for (const [name, v] of Object.entries(c.fault.values ?? {})) x[chain.variables.findIndex((w) => w.name === name)] = v;
-  const f = chain.detail(x, c.fault.mode && c.fault.stage && c.fault.role ? { stage: c.fault.stage, role: c.fault.role, mode: c.fault.mode, variant: c.fault.variant ?? 0 } : undefined).values['osc.freq'];
+  const f = chain.detail(x, undefined, c.fault.mode && c.fault.stage && c.fault.role ? { stage: c.fault.stage, role: c.fault.role, mode: c.fault.mode, variant: c.fault.variant ?? 0 } : undefined).values['osc.freq'];
   const faulted = f !== undefined && f > 0 ? 1 / f : nominal;
   return { period: Math.min(20 * nominal, Math.max(nominal, faulted)), dc: false };
 }

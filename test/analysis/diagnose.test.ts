@@ -26,7 +26,7 @@ function readingsOf(plan: Plan, targets: readonly Target[], checks: readonly str
   const chain = buildChain(plan);
   const x = Float64Array.from(chain.nominal);
   if (change.part) x[chain.variables.findIndex((v) => v.name === change.part)] = change.value ?? Number.NaN;
-  const values = chain.detail(x, change.fault).values;
+  const values = chain.detail(x, undefined, change.fault).values;
   return checks.map((check) => {
     const t = targets.find((u) => u.check === check) as Target;
     const value = Number.isFinite(values[check]) ? (values[check] as number) : 0;

@@ -1,7 +1,7 @@
 import type { Hypothesis } from '../../analysis/diagnose.js';
 import type { Plan } from '../../plan/types.js';
 import { formatValue } from '../../units/format.js';
-import type { ReworkFields } from './use-bring-up-state.js';
+import type { ReworkFields } from './screen-state.js';
 import type { ExplanationView } from './verdict-panel.js';
 
 /** What was found, for the note's "from" when the fault is not a value. */
