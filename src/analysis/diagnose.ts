@@ -183,6 +183,9 @@ function rank(plan: Plan, chain: Chain, evidence: readonly Evidence[], raws: rea
     const ref = refOf(plan, r.stage, r.role);
     return { r, ref, score: total > 0 ? (posts[i] as number) / total : 0, label: hypothesisLabel(chain, r, ref, deviating) };
   };
+  // A group counts with all its members: faults the readings cannot tell apart share the evidence.
+  const weightOf = (g: readonly number[]) => g.reduce((sum, i) => sum + (posts[i] as number), 0);
+  groups.sort((a, b) => weightOf(b) - weightOf(a));
   const hypotheses: Hypothesis[] = groups.slice(0, top).map((g, n) => {
     const [head, ...rest] = g.map(entry);
     const h = head as ReturnType<typeof entry>;

@@ -86,6 +86,9 @@ describe('diagnose', () => {
     const d = diagnose(filter, filterTargets, readingsOf(filter, filterTargets, ['rails.+12V.dc', 'in.out.vpp', 'filt.out.vpp', 'amp.gain', 'amp.out.vpp'], { part: 'amp.Rf', value: 220e3 }));
     const total = d.hypotheses.reduce((s, h) => s + h.score, 0);
     expect(total).toBeCloseTo(1, 6);
+    // Ranked by score, a group by its members' summed score.
+    const scores = d.hypotheses.map((h) => h.score);
+    expect(scores).toEqual([...scores].sort((a, b) => b - a));
     const first = d.hypotheses[0];
     expect(first?.valueClass).toMatch(/decade/);
   });
