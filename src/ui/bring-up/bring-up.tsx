@@ -80,6 +80,8 @@ export function BringUpScreen(props: BringUpProps) {
     : next
       ? `next: ${next.check} — ${next.why}${next.check === state.selected ? '' : ' (Enter)'}`
       : 'every check has a reading: e ends the run';
+  const source = target ? run.instrumentFor(target.check, target.unit) : null;
+  const placeholder = `${next && next.check !== state.selected ? 'type a reading, or Enter for the next check' : 'type a reading'}${source ? `; m reads ${source.name} (${source.query})` : ''}`;
   const body = (() => {
     if (focus === 'help') {
       const help = bringUpHelpFor(ui.screen.helpFrom, state.isPowerOff);
@@ -105,7 +107,7 @@ export function BringUpScreen(props: BringUpProps) {
               {!isOverlay && last && lastTarget && verdict && layout.verdictRows > 0 ? <VerdictPanel reading={last} target={lastTarget} result={verdict} explanations={explained} hints={diagnosisRows > 0 ? [] : explanation.hints} maxLines={Math.max(2, layout.verdictRows - diagnosisRows)} width={layout.panelWidth} /> : null}
               {!isOverlay && diagnosis && diagnosisRows > 0 && layout.verdictRows > 2 ? <DiagnosisPanel diagnosis={diagnosis} hints={explanation.hints} maxLines={Math.min(diagnosisRows + 1, layout.verdictRows - 2)} width={layout.panelWidth} /> : null}
               <Text wrap="truncate-end" {...toneProps('accent')}>{nextLine}</Text>
-              <InputLine check={state.selected} text={ui.reading.value} cursor={ui.reading.cursor} status={status} isFocused={focus === 'input'} placeholder={next && next.check !== state.selected ? 'type a reading, or Enter for the next check' : 'type a reading'} width={layout.panelWidth} />
+              <InputLine check={state.selected} text={ui.reading.value} cursor={ui.reading.cursor} status={status} isFocused={focus === 'input'} placeholder={placeholder} width={layout.panelWidth} />
             </>
           )}
         </Box>
