@@ -172,7 +172,9 @@ function lawAt(x: number): number {
 function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   const source = input.input;
   if (!source) throw new Error('push-pull: no input waveform; the plan must name an "input"');
-  if (input.settings.hasNetwork) return evaluateNetwork(input, source);
+  // The network solver takes a wrong load value; an open or shorted transistor or bias diode is
+  // evaluated by the follower law below instead (its bias resistors then only set the fight current).
+  if (input.settings.hasNetwork && !isActiveFault(input.fault)) return evaluateNetwork(input.fault ? { ...input, parts: faultedParts(input, ['Rload']) } : input, source);
   const vbe = input.parts['vbe'] ?? defaultVbe;
   const hfe = input.parts['hfe'] ?? defaultHfe;
   // An open or shorted load resistor is a huge or tiny one (src/circuit/faults.ts).
@@ -285,13 +287,18 @@ function inputImpedance(x: ImpedanceInput<PushPullSettings>, f: number): { re: n
   return { re: g > 0 ? 1 / g : Number.POSITIVE_INFINITY, im: 0 };
 }
 
+/** A fault on an output transistor or a bias diode (the follower law models those, not the network solver). */
+function isActiveFault(f: EvalInput<PushPullSettings>['fault']): boolean {
+  return f !== undefined && /^(Q|bias)\[[01]\]$/.test(f.role);
+}
+
 /**
- * Fault modes (DESIGN §5a). The stage solved as built from its bias network
- * (`Rb1`, `Rb2`: push-pull-network.ts) has none yet: its parts' values still
- * count, as every toleranced part's do.
+ * Fault modes (DESIGN §5a): an output transistor open, a bias diode not fitted
+ * or shorted, the load open or shorted. With a bias network (`Rb1`, `Rb2`) the
+ * transistor and diode faults are evaluated by the follower law, not by the
+ * network solver (a first-order model of the faulted stage).
  */
 function faults(settings: PushPullSettings): readonly PartFaults[] {
-  if (settings.hasNetwork) return [];
   const list: PartFaults[] = [
     { role: 'Q[0]', modes: ['open'], description: 'upper (NPN) output transistor' },
     { role: 'Q[1]', modes: ['open'], description: 'lower (PNP) output transistor' },
