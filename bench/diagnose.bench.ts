@@ -1,6 +1,7 @@
 // Diagnosis speed: `diagnose` on the exciter demo board with a zener of its clamp
-// pair fitted backwards, every check read (28 readings since the driver's bias network came in) (the rails and every stage check, as the demo
-// log's EXB-0110 has them, with the unpowered and first-power checks), every hypothesis verified through the whole chain.
+// pair fitted backwards, every check read as the demo log's EXB-0110 has them
+// (28 readings since the driver's bias network came in, the unpowered and
+// first-power checks included), every hypothesis verified through the whole chain.
 // Goal: under 300 ms in process (a warm process, excluding Node start-up and the
 // targets, which the screen and the command have cached). Against it, one chain
 // evaluation (the unit of work: the search makes a few hundred) and an all-pass
