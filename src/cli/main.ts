@@ -13,6 +13,7 @@ export const usage = `usage:
   probebook record --plan PLAN --board SERIAL --check ID --value TEXT [--operator NAME] [--json]
   probebook record --plan PLAN --board SERIAL --check ID --from INSTRUMENT [--instruments FILE] [--json]
   probebook history SERIAL [--json]
+  probebook diagnose SERIAL [--run ID] [--top N] [--json]
   probebook batch [--plan ID] [--check ID] [--json]
   probebook report SERIAL --format md|csv
   probebook report --batch --format md|csv
@@ -45,6 +46,7 @@ export const commands: Readonly<Record<string, () => Promise<Command>>> = {
   analyze: async () => (await import('./analyze.js')).analyzeCommand,
   record: async () => (await import('./record.js')).recordCommand,
   history: async () => (await import('./history.js')).historyCommand,
+  diagnose: async () => (await import('./diagnose.js')).diagnoseCommand,
   batch: async () => (await import('./batch.js')).batchCommand,
   report: async () => (await import('./report.js')).reportCommand,
   instruments: async () => (await import('./instruments.js')).instrumentsCommand,

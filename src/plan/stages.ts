@@ -132,6 +132,13 @@ export function resolveStages(
         throw new PlanError(file, `${path}.testPoints.${key}`, `${JSON.stringify(key)} is not an output or check of a ${raw.kind} stage; use one of ${quoteList([...module.outputs, ...checkKeys])}`);
       }
     }
+    const refs: Record<string, string> = { ...(raw.refs ?? {}) };
+    const faultRoles = module.faults?.(parsed.settings).map((f) => f.role) ?? [];
+    for (const key of Object.keys(refs)) {
+      if (!(key in parts) && !faultRoles.includes(key)) {
+        throw new PlanError(file, `${path}.refs.${key}`, `${JSON.stringify(key)} is not a part of this ${raw.kind} stage; use one of ${quoteList([...Object.keys(parts), ...faultRoles.filter((r) => !(r in parts))])}`);
+      }
+    }
     if (module.needsInput && raw.input === undefined) {
       throw new PlanError(file, `${path}.input`, `a ${raw.kind} stage needs an input; write the upstream output, e.g. "input": "osc.triangle"`);
     }
@@ -145,6 +152,7 @@ export function resolveStages(
       parts,
       settings: parsed.settings,
       testPoints,
+      ...(Object.keys(refs).length > 0 ? { refs } : {}),
       opamp: opampSpec.model,
       opampSpread: opampSpec.spread,
       ...(raw.opamp ? { hasOwnOpamp: true } : {}),
