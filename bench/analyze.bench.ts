@@ -111,7 +111,7 @@ for (const n of sizes) {
   const pb: Timed[][] = contenders.map(() => []);
   for (let r = 0; r < rounds; r++) {
     read.push(readBytes(file));
-    contenders.forEach((c, i) => pb[i]?.push(timed([process.execPath, c.command, 'analyze', file, '--json'])));
+    for (const [i, c] of contenders.entries()) pb[i]?.push(timed([process.execPath, c.command, 'analyze', file, '--json']));
     if (hasNumpy) np.push(timed(['python3', join('bench', 'analyze_reference.py'), file]));
   }
   const ours = JSON.parse(pb[0]?.[0]?.out ?? '{}') as Record<string, number>;
