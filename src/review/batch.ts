@@ -7,22 +7,62 @@ import { boardMatches, checkMatches, type BatchFilter } from './filter.js';
 import { spreadOf } from './stats.js';
 
 /**
- * One check's points, kept as parallel columns while boards are added (a batch
- * of 10,000 boards × 60 checks would otherwise build 600,000 point objects that
- * `batch --json` never prints); the point objects are made when first asked for.
+ * One check's points, kept as parallel typed columns while boards are added (a
+ * batch of 10,000 boards × 60 checks would otherwise build 600,000 point objects
+ * that `batch --json` never prints, and their garbage); the point objects are
+ * made when first asked for. Measured in bench/review.bench.ts.
  */
-interface Group {
-  readonly plan: string | null;
-  readonly check: string;
+class Group {
+  n = 0;
+  values = new Float64Array(16);
+  /** The latest reading's time in ms when its text is canonical ISO 8601, else NaN (compare the texts then). */
+  atMs = new Float64Array(16);
+  /** The time's text: a row of the columns (≥ 0), or −1 − k for `texts[k]`. */
+  atRef = new Int32Array(16);
+  /** Position of the point's board in the accumulator's board list. */
+  board = new Int32Array(16);
+  /** Verdict codes (0 pass, 1 marginal, 2 fail): latest | first << 2. */
+  verdicts = new Uint8Array(16);
+  readonly texts: string[] = [];
+
+  constructor(
+    readonly plan: string | null,
+    readonly check: string,
+  ) {}
+
+  push(value: number, atMs: number, atRef: number | string, board: number, verdicts: number): void {
+    if (this.n === this.values.length) this.#grow();
+    const i = this.n++;
+    this.values[i] = value;
+    this.atMs[i] = atMs;
+    if (typeof atRef === 'string') {
+      this.texts.push(atRef);
+      this.atRef[i] = -this.texts.length;
+    } else this.atRef[i] = atRef;
+    this.board[i] = board;
+    this.verdicts[i] = verdicts;
+  }
+
+  #grow(): void {
+    const size = this.values.length * 2;
+    const grown = <T extends Float64Array | Int32Array | Uint8Array>(a: T, make: new (n: number) => T): T => {
+      const b = new make(size);
+      b.set(a);
+      return b;
+    };
+    this.values = grown(this.values, Float64Array);
+    this.atMs = grown(this.atMs, Float64Array);
+    this.atRef = grown(this.atRef, Int32Array);
+    this.board = grown(this.board, Int32Array);
+    this.verdicts = grown(this.verdicts, Uint8Array);
+  }
+}
+
+/** What the figures need of the boards added: the board and its plan revision's number (−1: none). */
+interface BoardList {
   readonly boards: BoardSummary[];
-  readonly values: number[];
-  /** The latest reading's time in ms when its text is canonical ISO 8601, else NaN (compare `at` texts then). */
-  readonly atMs: number[];
-  /** The time's text, or the row of `columns` that gives it. */
-  readonly atRef: (number | string)[];
-  /** Verdict codes: 0 pass, 1 marginal, 2 fail. */
-  readonly verdicts: number[];
-  readonly firstVerdicts: number[];
+  readonly revisionOf: number[];
+  readonly revisions: string[];
 }
 
 const verdictNames: readonly Verdict[] = ['pass', 'marginal', 'fail'];
@@ -45,6 +85,8 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
   const leftOut = new Set(damaged.map((d) => d.serial));
   const boardProblems: BatchProblem[] = damaged.map((d) => ({ serial: d.serial, message: `board ${d.serial} is left out of these figures: ${d.message}` }));
   const groups = new Map<string | null, Map<string, Group>>();
+  const list: BoardList = { boards: [], revisionOf: [], revisions: [] };
+  const revisionAt = new Map<string, number>();
   // Per plan, the group of each column check id (no string lookups per reading on the column path).
   const groupsByColumn = new Map<string | null, (Group | undefined)[]>();
   // Which column check ids the current board has: `seen[id] === boardNo`.
@@ -62,7 +104,7 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
     let byCheck = groups.get(plan);
     if (!byCheck) groups.set(plan, (byCheck = new Map()));
     let group = byCheck.get(check);
-    if (!group) byCheck.set(check, (group = { plan, check, boards: [], values: [], atMs: [], atRef: [], verdicts: [], firstVerdicts: [] }));
+    if (!group) byCheck.set(check, (group = new Group(plan, check)));
     return group;
   };
   const inDates = (ms: number): boolean => {
@@ -72,7 +114,7 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
     return true;
   };
   /** The board's check rows through the columns; returns [any, firstOk, finalOk]. */
-  const addColumns = (board: BoardSummary, c: CheckColumns, b: number): [boolean, boolean, boolean] => {
+  const addColumns = (at: number, board: BoardSummary, c: CheckColumns, b: number): [boolean, boolean, boolean] => {
     boardNo++;
     let byColumn = groupsByColumn.get(board.plan);
     if (!byColumn) groupsByColumn.set(board.plan, (byColumn = []));
@@ -97,16 +139,11 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
         group = groupOf(board.plan, c.checkIds[id] ?? '');
         byColumn[id] = group;
       }
-      group.boards.push(board);
-      group.values.push(c.latestValue[r] ?? Number.NaN);
-      group.atMs.push(ms);
-      group.atRef.push(r);
-      group.verdicts.push(latest);
-      group.firstVerdicts.push(first);
+      group.push(c.latestValue[r] ?? Number.NaN, ms, r, at, code);
     }
     return [any, firstOk, finalOk];
   };
-  const addObjects = (board: BoardSummary, checks: BoardSummary['checks']): [boolean, boolean, boolean] => {
+  const addObjects = (at: number, board: BoardSummary, checks: BoardSummary['checks']): [boolean, boolean, boolean] => {
     let any = false;
     let firstOk = true;
     let finalOk = true;
@@ -117,12 +154,7 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
       if (summary.first.verdict !== 'pass') firstOk = false;
       if (summary.latest.verdict !== 'pass') finalOk = false;
       const group = groupOf(board.plan, check);
-      group.boards.push(board);
-      group.values.push(summary.latest.value);
-      group.atMs.push(Number.NaN);
-      group.atRef.push(summary.latest.at);
-      group.verdicts.push(codeOf(summary.latest.verdict));
-      group.firstVerdicts.push(codeOf(summary.first.verdict));
+      group.push(summary.latest.value, Number.NaN, summary.latest.at, at, codeOf(summary.latest.verdict) | (codeOf(summary.first.verdict) << 2));
     }
     return [any, firstOk, finalOk];
   };
@@ -146,8 +178,19 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
       const b = columns ? columns.rowsOf(board.serial) : -1;
       // Read once: the store may hand out `checks` through a lazy getter.
       let checks: BoardSummary['checks'] | undefined;
-      const [any, firstOk, finalOk] = columns && b >= 0 ? addColumns(board, columns, b) : addObjects(board, (checks = board.checks));
+      const at = list.boards.length;
+      const [any, firstOk, finalOk] = columns && b >= 0 ? addColumns(at, board, columns, b) : addObjects(at, board, (checks = board.checks));
       if (!any) return;
+      list.boards.push(board);
+      let revision = -1;
+      if (board.planHash) {
+        revision = revisionAt.get(board.planHash) ?? list.revisions.length;
+        if (revision === list.revisions.length) {
+          list.revisions.push(board.planHash);
+          revisionAt.set(board.planHash, revision);
+        }
+      }
+      list.revisionOf.push(revision);
       boards++;
       if (firstOk) firstPassBoards++;
       if (finalOk) finalPassBoards++;
@@ -155,7 +198,7 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
       if (own && filter.check === undefined && lacksCheck(own, checks ? () => checks as BoardSummary['checks'] : null)) incomplete++;
     },
     finish(problems = []) {
-      const checks = [...groups.values()].flatMap((byCheck) => [...byCheck.values()].map((g) => checkFigures(g, bands, latestAt)));
+      const checks = [...groups.values()].flatMap((byCheck) => [...byCheck.values()].map((g) => checkFigures(g, list, bands, latestAt)));
       checks.sort(planOrder(bands));
       return {
         boards,
@@ -202,25 +245,27 @@ export function revisionsOf(index: LogIndex, filter: BatchFilter = {}): string[]
 
 /** The text of a point's time. */
 function atText(group: Group, i: number, latestAt: (row: number) => string): string {
-  const ref = group.atRef[i];
-  return typeof ref === 'string' ? ref : latestAt(ref ?? 0);
+  const ref = group.atRef[i] ?? 0;
+  return ref < 0 ? (group.texts[-1 - ref] ?? '') : latestAt(ref);
 }
 
-function checkFigures(group: Group, bands: ReadonlyMap<string, SnapshotBands>, latestAt: (row: number) => string): BatchCheck {
+function checkFigures(group: Group, list: BoardList, bands: ReadonlyMap<string, SnapshotBands>, latestAt: (row: number) => string): BatchCheck {
   // Points stay in index order; the trend sorts the one check it draws.
-  const values = group.values;
+  const n = group.n;
+  const values = group.values.subarray(0, n);
   const spread = spreadOf(values);
-  const own = revisionBands(group.check, bands);
+  // The check's worst-case band per plan revision, looked up once per revision (a batch has few).
+  const own = list.revisions.map((r) => bands.get(r)?.bands.get(group.check)?.worst);
+  const revisionOf = (i: number) => list.revisionOf[group.board[i] ?? 0] ?? -1;
   // The band of the newest revision measured is the one the batch is judged by now.
   // ISO 8601 UTC times as the store writes them compare as strings in time order,
   // and as their milliseconds when both are in that canonical form.
   let bandRevision: string | null = null;
   let newestMs = Number.NaN;
   let newestText: string | null = '';
-  const n = values.length;
   for (let i = 0; i < n; i++) {
-    const revision = group.boards[i]?.planHash ?? null;
-    if (!revision) continue;
+    const revision = revisionOf(i);
+    if (revision < 0) continue;
     const ms = group.atMs[i] ?? Number.NaN;
     let isNewer: boolean;
     if (!Number.isNaN(ms) && !Number.isNaN(newestMs)) isNewer = ms >= newestMs;
@@ -228,28 +273,29 @@ function checkFigures(group: Group, bands: ReadonlyMap<string, SnapshotBands>, l
       newestText ??= new Date(newestMs).toISOString();
       isNewer = atText(group, i, latestAt) >= newestText;
     }
-    if (isNewer && own(revision)) {
+    if (isNewer && own[revision]) {
       newestMs = ms;
       newestText = Number.isNaN(ms) ? atText(group, i, latestAt) : null;
-      bandRevision = revision;
+      bandRevision = list.revisions[revision] ?? null;
     }
   }
   const target = bandRevision ? bands.get(bandRevision)?.bands.get(group.check) : undefined;
   const band: Band | null = target ? target.worst : null;
+  // Which revisions judge by a band other than this one.
+  const differs = own.map((b) => b !== undefined && band !== null && (b.min !== band.min || b.max !== band.max));
   let pass = 0;
   let marginal = 0;
   let fail = 0;
   let firstPass = 0;
   let bandsDiffer = false;
   for (let i = 0; i < n; i++) {
-    const v = group.verdicts[i];
+    const code = group.verdicts[i] ?? 0;
+    const v = code & 3;
     if (v === 0) pass++;
     else if (v === 1) marginal++;
     else fail++;
-    if (group.firstVerdicts[i] === 0) firstPass++;
-    const revision = group.boards[i]?.planHash;
-    const ownBand = revision ? own(revision) : undefined;
-    if (ownBand && band && (ownBand.min !== band.min || ownBand.max !== band.max)) bandsDiffer = true;
+    if (code >> 2 === 0) firstPass++;
+    if (!bandsDiffer && differs[revisionOf(i)]) bandsDiffer = true;
   }
   const capability = capabilityOf(spread, band);
   let points: BatchPoint[] | undefined;
@@ -275,64 +321,49 @@ function checkFigures(group: Group, bands: ReadonlyMap<string, SnapshotBands>, l
     finalYield: n > 0 ? pass / n : null,
     status: capability.status,
     note: capability.note,
-    outliers: outliersOf(group, spread.mean, spread.sd, band, own, latestAt),
+    outliers: outliersOf(group, list, spread.mean, spread.sd, band, own, latestAt),
     points: [],
   };
   // Made on first use (the screens' histogram and trend), never for `batch --json`.
   return Object.defineProperty(out, 'points', {
     enumerable: true,
-    get: () => (points ??= pointsOf(group, latestAt)),
+    get: () => (points ??= pointsOf(group, list, latestAt)),
   });
 }
 
-function pointsOf(group: Group, latestAt: (row: number) => string): BatchPoint[] {
+function pointsOf(group: Group, list: BoardList, latestAt: (row: number) => string): BatchPoint[] {
   const out: BatchPoint[] = [];
-  for (let i = 0; i < group.values.length; i++) {
-    const board = group.boards[i];
+  for (let i = 0; i < group.n; i++) {
+    const board = list.boards[group.board[i] ?? 0];
+    const code = group.verdicts[i] ?? 0;
     out.push({
       serial: board?.serial ?? '',
       value: group.values[i] ?? Number.NaN,
       at: atText(group, i, latestAt),
-      verdict: verdictNames[group.verdicts[i] ?? 2] ?? 'fail',
-      firstVerdict: verdictNames[group.firstVerdicts[i] ?? 2] ?? 'fail',
+      verdict: verdictNames[code & 3] ?? 'fail',
+      firstVerdict: verdictNames[code >> 2] ?? 'fail',
       revision: board?.planHash ?? null,
     });
   }
   return out;
 }
 
-/** A check's worst-case band per plan revision, looked up once per revision (a batch has few). */
-function revisionBands(check: string, bands: ReadonlyMap<string, SnapshotBands>): (revision: string) => Band | undefined {
-  const memo = new Map<string, Band | undefined>();
-  let last: string | null = null;
-  let lastBand: Band | undefined;
-  return (revision) => {
-    // Nearly every board of a batch shares one revision: answer that one without a lookup.
-    if (revision === last) return lastBand;
-    last = revision;
-    if (memo.has(revision)) return (lastBand = memo.get(revision));
-    const band = bands.get(revision)?.bands.get(check)?.worst;
-    memo.set(revision, band);
-    return (lastBand = band);
-  };
-}
-
 /** Boards outside the band they were judged by, or more than 3σ from the batch mean. */
 function outliersOf(
   group: Group,
+  list: BoardList,
   mean: number | null,
   sd: number | null,
   band: Band | null,
-  own: (revision: string) => Band | undefined,
+  own: readonly (Band | undefined)[],
   latestAt: (row: number) => string,
 ): Outlier[] {
   const out: Outlier[] = [];
   const hasSpread = mean !== null && sd !== null && sd > 0;
-  for (let i = 0; i < group.values.length; i++) {
+  for (let i = 0; i < group.n; i++) {
     const value = group.values[i] ?? Number.NaN;
-    const board = group.boards[i];
-    const revision = board?.planHash;
-    const judged = (revision ? own(revision) : undefined) ?? band;
+    const b = group.board[i] ?? 0;
+    const judged = own[list.revisionOf[b] ?? -1] ?? band;
     const isOutside = judged !== null && (value < judged.min || value > judged.max);
     const z = hasSpread ? (value - mean) / sd : null;
     // Beyond 3σ: the usual control-chart limit (common practice, no source).
@@ -341,7 +372,7 @@ function outliersOf(
     const reasons: OutlierReason[] = [];
     if (isOutside) reasons.push('outside band');
     if (isFar) reasons.push('beyond 3σ');
-    out.push({ serial: board?.serial ?? '', check: group.check, value, at: atText(group, i, latestAt), reasons, z });
+    out.push({ serial: list.boards[b]?.serial ?? '', check: group.check, value, at: atText(group, i, latestAt), reasons, z });
   }
   return out.sort((a, b) => Math.abs(b.z ?? Infinity) - Math.abs(a.z ?? Infinity) || (a.serial < b.serial ? -1 : 1));
 }
