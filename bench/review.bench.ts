@@ -8,7 +8,6 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { build } from 'esbuild';
 import type { Target } from '../src/analysis/types.js';
 import { uncertaintyFor, verdictFor } from '../src/analysis/verdict.js';
 import { batchCommand } from '../src/cli/batch.js';
@@ -162,28 +161,9 @@ console.log(`batch --json in process (${boards} boards × ${checksPerBoard} chec
   const total = tIndex + tChecks + tBands + tFigures + tJson;
   console.log(`  shares: index ${(tIndex / total).toFixed(2)}, per-check columns ${(tChecks / total).toFixed(2)}, figures ${(tFigures / total).toFixed(2)}, bands+JSON ${((tBands + tJson) / total).toFixed(2)}`);
 }
-const bundle = join(root, 'probebook.js');
-await build({
-  entryPoints: ['src/cli/bin.ts'],
-  outfile: bundle,
-  bundle: true,
-  platform: 'node',
-  format: 'esm',
-  target: 'node20',
-  // As scripts/build.mjs does: a stub for Ink's optional devtools import.
-  plugins: [
-    {
-      name: 'no-devtools',
-      setup(b) {
-        b.onResolve({ filter: /^react-devtools-core$/ }, () => ({ path: 'react-devtools-core', namespace: 'stub' }));
-        b.onLoad({ filter: /.*/, namespace: 'stub' }, () => ({ contents: "throw new Error('react-devtools-core is not bundled');", loader: 'js' }));
-      },
-    },
-  ],
-  define: { 'process.env.NODE_ENV': '"production"' },
-  banner: { js: "import { createRequire as __r } from 'node:module'; const require = __r(import.meta.url);" },
-  logLevel: 'error',
-});
+// The command as users run it: scripts/build.mjs's split bundle (React and Ink stay in a chunk `batch` never loads).
+spawnSync(process.execPath, ['scripts/build.mjs'], { cwd: join(import.meta.dirname, '..'), stdio: 'inherit' });
+const bundle = join(import.meta.dirname, '..', 'dist', 'probebook.js');
 const asProcess: number[] = [];
 for (let i = 0; i < 3; i++) {
   t0 = performance.now();
