@@ -54,17 +54,18 @@ describe('the CSV row loop', () => {
   // quotes, 17 digits, blank lines) and rows far shorter than the head's, so the
   // arrays sized from the file length must grow. Checked against csv-parse (an
   // independent CSV library) and Number().
-  test('mixed rows across many chunks read as csv-parse and Number() read them', () => {
-    const lines = ['Time (s),CH1 (V),CH2 (V)'];
+  test.each([3, 2])('mixed rows across many chunks read as csv-parse and Number() read them (%i columns)', (columns) => {
+    const lines = [columns === 3 ? 'Time (s),CH1 (V),CH2 (V)' : 'Time (s),CH1 (V)'];
+    const third = (text: string): string => (columns === 3 ? `,${text}` : '');
     // A head of long rows makes the length-based estimate of the row count far too small.
-    for (let i = 0; i < 3000; i++) lines.push(`${(i * 1e-6).toExponential(12)},${Math.sin(i / 10).toFixed(12)},${(i / 7).toFixed(12)}`);
+    for (let i = 0; i < 3000; i++) lines.push(`${(i * 1e-6).toExponential(12)},${Math.sin(i / 10).toFixed(12)}${third((i / 7).toFixed(12))}`);
     for (let i = 3000; i < 60000; i++) {
       const t = `${i}e-6`;
       const v = (Math.round(Math.sin(i / 10) * 1000) / 1000).toString();
-      if (i % 997 === 0) lines.push(` ${t}, "${v}" ,${i % 5}`);
-      else if (i % 1009 === 0) lines.push(`${t},${Math.sin(i).toPrecision(17)},${i % 5}`);
-      else if (i % 1013 === 0) lines.push(`${t},${v},${i % 5}\r`);
-      else lines.push(`${t},${v},${i % 5}`);
+      if (i % 997 === 0) lines.push(` ${t}, "${v}" ${third(String(i % 5))}`);
+      else if (i % 1009 === 0) lines.push(`${t},${Math.sin(i).toPrecision(17)}${third(String(i % 5))}`);
+      else if (i % 1013 === 0) lines.push(`${t},${v}${third(String(i % 5))}\r`);
+      else lines.push(`${t},${v}${third(String(i % 5))}`);
       if (i % 4999 === 0) lines.push('');
     }
     const text = `${lines.join('\n')}\n`;
@@ -82,7 +83,7 @@ describe('the CSV row loop', () => {
       const row = rows[i] ?? [];
       // Fields of up to 15 digits are exact; longer ones within a few ulps (number-scan.ts).
       worst = Math.max(worst, Math.abs((a[i] ?? Number.NaN) - (row[1] ?? 0)) / Math.max(1e-300, Math.abs(row[1] ?? 0)));
-      expect(b[i]).toBe(row[2]);
+      if (columns === 3) expect(b[i]).toBe(row[2]);
     }
     expect(worst).toBeLessThan(1e-15);
     expect(c.sampleRate).toBeCloseTo(1e6, 3);
