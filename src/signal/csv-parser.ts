@@ -185,57 +185,65 @@ export class CsvParser {
     let minStep = this.minStep;
     let maxStep = this.maxStep;
     let pos = start;
-    while (pos < limit) {
-      if (rows === capacity) {
-        this.rows = rows;
-        this.grow();
-        columns = this.columns;
-        capacity = this.capacity;
-      }
-      const rowStart = pos;
-      let t = 0;
-      let c = 0;
-      for (; c < n; c++) {
-        const after = scanPlain(buf, pos, decimal);
-        if (after < 0) break; // not a plain number
-        const value = plainValue[0] as number;
-        const b = buf[after];
-        if (c < n - 1) {
-          if (b !== delimiter) break;
-          pos = after + 1;
-        } else if (b === LF) pos = after + 1;
-        else if (b === CR && buf[after + 1] === LF) pos = after + 2;
-        else break;
-        if (c === timeColumn) t = value;
-        else (columns[c] as Float64Array)[rows] = value;
-      }
-      if (c < n) {
-        pos = rowStart;
-        break;
-      }
-      if (timeColumn >= 0) {
-        if (rows === 0) this.t0 = t;
-        else {
-          const step = t - tPrev;
-          if (!(step > 0)) {
-            this.line += rows - this.rows + 1;
-            this.rows = rows;
-            this.tPrev = tPrev;
-            this.time(t); // throws, naming this line and the time before
-          }
-          if (step < minStep) minStep = step;
-          if (step > maxStep) maxStep = step;
+    // The write-back comes first in a two-round loop, so it has run before
+    // the row loop is compiled on the stack; otherwise every call left that
+    // code at the write-back (seen with --trace-deopt). Round 0 writes the
+    // values just read, round 1 the new ones.
+    for (let round = 0; ; round++) {
+      this.line += rows - this.rows;
+      this.rows = rows;
+      this.tPrev = tPrev;
+      this.tLast = tPrev;
+      this.minStep = minStep;
+      this.maxStep = maxStep;
+      if (round === 1) break;
+      while (pos < limit) {
+        if (rows === capacity) {
+          this.line += rows - this.rows;
+          this.rows = rows;
+          this.grow();
+          columns = this.columns;
+          capacity = this.capacity;
         }
-        tPrev = t;
+        const rowStart = pos;
+        let t = 0;
+        let c = 0;
+        for (; c < n; c++) {
+          const after = scanPlain(buf, pos, decimal);
+          if (after < 0) break; // not a plain number
+          const value = plainValue[0] as number;
+          const b = buf[after];
+          if (c < n - 1) {
+            if (b !== delimiter) break;
+            pos = after + 1;
+          } else if (b === LF) pos = after + 1;
+          else if (b === CR && buf[after + 1] === LF) pos = after + 2;
+          else break;
+          if (c === timeColumn) t = value;
+          else (columns[c] as Float64Array)[rows] = value;
+        }
+        if (c < n) {
+          pos = rowStart;
+          break;
+        }
+        if (timeColumn >= 0) {
+          if (rows === 0) this.t0 = t;
+          else {
+            const step = t - tPrev;
+            if (!(step > 0)) {
+              this.line += rows - this.rows + 1;
+              this.rows = rows;
+              this.tPrev = tPrev;
+              this.time(t); // throws, naming this line and the time before
+            }
+            if (step < minStep) minStep = step;
+            if (step > maxStep) maxStep = step;
+          }
+          tPrev = t;
+        }
+        rows++;
       }
-      rows++;
     }
-    this.line += rows - this.rows;
-    this.rows = rows;
-    this.tPrev = tPrev;
-    this.tLast = tPrev;
-    this.minStep = minStep;
-    this.maxStep = maxStep;
     return pos;
   }
 
@@ -254,46 +262,54 @@ export class CsvParser {
     let minStep = this.minStep;
     let maxStep = this.maxStep;
     let pos = start;
-    while (pos < limit) {
-      if (rows === capacity) {
-        this.rows = rows;
-        this.grow();
-        values = this.columns[1] as Float64Array;
-        capacity = this.capacity;
-      }
-      const a = scanPlain(buf, pos, decimal);
-      if (a < 0 || buf[a] !== delimiter) break;
-      const t = plainValue[0] as number;
-      const b = scanPlain(buf, a + 1, decimal);
-      if (b < 0) break;
-      const end = buf[b];
-      let next: number;
-      if (end === LF) next = b + 1;
-      else if (end === CR && buf[b + 1] === LF) next = b + 2;
-      else break;
-      values[rows] = plainValue[0] as number;
-      if (rows === 0) this.t0 = t;
-      else {
-        const step = t - tPrev;
-        if (!(step > 0)) {
-          this.line += rows - this.rows + 1;
+    // The write-back comes first in a two-round loop, so it has run before
+    // the row loop is compiled on the stack; otherwise every call left that
+    // code at the write-back (seen with --trace-deopt). Round 0 writes the
+    // values just read, round 1 the new ones.
+    for (let round = 0; ; round++) {
+      this.line += rows - this.rows;
+      this.rows = rows;
+      this.tPrev = tPrev;
+      this.tLast = tPrev;
+      this.minStep = minStep;
+      this.maxStep = maxStep;
+      if (round === 1) break;
+      while (pos < limit) {
+        if (rows === capacity) {
+          this.line += rows - this.rows;
           this.rows = rows;
-          this.tPrev = tPrev;
-          this.time(t); // throws, naming this line and the time before
+          this.grow();
+          values = this.columns[1] as Float64Array;
+          capacity = this.capacity;
         }
-        if (step < minStep) minStep = step;
-        if (step > maxStep) maxStep = step;
+        const a = scanPlain(buf, pos, decimal);
+        if (a < 0 || buf[a] !== delimiter) break;
+        const t = plainValue[0] as number;
+        const b = scanPlain(buf, a + 1, decimal);
+        if (b < 0) break;
+        const end = buf[b];
+        let next: number;
+        if (end === LF) next = b + 1;
+        else if (end === CR && buf[b + 1] === LF) next = b + 2;
+        else break;
+        values[rows] = plainValue[0] as number;
+        if (rows === 0) this.t0 = t;
+        else {
+          const step = t - tPrev;
+          if (!(step > 0)) {
+            this.line += rows - this.rows + 1;
+            this.rows = rows;
+            this.tPrev = tPrev;
+            this.time(t); // throws, naming this line and the time before
+          }
+          if (step < minStep) minStep = step;
+          if (step > maxStep) maxStep = step;
+        }
+        tPrev = t;
+        rows++;
+        pos = next;
       }
-      tPrev = t;
-      rows++;
-      pos = next;
     }
-    this.line += rows - this.rows;
-    this.rows = rows;
-    this.tPrev = tPrev;
-    this.tLast = tPrev;
-    this.minStep = minStep;
-    this.maxStep = maxStep;
     return pos;
   }
 
