@@ -1,5 +1,6 @@
 import { validateSerial } from '../log/serial.js';
 import { openStore } from '../log/open-store.js';
+import { partWithRef, refsOfPlanText } from '../plan/refs.js';
 import type { LogStore } from '../log/store.js';
 import type { BenchLog, BoardFile } from '../log/types.js';
 import type { SnapshotBands } from '../review/bands.js';
@@ -54,7 +55,7 @@ export function utcOffset(at: Date = new Date()): string {
 }
 
 /** The readable timeline: runs started and ended, readings with their band and deviation, rework notes, captures. */
-export function historyText(board: BoardFile, bands: ReadonlyMap<string, SnapshotBands>, dir: string): string {
+export function historyText(board: BoardFile, bands: ReadonlyMap<string, SnapshotBands>, dir: string, refs: ReadonlyMap<string, string> = new Map()): string {
   const c = historyCounts(board);
   const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
   const lines = [
@@ -79,7 +80,7 @@ export function historyText(board: BoardFile, bands: ReadonlyMap<string, Snapsho
       for (const w of r.warnings ?? []) rows.push({ at: r.at, order: 3, text: `           warning: ${w}` });
     } else if (entry.kind === 'rework') {
       const w = entry.rework;
-      rows.push({ at: w.at, order: 1, text: `rework ${w.part}: ${w.from} → ${w.to}${w.note ? ` — ${w.note}` : ''} (${w.operator})` });
+      rows.push({ at: w.at, order: 1, text: `rework ${partWithRef(w.part, refs)}: ${w.from} → ${w.to}${w.note ? ` — ${w.note}` : ''} (${w.operator})` });
     } else {
       const k = entry.capture;
       rows.push({ at: k.at, order: 2, text: `  capture ${k.name} → captures/${k.file}${k.check ? ` for ${k.check}` : ''}` });
@@ -122,7 +123,10 @@ export const historyCommand: Command = async (argv, io) => {
     return 0;
   }
   const { bands, problems } = await boardBands(log, board, cache);
-  io.stdout(historyText(board, bands, dir));
+  // Parts are named with their reference designators from the latest run's plan.
+  const latest = board.runs[board.runs.length - 1];
+  const refs = refsOfPlanText(latest ? await log.readPlanSnapshot(latest.planHash) : null);
+  io.stdout(historyText(board, bands, dir, refs));
   for (const p of problems) io.stderr(`probebook: warning: ${p}\n`);
   return 0;
 };

@@ -1,3 +1,4 @@
+import { partWithRef, refsOfPlanText } from '../plan/refs.js';
 import { boardState } from '../log/summary.js';
 import type { BoardFile, Reading } from '../log/types.js';
 import type { CheckBand, SnapshotBands } from '../review/bands.js';
@@ -90,7 +91,7 @@ function planTitle(text: string | null): string | null {
 }
 
 /** The board's traveler in Markdown: header, cautions, runs, every reading with its band, rework notes, captures, sign-off. */
-export function boardMarkdown(board: BoardFile, bands: ReadonlyMap<string, SnapshotBands>, info: { titles: ReadonlyMap<string, string | null>; dir: string; printed: Date }): string {
+export function boardMarkdown(board: BoardFile, bands: ReadonlyMap<string, SnapshotBands>, info: { titles: ReadonlyMap<string, string | null>; dir: string; printed: Date; refs?: ReadonlyMap<string, string> }): string {
   const c = historyCounts(board);
   const hashes = [...new Set(board.runs.map((r) => r.planHash))];
   const out: string[] = [];
@@ -139,7 +140,7 @@ export function boardMarkdown(board: BoardFile, bands: ReadonlyMap<string, Snaps
   if (board.rework.length === 0) out.push('None.', '');
   else {
     out.push('| time | run | part | from | to | note | operator |', '| --- | ---: | --- | --- | --- | --- | --- |');
-    for (const w of board.rework) out.push(`| ${localTime(w.at)} | ${w.run ? (runNumber.get(w.run) ?? '?') : '—'} | ${mdCell(w.part)} | ${mdCell(w.from)} | ${mdCell(w.to)} | ${mdCell(w.note)} | ${mdCell(w.operator)} |`);
+    for (const w of board.rework) out.push(`| ${localTime(w.at)} | ${w.run ? (runNumber.get(w.run) ?? '?') : '—'} | ${mdCell(partWithRef(w.part, info.refs ?? new Map()))} | ${mdCell(w.from)} | ${mdCell(w.to)} | ${mdCell(w.note)} | ${mdCell(w.operator)} |`);
     out.push('');
   }
   if (board.captures.length > 0) {
@@ -181,7 +182,10 @@ export const reportCommand: Command = async (argv, io) => {
   else {
     const titles = new Map<string, string | null>();
     for (const r of board.runs) if (!titles.has(r.planHash)) titles.set(r.planHash, planTitle(await snapshots.readPlanSnapshot(r.planHash)));
-    io.stdout(boardMarkdown(board, bands, { titles, dir, printed: new Date() }));
+    // Parts are named with their reference designators from the latest run's plan.
+    const latest = board.runs[board.runs.length - 1];
+    const refs = refsOfPlanText(latest ? await snapshots.readPlanSnapshot(latest.planHash) : null);
+    io.stdout(boardMarkdown(board, bands, { titles, dir, printed: new Date(), refs }));
   }
   for (const p of problems) io.stderr(`probebook: warning: ${p}\n`);
   return 0;

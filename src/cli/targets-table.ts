@@ -1,3 +1,4 @@
+import { partWithRef } from '../plan/refs.js';
 import type { Target, TargetSet } from '../analysis/types.js';
 import { formatValue } from '../units/format.js';
 import { formatPrefixes } from '../units/prefix.js';
@@ -36,9 +37,9 @@ function nominalText(t: Target): string {
   return formatValue(t.nominal, t.unit);
 }
 
-function contributorText(t: Target): string {
+function contributorText(t: Target, refs: ReadonlyMap<string, string>): string {
   const top = t.contributors[0];
-  if (top) return `${top.part} ${Math.round(top.share * 100)}%`;
+  if (top) return `${partWithRef(top.part, refs)} ${Math.round(top.share * 100)}%`;
   return t.phase === 'stage' && t.worst.max - t.worst.min > 1e-9 * Math.abs(t.nominal) ? 'as written' : '';
 }
 
@@ -73,6 +74,8 @@ export interface TableHeader {
   readonly seed: number;
   readonly distribution: string;
   readonly note?: string;
+  /** Reference designators by part, to name the top contributor as on the board. */
+  readonly refs?: ReadonlyMap<string, string>;
 }
 
 /**
@@ -83,7 +86,7 @@ export interface TableHeader {
  */
 export function targetsTable(set: TargetSet, header: TableHeader): string {
   // A design figure has no test point to probe: its TP column says so.
-  const rows = set.targets.map((t) => [t.check, t.isDesignFigure ? 'design' : (t.testPoint ?? ''), nominalText(t), `${formatBand(t.worst.min, t.worst.max, t.unit)}${t.method ? ` ${methodMark[t.method]}` : ''}`, t.phase === 'stage' || t.phase === 'rails' ? formatBand(t.stat.min, t.stat.max, t.unit) : '', contributorText(t)]);
+  const rows = set.targets.map((t) => [t.check, t.isDesignFigure ? 'design' : (t.testPoint ?? ''), nominalText(t), `${formatBand(t.worst.min, t.worst.max, t.unit)}${t.method ? ` ${methodMark[t.method]}` : ''}`, t.phase === 'stage' || t.phase === 'rails' ? formatBand(t.stat.min, t.stat.max, t.unit) : '', contributorText(t, header.refs ?? new Map())]);
   const heads = ['check', 'TP', 'nominal', 'worst-case band', 'statistical band', 'top contributor'];
   const caps = [26, 6, 12, 24, 22, 20];
   const widths = heads.map((h, c) => Math.min(caps[c] ?? 20, Math.max([...h].length, ...rows.map((r) => [...(r[c] ?? '')].length))));

@@ -1,3 +1,4 @@
+import { refsOfPlanText } from '../plan/refs.js';
 import { defaultSeed, defaultTrials } from '../analysis/targets.js';
 import { targetsJson } from '../analysis/targets-json.js';
 import type { Distribution } from '../analysis/random.js';
@@ -65,6 +66,6 @@ export const targetsCommand: Command = async (argv, io) => {
       : {}),
   });
   if (args.options.json) io.stdout(`${JSON.stringify(targetsJson(set), null, 2)}\n`);
-  else io.stdout(targetsTable(set, { title: plan.title, file, trials, seed, distribution, ...(plan.note === undefined ? {} : { note: plan.note }) }));
+  else io.stdout(targetsTable(set, { title: plan.title, file, trials, seed, distribution, ...(plan.note === undefined ? {} : { note: plan.note }), refs: refsOfPlanText(plan.text) }));
   return 0;
 };
