@@ -13,3 +13,21 @@ export class PlanError extends Error {
     super(`plan ${file}${path ? `, ${path}` : ''}: ${detail.length > 500 ? `${detail.slice(0, 500)}…` : detail}`);
   }
 }
+
+/**
+ * Run a step of plan checking: without `problems` a PlanError throws as usual;
+ * with it the error is noted there and the step gives undefined (`plan check`:
+ * every problem at once).
+ */
+export function planAttempt(problems: PlanError[] | undefined): <T>(work: () => T) => T | undefined {
+  return (work) => {
+    if (!problems) return work();
+    try {
+      return work();
+    } catch (error) {
+      if (!(error instanceof PlanError)) throw error;
+      problems.push(error);
+      return undefined;
+    }
+  };
+}

@@ -9,7 +9,7 @@ import { oneLine } from '../units/text.js';
 import type { UncertaintySpec } from '../units/uncertainty.js';
 import type { Unit } from '../units/unit.js';
 import { planChecks } from './checks.js';
-import { PlanError } from './errors.js';
+import { PlanError, planAttempt } from './errors.js';
 import { findJsonFault } from './json-position.js';
 import { type RawPlan, jsonPath, planSchema } from './schema.js';
 import { resolveStages } from './stages.js';
@@ -95,16 +95,7 @@ export function checkPlanText(text: string, file: string, kinds: Readonly<Record
 }
 
 function readPlan(text: string, file: string, kinds: Readonly<Record<string, StageKind<unknown>>>, problems?: PlanError[]): Plan | null {
-  const attempt = <T>(work: () => T): T | undefined => {
-    if (!problems) return work();
-    try {
-      return work();
-    } catch (error) {
-      if (!(error instanceof PlanError)) throw error;
-      problems.push(error);
-      return undefined;
-    }
-  };
+  const attempt = planAttempt(problems);
   if (text.length > maxPlanBytes) throw new PlanError(file, '', `is ${(text.length / 1e6).toFixed(1)} MB; a plan is at most ${maxPlanBytes / 1e6} MB`);
   const json = parseJson(text, file);
   checkSize(json, file);

@@ -1,5 +1,5 @@
 import type { OpampModel, PartValue, StageKind } from '../circuit/types.js';
-import { PlanError } from './errors.js';
+import { PlanError, planAttempt } from './errors.js';
 import { StageParseError } from '../circuit/errors.js';
 import { checkTolerance, readValue } from './values.js';
 import { type OpampSpec, readOpampSpec } from './active-spread.js';
@@ -44,16 +44,7 @@ export function resolveStages(
   const planSpec: OpampSpec = 'model' in planOpamp ? planOpamp : { model: planOpamp, spread: {} };
   // With `problems`, a stage with a mistake is noted there and left out, and the others are
   // still checked (`plan check`: every problem at once); without it the first mistake throws.
-  const attempt = <T>(work: () => T): T | undefined => {
-    if (!problems) return work();
-    try {
-      return work();
-    } catch (error) {
-      if (!(error instanceof PlanError)) throw error;
-      problems.push(error);
-      return undefined;
-    }
-  };
+  const attempt = planAttempt(problems);
   const seen = new Map<string, number>();
   const skipped = new Set<number>();
   raws.forEach((raw, i) => {
