@@ -22,9 +22,7 @@ const table = {
   analysis: { units: all, circuit: all, plan: all },
   signal: { units: all },
   run: { analysis: all, plan: all },
-  // The review computes over the log's record shapes (boards, readings, the index):
-  // the table omits that edge; only types cross it, never code.
-  review: { units: all, analysis: types, log: types },
+  review: { units: all, analysis: types },
   log: { plan: all, analysis: types },
   bench: { units: all, signal: all },
   ui: { units: all, circuit: all, plan: all, analysis: all, signal: all, run: all, review: all, log: all, bench: all },

@@ -1,5 +1,5 @@
 import type { Band, Verdict } from '../analysis/types.js';
-import type { BoardSummary, CheckColumns, DamagedBoard, LogIndex } from '../log/types.js';
+import type { BoardSummary, CheckColumns, DamagedBoard, LogIndex } from '../analysis/records.js';
 import type { SnapshotBands, SnapshotProblem } from './bands.js';
 import type { BatchCheck, BatchFigures, BatchPoint, BatchProblem, Outlier, OutlierReason } from './batch-types.js';
 import { capabilityOf } from './capability.js';

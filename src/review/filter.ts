@@ -1,4 +1,4 @@
-import type { BoardSummary, CheckSummary } from '../log/types.js';
+import type { BoardSummary, CheckSummary } from '../analysis/records.js';
 
 /** Which boards and readings a batch review covers. */
 export interface BatchFilter {

@@ -1,4 +1,4 @@
-import type { BoardFile, CaptureRef, Reading, Rework, Run } from '../log/types.js';
+import type { BoardFile, CaptureRef, Reading, Rework, Run } from '../analysis/records.js';
 import type { CheckBand, SnapshotBands } from './bands.js';
 
 export type TimelineEntry =
