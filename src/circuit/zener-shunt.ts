@@ -1,4 +1,5 @@
 import { formatValue } from '../units/format.js';
+import { thermalVoltage } from './diode.js';
 import { dcLoad, ohms, parallel, railOf } from './rail-load.js';
 import { nested, ohmRange, onlyKeys, partAt, reader, textAt } from './stage-parse.js';
 import type { CheckSpec, Complex, EvalInput, EvalOutput, ImpedanceInput, PartFaults, PartValue, StageKind, StageWarning } from './types.js';
@@ -11,8 +12,12 @@ export interface ZenerShuntSettings {
   readonly hasLoad: boolean;
 }
 
-/** Forward drop of a zener fitted the wrong way round, V (a silicon junction, common practice, no source). */
-const forwardDrop = 0.65;
+/**
+ * A zener fitted the wrong way round conducts forward as a generic silicon
+ * junction, IS = 1e-14 A, N = 1 (about 0.7 V at a few mA; common practice,
+ * no source), in series with its rz.
+ */
+const forwardIs = 1e-14;
 /** A shorted part reads a few tenths of an ohm on the board (common practice, no source), Ω. */
 const shortOhms = 0.1;
 /** A small glass zener is rated about 0.5 W; warn a little below (common practice, no source), W. */
@@ -56,12 +61,33 @@ function solve(input: EvalInput<ZenerShuntSettings>): Solution {
   const gth = gs + gLoad;
   const vth = gth > 0 ? (rail * gs) / gth : 0;
   const hasZener = !(fault?.role === 'Z' && fault.mode === 'open');
-  const knee = fault?.role === 'Z' && fault.mode === 'reversed' ? forwardDrop : (p['vz'] ?? Number.NaN);
   const rz = p['rz'] ?? Number.NaN;
+  if (fault?.role === 'Z' && fault.mode === 'reversed') return forward(vth, gth, rz, rail, rs);
+  const knee = p['vz'] ?? Number.NaN;
   if (!hasZener || !(vth > knee)) return { v: vth, iz: 0, rail, rs, isConducting: false };
   // Node equation with the zener as knee + rz: (Vth − V)·Gth = (V − vz)/rz.
   const v = (vth * gth + knee / rz) / (gth + 1 / rz);
   return { v, iz: (v - knee) / rz, rail, rs, isConducting: true };
+}
+
+/** The node with the zener reversed: a forward junction (Shockley law) plus rz, solved by bisection. */
+function forward(vth: number, gth: number, rz: number, rail: number, rs: number): Solution {
+  const vt = thermalVoltage();
+  // KCL at the node, f(vj) = (Vth − vj − I·rz)·Gth − I with I = IS·(e^(vj/Vt) − 1): falls as vj rises.
+  const f = (vj: number) => {
+    const i = forwardIs * Math.expm1(vj / vt);
+    return (vth - vj - i * rz) * gth - i;
+  };
+  let lo = 0;
+  let hi = Math.max(0, vth);
+  for (let k = 0; k < 80; k++) {
+    const mid = (lo + hi) / 2;
+    if (f(mid) > 0) lo = mid;
+    else hi = mid;
+  }
+  const i = forwardIs * Math.expm1(lo / vt);
+  // The zener carries current the wrong way: no regulation current.
+  return { v: lo + i * rz, iz: 0, rail, rs, isConducting: true };
 }
 
 function evaluate(input: EvalInput<ZenerShuntSettings>): EvalOutput {
