@@ -2,7 +2,7 @@
 // screen has something real to show. No board, serial, reading or person here
 // exists; the values are drawn around the targets of our own invented plans.
 //
-//   node --import tsx demo/make-demo-log.ts DIR [--plans exciter.plan.json,line-driver.plan.json]
+//   node --import tsx demo/make-demo-log.ts DIR [--plans exciter.plan.json,line-driver.plan.json,calibrator.plan.json]
 //
 // Everything goes through the real store (`openLog`) and the real target engine
 // (`computeTargets`, `verdictFor`, `explainReading`), as the bench screen writes
@@ -134,11 +134,18 @@ async function read(b: Board, check: string, value: number, minutes = 1.5): Prom
   return verdict;
 }
 
+/** A design figure (a dissipation) is never probed at the bench, so the demo never reads one. */
+function isDesignFigure(plan: Plan, check: string): boolean {
+  const stage = plan.stages.find((s) => check.startsWith(`${s.id}.`));
+  return stage?.module.checks(stage.settings).some((c) => `${stage.id}.${c.key}` === check && c.isDesignFigure === true) ?? false;
+}
+
 /** Good readings for the checks from `from` up to (not including) `until`, in bring-up order. */
 async function readGood(b: Board, from?: string, until?: string): Promise<void> {
   const start = from ? b.targets.findIndex((t) => t.check === from) : 0;
   const end = until ? b.targets.findIndex((t) => t.check === until) : b.targets.length;
   for (const t of b.targets.slice(Math.max(0, start), end < 0 ? b.targets.length : end)) {
+    if (isDesignFigure(b.plan, t.check)) continue;
     let verdict = await read(b, t.check, goodValue(t));
     // A stray marginal from the random draw is probed again, as a technician would;
     // not on a band too narrow for any reading to pass (a zero-width band).
@@ -164,18 +171,18 @@ async function newBoard(log: BenchLog, plan: Plan, targets: readonly Target[], s
 const args = process.argv.slice(2);
 const dir = args[0];
 if (!dir || dir.startsWith('--')) {
-  console.error('usage: make-demo-log.ts DIR [--plans exciter.plan.json,line-driver.plan.json]');
+  console.error('usage: make-demo-log.ts DIR [--plans exciter.plan.json,line-driver.plan.json,calibrator.plan.json]');
   process.exit(2);
 }
 const plansAt = args.indexOf('--plans');
-const planFiles = plansAt >= 0 ? (args[plansAt + 1] ?? '').split(',') : ['demo/exciter.plan.json', 'demo/line-driver.plan.json'];
+const planFiles = plansAt >= 0 ? (args[plansAt + 1] ?? '').split(',') : ['demo/exciter.plan.json', 'demo/line-driver.plan.json', 'demo/calibrator.plan.json'];
 if (existsSync(resolve(dir, 'boards')) && readdirSync(resolve(dir, 'boards')).length > 0) {
   console.error(`make-demo-log: ${dir} already holds boards; give an empty or new folder`);
   process.exit(2);
 }
 
 const log = await openLog(dir);
-const [exciter, lineDriver] = await Promise.all(planFiles.map((f) => loadPlanFile(f)));
+const [exciter, lineDriver, calibrator] = await Promise.all(planFiles.map((f) => loadPlanFile(f)));
 if (!exciter) throw new Error('make-demo-log: no plan given');
 const exciterTargets = computeTargets(exciter).targets;
 const written: string[] = [];
@@ -272,6 +279,37 @@ if (lineDriver) {
   } else await readGood(b);
   await log.endRun(b.serial, b.run, 'failed');
   written.push(`${b.serial} failed`);
+}
+
+// Calibrator boards: two pass; on one the reference zener went in back to front
+// (it reads a forward drop), is turned round and passes; one is on the bench now.
+if (calibrator) {
+  const calTargets = computeTargets(calibrator).targets;
+  for (let n = 301; n <= 302; n++) {
+    const b = await newBoard(log, calibrator, calTargets, `CAL-0${n}`);
+    await readGood(b);
+    await log.endRun(b.serial, b.run, 'passed');
+    written.push(`${b.serial} passed`);
+  }
+  const zener = calibrator.stages.find((s) => s.module.faults?.(s.settings).some((f) => f.modes.includes('reversed') && f.role === 'Z'));
+  if (zener) {
+    const b = await newBoard(log, calibrator, calTargets, 'CAL-0303');
+    const dc = `${zener.id}.out.dc`;
+    await readGood(b, undefined, dc);
+    // A silicon junction's forward drop at a few mA (common practice): what a zener fitted backwards reads.
+    if ((await read(b, dc, 0.71 + 0.01 * gauss())) !== 'fail') throw new Error('a reversed zener should fail the reference level');
+    clock.advance(20);
+    await log.addRework(b.serial, { run: b.run, part: `${zener.id}.Z`, from: 'reversed', to: 'turned round', note: 'reference zener fitted with its band at the ground end; turned round (invented demo event)', operator: b.operator });
+    await readGood(b, dc);
+    await log.endRun(b.serial, b.run, 'passed');
+    written.push(`${b.serial} reversed zener found, reworked, passed`);
+  }
+  {
+    const b = await newBoard(log, calibrator, calTargets, 'CAL-0304');
+    const firstStage = calTargets.find((t) => t.phase === 'stage');
+    await readGood(b, undefined, firstStage ? after(b, after(b, after(b, firstStage.check) ?? firstStage.check) ?? firstStage.check) : undefined);
+    written.push(`${b.serial} in progress`);
+  }
 }
 
 await log.readIndex();
