@@ -95,7 +95,7 @@ function evaluate(input: EvalInput<ZenerShuntSettings>): EvalOutput {
   const sign = Math.sign(input.rails[input.settings.from] ?? 1) || 1;
   const vout = sign * s.v;
   const pz = s.v * s.iz;
-  const values = { 'out.dc': vout, iz: s.iz, pz };
+  const values = { 'out.dc': vout, iz: s.iz };
   if (input.isTrial) return { outputs: { out: dc(vout) }, values, warnings: [] };
   const warnings: StageWarning[] = [];
   const izmin = input.parts['izmin'] ?? 0;
@@ -131,7 +131,6 @@ function sourceResistance(x: ImpedanceInput<ZenerShuntSettings>): number {
 const checks: readonly CheckSpec[] = [
   { key: 'out.dc', quantity: 'zener voltage', unit: 'V', output: 'out', instrument: 'meter', how: 'DC voltmeter from the zener cathode to ground, the load connected', captureFigure: 'mean' },
   { key: 'iz', quantity: 'zener current', unit: 'A', instrument: 'meter', how: 'voltage across Rs divided by Rs (never break the circuit to insert an ammeter with the power on)' },
-  { key: 'pz', quantity: 'zener dissipation', unit: 'W', instrument: 'meter', how: 'design figure: zener voltage × zener current; not probed', isDesignFigure: true },
 ];
 
 function faults(settings: ZenerShuntSettings): readonly PartFaults[] {
@@ -184,9 +183,8 @@ export const zenerShuntKind: StageKind<ZenerShuntSettings> = {
     ],
     iz: [
       'no drop across Rs: Rs open or the zener open',
-      'far more current than designed: zener shorted or the wrong voltage; the zener and Rs run hot',
+      'far more current than designed: zener shorted or the wrong voltage; the zener and Rs run hot (a zener darker than its neighbours or smelling hot)',
       'less than designed: a heavier load downstream, or Rs a decade high',
     ],
-    pz: ['a zener darker than its neighbours or smelling hot: too much current for its rating'],
   },
 };

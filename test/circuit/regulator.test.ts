@@ -2,6 +2,7 @@ import { describe, expect, test } from 'vitest';
 import { regulatorKind, type RegulatorSettings } from '../../src/circuit/regulator.js';
 import { defaultOpamp } from '../../src/circuit/opamp.js';
 import { StageParseError } from '../../src/circuit/errors.js';
+import { formatValue } from '../../src/units/format.js';
 import type { Complex, StageFault } from '../../src/circuit/types.js';
 import { runSpice } from '../helpers/ngspice.js';
 
@@ -50,16 +51,14 @@ describe('regulator against ngspice (behavioural error loop, stated above)', () 
     expect(rel(got, spice)).toBeLessThan(1e-6);
   });
 
-  test('a load on the output leaves a regulated output where it is and adds to the dissipation', () => {
+  test('a load on the output leaves a regulated output where it is', () => {
     const json = { from: 'VIN', parts: { R1: '240', R2: '720' } };
     const load = (o: string) => (o === 'out' ? { re: 100, im: 0 } : undefined);
     const loaded = run(json, { VIN: 12 }, { load });
     const spice = spiceRegulator({ vin: 12, r1: 240, r2: 720, vref: 1.25, iadj: 50e-6, dropout: 2, rload: 100 });
     // ngspice operating point with a 100 Ω load: within 2 %.
     expect(rel(loaded.values['out.dc'] as number, spice)).toBeLessThan(0.02);
-    // Dissipation by hand: (12 − 5.036 V) × (5.036/960 + 5.036/100) A = 0.3872 W.
-    const v = 5.036;
-    expect(loaded.values['pdiss']).toBeCloseTo((12 - v) * (v / 960 + v / 100), 3);
+    expect(loaded.warnings).toEqual([]);
   });
 });
 
@@ -87,7 +86,9 @@ describe('regulator closed form and warnings', () => {
     const r = run({ from: 'VIN', parts: { R1: '2k4', R2: '7k2' } }, { VIN: 12 });
     expect(r.warnings.map((w) => w.message).join('\n')).toMatch(/few mA/);
     const hot = run({ from: 'VIN', parts: { R1: '240', R2: '720' } }, { VIN: 24 }, { load: () => ({ re: 20, im: 0 }) });
-    expect(hot.warnings.map((w) => w.message).join('\n')).toMatch(/burn a finger/);
+    // Dissipation by hand: (24 − 5.036 V) × (5.036/960 + 5.036/20) A = 4.875 W.
+    const v = 5.036;
+    expect(hot.warnings.map((w) => w.message).join('\n')).toContain(`dissipates ${formatValue((24 - v) * (v / 960 + v / 20), 'W')}: it runs hot enough to burn a finger`);
   });
 
   test('fault modes: R2 shorted reads the reference, R1 open or shorted and R2 open rise to the input less the dropout', () => {
