@@ -176,6 +176,35 @@ export function response(p: CeParts, s: CeSmall, f: number, yLoad: Complex): { v
   return { vc, ve, ib };
 }
 
+/**
+ * `response` without allocating, for the trial path: writes
+ * [Re vc, Im vc, Re ve, Im ve] for 1 V at the base into `into` (Cramer's rule
+ * on the same two node equations, in real arithmetic).
+ */
+export function responseInto(p: CeParts, s: CeSmall, f: number, ylRe: number, ylIm: number, into: Float64Array): void {
+  const a11r = 1 / p.rc + ylRe + s.go;
+  const a11i = ylIm;
+  const a12 = -(s.gm + s.go);
+  const a21 = -s.go;
+  const a22r = 1 / p.re + s.gpi + s.gm + s.go;
+  const a22i = 2 * Math.PI * f * p.ce;
+  const b1 = -s.gm;
+  const b2 = s.gpi + s.gm;
+  // det = a11·a22 − a12·a21 (a12, a21 real).
+  const dr = a11r * a22r - a11i * a22i - a12 * a21;
+  const di = a11r * a22i + a11i * a22r;
+  const d2 = dr * dr + di * di;
+  // vc = (b1·a22 − a12·b2)/det, ve = (a11·b2 − a21·b1)/det.
+  const nr = b1 * a22r - a12 * b2;
+  const ni = b1 * a22i;
+  into[0] = (nr * dr + ni * di) / d2;
+  into[1] = (ni * dr - nr * di) / d2;
+  const er = a11r * b2 - a21 * b1;
+  const ei = a11i * b2;
+  into[2] = (er * dr + ei * di) / d2;
+  into[3] = (ei * dr - er * di) / d2;
+}
+
 /** Impedance looking into the collector with the base held (test current in, node equations), ohms; Rc in parallel. */
 export function collectorImpedance(p: CeParts, s: CeSmall, f: number): Complex {
   const a11: Complex = { re: 1 / p.rc + s.go, im: 0 };

@@ -1,6 +1,6 @@
 import { formatValue } from '../units/format.js';
-import { type CeParts, collectorImpedance, operatingPoint, response, smallSignal, vceSat, withFault } from './common-emitter-model.js';
-import { harmonicResponse } from './harmonic-response.js';
+import { type CeParts, collectorImpedance, operatingPoint, response, responseInto, smallSignal, vceSat, withFault } from './common-emitter-model.js';
+import { filterHarmonics } from './harmonic-response.js';
 import { dcLoad, railOf } from './rail-load.js';
 import { nested, ohmRange, onlyKeys, partAt, reader, textAt } from './stage-parse.js';
 import type { CheckSpec, Complex, EvalInput, EvalOutput, ImpedanceInput, PartFaults, PartValue, StageKind, StageWarning } from './types.js';
@@ -12,6 +12,8 @@ export interface CommonEmitterSettings {
   /** Whether an emitter bypass capacitor `Ce` is fitted. */
   readonly hasCe: boolean;
 }
+
+const noLoad: Complex = { re: 0, im: 0 };
 
 /** The load on the collector at f as an admittance, S. */
 function loadAdmittance(input: EvalInput<CommonEmitterSettings>, f: number): Complex {
@@ -46,15 +48,19 @@ function evaluate(input: EvalInput<CommonEmitterSettings>): EvalOutput {
   const q = operatingPoint(p, input.fault);
   const s = smallSignal(p, q);
   const f = source.frequency > 0 ? source.frequency : 1e3;
-  const at = response(p, s, f, loadAdmittance(input, f));
+  const g = new Float64Array(4);
+  const gainAt = (fk: number, into: Float64Array) => {
+    const yl = input.load ? loadAdmittance(input, fk) : noLoad;
+    responseInto(p, s, fk, yl.re, yl.im, into);
+  };
+  gainAt(f, g);
   // Signed gain at the signal frequency (−|H|: an inverting stage; 0 when not active).
-  const gain = -Math.hypot(at.vc.re, at.vc.im);
+  const gain = -Math.hypot(g[0] as number, g[1] as number);
   const n = source.samples.length;
   const out = input.buffer ? input.buffer(0, n) : new Float64Array(n);
   const emitter = input.buffer ? input.buffer(1, n) : new Float64Array(n);
-  // The input is AC-coupled at the base: its DC level does not reach the stage.
-  harmonicResponse(source.samples, source.frequency, (fk) => response(p, s, fk, loadAdmittance(input, fk)).vc, 0, out);
-  harmonicResponse(source.samples, source.frequency, (fk) => response(p, s, fk, loadAdmittance(input, fk)).ve, 0, emitter);
+  // The input is AC-coupled at the base: its DC level does not reach the stage (DC gains 0).
+  filterHarmonics(source.samples, source.frequency, [out, emitter], [0, 0], gainAt);
   // Large signal: the collector cannot fall below the emitter plus Vce(sat), nor rise past the point where Ic reaches 0.
   const yAc = 1 / p.rc + loadAdmittance(input, f).re + s.go;
   const top = q.vc + q.ic / yAc;

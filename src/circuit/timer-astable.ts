@@ -59,19 +59,35 @@ function timing(input: EvalInput<TimerAstableSettings>, rail: number): Timing {
   return { th, tl: tauD * Math.LN2, vinf, tauC, tauD };
 }
 
-function waves(t: Timing, rail: number, high: number): { out: Waveform; cap: Waveform } {
+/** One period of the output and the capacitor, refilled in the trial's own buffers when given. */
+function waves(t: Timing, rail: number, high: number, buffer: ((slot: number, length: number) => Float64Array) | undefined): { out: Waveform; cap: Waveform } {
   const period = t.th + t.tl;
   const frequency = 1 / period;
-  const out = new Float64Array(defaultSamples);
-  const cap = new Float64Array(defaultSamples);
-  for (let i = 0; i < defaultSamples; i++) {
-    const time = (i / defaultSamples) * period;
+  const n = defaultSamples;
+  const out = buffer ? buffer(0, n) : new Float64Array(n);
+  const cap = buffer ? buffer(1, n) : new Float64Array(n);
+  const dt = period / n;
+  // The exponentials advance by a constant factor per sample (one exp per segment, not per sample).
+  const stepC = Math.exp(-dt / t.tauC);
+  let charge = 1;
+  let discharge = 0;
+  let isHigh = true;
+  let stepD = 1;
+  for (let i = 0; i < n; i++) {
+    const time = i * dt;
     if (time < t.th) {
       out[i] = high;
-      cap[i] = t.vinf - (t.vinf - rail / 3) * Math.exp(-time / t.tauC);
+      cap[i] = t.vinf - (t.vinf - rail / 3) * charge;
+      charge *= stepC;
     } else {
+      if (isHigh) {
+        isHigh = false;
+        discharge = Math.exp(-(time - t.th) / t.tauD);
+        stepD = Math.exp(-dt / t.tauD);
+      }
       out[i] = 0;
-      cap[i] = ((2 * rail) / 3) * Math.exp(-(time - t.th) / t.tauD);
+      cap[i] = ((2 * rail) / 3) * discharge;
+      discharge *= stepD;
     }
   }
   return { out: { frequency, samples: out }, cap: { frequency, samples: cap } };
@@ -97,7 +113,7 @@ function evaluate(input: EvalInput<TimerAstableSettings>): EvalOutput {
   }
   const period = t.th + t.tl;
   const values = { freq: 1 / period, duty: t.th / period, 'out.vpp': high, 'cap.vpp': rail / 3 };
-  const { out, cap } = waves(t, rail, high);
+  const { out, cap } = waves(t, rail, high, input.buffer);
   if (!input.isTrial) {
     if (rail < supplyRange[0] || rail > supplyRange[1]) {
       warnings.push({ message: `the bipolar timer runs from ${formatValue(supplyRange[0], 'V')} to ${formatValue(supplyRange[1], 'V')}; rail ${JSON.stringify(input.settings.from)} is ${formatValue(rail, 'V')}` });
