@@ -110,19 +110,42 @@ export function operatingPoint(p: CeParts, fault?: StageFault): CePoint {
   }
   const ve = (ib + ic) * p.re;
   if (vc - ve >= vceSat) return { vb, ve, vc, ic, ib, region: 'active' };
-  // Saturated: Ib(Rth + Re) + Ic·Re = Vth − Vbe and Rc·Ic + (1 + Rc·GL)·(Ib + Ic)·Re = Vrail − Vce(sat)·(1 + Rc·GL).
+  // Saturated: Ib(Rth + Re) + Ic·Re = Vth − Vbe and Rc·Ic + (1 + Rc·GL)·(Ib + Ic)·Re = Vrail − Vce(sat)·(1 + Rc·GL),
+  // with Vbe at the saturated emitter current and Vce(sat) from the forced β (see saturationVce), a few rounds.
   const m = 1 + p.rc * p.gLoad;
-  const a11 = rth + p.re;
-  const a12 = p.re;
-  const a21 = m * p.re;
-  const a22 = p.rc + m * p.re;
-  const b1 = vth - vbe;
-  const b2 = p.rail - vceSat * m;
-  const det = a11 * a22 - a12 * a21;
-  const sib = (b1 * a22 - a12 * b2) / det;
-  const sic = (a11 * b2 - a21 * b1) / det;
+  let vce = vceSat;
+  let sib = 0;
+  let sic = 0;
+  for (let it = 0; it < 4; it++) {
+    const a11 = rth + p.re;
+    const a12 = p.re;
+    const a21 = m * p.re;
+    const a22 = p.rc + m * p.re;
+    const b1 = vth - vbe;
+    const b2 = p.rail - vce * m;
+    const det = a11 * a22 - a12 * a21;
+    sib = (b1 * a22 - a12 * b2) / det;
+    sic = (a11 * b2 - a21 * b1) / det;
+    if (!(sic >= 0 && sib > 0)) break;
+    // In saturation the base-emitter junction carries the whole emitter current (the collector may carry none: Rc open).
+    vbe = p.vbe + vt * Math.log((sib + sic) / vbeAt);
+    vce = saturationVce(sic / sib, p.hfe);
+  }
   const sve = (sib + sic) * p.re;
-  return { vb: vth - sib * rth, ve: sve, vc: sve + vceSat, ic: sic, ib: sib, region: 'saturated' };
+  return { vb: vth - sib * rth, ve: sve, vc: sve + vce, ic: sic, ib: sib, region: 'saturated' };
+}
+
+/**
+ * Collector–emitter voltage of a saturated transistor driven at a forced β
+ * (Ic/Ib below hfe): Vce(sat) = Vt·ln((1/αR + βforced/βR)/(1 − βforced/βF))
+ * (Ebers–Moll; Sedra and Smith, the BJT in saturation), with βR = 1 (αR = 1/2,
+ * SPICE's default BR; from memory). No ohmic collector resistance: a real
+ * small-signal part reads a few tens of mV more at tens of mA.
+ */
+export function saturationVce(forced: number, hfe: number): number {
+  const vt = thermalVoltage();
+  const x = Math.min(forced / hfe, 0.999);
+  return vt * Math.log((2 + forced) / (1 - x));
 }
 
 /** Small-signal parameters at an operating point. */

@@ -98,6 +98,8 @@ describe('common-emitter against ngspice (Gummel–Poon NPN stated above)', () =
 
   test.each([
     ['small signal, unbypassed: no clipping', unbypassed, 0.3, false],
+    ['bypassed, 8 mV at the base (0.3·Vt: the exponential law moves vpp under 1 %)', bypassed, 8e-3, false],
+    ['bypassed, 4 mV at the base', bypassed, 4e-3, false],
     ['near saturation: 1.2 V at the base drives the collector into the emitter', nearSaturation, 1.2, true],
   ] as const)('output vpp: %s', (_name, c, peak, clips) => {
     const f = 1e3;
@@ -109,6 +111,27 @@ describe('common-emitter against ngspice (Gummel–Poon NPN stated above)', () =
     // ngspice transient, periods 5–6: within 5 % (the transistor-gain tolerance).
     expect(rel(r.values['out.vpp'] as number, spiceVpp)).toBeLessThan(0.05);
     expect(r.warnings.some((w) => /saturates/.test(w.message))).toBe(clips);
+  });
+});
+
+describe('common-emitter faults against ngspice (the same transistor)', () => {
+  test.each([
+    ['R2 open: saturated', { role: 'R2', mode: 'open' }, { ...unbypassed, r2: 1e12 }],
+    ['R1 open: cut off', { role: 'R1', mode: 'open' }, { ...unbypassed, r1: 1e12 }],
+    ['Re shorted: saturated hard', { role: 'Re', mode: 'short' }, { ...unbypassed, re: 0.1 }],
+    ['Rc open: the collector follows the emitter', { role: 'Rc', mode: 'open' }, { ...unbypassed, rc: 1e12 }],
+    ['Rc shorted: the collector at the rail', { role: 'Rc', mode: 'short' }, { ...unbypassed, rc: 0.1 }],
+    ['Ce shorted on the bypassed stage: as Re shorted', { role: 'Ce', mode: 'short' }, { ...unbypassed, re: 0.1 }],
+  ] as const)('%s', (_name, fault, faulted) => {
+    const t = runSpice(deck(faulted, 'DC 0'), 'op', ['v(b)', 'v(e)', 'v(c)']);
+    const r = run(_name.startsWith('Ce') ? bypassed : unbypassed, sine(1e3, 1e-3), fault);
+    if (process.env.KB_DEBUG) console.log(_name, (t['v(b)'] as Float64Array)[0], (t['v(e)'] as Float64Array)[0], (t['v(c)'] as Float64Array)[0], r.values);
+    // ngspice operating point with the part opened (1 TΩ) or shorted (0.1 Ω): each DC level within 2 % or 50 mV
+    // (saturation: Vce(sat) from the forced β by the Ebers–Moll form, ngspice from its Gummel–Poon equations).
+    for (const [key, node] of [['vb.dc', 'v(b)'], ['ve.dc', 'v(e)'], ['vc.dc', 'v(c)']] as const) {
+      const spice = (t[node] as Float64Array)[0] as number;
+      expect(Math.abs((r.values[key] as number) - spice)).toBeLessThan(Math.max(0.05, 0.02 * Math.abs(spice)));
+    }
   });
 });
 
