@@ -73,7 +73,6 @@ describe('common-emitter against ngspice (Gummel–Poon NPN stated above)', () =
     const ve = (t['v(e)'] as Float64Array)[0] as number;
     const vc = (t['v(c)'] as Float64Array)[0] as number;
     const r = run(c, sine(1e3, 1e-3));
-    if (process.env.KB_DEBUG) console.log(_name, { vb, ve, vc, ic: (c.rail - vc) / c.rc }, r.values);
     // ngspice operating point: DC levels within 2 % (the issue's tolerance).
     expect(rel(r.values['vb.dc'] as number, vb)).toBeLessThan(0.02);
     expect(rel(r.values['ve.dc'] as number, ve)).toBeLessThan(0.02);
@@ -90,7 +89,6 @@ describe('common-emitter against ngspice (Gummel–Poon NPN stated above)', () =
     const t = runSpice(deck(c, 'DC 0 AC 1'), `ac lin 1 ${f} ${f}`, ['vm(c)']);
     const spice = (t['vm(c)'] as Float64Array)[0] as number;
     const r = run(c, sine(f, 1e-3));
-    if (process.env.KB_DEBUG) console.log(_name, spice, r.values['gain']);
     // ngspice AC analysis at the signal frequency: the transistor gain within 5 % (the issue's tolerance).
     expect(rel(-(r.values['gain'] as number), spice)).toBeLessThan(0.05);
     expect(r.values['gain'] as number).toBeLessThan(0);
@@ -107,7 +105,6 @@ describe('common-emitter against ngspice (Gummel–Poon NPN stated above)', () =
     const v = t['v(c)'] as Float64Array;
     const spiceVpp = Math.max(...v) - Math.min(...v);
     const r = run(c, sine(f, peak));
-    if (process.env.KB_DEBUG) console.log(_name, spiceVpp, r.values['out.vpp'], r.warnings);
     // ngspice transient, periods 5–6: within 5 % (the transistor-gain tolerance).
     expect(rel(r.values['out.vpp'] as number, spiceVpp)).toBeLessThan(0.05);
     expect(r.warnings.some((w) => /saturates/.test(w.message))).toBe(clips);
@@ -125,7 +122,6 @@ describe('common-emitter faults against ngspice (the same transistor)', () => {
   ] as const)('%s', (_name, fault, faulted) => {
     const t = runSpice(deck(faulted, 'DC 0'), 'op', ['v(b)', 'v(e)', 'v(c)']);
     const r = run(_name.startsWith('Ce') ? bypassed : unbypassed, sine(1e3, 1e-3), fault);
-    if (process.env.KB_DEBUG) console.log(_name, (t['v(b)'] as Float64Array)[0], (t['v(e)'] as Float64Array)[0], (t['v(c)'] as Float64Array)[0], r.values);
     // ngspice operating point with the part opened (1 TΩ) or shorted (0.1 Ω): each DC level within 2 % or 50 mV
     // (saturation: Vce(sat) from the forced β by the Ebers–Moll form, ngspice from its Gummel–Poon equations).
     for (const [key, node] of [['vb.dc', 'v(b)'], ['ve.dc', 'v(e)'], ['vc.dc', 'v(c)']] as const) {

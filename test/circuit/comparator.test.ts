@@ -92,7 +92,6 @@ describe('comparator against ngspice (behavioural op-amp, test/helpers/spice-opa
     const t = runSpice(deck({ r1, r2, vref, opamp, source: `SIN(0 ${peak} ${f})` }), `tran ${T / 4000} ${14 * T} ${4 * T} ${T / 4000}`, ['v(out)']);
     const s = measure(t['time'] as Float64Array, t['v(out)'] as Float64Array);
     const r = run({ parts: { R1: `${r1}`, R2: `${r2}` }, vref: `${vref} V` }, sine(f, peak), opamp);
-    if (process.env.KB_DEBUG) console.log(_name, s, r.values);
     // ngspice transient, ten whole periods: frequency within 1 %, duty within 0.01 (absolute), vpp within 2 % (DC-level tolerance).
     expect(rel(r.values['freq'] as number, s.freq)).toBeLessThan(0.01);
     expect(Math.abs((r.values['duty'] as number) - s.duty)).toBeLessThan(0.01);
@@ -108,7 +107,6 @@ describe('comparator whose edges cannot finish (40 kHz on a 0.5 V/µs op-amp)', 
     const v = t['v(out)'] as Float64Array;
     const spiceVpp = Math.max(...v) - Math.min(...v);
     const r = run({ parts: { R1: '10k', R2: '100k' } }, sine(f, 5));
-    if (process.env.KB_DEBUG) console.log('unfinished edges', spiceVpp, r.values);
     // The slew limit bounds it by hand: 0.5 V/µs × 12.5 µs = 6.25 V.
     expect(r.values['out.vpp'] as number).toBeLessThanOrEqual(6.25 + 1e-9);
     // ngspice, periods 30–40: within 2 %. With fixed thresholds (the ideal form) the model said 6.25 V against ngspice's 5.65 V;

@@ -81,7 +81,6 @@ describe('timer-astable against ngspice (behavioural comparators and latch)', ()
   ] as const)('%s', (_name, ra, rb, c, rail) => {
     const s = spiceTimer({ ra, rb, c, rail });
     const r = run(ra, rb, c, rail);
-    if (process.env.KB_DEBUG) console.log(_name, s, r.values);
     // ngspice transient, periods 2–8: frequency within 1 %, duty within 0.005, capacitor swing and output level within 2 %.
     expect(rel(r.values['freq'] as number, s.freq)).toBeLessThan(0.01);
     expect(Math.abs((r.values['duty'] as number) - s.duty)).toBeLessThan(0.005);
@@ -95,7 +94,6 @@ describe('timer-astable against ngspice (behavioural comparators and latch)', ()
   test('a 47k load on the capacitor (a 1× probe or the next stage) slows it as ngspice says', () => {
     const s = spiceTimer({ ra: 10e3, rb: 10e3, c: 10e-9, rail: 9, rcap: 47e3 });
     const r = run(10e3, 10e3, 10e-9, 9, { load: (o) => (o === 'cap' ? { re: 47e3, im: 0 } : undefined) });
-    if (process.env.KB_DEBUG) console.log('loaded', s, r.values, run(10e3, 10e3, 10e-9, 9).values);
     // ngspice within 1 % (2577 Hz); the unloaded closed form says 4809 Hz, 87 % high.
     expect(rel(r.values['freq'] as number, s.freq)).toBeLessThan(0.01);
     expect(Math.abs((r.values['duty'] as number) - s.duty)).toBeLessThan(0.005);
