@@ -6,6 +6,8 @@ export default defineConfig({
   test: {
     include: ['test/**/*.test.ts', 'test/**/*.test.tsx'],
     setupFiles: ['test/setup.ts'],
+    // A throwaway PostgreSQL server for the shared-store tests (test/helpers/pg-global-setup.ts).
+    globalSetup: ['test/helpers/pg-global-setup.ts'],
     pool: 'forks',
     maxWorkers: 2,
     testTimeout: 60_000,

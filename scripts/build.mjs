@@ -58,6 +58,9 @@ await build({
   sourcemap: 'linked',
   legalComments: 'linked',
   plugins: [noDevtools],
+  // serialport loads its native binding from its own package folder, and pg's optional
+  // native client is never used: both stay outside the bundle (serialport is a dependency).
+  external: ['serialport', 'pg-native'],
   // Ink's layout engine (yoga, Emscripten) asks `typeof fetch` before it decodes
   // its embedded wasm; in Node 20 that touches the lazy global and loads undici
   // (tens of ms at start-up) to fetch a data: URL. probebook never uses fetch.

@@ -1,5 +1,4 @@
-import { existsSync } from 'node:fs';
-import { openLog } from '../log/store.js';
+import { openStore } from '../log/open-store.js';
 import type { LogIndex } from '../log/types.js';
 import type { BandSource } from '../review/bands.js';
 import { batchFigures, revisionsOf, weakestFirst } from '../review/batch.js';
@@ -73,8 +72,7 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
   const filter = filterFromOptions(options);
   const dir = resolveLogDir(options.log, io.env);
   // A review only reads: a mistyped --log must not leave an empty log behind.
-  if (!existsSync(dir)) throw new UsageError(`there is no log at ${dir}; pass --log DIR of an existing log (or record readings first)`);
-  const log = await openLog(dir);
+  const log = await openStore(dir, { mustExist: true });
   let shown = 0;
   const index = await log.readIndex((done, total) => {
     // A rebuild of thousands of boards takes a while: say so every tenth.
@@ -83,7 +81,7 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
       io.stderr(`reading board files for the index: ${done} of ${total}\n`);
     }
   });
-  checkFilterAgainstIndex(index, filter, dir);
+  checkFilterAgainstIndex(index, filter, log.dir);
   let said = -1;
   const bands = planBandSource(log, {
     cacheDir: resolveCacheDir(io.env),
@@ -97,7 +95,7 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
   });
   const figures = await loadBatch(index, bands, filter);
   for (const w of bandCacheWarnings()) io.stderr(`probebook: warning: ${w}\n`);
-  return { figures, filter, dir };
+  return { figures, filter, dir: log.dir };
 }
 
 /** The readable table: weakest check first. */

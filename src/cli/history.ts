@@ -1,5 +1,6 @@
 import { validateSerial } from '../log/serial.js';
-import { type LogStore, openLog } from '../log/store.js';
+import { openStore } from '../log/open-store.js';
+import type { LogStore } from '../log/store.js';
 import type { BenchLog, BoardFile } from '../log/types.js';
 import type { SnapshotBands } from '../review/bands.js';
 import { boardHashes, historyCounts, timelineOf } from '../review/history.js';
@@ -18,13 +19,13 @@ export async function loadBoard(serial: string, logFlag: string | boolean | unde
   const problem = validateSerial(serial);
   if (problem) throw new UsageError(problem);
   const dir = resolveLogDir(logFlag, io.env);
-  const log = await openLog(dir);
+  const log = await openStore(dir, { mustExist: true });
   const board = await log.readBoard(serial);
-  if (board) return { log, board, dir };
+  if (board) return { log, board, dir: log.dir };
   const known = Object.keys((await log.readIndex()).boards);
   const close = closeChecks(serial, known);
   const hint = known.length === 0 ? 'the log has no boards yet (record a reading first, or pass --log DIR)' : close.length > 0 ? `close ones: ${close.join(', ')}` : `it has ${known.length} board${known.length === 1 ? '' : 's'}, e.g. ${known.slice(0, 3).join(', ')}`;
-  throw new UsageError(`no board ${serial} in ${dir}; ${hint}`);
+  throw new UsageError(`no board ${serial} in ${log.dir}; ${hint}`);
 }
 
 /** The targets of every plan revision a board used, by hash (warnings for snapshots that would not load). */

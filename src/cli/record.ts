@@ -3,8 +3,9 @@ import { computeTargets } from '../analysis/targets.js';
 import type { Band, Target, TargetSet, Verdict } from '../analysis/types.js';
 import { uncertaintyFor, verdictFor } from '../analysis/verdict.js';
 import { validateSerial } from '../log/serial.js';
-import { openLog } from '../log/store.js';
-import type { Reading, RunOutcome } from '../log/types.js';
+import { openStore } from '../log/open-store.js';
+import type { InstrumentRef, Reading, RunOutcome } from '../log/types.js';
+import { readFromInstrument } from './instrument-reading.js';
 import { loadPlanFile } from '../plan/load.js';
 import type { Plan } from '../plan/types.js';
 import type { Unit } from '../units/unit.js';
@@ -15,11 +16,14 @@ import type { Command } from './command.js';
 import { UsageError } from './errors.js';
 import { resolveLogDir } from './log-dir.js';
 
-const usage = 'probebook record --plan PLAN --board SERIAL --check ID --value TEXT [--operator NAME] [--json] [--log DIR]';
+const usage = 'probebook record --plan PLAN --board SERIAL --check ID (--value TEXT | --from INSTRUMENT [--instruments FILE]) [--operator NAME] [--json] [--log DIR]';
 
 /** The reading as `record --json` and `history --json` print it (DESIGN §7); ±∞ (an open circuit) as null. */
 export function readingJson(r: Reading) {
-  return { id: r.id, run: r.run, check: r.check, value: Number.isFinite(r.value) ? r.value : null, unit: r.unit, raw: r.raw, at: r.at, operator: r.operator, verdict: r.verdict };
+  return {
+    id: r.id, run: r.run, check: r.check, value: Number.isFinite(r.value) ? r.value : null, unit: r.unit, raw: r.raw, at: r.at, operator: r.operator, verdict: r.verdict,
+    ...(r.instrument ? { instrument: { name: r.instrument.name, identity: r.instrument.identity } } : {}),
+  };
 }
 
 /** `--operator`, else `$PROBEBOOK_OPERATOR`, else `$USER`, else "unknown". */
@@ -120,7 +124,7 @@ function readable(o: Outcome, serial: string, logDir: string): string {
   const { reading: r, target: t } = o;
   const unit = t.unit;
   const lines = [
-    `${r.verdict.toUpperCase()}  ${r.check} = ${formatValue(r.value, unit)}  (typed ${JSON.stringify(r.raw)})`,
+    `${r.verdict.toUpperCase()}  ${r.check} = ${Number.isFinite(r.value) ? formatValue(r.value, unit) : 'OL'}  (${r.instrument ? `from ${r.instrument.name}, answered` : 'typed'} ${JSON.stringify(r.raw)})`,
     `  band ${bandText(t)}; ${deviationText(o.deviation, r.value, t)}`,
     `  reading uncertainty ±${formatValue(o.uncertainty, unit)} (guard band)${t.testPoint ? `, at ${t.testPoint}` : ''}`,
   ];
@@ -152,11 +156,11 @@ function findTarget(set: TargetSet, plan: Plan, check: string): Target {
  */
 export const recordCommand: Command = async (argv, io) => {
   const args = parseArgs(argv, {
-    options: { plan: 'string', board: 'string', check: 'string', value: 'string', operator: 'string', json: 'boolean', log: 'string', help: 'boolean' },
+    options: { plan: 'string', board: 'string', check: 'string', value: 'string', from: 'string', instruments: 'string', operator: 'string', json: 'boolean', log: 'string', help: 'boolean' },
     usage,
   });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\nCaution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`);
+    io.stdout(`usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL\n  --from NAME    take the reading from that bench instrument (SCPI; see probebook instruments --help);\n                 its query by check id, else by unit; an overload (9.9E37) is recorded as OL;\n                 no answer within its timeout, or no number, records nothing (exit 1)\n  --instruments FILE  the instruments file (else $PROBEBOOK_INSTRUMENTS, else $XDG_CONFIG_HOME/probebook/instruments.json)\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\nCaution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`);
     return 0;
   }
   const need = (name: string): string => {
@@ -164,24 +168,41 @@ export const recordCommand: Command = async (argv, io) => {
     if (typeof v !== 'string' || v.trim() === '') throw new UsageError(`--${name} is needed; usage: ${usage}`);
     return v;
   };
-  const [planFile, serial, check, text] = [need('plan'), need('board').trim(), need('check').trim(), need('value')];
+  const fromName = args.options.from;
+  if (fromName !== undefined && args.options.value !== undefined) throw new UsageError(`give --value or --from, not both; usage: ${usage}`);
+  if (fromName === undefined && args.options.instruments !== undefined) throw new UsageError(`--instruments goes with --from; usage: ${usage}`);
+  const [planFile, serial, check] = [need('plan'), need('board').trim(), need('check').trim()];
   const serialProblem = validateSerial(serial);
   if (serialProblem) throw new UsageError(`--board: ${serialProblem}`);
+  if (fromName === undefined) need('value');
+  else if (typeof fromName !== 'string' || fromName.trim() === '') throw new UsageError(`--from needs an instrument name; usage: ${usage}`);
   const plan = await loadPlanFile(planFile, { cwd: io.cwd });
   const set = computeTargets(plan);
   const target = findTarget(set, plan, check);
-  const value = readValue(text, target);
+  let text: string;
+  let value: number;
+  let instrument: InstrumentRef | undefined;
+  if (typeof fromName === 'string') {
+    // Nothing is saved unless the instrument gave a usable number (DESIGN §7a).
+    const taken = await readFromInstrument(fromName.trim(), typeof args.options.instruments === 'string' ? args.options.instruments : undefined, target, io);
+    text = taken.raw;
+    value = taken.value;
+    instrument = taken.instrument;
+  } else {
+    text = need('value');
+    value = readValue(text, target);
+  }
   // An open circuit (OL) is beyond the meter's range, not a figure with a relative error: no guard band.
   const result = verdictFor(target, value, Number.isFinite(value) ? uncertaintyFor(plan, check, target.unit) : undefined);
   const operator = operatorOf(args.options.operator, io.env);
 
   const dir = resolveLogDir(args.options.log, io.env);
-  const log = await openLog(dir);
+  const log = await openStore(dir);
   // The skipped-safety warnings are judged under the board's lock, from the run's readings as saved.
   const saved = await log.appendToOpenRun(
     serial,
     { plan: plan.plan, planHash: plan.hash, planText: plan.text, operator },
-    { check, value, unit: target.unit, raw: text, operator, verdict: result.verdict, planHash: plan.hash, ...(result.warnings.length ? { warnings: result.warnings } : {}) },
+    { check, value, unit: target.unit, raw: text, operator, verdict: result.verdict, planHash: plan.hash, ...(result.warnings.length ? { warnings: result.warnings } : {}), ...(instrument ? { instrument } : {}) },
     (board, run) => skippedSafety(set.targets, target, latestVerdicts(board.readings, run.id)),
   );
   const done = latestVerdicts(saved.board.readings, saved.run.id);
@@ -209,7 +230,7 @@ export const recordCommand: Command = async (argv, io) => {
       })}\n`,
     );
   } else {
-    io.stdout(readable(outcome, serial, dir));
+    io.stdout(readable(outcome, serial, log.dir));
   }
   return 0;
 };

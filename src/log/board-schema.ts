@@ -30,13 +30,17 @@ const optional =
   (check: Check): Check =>
   (v) =>
     v === undefined ? null : check(v);
+const instrumentRef: Check = (v) =>
+  typeof v === 'object' && v !== null && typeof (v as { name?: unknown }).name === 'string' && ['string', 'object'].includes(typeof (v as { identity?: unknown }).identity)
+    ? null
+    : 'expected {"name", "identity"}';
 const texts: Check = (v) => (Array.isArray(v) && v.every((x) => typeof x === 'string') ? null : 'expected a list of texts');
 
 type Shape = Readonly<Record<string, Check>>;
 
 const readingShape: Shape = {
   id: nonEmpty, run: nonEmpty, check: nonEmpty, value: reading, unit, raw: text, at: iso, operator: text,
-  verdict: oneOf('pass', 'marginal', 'fail'), planHash: hash, capture: optional(text), warnings: optional(texts),
+  verdict: oneOf('pass', 'marginal', 'fail'), planHash: hash, capture: optional(text), warnings: optional(texts), instrument: optional(instrumentRef),
 };
 const runShape: Shape = {
   id: nonEmpty, started: iso, ended: isoOrNull, operator: text,

@@ -1,23 +1,18 @@
 import { mkdirSync, statSync } from 'node:fs';
+import { readdir, readFile } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { Low } from 'lowdb';
 import { BoardFileAdapter } from './board-file-adapter.js';
 import { captureExtension, ContentStore, sha256Hex } from './content-store.js';
 import { errorCode, LogInputError } from './errors.js';
 import { withFileLock } from './file-lock.js';
-import { newId } from './ids.js';
+import { addReworkChange, appendReadingChange, appendToOpenRunChange, type AppendResult, type BoardChange, checkRework, emptyBoard as emptyBoardOf, endRunChange, linkCaptureChange, type MergeCounts, mergeBoardChange, startRunChange } from './board-changes.js';
 import { fileStamp, IndexStore, type IndexProgress, journalLimitBytes } from './index-store.js';
 import { validateSerial } from './serial.js';
 import { type BenchLog, type BoardFile, boardSchemaVersion, type CaptureRef, type LogIndex, type Reading, type ReadingInput, type Rework, type Run, type RunOutcome } from './types.js';
 import { checkReadingInput, checkRunStart, type RunStart } from './validate-input.js';
 
-/** What `appendToOpenRun` did: the run used (started when none was open) and the saved reading. */
-export interface AppendResult {
-  readonly run: Run;
-  readonly reading: Reading;
-  readonly board: BoardFile;
-  readonly startedRun: boolean;
-}
+export type { AppendResult } from './board-changes.js';
 
 /** The bench log with the extras the commands use on top of the shared interface. */
 export interface LogStore extends BenchLog {
@@ -32,10 +27,19 @@ export interface LogStore extends BenchLog {
   appendToOpenRun(serial: string, run: RunStart, reading: Omit<ReadingInput, 'run'>, warningsFor?: (board: BoardFile, run: Run) => readonly string[]): Promise<AppendResult>;
   /** The path of a board's file (for messages). */
   boardPath(serial: string): string;
+  /** Every board serial in the log (for `log copy`). */
+  listSerials(): Promise<string[]>;
+  /**
+   * Merge a board copied from another log with the plan snapshots and capture
+   * bytes it refers to (`log copy`): by id, idempotent.
+   */
+  mergeBoard(source: BoardFile, plans: ReadonlyMap<string, string>, captures: ReadonlyMap<string, Uint8Array>): Promise<MergeCounts>;
+  /** Release connections (a database); nothing to do for a folder. */
+  close(): Promise<void>;
 }
 
 export function emptyBoard(serial: string): BoardFile {
-  return { schemaVersion: boardSchemaVersion, serial, plan: null, runs: [], readings: [], rework: [], captures: [] };
+  return emptyBoardOf(serial, boardSchemaVersion);
 }
 
 function checkSerial(serial: string): void {
@@ -52,33 +56,6 @@ function ensureFolder(path: string): void {
     throw error;
   }
   if (!statSync(path).isDirectory()) throw new Error(`log folder ${path} is a file, not a folder; pass another --log DIR`);
-}
-
-function readingFrom(input: ReadingInput, run: Run | undefined): Reading {
-  const warnings = [...(input.warnings ?? [])];
-  if (run?.ended) warnings.push(`recorded after its run ${run.id} ended (${run.ended})`);
-  if (run && run.planHash !== input.planHash) warnings.push(`the plan changed since run ${run.id} started (run ${run.planHash.slice(0, 8)}, reading ${input.planHash.slice(0, 8)})`);
-  return {
-    id: newId('r'),
-    run: input.run,
-    check: input.check,
-    value: input.value,
-    unit: input.unit,
-    raw: input.raw,
-    at: new Date().toISOString(),
-    operator: input.operator,
-    verdict: input.verdict,
-    planHash: input.planHash,
-    ...(input.capture === undefined ? {} : { capture: input.capture }),
-    ...(warnings.length === 0 ? {} : { warnings }),
-  };
-}
-
-function newRun(board: BoardFile, start: RunStart, now: string): { board: BoardFile; run: Run } {
-  // One open run per board: starting another ends the open one as aborted.
-  const runs = board.runs.map((r) => (r.ended === null ? { ...r, ended: now, outcome: 'aborted' as const } : r));
-  const run: Run = { id: newId('u'), started: now, ended: null, operator: start.operator, outcome: 'in-progress', plan: start.plan, planHash: start.planHash };
-  return { board: { ...board, plan: start.plan, runs: [...runs, run] }, run };
 }
 
 class Store implements LogStore {
@@ -108,7 +85,7 @@ class Store implements LogStore {
   }
 
   /** Read, change and durably write one board under its lock; then note it in the index journal. */
-  async #update<T>(serial: string, change: (board: BoardFile) => { board: BoardFile; result: T; touched?: readonly string[] }): Promise<T> {
+  async #update<T>(serial: string, change: (board: BoardFile) => BoardChange<T>): Promise<T> {
     checkSerial(serial);
     const path = this.boardPath(serial);
     // Locks live apart from the boards so that taking one leaves the boards folder's time alone (the index's quick path).
@@ -140,64 +117,64 @@ class Store implements LogStore {
 
   async startRun(serial: string, start: RunStart): Promise<Run> {
     this.#savePlan(start);
-    return this.#update(serial, (board) => {
-      const made = newRun(board, start, new Date().toISOString());
-      return { board: made.board, result: made.run };
-    });
+    return this.#update(serial, startRunChange(start));
   }
 
   async endRun(serial: string, runId: string, outcome: RunOutcome): Promise<Run> {
     if (outcome === 'in-progress') throw new LogInputError('a run cannot end as in-progress; use passed, failed, aborted or power-off');
-    return this.#update(serial, (board) => {
-      const run = board.runs.find((r) => r.id === runId);
-      if (!run) throw new LogInputError(`board ${serial} has no run ${runId}`);
-      if (run.ended !== null) {
-        if (run.outcome === outcome) return { board, result: run };
-        throw new LogInputError(`run ${runId} of board ${serial} already ended ${run.outcome} at ${run.ended}`);
-      }
-      const ended: Run = { ...run, ended: new Date().toISOString(), outcome };
-      return { board: { ...board, runs: board.runs.map((r) => (r.id === runId ? ended : r)) }, result: ended };
-    });
+    return this.#update(serial, endRunChange(serial, runId, outcome));
   }
 
   async appendReading(serial: string, input: ReadingInput): Promise<Reading> {
     checkReadingInput(input);
     this.#checkPlanKept(input.planHash);
-    return this.#update(serial, (board) => {
-      const run = board.runs.find((r) => r.id === input.run);
-      if (!run) throw new LogInputError(`board ${serial} has no run ${input.run}; start a run first`);
-      const reading = readingFrom(input, run);
-      return { board: { ...board, readings: [...board.readings, reading] }, result: reading, touched: [reading.check] };
-    });
+    return this.#update(serial, appendReadingChange(serial, input));
   }
 
   async appendToOpenRun(serial: string, start: RunStart, input: Omit<ReadingInput, 'run'>, warningsFor?: (board: BoardFile, run: Run) => readonly string[]): Promise<AppendResult> {
     this.#savePlan(start);
     checkReadingInput({ ...input, run: 'pending' });
-    return this.#update(serial, (current) => {
-      let board = current;
-      let run = [...board.runs].reverse().find((r) => r.ended === null);
-      const startedRun = run === undefined;
-      if (!run) ({ board, run } = newRun(board, start, new Date().toISOString()));
-      const extra = warningsFor?.(board, run) ?? [];
-      const warnings = [...(input.warnings ?? []), ...extra];
-      const reading = readingFrom({ ...input, run: run.id, ...(warnings.length ? { warnings } : {}) }, run);
-      board = { ...board, readings: [...board.readings, reading] };
-      return { board, result: { run, reading, board, startedRun }, touched: [reading.check] };
-    });
+    return this.#update(serial, appendToOpenRunChange(start, input, warningsFor));
   }
 
   async addRework(serial: string, note: Omit<Rework, 'id' | 'at'>): Promise<Rework> {
-    for (const key of ['part', 'from', 'to', 'note', 'operator'] as const) {
-      if (typeof note[key] !== 'string') throw new LogInputError(`a rework note needs ${key} as text`);
-    }
-    if (note.part.trim() === '') throw new LogInputError('a rework note needs the part, e.g. "osc.Ct"');
-    return this.#update(serial, (board) => {
-      if (note.run !== null && !board.runs.some((r) => r.id === note.run)) throw new LogInputError(`board ${serial} has no run ${note.run}`);
-      const saved: Rework = { id: newId('w'), at: new Date().toISOString(), ...note };
-      return { board: { ...board, rework: [...board.rework, saved] }, result: saved };
-    });
+    checkRework(note);
+    return this.#update(serial, addReworkChange(serial, note));
   }
+
+  async mergeBoard(source: BoardFile, plans: ReadonlyMap<string, string>, captures: ReadonlyMap<string, Uint8Array>): Promise<MergeCounts> {
+    checkSerial(source.serial);
+    for (const [hash, text] of plans) if (!this.#plans.has(hash, 'json')) this.#plans.put(text, 'json', hash);
+    for (const [file, bytes] of captures) {
+      const [hash, ext] = file.split('.');
+      if (hash && ext && !this.#captures.has(hash, ext)) this.#captures.put(bytes, ext, hash);
+    }
+    return this.#update(source.serial, mergeBoardChange(source));
+  }
+
+  async readCapture(file: string): Promise<Uint8Array | null> {
+    const m = /^([0-9a-f]{64})\.([a-z0-9]{1,8})$/.exec(file);
+    if (!m) return null;
+    try {
+      return new Uint8Array(await readFile(join(this.dir, 'captures', file)));
+    } catch (error) {
+      if (errorCode(error) === 'ENOENT') return null;
+      throw error;
+    }
+  }
+
+  async listSerials(): Promise<string[]> {
+    let names: string[];
+    try {
+      names = await readdir(this.#boards);
+    } catch (error) {
+      if (errorCode(error) === 'ENOENT') return [];
+      throw error;
+    }
+    return names.filter((n) => n.endsWith('.json')).map((n) => n.slice(0, -5)).filter((s) => validateSerial(s) === null).sort();
+  }
+
+  async close(): Promise<void> {}
 
   async readPlanSnapshot(hash: string): Promise<string | null> {
     return this.#plans.getText(hash, 'json');
@@ -210,10 +187,7 @@ class Store implements LogStore {
   async linkCapture(serial: string, ref: CaptureRef): Promise<void> {
     const [hash, ext] = ref.file.split('.');
     if (!hash || !ext || !this.#captures.has(hash, ext)) throw new LogInputError(`capture ${ref.file} is not in the log; save it first`);
-    await this.#update(serial, (board) => {
-      const same = board.captures.some((c) => c.file === ref.file && c.check === ref.check && c.run === ref.run);
-      return { board: same ? board : { ...board, captures: [...board.captures, ref] }, result: undefined };
-    });
+    await this.#update(serial, linkCaptureChange(ref));
   }
 }
 

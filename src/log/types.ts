@@ -24,6 +24,14 @@ export interface Reading {
   readonly capture?: string;
   /** Suspect-but-usable notes (skipped safety checks, instrument too coarse). */
   readonly warnings?: readonly string[];
+  /** The bench instrument the value was read from (`record --from`), with its `*IDN?` answer. */
+  readonly instrument?: InstrumentRef;
+}
+
+/** Which instrument gave a reading. */
+export interface InstrumentRef {
+  readonly name: string;
+  readonly identity: string | null;
 }
 
 export type RunOutcome = 'in-progress' | 'passed' | 'failed' | 'aborted' | 'power-off';
@@ -120,6 +128,7 @@ export interface ReadingInput {
   readonly planHash: string;
   readonly capture?: string;
   readonly warnings?: readonly string[];
+  readonly instrument?: InstrumentRef;
 }
 
 /**
@@ -142,4 +151,6 @@ export interface BenchLog {
   /** Copy a capture into the log by content hash; returns its ref (not yet linked to a board). */
   saveCapture(bytes: Uint8Array, name: string): Promise<{ file: string }>;
   linkCapture(serial: string, ref: CaptureRef): Promise<void>;
+  /** The bytes of a saved capture (`<sha256>.<ext>`), or null when the log does not hold it. */
+  readCapture(file: string): Promise<Uint8Array | null>;
 }

@@ -1,7 +1,7 @@
 import { render } from 'ink';
 import type { Command } from '../cli/command.js';
 import { resolveLogDir } from '../cli/log-dir.js';
-import { openLog } from '../log/store.js';
+import { openStore } from '../log/open-store.js';
 import { loadPlanFile } from '../plan/load.js';
 import { App } from './app.js';
 import { PlanCatalog } from './bench/plan-catalog.js';
@@ -76,7 +76,7 @@ export const tuiCommand: Command = async (argv, io) => {
     io.stderr(notTerminalMessage);
     return 2;
   }
-  const log = await openLog(resolveLogDir(args.log, io.env));
+  const log = await openStore(resolveLogDir(args.log, io.env));
   const plans = [];
   for (const file of args.plans) plans.push(await loadPlanFile(file, { cwd: io.cwd }));
   const catalog = new PlanCatalog(log, plans);

@@ -1,17 +1,19 @@
+import type { BenchLog } from '../../log/types.js';
 import { Box, Text } from 'ink';
 import { toneProps } from '../theme.js';
 import { useCaptureTrace } from './use-capture-trace.js';
 
 export interface CaptureViewProps {
-  readonly dir: string;
+  /** Where the capture's bytes come from. */
+  readonly log: Pick<BenchLog, 'readCapture'>;
   readonly file: string | null;
   readonly width: number;
   readonly height: number;
 }
 
 /** A saved capture re-drawn as an ASCII trace. */
-export function CaptureView({ dir, file, width, height }: CaptureViewProps) {
-  const { text, isLoading } = useCaptureTrace(dir, file, width, Math.max(4, height - 2));
+export function CaptureView({ log, file, width, height }: CaptureViewProps) {
+  const { text, isLoading } = useCaptureTrace(log, file, width, Math.max(4, height - 2));
   return (
     <Box flexDirection="column">
       <Text bold>Capture {file ?? '(none)'}</Text>

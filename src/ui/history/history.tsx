@@ -30,7 +30,7 @@ export function HistoryScreen({ log, serial, width, height, isActive = true, onE
   else if (!data) body = null;
   else if (state.view === 'target' && entry?.kind === 'reading') body = <TargetView entry={entry} bands={data.bands} />;
   else if (state.view === 'capture' && entry && (entry.kind === 'capture' || entry.kind === 'reading'))
-    body = <CaptureView dir={log.dir} file={entry.kind === 'capture' ? entry.capture.file : (entry.reading.capture ?? null)} width={width} height={rows} />;
+    body = <CaptureView log={log} file={entry.kind === 'capture' ? entry.capture.file : (entry.reading.capture ?? null)} width={width} height={rows} />;
   else if (state.panel === 'rework') body = <ReworkPanel board={data.board} selected={state.reworkSelected} rows={rows} width={width} />;
   else body = <TimelineList entries={data.timeline} selected={state.selected} rows={rows} width={width} />;
   const tabs = state.view === 'list' && data ? (

@@ -1,16 +1,22 @@
-import { join } from 'node:path';
 import { useEffect, useState } from 'react';
-import { readCaptureFile } from '../../signal/read-capture.js';
+import type { BenchLog } from '../../log/types.js';
+import { readCaptureBytes } from '../../signal/read-capture.js';
 import { traceChart } from '../charts/trace.js';
 
-/** The chart of a saved capture (`captures/<file>` in the log), drawn once loaded. */
-export function useCaptureTrace(dir: string, file: string | null, width: number, height: number): { text: string; isLoading: boolean } {
+/** The chart of a saved capture (by its file name in the log, folder or database), drawn once loaded. */
+export function useCaptureTrace(log: Pick<BenchLog, 'readCapture'>, file: string | null, width: number, height: number): { text: string; isLoading: boolean } {
   const [state, setState] = useState<{ file: string | null; text: string }>({ file: null, text: '' });
   useEffect(() => {
     if (!file) return;
     let isCurrent = true;
-    readCaptureFile(join(dir, 'captures', file), { name: file }).then(
-      ({ capture }) => {
+    log
+      .readCapture(file)
+      .then((bytes) => {
+        if (!bytes) throw new Error('the log does not hold it');
+        return readCaptureBytes(bytes, { name: file });
+      })
+      .then(
+      (capture) => {
         const channel = capture.channels[0];
         const text = channel
           ? `${traceChart(null, channel.samples, { width, height, unit: channel.unit })}\n${capture.source}, ${channel.samples.length} samples at ${capture.sampleRate} S/s`
@@ -22,6 +28,6 @@ export function useCaptureTrace(dir: string, file: string | null, width: number,
     return () => {
       isCurrent = false;
     };
-  }, [dir, file, width, height]);
+  }, [log, file, width, height]);
   return file && state.file === file ? { text: state.text, isLoading: false } : { text: '', isLoading: file !== null };
 }

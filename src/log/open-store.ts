@@ -1,0 +1,23 @@
+import { existsSync } from 'node:fs';
+import { LogLocationError, parseLogLocation } from './location.js';
+import { openLog, type LogStore } from './store.js';
+
+export interface OpenOptions {
+  /**
+   * A command that only reads (history, report, batch) never creates a log:
+   * a folder that does not exist is an error. A database is created only by
+   * the schema's first use, which any command may make.
+   */
+  readonly mustExist?: boolean;
+}
+
+/** Open the log a location names (a folder or a PostgreSQL URL, DESIGN §6), chosen once here. */
+export async function openStore(location: string, options: OpenOptions = {}): Promise<LogStore> {
+  const where = parseLogLocation(location);
+  if (where.kind === 'postgres') {
+    const { openPgLog } = await import('./pg-store.js');
+    return openPgLog(where.url, where.shown);
+  }
+  if (options.mustExist && !existsSync(where.path)) throw new LogLocationError(`there is no log at ${where.path}; pass --log DIR of an existing log (or record readings first)`);
+  return openLog(where.path);
+}
