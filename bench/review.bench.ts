@@ -16,6 +16,8 @@ import { toLogJson } from '../src/log/json-text.js';
 import { openLog } from '../src/log/store.js';
 import { boardSchemaVersion, type BoardFile, type Reading } from '../src/log/types.js';
 import { loadPlanText } from '../src/plan/load.js';
+import { computeTargets } from '../src/analysis/targets.js';
+import { TargetsCache } from '../src/log/targets-cache.js';
 import { planBandSource } from '../src/ui/batch/plan-bands.js';
 import { loadHistory } from '../src/ui/history/load-history.js';
 import { benchPlan } from './review-plan.js';
@@ -25,6 +27,8 @@ const checksPerBoard = 60;
 const root = join(tmpdir(), 'probebook-review-bench');
 const dir = join(root, 'log');
 const cacheDir = join(root, 'cache');
+/** A fresh cache object over the bench's cache folder (as a new process would open it). */
+const diskCache = () => new TargetsCache({ dir: cacheDir, compute: computeTargets });
 rmSync(root, { recursive: true, force: true });
 mkdirSync(root, { recursive: true });
 process.env.PROBEBOOK_CACHE = cacheDir;
@@ -42,17 +46,16 @@ const planText = `${JSON.stringify(benchPlan, null, 2)}\n`;
 const plan = loadPlanText(planText, 'bench-review.plan.json');
 
 let t0 = performance.now();
-const bands = await planBandSource(log, { cacheDir }).load([]);
+const bands = await planBandSource(log, diskCache()).load([]);
 void bands;
 // Board 1 through the store: run, 60 durable readings, end (also saves the plan snapshot).
 const targets: Target[] = [];
 {
   const first = await log.startRun('BR-00001', { plan: plan.plan, planHash: plan.hash, planText, operator: 'bench' });
   t0 = performance.now();
-  const set = await planBandSource(log, { cacheDir }).get(plan.hash);
+  const set = await planBandSource(log, diskCache()).get(plan.hash);
   const coldTargets = ms(t0);
   console.log(`targets of the ${set?.order.length}-check plan, first time (Monte Carlo, then cached): ${fmt(coldTargets)}`);
-  const { computeTargets } = await import('../src/analysis/targets.js');
   targets.push(...computeTargets(plan).targets.slice(0, checksPerBoard));
   t0 = performance.now();
   for (const t of targets) {
@@ -127,7 +130,7 @@ console.log(`batch --json in process (${boards} boards × ${checksPerBoard} chec
   const index = await fresh.readIndex();
   const tIndex = ms(t);
   t = performance.now();
-  const source = planBandSource(fresh, { cacheDir });
+  const source = planBandSource(fresh, diskCache());
   const snaps = await source.load(revisionsOf(index));
   const tBands = ms(t);
   // The store reads every board's per-check summaries lazily, on first access: time that apart.
@@ -184,7 +187,7 @@ console.log(`batch --json as a process (bundled): median ${fmt(median(asProcess)
 const history: number[] = [];
 for (let i = 0; i < 20; i++) {
   t0 = performance.now();
-  await loadHistory(log, 'BR-00040');
+  await loadHistory(log, 'BR-00040', planBandSource(log, diskCache()));
   history.push(ms(t0));
 }
 console.log(`history screen data load of one board (board file + plan snapshot bands): median ${fmt(median(history))}`);

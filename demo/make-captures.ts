@@ -39,7 +39,7 @@ const fmt = (v: number, digits: number): string => v.toPrecision(digits);
   const fs = 200e3;
   const v = series(4000, fs, (t) => 3.1 * shapedSine((f * t) % 1) + noise(0.004));
   const rows = [`# ${notice}`, '# board LX-0042 (invented), TP4 shaper out, 10x probe', 'Time (s),TP4 (V)'];
-  v.forEach((x, i) => rows.push(`${fmt(i / fs, 7)},${fmt(x, 6)}`));
+  for (const [i, x] of v.entries()) rows.push(`${fmt(i / fs, 7)},${fmt(x, 6)}`);
   writeFileSync(join(dir, 'exciter-sine.csv'), `${rows.join('\n')}\n`);
 }
 
@@ -50,7 +50,7 @@ const fmt = (v: number, digits: number): string => v.toPrecision(digits);
   const clip = 10.2; // V, invented output swing limit on ±12 V rails
   const v = series(4000, fs, (t) => Math.max(-clip, Math.min(clip, 13.5 * Math.sin(2 * Math.PI * f * t))) + noise(0.01));
   const rows = [notice, 'Board;LX-0043 (invented)', 'Probe;TP7 driver out', 'Sample Interval;0,000004', 'OUT [V]'];
-  v.forEach((x) => rows.push(fmt(x, 5).replace('.', ',')));
+  for (const x of v) rows.push(fmt(x, 5).replace('.', ','));
   writeFileSync(join(dir, 'driver-clipped.csv'), `${rows.join('\r\n')}\r\n`);
 }
 
@@ -64,7 +64,7 @@ const fmt = (v: number, digits: number): string => v.toPrecision(digits);
     return (Math.abs(vin) < vbe ? 0 : vin - Math.sign(vin) * vbe) + noise(0.003);
   });
   const rows = [`# ${notice}`, 't [ms]\tOUT [mV]'];
-  v.forEach((x, i) => rows.push(`${fmt((i / fs) * 1e3, 7)}\t${fmt(x * 1e3, 5)}`));
+  for (const [i, x] of v.entries()) rows.push(`${fmt((i / fs) * 1e3, 7)}\t${fmt(x * 1e3, 5)}`);
   writeFileSync(join(dir, 'driver-notch.tsv'), `${rows.join('\n')}\n`);
 }
 

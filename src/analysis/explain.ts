@@ -45,7 +45,7 @@ export function explainReading(plan: Plan, check: string, reading: number): Expl
   const target = chain.checks[index];
   if (!target || target.phase === 'unpowered' || target.phase === 'first-power') return [];
   // A hand-written (manual) target has no model: its band is not a part that could be wrong.
-  const modelled = (id: string) => plan.stages.find((s) => s.id === id)?.kind !== 'manual';
+  const modelled = (id: string) => plan.stages.find((s) => s.id === id)?.module.traits?.isHandWritten !== true;
   const stages = new Set((target.stage === 'rails' ? [] : [target.stage, ...upstreamOf(plan.stages, target.stage)]).filter(modelled));
   // Stages after the check's own cannot change it: leave them out of the search.
   const upTo = chain.stageIndex(target.stage) + 1;

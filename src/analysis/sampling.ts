@@ -26,7 +26,6 @@ export interface SampleOptions {
 export function sampleChain(chain: Chain, options: SampleOptions): Samples {
   const { trials, seed, distribution, onProgress } = options;
   const random = createRandom(seed);
-  const nVar = chain.variables.length;
   const nCheck = chain.checks.length;
   const varied = Int32Array.from(
     chain.variables.flatMap((v, i) => (v.tol > 0 ? [i] : [])),
@@ -37,7 +36,6 @@ export function sampleChain(chain: Chain, options: SampleOptions): Samples {
   const values = Array.from({ length: nCheck }, () => new Float64Array(trials));
   const missing = new Int32Array(nCheck);
   const step = Math.max(1000, Math.floor(trials / 20));
-  void nVar;
   for (let t = 0; t < trials; t++) {
     for (let k = 0; k < varied.length; k++) {
       const i = varied[k] as number;

@@ -122,7 +122,7 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
       worst: { min: lo, max: hi },
       stat: { min: statMin, max: statMax },
       // A hand-written target's spread is its own band, not any part's.
-      contributors: stage?.kind === 'manual' ? [] : contributorsOf(chain, perSigma, i, nominal),
+      contributors: stage?.module.traits?.isHandWritten ? [] : contributorsOf(chain, perSigma, i, nominal),
     };
   });
 

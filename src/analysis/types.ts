@@ -1,3 +1,4 @@
+import type { Phase } from '../plan/types.js';
 import type { Unit } from '../units/unit.js';
 
 /** A closed interval in the check's unit. */
@@ -6,8 +7,8 @@ export interface Band {
   readonly max: number;
 }
 
-/** Where a check sits in a safe bring-up. */
-export type Phase = 'unpowered' | 'first-power' | 'rails' | 'stage';
+/** Where a check sits in a safe bring-up (defined with the plan's checks). */
+export type { Phase };
 
 /** One part's share of a band (normalised so that shares sum to 1). */
 export interface Contributor {

@@ -4,12 +4,6 @@ import { formatValue } from '../units/format.js';
 import { vpp } from '../circuit/waveform.js';
 import type { DesignWarning } from './types.js';
 
-/** Stage kinds built around an op-amp: the supply ceiling and full-power bandwidth apply to them. */
-export const opampKinds: ReadonlySet<string> = new Set(['schmitt-integrator', 'inverting-amp', 'noninverting-amp']);
-
-/** Amplifier kinds whose signal must stay inside the op-amp's full-power bandwidth. */
-const amplifierKinds: ReadonlySet<string> = new Set(['inverting-amp', 'noninverting-amp']);
-
 /**
  * Design warnings before any power is applied (DESIGN §4), beyond the stages'
  * own: rails above an op-amp's supply ceiling, a signal above an amplifier's
@@ -32,7 +26,8 @@ export function designWarnings(plan: Plan, nominal: ChainDetail): DesignWarning[
   }
 
   for (const stage of plan.stages) {
-    if (!opampKinds.has(stage.kind)) continue;
+    // Stages built around the op-amp (the kind's `usesOpamp` trait): its supply ceiling applies.
+    if (!stage.module.traits?.usesOpamp) continue;
     // The supply ceiling is per rail, |V+| and |V−| (common practice, no source: general-purpose parts stop at about ±15 V).
     for (const rail of plan.rails) {
       const top = Math.abs(rail.nominal) * (1 + rail.tol);
@@ -45,7 +40,8 @@ export function designWarnings(plan: Plan, nominal: ChainDetail): DesignWarning[
   }
 
   for (const stage of plan.stages) {
-    if (!amplifierKinds.has(stage.kind) || !stage.input) continue;
+    // Linear amplifiers (the `isAmplifier` trait): the signal must stay inside the op-amp's bandwidths.
+    if (!stage.module.traits?.isAmplifier || !stage.input) continue;
     const input = nominal.outputs[`${stage.input.stage}.${stage.input.output}`];
     const output = nominal.outputs[`${stage.id}.out`];
     if (!input || !output || !(input.frequency > 0)) continue;

@@ -37,7 +37,7 @@ export function worstCase(chain: Chain, perSigma: readonly Float64Array[]): { mi
   if (varied.length <= maxCornerVariables) {
     const corners = 1 << varied.length;
     for (let m = 0; m < corners; m++) {
-      varied.forEach((i, k) => setEnd(i, (m >> k) & 1 ? 1 : -1));
+      for (let k = 0; k < varied.length; k++) setEnd(varied[k] as number, (m >> k) & 1 ? 1 : -1);
       take();
     }
   } else {

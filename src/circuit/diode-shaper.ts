@@ -133,6 +133,7 @@ const shaperChecks: readonly CheckSpec[] = [
 export const diodeShaperKind: StageKind<DiodeShaperSettings> = {
   kind: 'diode-shaper',
   summary: 'diode wave shaper: series Rs into a node loaded by diode-resistor breakpoint branches (Shockley law solved per sample)',
+  traits: { usesOpamp: false, isAmplifier: false, isHandWritten: false },
   roles: [
     { role: 'Rs', unit: 'Ω', description: 'series resistor from the input to the shaper node' },
     { role: 'Rload', unit: 'Ω', description: 'load from the shaper node to ground', optional: true },

@@ -28,6 +28,7 @@ const checks: readonly CheckSpec[] = [
 export const dividerKind: StageKind<DividerSettings> = {
   kind: 'divider',
   summary: 'resistive divider from a rail: DC level Rbottom/(Rtop + Rbottom) of the rail',
+  traits: { usesOpamp: false, isAmplifier: false, railSetting: 'from', isHandWritten: false },
   roles: [
     { role: 'Rtop', unit: 'Ω', description: 'resistor from the rail to the tap' },
     { role: 'Rbottom', unit: 'Ω', description: 'resistor from the tap to ground' },

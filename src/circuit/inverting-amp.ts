@@ -15,6 +15,7 @@ function evaluate(input: EvalInput<InvertingAmpSettings>): EvalOutput {
 export const invertingAmpKind: StageKind<InvertingAmpSettings> = {
   kind: 'inverting-amp',
   summary: 'inverting op-amp gain stage: gain −Rf/Rin, bandwidth GBW/(1 + Rf/Rin), clipping and slew from the op-amp',
+  traits: { usesOpamp: true, isAmplifier: true, isHandWritten: false },
   roles: [
     { role: 'Rin', unit: 'Ω', description: 'input resistor, from the input to the inverting input' },
     { role: 'Rf', unit: 'Ω', description: 'feedback resistor, from the output to the inverting input' },

@@ -111,6 +111,7 @@ function evaluate(input: EvalInput<ManualSettings>): EvalOutput {
 export const manualKind: StageKind<ManualSettings> = {
   kind: 'manual',
   summary: 'targets written by hand (nominal ± tolerance, or min … max) for anything without a model',
+  traits: { usesOpamp: false, isAmplifier: false, isHandWritten: true },
   roles: [
     { role: 'checks[i].nominal', unit: '1', description: 'a hand-written nominal with its percentage tolerance (in the check\'s unit)' },
     { role: 'checks[i].band', unit: '1', description: 'position within a hand-written min … max band (0.5 = min, 1.5 = max)' },

@@ -16,6 +16,7 @@ function evaluate(input: EvalInput<NoninvertingAmpSettings>): EvalOutput {
 export const noninvertingAmpKind: StageKind<NoninvertingAmpSettings> = {
   kind: 'noninverting-amp',
   summary: 'non-inverting op-amp gain stage: gain 1 + Rf/Rg, bandwidth GBW/(1 + Rf/Rg), clipping and slew from the op-amp',
+  traits: { usesOpamp: true, isAmplifier: true, isHandWritten: false },
   roles: [
     { role: 'Rg', unit: 'Ω', description: 'resistor from the inverting input to ground' },
     { role: 'Rf', unit: 'Ω', description: 'feedback resistor, from the output to the inverting input' },

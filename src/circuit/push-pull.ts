@@ -116,6 +116,7 @@ function checks(settings: PushPullSettings): readonly CheckSpec[] {
 export const pushPullKind: StageKind<PushPullSettings> = {
   kind: 'push-pull',
   summary: 'complementary emitter-follower output: dead band 2·Vbe without bias, ≈ unity with diode bias; load and base currents',
+  traits: { usesOpamp: false, isAmplifier: false, isHandWritten: false },
   roles: [
     { role: 'Rload', unit: 'Ω', description: 'load from the output to ground', optional: true },
     { role: 'vbe', unit: 'V', description: 'base-emitter drop of the output transistors', optional: true },

@@ -27,6 +27,7 @@ const checks: readonly CheckSpec[] = [
 export const rcLowpassKind: StageKind<RcLowpassSettings> = {
   kind: 'rc-lowpass',
   summary: 'first-order RC low-pass: corner 1/(2πRC), each harmonic of the signal attenuated and delayed',
+  traits: { usesOpamp: false, isAmplifier: false, isHandWritten: false },
   roles: [
     { role: 'R', unit: 'Ω', description: 'series resistor' },
     { role: 'C', unit: 'F', description: 'shunt capacitor to ground' },

@@ -130,6 +130,7 @@ const faultHints: Readonly<Record<string, readonly string[]>> = {
 export const schmittIntegratorKind: StageKind<SchmittSettings> = {
   kind: 'schmitt-integrator',
   summary: 'square/triangle relaxation oscillator: comparator with hysteresis into an integrator',
+  traits: { usesOpamp: true, isAmplifier: false, isHandWritten: false },
   roles: [
     { role: 'R1', unit: 'Ω', description: 'hysteresis resistor from the triangle to the comparator input' },
     { role: 'R2', unit: 'Ω', description: 'feedback resistor from the square to the comparator input' },

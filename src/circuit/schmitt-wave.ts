@@ -50,7 +50,7 @@ export function schmittWaves(
       end = seg === 1 ? ends1 : seg === 2 ? ends2 : seg === 3 ? ends3 : Infinity;
     }
     const dt = time - segStart;
-    square[i] = valueOf(seg, dt, mid, slope, sH, sL);
+    square[i] = segmentValue(seg, dt, mid, slope, sH, sL);
     // The integrator inverts: the triangle falls while the square is high.
     const v = offset - (segArea + areaOf(seg, dt, mid, slope, sH, sL)) * scale;
     triangle[i] = v > swingHigh ? swingHigh : v < swingLow ? swingLow : v;
@@ -59,7 +59,7 @@ export function schmittWaves(
   return { square: { frequency, samples: square }, triangle: { frequency, samples: triangle } };
 }
 
-function valueOf(seg: number, dt: number, mid: number, slope: number, sH: number, sL: number): number {
+function segmentValue(seg: number, dt: number, mid: number, slope: number, sH: number, sL: number): number {
   switch (seg) {
     case 0:
       return mid + slope * dt;

@@ -46,6 +46,7 @@ function checks(settings: SignalInSettings): readonly CheckSpec[] {
 export const signalInKind: StageKind<SignalInSettings> = {
   kind: 'signal-in',
   summary: 'test signal from a bench generator at an input connector (sine, triangle or square)',
+  traits: { usesOpamp: false, isAmplifier: false, isHandWritten: false },
   roles: [
     { role: 'peak', unit: 'V', description: 'generator amplitude, zero to peak' },
     { role: 'frequency', unit: 'Hz', description: 'generator frequency' },

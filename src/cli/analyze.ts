@@ -1,3 +1,4 @@
+import { resolveLogDir } from './log-dir.js';
 import { parseArgs } from './args.js';
 import type { Command } from './command.js';
 import { UsageError } from './errors.js';
@@ -44,6 +45,8 @@ export const analyzeCommand: Command = async (argv, io) => {
     return 0;
   }
   const file = positionals[0];
+  // Accepted like on every command (an empty one refused); a capture analysis never touches the log.
+  resolveLogDir(options.log, io.env);
   if (file === undefined) throw new UsageError(`missing argument; usage: ${usage}`);
   const expect = options.expect;
   if (expect !== undefined && !expectedShapes.includes(expect as ExpectedShape)) {

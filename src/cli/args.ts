@@ -30,6 +30,11 @@ export function parseArgs(argv: readonly string[], spec: ArgSpec): ParsedArgs {
       positionals.push(...argv.slice(i + 1));
       break;
     }
+    // `-h` is `--help` on every command that has one (the usual short form).
+    if (word === '-h' && spec.options.help === 'boolean') {
+      options.help = true;
+      continue;
+    }
     if (word.startsWith('--')) {
       const eq = word.indexOf('=');
       const name = eq >= 0 ? word.slice(2, eq) : word.slice(2);

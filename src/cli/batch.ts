@@ -5,17 +5,18 @@ import { batchFigures, revisionsOf, weakestFirst } from '../review/batch.js';
 import { batchJson } from '../review/batch-json.js';
 import type { BatchFigures } from '../review/batch-types.js';
 import { describeFilter, parseDateBound, type BatchFilter } from '../review/filter.js';
-import { cell, cpkWord, fig, index2, pct, rcell } from '../review/format.js';
-import { bandCacheWarnings, planBandSource, resolveCacheDir } from '../ui/batch/plan-bands.js';
+import { padCell, cpkWord, formatFigure, formatIndex, formatPercent, padCellRight } from '../review/format.js';
+import { planBandSource } from '../ui/batch/plan-bands.js';
 import { parseArgs, type ParsedArgs } from './args.js';
 import type { Command, CommandIo } from './command.js';
 import { UsageError } from './errors.js';
 import { resolveLogDir } from './log-dir.js';
+import { cacheHelp, targetsCacheFor } from './targets-cache.js';
 
 /** Options every batch view shares (the shell table, the JSON and the reports). */
-export const batchOptions = { plan: 'string', rev: 'string', check: 'string', from: 'string', to: 'string', log: 'string' } as const;
+export const batchOptions = { plan: 'string', rev: 'string', check: 'string', from: 'string', to: 'string', log: 'string', cache: 'string' } as const;
 
-const usage = 'probebook batch [--plan ID] [--rev HASH] [--check ID] [--from DATE] [--to DATE] [--json] [--log DIR]';
+const usage = 'probebook batch [--plan ID] [--rev HASH] [--check ID] [--from DATE] [--to DATE] [--json] [--log DIR] [--cache DIR]';
 
 /** The filter the options describe, or a UsageError that says what to type. */
 function filterFromOptions(options: ParsedArgs['options']): BatchFilter {
@@ -71,6 +72,8 @@ async function loadBatch(
 export async function runBatch(options: ParsedArgs['options'], io: CommandIo): Promise<{ figures: BatchFigures; filter: BatchFilter; dir: string }> {
   const filter = filterFromOptions(options);
   const dir = resolveLogDir(options.log, io.env);
+  // Every argument is checked before the log is opened.
+  const cache = targetsCacheFor(options.cache, io);
   // A review only reads: a mistyped --log must not leave an empty log behind.
   const log = await openStore(dir, { mustExist: true });
   let shown = 0;
@@ -83,18 +86,14 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
   });
   checkFilterAgainstIndex(index, filter, log.dir);
   let said = -1;
-  const bands = planBandSource(log, {
-    cacheDir: resolveCacheDir(io.env),
-    onProgress: (hash, done, total) => {
-      // The first review of a new plan revision runs its Monte Carlo once (then cached).
-      const tenth = Math.floor((10 * done) / total);
-      if (tenth === said) return;
-      said = tenth;
-      io.stderr(`computing the targets of plan snapshot ${hash.slice(0, 12)} (once, then cached): ${tenth * 10} %\n`);
-    },
+  const bands = planBandSource(log, cache, (hash, done, total) => {
+    // The first review of a new plan revision runs its Monte Carlo once (then cached).
+    const tenth = Math.floor((10 * done) / total);
+    if (tenth === said) return;
+    said = tenth;
+    io.stderr(`computing the targets of plan snapshot ${hash.slice(0, 12)} (once, then cached): ${tenth * 10} %\n`);
   });
   const figures = await loadBatch(index, bands, filter);
-  for (const w of bandCacheWarnings()) io.stderr(`probebook: warning: ${w}\n`);
   return { figures, filter, dir: log.dir };
 }
 
@@ -102,17 +101,17 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
 function batchTable(f: BatchFigures, filter: BatchFilter): string {
   const lines: string[] = [];
   lines.push(`batch · ${describeFilter(filter)} · ${f.boards} board${f.boards === 1 ? '' : 's'}${f.incomplete ? ` (${f.incomplete} not through every check)` : ''}`);
-  lines.push(`first-pass yield ${pct(f.firstPassYield)} (${f.firstPassBoards}/${f.boards}) · final yield ${pct(f.finalYield)} (${f.finalPassBoards}/${f.boards})`);
+  lines.push(`first-pass yield ${formatPercent(f.firstPassYield)} (${f.firstPassBoards}/${f.boards}) · final yield ${formatPercent(f.finalYield)} (${f.finalPassBoards}/${f.boards})`);
   if (f.checks.length === 0) {
     lines.push('no readings match; widen the filter or record some readings first');
     return `${lines.join('\n')}\n`;
   }
   lines.push('');
-  lines.push(`${cell('check (weakest first)', 24)}${rcell('n', 7)}${rcell('pass', 7)}${rcell('marg', 7)}${rcell('fail', 7)}${rcell('final', 8)}${rcell('mean', 12)}${rcell('sd', 11)}${rcell('Cp', 6)}${rcell('Cpk', 6)}  capability`);
+  lines.push(`${padCell('check (weakest first)', 24)}${padCellRight('n', 7)}${padCellRight('pass', 7)}${padCellRight('marg', 7)}${padCellRight('fail', 7)}${padCellRight('final', 8)}${padCellRight('mean', 12)}${padCellRight('sd', 11)}${padCellRight('Cp', 6)}${padCellRight('Cpk', 6)}  capability`);
   for (const c of [...f.checks].sort(weakestFirst)) {
     const word = c.status === 'ok' || c.status === 'one-sided' ? cpkWord(c.cpk) : c.status === 'no-band' ? 'no band' : 'not enough data';
     lines.push(
-      `${cell(c.check, 24)}${rcell(String(c.n), 7)}${rcell(String(c.pass), 7)}${rcell(String(c.marginal), 7)}${rcell(String(c.fail), 7)}${rcell(pct(c.finalYield), 8)}${rcell(fig(c.mean, c.unit), 12)}${rcell(fig(c.sd, c.unit, 3), 11)}${rcell(index2(c.cp), 6)}${rcell(index2(c.cpk), 6)}  ${word}`,
+      `${padCell(c.check, 24)}${padCellRight(String(c.n), 7)}${padCellRight(String(c.pass), 7)}${padCellRight(String(c.marginal), 7)}${padCellRight(String(c.fail), 7)}${padCellRight(formatPercent(c.finalYield), 8)}${padCellRight(formatFigure(c.mean, c.unit), 12)}${padCellRight(formatFigure(c.sd, c.unit, 3), 11)}${padCellRight(formatIndex(c.cp), 6)}${padCellRight(formatIndex(c.cpk), 6)}  ${word}`,
     );
   }
   const plans = new Set(f.checks.map((c) => c.plan));
@@ -120,7 +119,7 @@ function batchTable(f: BatchFigures, filter: BatchFilter): string {
   const notes = f.checks.filter((c) => c.status !== 'ok');
   for (const c of notes) lines.push(`${c.check}: ${c.note}`);
   for (const c of f.checks.filter((x) => x.bandsDiffer)) lines.push(`${c.check}: boards of older plan revisions were judged against a different band`);
-  const outliers = f.checks.flatMap((c) => c.outliers.map((o) => `${o.serial} (${c.check} ${fig(o.value, c.unit)}, ${o.reasons.join(', ')})`));
+  const outliers = f.checks.flatMap((c) => c.outliers.map((o) => `${o.serial} (${c.check} ${formatFigure(o.value, c.unit)}, ${o.reasons.join(', ')})`));
   if (outliers.length > 0) {
     lines.push('', `outlier boards (${outliers.length}): ${outliers.slice(0, 8).join('; ')}${outliers.length > 8 ? '; …' : ''}`);
     lines.push('open one with: probebook history SERIAL');
@@ -130,14 +129,15 @@ function batchTable(f: BatchFigures, filter: BatchFilter): string {
 }
 
 /** What `batch --help` prints. */
-const batchHelpText = `${usage}
+const batchHelpText = `usage: ${usage}
   the latest reading of each check on each board: n, pass/marginal/fail, mean, sd,
   min, max, Cp and Cpk against the worst-case band, first-pass and final yield;
   the table lists the weakest check first, --json prints {"checks":[…]} in plan order.
   --plan ID      one plan            --rev HASH   one plan revision (4+ hex digits)
   --check ID     one check           --from/--to  date range of the latest reading
                                                   (2026-11-30 or 2026-11-30T14:00:00Z, UTC)
-`;
+  --log DIR      the log to read (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook); only read, never created
+${cacheHelp}`;
 
 export const batchCommand: Command = async (argv, io) => {
   if (argv.includes('--help') || argv.includes('-h')) {

@@ -4,15 +4,17 @@ import type { LogStore } from '../log/store.js';
 import type { BenchLog, BoardFile } from '../log/types.js';
 import type { SnapshotBands } from '../review/bands.js';
 import { boardHashes, historyCounts, timelineOf } from '../review/history.js';
-import { planBandSource, resolveCacheDir } from '../ui/batch/plan-bands.js';
+import type { TargetsCache } from '../log/targets-cache.js';
+import { planBandSource } from '../ui/batch/plan-bands.js';
 import { formatValue } from '../units/format.js';
 import { parseArgs } from './args.js';
 import type { Command, CommandIo } from './command.js';
 import { UsageError } from './errors.js';
 import { resolveLogDir } from './log-dir.js';
-import { bandWords, closeChecks, deviationWords, readingJson } from './record.js';
+import { cacheHelp, targetsCacheFor } from './targets-cache.js';
+import { bandWords, closeMatches, deviationWords, readingJson } from './record.js';
 
-const usage = 'probebook history SERIAL [--json] [--log DIR]';
+const usage = 'probebook history SERIAL [--json] [--log DIR] [--cache DIR]';
 
 /** Open the log and read one board, or a UsageError naming the log and the boards close to the serial. */
 export async function loadBoard(serial: string, logFlag: string | boolean | undefined, io: CommandIo): Promise<{ log: LogStore; board: BoardFile; dir: string }> {
@@ -23,15 +25,14 @@ export async function loadBoard(serial: string, logFlag: string | boolean | unde
   const board = await log.readBoard(serial);
   if (board) return { log, board, dir: log.dir };
   const known = Object.keys((await log.readIndex()).boards);
-  const close = closeChecks(serial, known);
+  const close = closeMatches(serial, known);
   const hint = known.length === 0 ? 'the log has no boards yet (record a reading first, or pass --log DIR)' : close.length > 0 ? `close ones: ${close.join(', ')}` : `it has ${known.length} board${known.length === 1 ? '' : 's'}, e.g. ${known.slice(0, 3).join(', ')}`;
   throw new UsageError(`no board ${serial} in ${log.dir}; ${hint}`);
 }
 
 /** The targets of every plan revision a board used, by hash (warnings for snapshots that would not load). */
-export async function boardBands(log: Pick<BenchLog, 'readPlanSnapshot'>, board: BoardFile, env: NodeJS.ProcessEnv): Promise<{ bands: ReadonlyMap<string, SnapshotBands>; problems: string[] }> {
-  // The command's own environment decides the cache folder (PROBEBOOK_CACHE), as `batch` does.
-  const source = planBandSource(log, { cacheDir: resolveCacheDir(env) });
+export async function boardBands(log: Pick<BenchLog, 'readPlanSnapshot'>, board: BoardFile, cache: TargetsCache): Promise<{ bands: ReadonlyMap<string, SnapshotBands>; problems: string[] }> {
+  const source = planBandSource(log, cache);
   const bands = await source.load(boardHashes(board));
   return { bands, problems: source.problems().map((p) => p.message) };
 }
@@ -102,19 +103,23 @@ export function historyJson(board: BoardFile) {
 
 /** `probebook history SERIAL` (DESIGN §7): one board's runs, readings and rework notes in time order. */
 export const historyCommand: Command = async (argv, io) => {
-  const args = parseArgs(argv, { options: { json: 'boolean', log: 'string', help: 'boolean' }, positionals: [0, 1], usage });
+  const args = parseArgs(argv, { options: { json: 'boolean', log: 'string', cache: 'string', help: 'boolean' }, positionals: [0, 1], usage });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  a board's runs, readings (with the band each was judged against) and rework notes, oldest first\n  --json   the same as data: {"serial","runs","readings","rework"}\n`);
+    io.stdout(
+      `usage: ${usage}\n  a board's runs, readings (with the band each was judged against) and rework notes, oldest first\n  --json       the same as data: {"serial","runs","readings","rework"}\n  --log DIR    the log to read (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook); only read, never created\n${cacheHelp}`,
+    );
     return 0;
   }
   const serial = args.positionals[0];
   if (serial === undefined) throw new UsageError(`missing argument SERIAL; usage: ${usage}`);
+  // Every argument is checked before the log is opened (nothing touches the disk until then).
+  const cache = targetsCacheFor(args.options.cache, io);
   const { log, board, dir } = await loadBoard(serial, args.options.log, io);
   if (args.options.json) {
     io.stdout(`${JSON.stringify(historyJson(board))}\n`);
     return 0;
   }
-  const { bands, problems } = await boardBands(log, board, io.env);
+  const { bands, problems } = await boardBands(log, board, cache);
   io.stdout(historyText(board, bands, dir));
   for (const p of problems) io.stderr(`probebook: warning: ${p}\n`);
   return 0;

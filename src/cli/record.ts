@@ -1,5 +1,5 @@
 import { nextCheck } from '../analysis/next-check.js';
-import { computeTargets } from '../analysis/targets.js';
+import { defaultSeed, defaultTrials } from '../analysis/targets.js';
 import type { Band, Target, TargetSet, Verdict } from '../analysis/types.js';
 import { uncertaintyFor, verdictFor } from '../analysis/verdict.js';
 import { validateSerial } from '../log/serial.js';
@@ -15,8 +15,9 @@ import { parseArgs } from './args.js';
 import type { Command } from './command.js';
 import { UsageError } from './errors.js';
 import { resolveLogDir } from './log-dir.js';
+import { cacheHelp, targetsCacheFor } from './targets-cache.js';
 
-const usage = 'probebook record --plan PLAN --board SERIAL --check ID (--value TEXT | --from INSTRUMENT [--instruments FILE]) [--operator NAME] [--json] [--log DIR]';
+const usage = 'probebook record --plan PLAN --board SERIAL --check ID (--value TEXT | --from INSTRUMENT [--instruments FILE]) [--operator NAME] [--json] [--log DIR] [--cache DIR]';
 
 /** The reading as `record --json` and `history --json` print it (DESIGN §7); ±∞ (an open circuit) as null. */
 export function readingJson(r: Reading) {
@@ -43,7 +44,7 @@ function editDistance(a: string, b: string): number {
 }
 
 /** Check ids of the plan that look like `typed`: same stage, or a few edits away. */
-export function closeChecks(typed: string, ids: readonly string[]): string[] {
+export function closeMatches(typed: string, ids: readonly string[]): string[] {
   const stage = typed.split('.')[0] ?? '';
   return ids
     .map((id) => ({ id, d: editDistance(typed.toLowerCase(), id.toLowerCase()) - (id.startsWith(`${stage}.`) ? 2 : 0) }))
@@ -144,7 +145,7 @@ function outcomeOf(done: ReadonlyMap<string, Verdict>): RunOutcome {
 function findTarget(set: TargetSet, plan: Plan, check: string): Target {
   const target = set.targets.find((t) => t.check === check);
   if (target) return target;
-  const close = closeChecks(check, set.targets.map((t) => t.check));
+  const close = closeMatches(check, set.targets.map((t) => t.check));
   throw new UsageError(`no check ${JSON.stringify(check)} in plan ${plan.file}; ${close.length ? `close ones: ${close.join(', ')}` : 'probebook targets PLAN lists them'}; nothing was saved`);
 }
 
@@ -156,11 +157,11 @@ function findTarget(set: TargetSet, plan: Plan, check: string): Target {
  */
 export const recordCommand: Command = async (argv, io) => {
   const args = parseArgs(argv, {
-    options: { plan: 'string', board: 'string', check: 'string', value: 'string', from: 'string', instruments: 'string', operator: 'string', json: 'boolean', log: 'string', help: 'boolean' },
+    options: { plan: 'string', board: 'string', check: 'string', value: 'string', from: 'string', instruments: 'string', operator: 'string', json: 'boolean', log: 'string', cache: 'string', help: 'boolean' },
     usage,
   });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL\n  --from NAME    take the reading from that bench instrument (SCPI; see probebook instruments --help);\n                 its query by check id, else by unit; an overload (9.9E37) is recorded as OL;\n                 no answer within its timeout, or no number, records nothing (exit 1)\n  --instruments FILE  the instruments file (else $PROBEBOOK_INSTRUMENTS, else $XDG_CONFIG_HOME/probebook/instruments.json)\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\nCaution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`);
+    io.stdout(`usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL\n  --from NAME    take the reading from that bench instrument (SCPI; see probebook instruments --help);\n                 its query by check id, else by unit; an overload (9.9E37) is recorded as OL;\n                 no answer within its timeout, or no number, records nothing (exit 1)\n  --instruments FILE  the instruments file (else $PROBEBOOK_INSTRUMENTS, else $XDG_CONFIG_HOME/probebook/instruments.json)\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\n  --log DIR      the log to write (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook)\n${cacheHelp}Caution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`);
     return 0;
   }
   const need = (name: string): string => {
@@ -174,10 +175,12 @@ export const recordCommand: Command = async (argv, io) => {
   const [planFile, serial, check] = [need('plan'), need('board').trim(), need('check').trim()];
   const serialProblem = validateSerial(serial);
   if (serialProblem) throw new UsageError(`--board: ${serialProblem}`);
+  const dir = resolveLogDir(args.options.log, io.env);
   if (fromName === undefined) need('value');
   else if (typeof fromName !== 'string' || fromName.trim() === '') throw new UsageError(`--from needs an instrument name; usage: ${usage}`);
   const plan = await loadPlanFile(planFile, { cwd: io.cwd });
-  const set = computeTargets(plan);
+  // The plan's targets come from the one cache (computed once per plan revision and build).
+  const set = targetsCacheFor(args.options.cache, io).forPlan(plan, { trials: defaultTrials, seed: defaultSeed });
   const target = findTarget(set, plan, check);
   let text: string;
   let value: number;
@@ -196,7 +199,6 @@ export const recordCommand: Command = async (argv, io) => {
   const result = verdictFor(target, value, Number.isFinite(value) ? uncertaintyFor(plan, check, target.unit) : undefined);
   const operator = operatorOf(args.options.operator, io.env);
 
-  const dir = resolveLogDir(args.options.log, io.env);
   const log = await openStore(dir);
   // The skipped-safety warnings are judged under the board's lock, from the run's readings as saved.
   const saved = await log.appendToOpenRun(

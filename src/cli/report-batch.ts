@@ -3,10 +3,11 @@ import { batchMarkdown } from '../review/batch-md.js';
 import { describeFilter } from '../review/filter.js';
 import { parseArgs } from './args.js';
 import { batchOptions, runBatch } from './batch.js';
+import { cacheHelp } from './targets-cache.js';
 import type { Command } from './command.js';
 import { UsageError } from './errors.js';
 
-const usage = 'probebook report --batch --format md|csv [--plan ID] [--rev HASH] [--check ID] [--from DATE] [--to DATE] [--log DIR]';
+const usage = 'probebook report --batch --format md|csv [--plan ID] [--rev HASH] [--check ID] [--from DATE] [--to DATE] [--log DIR] [--cache DIR]';
 
 /**
  * `report --batch`: the batch figures as a file a quality engineer can keep —
@@ -14,7 +15,7 @@ const usage = 'probebook report --batch --format md|csv [--plan ID] [--rev HASH]
  */
 export const reportBatchCommand: Command = async (argv, io) => {
   if (argv.includes('--help') || argv.includes('-h')) {
-    io.stdout(`${usage}\n  md: a report to read and file; csv: one row per check with the batch --json figures (RFC 4180).\n  The filters are those of probebook batch (see probebook batch --help).\n`);
+    io.stdout(`usage: ${usage}\n  md: a report to read and file; csv: one row per check with the batch --json figures (RFC 4180).\n  The filters are those of probebook batch (see probebook batch --help).\n${cacheHelp}`);
     return 0;
   }
   const args = parseArgs(argv, { options: { ...batchOptions, batch: 'boolean', format: 'string' }, usage });

@@ -8,9 +8,10 @@ import { parseArgs } from './args.js';
 import type { Command } from './command.js';
 import { UsageError } from './errors.js';
 import { boardBands, loadBoard, localTime, utcOffset } from './history.js';
+import { cacheHelp, targetsCacheFor } from './targets-cache.js';
 import { bandWords, deviationWords } from './record.js';
 
-const usage = 'probebook report SERIAL --format md|csv [--log DIR]   (or report --batch …, see probebook report --batch --help)';
+const usage = 'probebook report SERIAL --format md|csv [--log DIR] [--cache DIR]   (or report --batch …, see probebook report --batch --help)';
 
 export const reportCautions =
   'Cautions: check every rail to ground with the power off before first power; apply first power through a current-limited supply; ' +
@@ -109,7 +110,7 @@ export function boardMarkdown(board: BoardFile, bands: ReadonlyMap<string, Snaps
   if (board.runs.length === 0) out.push('No runs yet.', '');
   else {
     out.push('| # | run | started | ended | operator | outcome | plan revision |', '| ---: | --- | --- | --- | --- | --- | --- |');
-    board.runs.forEach((r, i) => out.push(`| ${i + 1} | ${r.id} | ${localTime(r.started)} | ${r.ended ? localTime(r.ended) : '—'} | ${mdCell(r.operator)} | ${r.outcome} | \`${r.planHash.slice(0, 12)}\` |`));
+    for (const [i, r] of board.runs.entries()) out.push(`| ${i + 1} | ${r.id} | ${localTime(r.started)} | ${r.ended ? localTime(r.ended) : '—'} | ${mdCell(r.operator)} | ${r.outcome} | \`${r.planHash.slice(0, 12)}\` |`);
     out.push('');
   }
 
@@ -153,15 +154,17 @@ export function boardMarkdown(board: BoardFile, bands: ReadonlyMap<string, Snaps
 /** `probebook report SERIAL --format md|csv` (DESIGN §7); `report --batch …` goes to the batch report. */
 export const reportCommand: Command = async (argv, io) => {
   if (argv.includes('--batch')) return (await import('./report-batch.js')).reportBatchCommand(argv, io);
-  const args = parseArgs(argv, { options: { format: 'string', log: 'string', help: 'boolean' }, positionals: [0, 1], usage });
+  const args = parseArgs(argv, { options: { format: 'string', log: 'string', cache: 'string', help: 'boolean' }, positionals: [0, 1], usage });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  --format md    a traveler to print: board, plan revision, runs, every reading with its band and verdict, rework notes (default)\n  --format csv   one row per reading (RFC 4180) for a spreadsheet: ${boardCsvColumns.join(', ')}\n`);
+    io.stdout(`usage: ${usage}\n  --format md    a traveler to print: board, plan revision, runs, every reading with its band and verdict, rework notes (default)\n  --format csv   one row per reading (RFC 4180) for a spreadsheet: ${boardCsvColumns.join(', ')}\n  --log DIR      the log to read (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook); only read, never created\n${cacheHelp}`);
     return 0;
   }
   const format = args.options.format ?? 'md';
   if (format !== 'md' && format !== 'csv') throw new UsageError(`--format ${JSON.stringify(format)} is not known; use md (a printable traveler) or csv (a spreadsheet)`);
   const serial = args.positionals[0];
   if (serial === undefined) throw new UsageError(`missing argument SERIAL; usage: ${usage}`);
+  // Every argument is checked before the log is opened.
+  const cache = targetsCacheFor(args.options.cache, io);
   const { log, board, dir } = await loadBoard(serial, args.options.log, io);
   // The bands and the plan titles both need each snapshot's text: read each file once.
   const texts = new Map<string, Promise<string | null>>();
@@ -172,7 +175,7 @@ export const reportCommand: Command = async (argv, io) => {
       return text;
     },
   };
-  const { bands, problems } = await boardBands(snapshots, board, io.env);
+  const { bands, problems } = await boardBands(snapshots, board, cache);
   if (format === 'csv') io.stdout(boardCsv(board, bands));
   else {
     const titles = new Map<string, string | null>();

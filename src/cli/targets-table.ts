@@ -39,7 +39,7 @@ function contributorText(t: Target): string {
   return t.phase === 'stage' && t.worst.max - t.worst.min > 1e-9 * Math.abs(t.nominal) ? 'as written' : '';
 }
 
-function fit(text: string, width: number): string {
+function fitCell(text: string, width: number): string {
   const chars = [...text];
   return chars.length > width ? `${chars.slice(0, width - 1).join('')}…` : text + ' '.repeat(width - chars.length);
 }
@@ -83,7 +83,7 @@ export function targetsTable(set: TargetSet, header: TableHeader): string {
   const heads = ['check', 'TP', 'nominal', 'worst-case band', 'statistical band', 'top contributor'];
   const caps = [26, 6, 12, 22, 22, 20];
   const widths = heads.map((h, c) => Math.min(caps[c] ?? 20, Math.max([...h].length, ...rows.map((r) => [...(r[c] ?? '')].length))));
-  const line = (cells: readonly string[]): string => cells.map((cell, c) => fit(cell, widths[c] ?? 10)).join('  ').trimEnd();
+  const line = (cells: readonly string[]): string => cells.map((cell, c) => fitCell(cell, widths[c] ?? 10)).join('  ').trimEnd();
   const out: string[] = [];
   out.push(`${header.title} (plan ${set.plan}, ${header.file})`);
   const spread = header.distribution === 'normal' ? 'parts normal (tol = 3σ, truncated)' : 'parts uniform';

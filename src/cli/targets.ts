@@ -1,13 +1,15 @@
-import { computeTargets, defaultSeed, defaultTrials } from '../analysis/targets.js';
+import { defaultSeed, defaultTrials } from '../analysis/targets.js';
 import { targetsJson } from '../analysis/targets-json.js';
 import type { Distribution } from '../analysis/random.js';
 import { loadPlanFile } from '../plan/load.js';
 import { intOption, parseArgs } from './args.js';
 import type { Command } from './command.js';
 import { UsageError } from './errors.js';
+import { resolveLogDir } from './log-dir.js';
+import { cacheHelp, targetsCacheFor } from './targets-cache.js';
 import { targetsTable } from './targets-table.js';
 
-const usage = 'probebook targets PLAN [--json] [--trials N] [--seed S] [--spread normal|uniform] [--log DIR]';
+const usage = 'probebook targets PLAN [--json] [--trials N] [--seed S] [--spread normal|uniform] [--cache DIR] [--log DIR]';
 
 /** Trials above which progress is shown on stderr. */
 const progressFrom = 50_000;
@@ -17,15 +19,17 @@ const progressFrom = 50_000;
  * worst-case and statistical bands, and the design warnings. `--spread`
  * chooses how parts spread within their tolerance (default normal, tol = 3σ).
  * `--log` is accepted like on every command; targets do not touch the log.
+ * The bands come from the one targets cache (computed once per plan text,
+ * build, trials, seed and spread).
  */
 export const targetsCommand: Command = async (argv, io) => {
   const args = parseArgs(argv, {
-    options: { json: 'boolean', trials: 'string', seed: 'string', spread: 'string', log: 'string', help: 'boolean' },
+    options: { json: 'boolean', trials: 'string', seed: 'string', spread: 'string', log: 'string', cache: 'string', help: 'boolean' },
     positionals: [0, 1],
     usage,
   });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  --trials N   Monte Carlo trials (default ${defaultTrials})\n  --seed S     seed of the generator (default ${defaultSeed}); the same seed gives the same bands\n  --spread     normal (default: tolerance = 3σ, truncated) or uniform\n  --json       machine-readable output in SI base units\n`);
+    io.stdout(`usage: ${usage}\n  --trials N   Monte Carlo trials (default ${defaultTrials})\n  --seed S     seed of the generator (default ${defaultSeed}); the same seed gives the same bands\n  --spread     normal (default: tolerance = 3σ, truncated) or uniform\n  --json       machine-readable output in SI base units\n${cacheHelp}`);
     return 0;
   }
   const file = args.positionals[0];
@@ -35,10 +39,13 @@ export const targetsCommand: Command = async (argv, io) => {
   const spread = args.options.spread ?? 'normal';
   if (spread !== 'normal' && spread !== 'uniform') throw new UsageError(`--spread takes normal or uniform, got ${JSON.stringify(spread)}`);
   const distribution: Distribution = spread;
+  // Accepted like on every command (and an empty one refused); targets never touch the log.
+  resolveLogDir(args.options.log, io.env);
+  const cache = targetsCacheFor(args.options.cache, io);
 
   const plan = await loadPlanFile(file, { cwd: io.cwd });
   let shown = 0;
-  const set = computeTargets(plan, {
+  const set = cache.forPlan(plan, {
     trials,
     seed,
     distribution,

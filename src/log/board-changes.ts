@@ -33,7 +33,7 @@ export function readingFrom(input: ReadingInput, run: Run | undefined): Reading 
   if (run?.ended) warnings.push(`recorded after its run ${run.id} ended (${run.ended})`);
   if (run && run.planHash !== input.planHash) warnings.push(`the plan changed since run ${run.id} started (run ${run.planHash.slice(0, 8)}, reading ${input.planHash.slice(0, 8)})`);
   return {
-    id: newId('r'),
+    id: newId('reading'),
     run: input.run,
     check: input.check,
     value: input.value,
@@ -52,7 +52,7 @@ export function readingFrom(input: ReadingInput, run: Run | undefined): Reading 
 export function newRun(board: BoardFile, start: RunStart, now: string): { board: BoardFile; run: Run } {
   // One open run per board: starting another ends the open one as aborted.
   const runs = board.runs.map((r) => (r.ended === null ? { ...r, ended: now, outcome: 'aborted' as const } : r));
-  const run: Run = { id: newId('u'), started: now, ended: null, operator: start.operator, outcome: 'in-progress', plan: start.plan, planHash: start.planHash };
+  const run: Run = { id: newId('run'), started: now, ended: null, operator: start.operator, outcome: 'in-progress', plan: start.plan, planHash: start.planHash };
   return { board: { ...board, plan: start.plan, runs: [...runs, run] }, run };
 }
 
@@ -111,7 +111,7 @@ export const addReworkChange =
   (serial: string, note: Omit<Rework, 'id' | 'at'>) =>
   (board: BoardFile): BoardChange<Rework> => {
     if (note.run !== null && !board.runs.some((r) => r.id === note.run)) throw new LogInputError(`board ${serial} has no run ${note.run}`);
-    const saved: Rework = { id: newId('w'), at: new Date().toISOString(), ...note };
+    const saved: Rework = { id: newId('rework'), at: new Date().toISOString(), ...note };
     return { board: { ...board, rework: [...board.rework, saved] }, result: saved };
   };
 

@@ -29,6 +29,17 @@ export class LogInputError extends Error {
   override readonly name = 'LogInputError';
 }
 
+/** A command that only reads was pointed at a folder that holds no log (a mistyped --log): nothing was created. */
+export class LogMissingError extends Error {
+  override readonly name = 'LogMissingError';
+  constructor(
+    readonly dir: string,
+    message: string,
+  ) {
+    super(message);
+  }
+}
+
 /** The error code of a Node file-system error, or undefined. */
 export function errorCode(error: unknown): string | undefined {
   return typeof error === 'object' && error !== null && 'code' in error && typeof error.code === 'string' ? error.code : undefined;

@@ -1,7 +1,10 @@
 import { randomBytes } from 'node:crypto';
 
-/** What an id names: a reading, a run, a rework note. */
-export type IdKind = 'r' | 'u' | 'w';
+/** What an id names. */
+export type IdKind = 'reading' | 'run' | 'rework';
+
+/** The letter an id starts with, by what it names (fixed: ids already in logs carry them). */
+const idPrefix: Readonly<Record<IdKind, string>> = { reading: 'r', run: 'u', rework: 'w' };
 
 let lastTime = 0;
 
@@ -15,5 +18,5 @@ export function newId(kind: IdKind, now: number = Date.now()): string {
   const time = lastTime.toString(36).padStart(9, '0');
   const bytes = randomBytes(6);
   const random = (bytes.readUIntBE(0, 6) % 36 ** 8).toString(36).padStart(8, '0');
-  return `${kind}-${time}-${random}`;
+  return `${idPrefix[kind]}-${time}-${random}`;
 }

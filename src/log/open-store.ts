@@ -1,5 +1,4 @@
-import { existsSync } from 'node:fs';
-import { LogLocationError, parseLogLocation } from './location.js';
+import { parseLogLocation } from './location.js';
 import { openLog, type LogStore } from './store.js';
 
 export interface OpenOptions {
@@ -18,6 +17,6 @@ export async function openStore(location: string, options: OpenOptions = {}): Pr
     const { openPgLog } = await import('./pg-store.js');
     return openPgLog(where.url, where.shown);
   }
-  if (options.mustExist && !existsSync(where.path)) throw new LogLocationError(`there is no log at ${where.path}; pass --log DIR of an existing log (or record readings first)`);
-  return openLog(where.path);
+  // Read-only: the folder must already be a log, and opening it creates nothing (a mistyped --log leaves no trace).
+  return openLog(where.path, options.mustExist ? { isReadOnly: true } : {});
 }

@@ -4,7 +4,7 @@ import { join, resolve } from 'node:path';
 import { Low } from 'lowdb';
 import { BoardFileAdapter } from './board-file-adapter.js';
 import { captureExtension, ContentStore, sha256Hex } from './content-store.js';
-import { errorCode, LogInputError } from './errors.js';
+import { errorCode, LogInputError, LogMissingError } from './errors.js';
 import { withFileLock } from './file-lock.js';
 import { addReworkChange, appendReadingChange, appendToOpenRunChange, type AppendResult, type BoardChange, checkRework, emptyBoard as emptyBoardOf, endRunChange, linkCaptureChange, type MergeCounts, mergeBoardChange, startRunChange } from './board-changes.js';
 import { fileStamp, IndexStore, type IndexProgress, journalLimitBytes } from './index-store.js';
@@ -191,6 +191,34 @@ class Store implements LogStore {
   }
 }
 
+export interface OpenLogOptions {
+  /**
+   * For commands that only read (history, report, batch): the log must exist
+   * already, and opening it creates no folder or file, so a mistyped --log
+   * leaves nothing behind. @default false
+   */
+  readonly isReadOnly?: boolean;
+}
+
+/** A log folder as `openLog` makes it (it always has `boards/`), or a `LogMissingError` saying what is there instead. */
+function checkExistingLog(root: string): void {
+  let isFolder: boolean;
+  try {
+    isFolder = statSync(root).isDirectory();
+  } catch (error) {
+    if (errorCode(error) === 'ENOENT' || errorCode(error) === 'ENOTDIR') throw new LogMissingError(root, `there is no log at ${root}; check --log (or $PROBEBOOK_LOG), or record a reading first`);
+    throw error;
+  }
+  if (!isFolder) throw new LogMissingError(root, `${root} is a file, not a log folder; check --log (or $PROBEBOOK_LOG)`);
+  let hasBoards = false;
+  try {
+    hasBoards = statSync(join(root, 'boards')).isDirectory();
+  } catch (error) {
+    if (errorCode(error) !== 'ENOENT' && errorCode(error) !== 'ENOTDIR') throw error;
+  }
+  if (!hasBoards) throw new LogMissingError(root, `${root} is not a probebook log (it has no boards folder); check --log (or $PROBEBOOK_LOG)`);
+}
+
 /**
  * Open (creating when needed) the bench log in `dir` (DESIGN §6):
  * - `boards/<serial>.json`: one board's runs, readings, rework notes and captures
@@ -206,8 +234,12 @@ class Store implements LogStore {
  * `LogDamageError` (one line: file, place, remedy; the commands exit 1 with it)
  * and is never written over.
  */
-export async function openLog(dir: string): Promise<LogStore> {
+export async function openLog(dir: string, options: OpenLogOptions = {}): Promise<LogStore> {
   const root = resolve(dir);
+  if (options.isReadOnly) {
+    checkExistingLog(root);
+    return new Store(root);
+  }
   ensureFolder(root);
   for (const sub of ['boards', 'plans', 'captures', 'locks']) ensureFolder(join(root, sub));
   return new Store(root);

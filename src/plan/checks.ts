@@ -1,7 +1,6 @@
 import type { CheckSpec } from '../circuit/types.js';
-import type { Phase } from '../analysis/types.js';
 import type { Unit } from '../units/unit.js';
-import type { PlanStage, Rail } from './types.js';
+import type { Phase, PlanStage, Rail } from './types.js';
 
 /** A check of a plan, before any numbers: what, where, and in which phase of a safe bring-up. */
 export interface PlanCheck {

@@ -3,6 +3,14 @@
  * Node 20's `JSON.parse` does not always say where (`Unexpected token '}', … is
  * not valid JSON`), and a technician editing a plan needs a line and a column.
  * Only called after `JSON.parse` has failed, so speed does not matter.
+ *
+ * Measured against jsonc-parser 3.3.1 (comments and trailing commas disallowed):
+ * it finds a fault exactly when V8 rejects the text (2,000 of 2,000 fast-check
+ * cases), but it reports bare error codes (`CommaExpected`) without the context
+ * these messages give ("',' or '}' after the property value", "the end of the
+ * file after the top-level object"), and an unterminated string at its opening
+ * quote instead of at the line break that ends it. Same messages would need a
+ * visitor rebuilding this context, so this small parser stays.
  */
 export interface JsonFault {
   /** 1-based. */

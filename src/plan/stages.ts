@@ -45,9 +45,12 @@ export function resolveStages(
     if (!module) {
       throw new PlanError(file, `${path}.kind`, `unknown stage kind ${JSON.stringify(raw.kind)}; the known kinds are ${quoteList(Object.keys(kinds).sort())}`);
     }
-    // `from` names a rail (a divider's source, DESIGN §3); the kind cannot see the rails, so check it here.
-    if (typeof raw.from === 'string' && railIds.length > 0 && !railIds.includes(raw.from)) {
-      throw new PlanError(file, `${path}.from`, `${JSON.stringify(raw.from)} is not a rail of this plan; the rails are ${quoteList(railIds)}`);
+    // A kind fed from a rail names the settings key (its `railSetting` trait, e.g. a divider's
+    // `from`, DESIGN §3); the kind cannot see the rails, so check the id here.
+    const railKey = module.traits?.railSetting;
+    const railText = railKey === undefined ? undefined : (raw as Readonly<Record<string, unknown>>)[railKey];
+    if (railKey !== undefined && typeof railText === 'string' && railIds.length > 0 && !railIds.includes(railText)) {
+      throw new PlanError(file, `${path}.${railKey}`, `${JSON.stringify(railText)} is not a rail of this plan; the rails are ${quoteList(railIds)}`);
     }
     let parsed: ReturnType<typeof module.parse>;
     try {

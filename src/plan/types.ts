@@ -2,6 +2,9 @@ import type { OpampModel, PartValue, StageKind } from '../circuit/types.js';
 import type { Unit } from '../units/unit.js';
 import type { UncertaintySpec } from '../units/uncertainty.js';
 
+/** Where a check sits in a safe bring-up (DESIGN §5): unpowered, first power, rails, then the stages. */
+export type Phase = 'unpowered' | 'first-power' | 'rails' | 'stage';
+
 /** A supply rail of the board. */
 export interface Rail {
   /** As the plan names it (`+12V`). */

@@ -5,7 +5,7 @@ import { suggestNext } from './suggest.js';
 import type { RunAction, RunState } from './types.js';
 
 /** Recompute the suggestion after a change. */
-function settle(state: RunState): RunState {
+function withSuggestion(state: RunState): RunState {
   return { ...state, suggestion: suggestNext(state) };
 }
 
@@ -21,11 +21,11 @@ export function runReducer(state: RunState, action: RunAction): RunState {
   switch (action.type) {
     case 'acknowledge-cautions': {
       if (!state.isCautionsPending || state.ended) return state;
-      return settle({ ...state, isCautionsPending: false });
+      return withSuggestion({ ...state, isCautionsPending: false });
     }
     case 'power-off-acknowledged': {
       if (!state.isPowerOff || state.isCautionsPending) return state;
-      const next = settle(applyPowerOff(state));
+      const next = withSuggestion(applyPowerOff(state));
       return { ...next, selected: next.suggestion?.check ?? next.selected };
     }
     case 'select-check': {
@@ -41,12 +41,12 @@ export function runReducer(state: RunState, action: RunAction): RunState {
       if (!target || target.unit !== reading.unit || (!Number.isFinite(reading.value) && !isOpen)) return state;
       if (lockReason(state, reading.check) !== null) return state;
       if (state.readings.some((r) => r.id === reading.id)) return state;
-      return settle(applyReading(state, reading));
+      return withSuggestion(applyReading(state, reading));
     }
     case 'note-rework': {
       if (state.ended || state.isCautionsPending || state.isPowerOff) return state;
       if (action.rework.part.trim() === '' || state.rework.some((r) => r.id === action.rework.id)) return state;
-      const next = settle(applyRework(state, action.rework));
+      const next = withSuggestion(applyRework(state, action.rework));
       return { ...next, selected: next.suggestion?.check ?? next.selected };
     }
     case 'resume': {

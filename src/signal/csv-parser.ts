@@ -155,7 +155,7 @@ export class CsvParser {
     let pos = start;
     for (let c = 0; c < n; c++) {
       const value = scanNumber(buf, pos, limit, this.decimal);
-      if (value !== value) return -1;
+      if (Number.isNaN(value)) return -1;
       const after = scan.end;
       const b = buf[after];
       values[c] = value;

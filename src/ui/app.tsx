@@ -98,10 +98,10 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
       );
       break;
     case 'history':
-      screen = <HistoryScreen {...common} serial={route.serial} onTypingChange={setTyping} />;
+      screen = <HistoryScreen {...common} serial={route.serial} targetsCache={catalog.targetsCache} onTypingChange={setTyping} />;
       break;
     case 'batch':
-      screen = <BatchScreen {...common} onTypingChange={setTyping} onOpenBoard={(serial) => push({ screen: 'history', serial })} />;
+      screen = <BatchScreen {...common} targetsCache={catalog.targetsCache} onTypingChange={setTyping} onOpenBoard={(serial) => push({ screen: 'history', serial })} />;
       break;
     case 'plan':
       screen = (

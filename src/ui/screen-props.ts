@@ -1,4 +1,5 @@
 import type { TargetSet } from '../analysis/types.js';
+import type { TargetsCache } from '../log/targets-cache.js';
 import type { BenchLog } from '../log/types.js';
 import type { Plan } from '../plan/types.js';
 
@@ -32,9 +33,13 @@ export interface BringUpProps extends ScreenProps {
 
 export interface HistoryProps extends ScreenProps {
   readonly serial: string;
+  /** The targets cache of the app (the plan catalog's). @default a cache in memory */
+  readonly targetsCache?: TargetsCache;
 }
 
 export interface BatchProps extends ScreenProps {
   /** Open a board's history (from an outlier). */
   readonly onOpenBoard: (serial: string) => void;
+  /** The targets cache of the app (the plan catalog's). @default a cache in memory */
+  readonly targetsCache?: TargetsCache;
 }

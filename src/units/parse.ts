@@ -36,7 +36,7 @@ function fail(message: string): ParseFailure {
 }
 
 /** Read a prefix-and-unit suffix such as `kHz`, `nF`, `mA`, `V`, `k`, `R`, `V/us`. */
-function readSuffix(suffix: string, expected: Unit | undefined): { scale: number; unit: Unit | undefined } | undefined {
+function readSuffix(suffix: string): { scale: number; unit: Unit | undefined } | undefined {
   if (suffix === '') return { scale: 1, unit: undefined };
   const slew = slewPattern.exec(suffix);
   if (slew) {
@@ -57,7 +57,6 @@ function readSuffix(suffix: string, expected: Unit | undefined): { scale: number
     const rest = unitOf(suffix.slice(length));
     if (scale !== undefined && rest) return { scale, unit: rest };
   }
-  void expected;
   return undefined;
 }
 
@@ -122,7 +121,7 @@ export function parseValue(text: string, options: ParseOptions = {}): ParseResul
   } else {
     const num = numberPattern.exec(compact);
     if (!num) return fail(`${shown} is not a number${expected ? `; write ${unitNoun[expected]}, e.g. ${unitExample[expected]}` : ''}`);
-    const suffix = readSuffix(compact.slice(num[0].length), expected);
+    const suffix = readSuffix(compact.slice(num[0].length));
     if (!suffix) {
       return fail(`${shown}: "${compact.slice(num[0].length)}" is not a unit or prefix${expected ? `; write ${unitNoun[expected]}, e.g. ${unitExample[expected]}` : ''}`);
     }

@@ -13,6 +13,7 @@ describe('explainReading', () => {
     const list = explainReading(plan, 'osc.freq', fNominal / 10);
     expect(list[0]?.part).toBe('osc.C');
     expect(list[0]?.likely).toBe('x10-slip');
+    // Closed form above: f ∝ 1/C, so a tenth of f needs 10 × 100 nF = 1 µF (hand arithmetic).
     expect(list[0]?.ratio).toBeCloseTo(10, 6);
     expect(list[0]?.wouldBe).toBeCloseTo(1e-6, 12);
     // R would need 10·12.2k − 2.2k = 119.8k: near the E12/E24 value 120k, not a decade slip.
@@ -25,6 +26,7 @@ describe('explainReading', () => {
   test('a gain stage reading that a 27k feedback resistor gives is its E12 neighbour (IEC 60063 E12: 22, 27)', () => {
     const list = explainReading(plan, 'amp.out.vpp', 2 * (1 + 27_000 / 10_000));
     expect(list[0]).toMatchObject({ part: 'amp.Rf', likely: 'neighbour-value' });
+    // Gain 1 + Rf/Rg of the fake stage solved for Rf (hand arithmetic): the reading was made with 27k.
     expect(list[0]?.wouldBe).toBeCloseTo(27_000, 3);
   });
 
@@ -82,6 +84,7 @@ describe('explainReading on the real oscillator (demo exciter)', () => {
     expect(reading).toBeLessThan(250);
     const list = explainReading(exciter, 'osc.freq', reading);
     expect(list[0]).toMatchObject({ part: 'osc.Ct', likely: 'x10-slip' });
+    // The reading was made with Ct = 100 nF: the part value that explains it exactly.
     expect(list[0]?.wouldBe).toBeCloseTo(100e-9, 12);
     // Downstream stages never explain an upstream reading.
     expect(list.some((e) => e.part.startsWith('filt.') || e.part.startsWith('drive.'))).toBe(false);

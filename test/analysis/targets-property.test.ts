@@ -1,5 +1,5 @@
 import fc from 'fast-check';
-import { describe, expect, test } from 'vitest';
+import { describe, test } from 'vitest';
 import { computeTargets } from '../../src/analysis/targets.js';
 import { loadPlanText } from '../../src/plan/load.js';
 import { fakeKinds } from '../plan/fake-kinds.js';

@@ -34,6 +34,7 @@ describe('divider against closed forms', () => {
     // Corners: all three at the ends that raise or lower the tap.
     const hi = (12 * 1.01 * 10_100) / (9_900 + 10_100);
     const lo = (12 * 0.99 * 9_900) / (10_100 + 9_900);
+    // Closed form V·Rb/(Rt+Rb) = 12·10k/20k = 6 V at nominal, and at the corners above (hand arithmetic).
     expect(t?.nominal).toBeCloseTo(6, 12);
     expect(t?.worst.max).toBeCloseTo(hi, 10);
     expect(t?.worst.min).toBeCloseTo(lo, 10);
@@ -62,6 +63,7 @@ describe('divider against closed forms', () => {
     const samples = sampleChain(chain, { trials: 40_000, seed: 11, distribution: 'uniform' });
     const i = chain.checks.findIndex((c) => c.check === 'ref.out.dc');
     const sd = sampleStandardDeviation(Array.from(samples.values[i] ?? []));
+    // GUM (JCGM 100:2008) RSS with relative sensitivities 1, ½, ½ and a uniform part's SD = half width/√3 (uniform variance, any statistics handbook); 2 % for 40,000 trials.
     const expected = 6 * Math.sqrt(0.01 ** 2 + 2 * (0.005) ** 2) / Math.sqrt(3);
     expect(Math.abs(sd / expected - 1)).toBeLessThan(0.02);
   });
@@ -70,6 +72,7 @@ describe('divider against closed forms', () => {
     const set = computeTargets(dividerPlan(), { trials: 200 });
     const t = set.targets.find((x) => x.check === 'ref.out.dc');
     const shares = Object.fromEntries((t?.contributors ?? []).map((c) => [c.part, c.share]));
+    // Squared sensitivities 1 : ¼ : ¼ of equal 1 % tolerances (GUM eq. 10) → shares 2/3, 1/6, 1/6 (hand arithmetic).
     expect(shares['rails.+12V']).toBeCloseTo(2 / 3, 3);
     expect(shares['ref.Rtop']).toBeCloseTo(1 / 6, 3);
     expect(shares['ref.Rbottom']).toBeCloseTo(1 / 6, 3);
@@ -83,6 +86,7 @@ describe('divider against closed forms', () => {
       const top = k * 1000;
       const hi = (12.12 * 4747) / (top * 0.98 + 4747);
       const lo = (11.88 * 4653) / (top * 1.02 + 4653);
+      // The closed-form corners just above (rail +1 %, Rtop −2 %, Rbottom +1 % and the opposite), hand arithmetic.
       expect(t?.worst.max).toBeCloseTo(hi, 9);
       expect(t?.worst.min).toBeCloseTo(lo, 9);
     }
@@ -108,6 +112,7 @@ describe('engine properties', () => {
     for (const distribution of ['normal', 'uniform'] as const) {
       const set = computeTargets(plan, { trials: 3000, seed: 2, distribution });
       for (const t of set.targets) {
+        // DESIGN §4: the statistical band never lies outside the worst-case band, which holds the nominal.
         expect(t.stat.min).toBeGreaterThanOrEqual(t.worst.min);
         expect(t.stat.max).toBeLessThanOrEqual(t.worst.max);
         if (t.phase === 'stage' || t.phase === 'rails') {
@@ -152,6 +157,7 @@ describe('engine properties', () => {
   test('a fake gain stage: 1 + Rf/Rg on the upstream triangle, bands from both resistors (closed form)', () => {
     const set = computeTargets(plan, { trials: 500 });
     const t = set.targets.find((x) => x.check === 'amp.out.vpp');
+    // Closed form of the fake stage: vpp·(1 + Rf/Rg), triangle 2 V pp, 22k/10k at nominal and at the 1 % corners (hand arithmetic).
     expect(t?.nominal).toBeCloseTo(2 * 3.2, 12);
     expect(t?.worst.max).toBeCloseTo(2 * (1 + 22_220 / 9_900), 10);
     expect(t?.worst.min).toBeCloseTo(2 * (1 + 21_780 / 10_100), 10);
@@ -192,6 +198,7 @@ describe('engine properties', () => {
     const seen: number[] = [];
     const fresh = loadPlanText(JSON.stringify(fakePlan()), 'fake.plan.json', fakeKinds);
     computeTargets(fresh, { trials: 40_000, seed: 3, onProgress: (done, total) => { expect(total).toBe(40_000); seen.push(done); } });
+    // Progress every 1000 trials or a twentieth, whichever is more (the sampler's own rule): at least 10 calls for 40,000.
     expect(seen.length).toBeGreaterThanOrEqual(10);
     expect(seen.at(-1)).toBe(40_000);
     expect([...seen].sort((a, b) => a - b)).toEqual(seen);
@@ -228,6 +235,7 @@ describe('engine properties', () => {
     expect(Number.isNaN(f?.nominal)).toBe(true);
     expect(Number.isFinite(f?.worst.min)).toBe(true);
     expect(Number.isFinite(f?.worst.max)).toBe(true);
+    // DESIGN §4: the statistical band lies inside the worst-case band.
     expect(f?.stat.min).toBeGreaterThanOrEqual(f?.worst.min ?? Infinity);
     expect(set.warnings.some((w) => w.stage === 'osc' && w.message.includes('osc.freq has no nominal value'))).toBe(true);
   });

@@ -22,11 +22,31 @@ describe('verdict with a guard band', () => {
     const want = reading - u >= 9.5 && reading + u <= 10.5 ? 'pass' : reading + u < 9.5 || reading - u > 10.5 ? 'fail' : 'marginal';
     expect(r.verdict).toBe(want);
     expect(r.verdict).toBe(expected);
+    // U = 1 % of the reading + 20 mV, the spec above (hand arithmetic).
     expect(r.uncertainty).toBeCloseTo(u, 12);
+  });
+
+  test('an uncertainty as wide as the band: warned, and no reading can pass', () => {
+    // U = 1 % of 10 V + 20 mV = 0.12 V (hand arithmetic), so 2U = 0.24 V.
+    const narrow = { nominal: 10, worst: { min: 9.9, max: 10.1 } }; // 0.2 V wide < 2U
+    const warning = 'the instrument uncertainty is as wide as the band: this reading cannot pass; use a better instrument or range';
+    for (const reading of [9.9, 10, 10.1]) {
+      const r = verdictFor(narrow, reading, spec);
+      expect(r.warnings).toEqual([warning]);
+      // Reading ± U always reaches past an edge (ILAC-G8 guard band), so the best it gets is marginal.
+      expect(r.verdict).toBe('marginal');
+    }
+    // 0.3 V wide > 2U: a centred reading passes and nothing is said.
+    const wide = verdictFor({ nominal: 10, worst: { min: 9.85, max: 10.15 } }, 10, spec);
+    expect(wide.warnings).toEqual([]);
+    expect(wide.verdict).toBe('pass');
+    // No uncertainty given: no warning however narrow the band.
+    expect(verdictFor(narrow, 10, undefined).warnings).toEqual([]);
   });
 
   test('deviation and position', () => {
     const r = verdictFor(band, 10.25, undefined);
+    // (10.25 − 10)/10 and (10.25 − 9.5)/(10.5 − 9.5), hand arithmetic.
     expect(r.deviation).toBeCloseTo(0.025, 12);
     expect(r.position).toBeCloseTo(0.75, 12);
   });

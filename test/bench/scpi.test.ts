@@ -60,7 +60,7 @@ describe('definite-length arbitrary blocks (IEEE 488.2 §8.7.9, from memory)', (
   test('int8 records: signed bytes as written by Buffer.writeInt8', () => {
     const codes = [-128, -1, 0, 1, 127, 42];
     const data = Buffer.alloc(codes.length);
-    codes.forEach((c, i) => data.writeInt8(c, i));
+    for (const [i, c] of codes.entries()) data.writeInt8(c, i);
     const block = Buffer.concat([Buffer.from(`#1${codes.length}`), data]);
     expect(Array.from(decodeRecord(block, 'int8') as Float64Array)).toEqual(codes);
   });

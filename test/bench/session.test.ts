@@ -135,19 +135,19 @@ describe('scope records over SCPI', () => {
   test('an int16 block is scaled: volts = (code − offset) · scale; the rate is 1/xincrement', async () => {
     const codes = Array.from({ length: 1000 }, (_, i) => Math.round(10 + 100 * Math.sin((2 * Math.PI * i) / 250)));
     const data = Buffer.alloc(codes.length * 2);
-    codes.forEach((c, i) => data.writeInt16LE(c, 2 * i));
+    for (const [i, c] of codes.entries()) data.writeInt16LE(c, 2 * i);
     const block = Buffer.concat([Buffer.from('#42000'), data, Buffer.from('\n')]);
     const { session, dmm } = await bench((c) => (c === 'WAV:DATA?' ? { kind: 'bytes', bytes: block } : { kind: 'text', text: scaling[c] ?? '' }), { capture: { ...capture, format: 'int16' } });
     const r = await session.capture(dmm);
     expect(r.sampleRate).toBeCloseTo(1e6, 6);
     expect(r.samples.length).toBe(1000);
-    codes.forEach((c, i) => expect(r.samples[i]).toBeCloseTo((c - 10) * 0.02, 12));
+    for (const [i, c] of codes.entries()) expect(r.samples[i]).toBeCloseTo((c - 10) * 0.02, 12);
   });
 
   test('an int8 block that arrives in pieces, and an ASCII list', async () => {
     const codes = Array.from({ length: 300 }, (_, i) => (i % 50) - 25);
     const data = Buffer.alloc(codes.length);
-    codes.forEach((c, i) => data.writeInt8(c, i));
+    for (const [i, c] of codes.entries()) data.writeInt8(c, i);
     const block = Buffer.concat([Buffer.from('#3300'), data, Buffer.from('\n')]);
     const { session, dmm } = await bench((c) => (c === 'WAV:DATA?' ? { kind: 'bytes', bytes: block } : { kind: 'text', text: scaling[c] ?? '' }), { capture: { ...capture, format: 'int8' } });
     const r = await session.capture(dmm);

@@ -147,6 +147,7 @@ describe('diode-shaper against ngspice (same SPICE diode model)', () => {
         worst = Math.max(worst, err);
       }
       // In fact the two solve the same equations: far closer than the allowance.
+      // ngspice DC sweep of the same network (this run): 1 mV.
       expect(worst).toBeLessThan(1e-3);
     });
 
@@ -192,6 +193,7 @@ describe('diode-shaper behaviour', () => {
   test('FFT THD equals the direct-DFT definition in waveform.ts', () => {
     const r = evaluate(netThreePairs, triangle(4.5));
     const out = r.outputs['out'] as Waveform;
+    // DESIGN §4 THD definition (RSS of harmonics 2…50 over the fundamental) as waveform.ts computes it on the same output: identical up to rounding.
     expect(Math.abs((r.values['out.thd'] as number) - thd(out))).toBeLessThan(1e-12);
   });
 
@@ -225,6 +227,7 @@ describe('diode-shaper behaviour', () => {
           if (nodeCurrent(net, tri[i] as number, mid) > 0) lo = mid;
           else hi = mid;
         }
+        // The independent bisection above (Shockley law, 100 halvings: exact to rounding); 2 µV allowed for the solver.
         expect(Math.abs((r[i] as number) - (lo + hi) / 2)).toBeLessThan(2e-6);
       }
     }
@@ -239,6 +242,7 @@ describe('diode-shaper behaviour', () => {
     const out = r.outputs['out']?.samples as Float64Array;
     for (const v of out) {
       expect(Number.isFinite(v)).toBe(true);
+      // Bounded by the input's peak: the shaper is passive (common practice, no source).
       expect(Math.abs(v)).toBeLessThan(40);
     }
     expect(r.warnings.map((w) => w.message).join()).toMatch(/mA at the peak/);
@@ -249,6 +253,7 @@ describe('diode-shaper behaviour', () => {
     const json = structuredClone(netTwoPairs.json) as { branches: { polarity: string }[] };
     (json.branches[2] as { polarity: string }).polarity = '-';
     const bad = evaluate({ ...netTwoPairs, json }, triangle(3)).values['out.thd'] as number;
+    // A diode fitted backwards breaks the shaping: THD more than doubles (two runs of the same model, no outside figure).
     expect(bad).toBeGreaterThan(2 * good);
     expect(diodeShaperKind.faultHints['out.thd']?.join(' ')).toMatch(/backwards/);
   });
@@ -307,6 +312,8 @@ describe('the Monte Carlo fast path (isTrial) against the full per-sample solve'
           const b = fast.outputs['out']?.samples as Float64Array;
           let worst = 0;
           for (let i = 0; i < a.length; i++) worst = Math.max(worst, Math.abs((a[i] ?? 0) - (b[i] ?? 0)));
+          // The trial path against the full solve of the same model: the bench accuracy a trial may
+          // trade for speed (EvalInput.isTrial, tens of µV) with room, 1 mV; THD to 0.05 %.
           expect(worst).toBeLessThan(1e-3);
           expect(Math.abs((fast.values['out.thd'] ?? 0) - (full.values['out.thd'] ?? 0))).toBeLessThan(5e-4);
           expect(Math.abs((fast.values['out.vpp'] ?? 0) - (full.values['out.vpp'] ?? 0))).toBeLessThan(1e-3);

@@ -10,6 +10,7 @@ function run(top: number, bottom: number, rail: number, from = '+12V') {
 
 describe('divider', () => {
   test('10k over 4k7 from 12 V gives 3.837 V (closed form V·Rb/(Rt + Rb))', () => {
+    // Divider closed form V·Rb/(Rt + Rb) (any circuits handbook).
     expect(run(10e3, 4.7e3, 12).values['out.dc']).toBeCloseTo((12 * 4.7) / 14.7, 12);
   });
 

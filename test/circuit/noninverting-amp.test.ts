@@ -38,6 +38,7 @@ describe('noninverting-amp against ngspice AC (behavioural single-pole op-amp)',
 
   test('finite open-loop gain lowers the gain below 1 + Rf/Rg (Sedra and Smith: G/(1 + G/aol))', () => {
     const r = run({ Rg: 1e3, Rf: 220e3 }, sine(0.01, 100), { ...opamp, aol: 2e3 });
+    // Finite open-loop gain: G = G0/(1 + G0/Aol) with G0 = 1 + Rf/Rg = 221 and Aol 2000 (Sedra and Smith), hand arithmetic.
     expect(r.values['gain']).toBeCloseTo(221 / (1 + 221 / 2e3), 6);
   });
 

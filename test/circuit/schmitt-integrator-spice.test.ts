@@ -17,9 +17,13 @@ import { opampSubcktFor } from '../helpers/spice-opamp.js';
  *   instead (sharp diodes into sources at ±(vz + vf)) to separate the model's
  *   timing from the zeners' soft knee, which starts the switching a little early
  *   and makes the model read up to about 0.5 % slow;
- * - the measurement skips the start-up (1.5 periods), then takes the period and
- *   the duty from interpolated crossings of the square's mid level (IEEE 181
- *   50 % reference level) and the amplitudes from the extremes over 3.5 periods.
+ * - the simulation window and step come from the closed form f = R2/(4·R1·R·Ct)
+ *   (Sedra and Smith, square/triangle generator), the rails and the slew rate,
+ *   never from the model under test: 6 periods of the ideal one plus two full
+ *   swings, of which the first 1.5 are start-up;
+ * - the measurement takes the period and the duty from interpolated crossings
+ *   of the square's mid level (IEEE 181 50 % reference level) and the
+ *   amplitudes from the extremes after the start-up.
  * Invented values throughout; this is no published board.
  */
 
@@ -36,6 +40,12 @@ interface Case {
   readonly sharpClamp?: boolean;
   /** The second zener (sets the low level) when it differs from the first: volts. */
   readonly zener2?: { readonly vz: number; readonly vf: number };
+  /** The op-amps of this case. @default opamp (1 MHz, 0.5 V/µs) */
+  readonly opamp?: OpampModel;
+  /** Agreement asked of the frequency. @default limit */
+  readonly freqLimit?: number;
+  /** Agreement asked of the triangle's shape, as a fraction of its peak-to-peak. @default limit */
+  readonly shapeLimit?: number;
 }
 
 function evaluateCase(c: Case): { out: EvalOutput; input: EvalInput<SchmittSettings> } {
@@ -48,7 +58,7 @@ function evaluateCase(c: Case): { out: EvalOutput; input: EvalInput<SchmittSetti
     parts['clamp.vz2'] = c.zener2.vz;
     parts['clamp.vf2'] = c.zener2.vf;
   }
-  const input: EvalInput<SchmittSettings> = { parts, settings: parsed.settings, opamp, supplies: { pos: c.pos ?? 12, neg: c.neg ?? -12 }, rails: {} };
+  const input: EvalInput<SchmittSettings> = { parts, settings: parsed.settings, opamp: c.opamp ?? opamp, supplies: { pos: c.pos ?? 12, neg: c.neg ?? -12 }, rails: {} };
   return { out: kind.evaluate(input), input };
 }
 
@@ -56,7 +66,7 @@ function evaluateCase(c: Case): { out: EvalOutput; input: EvalInput<SchmittSetti
 function deck(input: EvalInput<SchmittSettings>, pot: number, sharpClamp = false): string {
   const p = input.parts;
   const lines = [
-    opampSubcktFor('oa', opamp, input.supplies),
+    opampSubcktFor('oa', input.opamp, input.supplies),
     'xcmp np 0 cmp oa',
     `r1 tri np ${p['R1']}`,
     `r2 sq np ${p['R2']}`,
@@ -103,8 +113,23 @@ function crossings(t: Float64Array, v: Float64Array, level: number, rising: bool
   return out;
 }
 
-function simulate(input: EvalInput<SchmittSettings>, pot: number, expectedPeriod: number, edge: number, sharpClamp = false): Measured {
-  const periods = 5;
+/**
+ * The expected period and the time of one full output swing, from the part
+ * values and the rails alone: the ideal f = R2/(4·R1·(Rt + RV·pot)·Ct) (Sedra and
+ * Smith, the bistable-plus-integrator generator), each half lengthened by at
+ * most one swing of the comparator, (V+ − V− − 2·headroom)/SR.
+ */
+function window(input: EvalInput<SchmittSettings>, pot: number): { period: number; edge: number } {
+  const p = input.parts;
+  const f = (p['R2'] ?? 0) / (4 * (p['R1'] ?? 0) * ((p['Rt'] ?? 0) + (p['RV'] ?? 0) * pot) * (p['Ct'] ?? 0));
+  const edge = (input.supplies.pos - input.supplies.neg - 2 * input.opamp.headroom) / input.opamp.slew;
+  return { period: 1 / f + 2 * edge, edge };
+}
+
+function simulate(input: EvalInput<SchmittSettings>, pot: number, sharpClamp = false): Measured {
+  const { period: expectedPeriod, edge } = window(input, pot);
+  // The real period lies between the ideal one and this bound: 6 bounds leave 4 or more periods to measure.
+  const periods = 6;
   // Steps short against the edges: with long steps the regenerative switching jitters.
   const step = Math.min(expectedPeriod / 5000, edge / 25);
   const tab = runSpice(deck(input, pot, sharpClamp), `tran ${step.toExponential(4)} ${(periods * expectedPeriod).toExponential(4)} 0 ${step.toExponential(4)} uic`, ['v(sq)', 'v(tri)']);
@@ -161,6 +186,18 @@ const cases: readonly Case[] = [
   // A mismatched zener pair (3.6 V against 4.3 V) moves the duty off 50 %.
   { name: 'mismatched zeners 3.6 V / 4.3 V, clamped, 1.2 kHz', parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' }, clamp: { vz: '3.6 V', vf: '0.7 V' }, zener2: { vz: 4.3, vf: 0.7 } },
   { name: 'asymmetric rails +15/−9 V, clamped, 1.2 kHz', parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' }, clamp: zener, pos: 15, neg: -9 },
+  // A low-GBW op-amp (100 kHz, 1 V/µs) with a short integrator time constant (RC = 48 µs):
+  // the integrator's finite-GBW term 1/(2π·GBW·RC) is 3.3 % of RC, so the wrong sign of that
+  // correction moves f by about 6.6 % (measured: +6.6 % against ngspice, the right sign −0.2 %);
+  // held to 1 % here, inside the 2 % of the other cases. The triangle's corners carry the slow
+  // integrator's recovery, which the waveform follows to 2.3 % of Vpp here (ngspice): 3 % for the shape.
+  {
+    name: 'low-GBW op-amps (100 kHz, 1 V/µs), 11 kHz ideal',
+    parts: { ...base, Rt: '22k', Ct: '2n2' },
+    opamp: { ...opamp, gbw: 1e5, slew: 1e6 },
+    freqLimit: 0.01,
+    shapeLimit: 0.03,
+  },
 ];
 
 function relErr(model: number, spice: number): number {
@@ -173,10 +210,9 @@ describe('schmitt-integrator against ngspice (0.5 V/µs, 1 MHz op-amps)', () => 
       const { out, input } = evaluateCase(c);
       const v = out.values;
       const freq = v['freq'] ?? Number.NaN;
-      const edge = (v['square.vpp'] ?? 0) / opamp.slew;
-      const sim = simulate(input, input.settings.pot, 1 / freq, edge, c.sharpClamp);
-      // ngspice transient, measured as described at the top; 2 % each.
-      expect(Math.abs(relErr(freq, sim.f))).toBeLessThan(limit);
+      const sim = simulate(input, input.settings.pot, c.sharpClamp);
+      // ngspice transient, measured as described at the top; 2 % each (the frequency tighter where a case says).
+      expect(Math.abs(relErr(freq, sim.f))).toBeLessThan(c.freqLimit ?? limit);
       expect(Math.abs(relErr(v['duty'] ?? Number.NaN, sim.duty))).toBeLessThan(limit);
       // A mismatched pair must show in the duty (levels 4.3 V and 5.0 V: duty ≈ 5.0/9.3 = 0.54 by the ramp-time ratio).
       if (c.zener2) expect(Math.abs((v['duty'] ?? 0.5) - 0.5)).toBeGreaterThan(0.02);
@@ -187,7 +223,7 @@ describe('schmitt-integrator against ngspice (0.5 V/µs, 1 MHz op-amps)', () => 
       const tri = out.outputs['triangle']?.samples ?? new Float64Array();
       let worst = 0;
       for (let i = 0; i < tri.length; i += 8) worst = Math.max(worst, Math.abs((tri[i] ?? 0) - sim.triangleAt(i / tri.length)));
-      expect(worst / sim.triangleVpp).toBeLessThan(limit);
+      expect(worst / sim.triangleVpp).toBeLessThan(c.shapeLimit ?? limit);
       console.log(`${c.name}: tool ${freq.toFixed(2)} Hz, ngspice ${sim.f.toFixed(2)} Hz, ${(relErr(freq, sim.f) * 100).toFixed(2)} %; duty ${(v['duty'] ?? 0).toFixed(4)} / ${sim.duty.toFixed(4)}; triangle ${(v['triangle.vpp'] ?? 0).toFixed(3)} / ${sim.triangleVpp.toFixed(3)} V; shape within ${((worst / sim.triangleVpp) * 100).toFixed(2)} % of Vpp`);
     });
   }
@@ -197,9 +233,8 @@ describe('schmitt-integrator against ngspice (0.5 V/µs, 1 MHz op-amps)', () => 
     const { out, input } = evaluateCase(c);
     const fMin = out.values['freq.min'] ?? Number.NaN;
     const fMax = out.values['freq.max'] ?? Number.NaN;
-    const edge = 9.2 / opamp.slew;
-    const slow = simulate(input, 1, 1 / fMin, edge);
-    const fast = simulate(input, 0, 1 / fMax, edge);
+    const slow = simulate(input, 1);
+    const fast = simulate(input, 0);
     // ngspice with Rt + RV (all in) and Rt alone; 2 % each.
     expect(Math.abs(relErr(fMin, slow.f))).toBeLessThan(limit);
     expect(Math.abs(relErr(fMax, fast.f))).toBeLessThan(limit);
@@ -213,7 +248,7 @@ describe('schmitt-integrator against ngspice (0.5 V/µs, 1 MHz op-amps)', () => 
     expect(messages).toMatch(/model is unreliable/);
     expect(messages).toMatch(/clips/);
     const freq = out.values['freq'] ?? Number.NaN;
-    const sim = simulate(input, 0, 1 / freq, 21 / opamp.slew);
+    const sim = simulate(input, 0);
     // The closed form is more than 2 % off here (ngspice), which is what the warnings say.
     expect(Math.abs(relErr(freq, sim.f))).toBeGreaterThan(limit);
   });

@@ -83,6 +83,7 @@ describe('slew rate in the closed form (hand derivation, confirmed by ngspice in
     const out = run({ parts: { R1: '10k', R2: '22k', Rt: '1k', Ct: '100n' } }, slewOnly);
     const rc = 1e3 * 100e-9;
     const period = (4 * 10e3 * rc) / 22e3 + (4 * 10.5) / 0.5e6;
+    // Hand derivation above (the describe's title): the closed form with slew, 0.1 %; confirmed by ngspice in the spice test.
     expect(Math.abs((out.values['freq'] ?? 0) * period - 1)).toBeLessThan(1e-3);
     const peak = (10.5 * 10) / 22 + 10.5 ** 2 / (2 * 0.5e6 * rc);
     expect(Math.abs((out.values['triangle.vpp'] ?? 0) / (2 * peak) - 1)).toBeLessThan(1e-3);
@@ -95,16 +96,19 @@ describe('slew rate in the closed form (hand derivation, confirmed by ngspice in
       const out = run({ ...clamped, parts: { ...clamped.parts, Rz: rz } }, slewOnly);
       const period = (4 * 10e3 * rc) / 22e3 + (4 * 10.5) / 0.5e6;
       expect(Math.abs((out.values['freq'] ?? 0) * period - 1)).toBeLessThan(1e-3);
+      // Back-to-back zeners clamp the square to ±(vz + vf) (common practice, no source).
       expect(out.values['square.vpp']).toBeCloseTo(2 * vc, 9);
     }
     const nearlyDirect = run({ ...clamped, parts: { ...clamped.parts, Rz: '1 ohm' } }, slewOnly);
     const peak = (vc * 10) / 22 + (vc * (10.5 - vc)) / (0.5e6 * rc) + vc ** 2 / (2 * 0.5e6 * rc);
+    // The hand-derived peak just above, 0.2 %.
     expect(Math.abs((nearlyDirect.values['triangle.vpp'] ?? 0) / (2 * peak) - 1)).toBeLessThan(2e-3);
   });
 
   test('at 0.5 V/µs a 1 kHz design runs several % below the ideal frequency', () => {
     const slow = run(good).values['freq'] ?? 0;
     const fast = run(good, ideal).values['freq'] ?? 0;
+    // DESIGN §3: at 0.5 V/µs a 1 kHz design runs about 10 % slow (each half period also lasts the comparator's swing, Sedra and Smith on slew rate).
     expect(slow / fast).toBeLessThan(0.95);
     expect(slow / fast).toBeGreaterThan(0.85);
   });
@@ -118,10 +122,12 @@ describe('waveforms', () => {
     expect(square?.samples.length).toBe(256);
     expect(triangle?.samples.length).toBe(256);
     if (!square || !triangle) return;
+    // The waveform must agree with the stage's own values (a consistency check); 10.5 V = 12 V rail − 1.5 V headroom (DESIGN §3 swing).
     expect(square.frequency).toBeCloseTo(out.values['freq'] ?? 0, 9);
     expect(square.samples[0]).toBeCloseTo(0, 6);
     expect(square.samples[8]).toBeCloseTo(10.5, 6);
     expect(square.samples[136]).toBeCloseTo(-10.5, 6);
+    // The waveform handed downstream must carry the stage's own peak-to-peak values (consistency, no outside figure).
     expect(vpp(square)).toBeCloseTo(out.values['square.vpp'] ?? 0, 9);
     expect(vpp(triangle)).toBeCloseTo(out.values['triangle.vpp'] ?? 0, 9);
     // The integrator inverts: the triangle falls through the high half.
@@ -148,6 +154,7 @@ describe('waveforms', () => {
     if (!square) throw new Error('no square');
     const mid = (vmax(square) + vmin(square)) / 2;
     const above = Array.from(square.samples).filter((v) => v > mid).length / 256;
+    // Duty from the two square levels (DESIGN §3); the sampled share can be off by one and a half samples of 256.
     expect(Math.abs(above - (out.values['duty'] ?? 0))).toBeLessThanOrEqual(1.5 / 256);
     expect(out.values['duty'] ?? 0).toBeLessThan(0.4);
   });
@@ -168,11 +175,13 @@ describe('waveforms', () => {
           };
           const out = run(json);
           const f = out.values['freq'] ?? Number.NaN;
+          // DESIGN §3: f at both ends of the pot bracket f; waveforms agree with the values; a faster op-amp loses less time to slewing (Sedra and Smith).
           expect(out.values['freq.min'] ?? Number.NaN).toBeLessThanOrEqual(f * (1 + 1e-12));
           expect(out.values['freq.max'] ?? Number.NaN).toBeGreaterThanOrEqual(f * (1 - 1e-12));
           expect(vpp(out.outputs['triangle'] ?? { frequency: 0, samples: new Float64Array() })).toBeCloseTo(out.values['triangle.vpp'] ?? 0, 6);
           expect(vpp(out.outputs['square'] ?? { frequency: 0, samples: new Float64Array() })).toBeCloseTo(out.values['square.vpp'] ?? 0, 6);
           const faster = run(json, { ...defaultOpamp, slew: 5e6, gbw: 10e6 }).values['freq'] ?? 0;
+          // A faster op-amp loses less of each half period to slewing (Sedra and Smith, slew rate).
           expect(faster).toBeGreaterThan(f);
         },
       ),
@@ -182,6 +191,7 @@ describe('waveforms', () => {
 
   test('a triangle past the integrator swing is clipped at it', () => {
     const out = run({ parts: { R1: '10k', R2: '22k', Rt: '1k', Ct: '10n' } });
+    // The integrator cannot swing past rail − headroom = 12 − 1.5 V (DESIGN §3).
     expect(vmax(out.outputs['triangle'] ?? { frequency: 0, samples: new Float64Array() })).toBeCloseTo(10.5, 9);
     expect(out.values['triangle.vpp']).toBeCloseTo(21, 9);
   });
@@ -213,6 +223,7 @@ describe('warnings', () => {
   test('clamp above the comparator swing never conducts', () => {
     const out = run({ ...clamped, clamp: { vz: '12 V', vf: '0.7 V' } });
     expect(messages(out)).toMatch(/clamp never conducts/);
+    // A clamp that never conducts leaves the full swing 2·(12 − 1.5) V = 21 V less the slew-rounded corners (DESIGN §3).
     expect(out.values['square.vpp'] ?? 0).toBeLessThan(21);
     expect(out.values['square.vpp'] ?? 0).toBeGreaterThan(18);
   });
@@ -220,6 +231,7 @@ describe('warnings', () => {
   test('a clamp reached on one side only (rails +15/−6 V, clamp 5.4 V)', () => {
     const out = run({ ...clamped, clamp: { vz: '4.7 V', vf: '0.7 V' } }, defaultOpamp, 15, -6);
     expect(messages(out)).toMatch(/does not conduct on the negative side/);
+    // vz + vf = 4.7 + 0.7 V (back-to-back zeners, common practice, no source); the low side stops at the −6 V rail's swing.
     expect(out.values['square.high']).toBeCloseTo(5.4, 9);
     expect(out.values['square.low'] ?? 0).toBeGreaterThan(-4.5);
   });
@@ -227,6 +239,7 @@ describe('warnings', () => {
   test('clamp without Rz', () => {
     const out = run({ ...clamped, parts: { R1: '10k', R2: '22k', Rt: '8k2', Ct: '47n' } });
     expect(messages(out)).toMatch(/no series resistor Rz/);
+    // ±(vz + vf) = ±4.6 V (back-to-back zeners, common practice, no source).
     expect(out.values['square.vpp']).toBeCloseTo(9.2, 9);
   });
 

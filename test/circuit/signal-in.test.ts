@@ -31,6 +31,7 @@ describe('signal-in', () => {
     const { parsed, result } = run({ shape: 'sine', peak: '1 V', frequency: '1 kHz', offset: '0.5 V 5%' });
     expect(signalInKind.checks(parsed.settings).map((c) => c.key)).toEqual(['out.vpp', 'freq', 'out.dc']);
     const s = result.outputs['out']?.samples as Float64Array;
+    // The invented generator setting: peak 1 V plus 0.5 V offset.
     expect(Math.max(...s)).toBeCloseTo(1.5, 9);
     expect(parsed.parts['offset']).toMatchObject({ nominal: 0.5, tol: 0.05 });
   });

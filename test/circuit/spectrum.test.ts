@@ -20,6 +20,7 @@ const expected = Math.sqrt(0.03 ** 2 + 0.1 ** 2 + 0.05 ** 2 + 0.02 ** 2);
 describe('fastThd (one real FFT) against the THD definition', () => {
   test('a synthesised tone with known harmonics, power-of-two record (FFT path)', () => {
     const w = fromPhase(1e3, tone, 256);
+    // The hand-worked RSS of the synthesised harmonics above.
     expect(fastThd(w.samples)).toBeCloseTo(expected, 12);
     // And the direct DFT of waveform.ts on the same record agrees with it.
     expect(fastThd(w.samples)).toBeCloseTo(thd(w), 12);
@@ -50,5 +51,20 @@ describe('fastThd (one real FFT) against the THD definition', () => {
   test('no fundamental gives NaN, on both paths', () => {
     expect(fastThd(new Float64Array(256))).toBeNaN();
     expect(fastThd(new Float64Array(200))).toBeNaN();
+  });
+});
+
+describe('the record length is even: its last bin lies exactly at half the sample rate', () => {
+  // Eight samples of a unit sine plus 0.3·(−1)^n: bin 4 of 8 is exactly fs/2, no
+  // harmonic (Nyquist–Shannon); harmonics 2 and 3 are zero, so the THD is 0.
+  // Invented values; worked by hand.
+  const samples = Float64Array.from({ length: 8 }, (_, i) => Math.sin((2 * Math.PI * i) / 8) + 0.3 * (i % 2 === 0 ? 1 : -1));
+
+  test('fastThd (FFT path) leaves the fs/2 bin out', () => {
+    expect(fastThd(samples)).toBeLessThan(1e-12);
+  });
+
+  test('thd() (direct path) leaves it out too', () => {
+    expect(thd({ frequency: 1e3, samples })).toBeLessThan(1e-12);
   });
 });

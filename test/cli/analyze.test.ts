@@ -42,6 +42,7 @@ describe('probebook analyze --json (DESIGN §7 contract)', () => {
   test('a square gives duty, rise and fall; --channel picks by number or name', async () => {
     const square = JSON.parse((await run('osc-square-triangle.csv', '--json', '--channel', '1')).stdout) as Record<string, number | string>;
     expect(square.shape).toBe('square');
+    // The invented demo capture's square is symmetric: duty 50 % (IEEE 181 mid reference level).
     expect(Math.abs((square.duty as number) - 0.5)).toBeLessThan(0.01);
     // Single-pole edges with τ = 1.5 µs in the demo script: ln 9 · τ ≈ 3.30 µs (handbook), within 3 %.
     expect(Math.abs((square.rise as number) / (Math.log(9) * 1.5e-6) - 1)).toBeLessThan(0.03);

@@ -34,12 +34,13 @@ describe('batch --json', () => {
     const s = sampleStandardDeviation(latestFreq);
     expect(freq?.mean as number).toBeCloseTo(m, 9);
     expect(freq?.sd as number).toBeCloseTo(s, 9);
+    // NIST/SEMATECH e-Handbook §6.1.6: Cp = (USL − LSL)/(6σ), Cpk = min(USL − μ, μ − LSL)/(3σ).
     expect(freq?.cp as number).toBeCloseTo((band.max - band.min) / (6 * s), 12);
     expect(freq?.cpk as number).toBeCloseTo(Math.min(band.max - m, m - band.min) / (3 * s), 12);
     // PB-0003 failed first, PB-0006 fails still: first-pass 4 of 6, final 5 of 6.
     expect(freq?.firstPassYield as number).toBeCloseTo(4 / 6, 12);
     expect(freq?.finalYield as number).toBeCloseTo(5 / 6, 12);
-    expect((freq?.outliers as { serial: string }[]).map((o) => o.serial)).toEqual(['PB-0006']);
+    expect(((freq?.outliers ?? []) as { serial: string }[]).map((o) => o.serial)).toEqual(['PB-0006']);
   });
 
   test('zero spread gives sd 0, null cp and cpk and a no-spread status, never NaN', async () => {
@@ -94,7 +95,7 @@ describe('batch table', () => {
     const missing = join(t.dir, 'no-such-log');
     const r = await run(['batch', '--log', missing]);
     expect(r.status).toBe(2);
-    expect(r.stderr).toBe(`probebook: there is no log at ${missing}; pass --log DIR of an existing log (or record readings first)\n`);
+    expect(r.stderr).toBe(`probebook: there is no log at ${missing}; check --log (or $PROBEBOOK_LOG), or record a reading first\n`);
     expect(existsSync(missing)).toBe(false);
   });
 

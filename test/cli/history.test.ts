@@ -1,3 +1,5 @@
+import { existsSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { openLog } from '../../src/log/store.js';
 import { biasPlan, cli, cliProcess } from '../log/fixtures/run-cli.js';
@@ -62,12 +64,103 @@ describe('probebook history', () => {
 
   test('--log DIR wins over PROBEBOOK_LOG', async () => {
     const other = tempDir('history-other');
+    await openLog(other.dir);
     try {
       const r = await cli(['history', 'H-001', '--log', other.dir], env);
       expect(r.status).toBe(2);
       expect(r.stderr).toContain(`no board H-001 in ${other.dir}; the log has no boards yet`);
     } finally {
       other.remove();
+    }
+  });
+});
+
+describe('commands that only read never create a log (issue 10 item 8)', () => {
+  test.each([
+    ['history', ['history', 'H-001']],
+    ['report SERIAL', ['report', 'H-001', '--format', 'md']],
+    ['report --batch', ['report', '--batch', '--format', 'csv']],
+    ['batch', ['batch']],
+  ])('%s on a mistyped --log: exit 2, one line, no folder made', async (_name, argv) => {
+    const parent = tempDir('history-typo');
+    try {
+      const typo = `${parent.dir}/lgo`;
+      const r = await cli([...argv, '--log', typo], env);
+      expect(r.status).toBe(2);
+      expect(r.stderr).toBe(`probebook: there is no log at ${typo}; check --log (or $PROBEBOOK_LOG), or record a reading first\n`);
+      expect(existsSync(typo)).toBe(false);
+    } finally {
+      parent.remove();
+    }
+  });
+
+  test('an existing folder that is no log is refused and left as it was', async () => {
+    const other = tempDir('history-notalog');
+    try {
+      const r = await cli(['history', 'H-001', '--log', other.dir], env);
+      expect(r.status).toBe(2);
+      expect(r.stderr).toBe(`probebook: ${other.dir} is not a probebook log (it has no boards folder); check --log (or $PROBEBOOK_LOG)\n`);
+      expect(readdirSync(other.dir)).toEqual([]);
+    } finally {
+      other.remove();
+    }
+  });
+});
+
+describe('--log and --cache on the command line (issue 10 items 7 and 9)', () => {
+  test.each([
+    [['history', 'H-001', '--log', '']],
+    [['history', 'H-001', '--log=']],
+    [['record', '--plan', biasPlan, '--board', 'H-002', '--check', 'ref.out.dc', '--value', '3.4', '--log=']],
+    [['batch', '--log', '']],
+    [['report', 'H-001', '--log=']],
+    [['targets', biasPlan, '--log=']],
+    [['analyze', 'demo/captures/exciter-sine.csv', '--log=']],
+  ])('an empty --log is refused with one line: %j', async (argv) => {
+    const r = await cli(argv, env);
+    expect(r.status).toBe(2);
+    expect(r.stderr).toBe('probebook: --log needs a folder (or a PostgreSQL URL); leave it out to use $PROBEBOOK_LOG or the data folder\n');
+  });
+
+  test('the bench screen refuses an empty --log too, in one line, before it needs a terminal', async () => {
+    const r = await cli(['--log='], env);
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatch(/^probebook: --log needs a value; usage: probebook \[--log DIR\][^\n]*\n$/);
+  });
+
+  test('history and report keep their targets in --cache DIR, not in PROBEBOOK_CACHE; an edited entry is recomputed and said once', async () => {
+    const mine = tempDir('history-cache');
+    const envCache = tempDir('history-envcache');
+    try {
+      const first = await cli(['history', 'H-001', '--cache', mine.dir], { ...env, PROBEBOOK_CACHE: envCache.dir });
+      expect(first.status, first.stderr).toBe(0);
+      const files = readdirSync(mine.dir).filter((n) => n.endsWith('.json'));
+      expect(files).toHaveLength(1);
+      expect(readdirSync(envCache.dir)).toEqual([]);
+      // Someone edits the cached band of ref.out.dc: the report must not believe it.
+      const file = join(mine.dir, files[0] ?? '');
+      const text = readFileSync(file, 'utf8');
+      writeFileSync(file, text.replace(/("check":"ref\.out\.dc"[^}]*?"worst":\{"min":)([-\d.e]+)/, '$1-100'));
+      expect(readFileSync(file, 'utf8')).not.toBe(text);
+      const report = await cli(['report', 'H-001', '--format', 'csv', '--cache', mine.dir], env);
+      expect(report.status).toBe(0);
+      expect(report.stderr.match(/does not match its own checksum/g)).toHaveLength(1);
+      expect(report.stdout).not.toContain('-100');
+      const quiet = await cli(['report', 'H-001', '--format', 'csv', '--cache', mine.dir], env);
+      expect(quiet.stderr).toBe('');
+      expect(quiet.stdout).toBe(report.stdout);
+    } finally {
+      mine.remove();
+      envCache.remove();
+    }
+  });
+
+  test('--help of every command that computes targets says where the cache lives, even with --log', async () => {
+    for (const argv of [['targets', '--help'], ['record', '--help'], ['history', '--help'], ['batch', '--help'], ['report', '--help'], ['report', '--batch', '--help'], ['--help']]) {
+      const r = await cli(argv, env);
+      expect(r.status, argv.join(' ')).toBe(0);
+      expect(r.stdout, argv.join(' ')).toMatch(/--cache DIR/);
+      expect(r.stdout, argv.join(' ')).toMatch(/even when --log is given/);
     }
   });
 });

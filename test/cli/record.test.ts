@@ -38,6 +38,7 @@ describe('probebook record', () => {
     expect(out.worst.max).toBeCloseTo(high, 2);
     expect(out.worst.min).toBeLessThanOrEqual(low * (1 + 1e-9));
     expect(out.worst.max).toBeGreaterThanOrEqual(high * (1 - 1e-9));
+    // Deviation = (reading − nominal)/|nominal| (DESIGN §7 record --json), hand arithmetic.
     expect(out.deviation).toBeCloseTo((3.28 - nominal) / nominal, 9);
     // Stage reading before the safety checks: recorded, with a warning.
     expect(out.warnings.join(' ')).toMatch(/safety checks skipped: rails\.\+10V\.to-ground, rails\.-10V\.to-ground, rails\.idle-current/);
@@ -169,6 +170,7 @@ describe('the reading parser (readValue)', () => {
     fc.assert(
       fc.property(fc.integer({ min: -99999, max: 99999 }), fc.integer({ min: 0, max: 3 }), fc.constantFrom(...prefixes), (mantissa, decimals, [prefix, exp]) => {
         const text = `${(mantissa / 10 ** decimals).toFixed(decimals)} ${prefix}V`;
+        // The number the property wrote, read back (decimal notation, no outside figure).
         expect(readValue(text, volts)).toBeCloseTo((mantissa / 10 ** decimals) * 10 ** exp, 12 - Math.max(0, exp));
       }),
       { numRuns: 300, seed: 11 },

@@ -59,6 +59,7 @@ describe('probebook report SERIAL --format csv', () => {
     expect(rows[0]?.value).toBe('Infinity');
     expect(rows[2]?.value).toBe('0.0195');
     expect(rows[5]?.test_point).toBe('TP4');
+    // The divider's worst-case low corner of the invented bias plan, hand arithmetic: above 3.1 V.
     expect(Number(rows[5]?.worst_min)).toBeGreaterThan(3.1);
     // Divider formula Vout = V·Rb/(Rt+Rb) (any circuits handbook) at the fixture's low corner:
     // +10V at −2 %, Rtop 6k8 at +1 %, Rbottom 3k3 at −1 %; within 5 mV (toBeCloseTo 2 places), never narrower.

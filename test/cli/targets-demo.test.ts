@@ -1,12 +1,17 @@
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { main } from '../../src/cli/main.js';
+
+/** A targets cache of this test file's own: no test writes into the user's cache folder. */
+const cacheDir = mkdtempSync(join(tmpdir(), 'probebook-cache-'));
 
 /** Run in-process with captured output, from the repository root. */
 async function run(args: readonly string[]): Promise<{ status: number; stdout: string; stderr: string }> {
   let stdout = '';
   let stderr = '';
-  const status = await main(args, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t), env: {}, cwd: process.cwd() });
+  const status = await main(args, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t), env: { PROBEBOOK_CACHE: cacheDir }, cwd: process.cwd() });
   return { status, stdout, stderr };
 }
 
@@ -40,6 +45,7 @@ describe.each(['demo/exciter.plan.json', 'demo/line-driver.plan.json'])('targets
       expect(min).not.toBeNull();
       expect(t.nominal as number).toBeGreaterThanOrEqual(min as number);
       expect(t.nominal as number).toBeLessThanOrEqual(max);
+      // DESIGN §4: the statistical band lies inside the worst-case band.
       expect(t.stat.min as number).toBeGreaterThanOrEqual(min as number);
       expect(t.stat.max as number).toBeLessThanOrEqual(max);
     }
@@ -55,6 +61,7 @@ describe('demo designs', () => {
   test('the exciter runs at 2–3 kHz with its pot centred and has no design warnings', async () => {
     const json = JSON.parse((await run(['targets', 'demo/exciter.plan.json', '--json', '--trials', '1000'])).stdout) as { targets: JsonTarget[]; warnings: unknown[] };
     const f = json.targets.find((t) => t.check === 'osc.freq');
+    // Ideal f = R2/(4·R1·R·Ct) of the demo plan's invented parts, about 2.4 kHz (Sedra and Smith, square/triangle generator); the slew correction stays within these bounds.
     expect(f?.nominal).toBeGreaterThan(2000);
     expect(f?.nominal).toBeLessThan(3000);
     // Ideal f = R2 / (4·R1·(Rt + RV·0.4)·Ct) = 22k / (4·10k·22k·10n) = 2.5 kHz (DESIGN §3); the slew time lowers it a little.

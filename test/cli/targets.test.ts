@@ -11,7 +11,7 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 /** Run the real CLI as a child process, as a technician would (through tsx, no build needed). */
 function cli(args: readonly string[]): { status: number | null; stdout: string; stderr: string } {
-  const r = spawnSync(process.execPath, ['--import', 'tsx', 'src/cli/bin.ts', ...args], { encoding: 'utf8', timeout: 60_000 });
+  const r = spawnSync(process.execPath, ['--import', 'tsx', 'src/cli/bin.ts', ...args], { encoding: 'utf8', timeout: 60_000, env: { ...process.env, PROBEBOOK_CACHE: join(dir, 'cache') } });
   return { status: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
@@ -19,7 +19,7 @@ function cli(args: readonly string[]): { status: number | null; stdout: string; 
 async function run(args: readonly string[]): Promise<{ status: number; stdout: string; stderr: string }> {
   let stdout = '';
   let stderr = '';
-  const status = await main(args, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t), env: {}, cwd: dir });
+  const status = await main(args, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t), env: { PROBEBOOK_CACHE: join(dir, 'cache') }, cwd: dir });
   return { status, stdout, stderr };
 }
 

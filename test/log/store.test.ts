@@ -38,6 +38,8 @@ describe('runs, readings and rework', () => {
     expect(run).toMatchObject({ ended: null, outcome: 'in-progress', operator: 'ann', plan: 'store-test', planHash });
     const saved = await log.appendReading('SN-001', reading(run.id, 'rails.+12V.dc', 11.93, { raw: '11,93' }));
     expect(saved.id).toMatch(/^r-[0-9a-z]{9}-[0-9a-z]{8}$/);
+    // The id letters are fixed: logs written before keep theirs (reading r-, run u-).
+    expect(run.id).toMatch(/^u-[0-9a-z]{9}-[0-9a-z]{8}$/);
     expect(Date.parse(saved.at)).not.toBeNaN();
     // A second, independent opening of the folder (as a second terminal would) sees it.
     const other = await openLog(dir);

@@ -39,6 +39,7 @@ describe('buildChain', () => {
   test('variables: rails first, then every part by <stage>.<role>, with tolerances as fractions', () => {
     const chain = buildChain(loadPlanText(JSON.stringify(fakePlan()), 'f.plan.json', fakeKinds));
     expect(chain.variables.map((v) => v.name)).toEqual(['rails.+12V', 'rails.-12V', 'ref.Rtop', 'ref.Rbottom', 'osc.R', 'osc.C', 'amp.Rg', 'amp.Rf']);
+    // The invented plan's "100n 5%".
     expect(chain.variables.find((v) => v.name === 'osc.C')?.tol).toBeCloseTo(0.05, 12);
   });
 
@@ -52,6 +53,7 @@ describe('buildChain', () => {
     expect(at('amp.out.vpp')).toBeCloseTo(6.4, 12);
     expect(Number.isNaN(at('rails.+12V.to-ground'))).toBe(true);
     chain.evaluate(chain.nominal, out, chain.stageIndex('osc') + 1);
+    // The fake oscillator's closed form f = 1/((R + 2.2 kΩ)·C), hand arithmetic.
     expect(at('osc.freq')).toBeCloseTo(1 / (12_200 * 100e-9), 6);
     expect(Number.isNaN(at('amp.out.vpp'))).toBe(true);
   });

@@ -19,6 +19,7 @@ function part(json: Record<string, unknown>, role: string, unit: Unit, file: str
 export const fakeDivider: StageKind<{ from: string }> = {
   kind: 'divider',
   summary: 'test divider',
+  traits: { railSetting: 'from' },
   roles: [
     { role: 'Rtop', unit: 'Ω', description: 'top' },
     { role: 'Rbottom', unit: 'Ω', description: 'bottom' },

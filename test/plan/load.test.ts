@@ -39,6 +39,7 @@ describe('loadPlanText: a good plan', () => {
       ['+12V', 12, 0.01],
       ['-12V', -12, 0.01],
     ]);
+    // The invented plan's "40 mA" in SI base units (BIPM SI Brochure, 9th ed., prefixes).
     expect(plan.idleCurrentMax).toBeCloseTo(0.04, 12);
     // Default threshold, common practice, no source.
     expect(plan.railShortMin).toBe(100);
@@ -66,6 +67,7 @@ describe('loadPlanText: a good plan', () => {
 
   test('a stage op-amp overrides the plan one key by key', () => {
     const loaded = load({ ...withStage(2, { opamp: { slew: '13 V/us' } }), opamp: { gbw: '3 MHz' } });
+    // The stage's own opamp keys override the plan's (DESIGN §3), in SI base units: V/µs → V/s, MHz → Hz (BIPM prefixes).
     expect(loaded.stages[2]?.opamp.slew).toBeCloseTo(13e6, 3);
     expect(loaded.stages[2]?.opamp.gbw).toBeCloseTo(3e6, 3);
     expect(loaded.stages[0]?.opamp.slew).toBeCloseTo(0.5e6, 3);

@@ -66,6 +66,7 @@ describe('batch figures from the index', () => {
     boards.push(board('T999', { 'osc.freq': summary([19, 'pass', d2]) }));
     const freq = batchFigures(indexOf(...boards), demoBands()).checks[0];
     expect(freq?.outliers.map((o) => [o.serial, o.reasons])).toEqual([['T999', ['beyond 3σ']]]);
+    // An outlier lies beyond 3σ of the batch mean (the review's rule, common practice, no source).
     expect(Math.abs(freq?.outliers[0]?.z ?? 0)).toBeGreaterThan(3);
   });
 

@@ -10,6 +10,7 @@ describe('spread', () => {
       fc.property(fc.array(fc.double({ min: -1e6, max: 1e6, noNaN: true }), { minLength: 2, maxLength: 60 }), (xs) => {
         const s = spreadOf(xs);
         const scale = Math.max(1, ...xs.map(Math.abs));
+        // simple-statistics (an independent library): mean and sample SD.
         expect(Math.abs((s.mean ?? NaN) - mean(xs))).toBeLessThanOrEqual(1e-12 * scale);
         expect(Math.abs((s.sd ?? NaN) - sampleStandardDeviation(xs))).toBeLessThanOrEqual(1e-9 * scale);
         expect(s.min).toBe(min(xs));
@@ -21,6 +22,7 @@ describe('spread', () => {
 
   test('keeps the digits of a 10 kHz oscillator spread by millihertz (simple-statistics as reference, rel 1e-6)', () => {
     const xs = [10000.001, 10000.002, 10000.004, 9999.999, 10000.0];
+    // simple-statistics (an independent library) for the sample SD.
     expect(spreadOf(xs).sd).toBeCloseTo(sampleStandardDeviation(xs), 9);
   });
 
@@ -38,11 +40,13 @@ describe('capability (NIST/SEMATECH e-Handbook §6.1.6)', () => {
     const c = capabilityOf(spreadOf([14, 16, 18]), { min: 8, max: 20 });
     expect(c.status).toBe('ok');
     expect(c.cp).toBeCloseTo(1, 12);
+    // NIST/SEMATECH e-Handbook §6.1.6: Cpk = min(USL − μ, μ − LSL)/(3σ), worked by hand.
     expect(c.cpk).toBeCloseTo(2 / 3, 12);
   });
 
   test('a centred process has Cpk = Cp; an off-band mean gives a negative Cpk', () => {
     const centred = capabilityOf(spreadOf([13, 14, 15]), { min: 8, max: 20 });
+    // NIST/SEMATECH e-Handbook §6.1.6: a centred process has Cpk = Cp.
     expect(centred.cpk).toBeCloseTo(centred.cp ?? NaN, 12);
     // mean 22 above USL 20: Cpk = (20 − 22)/(3·1) = −0.667 (same formula)
     expect(capabilityOf(spreadOf([21, 22, 23]), { min: 8, max: 20 }).cpk).toBeCloseTo(-2 / 3, 12);

@@ -61,6 +61,6 @@ describe('trend series', () => {
     const t = trendOf(pts, 10);
     expect(t.values).toHaveLength(10);
     // Each of the 10 groups of 100 consecutive values 0..999 averages to 49.5 + 100k.
-    t.values.forEach((v, k) => expect(v).toBeCloseTo(49.5 + 100 * k, 9));
+    for (const [k, v] of t.values.entries()) expect(v).toBeCloseTo(49.5 + 100 * k, 9);
   });
 });

@@ -11,6 +11,7 @@ const read = (text: string, options = {}) => readCaptureBytes(bytes(text), { nam
 describe('CSV dialects', () => {
   test('comma, header with units in brackets and parentheses, time in seconds', () => {
     const c = read('Time (s),CH1 [V],CH2 (mV)\n0,1.5,100\n1e-6,2.5,-200\n2e-6,3.5,300\n');
+    // The sample interval written in the invented file.
     expect(c.dt).toBeCloseTo(1e-6, 18);
     expect(c.channels.map((ch) => ch.name)).toEqual(['CH1', 'CH2']);
     expect(Array.from(c.channels[0]?.samples ?? [])).toEqual([1.5, 2.5, 3.5]);
@@ -20,6 +21,7 @@ describe('CSV dialects', () => {
 
   test('semicolons with decimal commas, a preamble and CRLF line ends', () => {
     const c = read('Instrument;invented\r\nSample Interval;0,000002\r\n\r\nOUT [V]\r\n1,25\r\n-2,5\r\n3,75\r\n');
+    // The sample interval written in the invented file.
     expect(c.dt).toBeCloseTo(2e-6, 18);
     expect(c.channels).toHaveLength(1);
     expect(Array.from(c.channels[0]?.samples ?? [])).toEqual([1.25, -2.5, 3.75]);
@@ -27,16 +29,19 @@ describe('CSV dialects', () => {
 
   test('tabs, time in ms, volts in mV, comment lines before the header', () => {
     const c = read('# invented\nt [ms]\tOUT [mV]\n0\t1000\n0.5\t-500\n1.0\t250\n');
+    // The sample interval written in the invented file.
     expect(c.dt).toBeCloseTo(0.5e-3, 15);
     expect(Array.from(c.channels[0]?.samples ?? [])).toEqual([1, -0.5, 0.25]);
   });
 
   test('no header: the first column is time when there are two; --dt makes every column a channel', () => {
     const c = read('0,1\n0.001,2\n0.002,3\n');
+    // The sample interval written in the invented file.
     expect(c.dt).toBeCloseTo(0.001, 15);
     expect(c.channels).toHaveLength(1);
     const d = read('5,1\n6,2\n7,3\n', { dt: 1e-3 });
     expect(d.channels).toHaveLength(2);
+    // 1/dt of the invented file.
     expect(d.sampleRate).toBeCloseTo(1000, 9);
   });
 
@@ -129,6 +134,7 @@ describe('numbers as csv-parse and Number() read them', () => {
           at += size;
         }
         const c = parser.end();
+        // The same file read whole and in chunks must agree exactly (no outside figure).
         expect(c.dt).toBeCloseTo(whole.dt, 15);
         expect(Array.from(c.channels[0]?.samples ?? [])).toEqual(Array.from(whole.channels[0]?.samples ?? []));
         expect(Array.from(c.channels[1]?.samples ?? [])).toEqual(Array.from(whole.channels[1]?.samples ?? []));

@@ -64,6 +64,7 @@ describe('componentAt against independent transforms', () => {
     for (let k = 1; k <= 50; k++) {
       const bin = k * periods;
       const ref = (2 * Math.hypot(out[2 * bin] ?? 0, out[2 * bin + 1] ?? 0)) / size;
+      // fft.js (an independent library) on the same whole-period record: the same amplitudes to 1e-9.
       expect(Math.abs((h.amplitudes[k] ?? 0) - ref)).toBeLessThan(1e-9);
       if (k > 1) rss += ref * ref;
     }
@@ -75,5 +76,27 @@ describe('componentAt against independent transforms', () => {
     // 40.5 samples per period: k·f < fs/2 means k ≤ 20.
     const x = Float64Array.from({ length: 4050 }, (_, i) => Math.sin((2 * Math.PI * i) / 40.5));
     expect(harmonicAnalysis(x, 0, 40.5, 100, 0).highest).toBe(20);
+  });
+});
+
+describe('a harmonic exactly at half the sample rate (even period length)', () => {
+  // With 40 samples per period harmonic 20 sits exactly at fs/2, where a sampled
+  // cosine cannot be told from its alias and a sine reads zero (Nyquist–Shannon
+  // sampling theorem): it is no harmonic to count. Test signal: a unit sine plus
+  // 0.3·(−1)^n, a component exactly at fs/2 (invented values).
+  const period = 40;
+  const x = Float64Array.from({ length: period * 20 }, (_, i) => Math.sin((2 * Math.PI * i) / period) + 0.3 * (i % 2 === 0 ? 1 : -1));
+
+  test('harmonics stop at 19, below fs/2, and the fs/2 component adds nothing to the THD', () => {
+    const h = harmonicAnalysis(x, 0, period, 20, 0);
+    expect(h.highest).toBe(19);
+    // Harmonics 2…19 of this signal are zero (it has none), so THD is zero up to
+    // the Hann window's leakage of the fs/2 line, which lies 20 periods' bins away: < 1e-9.
+    expect(h.thd).toBeLessThan(1e-9);
+    expect(h.amplitudes[1]).toBeCloseTo(1, 9);
+  });
+
+  test('the same with 41 samples a period (odd): harmonic 20 lies below fs/2 and is counted', () => {
+    expect(harmonicAnalysis(Float64Array.from({ length: 41 * 20 }, (_, i) => Math.sin((2 * Math.PI * i) / 41)), 0, 41, 20, 0).highest).toBe(20);
   });
 });

@@ -19,6 +19,7 @@ describe('RMS and mean over whole periods', () => {
     ['square', square, 1],
   ] as const)('%s RMS matches the closed form', (_name, shape, ratio) => {
     const m = measure(sampled(shape, n, period, { peak: 2.5 }), fs).measurements;
+    // RMS of the ideal shape over its peak (sine 1/√2, triangle 1/√3, square 1; any signals handbook).
     expect(m.vrmsAc / 2.5).toBeCloseTo(ratio, 3);
     expect(Math.abs(m.vrmsAc / (2.5 * ratio) - 1)).toBeLessThan(1e-3);
   });
@@ -45,6 +46,7 @@ describe('THD (DESIGN §4: harmonics 2…50 over the fundamental)', () => {
   test('square: √(Σ odd 1/k²) up to 49, close to the 48.3 % of the full series', () => {
     const m = measure(sampled(square, n, period, { peak: 3 }), fs).measurements;
     const expected = oddSum(2, 49);
+    // Fourier series of the ideal square: THD = √(π²/8 − 1) ≈ 48.3 % (any signals handbook).
     expect(Math.sqrt(Math.PI ** 2 / 8 - 1)).toBeCloseTo(0.483, 3);
     // 0.5 % relative: sampling an ideal edge aliases a little energy.
     expect(Math.abs((m.thd ?? 0) / expected - 1)).toBeLessThan(5e-3);
@@ -61,6 +63,7 @@ describe('THD (DESIGN §4: harmonics 2…50 over the fundamental)', () => {
 
   test('a pure sine has THD near zero; a known 2nd and 3rd harmonic are found', () => {
     const pure = measure(sampled(sine, n, period), fs).measurements;
+    // A pure sine has no harmonics (Fourier series): only rounding and window leakage remain.
     expect(pure.thd).toBeLessThan(1e-4);
     const mixed = sampled((p) => Math.sin(2 * Math.PI * p) + 0.03 * Math.sin(4 * Math.PI * p) + 0.04 * Math.cos(6 * Math.PI * p), n, period);
     // By construction: √(0.03² + 0.04²) = 0.05.
@@ -121,6 +124,27 @@ describe('edges per IEEE Std 181-2011', () => {
     expect(Math.abs((m.fall ?? 0) / (Math.log(9) * tau) - 1)).toBeLessThan(2e-3);
     expect(m.overshoot).toBeLessThan(1e-3);
     expect(Math.abs((m.duty ?? 0) - 0.5)).toBeLessThan(1e-3);
+  });
+
+  test('an asymmetric edge: the fall is measured on the falling edges, not copied from the rise', () => {
+    // Invented edges: rising with τ = 2 µs, falling with τ = 6 µs (a pull-up
+    // stronger than the pull-down). Each 10–90 % transition is ln 9 · its own τ
+    // (single-pole edge, handbook; IEEE Std 181-2011 reference levels).
+    const tauRise = 2e-6;
+    const tauFall = 6e-6;
+    const rate = 20e6;
+    const half = 250e-6;
+    const x = Float64Array.from({ length: Math.round(rate * half * 12.3) }, (_, i) => {
+      const t = i / rate + 17e-6;
+      const k = Math.floor(t / half);
+      const into = t - k * half;
+      const level = k % 2 === 0 ? 1 : -1;
+      return level - 2 * level * Math.exp(-into / (level > 0 ? tauRise : tauFall));
+    });
+    const m = measure(x, rate).measurements;
+    // Single-pole edge, 10–90 %: ln 9 · τ (handbook); 0.2 %.
+    expect(Math.abs((m.rise ?? 0) / (Math.log(9) * tauRise) - 1)).toBeLessThan(2e-3);
+    expect(Math.abs((m.fall ?? 0) / (Math.log(9) * tauFall) - 1)).toBeLessThan(2e-3);
   });
 
   test('overshoot of a second-order edge is exp(−ζπ/√(1−ζ²)) of the step', () => {
@@ -224,6 +248,7 @@ describe('captures that cannot be measured', () => {
   test('a DC level and a capture under two periods give figures but no frequency', () => {
     const dc = measure(new Float64Array(100).fill(11.9), fs).measurements;
     expect(dc.frequency).toBeNull();
+    // The invented DC level the capture was written with.
     expect(dc.mean).toBeCloseTo(11.9, 12);
     expect(dc.warnings.join(' ')).toMatch(/flat/);
     const short = measure(sampled(sine, 150, 100), fs).measurements;

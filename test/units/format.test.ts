@@ -21,6 +21,7 @@ describe('engineering notation', () => {
     for (const v of [1.234e-12, 4.7e-9, 3.3e3, 1.5e6, 12, 0.5e-3]) {
       const r = parseValue(formatValue(v, 'F'), { expected: 'F' });
       expect(r.ok).toBe(true);
+      // Four significant digits shown: a round trip within half a unit of the fourth digit, 5e-4.
       if (r.ok) expect(Math.abs(r.value - v) / v).toBeLessThan(5e-4);
     }
   });

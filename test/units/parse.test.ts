@@ -56,6 +56,7 @@ describe('SI prefixes', () => {
   ] as const)('%s', (text, factor, unit) => {
     const r = parseValue(text, { expected: unit });
     expect(r.ok).toBe(true);
+    // SI prefix factors (BIPM SI Brochure, 9th ed., Table 7).
     if (r.ok) expect(Math.abs(r.value - factor) / factor).toBeLessThan(1e-12);
   });
 });
@@ -76,6 +77,7 @@ describe('values as a technician types them', () => {
     ['10 ms', 's', 0.01],
     ['−3.3', 'V/V', -3.3],
   ] as const)('%s as %s', (text, unit, expected) => {
+    // RKM codes per IEC 60062:2016 (the letter marks the decimal point and the multiplier).
     expect(value(text, unit)).toBeCloseTo(expected, 9);
   });
 
@@ -85,6 +87,7 @@ describe('values as a technician types them', () => {
   });
 
   test('percent is a fraction where a plain number is expected', () => {
+    // Per cent is 1/100 (BIPM SI Brochure, 9th ed.).
     expect(value('2.5%', '1')).toBeCloseTo(0.025, 12);
   });
 });
@@ -98,6 +101,7 @@ describe('tolerances in plans', () => {
     const r = parseValue(text, { expected: unit });
     expect(r.ok).toBe(true);
     if (r.ok) {
+      // The value formatted by the property's generator, read back (round trip, no outside figure).
       expect(r.value).toBeCloseTo(v, 15);
       expect(r.tol).toBeCloseTo(tol, 12);
     }

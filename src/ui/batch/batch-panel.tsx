@@ -1,7 +1,7 @@
 import { Box, Text } from 'ink';
 import { useMemo } from 'react';
 import type { BatchCheck } from '../../review/batch-types.js';
-import { fig } from '../../review/format.js';
+import { formatFigure } from '../../review/format.js';
 import { trendOf } from '../../review/trend.js';
 import { cell } from '../components/columns.js';
 import { scrollWindow } from '../components/scroll-window.js';
@@ -39,7 +39,7 @@ export function BatchPanel({ check: c, panel, outlierSelected, height, width }: 
       {c.outliers.slice(start, end).map((o, i) => (
         <Text key={o.serial} inverse={start + i === outlierSelected}>
           {start + i === outlierSelected ? pointer : ' '}
-          {cell(`${cell(o.serial, 14)} ${cell(fig(o.value, c.unit), 12, 'right')}  ${o.reasons.join(', ')}${o.z !== null ? `, z = ${o.z.toFixed(1)}` : ''}  ${o.at.slice(0, 16).replace('T', ' ')}`, width - 1)}
+          {cell(`${cell(o.serial, 14)} ${cell(formatFigure(o.value, c.unit), 12, 'right')}  ${o.reasons.join(', ')}${o.z !== null ? `, z = ${o.z.toFixed(1)}` : ''}  ${o.at.slice(0, 16).replace('T', ' ')}`, width - 1)}
         </Text>
       ))}
     </Box>

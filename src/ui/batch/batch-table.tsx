@@ -1,6 +1,6 @@
 import { Box, Text } from 'ink';
 import type { BatchCheck } from '../../review/batch-types.js';
-import { cpkWord, index2, pct } from '../../review/format.js';
+import { cpkWord, formatIndex, formatPercent } from '../../review/format.js';
 import { cell } from '../components/columns.js';
 import { scrollWindow } from '../components/scroll-window.js';
 import { pointer, toneProps, type Tone } from '../theme.js';
@@ -34,7 +34,7 @@ export function BatchTable({ rows, selected, height, width }: BatchTableProps) {
         return (
           <Text key={`${c.plan ?? ''}/${c.check}`} inverse={isSelected} wrap="truncate-end">
             {isSelected ? pointer : ' '}
-            {`${cell(c.check, checkWidth)}${cell(String(c.n), 6, 'right')}${cell(String(c.pass), 6, 'right')}${cell(String(c.marginal), 6, 'right')}${cell(String(c.fail), 6, 'right')}${cell(pct(c.finalYield), 7, 'right')}${cell(index2(c.cp), 6, 'right')}${cell(index2(c.cpk), 6, 'right')}  `}
+            {`${cell(c.check, checkWidth)}${cell(String(c.n), 6, 'right')}${cell(String(c.pass), 6, 'right')}${cell(String(c.marginal), 6, 'right')}${cell(String(c.fail), 6, 'right')}${cell(formatPercent(c.finalYield), 7, 'right')}${cell(formatIndex(c.cp), 6, 'right')}${cell(formatIndex(c.cpk), 6, 'right')}  `}
             <Text {...toneProps(w.tone)}>{cell(w.text, 15)}</Text>
           </Text>
         );

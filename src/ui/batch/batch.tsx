@@ -1,7 +1,7 @@
 import { Box, Text } from 'ink';
 import { useEffect } from 'react';
 import { describeFilter } from '../../review/filter.js';
-import { fig, pct } from '../../review/format.js';
+import { formatFigure, formatPercent } from '../../review/format.js';
 import { Header } from '../components/header.js';
 import { HelpBox } from '../components/help-box.js';
 import { KeyBar } from '../components/key-bar.js';
@@ -17,8 +17,8 @@ import { batchPanels, selectedCheck, useBatchState } from './use-batch-state.js'
 const panelLabel = { histogram: 'Histogram', trend: 'Trend', outliers: 'Outliers' } as const;
 
 /** Every check across the boards: yield, spread, capability, with histogram, trend and outliers. */
-export function BatchScreen({ log, width, height, isActive = true, onExit, onOpenBoard, onTypingChange }: BatchProps) {
-  const { state, dispatch } = useBatchState(log);
+export function BatchScreen({ log, width, height, isActive = true, onExit, onOpenBoard, onTypingChange, targetsCache }: BatchProps) {
+  const { state, dispatch } = useBatchState(log, targetsCache);
   const isTyping = state.form !== null && state.form !== undefined;
   useEffect(() => onTypingChange?.(isTyping), [isTyping, onTypingChange]);
   const rest = Math.max(6, height - 6);
@@ -27,7 +27,7 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
   useBatchKeys(state, dispatch, { onExit, onOpenBoard }, tableRows, isActive);
   const f = state.figures;
   const c = selectedCheck(state);
-  const note = f ? `${f.boards} boards · first-pass ${pct(f.firstPassYield)} · final ${pct(f.finalYield)}` : '';
+  const note = f ? `${f.boards} boards · first-pass ${formatPercent(f.firstPassYield)} · final ${formatPercent(f.finalYield)}` : '';
   let body;
   if (state.isHelpOpen) body = <HelpBox title="batch" entries={batchHelp} notes={batchNotes} width={width} />;
   else if (state.form) body = <FilterForm form={state.form} width={width} />;
@@ -41,7 +41,7 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
       <>
         <BatchTable rows={state.rows} selected={state.selected} height={tableRows} width={width} />
         <Text wrap="truncate-end">
-          {`${c.check}: mean ${fig(c.mean, c.unit)} · sd ${fig(c.sd, c.unit, 3)} · min ${fig(c.min, c.unit)} · max ${fig(c.max, c.unit)}`}
+          {`${c.check}: mean ${formatFigure(c.mean, c.unit)} · sd ${formatFigure(c.sd, c.unit, 3)} · min ${formatFigure(c.min, c.unit)} · max ${formatFigure(c.max, c.unit)}`}
         </Text>
         <Text wrap="truncate-end">
           {batchPanels.map((p) => (

@@ -5,7 +5,8 @@ import type { BenchLog } from '../../log/types.js';
 import { weakestFirst } from '../../review/batch.js';
 import type { BatchCheck, BatchFigures } from '../../review/batch-types.js';
 import type { BatchFilter } from '../../review/filter.js';
-import { planBandSource } from './plan-bands.js';
+import type { TargetsCache } from '../../log/targets-cache.js';
+import { memoryTargetsCache, planBandSource } from './plan-bands.js';
 import { scanBatch } from './scan-batch.js';
 import { applyForm, formFromFilter, type FilterForm } from './filter-form-state.js';
 
@@ -72,8 +73,9 @@ export function batchReducer(state: BatchState, action: BatchAction): BatchState
       return { ...state, status: 'scanning', progress: null };
     case 'figures': {
       const rows = [...action.figures.checks].sort(weakestFirst);
-      const keep = rows.findIndex((c) => c.check === selectedCheck(state)?.check && c.plan === selectedCheck(state)?.plan);
-      return { ...state, status: 'ready', progress: null, figures: action.figures, rows, selected: keep >= 0 ? keep : 0, outlierSelected: 0 };
+      // The check selected before the rescan stays selected when it is still listed.
+      const stillSelected = rows.findIndex((c) => c.check === selectedCheck(state)?.check && c.plan === selectedCheck(state)?.plan);
+      return { ...state, status: 'ready', progress: null, figures: action.figures, rows, selected: stillSelected >= 0 ? stillSelected : 0, outlierSelected: 0 };
     }
     case 'failed':
       return { ...state, status: 'error', message: action.message };
@@ -116,11 +118,14 @@ export function batchReducer(state: BatchState, action: BatchAction): BatchState
 }
 
 /** Load the index once, then rescan the in-memory index whenever the filter changes. */
-export function useBatchState(log: BenchLog) {
+export function useBatchState(log: BenchLog, targetsCache?: TargetsCache) {
   const [state, dispatch] = useReducer(batchReducer, initialBatchState);
   const bands = useMemo(
-    () => planBandSource(log, { onProgress: (_hash, done, total) => dispatch({ type: 'progress', done, total, what: 'computing targets of a plan revision (once, then cached)' }) }),
-    [log],
+    () =>
+      planBandSource(log, targetsCache ?? memoryTargetsCache(), (_hash, done, total) =>
+        dispatch({ type: 'progress', done, total, what: 'computing targets of a plan revision (once, then cached)' }),
+      ),
+    [log, targetsCache],
   );
   const index = useRef<LogIndex | null>(null);
   const [loaded, markLoaded] = useReducer((n: number) => n + 1, 0);

@@ -1,8 +1,10 @@
-import { computeTargets, defaultSeed, defaultTrials } from '../../analysis/targets.js';
+import { defaultSeed, defaultTrials } from '../../analysis/targets.js';
 import type { TargetSet } from '../../analysis/types.js';
+import type { TargetsCache } from '../../log/targets-cache.js';
 import type { BenchLog, BoardSummary, LogIndex } from '../../log/types.js';
 import { loadPlanText } from '../../plan/load.js';
 import type { Plan } from '../../plan/types.js';
+import { memoryTargetsCache } from '../batch/plan-bands.js';
 import { type Progress, targetsOffThread } from './targets-off-thread.js';
 
 /** A plan the technician may pick for a new board. */
@@ -21,6 +23,8 @@ export interface TargetOptions {
   readonly seed?: number;
   /** Compute in a worker thread so the screen keeps drawing. @default true */
   readonly offThread?: boolean;
+  /** The one targets cache (`src/log/targets-cache.ts`); the TUI passes the user's cache folder. @default in memory only */
+  readonly targetsCache?: TargetsCache;
 }
 
 /**
@@ -29,8 +33,9 @@ export interface TargetOptions {
  */
 export class PlanCatalog {
   private readonly plans = new Map<string, Plan>();
-  private readonly targetSets = new Map<string, TargetSet>();
   private readonly pending = new Map<string, Promise<TargetSet>>();
+  /** Where every screen gets its targets: the same cache the commands use. */
+  readonly targetsCache: TargetsCache;
   /** Snapshots that could not be loaded, with the reason, by hash. */
   readonly broken = new Map<string, string>();
 
@@ -40,6 +45,11 @@ export class PlanCatalog {
     private readonly options: TargetOptions = {},
   ) {
     for (const plan of filePlans) this.plans.set(plan.hash, plan);
+    this.targetsCache = options.targetsCache ?? memoryTargetsCache();
+  }
+
+  private settings() {
+    return { trials: this.options.trials ?? defaultTrials, seed: this.options.seed ?? defaultSeed };
   }
 
   /** A plan by its hash: a `--plan` file, else the log's snapshot; null when neither has it. */
@@ -87,14 +97,9 @@ export class PlanCatalog {
     return out;
   }
 
-  /** The targets of a plan (computed once; the Monte Carlo is seeded, so always the same). */
+  /** The targets of a plan (through the cache; the Monte Carlo is seeded, so always the same). */
   targets(plan: Plan): TargetSet {
-    let set = this.targetSets.get(plan.hash);
-    if (!set) {
-      set = computeTargets(plan, { trials: this.options.trials ?? defaultTrials, seed: this.options.seed ?? defaultSeed });
-      this.targetSets.set(plan.hash, set);
-    }
-    return set;
+    return this.targetsCache.forPlan(plan, this.settings());
   }
 
   /**
@@ -102,23 +107,23 @@ export class PlanCatalog {
    * thread with progress, or on this thread when no worker can start.
    */
   targetsAsync(plan: Plan, onProgress?: Progress): Promise<TargetSet> {
-    const ready = this.targetSets.get(plan.hash);
+    const { trials, seed } = this.settings();
+    const key = this.targetsCache.keyOf(plan, { trials, seed });
+    const ready = this.targetsCache.peek(key);
     if (ready) return Promise.resolve(ready);
     const running = this.pending.get(plan.hash);
     if (running) return running;
-    const trials = this.options.trials ?? defaultTrials;
-    const seed = this.options.seed ?? defaultSeed;
     const off = this.options.offThread === false ? null : targetsOffThread(plan, trials, seed, onProgress);
     const job = (async () => {
-      let set: TargetSet;
       try {
-        set = off ? await off : this.targets(plan);
+        if (!off) return this.targets(plan);
+        const set = await off;
+        this.targetsCache.put(key, set);
+        return set;
       } catch {
         // A worker that could not start or died: the same seeded numbers, here.
-        set = this.targets(plan);
+        return this.targets(plan);
       }
-      this.targetSets.set(plan.hash, set);
-      return set;
     })().finally(() => this.pending.delete(plan.hash));
     this.pending.set(plan.hash, job);
     return job;
@@ -126,6 +131,6 @@ export class PlanCatalog {
 
   /** Whether the targets of a plan are ready without computing. */
   hasTargets(plan: Plan): boolean {
-    return this.targetSets.has(plan.hash);
+    return this.targetsCache.peek(this.targetsCache.keyOf(plan, this.settings())) !== null;
   }
 }

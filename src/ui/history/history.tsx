@@ -14,8 +14,8 @@ import { useHistoryKeys } from './use-history-keys.js';
 import { selectedEntry, useHistoryState } from './use-history-state.js';
 
 /** One board's history: timeline, rework before/after, a reading's target as measured. */
-export function HistoryScreen({ log, serial, width, height, isActive = true, onExit }: HistoryProps) {
-  const { state, dispatch } = useHistoryState(log, serial);
+export function HistoryScreen({ log, serial, width, height, isActive = true, onExit, targetsCache }: HistoryProps) {
+  const { state, dispatch } = useHistoryState(log, serial, targetsCache);
   const rows = Math.max(3, height - 5);
   useHistoryKeys(state, dispatch, onExit, rows, isActive);
   const data = state.data;

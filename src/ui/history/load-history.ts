@@ -1,7 +1,6 @@
 import type { BenchLog, BoardFile } from '../../log/types.js';
 import type { BandSource, SnapshotBands } from '../../review/bands.js';
 import { boardHashes, timelineOf, type TimelineEntry } from '../../review/history.js';
-import { planBandSource } from '../batch/plan-bands.js';
 
 /** Everything the history screen shows of one board. */
 export interface HistoryData {
@@ -18,10 +17,9 @@ export interface HistoryData {
  * read, so the screen opens quickly however large the log. Null when the board
  * has no file yet.
  */
-export async function loadHistory(log: Pick<BenchLog, 'readBoard' | 'readPlanSnapshot'>, serial: string, source?: BandSource): Promise<HistoryData | null> {
+export async function loadHistory(log: Pick<BenchLog, 'readBoard'>, serial: string, bandsSource: BandSource): Promise<HistoryData | null> {
   const board = await log.readBoard(serial);
   if (!board) return null;
-  const bandsSource = source ?? planBandSource(log);
   const bands = await bandsSource.load(boardHashes(board));
   return { board, timeline: timelineOf(board, bands), bands, problems: bandsSource.problems().map((p) => p.message) };
 }

@@ -1,5 +1,7 @@
 import { useEffect, useReducer } from 'react';
+import type { TargetsCache } from '../../log/targets-cache.js';
 import type { BenchLog } from '../../log/types.js';
+import { memoryTargetsCache, planBandSource } from '../batch/plan-bands.js';
 import { loadHistory, type HistoryData } from './load-history.js';
 
 export type HistoryPanel = 'timeline' | 'rework';
@@ -93,17 +95,17 @@ export function historyReducer(state: HistoryState, action: HistoryAction): Hist
 }
 
 /** The history of one board, loaded from the log once per serial. */
-export function useHistoryState(log: BenchLog, serial: string) {
+export function useHistoryState(log: BenchLog, serial: string, targetsCache?: TargetsCache) {
   const [state, dispatch] = useReducer(historyReducer, initialHistoryState);
   useEffect(() => {
     let isCurrent = true;
-    loadHistory(log, serial).then(
+    loadHistory(log, serial, planBandSource(log, targetsCache ?? memoryTargetsCache())).then(
       (data) => isCurrent && dispatch({ type: 'loaded', data }),
       (error: unknown) => isCurrent && dispatch({ type: 'failed', message: error instanceof Error ? error.message : String(error) }),
     );
     return () => {
       isCurrent = false;
     };
-  }, [log, serial]);
+  }, [log, serial, targetsCache]);
   return { state, dispatch };
 }

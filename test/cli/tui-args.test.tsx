@@ -1,7 +1,7 @@
 import { spawnSync } from 'node:child_process';
 import { describe, expect, test } from 'vitest';
 import { UsageError } from '../../src/cli/errors.js';
-import { notTerminalMessage, operatorFrom, parseTuiArgs } from '../../src/ui/main.js';
+import { notTerminalMessage, operatorFrom, parseTuiArgs } from '../../src/cli/tui.js';
 import { isColorOn, tone, toneProps } from '../../src/ui/theme.js';
 
 describe('bench screen options', () => {

@@ -1,19 +1,22 @@
 import { render } from 'ink';
-import type { Command } from '../cli/command.js';
-import { resolveLogDir } from '../cli/log-dir.js';
+import type { Command } from './command.js';
+import { resolveLogDir } from './log-dir.js';
 import { openStore } from '../log/open-store.js';
 import { loadPlanFile } from '../plan/load.js';
-import { App } from './app.js';
-import { PlanCatalog } from './bench/plan-catalog.js';
-import { UsageError } from '../cli/errors.js';
+import { App } from '../ui/app.js';
+import { PlanCatalog } from '../ui/bench/plan-catalog.js';
+import { UsageError } from './errors.js';
+import { cacheHelp, targetsCacheFor } from './targets-cache.js';
 
-export const tuiUsage = 'probebook [--log DIR] [--plan FILE]... [--operator NAME]';
+export const tuiUsage = 'probebook [--log DIR] [--plan FILE]... [--operator NAME] [--cache DIR]';
 
 export interface TuiArgs {
   readonly log?: string;
   /** Plan files, in the order given (`--plan a --plan b` or `--plan a,b`). */
   readonly plans: readonly string[];
   readonly operator?: string;
+  /** The targets cache folder (`--cache`). */
+  readonly cache?: string;
   readonly isHelp: boolean;
 }
 
@@ -24,6 +27,7 @@ export interface TuiArgs {
 export function parseTuiArgs(argv: readonly string[]): TuiArgs {
   let log: string | undefined;
   let operator: string | undefined;
+  let cache: string | undefined;
   const plans: string[] = [];
   let isHelp = false;
   for (let i = 0; i < argv.length; i++) {
@@ -35,7 +39,7 @@ export function parseTuiArgs(argv: readonly string[]): TuiArgs {
     if (!word.startsWith('--')) throw new UsageError(`unexpected argument ${JSON.stringify(word)}; usage: ${tuiUsage}`);
     const eq = word.indexOf('=');
     const name = eq >= 0 ? word.slice(2, eq) : word.slice(2);
-    if (name !== 'log' && name !== 'plan' && name !== 'operator') {
+    if (name !== 'log' && name !== 'plan' && name !== 'operator' && name !== 'cache') {
       throw new UsageError(`unknown option --${name}; usage: ${tuiUsage} (or a command: probebook --help)`);
     }
     let value: string | undefined;
@@ -46,10 +50,11 @@ export function parseTuiArgs(argv: readonly string[]): TuiArgs {
     }
     if (value === undefined || value.trim() === '') throw new UsageError(`--${name} needs a value; usage: ${tuiUsage}`);
     if (name === 'log') log = value;
+    else if (name === 'cache') cache = value;
     else if (name === 'operator') operator = value.trim();
     else plans.push(...value.split(',').map((p) => p.trim()).filter((p) => p !== ''));
   }
-  return { ...(log !== undefined ? { log } : {}), ...(operator !== undefined ? { operator } : {}), plans, isHelp };
+  return { ...(log !== undefined ? { log } : {}), ...(operator !== undefined ? { operator } : {}), ...(cache !== undefined ? { cache } : {}), plans, isHelp };
 }
 
 /** `--operator`, else `$PROBEBOOK_OPERATOR`, else `$USER`, else `unknown` (as `probebook record`). */
@@ -69,7 +74,7 @@ const leaveAltScreen = '\u001B[?1049l';
 export const tuiCommand: Command = async (argv, io) => {
   const args = parseTuiArgs(argv);
   if (args.isHelp) {
-    io.stdout(`usage: ${tuiUsage}\n  the bench screen; ? shows the keys on every screen; probebook --help lists the commands\n`);
+    io.stdout(`usage: ${tuiUsage}\n  the bench screen; ? shows the keys on every screen; probebook --help lists the commands\n${cacheHelp}`);
     return 0;
   }
   if (!process.stdin.isTTY || !process.stdout.isTTY) {
@@ -79,7 +84,10 @@ export const tuiCommand: Command = async (argv, io) => {
   const log = await openStore(resolveLogDir(args.log, io.env));
   const plans = [];
   for (const file of args.plans) plans.push(await loadPlanFile(file, { cwd: io.cwd }));
-  const catalog = new PlanCatalog(log, plans);
+  // Cache problems are said after the screen closes: a line on stderr would tear the frame.
+  const notices: string[] = [];
+  const targetsCache = targetsCacheFor(args.cache, { env: io.env, stderr: (text) => notices.push(text) });
+  const catalog = new PlanCatalog(log, plans, { targetsCache });
   const operator = operatorFrom(args.operator, io.env);
 
   process.stdout.write(enterAltScreen);
@@ -91,6 +99,7 @@ export const tuiCommand: Command = async (argv, io) => {
   } finally {
     process.off('exit', restore);
     restore();
+    for (const text of notices) io.stderr(text);
   }
   return 0;
 };

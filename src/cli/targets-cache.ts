@@ -1,0 +1,26 @@
+import { computeTargets } from '../analysis/targets.js';
+import { resolveCacheDir } from '../log/cache-dir.js';
+import { TargetsCache } from '../log/targets-cache.js';
+import type { CommandIo } from './command.js';
+import { UsageError } from './errors.js';
+
+/** What `--help` says about the cache, on every command that computes targets. */
+export const cacheHelp =
+  '  --cache DIR  where computed targets are kept (else $PROBEBOOK_CACHE, else $XDG_CACHE_HOME/probebook,\n' +
+  '               i.e. ~/.cache/probebook): in the user\'s cache folder even when --log is given; safe to delete\n';
+
+/** The `--cache` option's value, or a UsageError for an empty one. */
+export function cacheFlag(value: string | boolean | undefined): string | undefined {
+  if (value === undefined) return undefined;
+  if (typeof value !== 'string' || value.trim() === '') throw new UsageError('--cache needs a folder; leave it out to use $PROBEBOOK_CACHE or ~/.cache/probebook');
+  return value;
+}
+
+/** The command's targets cache: the folder from `--cache` or the environment, problems said on stderr. */
+export function targetsCacheFor(flag: string | boolean | undefined, io: Pick<CommandIo, 'env' | 'stderr'>): TargetsCache {
+  return new TargetsCache({
+    dir: resolveCacheDir(cacheFlag(flag), io.env),
+    compute: computeTargets,
+    onNotice: (message) => io.stderr(`probebook: warning: ${message}\n`),
+  });
+}
