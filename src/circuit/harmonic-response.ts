@@ -77,7 +77,9 @@ function direct(
   let mean = 0;
   for (let i = 0; i < n; i++) mean += samples[i] as number;
   mean /= n;
-  outs.forEach((out, j) => out.fill(mean * (dcGains[j] ?? 0)));
+  outs.forEach((out, j) => {
+    out.fill(mean * (dcGains[j] ?? 0));
+  });
   for (let k = 1; k <= Math.floor(n / 2); k++) {
     let re = 0;
     let im = 0;
