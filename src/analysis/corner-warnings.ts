@@ -29,7 +29,8 @@ export function cornerWarnings(chain: Chain, perSigma: readonly Float64Array[], 
         if (sign !== 0) moved = true;
       });
       if (!moved) continue;
-      const detail = chain.detail(x);
+      // A stage's warnings depend only on it and the stages upstream of it.
+      const detail = chain.detail(x, chain.stageIndex(check.stage) + 1);
       const fresh = detail.warnings.find((w) => w.stage === check.stage && !seenAtNominal.has(`${w.stage}\u0000${w.message}`));
       if (fresh) {
         found.set(check.stage, {

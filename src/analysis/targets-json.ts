@@ -13,7 +13,8 @@ function band(b: Band): { min: number | null; max: number | null } {
  * The `targets --json` document (DESIGN §7, contract keys), in SI base units.
  * Unbounded band sides (a rail's resistance to ground has no maximum) are
  * written as `null`, since JSON has no infinity. Extra keys per target:
- * `phase`, `instrument`, `how`, `contributors`.
+ * `phase`, `instrument`, `how`, `contributors`, and `floor` where the
+ * quantity has a physical floor (the verdict guards only the band's open side).
  */
 export function targetsJson(set: TargetSet): unknown {
   return {
@@ -31,6 +32,7 @@ export function targetsJson(set: TargetSet): unknown {
       instrument: t.instrument,
       how: t.how,
       contributors: t.contributors.map((c) => ({ part: c.part, share: c.share })),
+      ...(t.floor === undefined ? {} : { floor: t.floor }),
     })),
     warnings: set.warnings.map((w) => ({ stage: w.stage, message: w.message })),
   };

@@ -90,8 +90,10 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
       how: c.how,
       phase: c.phase,
       isLimit: c.phase === 'unpowered' || c.phase === 'first-power',
+      ...(c.floor === undefined ? {} : { floor: c.floor }),
       upstream,
       ...(stage?.input ? { input: `${stage.input.stage}.${stage.input.output}` } : {}),
+      ...(c.captureFigure ? { captureFigure: c.captureFigure } : {}),
     };
     if (c.phase === 'unpowered') {
       const band = { min: plan.railShortMin, max: Infinity };

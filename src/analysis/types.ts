@@ -1,3 +1,4 @@
+import type { CheckSpec } from '../circuit/types.js';
 import type { Phase } from '../plan/types.js';
 import type { Unit } from '../units/unit.js';
 
@@ -41,10 +42,17 @@ export interface Target {
    * `computeTargets`; optional only so hand-built targets elsewhere need not name it.
    */
   readonly isLimit?: boolean;
+  /**
+   * The quantity's physical floor (0 for a dead band, a THD, an idle current):
+   * where the band reaches down to it, the verdict guards only the open side.
+   */
+  readonly floor?: number;
   /** Stage ids upstream of this check's stage, nearest first (empty for rails and chain heads). */
   readonly upstream?: readonly string[];
   /** The upstream output this check's stage takes (`"osc.triangle"`), when it has an input. */
   readonly input?: string;
+  /** Which figure of a scope capture answers the check, as its stage kind declares (absent: none). */
+  readonly captureFigure?: CheckSpec['captureFigure'];
 }
 
 export interface DesignWarning {

@@ -128,7 +128,7 @@ export function evaluateAmplifier(shape: AmplifierShape, input: EvalInput<unknow
 export const amplifierChecks: readonly CheckSpec[] = [
   { key: 'gain', quantity: 'gain', unit: 'V/V', output: 'out', instrument: 'scope', how: 'two channels, input and output, at a frequency well below the bandwidth: output over input peak-to-peak, negative when the output is inverted' },
   { key: 'bw', quantity: '−3 dB bandwidth', unit: 'Hz', output: 'out', instrument: 'scope', how: 'small sine in, raise the generator frequency until the output falls to 0.707 of its low-frequency level; read the generator' },
-  { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the amplifier output with the chain signal applied, read peak-to-peak' },
+  { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the amplifier output with the chain signal applied, read peak-to-peak' },
 ];
 
 /** Fault hints both amplifier kinds share. */

@@ -1,6 +1,6 @@
 import { formatValue } from '../units/format.js';
 import { type CeParts, collectorImpedance, operatingPoint, response, responseInto, smallSignal, vceSat, withFault } from './common-emitter-model.js';
-import { filterHarmonics } from './harmonic-response.js';
+import { applyResponse, type Response } from './harmonic-response.js';
 import { dcLoad, railOf } from './rail-load.js';
 import { nested, ohmRange, onlyKeys, partAt, reader, textAt } from './stage-parse.js';
 import type { CheckSpec, Complex, EvalInput, EvalOutput, ImpedanceInput, PartFaults, PartValue, StageKind, StageWarning } from './types.js';
@@ -59,8 +59,29 @@ function evaluate(input: EvalInput<CommonEmitterSettings>): EvalOutput {
   const n = source.samples.length;
   const out = input.buffer ? input.buffer(0, n) : new Float64Array(n);
   const emitter = input.buffer ? input.buffer(1, n) : new Float64Array(n);
-  // The input is AC-coupled at the base: its DC level does not reach the stage (DC gains 0).
-  filterHarmonics(source.samples, source.frequency, [out, emitter], [0, 0], gainAt);
+  // The input is AC-coupled at the base: its DC level does not reach the stage (H(0) = 0).
+  const collector: Response = (fk, slot) => {
+    if (fk === 0) {
+      slot.re = 0;
+      slot.im = 0;
+      return;
+    }
+    gainAt(fk, g);
+    slot.re = g[0] as number;
+    slot.im = g[1] as number;
+  };
+  const emitterResponse: Response = (fk, slot) => {
+    if (fk === 0) {
+      slot.re = 0;
+      slot.im = 0;
+      return;
+    }
+    gainAt(fk, g);
+    slot.re = g[2] as number;
+    slot.im = g[3] as number;
+  };
+  applyResponse(source.samples, source.frequency, collector, out);
+  applyResponse(source.samples, source.frequency, emitterResponse, emitter);
   // Large signal: the collector cannot fall below the emitter plus Vce(sat), nor rise past the point where Ic reaches 0.
   const yAc = 1 / p.rc + loadAdmittance(input, f).re + s.go;
   const top = q.vc + q.ic / yAc;

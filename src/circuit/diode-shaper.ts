@@ -125,8 +125,8 @@ function warningsFor(net: ShaperNet, vin: Float64Array, out: Float64Array, peaks
 }
 
 const shaperChecks: readonly CheckSpec[] = [
-  { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the shaper output, 10× probe, read peak-to-peak' },
-  { key: 'out.thd', quantity: 'total harmonic distortion', unit: '1', output: 'out', instrument: 'scope', how: 'scope FFT (or save a capture and run analyze) at the shaper output, harmonics 2–50' },
+  { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the shaper output, 10× probe, read peak-to-peak' },
+  { key: 'out.thd', captureFigure: 'thd', quantity: 'total harmonic distortion', unit: '1', output: 'out', instrument: 'scope', how: 'scope FFT (or save a capture and run analyze) at the shaper output, harmonics 2–50', floor: 0 },
   { key: 'out.peak', quantity: 'positive peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the shaper output, read the maximum' },
 ];
 

@@ -22,7 +22,7 @@ function evaluate(input: EvalInput<DividerSettings>): EvalOutput {
 }
 
 const checks: readonly CheckSpec[] = [
-  { key: 'out.dc', quantity: 'DC level', unit: 'V', output: 'out', instrument: 'meter', how: 'DC voltmeter from the divider tap to ground (a 10 MΩ meter input loads dividers above about 100 kΩ)' },
+  { key: 'out.dc', captureFigure: 'mean', quantity: 'DC level', unit: 'V', output: 'out', instrument: 'meter', how: 'DC voltmeter from the divider tap to ground (a 10 MΩ meter input loads dividers above about 100 kΩ)' },
 ];
 
 export const dividerKind: StageKind<DividerSettings> = {

@@ -51,6 +51,24 @@ function unitFrom(r: StageReader): Unit {
   return unit;
 }
 
+/**
+ * A hand-written check is answered by a scope capture when its id ends the way
+ * the modelled kinds name the same figure (DESIGN §4: `.freq`, `.vpp`, `.duty`,
+ * `.thd`, `.dc`) and its unit fits; the plan author chose the id, so it says so.
+ */
+const captureFigures: Readonly<Record<string, { readonly figure: NonNullable<CheckSpec['captureFigure']>; readonly unit: Unit }>> = {
+  freq: { figure: 'frequency', unit: 'Hz' },
+  vpp: { figure: 'vpp', unit: 'V' },
+  duty: { figure: 'duty', unit: '1' },
+  thd: { figure: 'thd', unit: '1' },
+  dc: { figure: 'mean', unit: 'V' },
+};
+
+function captureFigureOf(c: ManualCheck): CheckSpec['captureFigure'] {
+  const entry = captureFigures[c.key.split('.').pop() ?? ''];
+  return entry && entry.unit === c.unit ? entry.figure : undefined;
+}
+
 const keyPattern = /^[A-Za-z][A-Za-z0-9_-]*(?:\.[A-Za-z0-9_-]+)*$/;
 
 function readCheck(r: StageReader, i: number, seen: Set<string>, parts: Record<string, PartValue>): ManualCheck {
@@ -127,7 +145,11 @@ export const manualKind: StageKind<ManualSettings> = {
     const checks = entries.map((e, i) => readCheck(e, i, seen, parts));
     return { parts, settings: { checks } };
   },
-  checks: (settings) => settings.checks.map((c) => ({ key: c.key, quantity: c.quantity, unit: c.unit, instrument: c.instrument, how: c.how })),
+  checks: (settings) =>
+    settings.checks.map((c) => {
+      const figure = captureFigureOf(c);
+      return { key: c.key, quantity: c.quantity, unit: c.unit, instrument: c.instrument, how: c.how, ...(figure ? { captureFigure: figure } : {}) };
+    }),
   evaluate,
   faultHints: {},
 };

@@ -101,8 +101,8 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
 
 function checks(settings: PushPullSettings): readonly CheckSpec[] {
   const list: CheckSpec[] = [
-    { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the output across the load, read peak-to-peak' },
-    { key: 'deadband', quantity: 'crossover dead band (total width)', unit: 'V', output: 'out', instrument: 'scope', how: 'scope in X-Y mode, input on X and output on Y: read the width of the flat step around zero' },
+    { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the output across the load, read peak-to-peak' },
+    { key: 'deadband', quantity: 'crossover dead band (total width)', unit: 'V', output: 'out', instrument: 'scope', how: 'scope in X-Y mode, input on X and output on Y: read the width of the flat step around zero', floor: 0 },
   ];
   if (settings.hasLoad) {
     list.push(

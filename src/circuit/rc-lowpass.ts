@@ -21,7 +21,7 @@ function evaluate(input: EvalInput<RcLowpassSettings>): EvalOutput {
 
 const checks: readonly CheckSpec[] = [
   { key: 'fc', quantity: '−3 dB corner frequency', unit: 'Hz', output: 'out', instrument: 'scope', how: 'small sine in, raise the generator frequency until the output is 0.707 of the input (45° behind); read the generator' },
-  { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the filter output with the chain signal applied, 10× probe (a 1× probe adds about 100 pF), read peak-to-peak' },
+  { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the filter output with the chain signal applied, 10× probe (a 1× probe adds about 100 pF), read peak-to-peak' },
 ];
 
 export const rcLowpassKind: StageKind<RcLowpassSettings> = {

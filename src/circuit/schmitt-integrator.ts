@@ -87,12 +87,12 @@ function evaluate(input: EvalInput<SchmittSettings>): EvalOutput {
 }
 
 const baseChecks: readonly CheckSpec[] = [
-  { key: 'freq', quantity: 'frequency', unit: 'Hz', output: 'square', instrument: 'counter', how: 'counter on the square test point, DC coupled; period mode below about 1 kHz' },
-  { key: 'square.vpp', quantity: 'square peak-to-peak', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, 10× probe, measure Vpp' },
+  { key: 'freq', captureFigure: 'frequency', quantity: 'frequency', unit: 'Hz', output: 'square', instrument: 'counter', how: 'counter on the square test point, DC coupled; period mode below about 1 kHz' },
+  { key: 'square.vpp', captureFigure: 'vpp', quantity: 'square peak-to-peak', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, 10× probe, measure Vpp' },
   { key: 'square.high', quantity: 'square high level', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, measure the top level' },
   { key: 'square.low', quantity: 'square low level', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, measure the base level' },
-  { key: 'duty', quantity: 'duty cycle (high time / period)', unit: '1', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, measure positive duty at the 50 % level' },
-  { key: 'triangle.vpp', quantity: 'triangle peak-to-peak', unit: 'V', output: 'triangle', instrument: 'scope', how: 'scope on the triangle test point, DC coupled, 10× probe, measure Vpp' },
+  { key: 'duty', captureFigure: 'duty', quantity: 'duty cycle (high time / period)', unit: '1', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, measure positive duty at the 50 % level' },
+  { key: 'triangle.vpp', captureFigure: 'vpp', quantity: 'triangle peak-to-peak', unit: 'V', output: 'triangle', instrument: 'scope', how: 'scope on the triangle test point, DC coupled, 10× probe, measure Vpp' },
 ];
 
 const potChecks: readonly CheckSpec[] = [

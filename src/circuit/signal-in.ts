@@ -34,11 +34,11 @@ function evaluate(input: EvalInput<SignalInSettings>): EvalOutput {
 
 function checks(settings: SignalInSettings): readonly CheckSpec[] {
   const list: CheckSpec[] = [
-    { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the input connector with the generator connected: generators that show amplitude into 50 Ω read double into a high-impedance input' },
-    { key: 'freq', quantity: 'frequency', unit: 'Hz', output: 'out', instrument: 'counter', how: 'counter or scope frequency readout at the input connector' },
+    { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the input connector with the generator connected: generators that show amplitude into 50 Ω read double into a high-impedance input' },
+    { key: 'freq', captureFigure: 'frequency', quantity: 'frequency', unit: 'Hz', output: 'out', instrument: 'counter', how: 'counter or scope frequency readout at the input connector' },
   ];
   if (settings.hasOffset) {
-    list.push({ key: 'out.dc', quantity: 'DC offset', unit: 'V', output: 'out', instrument: 'meter', how: 'DC voltmeter (or the scope mean) at the input connector' });
+    list.push({ key: 'out.dc', captureFigure: 'mean', quantity: 'DC offset', unit: 'V', output: 'out', instrument: 'meter', how: 'DC voltmeter (or the scope mean) at the input connector' });
   }
   return list;
 }

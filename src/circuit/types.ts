@@ -197,6 +197,12 @@ export interface CheckSpec {
    * in `targets`, marked so, never asked for on the bring-up screen. @default false
    */
   readonly isDesignFigure?: boolean;
+  /**
+   * The lowest value the quantity can physically take (0 for a dead band's
+   * width or a THD). When the band reaches down to it, the verdict guards only
+   * the band's open (upper) side: a reading at the floor passes.
+   */
+  readonly floor?: number;
 }
 
 /** A raw stage object from a plan, and where it sits, for error messages. */

@@ -7,7 +7,7 @@ import { capturedWindow } from '../ui/capture/view.js';
 import { type ExpectedShape, expectedShapes, shapeMismatch, summaryLines } from '../signal/summary.js';
 import { CaptureError } from '../signal/types.js';
 import { traceChart } from '../ui/charts/trace.js';
-import { parseValue } from '../units/parse.js';
+import { parseValue, quoteTyped } from '../units/parse.js';
 import { resolve } from 'node:path';
 
 const usage = 'probebook analyze CAPTURE [--json] [--expect sine|square|triangle] [--channel N|NAME] [--dt SECONDS] [--scale VOLTS] [--log DIR]';
@@ -16,7 +16,7 @@ function positive(value: string | boolean | undefined, name: string, unit: 's' |
   if (value === undefined) return undefined;
   const parsed = typeof value === 'string' ? parseValue(value, { expected: unit, allowTolerance: false }) : undefined;
   if (!parsed?.ok || !(parsed.value > 0) || !Number.isFinite(parsed.value)) {
-    throw new UsageError(`--${name} takes a positive ${unit === 's' ? 'time' : 'voltage'}, e.g. ${example}; got ${JSON.stringify(value)}`);
+    throw new UsageError(`--${name} takes a positive ${unit === 's' ? 'time' : 'voltage'}, e.g. ${example}; got ${typeof value === 'string' ? quoteTyped(value) : String(value)}`);
   }
   return parsed.value;
 }
@@ -27,6 +27,8 @@ export const analyzeCommand: Command = async (argv, io) => {
     options: { json: 'boolean', expect: 'string', channel: 'string', dt: 'string', scale: 'string', log: 'string', help: 'boolean' },
     positionals: [0, 1],
     usage,
+    // A negative number here is a value (refused below as not positive, with the reason), not a flag.
+    negativeNumbers: ['dt', 'scale'],
   });
   if (options.help) {
     io.stdout(
@@ -50,7 +52,7 @@ export const analyzeCommand: Command = async (argv, io) => {
   if (file === undefined) throw new UsageError(`missing argument; usage: ${usage}`);
   const expect = options.expect;
   if (expect !== undefined && !expectedShapes.includes(expect as ExpectedShape)) {
-    throw new UsageError(`--expect takes ${expectedShapes.join(', ')}; got ${JSON.stringify(expect)}`);
+    throw new UsageError(`--expect takes ${expectedShapes.join(', ')}; got ${typeof expect === 'string' ? quoteTyped(expect) : String(expect)}`);
   }
   const dt = positive(options.dt, 'dt', 's', '1us');
   const scale = positive(options.scale, 'scale', 'V', '10');

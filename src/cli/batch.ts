@@ -83,7 +83,7 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
       shown = done;
       io.stderr(`reading board files for the index: ${done} of ${total}\n`);
     }
-  });
+  }, { verify: true });
   checkFilterAgainstIndex(index, filter, log.dir);
   let said = -1;
   const bands = planBandSource(log, cache, (hash, done, total) => {
@@ -100,10 +100,12 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
 /** The readable table: weakest check first. */
 function batchTable(f: BatchFigures, filter: BatchFilter): string {
   const lines: string[] = [];
-  lines.push(`batch · ${describeFilter(filter)} · ${f.boards} board${f.boards === 1 ? '' : 's'}${f.incomplete ? ` (${f.incomplete} not through every check)` : ''}`);
+  const leftOut = f.problems.filter((p) => p.serial !== undefined).length;
+  lines.push(`batch · ${describeFilter(filter)} · ${f.boards} board${f.boards === 1 ? '' : 's'}${f.incomplete ? ` (${f.incomplete} not through every check)` : ''}${leftOut ? ` · ${leftOut} left out (damaged board file${leftOut === 1 ? '' : 's'}, see the warnings)` : ''}`);
   lines.push(`first-pass yield ${formatPercent(f.firstPassYield)} (${f.firstPassBoards}/${f.boards}) · final yield ${formatPercent(f.finalYield)} (${f.finalPassBoards}/${f.boards})`);
   if (f.checks.length === 0) {
     lines.push('no readings match; widen the filter or record some readings first');
+    for (const p of f.problems) lines.push(`warning: ${p.message}`);
     return `${lines.join('\n')}\n`;
   }
   lines.push('');

@@ -7,6 +7,7 @@ import { boardHashes, historyCounts, timelineOf } from '../review/history.js';
 import type { TargetsCache } from '../log/targets-cache.js';
 import { planBandSource } from '../ui/batch/plan-bands.js';
 import { formatValue } from '../units/format.js';
+import { flatten } from '../units/text.js';
 import { parseArgs } from './args.js';
 import type { Command, CommandIo } from './command.js';
 import { UsageError } from './errors.js';
@@ -87,7 +88,8 @@ export function historyText(board: BoardFile, bands: ReadonlyMap<string, Snapsho
   rows.sort((a, b) => Date.parse(a.at) - Date.parse(b.at) || a.order - b.order);
   for (const row of rows) lines.push(`${localTime(row.at)}  ${row.text}`);
   if (rows.length === 0) lines.push('no runs or readings yet');
-  return `${lines.join('\n')}\n`;
+  // Names and notes come from the log as typed (older logs kept them raw): one line each, no control characters.
+  return `${lines.map(flatten).join('\n')}\n`;
 }
 
 /** `history --json` (DESIGN §7 contract keys, plus `captures`). */

@@ -1,6 +1,7 @@
 import type { Command, CommandIo } from './command.js';
 import { UsageError } from './errors.js';
 import { PlanError } from '../plan/errors.js';
+import { terminalSafe } from '../units/text.js';
 import { LogMissingError } from '../log/errors.js';
 import { InstrumentsFileError } from '../bench/errors.js';
 import { LogLocationError } from '../log/location.js';
@@ -47,6 +48,12 @@ export const commands: Readonly<Record<string, () => Promise<Command>>> = {
   log: async () => (await import('./log-copy.js')).logCommand,
 };
 
+/** An error as one line of at most 400 characters (a message may quote a whole bad value). */
+function oneLineMessage(message: string): string {
+  const line = message.split('\n')[0] ?? '';
+  return line.length > 400 ? `${line.slice(0, 400)}…` : line;
+}
+
 /** Run probebook with `argv` (without node and script); returns the exit status. */
 export async function main(argv: readonly string[], io: CommandIo): Promise<number> {
   try {
@@ -65,14 +72,16 @@ export async function main(argv: readonly string[], io: CommandIo): Promise<numb
     }
     const load = commands[first];
     if (!load) throw new UsageError(`unknown command ${JSON.stringify(first)}; try probebook --help`);
-    return await (await load())(rest, io);
+    // Nothing a log or a plan holds may drive the terminal: control characters leave as visible escapes.
+    const safeIo: CommandIo = { ...io, stdout: (text) => io.stdout(terminalSafe(text)), stderr: (text) => io.stderr(terminalSafe(text)) };
+    return await (await load())(rest, safeIo);
   } catch (error) {
     if (error instanceof UsageError || error instanceof PlanError || error instanceof InstrumentsFileError || error instanceof LogLocationError || error instanceof LogMissingError) {
-      io.stderr(`probebook: ${error.message}\n`);
+      io.stderr(`probebook: ${terminalSafe(oneLineMessage(error.message))}\n`);
       return 2;
     }
     const message = error instanceof Error ? error.message : String(error);
-    io.stderr(`probebook: ${message.split('\n')[0]}\n`);
+    io.stderr(`probebook: ${terminalSafe(oneLineMessage(message))}\n`);
     if (io.env.PROBEBOOK_DEBUG) io.stderr(`${error instanceof Error ? error.stack : ''}\n`);
     return 1;
   }

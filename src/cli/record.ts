@@ -11,13 +11,14 @@ import type { Plan } from '../plan/types.js';
 import type { Unit } from '../units/unit.js';
 import { formatValue } from '../units/format.js';
 import { parseValue } from '../units/parse.js';
+import { maxOperatorLength, oneLine } from '../units/text.js';
 import { parseArgs } from './args.js';
 import type { Command } from './command.js';
 import { UsageError } from './errors.js';
 import { resolveLogDir } from './log-dir.js';
 import { cacheHelp, targetsCacheFor } from './targets-cache.js';
 
-const usage = 'probebook record --plan PLAN --board SERIAL --check ID (--value TEXT | --from INSTRUMENT [--instruments FILE]) [--operator NAME] [--json] [--log DIR] [--cache DIR]';
+const usage = 'probebook record --plan PLAN --board SERIAL --check ID (--value TEXT | --from INSTRUMENT [--instruments FILE]) [--operator NAME] [--decimal-comma] [--json] [--log DIR] [--cache DIR]';
 
 /** The reading as `record --json` and `history --json` print it (DESIGN §7); ±∞ (an open circuit) as null. */
 export function readingJson(r: Reading) {
@@ -27,9 +28,20 @@ export function readingJson(r: Reading) {
   };
 }
 
-/** `--operator`, else `$PROBEBOOK_OPERATOR`, else `$USER`, else "unknown". */
+/**
+ * `--operator`, else `$PROBEBOOK_OPERATOR`, else `$USER`, else "unknown", as one
+ * clean line (control characters and line breaks never reach the log: they
+ * would colour a terminal or forge history lines), at most 64 characters.
+ */
 export function operatorOf(flag: string | boolean | undefined, env: NodeJS.ProcessEnv): string {
-  for (const v of [flag, env.PROBEBOOK_OPERATOR, env.USER]) if (typeof v === 'string' && v.trim() !== '') return v.trim();
+  const sources: [string | boolean | undefined, string][] = [[flag, '--operator'], [env.PROBEBOOK_OPERATOR, 'PROBEBOOK_OPERATOR'], [env.USER, 'USER']];
+  for (const [v, from] of sources) {
+    if (typeof v !== 'string') continue;
+    const name = oneLine(v);
+    if (name === '') continue;
+    if (name.length > maxOperatorLength) throw new UsageError(`${from}: an operator name is at most ${maxOperatorLength} characters (got ${name.length}); nothing was saved`);
+    return name;
+  }
   return 'unknown';
 }
 
@@ -56,10 +68,21 @@ export function closeMatches(typed: string, ids: readonly string[]): string[] {
 
 const openWords = /^(ol|o\.l\.|open|inf|infinity|∞)$/i;
 
+/**
+ * Whether the bench writes decimal commas (`"1,500"` is 1.5): `--decimal-comma`,
+ * `PROBEBOOK_DECIMAL_COMMA=1`, or the plan's `"decimalComma": true`. Without
+ * it a comma before exactly three digits is refused as ambiguous.
+ */
+export function decimalCommaOf(flag: string | boolean | undefined, env: NodeJS.ProcessEnv, plan?: Pick<Plan, 'decimalComma'>): boolean {
+  if (flag === true || plan?.decimalComma === true) return true;
+  const setting = env.PROBEBOOK_DECIMAL_COMMA?.trim().toLowerCase();
+  return setting === '1' || setting === 'true' || setting === 'yes';
+}
+
 /** The reading typed for a check, in SI base units, or a UsageError saying what to type. */
-export function readValue(text: string, target: Target): number {
+export function readValue(text: string, target: Target, options: { readonly decimalComma?: boolean } = {}): number {
   if (target.unit === 'Ω' && openWords.test(text.trim())) return Infinity;
-  const parsed = parseValue(text, { expected: target.unit, allowTolerance: false });
+  const parsed = parseValue(text, { expected: target.unit, allowTolerance: false, decimalComma: options.decimalComma ?? false });
   if (!parsed.ok) throw new UsageError(`check ${target.check}: ${parsed.message}${target.unit === 'Ω' ? ' (an open circuit may be typed OL)' : ''}; nothing was saved`);
   return parsed.value;
 }
@@ -157,11 +180,12 @@ function findTarget(set: TargetSet, plan: Plan, check: string): Target {
  */
 export const recordCommand: Command = async (argv, io) => {
   const args = parseArgs(argv, {
-    options: { plan: 'string', board: 'string', check: 'string', value: 'string', from: 'string', instruments: 'string', operator: 'string', json: 'boolean', log: 'string', cache: 'string', help: 'boolean' },
+    options: { plan: 'string', board: 'string', check: 'string', value: 'string', from: 'string', instruments: 'string', operator: 'string', json: 'boolean', log: 'string', cache: 'string', help: 'boolean', 'decimal-comma': 'boolean' },
     usage,
+    negativeNumbers: ['value'],
   });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL\n  --from NAME    take the reading from that bench instrument (SCPI; see probebook instruments --help);\n                 its query by check id, else by unit; an overload (9.9E37) is recorded as OL;\n                 no answer within its timeout, or no number, records nothing (exit 1)\n  --instruments FILE  the instruments file (else $PROBEBOOK_INSTRUMENTS, else $XDG_CONFIG_HOME/probebook/instruments.json)\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\n  --log DIR      the log to write (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook)\n${cacheHelp}Caution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`);
+    io.stdout(`usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL;\n                 no spaces inside the number; "1,500" is refused as ambiguous (write 1.5 or 1500)\n  --decimal-comma  the bench writes decimal commas ("1,500" is 1.5); also PROBEBOOK_DECIMAL_COMMA=1 or the plan's "decimalComma": true\n  --from NAME    take the reading from that bench instrument (SCPI; see probebook instruments --help);\n                 its query by check id, else by unit; an overload (9.9E37) is recorded as OL;\n                 no answer within its timeout, or no number, records nothing (exit 1)\n  --instruments FILE  the instruments file (else $PROBEBOOK_INSTRUMENTS, else $XDG_CONFIG_HOME/probebook/instruments.json)\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\n  --log DIR      the log to write (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook)\n${cacheHelp}verdict: guarded acceptance with the guard band w = U (ILAC-G8:09/2019 terms), U the plan's instrument uncertainty for the reading:\n  pass when reading ± U lies inside the worst-case band, fail when wholly outside, marginal otherwise;\n  a band that stops at a physical floor (a dead band of 0 V, a THD, an idle current) is guarded on its open side only: a reading at the floor passes\nCaution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`);
     return 0;
   }
   const need = (name: string): string => {
@@ -193,13 +217,14 @@ export const recordCommand: Command = async (argv, io) => {
     instrument = taken.instrument;
   } else {
     text = need('value');
-    value = readValue(text, target);
+    value = readValue(text, target, { decimalComma: decimalCommaOf(args.options['decimal-comma'], io.env, plan) });
   }
   // An open circuit (OL) is beyond the meter's range, not a figure with a relative error: no guard band.
   const result = verdictFor(target, value, Number.isFinite(value) ? uncertaintyFor(plan, check, target.unit) : undefined);
   const operator = operatorOf(args.options.operator, io.env);
 
-  const log = await openStore(dir);
+  // A busy board (another bench writing it) is said at once, not after a silent wait.
+  const log = await openStore(dir, { onLockWait: (message) => io.stderr(`probebook: ${message}\n`) });
   // The skipped-safety warnings are judged under the board's lock, from the run's readings as saved.
   const saved = await log.appendToOpenRun(
     serial,

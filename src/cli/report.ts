@@ -4,6 +4,7 @@ import type { CheckBand, SnapshotBands } from '../review/bands.js';
 import { historyCounts } from '../review/history.js';
 import { formatValue } from '../units/format.js';
 import { uncertaintyKey } from '../units/unit.js';
+import { markdownCode, markdownText } from '../units/text.js';
 import { parseArgs } from './args.js';
 import type { Command } from './command.js';
 import { UsageError } from './errors.js';
@@ -75,7 +76,7 @@ export function boardCsv(board: BoardFile, bands: ReadonlyMap<string, SnapshotBa
 
 /** Text safe inside a Markdown table cell. */
 export function mdCell(text: string): string {
-  return text.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/[\r\n]+/g, ' ');
+  return markdownText(text);
 }
 
 function planTitle(text: string | null): string | null {
@@ -127,7 +128,7 @@ export function boardMarkdown(board: BoardFile, bands: ReadonlyMap<string, Snaps
       const nominal = band && !band.isLimit ? formatValue(band.nominal, band.unit) : '—';
       const verdict = r.verdict === 'pass' ? 'pass' : `**${r.verdict}**`;
       out.push(
-        `| ${i + 1} | ${localTime(r.at)} | ${runNumber.get(r.run) ?? '?'} | ${mdCell(r.check)} | ${mdCell(band?.testPoint ?? '—')} | ${formatValue(r.value, r.unit)} | \`${mdCell(r.raw)}\` | ${band ? bandWords(band.worst, band.unit) : 'unknown'} | ${nominal} | ${deviationWords(r.value, deviation) ?? '—'} | ${verdict}${mark} | ${mdCell(r.operator)} |`,
+        `| ${i + 1} | ${localTime(r.at)} | ${runNumber.get(r.run) ?? '?'} | ${mdCell(r.check)} | ${mdCell(band?.testPoint ?? '—')} | ${formatValue(r.value, r.unit)} | \`${markdownCode(r.raw)}\` | ${band ? bandWords(band.worst, band.unit) : 'unknown'} | ${nominal} | ${deviationWords(r.value, deviation) ?? '—'} | ${verdict}${mark} | ${mdCell(r.operator)} |`,
       );
     });
     out.push('');

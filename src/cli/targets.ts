@@ -27,6 +27,8 @@ export const targetsCommand: Command = async (argv, io) => {
     options: { json: 'boolean', trials: 'string', seed: 'string', spread: 'string', log: 'string', cache: 'string', help: 'boolean' },
     positionals: [0, 1],
     usage,
+    // A negative count is a value, refused by its own range check with the reason.
+    negativeNumbers: ['trials', 'seed'],
   });
   if (args.options.help) {
     io.stdout(`usage: ${usage}\n  --trials N   Monte Carlo trials (default ${defaultTrials})\n  --seed S     seed of the generator (default ${defaultSeed}); the same seed gives the same bands\n  --spread     normal (default: tolerance = 3σ, truncated) or uniform\n  --json       machine-readable output in SI base units\n${cacheHelp}`);

@@ -7,6 +7,7 @@ import { App } from '../ui/app.js';
 import { PlanCatalog } from '../ui/bench/plan-catalog.js';
 import { UsageError } from './errors.js';
 import { cacheHelp, targetsCacheFor } from './targets-cache.js';
+import { maxOperatorLength, oneLine } from '../units/text.js';
 
 export const tuiUsage = 'probebook [--log DIR] [--plan FILE]... [--operator NAME] [--cache DIR]';
 
@@ -49,6 +50,9 @@ export function parseTuiArgs(argv: readonly string[]): TuiArgs {
       i++;
     }
     if (value === undefined || value.trim() === '') throw new UsageError(`--${name} needs a value; usage: ${tuiUsage}`);
+    // As the commands' parser: a flag is never taken as a value, and only --plan may repeat.
+    if (value.startsWith('-')) throw new UsageError(`--${name} needs a value, but ${JSON.stringify(value.slice(0, 40))} looks like an option; usage: ${tuiUsage}`);
+    if ((name === 'log' && log !== undefined) || (name === 'cache' && cache !== undefined) || (name === 'operator' && operator !== undefined)) throw new UsageError(`--${name} is given twice; give it once`);
     if (name === 'log') log = value;
     else if (name === 'cache') cache = value;
     else if (name === 'operator') operator = value.trim();
@@ -59,7 +63,12 @@ export function parseTuiArgs(argv: readonly string[]): TuiArgs {
 
 /** `--operator`, else `$PROBEBOOK_OPERATOR`, else `$USER`, else `unknown` (as `probebook record`). */
 export function operatorFrom(flag: string | undefined, env: NodeJS.ProcessEnv): string {
-  return flag || env.PROBEBOOK_OPERATOR || env.USER || 'unknown';
+  // One clean line of at most 64 characters: no escape sequence or line break reaches the log.
+  for (const v of [flag, env.PROBEBOOK_OPERATOR, env.USER]) {
+    const name = oneLine(v ?? '').slice(0, maxOperatorLength);
+    if (name !== '') return name;
+  }
+  return 'unknown';
 }
 
 export const notTerminalMessage =

@@ -1,5 +1,5 @@
 import { randomBytes } from 'node:crypto';
-import { linkSync, readFileSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
+import { closeSync, linkSync, openSync, readFileSync, renameSync, statSync, unlinkSync, writeSync } from 'node:fs';
 import { hostname } from 'node:os';
 import { errorCode, LogLockError } from './errors.js';
 
@@ -8,6 +8,12 @@ export interface LockOptions {
   readonly waitMs?: number;
   /** A lock older than this is stale even if its process seems alive (pid reused after a reboot, another host), ms. @default 120000 */
   readonly staleMs?: number;
+  /**
+   * Told once, as soon as the wait is worth a word: at once when the holder is
+   * on another host (its lock cannot be judged stale from here), else after 1 s.
+   * Gets the holder in words ("process 812 on bench-2 since 2026-…").
+   */
+  readonly onWait?: (holder: string) => void;
 }
 
 interface Holder {
@@ -82,6 +88,31 @@ function breakLock(path: string, staleText: string): void {
   unlinkSync(aside);
 }
 
+/**
+ * Create the lock file with O_EXCL and write the holder into it. If the write
+ * fails (a full disk), the empty file just made is removed again, so no 0-byte
+ * lock is left for the next writer to wait on.
+ */
+function createLock(path: string, text: string): void {
+  const fd = openSync(path, 'wx');
+  try {
+    writeSync(fd, text);
+  } catch (error) {
+    closeSync(fd);
+    try {
+      unlinkSync(path);
+    } catch {
+      // Already gone: the write's error is the one to report.
+    }
+    throw error;
+  }
+  closeSync(fd);
+}
+
+function holderWords(holder: Holder | null): string {
+  return holder ? `process ${holder.pid} on ${holder.host === hostname() ? 'this machine' : `host ${holder.host}`} since ${holder.at}` : 'another process';
+}
+
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
 // Callers in this process queue here per lock file, so they wait for each other
@@ -128,12 +159,14 @@ async function withLockFile<T>(path: string, target: string, fn: () => Promise<T
   const staleMs = options.staleMs ?? 120_000;
   const me: Holder = { pid: process.pid, host: hostname(), nonce: randomBytes(8).toString('hex'), at: new Date().toISOString() };
   const text = JSON.stringify(me);
-  const deadline = Date.now() + waitMs;
+  const started = Date.now();
+  const deadline = started + waitMs;
+  let hasSaid = false;
   let pause = 1;
   for (;;) {
     held.add(me.nonce);
     try {
-      writeFileSync(path, text, { flag: 'wx' });
+      createLock(path, text);
       break;
     } catch (error) {
       held.delete(me.nonce);
@@ -145,8 +178,12 @@ async function withLockFile<T>(path: string, target: string, fn: () => Promise<T
       breakLock(path, lock.text);
       continue;
     }
+    if (!hasSaid && options.onWait && (lock.holder !== null && lock.holder.host !== hostname() ? true : Date.now() - started > 1000)) {
+      hasSaid = true;
+      options.onWait(holderWords(lock.holder));
+    }
     if (Date.now() > deadline) {
-      const who = lock.holder ? `process ${lock.holder.pid} on ${lock.holder.host} since ${lock.holder.at}` : 'another process';
+      const who = holderWords(lock.holder);
       throw new LogLockError(target, `${target} is busy: its lock ${path} has been held by ${who}; if no probebook is running there, delete ${path} and try again`);
     }
     await sleep(pause + Math.random() * pause);

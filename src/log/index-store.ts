@@ -20,6 +20,15 @@ export const indexSchemaVersion = 4;
 /** Called while boards are read to rebuild the index: `done` of `total` board files. */
 export type IndexProgress = (done: number, total: number) => void;
 
+export interface IndexReadOptions {
+  /**
+   * Check every board file's stamp, never the quick path: a review that judges a
+   * batch must not count a board from its summary when its file changed by hand
+   * (one `stat` per board). @default false
+   */
+  readonly verify?: boolean;
+}
+
 /** Compact the journal into the snapshot once it grows past this many bytes. */
 export const journalLimitBytes = 1024 * 1024;
 
@@ -103,7 +112,7 @@ export class IndexStore {
    * writer left an intent open, and the machine has not rebooted since; then
    * only new, vanished, damaged and half-written boards are looked at.
    */
-  async read(onProgress?: IndexProgress): Promise<LogIndex> {
+  async read(onProgress?: IndexProgress, options: IndexReadOptions = {}): Promise<LogIndex> {
     const startDir = folderTime(this.boardsDir);
     const boot = bootId();
     const snapshot = this.#readSnapshot();
@@ -113,7 +122,7 @@ export class IndexStore {
     const facts = replayJournal(journalText, known);
     for (const s of snapshot?.suspects ?? []) facts.suspects.add(s);
     const lastDir = Math.max(snapshot?.dir ?? -1, facts.dir ?? -1);
-    const isQuick = snapshot !== null && snapshot.boot === boot && [...facts.boots].every((b) => b === boot) && startDir !== null && lastDir === startDir;
+    const isQuick = options.verify !== true && snapshot !== null && snapshot.boot === boot && [...facts.boots].every((b) => b === boot) && startDir !== null && lastDir === startDir;
 
     const serials = boardSerials(this.boardsDir);
     const present = new Set(serials);

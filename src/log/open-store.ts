@@ -8,6 +8,8 @@ export interface OpenOptions {
    * the schema's first use, which any command may make.
    */
   readonly mustExist?: boolean;
+  /** Told at once when a board's lock (in a folder log) holds a write up (see `LogOptions`). */
+  readonly onLockWait?: (message: string) => void;
 }
 
 /** Open the log a location names (a folder or a PostgreSQL URL, DESIGN §6), chosen once here. */
@@ -18,5 +20,5 @@ export async function openStore(location: string, options: OpenOptions = {}): Pr
     return openPgLog(where.url, where.shown);
   }
   // Read-only: the folder must already be a log, and opening it creates nothing (a mistyped --log leaves no trace).
-  return openLog(where.path, options.mustExist ? { isReadOnly: true } : {});
+  return openLog(where.path, { ...(options.mustExist ? { isReadOnly: true } : {}), ...(options.onLockWait ? { onLockWait: options.onLockWait } : {}) });
 }

@@ -1,23 +1,30 @@
-import { mkdirSync, statSync } from 'node:fs';
+import { statSync } from 'node:fs';
 import { readdir, readFile } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { Low } from 'lowdb';
 import { BoardFileAdapter } from './board-file-adapter.js';
 import { captureExtension, ContentStore, sha256Hex } from './content-store.js';
-import { errorCode, LogInputError, LogMissingError } from './errors.js';
+import { errorCode, ioFailure, LogInputError, LogMissingError } from './errors.js';
+import { ensureFolder } from './folder.js';
 import { withFileLock } from './file-lock.js';
 import { addReworkChange, appendReadingChange, appendToOpenRunChange, type AppendResult, type BoardChange, checkRework, emptyBoard as emptyBoardOf, endRunChange, linkCaptureChange, type MergeCounts, mergeBoardChange, startRunChange } from './board-changes.js';
-import { fileStamp, IndexStore, type IndexProgress, journalLimitBytes } from './index-store.js';
+import { fileStamp, IndexStore, type IndexProgress, type IndexReadOptions, journalLimitBytes } from './index-store.js';
 import { validateSerial } from './serial.js';
 import { type BenchLog, type BoardFile, boardSchemaVersion, type CaptureRef, type LogIndex, type Reading, type ReadingInput, type Rework, type Run, type RunOutcome } from './types.js';
 import { checkReadingInput, checkRunStart, type RunStart } from './validate-input.js';
 
 export type { AppendResult } from './board-changes.js';
 
+/** How a log talks back while it works. */
+export interface LogOptions {
+  /** Told at once (one line) when a board's lock is held by another process and the write waits for it. */
+  readonly onLockWait?: (message: string) => void;
+}
+
 /** The bench log with the extras the commands use on top of the shared interface. */
 export interface LogStore extends BenchLog {
-  /** The index; `onProgress` hears about boards read again while it is rebuilt. */
-  readIndex(onProgress?: IndexProgress): Promise<LogIndex>;
+  /** The index; `onProgress` hears about boards read again while it is rebuilt; `verify` checks every board file. */
+  readIndex(onProgress?: IndexProgress, options?: IndexReadOptions): Promise<LogIndex>;
   /**
    * Save a reading into the board's open run, starting one first when none is
    * open, in one locked step (two terminals cannot both start a run).
@@ -47,24 +54,16 @@ function checkSerial(serial: string): void {
   if (problem) throw new LogInputError(problem);
 }
 
-function ensureFolder(path: string): void {
-  try {
-    mkdirSync(path, { recursive: true });
-  } catch (error) {
-    const code = errorCode(error);
-    if (code === 'EEXIST' || code === 'ENOTDIR') throw new Error(`log folder ${path} cannot be made: a file of that name is in the way; pass another --log DIR`);
-    throw error;
-  }
-  if (!statSync(path).isDirectory()) throw new Error(`log folder ${path} is a file, not a folder; pass another --log DIR`);
-}
-
 class Store implements LogStore {
   readonly #boards: string;
   readonly #plans: ContentStore;
   readonly #captures: ContentStore;
   readonly #index: IndexStore;
 
-  constructor(readonly dir: string) {
+  constructor(
+    readonly dir: string,
+    readonly options: LogOptions = {},
+  ) {
     this.#boards = join(dir, 'boards');
     this.#plans = new ContentStore(join(dir, 'plans'));
     this.#captures = new ContentStore(join(dir, 'captures'));
@@ -75,13 +74,19 @@ class Store implements LogStore {
     return join(this.#boards, `${serial}.json`);
   }
 
-  readIndex(onProgress?: IndexProgress): Promise<LogIndex> {
-    return this.#index.read(onProgress);
+  readIndex(onProgress?: IndexProgress, options?: IndexReadOptions): Promise<LogIndex> {
+    return this.#index.read(onProgress, options).catch((error: unknown) => {
+      throw ioFailure(error, `cannot read the index of the log ${this.dir}`);
+    });
   }
 
   async readBoard(serial: string): Promise<BoardFile | null> {
     checkSerial(serial);
-    return new BoardFileAdapter(this.boardPath(serial), serial).read();
+    try {
+      return await new BoardFileAdapter(this.boardPath(serial), serial).read();
+    } catch (error) {
+      throw ioFailure(error, `cannot read board ${serial}`, this.boardPath(serial));
+    }
   }
 
   /** Read, change and durably write one board under its lock; then note it in the index journal. */
@@ -89,6 +94,9 @@ class Store implements LogStore {
     checkSerial(serial);
     const path = this.boardPath(serial);
     // Locks live apart from the boards so that taking one leaves the boards folder's time alone (the index's quick path).
+    // A file-system failure anywhere in the step is one line with the remedy (no raw `EPERM … .tmp` path).
+    const saving = `cannot save board ${serial} in the log ${this.dir}`;
+    const lockOptions = this.options.onLockWait ? { onWait: (who: string) => this.options.onLockWait?.(`board ${serial} is busy: waiting for ${who} (up to 30 s)`) } : {};
     const { result, journalBytes } = await withFileLock(join(this.dir, 'locks', `${serial}.json`), async () => {
       const db = new Low<BoardFile>(new BoardFileAdapter(path, serial), emptyBoard(serial));
       await db.read();
@@ -100,15 +108,23 @@ class Store implements LogStore {
       const stamp = fileStamp(path);
       if (stamp === null) throw new Error(`board file ${path} vanished right after it was written`);
       return { result: next.result, journalBytes: this.#index.noteBoard(next.board, stamp, prev, next.touched ?? [], nonce).journalBytes };
+    }, lockOptions).catch((error: unknown) => {
+      throw ioFailure(error, saving);
     });
-    if (journalBytes > journalLimitBytes) await this.#index.read();
+    if (journalBytes > journalLimitBytes) await this.#index.read().catch((error: unknown) => {
+      throw ioFailure(error, `board ${serial} is saved, but the index of ${this.dir} could not be updated`);
+    });
     return result;
   }
 
   #savePlan(start: RunStart): void {
     checkRunStart(start);
     if (sha256Hex(start.planText) !== start.planHash) throw new LogInputError(`plan ${start.plan}: planHash is not the sha256 of planText`);
-    this.#plans.put(start.planText, 'json', start.planHash);
+    try {
+      this.#plans.put(start.planText, 'json', start.planHash);
+    } catch (error) {
+      throw ioFailure(error, `cannot keep the plan snapshot in the log ${this.dir}`);
+    }
   }
 
   #checkPlanKept(hash: string): void {
@@ -181,7 +197,11 @@ class Store implements LogStore {
   }
 
   async saveCapture(bytes: Uint8Array, name: string): Promise<{ file: string }> {
-    return { file: this.#captures.put(bytes, captureExtension(name)) };
+    try {
+      return { file: this.#captures.put(bytes, captureExtension(name)) };
+    } catch (error) {
+      throw ioFailure(error, `cannot keep the capture ${name} in the log ${this.dir}`);
+    }
   }
 
   async linkCapture(serial: string, ref: CaptureRef): Promise<void> {
@@ -191,7 +211,7 @@ class Store implements LogStore {
   }
 }
 
-export interface OpenLogOptions {
+export interface OpenLogOptions extends LogOptions {
   /**
    * For commands that only read (history, report, batch): the log must exist
    * already, and opening it creates no folder or file, so a mistyped --log
@@ -238,9 +258,9 @@ export async function openLog(dir: string, options: OpenLogOptions = {}): Promis
   const root = resolve(dir);
   if (options.isReadOnly) {
     checkExistingLog(root);
-    return new Store(root);
+    return new Store(root, options);
   }
   ensureFolder(root);
   for (const sub of ['boards', 'plans', 'captures', 'locks']) ensureFolder(join(root, sub));
-  return new Store(root);
+  return new Store(root, options);
 }

@@ -50,7 +50,8 @@ export interface Chain {
   evaluate(x: Float64Array, out: Float64Array, stages?: number, reuse?: number): void;
   /** Position of a stage in chain order, −1 for none (rails). */
   stageIndex(id: string): number;
-  detail(x: Float64Array): ChainDetail;
+  /** `stages` as in `evaluate`: only the first so many stages (chain order). */
+  detail(x: Float64Array, stages?: number): ChainDetail;
 }
 
 const noValues: Record<string, number> = Object.freeze({}) as Record<string, number>;
@@ -121,11 +122,20 @@ export function buildChain(plan: Plan): Chain {
   const railDcOut = plan.rails.map((r) => checkIndex.get(`rails.${r.id}.dc`) ?? -1);
 
   const stageIds = plan.stages.map((s) => s.id);
+  // Lookups by name through maps: searching the lists per stage made building a chain quadratic in its length.
+  const stagePosition = new Map(stageIds.map((id, i) => [id, i] as const));
+  const variablePosition = new Map(variables.map((v, i) => [v.name, i] as const));
+  const checksByStage = new Map<string, (readonly [string, number])[]>();
+  checks.forEach((c, i) => {
+    const list = checksByStage.get(c.stage);
+    if (list) list.push([c.key, i]);
+    else checksByStage.set(c.stage, [[c.key, i]]);
+  });
   const stagePlans: StagePlan[] = plan.stages.map((stage) => {
     const roles = Object.keys(stage.parts);
-    const varIndex = Int32Array.from(roles, (role) => variables.findIndex((v) => v.name === `${stage.id}.${role}`));
-    const outIndex = checks.flatMap((c, i) => (c.stage === stage.id ? [[c.key, i] as const] : []));
-    return { stage, roles, varIndex, outIndex, inputStage: stage.input ? stageIds.indexOf(stage.input.stage) : -1 };
+    const varIndex = Int32Array.from(roles, (role) => variablePosition.get(`${stage.id}.${role}`) ?? -1);
+    const outIndex = checksByStage.get(stage.id) ?? [];
+    return { stage, roles, varIndex, outIndex, inputStage: stage.input ? (stagePosition.get(stage.input.stage) ?? -1) : -1 };
   });
 
   let nominalResults: (EvalOutput | undefined)[] | undefined;
@@ -218,10 +228,10 @@ export function buildChain(plan: Plan): Chain {
       run(x, out, false, upTo, from);
     },
     stageIndex(id) {
-      return stageIds.indexOf(id);
+      return stagePosition.get(id) ?? -1;
     },
-    detail(x) {
-      const d = run(x, undefined, true);
+    detail(x, stages) {
+      const d = run(x, undefined, true, stages === undefined ? stagePlans.length : Math.max(0, Math.min(stagePlans.length, stages)));
       const values: Record<string, number> = { ...d.values };
       railIds.forEach((id, i) => {
         values[`rails.${id}.dc`] = x[i] ?? Number.NaN;

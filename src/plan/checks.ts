@@ -18,6 +18,10 @@ export interface PlanCheck {
   readonly phase: Phase;
   /** The rail a rail check is about. */
   readonly rail?: string;
+  /** Which figure of a scope capture answers the check, as its stage kind declares (absent: none). */
+  readonly captureFigure?: CheckSpec['captureFigure'];
+  /** The quantity's physical floor (CheckSpec.floor), when it has one. */
+  readonly floor?: number;
 }
 
 /** The id of the idle-current check (DESIGN §4, contract). */
@@ -55,6 +59,8 @@ export function planChecks(plan: { readonly rails: readonly Rail[]; readonly sta
     how: 'bench supply with its current limit set just above the limit; read the supply current with no signal or load applied',
     testPoint: null,
     phase: 'first-power',
+    // A board cannot draw less than nothing from the supply.
+    floor: 0,
   });
   for (const rail of plan.rails) {
     out.push({
@@ -83,6 +89,8 @@ export function planChecks(plan: { readonly rails: readonly Rail[]; readonly sta
         how: spec.how,
         testPoint: tp ?? null,
         phase: 'stage',
+        ...(spec.captureFigure ? { captureFigure: spec.captureFigure } : {}),
+        ...(spec.floor === undefined ? {} : { floor: spec.floor }),
       });
     }
   }

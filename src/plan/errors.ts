@@ -9,6 +9,7 @@ export class PlanError extends Error {
     readonly path: string,
     readonly detail: string,
   ) {
-    super(`plan ${file}${path ? `, ${path}` : ''}: ${detail}`);
+    // A detail may quote a whole bad value (130 k spaces): keep the line readable.
+    super(`plan ${file}${path ? `, ${path}` : ''}: ${detail.length > 500 ? `${detail.slice(0, 500)}…` : detail}`);
   }
 }

@@ -1,9 +1,11 @@
 import { createHash } from 'node:crypto';
-import { readFile } from 'node:fs/promises';
+import { constants } from 'node:fs';
+import { type FileHandle, open } from 'node:fs/promises';
 import { resolve } from 'node:path';
 import { defaultOpamp } from '../circuit/opamp.js';
 import { stageKinds } from '../circuit/registry.js';
 import type { StageKind } from '../circuit/types.js';
+import { oneLine } from '../units/text.js';
 import type { UncertaintySpec } from '../units/uncertainty.js';
 import type { Unit } from '../units/unit.js';
 import { planChecks } from './checks.js';
@@ -21,6 +23,19 @@ import { readOpamp, readTolerance, readUncertainty, readValue } from './values.j
  */
 export const defaultRailShortMin = 100;
 
+/**
+ * Plan size limits: far above any real board (the demo plans have 5 stages and
+ * 4 branches), low enough that loading and `targets` stay fast. Every step of
+ * loading and chain building is linear in the stages; only the one-part-at-a-time
+ * worst-case search grows with stages × parts, which 200 stages keeps in seconds.
+ */
+export const maxPlanBytes = 1_000_000;
+export const maxStages = 200;
+/** The longest list inside a stage (a shaper's `branches`, a manual stage's `checks`). */
+export const maxStageList = 64;
+/** The deepest nesting of objects and lists in a plan file. */
+export const maxPlanDepth = 64;
+
 /** Units of the plan's `uncertainty` map by key. */
 const uncertaintyUnits: Readonly<Record<string, Unit>> = { V: 'V', A: 'A', Hz: 'Hz', ohm: 'Ω', s: 's', F: 'F', 'V/V': 'V/V', '1': '1' };
 
@@ -30,13 +45,24 @@ const uncertaintyUnits: Readonly<Record<string, Unit>> = { V: 'V', A: 'A', Hz: '
  */
 export async function loadPlanFile(file: string, options: { readonly cwd?: string } = {}): Promise<Plan> {
   let text: string;
+  let handle: FileHandle | undefined;
   try {
-    text = await readFile(options.cwd === undefined ? file : resolve(options.cwd, file), 'utf8');
+    // Opened without blocking: a FIFO or a device would otherwise hang the open (or the read) forever.
+    handle = await open(options.cwd === undefined ? file : resolve(options.cwd, file), constants.O_RDONLY | constants.O_NONBLOCK);
+    const info = await handle.stat();
+    if (info.isDirectory()) throw new PlanError(file, '', 'is a folder; give the path of a *.plan.json file');
+    if (!info.isFile()) throw new PlanError(file, '', 'is not a regular file (a pipe, a device or a socket); give the path of a *.plan.json file');
+    if (info.size > maxPlanBytes) throw new PlanError(file, '', `is ${(info.size / 1e6).toFixed(1)} MB; a plan is at most ${maxPlanBytes / 1e6} MB (${maxStages} stages), so this is not one`);
+    text = await handle.readFile('utf8');
   } catch (error) {
+    if (error instanceof PlanError) throw error;
     const code = (error as NodeJS.ErrnoException).code;
     if (code === 'ENOENT') throw new PlanError(file, '', 'no such file; give the path of a *.plan.json file');
     if (code === 'EISDIR') throw new PlanError(file, '', 'is a folder; give the path of a *.plan.json file');
+    if (code === 'EACCES' || code === 'EPERM') throw new PlanError(file, '', 'cannot be read: permission denied; check the file\'s permissions');
     throw new PlanError(file, '', `cannot be read (${code ?? (error as Error).message})`);
+  } finally {
+    await handle?.close();
   }
   return loadPlanText(text, file);
 }
@@ -46,7 +72,9 @@ export async function loadPlanFile(file: string, options: { readonly cwd?: strin
  * `hash` is the sha256 of the exact text, so a run can be tied to the plan it used.
  */
 export function loadPlanText(text: string, file: string, kinds: Readonly<Record<string, StageKind<unknown>>> = stageKinds): Plan {
+  if (text.length > maxPlanBytes) throw new PlanError(file, '', `is ${(text.length / 1e6).toFixed(1)} MB; a plan is at most ${maxPlanBytes / 1e6} MB`);
   const json = parseJson(text, file);
+  checkSize(json, file);
   const result = planSchema.safeParse(json);
   if (!result.success) {
     const issue = result.error.issues[0];
@@ -84,7 +112,8 @@ export function loadPlanText(text: string, file: string, kinds: Readonly<Record<
 
   const base = {
     plan: raw.plan,
-    title: raw.title,
+    // A title reaches every screen and report: one clean line.
+    title: oneLine(raw.title),
     file,
     hash: createHash('sha256').update(text, 'utf8').digest('hex'),
     text,
@@ -95,16 +124,55 @@ export function loadPlanText(text: string, file: string, kinds: Readonly<Record<
     checkUncertainty,
     stages,
   };
-  const withNote = raw.note === undefined ? base : { ...base, note: raw.note };
+  const withComma = raw.decimalComma === true ? { ...base, decimalComma: true } : base;
+  const withNote = raw.note === undefined ? withComma : { ...withComma, note: raw.note };
   if (raw.idleCurrent === undefined) return withNote;
   const idle = readValue(raw.idleCurrent.max, 'A', file, 'idleCurrent.max', { allowTolerance: false }).value;
   if (!(idle > 0)) throw new PlanError(file, 'idleCurrent.max', 'must be a current above zero, e.g. "45 mA"');
   return { ...withNote, idleCurrentMax: idle };
 }
 
+/** Refuse plans beyond the size limits before any stage is read, naming the place. */
+function checkSize(json: unknown, file: string): void {
+  if (json === null || typeof json !== 'object') return;
+  const stages = (json as { stages?: unknown }).stages;
+  if (!Array.isArray(stages)) return;
+  if (stages.length > maxStages) throw new PlanError(file, 'stages', `${stages.length} stages; a plan holds at most ${maxStages} (split the board into several plans)`);
+  stages.forEach((stage: unknown, i) => {
+    if (stage === null || typeof stage !== 'object') return;
+    for (const [key, value] of Object.entries(stage)) {
+      if (Array.isArray(value) && value.length > maxStageList) {
+        throw new PlanError(file, `stages[${i}].${key}`, `${value.length} entries; a stage holds at most ${maxStageList} (e.g. 64 branches per shaper)`);
+      }
+    }
+  });
+}
+
+/** The deepest nesting of `{`/`[` outside strings, in one pass, stopping once past `limit`. */
+export function nestingDepth(text: string, limit: number): number {
+  let depth = 0;
+  let deepest = 0;
+  let inString = false;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (inString) {
+      if (c === 0x5c) i++; // backslash: skip the escaped character
+      else if (c === 0x22) inString = false;
+    } else if (c === 0x22) inString = true;
+    else if (c === 0x7b || c === 0x5b) {
+      depth++;
+      if (depth > deepest) deepest = depth;
+      if (deepest > limit) return deepest;
+    } else if (c === 0x7d || c === 0x5d) depth--;
+  }
+  return deepest;
+}
+
 function parseJson(text: string, file: string): unknown {
   // Editors on some systems write a byte-order mark; it is not part of the JSON.
   const body = text.charCodeAt(0) === 0xfeff ? ` ${text.slice(1)}` : text;
+  // Checked before parsing: the fault finder below recurses once per level.
+  if (nestingDepth(body, maxPlanDepth) > maxPlanDepth) throw new PlanError(file, '', `is nested more than ${maxPlanDepth} levels deep; a plan is a few levels of objects and lists`);
   try {
     return JSON.parse(body);
   } catch {

@@ -10,13 +10,20 @@ import { z } from 'zod';
 /** A value as a plan writes it: text with a unit (`"4k7 1%"`), or a plain number for dimensionless ones. */
 const valueText = z.union([z.string(), z.number()], { error: 'expected a value such as "12 V" or "4k7 1%"' });
 const text = (what: string) => z.string({ error: `expected ${what}` });
+// Names that reach check ids, screens and reports: no control characters (an escape
+// sequence would drive the terminal, a newline forge a line), and short.
+const noControl = /^[^\u0000-\u001f\u007f-\u009f\u202a-\u202e\u2066-\u2069]*$/;
+const name = (what: string, max: number) =>
+  text(what)
+    .max(max, { error: `at most ${max} characters` })
+    .regex(noControl, { error: 'holds a control character (an escape sequence, a tab or a line break); type the name alone' });
 
 const railSchema = z.strictObject({
-  id: text('a rail name such as "+12V"').min(1, { error: 'a rail needs a name such as "+12V"' }),
+  id: name('a rail name such as "+12V"', 40).min(1, { error: 'a rail needs a name such as "+12V"' }),
   nominal: text('a rail voltage such as "12 V" or "-12 V"'),
   tol: z.optional(text('a tolerance such as "3%"')),
   /** Where the rail is probed, e.g. `"TP1"` (an addition to the contract keys). */
-  testPoint: z.optional(text('a test point name such as "TP1"')),
+  testPoint: z.optional(name('a test point name such as "TP1"', 40)),
 });
 
 const opampSchema = z.strictObject({
@@ -47,7 +54,7 @@ export const stageSchema = z.looseObject({
   id: stageId,
   kind: text('a stage kind such as "divider"'),
   input: z.optional(text('an upstream output such as "osc.triangle"')),
-  testPoints: z.optional(z.record(z.string(), text('a test point name such as "TP3"'), { error: 'expected test points by output, e.g. {"out": "TP4"}' })),
+  testPoints: z.optional(z.record(z.string(), name('a test point name such as "TP3"', 40), { error: 'expected test points by output, e.g. {"out": "TP4"}' })),
   opamp: z.optional(opampSchema),
 });
 
@@ -55,7 +62,8 @@ export const planSchema = z.strictObject({
   /** Allowed so editors can point at a schema file; ignored. */
   $schema: z.optional(z.string()),
   plan: text('a plan id such as "exciter-b"').regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, { error: 'a plan id holds letters, digits, ".", "-" and "_", e.g. "exciter-b"' }),
-  title: text('a title such as "Sensor exciter, rev B"'),
+  /** Control characters are taken out of it when loaded (see load.ts); at most 200 characters. */
+  title: text('a title such as "Sensor exciter, rev B"').max(200, { error: 'a title is at most 200 characters' }),
   note: z.optional(text('free text')),
   rails: z.array(railSchema, { error: 'expected a list of rails, e.g. [{"id": "+12V", "nominal": "12 V", "tol": "3%"}]' }),
   idleCurrent: z.optional(z.strictObject({ max: text('a current such as "45 mA"') })),
@@ -63,6 +71,8 @@ export const planSchema = z.strictObject({
   opamp: z.optional(opampSchema),
   uncertainty: z.optional(uncertaintySchema),
   checkUncertainty: z.optional(z.record(z.string(), text('an uncertainty such as "0.1%"'))),
+  /** The bench writes decimal commas: a reading typed as `"1,500"` against this plan is 1.5 (else refused as ambiguous). */
+  decimalComma: z.optional(z.boolean({ error: 'expected true or false' })),
   stages: z.array(stageSchema, { error: 'expected a list of stages' }).min(1, { error: 'a plan needs at least one stage' }),
 });
 

@@ -127,22 +127,27 @@ function chainOrder(stages: readonly PlanStage[], file: string): PlanStage[] {
   const byId = new Map(stages.map((s) => [s.id, s] as const));
   const state = new Map<string, 'visiting' | 'done'>();
   const out: PlanStage[] = [];
-  const visit = (s: PlanStage, trail: readonly string[]): void => {
-    const st = state.get(s.id);
-    if (st === 'done') return;
-    if (st === 'visiting') {
-      const loop = [...trail.slice(trail.indexOf(s.id)), s.id];
-      throw new PlanError(file, `${s.path}.input`, `the inputs form a loop (${loop.join(' → ')}); a signal chain must start at a stage without an input`);
+  // Walks each stage's inputs upstream without recursion (a long chain must not
+  // overflow the stack) and with one shared trail (copying it per step was quadratic).
+  for (const start of stages) {
+    const trail: PlanStage[] = [];
+    let s: PlanStage | undefined = start;
+    while (s && state.get(s.id) !== 'done') {
+      if (state.get(s.id) === 'visiting') {
+        const ids = trail.map((t) => t.id);
+        const loop = [...ids.slice(ids.indexOf(s.id)), s.id];
+        throw new PlanError(file, `${s.path}.input`, `the inputs form a loop (${loop.join(' → ')}); a signal chain must start at a stage without an input`);
+      }
+      state.set(s.id, 'visiting');
+      trail.push(s);
+      s = s.input ? byId.get(s.input.stage) : undefined;
     }
-    state.set(s.id, 'visiting');
-    if (s.input) {
-      const up = byId.get(s.input.stage);
-      if (up) visit(up, [...trail, s.id]);
+    for (let i = trail.length - 1; i >= 0; i--) {
+      const done = trail[i] as PlanStage;
+      state.set(done.id, 'done');
+      out.push(done);
     }
-    state.set(s.id, 'done');
-    out.push(s);
-  };
-  for (const s of stages) visit(s, []);
+  }
   return out;
 }
 

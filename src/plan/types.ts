@@ -65,4 +65,6 @@ export interface Plan {
   readonly checkUncertainty: Readonly<Record<string, UncertaintySpec>>;
   /** Stages in an order where every input comes before its user. */
   readonly stages: readonly PlanStage[];
+  /** The bench writes decimal commas: a typed `"1,500"` is 1.5 (else refused as ambiguous). @default false */
+  readonly decimalComma?: boolean;
 }

@@ -1,5 +1,5 @@
 import type { OpampModel } from '../circuit/types.js';
-import { parseValue } from '../units/parse.js';
+import { maxValueLength, parseValue } from '../units/parse.js';
 import { type UncertaintySpec, parseUncertainty } from '../units/uncertainty.js';
 import { type Unit, unitExample, unitNoun } from '../units/unit.js';
 import { PlanError } from './errors.js';
@@ -43,6 +43,8 @@ export function checkTolerance(tol: number, text: string, file: string, path: st
 
 /** A separate tolerance such as `"3%"`. */
 export function readTolerance(raw: string, file: string, path: string): number {
+  // Capped before the pattern runs: its two runs of optional spaces backtrack quadratically on long input.
+  if (raw.length > maxValueLength) throw new PlanError(file, path, `a tolerance of ${raw.length} characters; write a percentage, e.g. "3%"`);
   const m = /^\s*±?\s*(-?\d+(?:\.\d+)?)\s*%\s*$/.exec(raw);
   if (!m) throw new PlanError(file, path, `${JSON.stringify(raw)} is not a tolerance; write a percentage, e.g. "3%"`);
   const tol = Number(m[1]) / 100;

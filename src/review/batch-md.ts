@@ -1,3 +1,4 @@
+import { markdownText } from '../units/text.js';
 import type { BatchFigures } from './batch-types.js';
 import { weakestFirst } from './batch.js';
 import { cpkWord, formatFigure, formatIndex, formatPercent } from './format.js';
@@ -12,7 +13,7 @@ export interface MarkdownOptions {
 }
 
 function md(text: string): string {
-  return text.replace(/([|\\`*_])/g, '\\$1');
+  return markdownText(text);
 }
 
 /** The batch report a quality engineer can file, as Markdown; weakest check first. */

@@ -74,5 +74,13 @@ export interface BatchFigures {
   readonly incomplete: number;
   /** Checks in plan order. */
   readonly checks: readonly BatchCheck[];
-  readonly problems: readonly SnapshotProblem[];
+  /** Plan snapshots that would not load, and boards left out of the figures (a damaged file), each with why. */
+  readonly problems: readonly BatchProblem[];
+}
+
+/** Something the figures could not use: a plan snapshot (`hash`) or a whole board (`serial`), and why. */
+export interface BatchProblem {
+  readonly message: string;
+  readonly hash?: string;
+  readonly serial?: string;
 }

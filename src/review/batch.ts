@@ -1,7 +1,7 @@
 import type { Band } from '../analysis/types.js';
-import type { BoardSummary, LogIndex } from '../log/types.js';
+import type { BoardSummary, DamagedBoard, LogIndex } from '../log/types.js';
 import type { SnapshotBands, SnapshotProblem } from './bands.js';
-import type { BatchCheck, BatchFigures, BatchPoint, Outlier, OutlierReason } from './batch-types.js';
+import type { BatchCheck, BatchFigures, BatchPoint, BatchProblem, Outlier, OutlierReason } from './batch-types.js';
 import { capabilityOf } from './capability.js';
 import { boardMatches, checkMatches, type BatchFilter } from './filter.js';
 import { spreadOf } from './stats.js';
@@ -18,8 +18,14 @@ export interface BatchAccumulator {
   finish(problems?: readonly SnapshotProblem[]): BatchFigures;
 }
 
-/** Start a batch scan over index boards with the bands of their plan snapshots. */
-export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filter: BatchFilter = {}): BatchAccumulator {
+/**
+ * Start a batch scan over index boards with the bands of their plan snapshots.
+ * Boards whose file is damaged (`damaged`, from the index) are left out of every
+ * figure, never counted from an older summary, and named in `problems` with why.
+ */
+export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filter: BatchFilter = {}, damaged: readonly DamagedBoard[] = []): BatchAccumulator {
+  const leftOut = new Set(damaged.map((d) => d.serial));
+  const boardProblems: BatchProblem[] = damaged.map((d) => ({ serial: d.serial, message: `board ${d.serial} is left out of these figures: ${d.message}` }));
   const groups = new Map<string | null, Map<string, Group>>();
   let boards = 0;
   let firstPassBoards = 0;
@@ -27,7 +33,7 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
   let incomplete = 0;
   return {
     add(board) {
-      if (!boardMatches(board, filter)) return;
+      if (leftOut.has(board.serial) || !boardMatches(board, filter)) return;
       // Groups by plan, then by check id: the ids are the index's own keys, so no key strings are built per reading.
       let byCheck = groups.get(board.plan);
       if (!byCheck) groups.set(board.plan, (byCheck = new Map()));
@@ -71,7 +77,7 @@ export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filt
         finalYield: boards > 0 ? finalPassBoards / boards : null,
         incomplete,
         checks,
-        problems,
+        problems: [...boardProblems, ...problems],
       };
     },
   };
@@ -88,7 +94,7 @@ export function batchFigures(
   filter: BatchFilter = {},
   problems: readonly SnapshotProblem[] = [],
 ): BatchFigures {
-  const acc = batchAccumulator(bands, filter);
+  const acc = batchAccumulator(bands, filter, index.damaged);
   for (const serial in index.boards) {
     const board = index.boards[serial];
     if (board) acc.add(board);

@@ -27,13 +27,13 @@ const openCircuit = /^(ol|o\.l\.?|open|inf|∞)$/i;
  * `-11.9`, `12.1V`; `OL` on a resistance check) and judge it against the
  * check's worst-case band with the instrument's guard band.
  */
-export function assessReading(plan: Pick<Plan, 'uncertainty' | 'checkUncertainty'>, target: Target, text: string): Assessed | Rejected {
+export function assessReading(plan: Pick<Plan, 'uncertainty' | 'checkUncertainty' | 'decimalComma'>, target: Target, text: string): Assessed | Rejected {
   const raw = text.trim();
   if (target.unit === 'Ω' && openCircuit.test(raw)) {
     // An open circuit carries no uncertainty figure a meter spec could scale.
     return { ok: true, value: Number.POSITIVE_INFINITY, unit: 'Ω', raw, result: verdictFor(target, Number.POSITIVE_INFINITY, undefined) };
   }
-  const parsed = parseValue(raw, { expected: target.unit, allowTolerance: false });
+  const parsed = parseValue(raw, { expected: target.unit, allowTolerance: false, decimalComma: plan.decimalComma === true });
   if (!parsed.ok) return { ok: false, message: parsed.message };
   const spec = uncertaintyFor(plan, target.check, target.unit);
   return { ok: true, value: parsed.value, unit: parsed.unit, raw, result: verdictFor(target, parsed.value, spec) };

@@ -26,11 +26,11 @@ function pickChannel(capture: Capture, which: string | undefined): CaptureChanne
   }
   if (/^\d+$/.test(which)) {
     const c = channels[Number(which) - 1];
-    if (!c) throw new CaptureError(`channel ${which} does not exist; the capture has ${names}`);
+    if (!c) throw new CaptureError(`channel ${which} does not exist; the capture has ${names.length > 200 ? `${names.slice(0, 200)}…` : names}`);
     return c;
   }
   const c = channels.find((ch) => ch.name.toLowerCase() === which.toLowerCase());
-  if (!c) throw new CaptureError(`no channel named ${JSON.stringify(which)}; the capture has ${names}`);
+  if (!c) throw new CaptureError(`no channel named ${JSON.stringify(which.length > 40 ? `${which.slice(0, 40)}…` : which)}; the capture has ${names.length > 200 ? `${names.slice(0, 200)}…` : names}`);
   return c;
 }
 

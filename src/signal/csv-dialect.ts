@@ -46,6 +46,9 @@ function isNumericRow(line: string, delimiter: string, decimal: '.' | ','): numb
 export function detectDialect(text: string, complete: boolean, name: string): CsvDialect {
   const lines = text.split('\n').map((l) => l.replace(/\r$/, ''));
   if (!complete) lines.pop();
+  if (lines.length === 0) {
+    throw new CaptureError(`${name}: no line end in the first ${Math.round(text.length / 1024)} KB (one endless line); is this a capture exported as CSV?`);
+  }
   let best: { score: number; columns: number; start: number; c: (typeof candidates)[number] } | undefined;
   for (const c of candidates) {
     // The first row of numbers, then how many of the following rows agree with it.

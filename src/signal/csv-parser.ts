@@ -14,6 +14,13 @@ function isTimeColumn(name: string, unit: string): boolean {
   return unitScale(unit, 's') !== undefined || /^(time|t|sec|secs|second|seconds|x-axis|x)$/i.test(name.trim());
 }
 
+/** A copy with every CR turned into LF. */
+function crToLf(bytes: Uint8Array): Uint8Array {
+  const out = Uint8Array.from(bytes);
+  for (let i = out.indexOf(CR); i >= 0; i = out.indexOf(CR, i + 1)) out[i] = LF;
+  return out;
+}
+
 /**
  * A CSV capture read in chunks straight from bytes: `push` each chunk as it
  * arrives, then `end`. Only the numbers are kept (in Float64Arrays grown
@@ -39,6 +46,8 @@ export class CsvParser {
   private rows = 0;
   /** Whether column 1 was taken as time without a header saying so. */
   private guessedTime = false;
+  /** Lines end in a lone CR (classic Mac exports): every CR is read as a line end. */
+  private isCrOnly = false;
 
   constructor(
     private readonly options: ReadOptions,
@@ -53,7 +62,8 @@ export class CsvParser {
     return this.dialect !== undefined;
   }
 
-  push(chunk: Uint8Array): void {
+  push(input: Uint8Array): void {
+    const chunk = this.isCrOnly ? crToLf(input) : input;
     if (!this.dialect) {
       this.head.push(chunk);
       this.headLength += chunk.length;
@@ -74,9 +84,14 @@ export class CsvParser {
   }
 
   private start(complete: boolean): void {
-    const all = concat(this.head, this.headLength);
+    let all = concat(this.head, this.headLength);
     this.head = [];
     const name = this.options.name ?? 'capture';
+    // CR-only line ends: no LF in the head but CRs. Read each CR as a line end from here on.
+    if (all.indexOf(LF) < 0 && all.indexOf(CR) >= 0) {
+      this.isCrOnly = true;
+      all = crToLf(all);
+    }
     const text = new TextDecoder('utf-8').decode(all.subarray(0, Math.min(all.length, headBytes * 2)));
     if (text.includes('\u0000')) throw new CaptureError(`${name}: binary data, not CSV text (and not a WAV file)`);
     const dialect = detectDialect(text.replace(/^\uFEFF/, ''), complete && all.length <= headBytes * 2, name);

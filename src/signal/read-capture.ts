@@ -1,3 +1,4 @@
+import { constants } from 'node:fs';
 import { open } from 'node:fs/promises';
 import { basename } from 'node:path';
 import { CsvParser, concat } from './csv-parser.js';
@@ -43,13 +44,15 @@ export async function readCaptureFile(
   const name = options.name ?? basename(path);
   let handle;
   try {
-    handle = await open(path, 'r');
+    // Opened without blocking: a FIFO or a device would otherwise hang the open (or the reads) forever.
+    handle = await open(path, constants.O_RDONLY | constants.O_NONBLOCK);
   } catch (error) {
     throw new CaptureError(ioMessage(path, error));
   }
   try {
     const stat = await handle.stat();
     if (stat.isDirectory()) throw new CaptureError(`${path}: is a folder, not a capture file`);
+    if (!stat.isFile()) throw new CaptureError(`${path}: not a regular file (a pipe, a device or a socket); save the capture to a file first`);
     const size = stat.size;
     if (size === 0) throw new CaptureError(`${name}: the file is empty`);
     const kept: Uint8Array[] = [];

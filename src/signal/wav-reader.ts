@@ -27,7 +27,7 @@ export const wavReader: CaptureReader = {
     }
     const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
     let fmt: { tag: number; channels: number; rate: number; bits: number; align: number } | undefined;
-    let data: { at: number; length: number } | undefined;
+    let data: { at: number; length: number; claimed: number } | undefined;
     let at = 12;
     while (at + 8 <= bytes.length) {
       const id = ascii(bytes, at);
@@ -47,7 +47,7 @@ export const wavReader: CaptureReader = {
       } else if (id === 'data') {
         // A writer that never patched the size leaves 0 or 0xFFFFFFFF: take the rest of the file.
         const length = size === 0 || size === 0xffffffff || body + size > bytes.length ? bytes.length - body : size;
-        data = { at: body, length };
+        data = { at: body, length, claimed: size };
       }
       at = body + size + (size % 2);
       if (data && fmt) break;
@@ -87,7 +87,12 @@ export const wavReader: CaptureReader = {
       sampleRate: rate,
       dt: 1 / rate,
       source: `${name} (WAV, ${tag === FLOAT ? '32-bit float' : `${bits}-bit PCM`}, ${channels} channel${channels === 1 ? '' : 's'})`,
-      warnings: options.scale === undefined ? ['WAV full scale taken as 1 V; give --scale VOLTS for the probe and input range used'] : [],
+      warnings: [
+        ...(data.claimed !== 0 && data.claimed !== 0xffffffff && data.claimed > data.length
+          ? [`the header claims ${data.claimed} bytes of samples but the file holds ${data.length}: it is cut short; only the ${frames} whole frames there were read`]
+          : []),
+        ...(options.scale === undefined ? ['WAV full scale taken as 1 V; give --scale VOLTS for the probe and input range used'] : []),
+      ],
     };
     return capture;
   },

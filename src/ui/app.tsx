@@ -6,6 +6,7 @@ import { BenchScreen } from './bench/bench.js';
 import type { PlanCatalog } from './bench/plan-catalog.js';
 import { BringUpScreen } from './bring-up/bring-up.js';
 import { ConfirmQuit } from './components/confirm-quit.js';
+import { useLiveState } from './components/use-live-state.js';
 import { type Size, useTerminalSize } from './components/use-terminal-size.js';
 import { WithTargets } from './components/with-targets.js';
 import { HistoryScreen } from './history/history.js';
@@ -38,8 +39,10 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
   const { width, height } = useTerminalSize(size);
   const [stack, setStack] = useState<readonly Route[]>([initialRoute]);
   const [lastSerial, setLastSerial] = useState<string | undefined>(undefined);
-  const [isDirty, setDirty] = useState(false);
-  const [isTyping, setTyping] = useState(false);
+  // What the screen last said, read by the quit key at once: a screen tells the app in the same key
+  // event that opens an editor, before React renders, so a `q` right behind it is never taken for quit.
+  const [, setDirty, dirtyRef] = useLiveState(false);
+  const [, setTyping, typingRef] = useLiveState(false);
   const [isConfirming, setConfirming] = useState(false);
   const route = stack[stack.length - 1] ?? { screen: 'bench' };
 
@@ -48,20 +51,23 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
     setDirty(false);
     setTyping(false);
     setStack((s) => [...s, next]);
-  }, []);
+  }, [setDirty, setTyping]);
   const back = useCallback(() => {
     setDirty(false);
     setTyping(false);
     setStack((s) => (s.length > 1 ? s.slice(0, -1) : s));
-  }, []);
+  }, [setDirty, setTyping]);
 
+  // The only global key, off while an editor has the keyboard. That is asked per key, not through
+  // `isActive`: a listener is attached or dropped only after the next render, so a `q` right after
+  // an editor opens (or closes) would reach the wrong one.
   useInput(
     (input) => {
-      if (input !== 'q') return;
-      if (isDirty) setConfirming(true);
+      if (input !== 'q' || typingRef.current) return;
+      if (dirtyRef.current) setConfirming(true);
       else exit();
     },
-    { isActive: !isConfirming && !isTyping },
+    { isActive: !isConfirming },
   );
 
   const isActive = !isConfirming;

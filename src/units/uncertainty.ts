@@ -1,4 +1,4 @@
-import { parseValue } from './parse.js';
+import { maxValueLength, parseValue } from './parse.js';
 import type { Unit } from './unit.js';
 
 /** An instrument's uncertainty as `relative · |reading| + absolute` (the way meter specs read). */
@@ -21,6 +21,7 @@ export function uncertaintyOf(reading: number, spec: UncertaintySpec): number {
 export function parseUncertainty(text: string, unit: Unit): UncertaintySpec | string {
   let relative = 0;
   let absolute = 0;
+  if (text.length > maxValueLength) return `an uncertainty of ${text.length} characters is too long; write e.g. "0.5% + 2 mV"`;
   const terms = text.split('+').map((t) => t.trim()).filter((t) => t !== '');
   if (terms.length === 0) return `${JSON.stringify(text)} is empty; write e.g. "0.5% + 2 mV"`;
   for (const term of terms) {

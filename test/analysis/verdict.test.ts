@@ -66,3 +66,54 @@ describe('verdict with a guard band', () => {
     expect(verdictFor(band, Number.NaN, spec).verdict).toBe('fail');
   });
 });
+
+describe('a band that stops at a physical floor is guarded on its open side only (issue 11, item 6)', () => {
+  // Guarded acceptance with w = U (ILAC-G8:09/2019 terms, from memory): a reading passes when
+  // reading ± U lies inside the band. Below a physical floor nothing true can lie (a dead band
+  // is never narrower than 0 V, a THD never below 0), so at that edge the band needs no guard:
+  // common practice, no source. The meter below: 0.5 % + 2 mV.
+  const meter = { relative: 0.005, absolute: 0.002 };
+  const deadband = { nominal: 0, worst: { min: 0, max: 0.234 }, floor: 0 };
+
+  test('a perfect dead band of 0 V passes (it was marginal)', () => {
+    expect(verdictFor(deadband, 0, meter).verdict).toBe('pass');
+    expect(verdictFor(deadband, 0.001, meter).verdict).toBe('pass');
+  });
+
+  test('the open side keeps its guard band', () => {
+    // 0.231 + (0.005·0.231 + 0.002) = 0.2341 > 0.234: straddles the top edge.
+    expect(verdictFor(deadband, 0.231, meter).verdict).toBe('marginal');
+    expect(verdictFor(deadband, 0.228, meter).verdict).toBe('pass');
+    expect(verdictFor(deadband, 0.3, meter).verdict).toBe('fail');
+  });
+
+  test('a reading below the floor by more than its uncertainty is impossible: fail', () => {
+    expect(verdictFor(deadband, -0.0015, meter).verdict).toBe('pass'); // within U of the floor
+    expect(verdictFor(deadband, -0.05, meter).verdict).toBe('fail');
+  });
+
+  test('without a floor, the same band guards both edges (unchanged)', () => {
+    const twoSided = { nominal: 0, worst: { min: 0, max: 0.234 } };
+    expect(verdictFor(twoSided, 0, meter).verdict).toBe('marginal');
+  });
+
+  test('a band whose minimum lies above the floor is guarded on both sides', () => {
+    const thd = { nominal: 0.0075, worst: { min: 0.007, max: 0.039 }, floor: 0 };
+    expect(verdictFor(thd, 0.007, { relative: 0.01, absolute: 0.0005 }).verdict).toBe('marginal');
+  });
+});
+
+describe('kinds give the floor where physics gives one', () => {
+  test('the dead band, THD and the idle current carry floor 0; a voltage level does not', async () => {
+    const { loadPlanFile } = await import('../../src/plan/load.js');
+    const { computeTargets } = await import('../../src/analysis/targets.js');
+    const plan = await loadPlanFile('demo/exciter.plan.json');
+    const set = computeTargets(plan, { trials: 200, seed: 1 });
+    const floor = (id: string) => set.targets.find((t) => t.check === id)?.floor;
+    expect(floor('drive.deadband')).toBe(0);
+    expect(floor('shaper.out.thd')).toBe(0);
+    expect(floor('rails.idle-current')).toBe(0);
+    expect(floor('osc.freq')).toBeUndefined();
+    expect(floor('rails.+12V.dc')).toBeUndefined();
+  });
+});

@@ -21,6 +21,13 @@ describe('bench screen options', () => {
     expect(() => parseTuiArgs(['board.plan.json'])).toThrow(/unexpected argument "board.plan.json"/);
   });
 
+  test('a flag is never taken as a value, and only --plan repeats (issue 10, items 3 and 4)', () => {
+    expect(() => parseTuiArgs(['--operator', '--log', '/tmp/x'])).toThrow(/--operator needs a value, but "--log" looks like an option/);
+    expect(() => parseTuiArgs(['--log', '--plan', 'a.plan.json'])).toThrow(UsageError);
+    expect(() => parseTuiArgs(['--log', '/tmp/a', '--log=/tmp/b'])).toThrow(/--log is given twice/);
+    expect(() => parseTuiArgs(['--operator', 'kim', '--operator', 'lee'])).toThrow(/--operator is given twice/);
+  });
+
   test('operator: flag, then PROBEBOOK_OPERATOR, then USER, then unknown', () => {
     expect(operatorFrom('ann', { PROBEBOOK_OPERATOR: 'bo', USER: 'cy' })).toBe('ann');
     expect(operatorFrom(undefined, { PROBEBOOK_OPERATOR: 'bo', USER: 'cy' })).toBe('bo');

@@ -36,7 +36,7 @@ describe('bad files get a clear message, never a crash (property)', () => {
 
   test('text made of numbers, words, NaN, mixed separators and blank lines', () => {
     fc.assert(
-      fc.property(fc.array(line, { maxLength: 60 }), fc.constantFrom('\n', '\r\n'), (lines, eol) => {
+      fc.property(fc.array(line, { maxLength: 60 }), fc.constantFrom('\n', '\r\n', '\r'), (lines, eol) => {
         attempt(new TextEncoder().encode(lines.join(eol)), 'x.csv');
       }),
       { numRuns: 200 },
@@ -62,5 +62,30 @@ describe('bad files get a clear message, never a crash (property)', () => {
     expect(attempt(new TextEncoder().encode('0,1\n1,NaN\n2,3\n'), 'nan.csv')).toBe('refused');
     expect(attempt(new TextEncoder().encode('0,1\n1;2\n2,3\n'), 'mixed.csv')).toBe('refused');
     expect(attempt(new TextEncoder().encode('0,1\n1,2\n2,3\n'), 'short.csv')).toBe('refused');
+  });
+
+  // Issue 10, item 16: the cases found by an attack on the notebook, as fixed examples.
+  test('one endless line says so, not "no rows of numbers in the first 0 lines"', () => {
+    const endless = new TextEncoder().encode('1,'.repeat(200_000));
+    expect(() => readCaptureBytes(endless, { name: 'endless.csv' })).toThrow(/endless\.csv: no line end in the first \d+ KB/);
+  });
+
+  test('a file with CR-only line ends is read like LF', () => {
+    const rows = Array.from({ length: 64 }, (_, i) => `${(i * 1e-4).toFixed(4)},${Math.sin(i / 3).toFixed(6)}`);
+    const cr = readCaptureBytes(new TextEncoder().encode(`Time (s),CH1 (V)\r${rows.join('\r')}\r`), { name: 'cr.csv' });
+    const lf = readCaptureBytes(new TextEncoder().encode(`Time (s),CH1 (V)\n${rows.join('\n')}\n`), { name: 'lf.csv' });
+    expect(cr.channels[0]?.samples).toEqual(lf.channels[0]?.samples);
+    expect(cr.sampleRate).toBe(lf.sampleRate);
+  });
+
+  test('a bad row is quoted cut short, never in full', () => {
+    const text = `0,1\n1,2\n2,${'x'.repeat(130_000)}\n3,4\n`;
+    try {
+      readCaptureBytes(new TextEncoder().encode(text), { name: 'long.csv' });
+      throw new Error('read');
+    } catch (error) {
+      expect(error).toBeInstanceOf(CaptureError);
+      expect((error as Error).message.length).toBeLessThan(300);
+    }
   });
 });

@@ -1,3 +1,4 @@
+import { execFileSync } from 'node:child_process';
 import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -53,5 +54,14 @@ describe('readCaptureFile', () => {
     await expect(readCaptureFile(join(dir, 'folder'))).rejects.toThrow(/is a folder/);
     await expect(analyzeCaptureFile(big, { channel: 'CH9' })).rejects.toThrow(CaptureError);
     await expect(analyzeCaptureFile(big, { channel: '2' })).rejects.toThrow(/channel 2 does not exist; the capture has 1 \(CH1\)/);
+  });
+});
+
+describe('files that are not captures (issue 10, item 12)', () => {
+  test('a FIFO or a device is refused at once, never read forever', async () => {
+    const fifo = join(dir, 'scope-fifo.csv');
+    execFileSync('mkfifo', [fifo]);
+    await expect(readCaptureFile(fifo)).rejects.toThrow(/not a regular file/);
+    await expect(readCaptureFile('/dev/zero')).rejects.toThrow(/not a regular file/);
   });
 });

@@ -65,3 +65,18 @@ describe('WAV errors', () => {
     expect(() => readCaptureBytes(cut, { name: 'cut.wav' })).toThrow(CaptureError);
   });
 });
+
+describe('a WAV cut short (issue 10, item 16)', () => {
+  test('a header claiming more samples than the file holds is read with a warning', () => {
+    const writer = new wavefile.WaveFile();
+    writer.fromScratch(1, 48000, '16', tone(1000, 0).map((v) => Math.round(v * 32767)));
+    const whole = writer.toBuffer();
+    // Cut the file at 600 frames: the data chunk's size still says 1000 frames (2000 bytes).
+    const cut = whole.subarray(0, whole.length - 800);
+    const capture = readCaptureBytes(cut, { name: 'cut.wav', scale: 1 });
+    expect(capture.channels[0]?.samples.length).toBe(600);
+    expect(capture.warnings.join(' ')).toMatch(/the header claims 2000 bytes of samples but the file holds 1200: it is cut short/);
+    // The whole file reads without it.
+    expect(readCaptureBytes(whole, { name: 'whole.wav', scale: 1 }).warnings).toEqual([]);
+  });
+});

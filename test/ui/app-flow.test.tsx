@@ -212,10 +212,8 @@ describe('quitting', () => {
     expect(app.frame()).not.toContain('Quit probebook?');
     expect(app.quitCount()).toBe(0);
     await app.press(keys.escape);
-    // Back on the input line, the app has the `q` again (poll: the hand-back takes a frame or two).
+    // Back on the input line, the app has the `q` again: the screen hands it back in the same key event.
     await app.waitFor('type a reading');
-    // The hand-back runs in an effect after that frame; give a loaded machine a moment.
-    await new Promise((r) => setTimeout(r, 300));
     await app.press('q');
     await app.waitFor(() => (app?.quitCount() ?? 0) > 0);
     expect(app.quitCount()).toBe(1);

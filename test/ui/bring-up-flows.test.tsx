@@ -42,10 +42,9 @@ describe('bring-up screen: list, capture, end of run', () => {
     expect(await s.until('is locked')).toMatch(/rails\.\+9V\.dc is locked: unpowered checks first/);
     await s.press('k', 'k', keys.enter);
     expect(await s.until('rails.-9V.to-ground ›')).toContain('how: power off');
-    // On an open check the attach box opens, and Esc closes it (after a frame: its key handler is swapped in then).
+    // On an open check the attach box opens, and Esc closes it (`until` lets its key handler attach after the frame).
     await s.press('a');
     await s.until('Attach a capture');
-    await new Promise((r) => setTimeout(r, 100));
     await s.press(keys.escape);
     await s.until('rails.-9V.to-ground ›');
   });
@@ -80,11 +79,8 @@ describe('bring-up screen: list, capture, end of run', () => {
     await writeFile(file, `${rows.join('\n')}\n`);
     await s.press('a');
     await s.until('expecting a square');
-    // The attach box reads keys through handlers swapped in after each frame: give it a frame to settle.
-    await new Promise((r) => setTimeout(r, 100));
     await s.type(file);
     await s.until('square.csv');
-    await new Promise((r) => setTimeout(r, 100));
     await s.press(keys.enter);
     await s.until(/Enter\s+attach/, 15000);
     await s.press(keys.enter);

@@ -11,6 +11,7 @@ import { loadPlanFile } from '../../src/plan/load.js';
 import type { Plan } from '../../src/plan/types.js';
 import { BringUpScreen } from '../../src/ui/bring-up/bring-up.js';
 import { keys } from './keys.js';
+import { waitForFrame, writeAndWait } from './wait-frame.js';
 
 export const fixturePlan = join(import.meta.dirname, 'fixtures', 'bring-up.plan.json');
 
@@ -48,21 +49,10 @@ export async function renderBringUp(fixture: { plan: Plan; targets: TargetSet },
   );
   const frame = () => ui.lastFrame() ?? '';
   /** Wait until the screen shows `text` (or the predicate holds). */
-  const until = async (what: string | RegExp | (() => boolean), timeout = 5000): Promise<string> => {
-    const ok = () => (typeof what === 'function' ? what() : typeof what === 'string' ? frame().includes(what) : what.test(frame()));
-    const start = Date.now();
-    while (!ok()) {
-      if (Date.now() - start > timeout) throw new Error(`timed out waiting for ${String(what)}; screen:\n${frame()}`);
-      await new Promise((r) => setTimeout(r, 10));
-    }
-    return frame();
-  };
-  /** Write keys one chunk at a time, letting a frame pass after each. */
+  const until = (what: string | RegExp | (() => boolean), timeout = 8000): Promise<string> => waitForFrame(ui, typeof what === 'function' ? () => what() : what, timeout);
+  /** Write keys one chunk at a time, each waiting for the frame it draws. */
   const press = async (...chunks: string[]) => {
-    for (const c of chunks) {
-      ui.stdin.write(c);
-      await new Promise((r) => setTimeout(r, 15));
-    }
+    for (const c of chunks) await writeAndWait(ui, c);
   };
   /** Type text character by character. */
   const type = async (text: string) => press(...Array.from(text));

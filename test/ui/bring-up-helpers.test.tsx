@@ -3,9 +3,11 @@ import type { Target, TargetSet } from '../../src/analysis/types.js';
 import type { Plan } from '../../src/plan/types.js';
 import { scopeSetup } from '../../src/run/scope-setup.js';
 import type { Measurements } from '../../src/signal/types.js';
-import { captureReadings, captureWarnings } from '../../src/ui/bring-up/capture-readings.js';
-import { shapeOf } from '../../src/ui/bring-up/capture-slot.js';
-import { expectedTrace, nominalOutputs, outputOf } from '../../src/ui/bring-up/expected-trace.js';
+import { expectedTrace, nominalOutputs } from '../../src/analysis/expected-trace.js';
+import { outputOf } from '../../src/plan/check-output.js';
+import { captureReadings } from '../../src/run/capture-readings.js';
+import { captureWarnings } from '../../src/signal/capture-warnings.js';
+import { idealShape as shapeOf } from '../../src/signal/ideal-shape.js';
 import { bandGauge, formatBand } from '../../src/ui/bring-up/format-band.js';
 import { bringUpLayout } from '../../src/ui/bring-up/layout.js';
 import { loadFixture } from './bring-up-harness.js';
@@ -67,7 +69,7 @@ describe('expected trace', () => {
 
 describe('capture figures to readings', () => {
   const m = (over: Partial<Measurements>): Measurements => ({ frequency: 1130, vpp: 15.5, duty: 0.5, thd: 0.45, mean: 0, ...over }) as Measurements;
-  const capture = (over: Partial<Measurements> = {}) => ({ name: 'tp1.csv', bytes: new Uint8Array(), measurements: m(over), samples: new Float64Array(), sampleRate: 1e6 });
+  const capture = (over: Partial<Measurements> = {}) => ({ name: 'tp1.csv', figures: m(over) });
   test('takes every check probed at the same output that the capture measures', () => {
     const got = captureReadings(fixture.plan, fixture.targets.targets, target('osc.freq'), capture(), () => true);
     expect(got.map((r) => r.check).sort()).toEqual(['osc.duty', 'osc.freq', 'osc.square.vpp']);

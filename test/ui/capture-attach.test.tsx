@@ -7,6 +7,7 @@ import { type CaptureAttachResult, CaptureAttach } from '../../src/ui/capture/ca
 import { completePath } from '../../src/ui/capture/path-complete.js';
 import { progressBar } from '../../src/ui/capture/view.js';
 import { keys } from './keys.js';
+import { type Rendered, waitForFrame, writeAndWait } from './wait-frame.js';
 
 const demo = join(import.meta.dirname, '..', '..', 'demo', 'captures');
 const dir = mkdtempSync(join(tmpdir(), 'probebook-attach-'));
@@ -17,16 +18,7 @@ writeFileSync(join(dir, 'scope', 'osc-short.csv'), 'Time (s),V\n0,1\n1e-6,2\n');
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 /** Wait until the frame contains `text` (the read runs in the background). */
-async function frameWith(lastFrame: () => string | undefined, text: string): Promise<string> {
-  for (let i = 0; i < 200; i++) {
-    const frame = lastFrame() ?? '';
-    if (frame.includes(text)) return frame;
-    await new Promise((r) => setTimeout(r, 10));
-  }
-  throw new Error(`no frame with ${JSON.stringify(text)}; last frame:\n${lastFrame()}`);
-}
-
-const tick = () => new Promise((r) => setTimeout(r, 20));
+const frameWith = (ui: Rendered, text: string): Promise<string> => waitForFrame(ui, text);
 
 describe('path completion', () => {
   test('one match completes, a folder gets its slash, several complete to the common prefix', () => {
@@ -48,20 +40,19 @@ describe('CaptureAttach', () => {
   test('Tab completes, Enter reads and shows the figures, Enter again hands them back', async () => {
     const onDone = vi.fn<(r: CaptureAttachResult) => void>();
     const onCancel = vi.fn();
-    const { stdin, lastFrame, unmount } = render(<CaptureAttach onDone={onDone} onCancel={onCancel} expect="sine" cwd={dir} width={70} />);
-    await tick();
-    expect(lastFrame()).toContain('Attach a capture (CSV or WAV), expecting a sine');
-    stdin.write('scope/dr');
-    await tick();
+    const ui = render(<CaptureAttach onDone={onDone} onCancel={onCancel} expect="sine" cwd={dir} width={70} />);
+    const { stdin, unmount } = ui;
+    await waitForFrame(ui, 'Attach a capture');
+    expect(ui.lastFrame()).toContain('Attach a capture (CSV or WAV), expecting a sine');
+    await writeAndWait(ui, 'scope/dr');
     stdin.write(keys.tab);
-    await frameWith(lastFrame, 'file: scope/driver-notch.tsv');
+    await frameWith(ui, 'file: scope/driver-notch.tsv');
     stdin.write(keys.enter);
-    const frame = await frameWith(lastFrame, 'Enter attach these figures');
+    const frame = await frameWith(ui, 'Enter attach these figures');
     expect(frame).toContain('shape         sine, crossover notch');
     expect(frame).toContain('⚠ expected a sine; the capture has a crossover notch');
     expect(frame).toContain('─ captured');
-    stdin.write(keys.enter);
-    await tick();
+    await writeAndWait(ui, keys.enter);
     expect(onDone).toHaveBeenCalledTimes(1);
     const result = onDone.mock.calls[0]?.[0];
     expect(result?.path).toBe(join(dir, 'scope', 'driver-notch.tsv'));
@@ -77,19 +68,18 @@ describe('CaptureAttach', () => {
   });
 
   test('several matches are listed; a bad file shows its reason and keeps the path for editing', async () => {
-    const { stdin, lastFrame, unmount } = render(<CaptureAttach onDone={() => {}} onCancel={() => {}} cwd={dir} />);
-    await tick();
-    stdin.write('scope/osc-');
-    await tick();
+    const ui = render(<CaptureAttach onDone={() => {}} onCancel={() => {}} cwd={dir} />);
+    const { stdin, unmount } = ui;
+    await waitForFrame(ui, 'Attach a capture');
+    await writeAndWait(ui, 'scope/osc-');
     stdin.write(keys.tab);
-    const listed = await frameWith(lastFrame, 'osc-short.csv  osc-square.csv');
+    const listed = await frameWith(ui, 'osc-short.csv  osc-square.csv');
     expect(listed).toContain('file: scope/osc-s');
-    stdin.write('h');
-    await tick();
+    await writeAndWait(ui, 'h');
     stdin.write(keys.tab);
-    await frameWith(lastFrame, 'file: scope/osc-short.csv');
+    await frameWith(ui, 'file: scope/osc-short.csv');
     stdin.write(keys.enter);
-    const refused = await frameWith(lastFrame, 'only 2 samples');
+    const refused = await frameWith(ui, 'only 2 samples');
     expect(refused).toContain('file: scope/osc-short.csv');
     unmount();
   });
@@ -97,50 +87,47 @@ describe('CaptureAttach', () => {
   test('Esc on the figures goes back to the path; Esc on the path cancels', async () => {
     const onCancel = vi.fn();
     const onDone = vi.fn();
-    const { stdin, lastFrame, unmount } = render(<CaptureAttach onDone={onDone} onCancel={onCancel} cwd={dir} />);
-    await tick();
-    stdin.write('scope/osc-square.csv --channel 2');
-    await tick();
+    const ui = render(<CaptureAttach onDone={onDone} onCancel={onCancel} cwd={dir} />);
+    const { stdin, unmount } = ui;
+    await waitForFrame(ui, 'Attach a capture');
+    await writeAndWait(ui, 'scope/osc-square.csv --channel 2');
     stdin.write(keys.enter);
-    const figures = await frameWith(lastFrame, 'channel TRIANGLE');
+    const figures = await frameWith(ui, 'channel TRIANGLE');
     expect(figures).toContain('shape         triangle');
     expect(figures).toContain('also in the file: 1 SQUARE (add --channel N to the path)');
     stdin.write(keys.escape);
-    await frameWith(lastFrame, 'Tab complete');
-    stdin.write(keys.escape);
-    await tick();
+    await frameWith(ui, 'Tab complete');
+    await writeAndWait(ui, keys.escape);
     expect(onCancel).toHaveBeenCalledTimes(1);
     expect(onDone).not.toHaveBeenCalled();
     unmount();
   });
 
   test('a missing file and a bad setting are messages, not crashes', async () => {
-    const { stdin, lastFrame, unmount } = render(<CaptureAttach onDone={() => {}} onCancel={() => {}} cwd={dir} />);
-    await tick();
-    stdin.write('nope.csv');
-    await tick();
+    const ui = render(<CaptureAttach onDone={() => {}} onCancel={() => {}} cwd={dir} />);
+    const { stdin, unmount } = ui;
+    await waitForFrame(ui, 'Attach a capture');
+    await writeAndWait(ui, 'nope.csv');
     stdin.write(keys.enter);
-    await frameWith(lastFrame, 'no such file');
+    await frameWith(ui, 'no such file');
     for (let i = 0; i < 8; i++) {
       // One key at a time, as a terminal sends them.
-      stdin.write(keys.backspace);
-      await tick();
+      await writeAndWait(ui, keys.backspace);
     }
-    stdin.write('x.wav --scale -3');
-    await tick();
+    await writeAndWait(ui, 'x.wav --scale -3');
     stdin.write(keys.enter);
-    await frameWith(lastFrame, '--scale -3: give a positive voltage');
+    await frameWith(ui, '--scale -3: give a positive voltage');
     unmount();
   });
 
   test('keys are ignored while inactive', async () => {
     const onCancel = vi.fn();
-    const { stdin, lastFrame, unmount } = render(<CaptureAttach onDone={() => {}} onCancel={onCancel} cwd={dir} isActive={false} />);
-    await tick();
+    const ui = render(<CaptureAttach onDone={() => {}} onCancel={onCancel} cwd={dir} isActive={false} />);
+    const { stdin, unmount } = ui;
+    await waitForFrame(ui, 'Attach a capture');
     stdin.write('abc');
-    stdin.write(keys.escape);
-    await tick();
-    expect(lastFrame()).not.toContain('abc');
+    await writeAndWait(ui, keys.escape);
+    expect(ui.lastFrame()).not.toContain('abc');
     expect(onCancel).not.toHaveBeenCalled();
     unmount();
   });

@@ -7,6 +7,7 @@ import { formatBand, formatContributor } from '../../src/ui/plan-screen/format-b
 import { PlanScreen } from '../../src/ui/plan-screen/plan-screen.js';
 import { keys } from './keys.js';
 import { fixturePlan } from './render-app.js';
+import { waitForFrame, writeAndWait } from './wait-frame.js';
 
 const plan = loadPlanText(JSON.stringify(fixturePlan), 'fixture.plan.json');
 const targets = computeTargets(plan, { trials: 400, seed: 1 });
@@ -21,7 +22,6 @@ const clippingTargets = computeTargets(clipping, { trials: 400, seed: 1 });
 let instance: ReturnType<typeof render> | undefined;
 afterEach(() => instance?.unmount());
 
-const settle = () => new Promise((r) => setTimeout(r, 30));
 async function show(width: number, height: number, p = plan, t = targets) {
   let exits = 0;
   const view = render(<PlanScreen plan={p} targets={t} width={width} height={height} onExit={() => void exits++} />);
@@ -29,13 +29,11 @@ async function show(width: number, height: number, p = plan, t = targets) {
   const frame = () => view.lastFrame() ?? '';
   /** Poll until the condition holds (a loaded machine can be slow to draw), then return the frame. */
   const until = async (test: (f: string) => boolean, what: string) => {
-    const deadline = Date.now() + 5000;
-    while (!test(frame())) {
-      if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}; the screen shows:\n${frame()}`);
-      await new Promise((r) => setTimeout(r, 10));
+    try {
+      return await waitForFrame(view, test);
+    } catch (error) {
+      throw new Error(`timed out waiting for ${what}; ${String(error)}`);
     }
-    await settle();
-    return frame();
   };
   await until((f) => f.includes('probebook · plan'), 'the plan screen');
   return {
@@ -43,13 +41,7 @@ async function show(width: number, height: number, p = plan, t = targets) {
     until,
     /** Send keys, each followed by its frame (or a short wait when nothing changes). */
     press: async (...sequence: string[]) => {
-      for (const key of sequence) {
-        const before = view.frames.length;
-        view.stdin.write(key);
-        const deadline = Date.now() + 1000;
-        while (view.frames.length === before && Date.now() < deadline) await new Promise((r) => setTimeout(r, 5));
-        await settle();
-      }
+      for (const key of sequence) await writeAndWait(view, key);
     },
     exits: () => exits,
   };

@@ -8,6 +8,7 @@ import { loadPlanText } from '../../src/plan/load.js';
 import type { Plan } from '../../src/plan/types.js';
 import { App, type Route } from '../../src/ui/app.js';
 import { PlanCatalog } from '../../src/ui/bench/plan-catalog.js';
+import { type Expectation, waitForFrame, writeAndWait } from './wait-frame.js';
 
 /**
  * A small invented board for the UI tests: a relaxation oscillator on ±12 V
@@ -89,28 +90,11 @@ export async function renderApp(options: RenderAppOptions = {}) {
     />,
   );
   const frame = () => result.lastFrame() ?? '';
-  const settle = () => new Promise((r) => setTimeout(r, 30));
   /** Wait until the screen shows `text` (or the predicate holds); fails with the last frame. */
-  const waitFor = async (text: string | RegExp | ((frame: string) => boolean), timeoutMs = 5000) => {
-    const test = typeof text === 'function' ? text : (f: string) => (typeof text === 'string' ? f.includes(text) : text.test(f));
-    const until = Date.now() + timeoutMs;
-    while (!test(frame())) {
-      if (Date.now() > until) throw new Error(`timed out waiting for ${String(text)}; the screen shows:\n${frame()}`);
-      await new Promise((r) => setTimeout(r, 10));
-    }
-    // React runs effects (Ink's key listeners among them) after the frame: let them attach.
-    await settle();
-    return frame();
-  };
-  /** Send keys and wait for the next frame (or a short while when the key changes nothing). */
+  const waitFor = (text: Expectation, timeoutMs = 8000) => waitForFrame(result, text, timeoutMs);
+  /** Send keys, each waiting for the frame it draws (a key that changes nothing draws none: a bounded wait). */
   const press = async (...sequence: string[]) => {
-    for (const key of sequence) {
-      const before = result.frames.length;
-      result.stdin.write(key);
-      const until = Date.now() + 300;
-      while (result.frames.length === before && Date.now() < until) await new Promise((r) => setTimeout(r, 5));
-      await settle();
-    }
+    for (const key of sequence) await writeAndWait(result, key);
   };
   /** Type text one key at a time, as a technician does. */
   const type = async (text: string) => press(...[...text]);

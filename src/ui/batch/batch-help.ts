@@ -23,3 +23,15 @@ export const batchHints: readonly KeyHint[] = [
   ['Esc', 'back'],
   ['?', 'help'],
 ];
+
+/** The filter form's own help (`?` in an empty field). */
+export const filterFormHelp: readonly HelpEntry[] = [
+  ['text', 'plan id; revision (at least 4 hex digits of the plan hash); from and to (2026-11-30 or 2026-11-30T14:00:00Z)'],
+  ['Tab ↓ / ↑', 'next / previous field'],
+  ['← → Home End', 'move in the field; Backspace erases; Ctrl-U clears it'],
+  ['Enter', 'apply the filter (a bad date is named, and the form stays open)'],
+  ['Esc', 'close the form, keeping the filter as it was'],
+  ['?', 'this help (in an empty field); ? or Esc closes it'],
+];
+
+export const filterFormNotes: readonly string[] = ['An empty field means any. Dates without a time cover the whole day.'];

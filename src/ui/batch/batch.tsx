@@ -7,7 +7,7 @@ import { HelpBox } from '../components/help-box.js';
 import { KeyBar } from '../components/key-bar.js';
 import type { BatchProps } from '../screen-props.js';
 import { toneProps } from '../theme.js';
-import { batchHelp, batchHints, batchNotes } from './batch-help.js';
+import { batchHelp, batchHints, batchNotes, filterFormHelp, filterFormNotes } from './batch-help.js';
 import { BatchPanel } from './batch-panel.js';
 import { BatchTable } from './batch-table.js';
 import { FilterForm } from './filter-form.js';
@@ -24,40 +24,41 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
   const rest = Math.max(6, height - 6);
   const tableRows = Math.max(2, Math.min(state.rows.length, Math.floor(rest * 0.35)));
   const panelRows = Math.max(4, rest - tableRows);
-  useBatchKeys(state, dispatch, { onExit, onOpenBoard }, tableRows, isActive);
-  const f = state.figures;
-  const c = selectedCheck(state);
-  const note = f ? `${f.boards} boards · first-pass ${formatPercent(f.firstPassYield)} · final ${formatPercent(f.finalYield)}` : '';
+  const { cursor, isFormHelpOpen } = useBatchKeys(state, dispatch, { onExit, onOpenBoard, onTypingChange }, tableRows, isActive);
+  const figures = state.figures;
+  const check = selectedCheck(state);
+  const note = figures ? `${figures.boards} boards · first-pass ${formatPercent(figures.firstPassYield)} · final ${formatPercent(figures.finalYield)}` : '';
   let body;
   if (state.isHelpOpen) body = <HelpBox title="batch" entries={batchHelp} notes={batchNotes} width={width} />;
-  else if (state.form) body = <FilterForm form={state.form} width={width} />;
+  else if (state.form && isFormHelpOpen) body = <HelpBox title="batch" topic="the filter form" entries={filterFormHelp} notes={filterFormNotes} width={width} />;
+  else if (state.form) body = <FilterForm form={state.form} cursor={cursor} width={width} />;
   else if (state.status === 'error') body = <Text {...toneProps('bad')}>Cannot review the batch: {state.message}</Text>;
-  else if (state.status !== 'ready' || !f) {
+  else if (state.status !== 'ready' || !figures) {
     const p = state.progress;
     body = <Text>{p ? `${p.what}: ${p.done} of ${p.total}…` : state.status === 'loading' ? 'Reading the index…' : 'Scanning boards…'}</Text>;
-  } else if (!c) body = <Text>No readings match {describeFilter(state.filter)}. Press f to change the filter, or record readings first.</Text>;
+  } else if (!check) body = <Text>No readings match {describeFilter(state.filter)}. Press f to change the filter, or record readings first.</Text>;
   else
     body = (
       <>
         <BatchTable rows={state.rows} selected={state.selected} height={tableRows} width={width} />
         <Text wrap="truncate-end">
-          {`${c.check}: mean ${formatFigure(c.mean, c.unit)} · sd ${formatFigure(c.sd, c.unit, 3)} · min ${formatFigure(c.min, c.unit)} · max ${formatFigure(c.max, c.unit)}`}
+          {`${check.check}: mean ${formatFigure(check.mean, check.unit)} · sd ${formatFigure(check.sd, check.unit, 3)} · min ${formatFigure(check.min, check.unit)} · max ${formatFigure(check.max, check.unit)}`}
         </Text>
         <Text wrap="truncate-end">
           {batchPanels.map((p) => (
             <Text key={p} inverse={p === state.panel} bold={p === state.panel}>
-              {p === state.panel ? `[${panelLabel[p]}${p === 'outliers' ? ` (${c.outliers.length})` : ''}]` : ` ${panelLabel[p]}${p === 'outliers' ? ` (${c.outliers.length})` : ''} `}
+              {p === state.panel ? `[${panelLabel[p]}${p === 'outliers' ? ` (${check.outliers.length})` : ''}]` : ` ${panelLabel[p]}${p === 'outliers' ? ` (${check.outliers.length})` : ''} `}
             </Text>
           ))}
-          <Text {...toneProps('dim')}>{c.note ? `  ${c.note}` : ''}</Text>
+          <Text {...toneProps('dim')}>{check.note ? `  ${check.note}` : ''}</Text>
         </Text>
-        <BatchPanel check={c} panel={state.panel} outlierSelected={state.outlierSelected} height={panelRows - 2} width={width} />
+        <BatchPanel check={check} panel={state.panel} outlierSelected={state.outlierSelected} height={panelRows - 2} width={width} />
       </>
     );
   return (
     <Box flexDirection="column" width={width} height={height}>
       <Header screen="batch" detail={describeFilter(state.filter)} note={note} width={width} />
-      {f && f.problems.length > 0 ? <Text {...toneProps('warn')} wrap="truncate-end">! {f.problems[0]?.message}</Text> : null}
+      {figures && figures.problems.length > 0 ? <Text {...toneProps('warn')} wrap="truncate-end">! {figures.problems[0]?.message}</Text> : null}
       <Box flexDirection="column" flexGrow={1}>
         {body}
       </Box>

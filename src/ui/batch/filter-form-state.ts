@@ -15,11 +15,10 @@ export function formFromFilter(f: BatchFilter): FilterForm {
   return { field: 0, values: { plan: f.plan ?? '', revision: f.revision ?? '', from: day(f.from), to: day(f.to) }, error: '' };
 }
 
-/** Type into the focused field (printable text) or delete its last character. */
-export function editForm(form: FilterForm, input: string, isBackspace: boolean): FilterForm {
+/** The form with the focused field's text replaced (as the text field edited it). */
+export function setFieldValue(form: FilterForm, value: string): FilterForm {
   const name = filterFields[form.field] ?? 'plan';
-  const old = form.values[name];
-  const value = isBackspace ? old.slice(0, -1) : (old + input.replace(/[\u0000-\u001F\u007F]/g, '')).slice(0, 64);
+  if (form.values[name] === value) return form;
   return { ...form, values: { ...form.values, [name]: value }, error: '' };
 }
 

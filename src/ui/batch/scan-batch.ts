@@ -22,7 +22,7 @@ export async function scanBatch(
   isCancelled: () => boolean,
 ): Promise<BatchFigures | null> {
   const snapshots = await bands.load(revisionsOf(index, filter));
-  const acc = batchAccumulator(snapshots, filter);
+  const acc = batchAccumulator(snapshots, filter, index.damaged);
   const serials = Object.keys(index.boards);
   for (let i = 0; i < serials.length; i++) {
     const board = index.boards[serials[i] ?? ''];

@@ -133,7 +133,8 @@ export function useBatchState(log: BenchLog, targetsCache?: TargetsCache) {
     let isCurrent = true;
     const read = (log as Partial<LogStore>).readIndex;
     const progress = (done: number, total: number) => isCurrent && dispatch({ type: 'progress', done, total, what: 'reading board files for the index' });
-    (read ? (log as LogStore).readIndex(progress) : log.readIndex()).then(
+    // Every board file's stamp is checked: a batch never counts a board from a summary its file no longer backs.
+    (read ? (log as LogStore).readIndex(progress, { verify: true }) : log.readIndex()).then(
       (value) => {
         if (!isCurrent) return;
         index.current = value;

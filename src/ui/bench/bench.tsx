@@ -8,7 +8,7 @@ import { scrollWindow } from '../components/scroll-window.js';
 import { toneProps } from '../theme.js';
 import { BoardFilter } from './board-filter.js';
 import { BoardList } from './board-list.js';
-import { benchHelp, benchKeys, benchNotes } from './bench-help.js';
+import { benchHelpFor, benchKeys } from './bench-help.js';
 import { PlanChoices, SerialEntry } from './new-board.js';
 import type { PlanCatalog } from './plan-catalog.js';
 import { type BenchTargets, useBenchState } from './use-bench-state.js';
@@ -32,14 +32,17 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
   const { mode, boards, selected, message } = state;
   const dialogRows = mode.kind === 'new-serial' ? 6 : mode.kind === 'choose-plan' ? mode.choices.length + 3 : mode.kind === 'confirm-run' ? 4 : 0;
   const listRows = Math.max(1, height - 5 - dialogRows - (state.damaged.length > 0 ? 1 : 0));
-  useBenchKeys(state, listRows, isActive);
+  useBenchKeys(state, listRows, isActive, onTypingChange);
   const isTyping = mode.kind === 'new-serial' || mode.kind === 'filter';
   useEffect(() => onTypingChange?.(isTyping), [isTyping, onTypingChange]);
   const start = useRef(0);
   const view = scrollWindow(boards.length, selected, listRows, start.current);
   start.current = view.start;
 
-  if (mode.kind === 'help') return <HelpBox title="bench" entries={benchHelp} notes={benchNotes} width={width} />;
+  if (mode.kind === 'help') {
+    const help = benchHelpFor(mode.from);
+    return <HelpBox title="bench" topic={help.topic} entries={help.entries} notes={help.notes} width={width} />;
+  }
   const plural = (n: number) => (n === 1 ? '1 board' : `${n} boards`);
   const count = state.isLoading ? 'reading the log…' : state.filter ? `${boards.length} of ${plural(state.total)}` : plural(state.total);
   return (
@@ -60,7 +63,7 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
         <BoardList boards={boards} start={view.start} rows={listRows} selected={selected} width={width} />
       )}
       {mode.kind === 'new-serial' ? (
-        <SerialEntry isActive={isActive} onSubmit={state.submitSerial} onChange={() => state.setMessage(null)} onCancel={() => state.setMode({ kind: 'list' })} />
+        <SerialEntry isActive={isActive} onHelp={() => state.setMode({ kind: 'help', from: mode })} onSubmit={state.submitSerial} onChange={() => state.setMessage(null)} onCancel={() => state.setMode({ kind: 'list' })} />
       ) : null}
       {mode.kind === 'choose-plan' ? <PlanChoices serial={mode.serial} choices={mode.choices} selected={mode.selected} width={width} /> : null}
       {mode.kind === 'confirm-run' ? (
@@ -68,11 +71,11 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
           <Text wrap="truncate-end">
             Start a new run on {mode.board.serial} ({mode.board.state}, {mode.board.runs} runs so far) with plan {mode.plan.plan}?
           </Text>
-          <Text {...toneProps('dim')}>Enter or y: start · Esc or n: cancel</Text>
+          <Text {...toneProps('dim')}>Enter or y: start · Esc or n: cancel · ?: help</Text>
         </Box>
       ) : null}
       {mode.kind === 'filter' ? (
-        <BoardFilter initial={state.filter} onChange={state.setFilter} onDone={() => state.setMode({ kind: 'list' })} isActive={isActive} />
+        <BoardFilter initial={state.filter} onHelp={() => state.setMode({ kind: 'help', from: mode })} onChange={state.setFilter} onDone={() => state.setMode({ kind: 'list' })} isActive={isActive} />
       ) : null}
       {mode.kind === 'busy' ? <Text>{mode.what}</Text> : null}
       {message ? (

@@ -6,13 +6,15 @@ export interface BoardFilterProps {
   readonly initial: string;
   readonly onChange: (text: string) => void;
   readonly onDone: () => void;
+  /** `?` in the empty field: the dialog's help. */
+  readonly onHelp?: () => void;
   /** @default true */
   readonly isActive?: boolean;
 }
 
 /** `/` narrows the list to serials or plans containing the text, as it is typed. */
-export function BoardFilter({ initial, onChange, onDone, isActive = true }: BoardFilterProps) {
-  const { value } = useTextField({
+export function BoardFilter({ initial, onChange, onDone, onHelp, isActive = true }: BoardFilterProps) {
+  const { value, cursor } = useTextField({
     initial,
     onChange,
     onSubmit: onDone,
@@ -21,10 +23,11 @@ export function BoardFilter({ initial, onChange, onDone, isActive = true }: Boar
       onDone();
     },
     isActive,
+    ...(onHelp ? { onHelp } : {}),
   });
   return (
     <Text>
-      <TextField label="filter" value={value} placeholder="part of a serial or plan id" />
+      <TextField label="filter" value={value} cursor={cursor} placeholder="part of a serial or plan id" />
       <Text> (Enter keeps it · Esc clears)</Text>
     </Text>
   );

@@ -10,24 +10,26 @@ export interface SerialEntryProps {
   /** Called as the serial is edited (the screen clears an old message). */
   readonly onChange?: (serial: string) => void;
   readonly onCancel: () => void;
+  /** `?` in the empty field: the dialog's help. */
+  readonly onHelp?: () => void;
   /** @default true */
   readonly isActive?: boolean;
 }
 
 /** The new-board serial field, with the log's serial rule checked as it is typed. */
-export function SerialEntry({ onSubmit, onChange, onCancel, isActive = true }: SerialEntryProps) {
-  const { value } = useTextField({ onSubmit, onCancel, isActive, maxLength: 80, ...(onChange ? { onChange } : {}) });
+export function SerialEntry({ onSubmit, onChange, onCancel, onHelp, isActive = true }: SerialEntryProps) {
+  const { value, cursor } = useTextField({ onSubmit, onCancel, isActive, maxLength: 80, ...(onChange ? { onChange } : {}), ...(onHelp ? { onHelp } : {}) });
   const problem = value.trim() === '' ? null : validateSerial(value.trim());
   return (
     <Box flexDirection="column" borderStyle="single" paddingX={1}>
       <Text bold>New board</Text>
-      <TextField label="serial" value={value} placeholder="e.g. EXB-0042" />
+      <TextField label="serial" value={value} cursor={cursor} placeholder="e.g. EXB-0042" />
       {problem ? (
         <Text wrap="wrap" {...toneProps('warn')}>
           ✗ {problem}
         </Text>
       ) : (
-        <Text {...toneProps('dim')}>Enter to continue · Esc cancels</Text>
+        <Text {...toneProps('dim')}>Enter to continue · Esc cancels · ? help</Text>
       )}
     </Box>
   );
@@ -55,7 +57,7 @@ export function PlanChoices({ serial, choices, selected, width }: PlanChoicesPro
           </Text>
         );
       })}
-      <Text {...toneProps('dim')}>↑↓ choose · Enter start the run · Esc cancel</Text>
+      <Text {...toneProps('dim')}>↑↓ choose · Enter start the run · Esc cancel · ? help</Text>
     </Box>
   );
 }

@@ -1,26 +1,34 @@
 import { type Key, useInput } from 'ink';
 import { splitKeys } from '../components/key-chunks.js';
-import type { BenchState } from './use-bench-state.js';
+import type { BenchMode, BenchState } from './use-bench-state.js';
 
 /**
  * Keys of the bench screen. The serial and filter fields take their own keys
  * (see `new-board.tsx`, `board-filter.tsx`); this hook is idle meanwhile.
  */
-export function useBenchKeys(state: BenchState, pageSize: number, isActive: boolean) {
+export function useBenchKeys(state: BenchState, pageSize: number, isActive: boolean, onTypingChange?: (isTyping: boolean) => void) {
   const { mode } = state;
-  const typing = mode.kind === 'new-serial' || mode.kind === 'filter' || mode.kind === 'busy';
+  const isTyping = mode.kind === 'new-serial' || mode.kind === 'filter' || mode.kind === 'busy';
   useInput(
     (chunk, key) => {
       for (const input of splitKeys(chunk, key)) handle(input, key);
     },
-    { isActive: isActive && !typing },
+    { isActive: isActive && !isTyping },
   );
+
+  /** Open a text field, telling the app at once (a `q` right behind `n` is a letter, not quit). */
+  function startTyping(next: BenchMode) {
+    onTypingChange?.(true);
+    state.setMode(next);
+  }
 
   function handle(input: string, key: Key) {
     if (mode.kind === 'help') {
-      if (input === '?' || key.escape || key.return) state.setMode({ kind: 'list' });
+      if (input === '?' || key.escape || key.return) state.setMode(mode.from);
       return;
     }
+    // Every dialog answers `?` with its own help, and comes back as it was.
+    if (input === '?') return state.setMode({ kind: 'help', from: mode });
     if (mode.kind === 'confirm-run') {
       if (key.return || input === 'y') state.confirmRun();
       else if (key.escape || input === 'n') state.setMode({ kind: 'list' });
@@ -44,12 +52,11 @@ export function useBenchKeys(state: BenchState, pageSize: number, isActive: bool
     else if (key.return) state.openSelected();
     else if (input === 'n') {
       state.setMessage(null);
-      state.setMode({ kind: 'new-serial' });
-    } else if (input === '/') state.setMode({ kind: 'filter' });
+      startTyping({ kind: 'new-serial' });
+    } else if (input === '/') startTyping({ kind: 'filter' });
     else if (input === 'h') state.openHistory();
     else if (input === 'b') state.openBatch();
     else if (input === 'p') state.openPlan();
-    else if (input === '?') state.setMode({ kind: 'help' });
     else if (key.escape) {
       if (state.filter) state.setFilter('');
       state.setMessage(null);

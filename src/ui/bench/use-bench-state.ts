@@ -7,13 +7,17 @@ import { filterBoards, orderBoards } from './board-order.js';
 import type { PlanCatalog, PlanChoice } from './plan-catalog.js';
 
 /** What the bench screen is doing: listing, or one of its small dialogs. */
+/** Every mode but help: where help goes back to. */
+export type DialogMode = Exclude<BenchMode, { readonly kind: 'help' }>;
+
 export type BenchMode =
   | { readonly kind: 'list' }
   | { readonly kind: 'filter' }
   | { readonly kind: 'new-serial' }
   | { readonly kind: 'choose-plan'; readonly serial: string; readonly choices: readonly PlanChoice[]; readonly selected: number }
   | { readonly kind: 'confirm-run'; readonly board: BoardSummary; readonly plan: Plan }
-  | { readonly kind: 'help' }
+  /** The help of the screen, or of the dialog it was opened from (`from`), which it goes back to. */
+  | { readonly kind: 'help'; readonly from: DialogMode }
   | { readonly kind: 'busy'; readonly what: string };
 
 /** Where the bench screen sends the technician; the app switches screens. */

@@ -1,29 +1,27 @@
 import { Box, Text } from 'ink';
 import { memo, useMemo } from 'react';
-import { judge } from '../../run/assess.js';
-import { lockReason, openChecks } from '../../run/gates.js';
-import { scopeSetup } from '../../run/scope-setup.js';
+import { endOptions, openChecks } from '../../run/gates.js';
 import { traceChart } from '../charts/trace.js';
 import { Header } from '../components/header.js';
 import { HelpBox } from '../components/help-box.js';
 import { KeyBar, type KeyHint } from '../components/key-bar.js';
 import type { BringUpProps } from '../screen-props.js';
 import { toneProps } from '../theme.js';
-import { bringUpHelp, bringUpNotes } from './bring-up-help.js';
-import { CaptureSlot, shapeOf } from './capture-slot.js';
+import { bringUpHelpFor } from './bring-up-help.js';
+import { CaptureSlot } from './capture-slot.js';
 import { CheckPanel } from './check-panel.js';
-import { expectedTrace, nominalOutputs } from './expected-trace.js';
 import { formatReading } from './format-band.js';
 import { InputLine } from './input-line.js';
 import { bringUpLayout } from './layout.js';
+import { reworkDefaults } from './rework-defaults.js';
 import { ReworkForm } from './rework-form.js';
 import { CautionsPanel, EndPanel, PowerOffPanel } from './safety-panels.js';
 import { StageList } from './stage-list.js';
 import { useBringUpKeys } from './use-bring-up-keys.js';
+import { useBringUpScreenState } from './use-bring-up-screen-state.js';
 import { knownParts, useBringUpState } from './use-bring-up-state.js';
-import { reworkDefaults } from './rework-defaults.js';
+import { useCheckFigures } from './use-check-figures.js';
 import { VerdictPanel } from './verdict-panel.js';
-import { endOptions } from '../../run/gates.js';
 
 const MemoHeader = memo(Header);
 const MemoKeyBar = memo(KeyBar);
@@ -32,30 +30,25 @@ const keyHints: readonly KeyHint[] = [['Tab', 'list/input'], ['r', 'rework'], ['
 /** The bring-up screen: walks one board through every check in a safe order. */
 export function BringUpScreen(props: BringUpProps) {
   const { plan, targets, serial, width, height, isActive = true, onExit } = props;
-  const b = useBringUpState(props);
-  const { state, target, status } = b;
-  const keys = useBringUpKeys(b, { isActive, onExit, onDirtyChange: props.onDirtyChange, onTypingChange: props.onTypingChange, reworkDefaults: () => reworkDefaults(plan, b.explanationRef.current.explanations) });
-  const outputs = useMemo(() => nominalOutputs(plan), [plan]);
-  const trace = useMemo(() => (target ? expectedTrace(plan, targets.targets, target, outputs) : null), [plan, targets, target, outputs]);
-  const shape = useMemo(() => (trace ? shapeOf(trace.samples) : undefined), [trace]);
-  const scope = useMemo(() => (target?.instrument === 'scope' && trace ? scopeSetup(trace.frequency, trace.vpp) : null), [target, trace]);
+  const run = useBringUpState(props);
+  const { state, target, status, lastTarget, explanation } = run;
+  const ui = useBringUpScreenState(run, { onExit, onDirtyChange: props.onDirtyChange, onTypingChange: props.onTypingChange, reworkDefaults: () => reworkDefaults(plan, run.explanationRef.current.explanations) });
+  useBringUpKeys(run, ui, isActive);
+  const { focus } = ui.screen;
+  const { trace, shape, scope, verdict, lock } = useCheckFigures(plan, targets, state, target, lastTarget);
   const last = state.last;
-  const lastTarget = b.lastTarget;
-  const result = useMemo(() => (last && lastTarget ? judge(plan, lastTarget, last.value) : null), [plan, last, lastTarget]);
-  const lock = useMemo(() => (target ? lockReason(state, target.check) : null), [state, target]);
   const checkRows = 4 + (scope ? 1 : 0) + (lock ? 1 : 0);
-  const wanted = result ? 2 + Math.min(3, b.explanation.explanations.length) + Math.min(2, b.explanation.hints.length) + (result.warnings.length > 0 ? 1 : 0) : 0;
+  const verdictRows = verdict ? 2 + Math.min(3, explanation.explanations.length) + Math.min(2, explanation.hints.length) + (verdict.warnings.length > 0 ? 1 : 0) : 0;
   const labelWidth = Math.max(...state.targets.map((t) => t.check.length - t.stage.length - 1), 8);
-  const layout = bringUpLayout(width, height, checkRows, wanted, labelWidth);
+  const layout = bringUpLayout(width, height, checkRows, verdictRows, labelWidth);
   const done = state.targets.length - openChecks(state).length;
-  const overlay = keys.focus === 'rework' || keys.focus === 'end' || keys.focus === 'capture';
-  const { captured } = b;
+  const isOverlay = focus === 'rework' || focus === 'end' || focus === 'capture';
+  const { captured } = run;
   // Drawn again only when the check, the size or a capture changes, not on every keystroke.
   const chart = useMemo(
-    () => (trace && layout.traceRows > 0 && !overlay ? traceChart(trace.samples, captured(trace.output, trace.samples), { width: layout.panelWidth, height: layout.traceRows, ...(trace.band ? { band: trace.band } : {}) }) : null),
-    [trace, layout.traceRows, layout.panelWidth, overlay, captured],
+    () => (trace && layout.traceRows > 0 && !isOverlay ? traceChart(trace.samples, captured(trace.output, trace.samples), { width: layout.panelWidth, height: layout.traceRows, ...(trace.band ? { band: trace.band } : {}) }) : null),
+    [trace, layout.traceRows, layout.panelWidth, isOverlay, captured],
   );
-  const powerReading = last ? formatReading(last.value, last.unit) : '';
   const next = state.suggestion;
   const nextLine = state.ended
     ? `run ended: ${state.ended} · Esc back to the bench`
@@ -63,27 +56,30 @@ export function BringUpScreen(props: BringUpProps) {
       ? `next: ${next.check} — ${next.why}${next.check === state.selected ? '' : ' (Enter)'}`
       : 'every check has a reading: e ends the run';
   const body = (() => {
-    if (keys.focus === 'help') return <HelpBox title="bring-up" entries={bringUpHelp} notes={bringUpNotes} width={width} />;
+    if (focus === 'help') {
+      const help = bringUpHelpFor(ui.screen.helpFrom, state.isPowerOff);
+      return <HelpBox title="bring-up" topic={help.topic} entries={help.entries} notes={help.notes} width={width} />;
+    }
     if (status.kind !== 'loading' && state.isCautionsPending && !state.ended) return <CautionsPanel width={width} height={layout.bodyRows} isResumed={state.readings.length > 0} />;
-    if (state.isPowerOff) return <PowerOffPanel width={width} reading={powerReading} />;
+    if (state.isPowerOff) return <PowerOffPanel width={width} reading={last ? formatReading(last.value, last.unit) : ''} />;
     return (
       <Box flexDirection="row" height={layout.bodyRows}>
-        {layout.listWidth > 0 ? <StageList state={state} cursor={keys.cursor} isFocused={keys.focus === 'list'} width={layout.listWidth} height={layout.bodyRows} /> : null}
+        {layout.listWidth > 0 ? <StageList state={state} cursor={ui.screen.listCursor} isFocused={focus === 'list'} width={layout.listWidth} height={layout.bodyRows} /> : null}
         <Box flexDirection="column" width={layout.panelWidth} height={layout.bodyRows} overflow="hidden" marginLeft={layout.listWidth > 0 ? 1 : 0}>
-          {keys.focus === 'capture' && target ? (
+          {focus === 'capture' && target ? (
             <>
-              <Text bold wrap="truncate-end">capture for {target.check}{target.testPoint ? ` at ${target.testPoint}` : ''}</Text>
-              <CaptureSlot expect={shape} width={layout.panelWidth} onDone={(c) => { keys.closeCapture(); void b.attachCapture(c, shape); }} onCancel={keys.closeCapture} />
+              <Box flexShrink={0}><Text bold wrap="truncate-end">capture for {target.check}{target.testPoint ? ` at ${target.testPoint}` : ''}</Text></Box>
+              <CaptureSlot expect={shape} width={layout.panelWidth} onDone={(c) => { ui.closeCapture(); void run.attachCapture(c, shape); }} onCancel={ui.closeCapture} />
             </>
           ) : (
             <>
               {target ? <CheckPanel plan={plan} target={target} scope={scope} lock={lock} width={layout.panelWidth} /> : <Text>no check selected</Text>}
-              {keys.focus === 'rework' ? <ReworkForm {...keys.rework} parts={knownParts(plan)} width={layout.panelWidth} /> : null}
-              {keys.focus === 'end' ? <EndPanel options={endOptions(state)} cursor={keys.endCursor} width={layout.panelWidth} isAllMeasured={openChecks(state).length === 0} /> : null}
+              {focus === 'rework' ? <ReworkForm {...ui.screen.rework} cursor={ui.reworkField.cursor} parts={knownParts(plan)} width={layout.panelWidth} /> : null}
+              {focus === 'end' ? <EndPanel options={endOptions(state)} cursor={ui.screen.endCursor} width={layout.panelWidth} isAllMeasured={openChecks(state).length === 0} /> : null}
               {chart ? <Text>{chart}</Text> : null}
-              {!overlay && last && lastTarget && result && layout.verdictRows > 0 ? <VerdictPanel reading={last} target={lastTarget} result={result} explanations={b.explanation.explanations} hints={b.explanation.hints} maxLines={layout.verdictRows} width={layout.panelWidth} /> : null}
+              {!isOverlay && last && lastTarget && verdict && layout.verdictRows > 0 ? <VerdictPanel reading={last} target={lastTarget} result={verdict} explanations={explanation.explanations} hints={explanation.hints} maxLines={layout.verdictRows} width={layout.panelWidth} /> : null}
               <Text wrap="truncate-end" {...toneProps('accent')}>{nextLine}</Text>
-              <InputLine check={state.selected} text={keys.text} status={status} isFocused={keys.focus === 'input'} placeholder={next && next.check !== state.selected ? 'type a reading, or Enter for the next check' : 'type a reading'} width={layout.panelWidth} />
+              <InputLine check={state.selected} text={ui.reading.value} cursor={ui.reading.cursor} status={status} isFocused={focus === 'input'} placeholder={next && next.check !== state.selected ? 'type a reading, or Enter for the next check' : 'type a reading'} width={layout.panelWidth} />
             </>
           )}
         </Box>
@@ -92,7 +88,7 @@ export function BringUpScreen(props: BringUpProps) {
   })();
   return (
     <Box flexDirection="column" width={width}>
-      <MemoHeader screen="bring-up" detail={`${serial} · ${plan.plan}`} note={`${done}/${state.targets.length} read${b.runId ? ` · run ${b.runId}` : ''}`} width={width} />
+      <MemoHeader screen="bring-up" detail={`${serial} · ${plan.plan}`} note={`${done}/${state.targets.length} read${run.runId ? ` · run ${run.runId}` : ''}`} width={width} />
       {body}
       <MemoKeyBar hints={keyHints} width={width} />
     </Box>

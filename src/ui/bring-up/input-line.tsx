@@ -1,4 +1,5 @@
 import { Box, Text } from 'ink';
+import { FieldText } from '../components/text-field.js';
 import { toneProps } from '../theme.js';
 import type { Status } from './use-bring-up-state.js';
 
@@ -6,6 +7,8 @@ export interface InputLineProps {
   /** The check the value goes to. */
   readonly check: string | null;
   readonly text: string;
+  /** Where the cursor stands in the text. @default text.length */
+  readonly cursor?: number;
   readonly status: Status;
   /** Whether the input has the keyboard. @default true */
   readonly isFocused?: boolean;
@@ -15,13 +18,12 @@ export interface InputLineProps {
 }
 
 /** `osc.freq › 2.49k█` and, under it, what happened to the last value. */
-export function InputLine({ check, text, status, isFocused = true, placeholder, width }: InputLineProps) {
+export function InputLine({ check, text, cursor = text.length, status, isFocused = true, placeholder, width }: InputLineProps) {
   return (
     <Box flexDirection="column" width={width}>
       <Text wrap="truncate-start">
         <Text bold>{check ?? '—'} › </Text>
-        {text}
-        {isFocused ? <Text inverse> </Text> : null}
+        <FieldText value={text} cursor={cursor} isFocused={isFocused} />
         {text === '' ? <Text {...toneProps('dim')}> {placeholder}</Text> : null}
       </Text>
       <StatusLine status={status} />

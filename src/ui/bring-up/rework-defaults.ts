@@ -1,5 +1,5 @@
 import type { Plan } from '../../plan/types.js';
-import type { ReworkFields } from './use-bring-up-state.js';
+import type { ReworkFields } from './screen-state.js';
 import type { ExplanationView } from './verdict-panel.js';
 
 /** The rework form's start: the most likely part from the latest explanation, with its fitted value. */

@@ -1,13 +1,14 @@
 import { Box, Text } from 'ink';
 import { toneProps } from '../theme.js';
-import type { ReworkFields } from './use-bring-up-state.js';
-
-export const reworkFieldNames = ['part', 'from', 'to', 'note'] as const;
-export type ReworkField = (typeof reworkFieldNames)[number];
+import { FieldText } from '../components/text-field.js';
+import { type ReworkField, type ReworkFields, reworkFieldNames } from './screen-state.js';
 
 export interface ReworkFormProps {
   readonly fields: ReworkFields;
-  readonly focus: ReworkField;
+  /** The field being edited. */
+  readonly field: ReworkField;
+  /** The cursor in that field. */
+  readonly cursor: number;
   readonly error: string | null;
   readonly isSaving: boolean;
   /** Parts of the plan, as a reminder of the names. */
@@ -18,7 +19,7 @@ export interface ReworkFormProps {
 const labels: Readonly<Record<ReworkField, string>> = { part: 'part', from: 'from', to: 'to', note: 'note' };
 
 /** The rework note: which part changed, from what, to what, and why. */
-export function ReworkForm({ fields, focus, error, isSaving, parts, width }: ReworkFormProps) {
+export function ReworkForm({ fields, field, cursor, error, isSaving, parts, width }: ReworkFormProps) {
   return (
     <Box flexDirection="column" borderStyle="single" paddingX={1} width={width}>
       <Text bold {...toneProps('title')}>
@@ -26,9 +27,8 @@ export function ReworkForm({ fields, focus, error, isSaving, parts, width }: Rew
       </Text>
       {reworkFieldNames.map((name) => (
         <Text key={name} wrap="truncate-start">
-          <Text bold>{name === focus ? '›' : ' '} {labels[name].padEnd(5)}</Text>
-          {fields[name]}
-          {name === focus ? <Text inverse> </Text> : null}
+          <Text bold>{name === field ? '›' : ' '} {labels[name].padEnd(5)}</Text>
+          <FieldText value={fields[name]} cursor={name === field ? cursor : fields[name].length} isFocused={name === field && !isSaving} />
         </Text>
       ))}
       <Text wrap="truncate-end" {...toneProps('dim')}>

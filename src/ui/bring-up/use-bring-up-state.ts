@@ -8,10 +8,13 @@ import { createRunState } from '../../run/create.js';
 import { lockReason } from '../../run/gates.js';
 import { runReducer } from '../../run/reducer.js';
 import type { EndOutcome, RunAction, RunState } from '../../run/types.js';
-import { useLiveState } from './use-live-state.js';
+import { useLiveState } from '../components/use-live-state.js';
 import type { BringUpProps } from '../screen-props.js';
-import { type CaptureFigures, captureReadings, captureWarnings } from './capture-readings.js';
-import { outputOf } from './expected-trace.js';
+import { captureReadings } from '../../run/capture-readings.js';
+import { outputOf } from '../../plan/check-output.js';
+import { captureWarnings } from '../../signal/capture-warnings.js';
+import type { CaptureFigures } from './capture-slot.js';
+import type { ReworkFields } from './screen-state.js';
 import { toRunReading, toRunRework } from './to-run-records.js';
 
 /** What the screen tells the technician about the latest action. */
@@ -24,14 +27,6 @@ export type Status =
   | { readonly kind: 'warning'; readonly message: string }
   | { readonly kind: 'rejected'; readonly message: string }
   | { readonly kind: 'error'; readonly message: string };
-
-/** The fields of a rework note. */
-export interface ReworkFields {
-  readonly part: string;
-  readonly from: string;
-  readonly to: string;
-  readonly note: string;
-}
 
 const message = (error: unknown): string => (error instanceof Error ? error.message : String(error));
 
@@ -193,7 +188,7 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
         const drawn = capture.period && capture.period.length > 1 ? capture.period : capture.samples.slice(0, Math.max(2, Math.min(capture.samples.length, periods)));
         if (where) setCaptures((m) => new Map(m).set(where, drawn));
         if (where && capture.period && capture.period.length > 1) aligned.current.add(where);
-        const planned = captureReadings(plan, targets.targets, t, capture, (check) => lockReason(stateRef.current, check) === null);
+        const planned = captureReadings(plan, targets.targets, t, { name: capture.name, figures: capture.measurements }, (check) => lockReason(stateRef.current, check) === null);
         if (planned.length === 0) {
           setStatus({ kind: 'rejected', message: `the capture has no figure for ${t.check}; it is saved as ${file}` });
           return;

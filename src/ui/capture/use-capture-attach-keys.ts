@@ -1,45 +1,34 @@
 import { type Key, useInput } from 'ink';
 import type { RefObject } from 'react';
+import type { TextField } from '../components/use-text-field.js';
 import type { AttachState } from './use-capture-attach-state.js';
-import { erasures } from '../components/key-chunks.js';
 
 export interface AttachKeyActions {
-  readonly type: (chars: string) => void;
-  readonly erase: () => void;
-  readonly complete: () => void;
-  readonly load: () => void;
   readonly back: () => void;
   readonly attach: () => void;
-  readonly cancel: () => void;
+  /** Open or close the box's help (`?`; in the path field only while it is empty). */
+  readonly toggleHelp: () => void;
+  readonly isHelpOpen: () => boolean;
 }
 
 /**
- * Keys of the attach box. Path: type, Backspace, Tab completes, Enter reads,
- * Esc cancels. Reading: Esc stops waiting. Figures: Enter attaches, Esc picks
- * another file.
+ * Keys of the attach box, through one listener that asks the live phase
+ * which control has them. Path: the text field (Tab completes, Enter reads,
+ * Esc cancels; a pasted path ending in a newline is read). Reading: Esc stops
+ * waiting. Figures: Enter attaches, Esc or Backspace picks another file.
  */
-export function useCaptureAttachKeys(latest: RefObject<AttachState>, actions: AttachKeyActions, isActive: boolean): void {
+export function useCaptureAttachKeys(latest: RefObject<AttachState>, field: TextField, actions: AttachKeyActions, isActive: boolean): void {
   useInput(
     (input: string, key: Key) => {
       const { phase } = latest.current;
-      if (phase.kind === 'loading') {
+      if (actions.isHelpOpen()) {
+        if (input === '?' || key.escape) actions.toggleHelp();
+      } else if (phase.kind === 'path') field.handle(input, key);
+      else if (input === '?') actions.toggleHelp();
+      else if (phase.kind === 'loading') {
         if (key.escape) actions.back();
-        return;
-      }
-      if (phase.kind === 'done') {
-        if (key.return) actions.attach();
-        else if (key.escape || key.backspace || key.delete) actions.back();
-        return;
-      }
-      if (key.escape) actions.cancel();
-      else if (key.return) actions.load();
-      else if (key.tab) actions.complete();
-      else if (erasures(input, key) > 0) for (let n = erasures(input, key); n > 0; n--) actions.erase();
-      else if (!key.ctrl && !key.meta && !key.upArrow && !key.downArrow && !key.leftArrow && !key.rightArrow && input.length > 0) {
-        // Pasted text arrives as one chunk; keep only its printable part.
-        const printable = input.replace(/[\u0000-\u001F\u007F]/g, '');
-        if (printable) actions.type(printable);
-      }
+      } else if (key.return) actions.attach();
+      else if (key.escape || key.backspace || key.delete) actions.back();
     },
     { isActive },
   );

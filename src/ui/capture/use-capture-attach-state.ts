@@ -1,4 +1,5 @@
-import { useCallback, useEffect, useRef, useState } from 'react';
+import { useCallback, useEffect, useRef } from 'react';
+import { useLiveState } from '../components/use-live-state.js';
 import { type AnalyzedCapture, analyzeCaptureFile } from '../../signal/analyze-capture.js';
 import { CaptureError } from '../../signal/types.js';
 import { completePath, expandPath } from './path-complete.js';
@@ -11,7 +12,6 @@ export type AttachPhase =
   | { readonly kind: 'done'; readonly path: string; readonly analyzed: AnalyzedCapture };
 
 export interface AttachState {
-  readonly text: string;
   readonly phase: AttachPhase;
   /** Names offered by the last Tab. */
   readonly candidates: readonly string[];
@@ -21,37 +21,39 @@ export interface AttachState {
 
 /** The attach box's state and its moves; reading runs in the background. */
 export function useCaptureAttachState(cwd: string) {
-  const [state, setState] = useState<AttachState>({ text: '', phase: { kind: 'path' }, candidates: [], message: null });
-  // The latest state for key handlers: keys can arrive before the next render.
-  const latest = useRef(state);
-  latest.current = state;
+  // `latest` is the state for key handlers: keys can arrive before the next render.
+  const [state, setState, latest] = useLiveState<AttachState>({ phase: { kind: 'path' }, candidates: [], message: null });
   // Each read gets a number; a read that was cancelled (or outlived the box) is ignored.
   const readId = useRef(0);
   useEffect(() => () => void (readId.current += 1), []);
 
-  const type = useCallback((chars: string) => setState((s) => ({ ...s, text: s.text + chars, candidates: [], message: null })), []);
-  const erase = useCallback(() => setState((s) => ({ ...s, text: s.text.slice(0, -1), candidates: [], message: null })), []);
-  const complete = useCallback(() => {
-    setState((s) => {
-      const c = completePath(s.text, cwd);
+  /** The path was edited: the last completion's names and message no longer apply. */
+  const edited = useCallback(() => setState((s) => (s.candidates.length === 0 && s.message === null ? s : { ...s, candidates: [], message: null })), [setState]);
+  /** Complete the typed path (Tab); returns the completed text. */
+  const complete = useCallback(
+    (text: string): string => {
+      const c = completePath(text, cwd);
       const message = c.matches === 0 ? 'nothing there starts with that' : c.matches > c.candidates.length && c.candidates.length > 0 ? `${c.matches} names fit; type more` : null;
-      return { ...s, text: c.text, candidates: c.candidates, message };
-    });
-  }, [cwd]);
+      setState((s) => ({ ...s, candidates: c.candidates, message }));
+      return c.text;
+    },
+    [cwd, setState],
+  );
   const back = useCallback(() => {
     readId.current += 1;
     setState((s) => ({ ...s, phase: { kind: 'path' } }));
-  }, []);
+  }, [setState]);
 
   const load = useCallback(
-    () => {
-      const entry = parseEntry(latest.current.text);
+    (text: string) => {
+      const entry = parseEntry(text);
       if (!entry.ok) {
         setState((s) => ({ ...s, message: entry.message }));
         return;
       }
       const id = ++readId.current;
       const path = expandPath(entry.path, cwd);
+      // `latest` follows at once: a key right after Enter (Esc: stop waiting) must find the new phase.
       setState((s) => ({ ...s, candidates: [], message: null, phase: { kind: 'loading', path, fraction: 0 } }));
       let shown = 0;
       analyzeCaptureFile(path, { ...entry.options, keepBytes: true, name: entry.path }, (fraction) => {
@@ -70,7 +72,7 @@ export function useCaptureAttachState(cwd: string) {
         },
       );
     },
-    [cwd],
+    [cwd, setState],
   );
-  return { state, latest, type, erase, complete, load, back };
+  return { state, latest, edited, complete, load, back };
 }

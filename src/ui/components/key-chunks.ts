@@ -10,14 +10,3 @@ export function splitKeys(input: string, key: Key): readonly string[] {
   if (input.length <= 1 || key.ctrl || key.meta || /[\u0000-\u001F\u007F]/.test(input)) return [input];
   return [...input];
 }
-
-/**
- * How many characters a key erases. One Backspace or Delete is 1; a run of
- * them delivered in one chunk (a held key over ssh or tmux: `"\x7f\x7f\x7f"`)
- * reaches Ink as an unnamed key whose input is the raw run, so it is counted
- * here — otherwise a text field would drop it and erase nothing.
- */
-export function erasures(input: string, key: Key): number {
-  if (key.backspace || key.delete) return 1;
-  return /^[\u0008\u007F]+$/.test(input) ? input.length : 0;
-}

@@ -56,12 +56,24 @@ export function WithTargets({ catalog, planHash, children, onExit, isActive = tr
       isLive = false;
     };
   }, [catalog, planHash]);
-  useInput((_input, key) => key.escape && onExit(), { isActive: isActive && state.kind !== 'ready' });
+  const [isHelpOpen, setHelpOpen] = useState(false);
+  useInput(
+    (input, key) => {
+      if (key.escape) onExit();
+      else if (input === '?') setHelpOpen((open) => !open);
+    },
+    { isActive: isActive && state.kind !== 'ready' },
+  );
   if (state.kind === 'ready') return <>{children(state.plan, state.targets)}</>;
   return (
     <Box flexDirection="column">
       {state.kind === 'loading' ? <Text>{state.what}</Text> : <Text {...toneProps('bad')}>✗ {state.message}</Text>}
-      <Text {...toneProps('dim')}>Esc back</Text>
+      <Text {...toneProps('dim')}>Esc back · ? help</Text>
+      {isHelpOpen ? (
+        <Text wrap="wrap" {...toneProps('dim')}>
+          Help — the targets of a plan follow from its part values and tolerances: the worst case over the tolerance box and a seeded Monte Carlo. They are computed once per plan and kept in a cache, so the next visit opens at once. Esc goes back to the bench. ? closes this help.
+        </Text>
+      ) : null}
     </Box>
   );
 }

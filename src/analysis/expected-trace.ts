@@ -1,9 +1,15 @@
-import type { Target } from '../../analysis/types.js';
-import type { Waveform } from '../../circuit/types.js';
-import { vpp } from '../../circuit/waveform.js';
-import { buildChain } from '../../plan/chain.js';
-import type { Plan } from '../../plan/types.js';
-import type { TraceBand } from '../charts/trace.js';
+import type { Waveform } from '../circuit/types.js';
+import { vpp } from '../circuit/waveform.js';
+import { buildChain } from '../plan/chain.js';
+import { outputOf } from '../plan/check-output.js';
+import type { Plan } from '../plan/types.js';
+import type { Target } from './types.js';
+
+/** The band a trace may lie in, sample by sample (volts). */
+export interface TraceBand {
+  readonly min: Float64Array;
+  readonly max: Float64Array;
+}
 
 /** What the trace panel draws for a check: two periods of the ideal waveform and its amplitude band. */
 export interface ExpectedTrace {
@@ -24,21 +30,6 @@ export function nominalOutputs(plan: Plan): Readonly<Record<string, Waveform>> {
     // A chain that cannot be evaluated has nothing to draw; the plan screen reports why.
     return {};
   }
-}
-
-/** The output a check is probed at (`osc.triangle` for `osc.triangle.vpp`, the first output for `osc.freq`), or null for rail checks. */
-export function outputOf(plan: Plan, target: Target): string | null {
-  const stage = plan.stages.find((s) => s.id === target.stage);
-  if (!stage) return null;
-  const key = target.check.slice(stage.id.length + 1);
-  let spec;
-  try {
-    spec = stage.module.checks(stage.settings).find((c) => c.key === key);
-  } catch {
-    spec = undefined;
-  }
-  const output = spec?.output ?? stage.module.outputs.find((o) => key.startsWith(`${o}.`)) ?? stage.module.outputs[0];
-  return output ? `${stage.id}.${output}` : null;
 }
 
 /**
