@@ -108,3 +108,37 @@ for (const s of plan.stages) {
   perStage.push(`${s.id} (${s.kind}) ${((t / n) * 1000).toFixed(1)} µs`);
 }
 console.log(`per stage evaluate (CPU, as a trial): ${perStage.join(', ')}`);
+
+// Loading (issue 11) against the code before it, in this same run: set
+// PROBEBOOK_BASELINE to a folder holding an older copy of the sources and demo
+// plans (e.g. `git archive <commit> src data demo | tar -x -C /tmp/base`, with
+// node_modules linked in) and both demo plans are timed with both, alternately.
+const baseline = process.env['PROBEBOOK_BASELINE'];
+const demoPlans = ['demo/exciter.plan.json', 'demo/line-driver.plan.json'];
+{
+  const mine = await Promise.all(demoPlans.map((f) => loadPlanFile(f)));
+  type Compute = (p: unknown, o: { trials: number; seed: number }) => unknown;
+  let old: { compute: Compute; plans: unknown[] } | undefined;
+  if (baseline) {
+    const oldTargets = (await import(`${baseline}/src/analysis/targets.ts`)) as { computeTargets: Compute };
+    const oldLoad = (await import(`${baseline}/src/plan/load.ts`)) as { loadPlanFile: (f: string) => Promise<unknown> };
+    old = { compute: oldTargets.computeTargets, plans: await Promise.all(demoPlans.map((f) => oldLoad.loadPlanFile(`${baseline}/${f}`))) };
+  }
+  demoPlans.forEach((file, k) => {
+    const now: number[] = [];
+    const before: number[] = [];
+    const p = mine[k];
+    if (!p) return;
+    computeTargets(p, { trials: 500 });
+    if (old) old.compute(old.plans[k], { trials: 500, seed: 1 });
+    for (let r = 0; r < rounds; r++) {
+      now.push(time(() => computeTargets(p, { trials, seed: 100 + r })));
+      if (old) {
+        const o = old;
+        before.push(time(() => o.compute(o.plans[k], { trials, seed: 100 + r })));
+      }
+    }
+    const line = `targets ${file}: ${ms(median(now))} with loading`;
+    console.log(old ? `${line}, ${ms(median(before))} before it (${baseline}); ratio ${(median(now) / median(before)).toFixed(2)}× (goal ≤ 1.5×)` : `${line} (set PROBEBOOK_BASELINE to compare with older sources)`);
+  });
+}

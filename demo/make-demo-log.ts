@@ -134,18 +134,13 @@ async function read(b: Board, check: string, value: number, minutes = 1.5): Prom
   return verdict;
 }
 
-/** A design figure (a dissipation) is never probed at the bench, so the demo never reads one. */
-function isDesignFigure(plan: Plan, check: string): boolean {
-  const stage = plan.stages.find((s) => check.startsWith(`${s.id}.`));
-  return stage?.module.checks(stage.settings).some((c) => `${stage.id}.${c.key}` === check && c.isDesignFigure === true) ?? false;
-}
-
 /** Good readings for the checks from `from` up to (not including) `until`, in bring-up order. */
 async function readGood(b: Board, from?: string, until?: string): Promise<void> {
   const start = from ? b.targets.findIndex((t) => t.check === from) : 0;
   const end = until ? b.targets.findIndex((t) => t.check === until) : b.targets.length;
   for (const t of b.targets.slice(Math.max(0, start), end < 0 ? b.targets.length : end)) {
-    if (isDesignFigure(b.plan, t.check)) continue;
+    // Design figures (a peak base current) have no test point: nobody reads them at the bench.
+    if (t.isDesignFigure) continue;
     let verdict = await read(b, t.check, goodValue(t));
     // A stray marginal from the random draw is probed again, as a technician would;
     // not on a band too narrow for any reading to pass (a zero-width band).

@@ -1,4 +1,4 @@
-import type { Chain, ChainDetail } from '../plan/chain.js';
+import { type Chain, type ChainDetail, spreadOf } from '../plan/chain.js';
 import type { DesignWarning } from './types.js';
 
 /**
@@ -23,9 +23,9 @@ export function cornerWarnings(chain: Chain, perSigma: readonly Float64Array[], 
       let moved = false;
       chain.variables.forEach((v, i) => {
         const d = perSigma[i]?.[c] ?? 0;
-        let sign = d === 0 || v.tol === 0 ? 0 : Math.sign(d) * direction;
+        let sign = d === 0 || spreadOf(v) === 0 ? 0 : Math.sign(d) * direction;
         if (v.stage === 'rails' && rails !== 'follow') sign = rails === 'low' ? -1 : 1;
-        x[i] = v.nominal * (1 + sign * v.tol);
+        x[i] = v.nominal + sign * spreadOf(v);
         if (sign !== 0) moved = true;
       });
       if (!moved) continue;

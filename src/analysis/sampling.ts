@@ -1,4 +1,4 @@
-import type { Chain } from '../plan/chain.js';
+import { type Chain, spreadOf } from '../plan/chain.js';
 import { type Distribution, createRandom, drawDeviation } from './random.js';
 
 /** Monte Carlo results: one Float64Array of values per check (chain order), and the count of failed trials per check. */
@@ -27,10 +27,11 @@ export function sampleChain(chain: Chain, options: SampleOptions): Samples {
   const { trials, seed, distribution, onProgress } = options;
   const random = createRandom(seed);
   const nCheck = chain.checks.length;
-  const varied = Int32Array.from(
-    chain.variables.flatMap((v, i) => (v.tol > 0 ? [i] : [])),
-  );
-  const spread = Float64Array.from(varied, (i) => (chain.variables[i]?.nominal ?? 0) * (chain.variables[i]?.tol ?? 0));
+  const varied = Int32Array.from(chain.variables.flatMap((v, i) => (spreadOf(v) > 0 ? [i] : [])));
+  const spread = Float64Array.from(varied, (i) => {
+    const v = chain.variables[i];
+    return v ? spreadOf(v) : 0;
+  });
   const x = Float64Array.from(chain.nominal);
   const out = new Float64Array(nCheck);
   const values = Array.from({ length: nCheck }, () => new Float64Array(trials));

@@ -1,4 +1,4 @@
-import type { Chain } from '../plan/chain.js';
+import { type Chain, spreadOf } from '../plan/chain.js';
 import type { Contributor } from './types.js';
 
 /**
@@ -15,8 +15,8 @@ export function sensitivities(chain: Chain): Float64Array[] {
   const down = new Float64Array(nCheck);
   return chain.variables.map((v, i) => {
     const d = new Float64Array(nCheck);
-    if (v.tol <= 0 || v.nominal === 0) return d;
-    const sigma = (v.nominal * v.tol) / 3;
+    const sigma = spreadOf(v) / 3;
+    if (!(sigma > 0)) return d;
     x[i] = v.nominal + sigma;
     chain.evaluate(x, up);
     x[i] = v.nominal - sigma;

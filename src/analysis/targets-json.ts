@@ -13,8 +13,11 @@ function band(b: Band): { min: number | null; max: number | null } {
  * The `targets --json` document (DESIGN §7, contract keys), in SI base units.
  * Unbounded band sides (a rail's resistance to ground has no maximum) are
  * written as `null`, since JSON has no infinity. Extra keys per target:
- * `phase`, `instrument`, `how`, `contributors`, and `floor` where the
- * quantity has a physical floor (the verdict guards only the band's open side).
+ * `phase`, `instrument`, `how`, `contributors`, `floor` where the
+ * quantity has a physical floor (the verdict guards only the band's open side),
+ * and `designFigure: true` on a figure nobody probes at a test point (a peak base current),
+ * and `method` (how the worst-case band was bound: `corners`, `monotone` or
+ * `search`; absent on limit checks).
  */
 export function targetsJson(set: TargetSet): unknown {
   return {
@@ -33,6 +36,8 @@ export function targetsJson(set: TargetSet): unknown {
       how: t.how,
       contributors: t.contributors.map((c) => ({ part: c.part, share: c.share })),
       ...(t.floor === undefined ? {} : { floor: t.floor }),
+      ...(t.isDesignFigure ? { designFigure: true } : {}),
+      ...(t.method ? { method: t.method } : {}),
     })),
     warnings: set.warnings.map((w) => ({ stage: w.stage, message: w.message })),
   };

@@ -35,9 +35,10 @@ export const statCoverage = { low: 0.00135, high: 0.99865 } as const;
  * - `rails.idle-current` (A): 0 … idleCurrent.max (+∞ when the plan sets none);
  *   its nominal is the middle of that band (the plan gives only a limit).
  * - `rails.<id>.dc` and every stage check: nominal from the chain at nominal
- *   values; worst-case band from the tolerance box (see `worstCase`) widened by
- *   the Monte Carlo extremes; statistical band the 0.135–99.865 % interval of a
- *   seeded Monte Carlo over all variables at once.
+ *   values; worst-case band from a deterministic search of the tolerance box
+ *   (see `worstCase`: the same for any trial count or seed), with the method
+ *   that bound it; statistical band the 0.135–99.865 % interval of a seeded
+ *   Monte Carlo over all variables at once, held inside the worst-case band.
  *
  * The first two are limit checks (`isLimit`): callers show no deviation from
  * their nominal. Unbounded band sides are ±Infinity here; `targetsJson` writes them as null.
@@ -67,7 +68,9 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
   const nominalOut = Float64Array.from(chain.checks, (c) => nominalDetail.values[c.check] ?? Number.NaN);
 
   const perSigma = sensitivities(chain);
-  const worst = worstCase(chain, perSigma);
+  // The worst case is its own deterministic search of the tolerance box: it never depends on the Monte Carlo.
+  // Upstream stages, and the downstream ones whose inputs load this stage's chain (their parts move its checks too).
+  const worst = worstCase(chain, perSigma, { upstream: (id) => [...upstreamOf(plan.stages, id), ...chain.loaders(id)] });
   const samples = sampleChain(chain, {
     trials,
     seed,
@@ -94,6 +97,7 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
       upstream,
       ...(stage?.input ? { input: `${stage.input.stage}.${stage.input.output}` } : {}),
       ...(c.captureFigure ? { captureFigure: c.captureFigure } : {}),
+      ...(c.isDesignFigure ? { isDesignFigure: true } : {}),
     };
     if (c.phase === 'unpowered') {
       const band = { min: plan.railShortMin, max: Infinity };
@@ -106,11 +110,13 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
     }
     const nominal = nominalOut[i] as number;
     const tails = tailFigures(samples.values[i] as Float64Array, statCoverage.low, statCoverage.high);
-    const statMin = tails.low;
-    const statMax = tails.high;
-    // The statistical band may never lie outside the worst case: widen by the sampled extremes.
-    const lo = finiteMin(worst.min[i] as number, tails.min, nominal);
-    const hi = finiteMax(worst.max[i] as number, tails.max, nominal);
+    const lo = finiteMin(worst.min[i] as number, nominal);
+    const hi = finiteMax(worst.max[i] as number, nominal);
+    // The statistical band lies inside the worst case by construction (every trial is a point of
+    // the box); a quantile past a searched bound can only be the search's shortfall or rounding
+    // between the two evaluation paths, so it is held to the bound rather than moving it.
+    const statMin = Number.isFinite(tails.low) ? Math.min(Math.max(tails.low, lo), hi) : tails.low;
+    const statMax = Number.isFinite(tails.high) ? Math.max(Math.min(tails.high, hi), lo) : tails.high;
     const missing = samples.missing[i] ?? 0;
     if (missing > 0) {
       const entry = gaps.get(c.stage) ?? { most: 0, checks: [] };
@@ -125,6 +131,7 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
       stat: { min: statMin, max: statMax },
       // A hand-written target's spread is its own band, not any part's.
       contributors: stage?.module.traits?.isHandWritten ? [] : contributorsOf(chain, perSigma, i, nominal),
+      ...(worst.method[i] ? { method: worst.method[i] } : {}),
     };
   });
 

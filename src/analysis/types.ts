@@ -51,8 +51,17 @@ export interface Target {
   readonly upstream?: readonly string[];
   /** The upstream output this check's stage takes (`"osc.triangle"`), when it has an input. */
   readonly input?: string;
+  /**
+   * How the worst-case band was bound: every corner of the box (`corners`), the
+   * sensitivity corner confirmed by a local search (`monotone`), or a search of
+   * the box for a check that does not move one way with every part (`search`).
+   * Absent on limit checks (their band is a threshold).
+   */
+  readonly method?: 'corners' | 'monotone' | 'search';
   /** Which figure of a scope capture answers the check, as its stage kind declares (absent: none). */
   readonly captureFigure?: CheckSpec['captureFigure'];
+  /** A design figure nobody probes at a test point (a base drive current): listed, never asked for. */
+  readonly isDesignFigure?: boolean;
 }
 
 export interface DesignWarning {

@@ -1,61 +1,285 @@
-import type { Chain } from '../plan/chain.js';
-
-/** Up to this many toleranced variables, the worst case visits every corner (2^n chain evaluations). */
-export const maxCornerVariables = 10;
+import { type Chain, spreadOf } from '../plan/chain.js';
 
 /**
- * Extremes of every check over the tolerance box. With few toleranced variables
- * every corner is evaluated; otherwise, for each check, the two corners that the
- * signs of its sensitivities point to (each variable to the end that raises the
- * check, then to the end that lowers it). Every evaluated corner lies inside the
- * box, so its values widen every check's band, not only its own.
- * Returns per check [min, max] (NaN when never finite).
+ * How a check's worst-case band was bound (`targets --json` key `method`):
+ * - `corners`: every corner of the box of the variables that move it was
+ *   evaluated, and a local search from the best corners found nothing beyond;
+ * - `monotone`: too many variables for every corner; the corner its
+ *   sensitivities point to was confirmed locally (no single variable moved to
+ *   its other end or to its middle goes further), as for a check that moves
+ *   one way with every part;
+ * - `search`: the check is not monotone (a variable's middle or other end
+ *   went further than the sensitivity corner), so the band is the best of a
+ *   multi-start coordinate search over the box (with pattern steps inside the
+ *   box where a variable's middle went further than its ends).
  */
-export function worstCase(chain: Chain, perSigma: readonly Float64Array[]): { min: Float64Array; max: Float64Array; evaluations: number } {
+export type BoundMethod = 'corners' | 'monotone' | 'search';
+
+/** Up to this many variables move a stage's checks, the worst case visits every corner of their box (2^n evaluations). */
+export const maxCornerVariables = 10;
+
+export interface WorstCaseOptions {
+  /** Corner enumeration up to this many relevant variables. @default maxCornerVariables */
+  readonly maxCornerVariables?: number;
+  /**
+   * Stage ids upstream of a stage (its input's stage, that one's, …). Without it
+   * every stage before a stage in chain order counts as upstream (safe, slower).
+   */
+  readonly upstream?: (stage: string) => readonly string[];
+}
+
+/** A stage's checks and the variables that can move them. */
+interface Group {
+  /** Stages to evaluate (chain order) for these checks to have values. */
+  readonly depth: number;
+  readonly checks: readonly number[];
+  readonly variables: readonly number[];
+}
+
+/** Checks grouped by stage (rails first), each with the variables upstream of it. */
+function groups(chain: Chain, upstream: WorstCaseOptions['upstream']): Group[] {
+  const stageOrder: string[] = [];
+  for (const c of chain.checks) if (c.stage !== 'rails' && !stageOrder.includes(c.stage)) stageOrder.push(c.stage);
+  stageOrder.sort((a, b) => chain.stageIndex(a) - chain.stageIndex(b));
+  const global = new Set(['rails', 'opamp', 'temperature']);
+  const out: Group[] = [];
+  const railChecks = chain.checks.flatMap((c, i) => (c.stage === 'rails' ? [i] : []));
+  out.push({ depth: 0, checks: railChecks, variables: chain.variables.flatMap((v, i) => (v.stage === 'rails' ? [i] : [])) });
+  for (const id of stageOrder) {
+    const index = chain.stageIndex(id);
+    const before = upstream ? new Set([id, ...upstream(id)]) : undefined;
+    const isUpstream = (stage: string): boolean => global.has(stage) || (before ? before.has(stage) : chain.stageIndex(stage) >= 0 && chain.stageIndex(stage) <= index);
+    out.push({
+      depth: index + 1,
+      checks: chain.checks.flatMap((c, i) => (c.stage === id ? [i] : [])),
+      variables: chain.variables.flatMap((v, i) => (isUpstream(v.stage) ? [i] : [])),
+    });
+  }
+  return out;
+}
+
+export interface WorstCase {
+  /** Per check (chain order): extremes over the tolerance box, NaN when never finite. */
+  readonly min: Float64Array;
+  readonly max: Float64Array;
+  /** Per check: how its band was bound (the weaker of its two sides: search > monotone > corners). */
+  readonly method: readonly BoundMethod[];
+  readonly evaluations: number;
+}
+
+/** Coordinate steps of the pattern search after the vertex pass, as a fraction of the half-width. */
+const patternSteps = [0.5, 0.25, 0.125] as const;
+/** Points the search remembers (about 8 bytes per check each) before it starts afresh. */
+const maxRemembered = 20_000;
+/** Passes over all variables at one step before giving up on further gains (a safety bound). */
+const maxPasses = 6;
+
+/**
+ * Extremes of every check over the tolerance box, deterministic: the same plan
+ * gives the same band whatever the Monte Carlo's trial count or seed.
+ *
+ * Checks are taken stage by stage. The variables that can move a stage's
+ * checks are those of the stage, its upstream stages, the rails, the op-amp
+ * and the temperature, less those whose sensitivity is zero for every check of
+ * the stage. Up to `maxCornerVariables` of them, every corner of their box is
+ * evaluated; beyond, each check starts from the corner its sensitivities point
+ * to. Either way a coordinate search follows from each check's best point:
+ * every variable is tried at its other end and at its middle, then at steps of
+ * ½, ¼ and ⅛ of its half-width, keeping any move that goes further; a check
+ * that moved is searched again from the nominal and from the best point any
+ * other evaluation found for it (multi-start). Every evaluated point lies in
+ * the box, so it widens every check it gives a value for, not only its own.
+ */
+export function worstCase(chain: Chain, perSigma: readonly Float64Array[], options: WorstCaseOptions = {}): WorstCase {
+  const cornerLimit = options.maxCornerVariables ?? maxCornerVariables;
   const nCheck = chain.checks.length;
   const min = new Float64Array(nCheck).fill(Infinity);
   const max = new Float64Array(nCheck).fill(-Infinity);
+  const method: BoundMethod[] = new Array<BoundMethod>(nCheck).fill('monotone');
   const out = new Float64Array(nCheck);
   const x = Float64Array.from(chain.nominal);
-  const varied = chain.variables.flatMap((v, i) => (v.tol > 0 ? [i] : []));
+  const spread = Float64Array.from(chain.variables, (v) => spreadOf(v));
+  const nominal = chain.nominal;
   let evaluations = 0;
-  const take = (): void => {
-    chain.evaluate(x, out);
+
+  // Best point seen per check and side (u in [−1, 1] per variable), for the multi-start.
+  const nVar = chain.variables.length;
+  const bestU = { max: new Map<number, Float64Array>(), min: new Map<number, Float64Array>() };
+
+  // Points already evaluated at a depth (checks of one stage often share their corners and
+  // their neighbours): the values they gave, so the search reads them again without evaluating.
+  // Keyed by a hash of (depth, u), each bucket checked point by point, so a collision costs a compare.
+  interface Point {
+    readonly depth: number;
+    readonly u: Float64Array;
+    readonly out: Float64Array;
+  }
+  const seen = new Map<number, Point[]>();
+  let remembered = 0;
+  const same = (a: Float64Array, b: Float64Array): boolean => {
+    for (let i = 0; i < nVar; i++) if (a[i] !== b[i]) return false;
+    return true;
+  };
+
+  /** Evaluate the chain at u (first `depth` stages) and widen every check it gives; `out` holds the values. */
+  const take = (u: Float64Array, depth: number): void => {
+    // u holds multiples of 1/8 (ends, middles and the pattern steps): 8·u is a small integer.
+    let h = Math.imul(depth + 1, 0x9e3779b1);
+    for (let i = 0; i < nVar; i++) h = Math.imul(h ^ ((u[i] as number) * 8 + 16 + 33 * i), 0x01000193);
+    const bucket = seen.get(h);
+    if (bucket) {
+      for (const p of bucket) {
+        if (p.depth === depth && same(p.u, u)) {
+          out.set(p.out);
+          return;
+        }
+      }
+    }
+    for (let i = 0; i < nVar; i++) x[i] = (nominal[i] as number) + (u[i] as number) * (spread[i] as number);
+    chain.evaluate(x, out, depth);
     evaluations++;
+    // Bounded: a large plan's search must not hold every point it ever visited.
+    if (remembered >= maxRemembered) {
+      seen.clear();
+      remembered = 0;
+    }
+    const point: Point = { depth, u: Float64Array.from(u), out: Float64Array.from(out) };
+    const list = seen.get(h);
+    if (list) list.push(point);
+    else seen.set(h, [point]);
+    remembered++;
     for (let c = 0; c < nCheck; c++) {
       const v = out[c] as number;
       if (!Number.isFinite(v)) continue;
-      if (v < (min[c] as number)) min[c] = v;
-      if (v > (max[c] as number)) max[c] = v;
-    }
-  };
-  const setEnd = (i: number, sign: number): void => {
-    const v = chain.variables[i];
-    if (v) x[i] = v.nominal * (1 + sign * v.tol);
-  };
-  take();
-  if (varied.length <= maxCornerVariables) {
-    const corners = 1 << varied.length;
-    for (let m = 0; m < corners; m++) {
-      for (let k = 0; k < varied.length; k++) setEnd(varied[k] as number, (m >> k) & 1 ? 1 : -1);
-      take();
-    }
-  } else {
-    for (let c = 0; c < nCheck; c++) {
-      for (const direction of [1, -1]) {
-        for (const i of varied) {
-          const d = perSigma[i]?.[c] ?? 0;
-          setEnd(i, d === 0 ? 0 : Math.sign(d) * direction);
-        }
-        take();
+      if (v > (max[c] as number)) {
+        max[c] = v;
+        bestU.max.set(c, point.u);
+      }
+      if (v < (min[c] as number)) {
+        min[c] = v;
+        bestU.min.set(c, point.u);
       }
     }
+  };
+
+  const u = new Float64Array(nVar);
+  take(u, chain.checks.length > 0 ? Number.MAX_SAFE_INTEGER : 0);
+  const nominalOut = Float64Array.from(out);
+
+  for (const group of groups(chain, options.upstream)) {
+    const depth = group.depth;
+    const checks = group.checks.filter((c) => chain.checks[c]?.phase !== 'unpowered' && chain.checks[c]?.phase !== 'first-power');
+    if (checks.length === 0) continue;
+    // Sensitivities at the nominal say which variables matter; a check with no value there (a stage
+    // that stops at the nominal but runs elsewhere in the box) has none to say it, so all may.
+    const blind = checks.some((c) => !Number.isFinite(nominalOut[c] as number));
+    const vars = group.variables.filter((i) => (spread[i] as number) > 0 && (blind || checks.some((c) => (perSigma[i]?.[c] ?? 0) !== 0)));
+    const useCorners = vars.length <= cornerLimit;
+    if (useCorners) {
+      const corners = 2 ** vars.length;
+      u.fill(0);
+      for (let m = 0; m < corners; m++) {
+        for (let k = 0; k < vars.length; k++) u[vars[k] as number] = Math.floor(m / 2 ** k) % 2 === 1 ? 1 : -1;
+        take(u, depth);
+      }
+    }
+    for (const c of checks) {
+      let moved = false;
+      for (const side of [1, -1] as const) {
+        const start = (from: Float64Array | undefined): Float64Array => {
+          const s = new Float64Array(nVar);
+          if (from) for (const i of vars) s[i] = from[i] as number;
+          return s;
+        };
+        // The sensitivity corner: each variable to the end that moves the check this way.
+        const corner = new Float64Array(nVar);
+        for (const i of vars) {
+          const d = perSigma[i]?.[c] ?? 0;
+          corner[i] = d === 0 ? 0 : Math.sign(d) * side;
+        }
+        if (!useCorners) take(corner, depth);
+        const best = (side > 0 ? bestU.max : bestU.min).get(c);
+        const first = useCorners ? start(best) : corner;
+        const found = search(first, vars, depth, c, side);
+        if (found !== 'none') moved = true;
+        // Multi-start where the check has an inside optimum: from the nominal too. Then from the
+        // best point any evaluation found for it (often another check's search).
+        if (found === 'inside') search(new Float64Array(nVar), vars, depth, c, side);
+        const again = (side > 0 ? bestU.max : bestU.min).get(c);
+        if (found !== 'none' && again) search(start(again), vars, depth, c, side);
+      }
+      method[c] = moved ? 'search' : useCorners ? 'corners' : 'monotone';
+    }
   }
+
+  /**
+   * Coordinate search for check c on one side from `point` (changed in place).
+   * Returns `none` when no move went further than the start, `vertex` when only
+   * moves from end to end did (a corner other than the sensitivities' one: a
+   * kink such as the larger of two peaks), `inside` when a move to a variable's
+   * middle did (an optimum inside the box: pattern steps follow).
+   */
+  function search(point: Float64Array, vars: readonly number[], depth: number, c: number, side: 1 | -1): 'none' | 'vertex' | 'inside' {
+    const read = (): number => {
+      const v = out[c] as number;
+      return Number.isFinite(v) ? side * v : -Infinity;
+    };
+    take(point, depth);
+    let here = read();
+    let improved = false;
+    let inside = false;
+    const tryAt = (i: number, to: number): boolean => {
+      const was = point[i] as number;
+      if (to === was) return false;
+      point[i] = to;
+      take(point, depth);
+      const now = read();
+      // A gain below rounding noise is no gain (it would walk the search along flat ground).
+      if (now > here + 1e-12 * Math.max(1, Math.abs(here))) {
+        here = now;
+        return true;
+      }
+      point[i] = was;
+      return false;
+    };
+    // Vertex pass: every variable to its other end, and to its middle.
+    for (let pass = 0; pass < maxPasses; pass++) {
+      let gained = false;
+      for (const i of vars) {
+        const at = point[i] as number;
+        const candidates = at === 0 ? [1, -1] : [-at, 0];
+        for (const to of candidates) {
+          if (tryAt(i, to)) {
+            gained = true;
+            if (to === 0) inside = true;
+            break;
+          }
+        }
+      }
+      if (!gained) break;
+      improved = true;
+    }
+    if (!improved) return 'none';
+    if (!inside) return 'vertex';
+    // Pattern steps: the optimum lies off the vertices, walk to it coordinate by coordinate.
+    for (const h of patternSteps) {
+      for (let pass = 0; pass < maxPasses; pass++) {
+        let gained = false;
+        for (const i of vars) {
+          const at = point[i] as number;
+          if (tryAt(i, Math.min(1, at + h)) || tryAt(i, Math.max(-1, at - h))) gained = true;
+        }
+        if (!gained) break;
+      }
+    }
+    return 'inside';
+  }
+
   for (let c = 0; c < nCheck; c++) {
     if (min[c] === Infinity) {
       min[c] = Number.NaN;
       max[c] = Number.NaN;
     }
   }
-  return { min, max, evaluations };
+  return { min, max, method, evaluations };
 }

@@ -1,4 +1,5 @@
 import { formatValue } from '../units/format.js';
+import { thermalVoltage } from './diode.js';
 import { type CeParts, collectorImpedance, operatingPoint, response, responseInto, smallSignal, vceSat, withFault } from './common-emitter-model.js';
 import { applyResponse, type Response } from './harmonic-response.js';
 import { dcLoad, railOf } from './rail-load.js';
@@ -127,8 +128,14 @@ function inputImpedance(x: ImpedanceInput<CommonEmitterSettings>, f: number): Co
   const r2 = x.parts['R2'] ?? Number.NaN;
   const bias = (r1 * r2) / (r1 + r2);
   const op = impedanceParts(x);
-  // Without the rails: R1 ∥ R2 ∥ (hfe + 1)·Re, the unbypassed form with re left out.
-  let zb: Complex = { re: ((x.parts['hfe'] ?? Number.NaN) + 1) * (x.parts['Re'] ?? Number.NaN), im: 0 };
+  // Without the rails the bias current is unknown: Zb = rπ + (hfe + 1)·(Re ∥ Ce) with rπ taken at a
+  // typical small-signal bias of 1 mA (hfe·Vt/1 mA; an estimate, common practice, no source).
+  const hfe = x.parts['hfe'] ?? Number.NaN;
+  const re = x.parts['Re'] ?? Number.NaN;
+  const wc = x.settings.hasCe ? 2 * Math.PI * f * (x.parts['Ce'] ?? 0) * re : 0;
+  // Re ∥ 1/(jωCe) = Re/(1 + jωReCe).
+  const ze = { re: re / (1 + wc * wc), im: (-re * wc) / (1 + wc * wc) };
+  let zb: Complex = { re: (hfe * thermalVoltage()) / 1e-3 + (hfe + 1) * ze.re, im: (hfe + 1) * ze.im };
   if (op && op.q.region === 'active') {
     const r = response(op.p, op.s, f, { re: 0, im: 0 });
     const d = r.ib.re * r.ib.re + r.ib.im * r.ib.im;

@@ -1,9 +1,9 @@
-import { type DiodeModel, defaultDiode, defaultDiodeName, diodeModels, diodeString } from './diode.js';
+import { type DiodeModel, defaultDiode, defaultDiodeName, diodeModels, diodeString, nominalTemperature, saturationAt, thermalVoltage } from './diode.js';
 import { type ShaperBranch, type ShaperNet, solveNode, solveTransfer } from './shaper-solver.js';
 import { fastThd } from './spectrum.js';
 import { choiceAt, countAt, list, nested, ohmRange, onlyKeys, partAt, reader, type StageReader } from './stage-parse.js';
 import { StageParseError } from './errors.js';
-import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind, StageWarning } from './types.js';
+import type { CheckSpec, Complex, EvalInput, EvalOutput, ImpedanceInput, PartValue, StageKind, StageWarning } from './types.js';
 import { mirrorOrder } from './mirror.js';
 import { extremes } from './waveform.js';
 
@@ -27,22 +27,39 @@ export interface DiodeShaperSettings {
 /** A diode of this class is rated a few hundred mA; warn well below (common practice, no source). */
 const diodeCurrentWarn = 0.1;
 
-function parseDiode(r: StageReader): { model: DiodeModel; name: string } {
+/**
+ * Spreads of the diode's IS and N when the plan gives none: IS ±50 % and N ±2 %
+ * together move a small-signal diode's forward drop by about ±30 mV at a given
+ * current, the part-to-part spread of one type (from memory of data-sheet
+ * forward-voltage ranges; common practice, no source). Every diode of a stage
+ * shares one sample (one reel).
+ */
+export const defaultIsTol = 0.5;
+export const defaultNTol = 0.02;
+
+function diodeParts(model: DiodeModel, is?: PartValue, n?: PartValue): Record<string, PartValue> {
+  const part = (given: PartValue | undefined, nominal: number, tol: number, unit: PartValue['unit'], what: string): PartValue =>
+    given && given.tol > 0 ? given : { nominal, tol, unit, text: `${given?.text ?? nominal} ${tol * 100}% (default ${what} spread)` };
+  return { 'diode.is': part(is, model.is, defaultIsTol, 'A', 'IS'), 'diode.n': part(n, model.n, defaultNTol, '1', 'N') };
+}
+
+function parseDiode(r: StageReader): { model: DiodeModel; name: string; parts: Record<string, PartValue> } {
   const raw = r.json['diode'];
-  if (raw === undefined) return { model: defaultDiode, name: defaultDiodeName };
+  if (raw === undefined) return { model: defaultDiode, name: defaultDiodeName, parts: diodeParts(defaultDiode) };
   if (typeof raw === 'string') {
     const model = diodeModels[raw];
     if (!model) {
       throw new StageParseError(r.file, `${r.path}.diode`, `no diode model ${JSON.stringify(raw)}; write ${Object.keys(diodeModels).map((m) => JSON.stringify(m)).join(' or ')}, or { "is": "2.52n", "n": 1.752, "rs": "0.568" }`);
     }
-    return { model, name: raw };
+    return { model, name: raw, parts: diodeParts(model) };
   }
   const d = nested(r, 'diode');
   onlyKeys(d, ['is', 'n', 'rs']);
   const is = partAt(d, 'is', 'A', true, { positive: true, example: '"2.52n"' });
   const n = partAt(d, 'n', '1', true, { positive: true, example: '1.752' });
   const rs = partAt(d, 'rs', 'Ω', false, { nonNegative: true, example: '"0.568"' });
-  return { model: { is: is.nominal, n: n.nominal, rs: rs?.nominal ?? 0 }, name: 'custom' };
+  const model = { is: is.nominal, n: n.nominal, rs: rs?.nominal ?? 0 };
+  return { model, name: 'custom', parts: diodeParts(model, is, n) };
 }
 
 function parse(raw: Parameters<StageKind['parse']>[0], file: string): { parts: Record<string, PartValue>; settings: DiodeShaperSettings } {
@@ -64,21 +81,33 @@ function parse(raw: Parameters<StageKind['parse']>[0], file: string): { parts: R
     return { diodes: countAt(b, 'diodes', 1, 1, 10), polarity: choiceAt(b, 'polarity', ['+', '-'] as const), rRole, biasRole };
   });
   const diode = parseDiode(r);
+  Object.assign(parts, diode.parts);
   return { parts, settings: { branches, hasLoad: load !== undefined, diode: diode.model, diodeName: diode.name } };
 }
 
 /** The node as the solver sees it, for one sample of the parts. */
 export function shaperNet(input: EvalInput<DiodeShaperSettings>): ShaperNet {
   const { parts, settings } = input;
+  // One sample of the diodes (IS, N) at the board temperature (Vt = kT/q and the SPICE law for IS).
+  const base = settings.diode;
+  const model: DiodeModel = { is: parts['diode.is'] ?? base.is, n: parts['diode.n'] ?? base.n, rs: base.rs };
+  const kelvin = input.temperature ?? nominalTemperature;
+  const vt = thermalVoltage(kelvin);
+  const is = saturationAt(model, kelvin);
   const branches = settings.branches.map(
     (b): ShaperBranch => ({
       sign: b.polarity === '+' ? 1 : -1,
       bias: parts[b.biasRole] ?? 0,
-      diodes: diodeString(settings.diode, b.diodes, parts[b.rRole] ?? Number.NaN),
+      diodes: diodeString(model, b.diodes, parts[b.rRole] ?? Number.NaN, vt, is),
     }),
   );
   const rload = settings.hasLoad ? (parts['Rload'] ?? Number.NaN) : Number.POSITIVE_INFINITY;
-  return { gs: 1 / (parts['Rs'] ?? Number.NaN), gl: 1 / rload, branches };
+  // What the chain hangs on the node (the next stage's input, an external load) adds its
+  // large-signal equivalent, the resistive part at the fundamental, to Rload.
+  const frequency = input.input?.frequency ?? 0;
+  const z = input.load?.('out', frequency > 0 ? frequency : 0);
+  const gExtra = z !== undefined && Number.isFinite(z.re) && z.re > 0 ? z.re / (z.re * z.re + z.im * z.im) : 0;
+  return { gs: 1 / (parts['Rs'] ?? Number.NaN), gl: 1 / rload + gExtra, branches };
 }
 
 function evaluate(input: EvalInput<DiodeShaperSettings>): EvalOutput {
@@ -124,6 +153,22 @@ function warningsFor(net: ShaperNet, vin: Float64Array, out: Float64Array, peaks
   return warnings;
 }
 
+/**
+ * The driver sees Rs into the node. Its large-signal equivalent here: Rs plus the
+ * node loaded as at the peaks, one polarity's branches conducting (their R in
+ * parallel) with Rload and whatever the chain hangs on the node. Rough, and
+ * meant for a driver with a source impedance of its own; an op-amp output (the
+ * usual driver) ignores it.
+ */
+function inputImpedance(x: ImpedanceInput<DiodeShaperSettings>, f: number): Complex {
+  const { parts, settings } = x;
+  let g = settings.hasLoad ? 1 / (parts['Rload'] ?? Number.NaN) : 0;
+  for (const b of settings.branches) if (b.polarity === '+') g += 1 / (parts[b.rRole] ?? Number.NaN);
+  const z = x.load?.('out', f);
+  if (z !== undefined && Number.isFinite(z.re) && z.re > 0) g += 1 / z.re;
+  return { re: (parts['Rs'] ?? Number.NaN) + (g > 0 ? 1 / g : Number.POSITIVE_INFINITY), im: 0 };
+}
+
 const shaperChecks: readonly CheckSpec[] = [
   { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the shaper output, 10× probe, read peak-to-peak' },
   { key: 'out.thd', captureFigure: 'thd', quantity: 'total harmonic distortion', unit: '1', output: 'out', instrument: 'scope', how: 'scope FFT (or save a capture and run analyze) at the shaper output, harmonics 2–50', floor: 0 },
@@ -139,12 +184,21 @@ export const diodeShaperKind: StageKind<DiodeShaperSettings> = {
     { role: 'Rload', unit: 'Ω', description: 'load from the shaper node to ground', optional: true },
     { role: 'branches[i].R', unit: 'Ω', description: 'breakpoint branch resistor (sets the slope above the breakpoint)' },
     { role: 'branches[i].bias', unit: 'V', description: 'breakpoint branch bias voltage (sets where the branch starts to conduct)' },
+    { role: 'diode.is', unit: 'A', description: 'the diodes\' saturation current IS (default spread ±50 %)', optional: true },
+    { role: 'diode.n', unit: '1', description: 'the diodes\' emission coefficient N (default spread ±2 %)', optional: true },
   ],
   outputs: ['out'],
   needsInput: true,
   parse,
   checks: () => shaperChecks,
   evaluate,
+  inputImpedance,
+  // Seen from downstream with the branches off: Rs ‖ Rload (small signal about 0 V).
+  outputImpedance: (x) => {
+    const rs = x.parts['Rs'] ?? Number.NaN;
+    const rl = x.settings.hasLoad ? (x.parts['Rload'] ?? Number.NaN) : Number.POSITIVE_INFINITY;
+    return { re: Number.isFinite(rl) ? (rs * rl) / (rs + rl) : rs, im: 0 };
+  },
   faultHints: {
     'out.thd': [
       'a diode fitted backwards: that branch conducts on the wrong half-cycle and one side flattens early',

@@ -16,8 +16,12 @@ function evaluate(input: EvalInput<DividerSettings>): EvalOutput {
   }
   const top = input.parts['Rtop'] ?? Number.NaN;
   const bottom = input.parts['Rbottom'] ?? Number.NaN;
-  // Unloaded resistive divider: V · Rbottom / (Rtop + Rbottom).
-  const level = (rail * bottom) / (top + bottom);
+  // Unloaded resistive divider: V · Rbottom / (Rtop + Rbottom); loaded, that open-circuit
+  // level behind its Thevenin resistance Rtop‖Rbottom into the load's DC resistance.
+  const open = (rail * bottom) / (top + bottom);
+  const zl = input.load?.('out', 0);
+  const rl = zl === undefined || !Number.isFinite(zl.re) ? Number.POSITIVE_INFINITY : zl.re;
+  const level = Number.isFinite(rl) ? (open * rl) / ((top * bottom) / (top + bottom) + rl) : open;
   return { outputs: { out: dc(level) }, values: { 'out.dc': level }, warnings: [] };
 }
 
@@ -47,6 +51,12 @@ export const dividerKind: StageKind<DividerSettings> = {
   },
   checks: () => checks,
   evaluate,
+  // Thevenin resistance of the tap: Rtop ‖ Rbottom (the rail an ideal source).
+  outputImpedance: (x) => {
+    const top = x.parts['Rtop'] ?? Number.NaN;
+    const bottom = x.parts['Rbottom'] ?? Number.NaN;
+    return { re: (top * bottom) / (top + bottom), im: 0 };
+  },
   faultHints: {
     'out.dc': [
       'the rail itself is off: check the rail reading first',

@@ -1,6 +1,6 @@
 import { amplifierChecks, amplifierHints, evaluateAmplifier } from './amplifier.js';
 import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
-import type { EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
+import type { Complex, EvalInput, EvalOutput, ImpedanceInput, PartValue, StageKind } from './types.js';
 
 /** An inverting gain stage has no settings beyond its parts. */
 export type InvertingAmpSettings = Readonly<Record<string, never>>;
@@ -9,7 +9,26 @@ function evaluate(input: EvalInput<InvertingAmpSettings>): EvalOutput {
   const rin = input.parts['Rin'] ?? Number.NaN;
   const rf = input.parts['Rf'] ?? Number.NaN;
   // Gain −Rf/Rin, noise gain 1 + Rf/Rin (Sedra and Smith, the inverting configuration).
-  return evaluateAmplifier({ ideal: -rf / rin, noiseGain: 1 + rf / rin }, input, 'inverting-amp');
+  return evaluateAmplifier({ ideal: -rf / rin, noiseGain: 1 + rf / rin, rf }, input, 'inverting-amp');
+}
+
+/**
+ * The source sees Rin into the inverting input, which is a virtual ground only
+ * as far as the op-amp has loop gain: Zin = Rin + Rf/(1 + A(jf)) with the
+ * single-pole open-loop gain A(jf) = aol/(1 + j·f·aol/GBW) (Sedra and Smith,
+ * the inverting configuration with finite gain). Near the amplifier's own
+ * bandwidth Rf/(1 + A) grows and turns inductive; at audio frequencies it is a
+ * few ohms. Valid while the output does not clip (a clipped stage has no
+ * virtual ground at all).
+ */
+function inputImpedance(x: ImpedanceInput<InvertingAmpSettings>, f: number): Complex {
+  const rin = x.parts['Rin'] ?? Number.NaN;
+  const rf = x.parts['Rf'] ?? Number.NaN;
+  const { aol, gbw } = x.opamp;
+  const w = f * (aol / gbw);
+  // Rf·(1 + jw)/(1 + aol + jw), w = f/fp.
+  const d = (1 + aol) * (1 + aol) + w * w;
+  return { re: rin + (rf * ((1 + aol) + w * w)) / d, im: (rf * (w * (1 + aol) - w)) / d };
 }
 
 export const invertingAmpKind: StageKind<InvertingAmpSettings> = {
@@ -33,6 +52,7 @@ export const invertingAmpKind: StageKind<InvertingAmpSettings> = {
   },
   checks: () => amplifierChecks,
   evaluate,
+  inputImpedance,
   faultHints: {
     gain: [
       'Rf and Rin swapped: the gain reads as 1/gain (−0.3 instead of −3.3)',

@@ -10,7 +10,7 @@ function evaluate(input: EvalInput<NoninvertingAmpSettings>): EvalOutput {
   const rf = input.parts['Rf'] ?? Number.NaN;
   // Gain 1 + Rf/Rg, equal to its noise gain (Sedra and Smith, the non-inverting configuration).
   const g = 1 + rf / rg;
-  return evaluateAmplifier({ ideal: g, noiseGain: g }, input, 'noninverting-amp');
+  return evaluateAmplifier({ ideal: g, noiseGain: g, rf }, input, 'noninverting-amp');
 }
 
 export const noninvertingAmpKind: StageKind<NoninvertingAmpSettings> = {

@@ -1,26 +1,166 @@
+import { add, capacitor, isOpen, parallel, resistance } from './complex.js';
+import { applyResponse } from './response.js';
 import { singlePole } from './single-pole.js';
 import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import { extremes } from './waveform.js';
-import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
+import type { CheckSpec, Complex, EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
 
 /** A passive RC low-pass has no settings beyond its parts. */
 export type RcLowpassSettings = Readonly<Record<string, never>>;
 
+/** A harmonic this far up stands for "well above the signal" when telling a resistive load from a reactive one. */
+const probeHarmonic = 64;
+
+/**
+ * Loaded: the output node is C in parallel with the load ZL, fed through R, so
+ * H(f) = Zp/(R + Zp) with Zp = 1/(jωC) ‖ ZL (Kirchhoff at the node). `fc` is
+ * the −3 dB corner of that loaded transfer function, |H(fc)| = |H(0)|/√2, the
+ * corner a technician finds on the bench with the next stage connected.
+ * A resistive load RL (real and the same at the fundamental and far above it,
+ * as an inverting amplifier's Rin or a follower's bias network) keeps a single
+ * pole: H(0) = RL/(R + RL) and fc = 1/(2π·(R‖RL)·C) (Thevenin equivalent of R
+ * and RL), computed in the time domain like the unloaded stage. Any other load
+ * goes harmonic by harmonic (response.ts) and its corner is found by bisection.
+ */
 function evaluate(input: EvalInput<RcLowpassSettings>): EvalOutput {
   const source = input.input;
   if (!source) throw new Error('rc-lowpass: no input waveform; the plan must name an "input"');
   const r = input.parts['R'] ?? Number.NaN;
   const c = input.parts['C'] ?? Number.NaN;
-  // Corner of a first-order RC section: fc = 1 / (2π·R·C) (any circuits handbook).
-  const fc = 1 / (2 * Math.PI * r * c);
-  // Unloaded output: every harmonic attenuated as 1/(1 + j·f/fc) (see single-pole.ts).
-  const out = singlePole(source.samples, source.frequency, fc);
+  const load = input.load;
+  const f0 = source.frequency;
+  const zl = load ? load('out', f0 > 0 ? f0 : 0) : undefined;
+  const zHigh = load && f0 > 0 ? load('out', probeHarmonic * f0) : zl;
+  let fc: number;
+  let out: Float64Array;
+  if (zl === undefined || isOpen(zl)) {
+    // Corner of a first-order RC section: fc = 1 / (2π·R·C) (any circuits handbook).
+    fc = 1 / (2 * Math.PI * r * c);
+    // Unloaded output: every harmonic attenuated as 1/(1 + j·f/fc) (see single-pole.ts).
+    out = singlePole(source.samples, f0, fc, input.buffer?.(0, source.samples.length));
+  } else if (zl.im === 0 && zHigh !== undefined && zHigh.im === 0 && zHigh.re === zl.re) {
+    const rl = zl.re;
+    // Thevenin: RL/(R + RL) of the input behind R‖RL, corner 1/(2π·(R‖RL)·C).
+    const share = rl / (r + rl);
+    fc = 1 / (2 * Math.PI * ((r * rl) / (r + rl)) * c);
+    out = singlePole(source.samples, f0, fc);
+    for (let i = 0; i < out.length; i++) out[i] = share * (out[i] as number);
+  } else {
+    active.r = r;
+    active.c = c;
+    active.load = load;
+    out = applyResponse(source.samples, f0, activeResponse);
+    // A start near the answer: the corner with the load's resistance at the fundamental.
+    const rl = zl.re > 0 ? zl.re : Number.POSITIVE_INFINITY;
+    fc = activeCorner(1 / (2 * Math.PI * (Number.isFinite(rl) ? (r * rl) / (r + rl) : r) * c));
+    active.load = undefined;
+  }
   const { hi, lo } = extremes(out);
-  return { outputs: { out: { frequency: source.frequency, samples: out } }, values: { fc, 'out.vpp': hi - lo }, warnings: [] };
+  return { outputs: { out: { frequency: f0, samples: out } }, values: { fc, 'out.vpp': hi - lo }, warnings: [] };
+}
+
+/**
+ * The loaded stage being evaluated, for the plain functions below (no closure
+ * per trial). H = Zp/(R + Zp) with Zp = 1/(jωC) ‖ ZL is 1/(1 + R·(jωC + YL)),
+ * YL = 1/ZL = gL + j·bL: one division, no complex objects.
+ */
+const active: { r: number; c: number; load: EvalInput<RcLowpassSettings>['load'] } = { r: 0, c: 0, load: undefined };
+
+/** Real and imaginary parts of 1/H at f, into `inverse`. */
+const inverse = { re: 1, im: 0 };
+function inverseResponse(f: number): void {
+  const z = active.load?.('out', f);
+  let gl = 0;
+  let bl = 0;
+  if (z !== undefined && Number.isFinite(z.re) && Number.isFinite(z.im)) {
+    const d = z.re * z.re + z.im * z.im;
+    gl = z.re / d;
+    bl = -z.im / d;
+  }
+  inverse.re = 1 + active.r * gl;
+  inverse.im = active.r * (2 * Math.PI * f * active.c + bl);
+}
+
+function activeResponse(f: number): Complex {
+  inverseResponse(f);
+  const d = inverse.re * inverse.re + inverse.im * inverse.im;
+  return { re: inverse.re / d, im: -inverse.im / d };
+}
+
+/** |H(f)|² of the active stage. */
+function activeMagnitude(f: number): number {
+  inverseResponse(f);
+  return 1 / (inverse.re * inverse.re + inverse.im * inverse.im);
+}
+
+/**
+ * The active stage's loaded corner by fixed-point iteration: with the load's
+ * admittance held at its value at the last estimate, |1/H|² = (1 + R·gL)² +
+ * (ωRC + R·bL)² = 2·|1/H(0)|² is solved for ω in closed form; the load varies
+ * slowly with f, so a few rounds settle to 1e-10. Should they not, the
+ * bracketing search below decides.
+ */
+function activeCorner(guess: number): number {
+  inverseResponse(0);
+  const target = 2 * (inverse.re * inverse.re + inverse.im * inverse.im);
+  let w = 2 * Math.PI * guess;
+  const rc = active.r * active.c;
+  for (let it = 0; it < 12; it++) {
+    inverseResponse(w / (2 * Math.PI));
+    const disc = target - inverse.re * inverse.re;
+    if (!(disc > 0)) break;
+    const next = (Math.sqrt(disc) - (inverse.im - w * rc)) / rc;
+    if (!(next > 0)) break;
+    if (Math.abs(next - w) < 1e-10 * w) return next / (2 * Math.PI);
+    w = next;
+  }
+  return loadedCorner(activeMagnitude, guess);
+}
+
+/**
+ * Where |h(f)|² (`mag2`) falls to half of |h(0)|²: a bracket around `guess`
+ * (widened until it holds the crossing), then regula falsi with the Illinois
+ * step on ln|h|² against ln f, which is nearly straight there; to 1e-9 relative.
+ */
+export function loadedCorner(mag2: (f: number) => number, guess: number): number {
+  const target = Math.log(0.5 * mag2(0));
+  let a = Math.log(guess) - 0.1;
+  let b = Math.log(guess) + 0.1;
+  let fa = Math.log(mag2(Math.exp(a))) - target;
+  let fb = Math.log(mag2(Math.exp(b))) - target;
+  for (let i = 0; i < 40 && !(fa > 0 && fb < 0); i++) {
+    if (!(fa > 0)) {
+      a -= 0.5 + i;
+      fa = Math.log(mag2(Math.exp(a))) - target;
+    }
+    if (!(fb < 0)) {
+      b += 0.5 + i;
+      fb = Math.log(mag2(Math.exp(b))) - target;
+    }
+  }
+  if (!(fa > 0 && fb < 0)) return Number.NaN;
+  let side = 0;
+  for (let i = 0; i < 100 && b - a > 1e-9; i++) {
+    const x = (a * fb - b * fa) / (fb - fa);
+    const fx = Math.log(mag2(Math.exp(x))) - target;
+    if (fx > 0) {
+      a = x;
+      fa = fx;
+      if (side === 1) fb /= 2;
+      side = 1;
+    } else {
+      b = x;
+      fb = fx;
+      if (side === -1) fa /= 2;
+      side = -1;
+    }
+    if (Math.abs(fx) < 1e-12) return Math.exp(x);
+  }
+  return Math.exp(0.5 * (a + b));
 }
 
 const checks: readonly CheckSpec[] = [
-  { key: 'fc', quantity: '−3 dB corner frequency', unit: 'Hz', output: 'out', instrument: 'scope', how: 'small sine in, raise the generator frequency until the output is 0.707 of the input (45° behind); read the generator' },
+  { key: 'fc', quantity: '−3 dB corner frequency', unit: 'Hz', output: 'out', instrument: 'scope', how: 'next stage connected, small sine in: raise the generator frequency until the output falls to 0.707 of its low-frequency level; read the generator' },
   { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the filter output with the chain signal applied, 10× probe (a 1× probe adds about 100 pF), read peak-to-peak' },
 ];
 
@@ -46,6 +186,10 @@ export const rcLowpassKind: StageKind<RcLowpassSettings> = {
   },
   checks: () => checks,
   evaluate,
+  // Input: R in series with C ‖ the load on the output (Kirchhoff, series and parallel impedances).
+  inputImpedance: (x, f) => add(resistance(x.parts['R'] ?? Number.NaN), parallel(capacitor(x.parts['C'] ?? Number.NaN, f), x.load?.('out', f))),
+  // Output, seen from downstream: the Thevenin impedance R ‖ 1/(jωC).
+  outputImpedance: (x, _output, f) => parallel(resistance(x.parts['R'] ?? Number.NaN), capacitor(x.parts['C'] ?? Number.NaN, f)),
   faultHints: {
     fc: [
       'C a decade off (1n or 100n fitted for 10n): the corner moves tenfold',

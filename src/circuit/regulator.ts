@@ -64,7 +64,7 @@ function evaluate(input: EvalInput<RegulatorSettings>): EvalOutput {
   const divider = settings.isFixed ? 0 : magnitude / ((input.parts['R1'] ?? Number.NaN) + (input.parts['R2'] ?? Number.NaN));
   const current = divider + magnitude * dcLoad(input, 'out');
   const pdiss = (Math.abs(vin) - magnitude) * current;
-  const values = { 'out.dc': vout };
+  const values = { 'out.dc': vout, pdiss };
   if (input.isTrial) return { outputs: { out: dc(vout) }, values, warnings: [] };
   const warnings: StageWarning[] = [];
   if (isDropout) {
@@ -87,6 +87,14 @@ function evaluate(input: EvalInput<RegulatorSettings>): EvalOutput {
 
 const checks: readonly CheckSpec[] = [
   { key: 'out.dc', quantity: 'regulated output', unit: 'V', output: 'out', instrument: 'meter', how: 'DC voltmeter from the regulator output to ground, the board otherwise idle', captureFigure: 'mean' },
+  {
+    key: 'pdiss',
+    quantity: 'regulator dissipation (input − output) × current',
+    unit: 'W',
+    instrument: 'meter',
+    how: 'design figure: the input-to-output drop times the current out of the regulator (its divider and the loads); not probed',
+    isDesignFigure: true,
+  },
 ];
 
 function faults(settings: RegulatorSettings): readonly PartFaults[] {
@@ -152,5 +160,6 @@ export const regulatorKind: StageKind<RegulatorSettings> = {
       'the input rail itself low: check the rail reading first (dropout)',
       'a heavy or shorted load downstream: the regulator runs hot or goes into current limit',
     ],
+    pdiss: ['a heavy or shorted load downstream: the regulator runs hot or goes into current limit'],
   },
 };

@@ -82,7 +82,7 @@ function evaluate(input: EvalInput<SchmittSettings>): EvalOutput {
   const bottom = Math.max(t.triangleMin, p.low);
   values['triangle.vpp'] = top - bottom;
   values['triangle.peak'] = top;
-  const { square, triangle } = schmittWaves(t, p.high, p.low);
+  const { square, triangle } = schmittWaves(t, p.high, p.low, undefined, input.buffer);
   return { outputs: { square, triangle }, values, warnings };
 }
 

@@ -13,6 +13,9 @@ export interface SchmittSettings {
   readonly hasClamp: boolean;
 }
 
+/** Spread of a zener's vz when the plan gives none (see where it is used). */
+export const defaultZenerTol = 0.05;
+
 const partUnits: Readonly<Record<string, { unit: Unit; example: string; required: boolean }>> = {
   R1: { unit: 'Ω', example: '"10k 1%"', required: true },
   R2: { unit: 'Ω', example: '"22k 1%"', required: true },
@@ -91,24 +94,33 @@ export function parseSchmitt(raw: RawStage, file: string): ParsedStage<SchmittSe
   const clampJson = objectAt(raw.json, 'clamp', file, `${base}.clamp`, '{ "vz": "3.9 V", "vf": "0.7 V" }');
   if (clampJson) {
     for (const key of Object.keys(clampJson)) {
-      if (key !== 'vz' && key !== 'vf') {
-        throw new StageParseError(file, `${base}.clamp.${key}`, 'is not a clamp value; write the zener voltage vz and the forward drop vf, e.g. { "vz": "3.9 V", "vf": "0.7 V" }');
+      if (key !== 'vz' && key !== 'vf' && key !== 'vz2' && key !== 'vf2') {
+        throw new StageParseError(file, `${base}.clamp.${key}`, 'is not a clamp value; write the zener voltage vz and the forward drop vf, e.g. { "vz": "3.9 V", "vf": "0.7 V" }, and for a pair of two different zeners the second one\'s vz2 (and vf2)');
       }
     }
     for (const [key, example] of [['vz', '"3.9 V 5%"'], ['vf', '"0.7 V"']] as const) {
       const path = `${base}.clamp.${key}`;
       const value = clampJson[key];
       if (value === undefined) throw new StageParseError(file, path, `missing; the clamp needs vz and vf, e.g. "${key}": ${example}`);
-      parts[`clamp.${key}`] = positiveValue(value, 'V', example, file, path);
+      const part = positiveValue(value, 'V', example, file, path);
+      // A zener written without a tolerance spreads as the common ±5 % selection of
+      // small zener series does (the "C" grade; from memory of data sheets, common practice).
+      parts[`clamp.${key}`] = key === 'vz' && part.tol === 0 ? { ...part, tol: defaultZenerTol, text: `${part.text} ${defaultZenerTol * 100}% (default zener spread)` } : part;
     }
     // Two zeners, each with its own spread: `clamp.vz`/`clamp.vf` are the one in
     // breakdown at the high level (D1), `clamp.vz2`/`clamp.vf2` its partner (D2).
     // High level = vz + vf2, low level = −(vz2 + vf): a mismatched pair moves the
     // duty away from 50 %, which is what a duty reading on a real board shows.
+    // A plan may fit two different zeners (`vz2`, `vf2`: the second one's, sets the low level);
+    // otherwise the partner is the same type, with its own spread.
     const vz = parts['clamp.vz'];
     const vf = parts['clamp.vf'];
-    if (vz) parts['clamp.vz2'] = vz;
-    if (vf) parts['clamp.vf2'] = vf;
+    for (const [key, same, example] of [['vz2', vz, '"4.3 V 5%"'], ['vf2', vf, '"0.7 V"']] as const) {
+      const value = clampJson[key];
+      const own = value === undefined ? undefined : positiveValue(value, 'V', example, file, `${base}.clamp.${key}`);
+      const part = own ?? same;
+      if (part) parts[`clamp.${key}`] = part;
+    }
   }
   return { parts, settings: { hasPot, pot, hasClamp: clampJson !== undefined } };
 }

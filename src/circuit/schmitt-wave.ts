@@ -15,9 +15,11 @@ export function schmittWaves(
   swingHigh: number,
   swingLow: number,
   n = defaultSamples,
+  buffer?: (slot: number, length: number) => Float64Array,
 ): { square: Waveform; triangle: Waveform } {
-  const square = new Float64Array(n);
-  const triangle = new Float64Array(n);
+  // A trial's reused arrays (EvalInput.buffer); every sample is written below.
+  const square = buffer ? buffer(0, n) : new Float64Array(n);
+  const triangle = buffer ? buffer(1, n) : new Float64Array(n);
   const { period, squareHigh: sH, squareLow: sL } = t;
   const h = t.highTime;
   // A model stretched past its range must still draw: an edge never outlasts a half.

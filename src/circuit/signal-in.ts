@@ -1,6 +1,8 @@
-import { choiceAt, nested, onlyKeys, partAt, reader } from './stage-parse.js';
+import { isOpen, loadedShare, resistance } from './complex.js';
+import { applyResponse } from './response.js';
+import { choiceAt, nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
-import { defaultSamples } from './waveform.js';
+import { defaultSamples, extremes } from './waveform.js';
 
 export type SignalShape = 'sine' | 'triangle' | 'square';
 
@@ -12,6 +14,12 @@ export type SignalShape = 'sine' | 'triangle' | 'square';
 export interface SignalInSettings {
   readonly shape: SignalShape;
   readonly hasOffset: boolean;
+  /**
+   * Whether the plan gives the generator's output impedance (`"source": "50 ohm 1%"`):
+   * `peak` is then the open-circuit amplitude and the connector sees it divided by
+   * the source and the board's input impedance. Absent: an ideal source.
+   */
+  readonly hasSource?: boolean;
 }
 
 /** One period of the unit shape at phase p (0 ≤ p < 1); zero-crossing rising at p = 0. */
@@ -25,10 +33,22 @@ function evaluate(input: EvalInput<SignalInSettings>): EvalOutput {
   const peak = input.parts['peak'] ?? Number.NaN;
   const frequency = input.parts['frequency'] ?? Number.NaN;
   const offset = input.settings.hasOffset ? (input.parts['offset'] ?? Number.NaN) : 0;
-  const samples = new Float64Array(defaultSamples);
+  let samples: Float64Array = new Float64Array(defaultSamples);
   for (let i = 0; i < samples.length; i++) samples[i] = offset + peak * unitShape(input.settings.shape, i / samples.length);
-  const values: Record<string, number> = { 'out.vpp': 2 * Math.abs(peak), freq: frequency };
-  if (input.settings.hasOffset) values['out.dc'] = offset;
+  const rs = input.settings.hasSource ? (input.parts['source'] ?? Number.NaN) : 0;
+  const load = input.load;
+  let level = offset;
+  if (rs > 0 && load) {
+    // The connector is the divider the source resistance makes with the board's input,
+    // harmonic by harmonic: v = v_open · ZL/(Rs + ZL) (Thevenin source into a load).
+    const zs = resistance(rs);
+    samples = applyResponse(samples, frequency, (f) => loadedShare(zs, load('out', f)));
+    const z0 = load('out', 0);
+    level = z0 === undefined || isOpen(z0) ? offset : offset * loadedShare(zs, z0).re;
+  }
+  const { hi, lo } = extremes(samples);
+  const values: Record<string, number> = { 'out.vpp': hi - lo, freq: frequency };
+  if (input.settings.hasOffset) values['out.dc'] = level;
   return { outputs: { out: { frequency, samples } }, values, warnings: [] };
 }
 
@@ -51,6 +71,7 @@ export const signalInKind: StageKind<SignalInSettings> = {
     { role: 'peak', unit: 'V', description: 'generator amplitude, zero to peak' },
     { role: 'frequency', unit: 'Hz', description: 'generator frequency' },
     { role: 'offset', unit: 'V', description: 'generator DC offset', optional: true },
+    { role: 'source', unit: 'Ω', description: 'generator output impedance (peak is then the open-circuit amplitude)', optional: true },
   ],
   outputs: ['out'],
   needsInput: false,
@@ -62,11 +83,15 @@ export const signalInKind: StageKind<SignalInSettings> = {
     };
     const offset = partAt(r, 'offset', 'V', false, { example: '"0.5 V"' });
     if (offset) parts['offset'] = offset;
+    const source = partAt(r, 'source', 'Ω', false, { positive: true, plausible: ohmRange, example: '"50 ohm 1%"' });
+    if (source) parts['source'] = source;
     if (raw.json['parts'] !== undefined) onlyKeys(nested(r, 'parts'), []);
-    return { parts, settings: { shape: choiceAt(r, 'shape', ['sine', 'triangle', 'square'] as const), hasOffset: offset !== undefined } };
+    return { parts, settings: { shape: choiceAt(r, 'shape', ['sine', 'triangle', 'square'] as const), hasOffset: offset !== undefined, hasSource: source !== undefined } };
   },
   checks,
   evaluate,
+  // The generator's output impedance as the plan gives it; an ideal source without one.
+  outputImpedance: (x) => ({ re: x.settings.hasSource ? (x.parts['source'] ?? 0) : 0, im: 0 }),
   faultHints: {
     'out.vpp': [
       'the generator amplitude set as peak-to-peak instead of peak (or the reverse)',

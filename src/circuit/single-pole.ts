@@ -11,9 +11,10 @@
  * delayed as 1/(1 + j·f/fc), which is why a square or a triangle comes out right,
  * at the cost of two passes and one exp (no FFT).
  */
-export function singlePole(samples: Float64Array, frequency: number, fc: number): Float64Array {
+export function singlePole(samples: Float64Array, frequency: number, fc: number, into?: Float64Array): Float64Array {
   const n = samples.length;
-  const out = new Float64Array(n);
+  // `into` (a trial's reused array, see EvalInput.buffer) must not be `samples`: the passes read the input throughout.
+  const out = into && into.length === n && into !== samples ? into : new Float64Array(n);
   if (!(frequency > 0) || fc === Number.POSITIVE_INFINITY || n === 0) {
     out.set(samples);
     return out;

@@ -45,6 +45,13 @@ export interface OpampModel {
   readonly maxSupply: number;
   /** DC open-loop gain, V/V. */
   readonly aol: number;
+  /**
+   * Input offset voltage, V, signed: one sample of the part's offset (0 at the
+   * nominal). It moves every DC level at the output by vos × noise gain. @default 0
+   */
+  readonly vos?: number;
+  /** Input bias current, A (into each input); it adds ib × Rf at an amplifier's output. @default 0 */
+  readonly ib?: number;
 }
 
 /** Supplies an op-amp stage runs from, volts (positive and negative rail, sampled). */
@@ -98,6 +105,12 @@ export interface EvalInput<Settings> {
    * need no flag. Absent on a healthy board.
    */
   readonly fault?: StageFault | undefined;
+  /**
+   * Board temperature for this evaluation, kelvin (sampled when the plan gives a
+   * `temperature` range). Junction laws (a diode's Vt = kT/q and its Is) follow it.
+   * Absent: each model at its own nominal temperature (27 °C for the diode models).
+   */
+  readonly temperature?: number | undefined;
 }
 
 /** A complex number, used for impedances in ohms (re + j·im). */
@@ -135,6 +148,12 @@ export interface ImpedanceInput<Settings> {
   readonly parts: Readonly<Record<string, number>>;
   readonly settings: Settings;
   readonly opamp: OpampModel;
+  /**
+   * The load on the stage's own outputs, as `EvalInput.load`: a passive stage's
+   * input impedance depends on what hangs on its output (an RC low-pass input is
+   * R + (1/(jωC) ‖ load)). Absent: nothing loads them.
+   */
+  readonly load?: ((output: string, f: number) => Complex | undefined) | undefined;
   /**
    * Every rail of the board by id, volts, when the caller knows them: a stage
    * tied to a rail (a transistor's bias, a zener in or out of regulation) sets

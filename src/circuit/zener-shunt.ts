@@ -95,7 +95,7 @@ function evaluate(input: EvalInput<ZenerShuntSettings>): EvalOutput {
   const sign = Math.sign(input.rails[input.settings.from] ?? 1) || 1;
   const vout = sign * s.v;
   const pz = s.v * s.iz;
-  const values = { 'out.dc': vout, iz: s.iz };
+  const values = { 'out.dc': vout, iz: s.iz, pz };
   if (input.isTrial) return { outputs: { out: dc(vout) }, values, warnings: [] };
   const warnings: StageWarning[] = [];
   const izmin = input.parts['izmin'] ?? 0;
@@ -131,6 +131,7 @@ function sourceResistance(x: ImpedanceInput<ZenerShuntSettings>): number {
 const checks: readonly CheckSpec[] = [
   { key: 'out.dc', quantity: 'zener voltage', unit: 'V', output: 'out', instrument: 'meter', how: 'DC voltmeter from the zener cathode to ground, the load connected', captureFigure: 'mean' },
   { key: 'iz', quantity: 'zener current', unit: 'A', instrument: 'meter', how: 'voltage across Rs divided by Rs (never break the circuit to insert an ammeter with the power on)' },
+  { key: 'pz', quantity: 'zener dissipation', unit: 'W', instrument: 'meter', how: 'design figure: zener voltage × zener current; not probed', isDesignFigure: true },
 ];
 
 function faults(settings: ZenerShuntSettings): readonly PartFaults[] {
@@ -175,6 +176,7 @@ export const zenerShuntKind: StageKind<ZenerShuntSettings> = {
   outputImpedance: (x): Complex => ohms(sourceResistance(x)),
   faults,
   faultHints: {
+    pz: ['a zener darker than its neighbours or smelling hot: too much current for its rating'],
     'out.dc': [
       'about 0.7 V: the zener fitted the wrong way round (band at the ground end)',
       'near the rail: the zener open or not fitted, or the wrong (higher-voltage) zener',

@@ -27,6 +27,9 @@ function mantissa(v: number): string {
   return text.includes('.') && !text.includes('e') ? text.replace(/\.?0+$/, '') : text;
 }
 
+/** The mark after a worst-case band: how it was bound (see `Target.method`). */
+const methodMark: Readonly<Record<NonNullable<Target['method']>, string>> = { corners: '(c)', monotone: '(m)', search: '(s)' };
+
 function nominalText(t: Target): string {
   if (t.phase === 'unpowered') return `≥ ${formatValue(t.worst.min, t.unit)}`;
   if (t.phase === 'first-power') return Number.isFinite(t.worst.max) ? `≤ ${formatValue(t.worst.max, t.unit)}` : 'no limit';
@@ -79,9 +82,10 @@ export interface TableHeader {
  * columns wide; long check ids are shortened with an ellipsis.
  */
 export function targetsTable(set: TargetSet, header: TableHeader): string {
-  const rows = set.targets.map((t) => [t.check, t.testPoint ?? '', nominalText(t), formatBand(t.worst.min, t.worst.max, t.unit), t.phase === 'stage' || t.phase === 'rails' ? formatBand(t.stat.min, t.stat.max, t.unit) : '', contributorText(t)]);
+  // A design figure has no test point to probe: its TP column says so.
+  const rows = set.targets.map((t) => [t.check, t.isDesignFigure ? 'design' : (t.testPoint ?? ''), nominalText(t), `${formatBand(t.worst.min, t.worst.max, t.unit)}${t.method ? ` ${methodMark[t.method]}` : ''}`, t.phase === 'stage' || t.phase === 'rails' ? formatBand(t.stat.min, t.stat.max, t.unit) : '', contributorText(t)]);
   const heads = ['check', 'TP', 'nominal', 'worst-case band', 'statistical band', 'top contributor'];
-  const caps = [26, 6, 12, 22, 22, 20];
+  const caps = [26, 6, 12, 24, 22, 20];
   const widths = heads.map((h, c) => Math.min(caps[c] ?? 20, Math.max([...h].length, ...rows.map((r) => [...(r[c] ?? '')].length))));
   const line = (cells: readonly string[]): string => cells.map((cell, c) => fitCell(cell, widths[c] ?? 10)).join('  ').trimEnd();
   const out: string[] = [];
@@ -89,7 +93,9 @@ export function targetsTable(set: TargetSet, header: TableHeader): string {
   const spread = header.distribution === 'normal' ? 'parts normal (tol = 3σ, truncated)' : 'parts uniform';
   if (header.note) out.push(...wrap(header.note, tableWidth, '', ''));
   out.push(`Monte Carlo: ${header.trials} trials, seed ${header.seed}, ${spread}`);
-  out.push('Worst-case band: over every part tolerance; statistical band: 0.135–99.865 % of trials');
+  out.push('Worst-case band: over every part tolerance, bound by every corner (c), the sensitivity corner checked');
+  out.push('part by part (m), or a search of the box for checks that do not move one way with every part (s);');
+  out.push('statistical band: 0.135–99.865 % of trials');
   out.push('');
   out.push(line(heads));
   out.push(line(widths.map((w) => '─'.repeat(w))));
@@ -100,6 +106,10 @@ export function targetsTable(set: TargetSet, header: TableHeader): string {
     out.push(line(rows[i] ?? []));
   }
   out.push('');
+  if (set.targets.some((t) => t.isDesignFigure)) {
+    out.push(...wrap('TP "design": a design figure, worked out from the parts but not probed at a test point; the bring-up does not ask for it.', tableWidth, '', ''));
+    out.push('');
+  }
   if (set.warnings.length === 0) out.push('No design warnings.');
   else {
     out.push(`Design warnings (${set.warnings.length}):`);

@@ -1,6 +1,8 @@
-import type { EvalOutput, Supplies, Waveform } from '../circuit/types.js';
+import type { Complex, EvalOutput, OpampModel, Supplies, Waveform } from '../circuit/types.js';
+import { type OpampSpreadKey, type Spread, opampSpreadKeys } from './active-spread.js';
 import type { Unit } from '../units/unit.js';
 import { type PlanCheck, planChecks } from './checks.js';
+import { externalLoadPrefix } from './stages.js';
 import type { Plan, PlanStage } from './types.js';
 
 /** A toleranced value of the chain: a rail (`rails.+12V`) or a stage's part (`osc.Ct`). */
@@ -15,6 +17,18 @@ export interface ChainVariable {
   readonly tol: number;
   readonly unit: Unit;
   readonly text: string;
+  /**
+   * Half-width of the variable's box in its unit: the value lies in nominal ± spread.
+   * Set on every variable the chain builds; absent on hand-built ones, where it is
+   * |nominal|·tol (see `spreadOf`). A variable centred on zero (an op-amp's offset
+   * `opamp.vos`) has tol 0 and only a spread.
+   */
+  readonly spread?: number;
+}
+
+/** Half-width of a variable's box (nominal ± this), in its unit. */
+export function spreadOf(v: ChainVariable): number {
+  return v.spread ?? Math.abs(v.nominal) * v.tol;
 }
 
 /** One evaluation with every output kept, for the nominal case and for explanations. */
@@ -50,9 +64,17 @@ export interface Chain {
   evaluate(x: Float64Array, out: Float64Array, stages?: number, reuse?: number): void;
   /** Position of a stage in chain order, −1 for none (rails). */
   stageIndex(id: string): number;
+  /**
+   * Stages after `id` whose parts change its evaluation through loading (they
+   * load its output, or the output of a stage it takes its input from through a
+   * passive path): a search over the variables that move a check of `id` needs theirs too.
+   */
+  loaders(id: string): string[];
   /** `stages` as in `evaluate`: only the first so many stages (chain order). */
   detail(x: Float64Array, stages?: number): ChainDetail;
 }
+
+const opampUnits: Readonly<Record<OpampSpreadKey, Unit>> = { gbw: 'Hz', slew: 'V/s', headroom: 'V', vos: 'V', ib: 'A' };
 
 const noValues: Record<string, number> = Object.freeze({}) as Record<string, number>;
 const noOutputs: Record<string, Waveform> = Object.freeze({}) as Record<string, Waveform>;
@@ -68,7 +90,21 @@ interface HotArgs {
   input?: Waveform;
   isTrial?: boolean;
   buffer?: ((slot: number, length: number) => Float64Array) | undefined;
+  load?: ((output: string, f: number) => Complex | undefined) | undefined;
+  temperature?: number | undefined;
 }
+
+/** What a stage kind's `inputImpedance` reads, for the current sample (parts looked up on each call). */
+interface ImpedanceArgs {
+  readonly parts: Record<string, number>;
+  readonly settings: unknown;
+  readonly opamp: PlanStage['opamp'];
+  load: ((output: string, f: number) => Complex | undefined) | undefined;
+}
+
+/** Op-amp keys a chain may vary, and where a stage's sampled value sits in `x` (−1: the plan's fixed value). */
+const opampKeys = opampSpreadKeys;
+type MutableOpamp = { -readonly [K in keyof OpampModel]: OpampModel[K] };
 
 /** A stage's own output arrays for trials, by slot (see EvalInput.buffer). */
 function bufferPool(): (slot: number, length: number) => Float64Array {
@@ -91,6 +127,8 @@ interface StagePlan {
   readonly outIndex: readonly (readonly [string, number])[];
   /** Index of the input stage in the stage list, −1 when none. */
   readonly inputStage: number;
+  /** Variable index of each of `opampKeys` for this stage's op-amp, −1 when fixed; null when none varies. */
+  readonly opampIndex: Int32Array | null;
 }
 
 /**
@@ -106,9 +144,30 @@ export function buildChain(plan: Plan): Chain {
   }
   for (const stage of plan.stages) {
     for (const [role, part] of Object.entries(stage.parts)) {
-      variables.push({ name: `${stage.id}.${role}`, stage: stage.id, role, nominal: part.nominal, tol: part.tol, unit: part.unit, text: part.text });
+      variables.push({ name: `${stage.id}.${role}`, stage: stage.id, role, nominal: part.nominal, tol: part.tol, unit: part.unit, text: part.text, spread: Math.abs(part.nominal) * part.tol });
     }
   }
+  // Active parts (issue 11): the op-amp's toleranced keys, once for the plan's part (shared by every
+  // op-amp stage that does not name its own) and once per stage with its own; then the temperature.
+  const opampStages = plan.stages.filter((s) => s.module.traits?.usesOpamp === true);
+  const opampVariable = (prefix: string, stageId: string, key: OpampSpreadKey, model: OpampModel, spread: Spread): void => {
+    const nominal = model[key] ?? 0;
+    const name = `${prefix}opamp.${key}`;
+    if (variables.some((v) => v.name === name)) return;
+    variables.push({ name, stage: stageId, role: `opamp.${key}`, nominal, tol: nominal === 0 ? 0 : spread.half / Math.abs(nominal), unit: opampUnits[key], text: spread.text, spread: spread.half });
+  };
+  for (const s of opampStages) {
+    const own = s.hasOwnOpamp === true;
+    for (const key of opampKeys) {
+      const spread = s.opampSpread?.[key];
+      if (spread && spread.half > 0) opampVariable(own ? `${s.id}.` : '', own ? s.id : 'opamp', key, s.opamp, spread);
+    }
+  }
+  if (plan.temperature) {
+    const t = plan.temperature;
+    variables.push({ name: 'temperature', stage: 'temperature', role: 'temperature', nominal: t.nominal, tol: (t.max - t.nominal) / t.nominal, unit: 'K', text: t.text, spread: t.max - t.nominal });
+  }
+  const temperatureIndex = variables.findIndex((v) => v.name === 'temperature');
   const checks = planChecks(plan);
   const checkIndex = new Map(checks.map((c, i) => [c.check, i] as const));
 
@@ -135,7 +194,43 @@ export function buildChain(plan: Plan): Chain {
     const roles = Object.keys(stage.parts);
     const varIndex = Int32Array.from(roles, (role) => variablePosition.get(`${stage.id}.${role}`) ?? -1);
     const outIndex = checksByStage.get(stage.id) ?? [];
-    return { stage, roles, varIndex, outIndex, inputStage: stage.input ? (stagePosition.get(stage.input.stage) ?? -1) : -1 };
+    const prefix = stage.hasOwnOpamp === true ? `${stage.id}.` : '';
+    const opampIndex = Int32Array.from(opampKeys, (key) => (stage.module.traits?.usesOpamp === true ? (variablePosition.get(`${prefix}opamp.${key}`) ?? -1) : -1));
+    return { stage, roles, varIndex, outIndex, inputStage: stage.input ? (stagePosition.get(stage.input.stage) ?? -1) : -1, opampIndex: opampIndex.some((i) => i >= 0) ? opampIndex : null };
+  });
+
+  // Loading (DESIGN §3: every stage's input loads the output it takes). For each
+  // stage and output: the downstream stages that take it (when their kind has an
+  // input impedance) and any external load the plan names. The load functions read
+  // the parts of the current sample from `sampleParts`, which `run` fills for every
+  // stage before it evaluates any: an upstream output depends on downstream parts.
+  const sampleParts: Record<string, number>[] = stagePlans.map(() => ({}));
+  const impedanceArgs: ImpedanceArgs[] = stagePlans.map((sp, i) => ({
+    get parts() {
+      return sampleParts[i] as Record<string, number>;
+    },
+    settings: sp.stage.settings,
+    opamp: sp.stage.opamp,
+    load: undefined,
+  }));
+  const loadFns = stagePlans.map((sp, s) => loadFunction(sp.stage, s, stagePlans, sampleParts, impedanceArgs));
+  // A downstream passive stage's input depends on its own load: hand it its load function.
+  impedanceArgs.forEach((a, i) => {
+    a.load = loadFns[i];
+  });
+  // How far up the chain a change of stage s's parts reaches through loading: the
+  // first stage whose evaluation it can change (s itself when nothing upstream feels it).
+  const reach = stagePlans.map((_, s) => {
+    let first = s;
+    let cur = s;
+    while (true) {
+      const sp = stagePlans[cur] as StagePlan;
+      // Only an upstream output with a source impedance feels its load (an op-amp output does not).
+      if (sp.inputStage < 0 || !sp.stage.module.inputImpedance || !stagePlans[sp.inputStage]?.stage.module.outputImpedance) break;
+      cur = sp.inputStage;
+      first = Math.min(first, cur);
+    }
+    return first;
   });
 
   let nominalResults: (EvalOutput | undefined)[] | undefined;
@@ -146,13 +241,14 @@ export function buildChain(plan: Plan): Chain {
   const hotSupplies = { pos: 0, neg: 0 };
   const hotArgs = stagePlans.map((sp) => {
     const parts: Record<string, number> = Object.fromEntries(sp.roles.map((r) => [r, 0]));
-    const args: HotArgs = { parts, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies: hotSupplies, rails: hotRails, isTrial: true, buffer: undefined };
+    const opamp = sp.opampIndex ? { ...sp.stage.opamp } : sp.stage.opamp;
+    const args: HotArgs = { parts, settings: sp.stage.settings, opamp, supplies: hotSupplies, rails: hotRails, isTrial: true, buffer: undefined, load: undefined };
     return args;
   });
   const hotResults: (EvalOutput | undefined)[] = new Array(stagePlans.length);
   const hotBuffers = stagePlans.map(() => bufferPool());
 
-  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length, reuse = 0, capture?: (EvalOutput | undefined)[]): ChainDetail => {
+  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length, reuse = 0, capture?: (EvalOutput | undefined)[], carry = 0): ChainDetail => {
     const rails: Record<string, number> = keep ? {} : hotRails;
     for (let i = 0; i < railIds.length; i++) {
       const v = x[i] ?? Number.NaN;
@@ -175,18 +271,35 @@ export function buildChain(plan: Plan): Chain {
     const outputs: Record<string, Waveform> = keep ? {} : noOutputs;
     const warnings: { stage: string; message: string }[] = keep ? [] : noList;
     const failures: { stage: string; message: string }[] = keep ? [] : noList;
+    // Every stage's parts first: the load functions of upstream stages read them.
+    for (let s = 0; s < stagePlans.length; s++) {
+      const sp = stagePlans[s] as StagePlan;
+      const parts = keep ? {} : (hotArgs[s] as HotArgs).parts;
+      for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
+      sampleParts[s] = parts;
+    }
     for (let s = 0; s < upTo; s++) {
       const sp = stagePlans[s] as StagePlan;
       let input: Waveform | undefined;
       if (sp.inputStage >= 0) input = results[sp.inputStage]?.outputs[sp.stage.input?.output ?? ''];
       let result: EvalOutput | undefined;
       if (s < reuse) result = nominalResults?.[s];
+      else if (s < carry) result = hotResults[s];
       else if (sp.inputStage < 0 || input) {
         try {
-          const args: HotArgs = keep ? { parts: {}, settings: sp.stage.settings, opamp: sp.stage.opamp, supplies, rails } : (hotArgs[s] as HotArgs);
-          const parts = args.parts;
-          for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
+          const args: HotArgs = keep
+            ? { parts: sampleParts[s] as Record<string, number>, settings: sp.stage.settings, opamp: sp.opampIndex ? { ...sp.stage.opamp } : sp.stage.opamp, supplies, rails, load: loadFns[s] }
+            : (hotArgs[s] as HotArgs);
+          if (sp.opampIndex) {
+            const op = args.opamp as MutableOpamp;
+            for (let k = 0; k < opampKeys.length; k++) {
+              const vi = sp.opampIndex[k] as number;
+              if (vi >= 0) op[opampKeys[k] as OpampSpreadKey] = x[vi] as number;
+            }
+          }
+          if (temperatureIndex >= 0) args.temperature = x[temperatureIndex] as number;
           if (!keep) {
+            args.load = loadFns[s];
             if (input) args.input = input;
             // The captured nominal results are read again later: they must not share the trials' arrays.
             args.buffer = capture ? undefined : hotBuffers[s];
@@ -210,6 +323,15 @@ export function buildChain(plan: Plan): Chain {
   };
 
   const nominal = Float64Array.from(variables, (v) => v.nominal);
+  // The first stage a change of each variable can reach; 0 for the rails, the op-amp and the temperature (they reach every stage).
+  // With loading, a stage's parts also reach the upstream stages whose outputs they load (`reach`).
+  const varStage = Int32Array.from(variables, (v) => {
+    const position = stagePosition.get(v.stage);
+    return position === undefined ? 0 : (reach[position] as number);
+  });
+  const hotX = new Float64Array(variables.length);
+  /** Stages whose hot results hold for `hotX` (0: none). */
+  let hotValid = 0;
   return {
     variables,
     checks,
@@ -224,11 +346,30 @@ export function buildChain(plan: Plan): Chain {
           run(nominal, undefined, false, stagePlans.length, 0, nominalResults);
         }
         from = Math.min(reuse, upTo);
+        // A stage after `from` whose parts load an earlier stage's output changes that one too.
+        for (let s = from; s < stagePlans.length; s++) from = Math.min(from, reach[s] as number);
       }
-      run(x, out, false, upTo, from);
+      // Incremental evaluation: stages upstream of every variable that changed since the last
+      // hot evaluation keep their results (their output arrays are untouched since). A search
+      // that moves one part at a time re-evaluates only that part's stage and what follows.
+      let carry = 0;
+      if (hotValid > 0 && from === 0) {
+        carry = Math.min(hotValid, upTo);
+        for (let i = 0; i < x.length && carry > 0; i++) {
+          if (x[i] !== hotX[i]) carry = Math.min(carry, Math.max(0, varStage[i] as number));
+        }
+      }
+      run(x, out, false, upTo, from, undefined, carry);
+      hotX.set(x);
+      hotValid = upTo;
     },
     stageIndex(id) {
       return stagePosition.get(id) ?? -1;
+    },
+    loaders(id) {
+      const at = stagePosition.get(id);
+      if (at === undefined) return [];
+      return stageIds.filter((_, s) => s > at && (reach[s] as number) <= at);
     },
     detail(x, stages) {
       const d = run(x, undefined, true, stages === undefined ? stagePlans.length : Math.max(0, Math.min(stagePlans.length, stages)));
@@ -238,5 +379,54 @@ export function buildChain(plan: Plan): Chain {
       });
       return { ...d, values };
     },
+  };
+}
+
+/**
+ * The load on each output of stage `s` (EvalInput.load), or undefined when nothing
+ * with an impedance takes any of its outputs. Sums admittances: every downstream
+ * input on that output and any external `loads.<output>` resistance, in parallel.
+ * Allocation-light: it keeps its lists and allocates only the impedances the kinds
+ * return and the one it gives back.
+ */
+function loadFunction(
+  stage: PlanStage,
+  s: number,
+  plans: readonly { readonly stage: PlanStage; readonly inputStage: number }[],
+  sampleParts: readonly Record<string, number>[],
+  impedanceArgs: readonly ImpedanceArgs[],
+): ((output: string, f: number) => Complex | undefined) | undefined {
+  const outputs = stage.module.outputs;
+  const takers: number[][] = outputs.map((o) =>
+    plans.flatMap((p, i) => (p.inputStage === s && p.stage.input?.output === o && p.stage.module.inputImpedance ? [i] : [])),
+  );
+  const external = outputs.map((o) => (Object.hasOwn(stage.parts, `${externalLoadPrefix}${o}`) ? `${externalLoadPrefix}${o}` : ''));
+  if (takers.every((t) => t.length === 0) && external.every((e) => e === '')) return undefined;
+  return (output, f) => {
+    const o = outputs.indexOf(output);
+    if (o < 0) return undefined;
+    let yre = 0;
+    let yim = 0;
+    let any = false;
+    for (const t of takers[o] as number[]) {
+      const p = plans[t] as { stage: PlanStage };
+      const z = p.stage.module.inputImpedance?.(impedanceArgs[t] as never, f);
+      if (!z || !Number.isFinite(z.re) || !Number.isFinite(z.im)) continue;
+      const d = z.re * z.re + z.im * z.im;
+      if (d === 0) return { re: 0, im: 0 };
+      yre += z.re / d;
+      yim -= z.im / d;
+      any = true;
+    }
+    const role = external[o] as string;
+    if (role !== '') {
+      const r = (sampleParts[s] as Record<string, number>)[role] ?? Number.NaN;
+      yre += 1 / r;
+      any = true;
+    }
+    if (!any) return undefined;
+    const d = yre * yre + yim * yim;
+    if (d === 0) return undefined;
+    return { re: yre / d, im: -yim / d };
   };
 }

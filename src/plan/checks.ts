@@ -22,6 +22,8 @@ export interface PlanCheck {
   readonly captureFigure?: CheckSpec['captureFigure'];
   /** The quantity's physical floor (CheckSpec.floor), when it has one. */
   readonly floor?: number;
+  /** A design figure nobody probes (CheckSpec.isDesignFigure): in targets, never on the bring-up list. */
+  readonly isDesignFigure?: boolean;
 }
 
 /** The id of the idle-current check (DESIGN §4, contract). */
@@ -91,6 +93,7 @@ export function planChecks(plan: { readonly rails: readonly Rail[]; readonly sta
         phase: 'stage',
         ...(spec.captureFigure ? { captureFigure: spec.captureFigure } : {}),
         ...(spec.floor === undefined ? {} : { floor: spec.floor }),
+        ...(spec.isDesignFigure ? { isDesignFigure: true } : {}),
       });
     }
   }

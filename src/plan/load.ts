@@ -14,7 +14,8 @@ import { findJsonFault } from './json-position.js';
 import { type RawPlan, jsonPath, planSchema } from './schema.js';
 import { resolveStages } from './stages.js';
 import type { Plan, Rail } from './types.js';
-import { readOpamp, readTolerance, readUncertainty, readValue } from './values.js';
+import { readTolerance, readUncertainty, readValue } from './values.js';
+import { defaultVos, readOpampSpec, readTemperatureRange } from './active-spread.js';
 
 /**
  * Below this rail-to-ground resistance, read unpowered, a rail counts as shorted
@@ -84,8 +85,10 @@ export function loadPlanText(text: string, file: string, kinds: Readonly<Record<
   const raw = result.data;
 
   const rails = readRails(raw, file);
-  const opampBase = readOpamp(raw.opamp, defaultOpamp, file, 'opamp');
-  const stages = resolveStages(raw.stages, kinds, opampBase, file, rails.map((r) => r.id));
+  const opampSpec = readOpampSpec(raw.opamp, { model: defaultOpamp, spread: { vos: defaultVos } }, file, 'opamp');
+  const opampBase = opampSpec.model;
+  const temperature = readTemperatureRange(raw.temperature, file);
+  const stages = resolveStages(raw.stages, kinds, opampSpec, file, rails.map((r) => r.id));
 
   const uncertainty: Partial<Record<Unit, UncertaintySpec>> = {};
   for (const [key, spec] of Object.entries(raw.uncertainty ?? {})) {
@@ -120,6 +123,8 @@ export function loadPlanText(text: string, file: string, kinds: Readonly<Record<
     rails,
     railShortMin,
     opamp: opampBase,
+    opampSpread: opampSpec.spread,
+    ...(temperature ? { temperature } : {}),
     uncertainty,
     checkUncertainty,
     stages,
@@ -204,8 +209,9 @@ const topKeys = Object.keys(planSchema.shape).filter((k) => k !== '$schema');
 const nestedKeys: Readonly<Record<string, readonly string[]>> = {
   'rails[0]': ['id', 'nominal', 'tol', 'testPoint'],
   idleCurrent: ['max'],
-  opamp: ['gbw', 'slew', 'headroom', 'maxSupply', 'aol'],
-  'stages[0].opamp': ['gbw', 'slew', 'headroom', 'maxSupply', 'aol'],
+  opamp: ['gbw', 'slew', 'headroom', 'maxSupply', 'aol', 'vos', 'ib'],
+  'stages[0].opamp': ['gbw', 'slew', 'headroom', 'maxSupply', 'aol', 'vos', 'ib'],
+  temperature: ['min', 'max'],
   uncertainty: ['V', 'A', 'Hz', 'ohm', 's', 'F', 'V/V', '1'],
 };
 

@@ -32,6 +32,16 @@ const opampSchema = z.strictObject({
   headroom: z.optional(valueText),
   maxSupply: z.optional(valueText),
   aol: z.optional(valueText),
+  /** Input offset, its ± maximum (`"2 mV"`). */
+  vos: z.optional(valueText),
+  /** Input bias current, optionally toleranced (`"80 nA 50%"`). */
+  ib: z.optional(valueText),
+});
+
+/** The board's ambient range (`{"min": "15 °C", "max": "40 °C"}`), a worst-case dimension of junction laws. */
+const temperatureSchema = z.strictObject({
+  min: text('a temperature such as "15 °C"'),
+  max: text('a temperature such as "40 °C"'),
 });
 
 const uncertaintySchema = z.strictObject({
@@ -56,6 +66,11 @@ export const stageSchema = z.looseObject({
   input: z.optional(text('an upstream output such as "osc.triangle"')),
   testPoints: z.optional(z.record(z.string(), name('a test point name such as "TP3"', 40), { error: 'expected test points by output, e.g. {"out": "TP4"}' })),
   opamp: z.optional(opampSchema),
+  /**
+   * External loads on the stage's outputs, by output name (`{"out": "600 ohm 5%"}`):
+   * a line, a meter or scope input the bench hangs there. An addition to the contract keys.
+   */
+  loads: z.optional(z.record(z.string(), valueText, { error: 'expected loads by output, e.g. {"out": "600 ohm 5%"}' })),
 });
 
 export const planSchema = z.strictObject({
@@ -69,6 +84,7 @@ export const planSchema = z.strictObject({
   idleCurrent: z.optional(z.strictObject({ max: text('a current such as "45 mA"') })),
   railShortMin: z.optional(valueText),
   opamp: z.optional(opampSchema),
+  temperature: z.optional(temperatureSchema),
   uncertainty: z.optional(uncertaintySchema),
   checkUncertainty: z.optional(z.record(z.string(), text('an uncertainty such as "0.1%"'))),
   /** The bench writes decimal commas: a reading typed as `"1,500"` against this plan is 1.5 (else refused as ambiguous). */

@@ -1,12 +1,20 @@
 import type { OpampModel, PartValue, StageKind } from '../circuit/types.js';
 import { PlanError } from './errors.js';
 import { StageParseError } from '../circuit/errors.js';
-import { readOpamp, checkTolerance } from './values.js';
+import { checkTolerance, readValue } from './values.js';
+import { type OpampSpec, readOpampSpec } from './active-spread.js';
 import type { InputRef, PlanStage } from './types.js';
 import type { z } from 'zod';
 import type { stageSchema } from './schema.js';
 
 type RawStageJson = z.infer<typeof stageSchema>;
+
+/**
+ * An external load the plan hangs on an output (`"loads": {"out": "600 ohm"}`)
+ * becomes a toleranced part of its stage, role `loads.<output>`: it varies with
+ * the rest and the chain adds it to that output's load.
+ */
+export const externalLoadPrefix = 'loads.';
 
 function quoteList(items: readonly string[]): string {
   return items.map((s) => JSON.stringify(s)).join(', ');
@@ -27,10 +35,12 @@ function rolePath(stagePath: string, json: Readonly<Record<string, unknown>>, ro
 export function resolveStages(
   raws: readonly RawStageJson[],
   kinds: Readonly<Record<string, StageKind<unknown>>>,
-  planOpamp: OpampModel,
+  planOpamp: OpampModel | OpampSpec,
   file: string,
   railIds: readonly string[] = [],
 ): PlanStage[] {
+  // A bare model (callers from before spreads) is an exact op-amp.
+  const planSpec: OpampSpec = 'model' in planOpamp ? planOpamp : { model: planOpamp, spread: {} };
   const seen = new Map<string, number>();
   raws.forEach((raw, i) => {
     if (raw.id === 'rails') throw new PlanError(file, `stages[${i}].id`, '"rails" is reserved for the supply checks (rails.<id>.dc); name the stage otherwise');
@@ -67,6 +77,16 @@ export function resolveStages(
       if (!Number.isFinite(part.nominal)) throw new PlanError(file, where, `${JSON.stringify(part.text)} is not a finite value`);
       parts[role] = part;
     }
+    for (const [output, text] of Object.entries(raw.loads ?? {})) {
+      const where = `${path}.loads.${output}`;
+      if (!module.outputs.includes(output)) {
+        throw new PlanError(file, where, `${JSON.stringify(output)} is not an output of a ${raw.kind} stage; its outputs are ${quoteList(module.outputs)}`);
+      }
+      const v = readValue(text, 'Ω', file, where);
+      if (!(v.value > 0)) throw new PlanError(file, where, `${JSON.stringify(text)} must be above zero; write the load's resistance, e.g. "600 ohm 5%"`);
+      parts[`${externalLoadPrefix}${output}`] = { nominal: v.value, tol: v.tol, unit: 'Ω', text: v.text };
+    }
+    const opampSpec = readOpampSpec(raw.opamp, planSpec, file, `${path}.opamp`);
     const testPoints: Record<string, string> = { ...(raw.testPoints ?? {}) };
     const checkKeys = module.checks(parsed.settings).map((c) => c.key);
     for (const key of Object.keys(testPoints)) {
@@ -87,7 +107,9 @@ export function resolveStages(
       parts,
       settings: parsed.settings,
       testPoints,
-      opamp: readOpamp(raw.opamp, planOpamp, file, `${path}.opamp`),
+      opamp: opampSpec.model,
+      opampSpread: opampSpec.spread,
+      ...(raw.opamp ? { hasOwnOpamp: true } : {}),
       path,
     };
     return raw.input === undefined ? base : { ...base, inputText: raw.input };

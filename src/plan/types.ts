@@ -1,6 +1,7 @@
 import type { OpampModel, PartValue, StageKind } from '../circuit/types.js';
 import type { Unit } from '../units/unit.js';
 import type { UncertaintySpec } from '../units/uncertainty.js';
+import type { OpampSpreads, TemperatureRange } from './active-spread.js';
 
 /** Where a check sits in a safe bring-up (DESIGN §5): unpowered, first power, rails, then the stages. */
 export type Phase = 'unpowered' | 'first-power' | 'rails' | 'stage';
@@ -37,6 +38,13 @@ export interface PlanStage {
   readonly testPoints: Readonly<Record<string, string>>;
   /** The op-amp this stage uses (plan default, or the stage's own `opamp`). */
   readonly opamp: OpampModel;
+  /**
+   * Spreads of the stage's op-amp keys (`gbw`, `slew`, `headroom`, `vos`, `ib`).
+   * Absent: none (an exact op-amp, as in plans built before spreads).
+   */
+  readonly opampSpread?: OpampSpreads;
+  /** The stage names its own `opamp`: a different part, sampled apart from the plan's (`<stage>.opamp.gbw`). */
+  readonly hasOwnOpamp?: boolean;
   /** JSON path in the plan file (`stages[2]`), for messages. */
   readonly path: string;
 }
@@ -59,6 +67,10 @@ export interface Plan {
   /** Below this rail-to-ground resistance (unpowered) a rail counts as shorted, Ω. */
   readonly railShortMin: number;
   readonly opamp: OpampModel;
+  /** Spreads of the plan's op-amp keys (chain variables `opamp.gbw`, …); absent: none. */
+  readonly opampSpread?: OpampSpreads;
+  /** The board's ambient range, kelvin (chain variable `temperature`); absent: every model at its own nominal. */
+  readonly temperature?: TemperatureRange;
   /** Instrument uncertainty by unit. */
   readonly uncertainty: Readonly<Partial<Record<Unit, UncertaintySpec>>>;
   /** Per-check uncertainty overrides by check id. */

@@ -1,9 +1,7 @@
-import type { OpampModel } from '../circuit/types.js';
 import { maxValueLength, parseValue } from '../units/parse.js';
 import { type UncertaintySpec, parseUncertainty } from '../units/uncertainty.js';
 import { type Unit, unitExample, unitNoun } from '../units/unit.js';
 import { PlanError } from './errors.js';
-import type { RawOpamp } from './schema.js';
 
 /** A value read from a plan, in SI base units, with its tolerance as a fraction (0 when none written). */
 export interface PlanValue {
@@ -50,27 +48,6 @@ export function readTolerance(raw: string, file: string, path: string): number {
   const tol = Number(m[1]) / 100;
   checkTolerance(tol, raw, file, path);
   return tol;
-}
-
-/** An op-amp model: `base` with the plan's (or the stage's) values on top. */
-export function readOpamp(raw: RawOpamp | undefined, base: OpampModel, file: string, path: string): OpampModel {
-  if (!raw) return base;
-  const pick = (key: keyof RawOpamp, unit: Unit, fallback: number, positive: boolean): number => {
-    const v = raw[key];
-    if (v === undefined) return fallback;
-    const { value } = readValue(v, unit, file, `${path}.${key}`, { allowTolerance: false });
-    if (positive ? !(value > 0) : value < 0) {
-      throw new PlanError(file, `${path}.${key}`, `${JSON.stringify(v)} must be ${positive ? 'above zero' : 'zero or more'}`);
-    }
-    return value;
-  };
-  return {
-    gbw: pick('gbw', 'Hz', base.gbw, true),
-    slew: pick('slew', 'V/s', base.slew, true),
-    headroom: pick('headroom', 'V', base.headroom, false),
-    maxSupply: pick('maxSupply', 'V', base.maxSupply, true),
-    aol: pick('aol', 'V/V', base.aol, true),
-  };
 }
 
 /** An instrument uncertainty, e.g. `"0.5% + 2 mV"`. */

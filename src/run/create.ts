@@ -7,7 +7,9 @@ import type { RunPlanShape, RunState } from './types.js';
  * A fresh run: nothing measured, the cautions waiting to be acknowledged, the
  * first check (an unpowered one, in a safe plan) selected and suggested.
  */
-export function createRunState(plan: RunPlanShape, targets: readonly Target[]): RunState {
+export function createRunState(plan: RunPlanShape, all: readonly Target[]): RunState {
+  // Design figures (a peak base current) have no test point: the run never asks for them.
+  const targets = all.some((t) => t.isDesignFigure) ? all.filter((t) => !t.isDesignFigure) : all;
   const base: RunState = {
     targets,
     downstream: downstreamMap(plan),

@@ -1,6 +1,7 @@
 import { useCallback, useState } from 'react';
 import { Box, useApp, useInput } from 'ink';
 import type { BenchLog } from '../log/types.js';
+import type { InstrumentSource } from '../bench/source.js';
 import { BatchScreen } from './batch/batch.js';
 import { BenchScreen } from './bench/bench.js';
 import type { PlanCatalog } from './bench/plan-catalog.js';
@@ -30,10 +31,12 @@ export interface AppProps {
   readonly initialRoute?: Route;
   /** Called instead of Ink's exit when the technician quits (tests). */
   readonly onQuit?: () => void;
+  /** The bench's instruments, for the bring-up screen's `m` key. @default null */
+  readonly instruments?: InstrumentSource | null;
 }
 
 /** Switches screens and owns the quit dialog; every screen keeps its own state. */
-export function App({ log, catalog, operator, size, initialRoute = { screen: 'bench' }, onQuit }: AppProps) {
+export function App({ log, catalog, operator, size, initialRoute = { screen: 'bench' }, onQuit, instruments = null }: AppProps) {
   const app = useApp();
   const exit = onQuit ?? app.exit;
   const { width, height } = useTerminalSize(size);
@@ -95,6 +98,7 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
               targets={targets}
               serial={route.serial}
               operator={operator}
+              instruments={instruments}
               onDirtyChange={setDirty}
               onTypingChange={setTyping}
               {...(route.resumeRun ? { resumeRun: route.resumeRun } : {})}

@@ -1,6 +1,7 @@
 import type { TargetSet } from '../analysis/types.js';
 import type { TargetsCache } from '../log/targets-cache.js';
 import type { BenchLog } from '../log/types.js';
+import type { InstrumentSource } from '../bench/source.js';
 import type { Plan } from '../plan/types.js';
 
 /** Props every full screen gets from `app.tsx`. */
@@ -21,6 +22,8 @@ export interface ScreenProps {
 }
 
 export interface BringUpProps extends ScreenProps {
+  /** The bench's instruments (`m` reads the selected check from one), or null when no instruments file is set up. @default null */
+  readonly instruments?: InstrumentSource | null;
   readonly plan: Plan;
   readonly targets: TargetSet;
   readonly serial: string;

@@ -17,6 +17,8 @@ export function formatValue(value: number, unit: Unit, options: FormatOptions = 
   if (!Number.isFinite(value)) return Number.isNaN(value) ? '—' : value > 0 ? '+∞' : '−∞';
   if (unit === '1') return `${trim((value * 100).toPrecision(digits), keepZeros)} %`;
   if (unit === 'V/V') return `${trim(value.toPrecision(digits), keepZeros)} V/V`;
+  // Temperatures are kept in kelvin and read at the bench in degrees Celsius (0 °C = 273.15 K, SI Brochure).
+  if (unit === 'K') return `${trim((value - 273.15).toPrecision(digits), keepZeros)} °C`;
   if (unit === 'V/s') {
     // Slew rates read naturally per microsecond.
     return `${trim((value / 1e6).toPrecision(digits), keepZeros)} V/µs`;

@@ -3,7 +3,7 @@
  * with the unit beside them; prefixes and symbols exist only at the edges.
  * `1` is a dimensionless fraction (THD, duty, pot setting), `V/V` a gain.
  */
-export type Unit = 'V' | 'A' | 'Hz' | 's' | 'Ω' | 'F' | 'H' | 'W' | 'V/s' | 'V/V' | '1';
+export type Unit = 'V' | 'A' | 'Hz' | 's' | 'Ω' | 'F' | 'H' | 'W' | 'V/s' | 'V/V' | '1' | 'K';
 
 /** The word a technician would use for a quantity of this unit. */
 export const unitNoun: Readonly<Record<Unit, string>> = {
@@ -18,6 +18,7 @@ export const unitNoun: Readonly<Record<Unit, string>> = {
   'V/s': 'a slew rate',
   'V/V': 'a gain',
   '1': 'a plain number',
+  K: 'a temperature',
 };
 
 /** An example a technician could type for each unit, used in error messages. */
@@ -33,6 +34,7 @@ export const unitExample: Readonly<Record<Unit, string>> = {
   'V/s': '"0.5 V/us"',
   'V/V': '"-3.3"',
   '1': '"0.5"',
+  K: '"25 °C"',
 };
 
 /**

@@ -172,6 +172,15 @@ describe('common-emitter faults, impedances and plan', () => {
     expect(rel(Math.hypot(zout?.re ?? 0, zout?.im ?? 0), (tout['vm(c)'] as Float64Array)[0] as number)).toBeLessThan(0.02);
   });
 
+  test('without the rails (a caller that passes none) the input impedance of a bypassed stage still counts rπ: within 25 % of ngspice', () => {
+    const s = stage(bypassed);
+    const parts = Object.fromEntries(Object.entries(s.parts).map(([k, v]) => [k, v.nominal]));
+    const zin = commonEmitterKind.inputImpedance?.({ parts, settings: s.settings as CommonEmitterSettings, opamp: defaultOpamp }, 1e3);
+    const t = runSpice(`${deck(bypassed, 'DC 0')}\nIt 0 b DC 0 AC 1`.replace('Vin in 0 DC 0', 'Vin in 0 DC 0\nRopen in 0 1e12').replace('Cin in b 1', 'Cin in b 1p'), 'ac lin 1 1000 1000', ['vm(b)']);
+    // ngspice AC: 2.24 kΩ; the fallback takes rπ at 1 mA instead of the 1.37 mA operating point.
+    expect(rel(Math.hypot(zin?.re ?? 0, zin?.im ?? 0), (t['vm(b)'] as Float64Array)[0] as number)).toBeLessThan(0.25);
+  });
+
   test.each([
     [{ from: 'VCC', parts: { R1: '47k', R2: '10k', Rc: '4k7' } }, /stages\[4\]\.parts\.Re: missing/],
     [{ from: 'VCC', parts: { R1: '47k', R2: '10k', Rc: '4k7', Re: '1k' }, hfe: 1 }, /stages\[4\]\.hfe: "1" reads as 1 V\/V, not a plausible value/],

@@ -77,3 +77,18 @@ describe('rc-lowpass plan', () => {
     expect(parse).toThrow(message);
   });
 });
+
+describe('loadedCorner (the bracketing search behind the loaded corner)', () => {
+  test('a resistive load: the Thevenin corner 1/(2π·(R‖RL)·C) to 1e-8', async () => {
+    const { loadedCorner } = await import('../../src/circuit/rc-lowpass.js');
+    const r = 2200;
+    const rl = 10_000;
+    const c = 4.7e-9;
+    // |H|² of R into C ‖ RL (Kirchhoff at the node): 1/((1 + R/RL)² + (ωRC)²).
+    const mag2 = (f: number): number => 1 / ((1 + r / rl) ** 2 + (2 * Math.PI * f * r * c) ** 2);
+    // Thevenin equivalent of R and RL driving C (any circuits handbook).
+    const expected = 1 / (2 * Math.PI * ((r * rl) / (r + rl)) * c);
+    expect(Math.abs(loadedCorner(mag2, expected * 3) / expected - 1)).toBeLessThan(1e-8);
+    expect(Math.abs(loadedCorner(mag2, expected / 50) / expected - 1)).toBeLessThan(1e-8);
+  });
+});

@@ -59,6 +59,9 @@ describe('regulator against ngspice (behavioural error loop, stated above)', () 
     // ngspice operating point with a 100 Ω load: within 2 %.
     expect(rel(loaded.values['out.dc'] as number, spice)).toBeLessThan(0.02);
     expect(loaded.warnings).toEqual([]);
+    // Dissipation by hand: (12 − 5.036 V) × (5.036/960 + 5.036/100) A = 0.3872 W.
+    expect(loaded.values['pdiss']).toBeCloseTo((12 - 5.036) * (5.036 / 960 + 5.036 / 100), 3);
+    expect(regulatorKind.checks(stage({ from: 'VIN', parts: { R1: '240', R2: '720' } }).settings as RegulatorSettings).find((c) => c.key === 'pdiss')?.isDesignFigure).toBe(true);
   });
 });
 

@@ -32,7 +32,7 @@ const opamp: OpampModel = { gbw: 1e6, slew: 0.5e6, headroom: 1.5, maxSupply: 18,
 interface Case {
   readonly name: string;
   readonly parts: Readonly<Record<string, string>>;
-  readonly clamp?: { readonly vz: string; readonly vf: string };
+  readonly clamp?: { readonly vz: string; readonly vf: string; readonly vz2?: string; readonly vf2?: string };
   readonly pot?: number;
   readonly pos?: number;
   readonly neg?: number;
@@ -185,6 +185,9 @@ const cases: readonly Case[] = [
   { name: 'asymmetric rails +15/−9 V, unclamped, 840 Hz', parts: { ...base, Rt: '5k6', Ct: '100n' }, pos: 15, neg: -9 },
   // A mismatched zener pair (3.6 V against 4.3 V) moves the duty off 50 %.
   { name: 'mismatched zeners 3.6 V / 4.3 V, clamped, 1.2 kHz', parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' }, clamp: { vz: '3.6 V', vf: '0.7 V' }, zener2: { vz: 4.3, vf: 0.7 } },
+  // The same pair written in the plan (`clamp.vz2`), and one with a second forward drop too.
+  { name: 'zener pair from the plan, vz2 4.3 V, clamped, 1.2 kHz', parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' }, clamp: { vz: '3.6 V', vf: '0.7 V', vz2: '4.3 V' } },
+  { name: 'zener pair from the plan, vz2 5.1 V, vf2 0.75 V, clamped, 1.2 kHz', parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' }, clamp: { vz: '3.3 V', vf: '0.7 V', vz2: '5.1 V', vf2: '0.75 V' } },
   { name: 'asymmetric rails +15/−9 V, clamped, 1.2 kHz', parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' }, clamp: zener, pos: 15, neg: -9 },
   // A low-GBW op-amp (100 kHz, 1 V/µs) with a short integrator time constant (RC = 48 µs):
   // the integrator's finite-GBW term 1/(2π·GBW·RC) is 3.3 % of RC, so the wrong sign of that
@@ -215,7 +218,7 @@ describe('schmitt-integrator against ngspice (0.5 V/µs, 1 MHz op-amps)', () => 
       expect(Math.abs(relErr(freq, sim.f))).toBeLessThan(c.freqLimit ?? limit);
       expect(Math.abs(relErr(v['duty'] ?? Number.NaN, sim.duty))).toBeLessThan(limit);
       // A mismatched pair must show in the duty (levels 4.3 V and 5.0 V: duty ≈ 5.0/9.3 = 0.54 by the ramp-time ratio).
-      if (c.zener2) expect(Math.abs((v['duty'] ?? 0.5) - 0.5)).toBeGreaterThan(0.02);
+      if (c.zener2 || c.clamp?.vz2) expect(Math.abs((v['duty'] ?? 0.5) - 0.5)).toBeGreaterThan(0.02);
       expect(Math.abs(relErr(v['square.vpp'] ?? Number.NaN, sim.squareVpp))).toBeLessThan(limit);
       expect(Math.abs(relErr(v['triangle.vpp'] ?? Number.NaN, sim.triangleVpp))).toBeLessThan(limit);
       // The triangle handed downstream has the simulated shape, overshoot and slewed corners included:

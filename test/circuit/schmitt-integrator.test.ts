@@ -290,6 +290,15 @@ describe('parse', () => {
     expect(p.parts['clamp.vz']).toMatchObject({ nominal: 3.9, tol: 0.05, unit: 'V' });
     expect(p.parts['clamp.vf']).toMatchObject({ nominal: 0.7, tol: 0 });
     expect(p.settings).toEqual({ hasPot: true, pot: 0.5, hasClamp: true });
+    // Without vz2/vf2 the partner zener is the same type, with its own spread.
+    expect(p.parts['clamp.vz2']).toMatchObject({ nominal: 3.9, tol: 0.05 });
+    expect(p.parts['clamp.vf2']).toMatchObject({ nominal: 0.7, tol: 0 });
+  });
+
+  test('an asymmetric zener pair: vz2 (and vf2) for the second zener', () => {
+    const p = parse({ ...clamped, clamp: { vz: '3.9 V 5%', vf: '0.7 V', vz2: '4.7 V 2%', vf2: '0.75 V' } });
+    expect(p.parts['clamp.vz2']).toMatchObject({ nominal: 4.7, tol: 0.02, unit: 'V' });
+    expect(p.parts['clamp.vf2']).toMatchObject({ nominal: 0.75, tol: 0 });
   });
 
   const cases: readonly [string, Record<string, unknown>, string, RegExp][] = [
@@ -305,6 +314,8 @@ describe('parse', () => {
     ['pot without RV', { parts: good.parts, pot: { RV: 0.3 } }, 'stages[0].pot.RV', /parts has no RV/],
     ['clamp missing vf', { ...clamped, clamp: { vz: '3.9 V' } }, 'stages[0].clamp.vf', /missing; .*"vf": "0.7 V"/],
     ['clamp not a voltage', { ...clamped, clamp: { vz: '3.9 mA', vf: '0.7 V' } }, 'stages[0].clamp.vz', /"3.9 mA" is not a voltage; write e\.g\. "3.9 V 5%"/],
+    ['second zener not a voltage', { ...clamped, clamp: { vz: '3.9 V', vf: '0.7 V', vz2: '4.3 mA' } }, 'stages[0].clamp.vz2', /"4.3 mA" is not a voltage; write e\.g\. "4.3 V 5%"/],
+    ['unknown clamp key', { ...clamped, clamp: { vz: '3.9 V', vf: '0.7 V', vz3: '5 V' } }, 'stages[0].clamp.vz3', /is not a clamp value; .*vz2/],
   ];
   for (const [name, json, path, message] of cases) {
     test(`${name}: names ${path} and gives an example`, () => {

@@ -121,7 +121,8 @@ describe('resume and new runs', () => {
     });
     await app.waitFor('FX-0042');
     await app.press(keys.enter);
-    await app.waitFor('2/14 read');
+    // 15 checks: the fixture's amplifier gained its DC level check (amp.out.dc).
+    await app.waitFor('2/15 read');
     await app.press(keys.enter); // the cautions again, as the board may have been off the bench
     await app.waitFor('rails.idle-current');
     const board = await app.log.readBoard('FX-0042');

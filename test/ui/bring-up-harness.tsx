@@ -10,6 +10,7 @@ import type { BenchLog, BoardFile } from '../../src/log/types.js';
 import { loadPlanFile } from '../../src/plan/load.js';
 import type { Plan } from '../../src/plan/types.js';
 import { BringUpScreen } from '../../src/ui/bring-up/bring-up.js';
+import type { InstrumentSource } from '../../src/bench/source.js';
 import { keys } from './keys.js';
 import { waitForFrame, writeAndWait } from './wait-frame.js';
 
@@ -26,6 +27,7 @@ export interface ScreenOptions {
   readonly height?: number;
   readonly resumeRun?: string;
   readonly serial?: string;
+  readonly instruments?: InstrumentSource | null;
 }
 
 /** A bring-up screen on a real log in a temporary folder. */
@@ -45,6 +47,7 @@ export async function renderBringUp(fixture: { plan: Plan; targets: TargetSet },
       onExit={() => exits.push(1)}
       onDirtyChange={(d) => dirty.push(d)}
       {...(options.resumeRun ? { resumeRun: options.resumeRun } : {})}
+      {...(options.instruments ? { instruments: options.instruments } : {})}
     />,
   );
   const frame = () => ui.lastFrame() ?? '';

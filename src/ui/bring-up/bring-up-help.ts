@@ -7,6 +7,8 @@ export const bringUpHelp: readonly HelpEntry[] = [
   ['↑↓ j k', 'move in the stage list; Enter picks the check'],
   ['r', 'note a rework (part, from, to, note); the reworked stage is measured again'],
   ['a', 'attach a capture file to the check'],
+  ['m', "read the check from its bench instrument (SCPI; Esc cancels the wait)"],
+  ['M', 'five readings from the instrument, recorded as their mean (their spread widens the guard band)'],
   ['e', 'end the run (passed once every check reads, failed, aborted)'],
   ['Esc', 'clear the input, or go back to the bench'],
   ['?', 'this help'],

@@ -55,6 +55,8 @@ export function BringUpScreen(props: BringUpProps) {
     : next
       ? `next: ${next.check} — ${next.why}${next.check === state.selected ? '' : ' (Enter)'}`
       : 'every check has a reading: e ends the run';
+  const source = target ? run.instrumentFor(target.check, target.unit) : null;
+  const placeholder = `${next && next.check !== state.selected ? 'type a reading, or Enter for the next check' : 'type a reading'}${source ? `; m reads ${source.name} (${source.query})` : ''}`;
   const body = (() => {
     if (focus === 'help') {
       const help = bringUpHelpFor(ui.screen.helpFrom, state.isPowerOff);
@@ -79,7 +81,7 @@ export function BringUpScreen(props: BringUpProps) {
               {chart ? <Text>{chart}</Text> : null}
               {!isOverlay && last && lastTarget && verdict && layout.verdictRows > 0 ? <VerdictPanel reading={last} target={lastTarget} result={verdict} explanations={explanation.explanations} hints={explanation.hints} maxLines={layout.verdictRows} width={layout.panelWidth} /> : null}
               <Text wrap="truncate-end" {...toneProps('accent')}>{nextLine}</Text>
-              <InputLine check={state.selected} text={ui.reading.value} cursor={ui.reading.cursor} status={status} isFocused={focus === 'input'} placeholder={next && next.check !== state.selected ? 'type a reading, or Enter for the next check' : 'type a reading'} width={layout.panelWidth} />
+              <InputLine check={state.selected} text={ui.reading.value} cursor={ui.reading.cursor} status={status} isFocused={focus === 'input'} placeholder={placeholder} width={layout.panelWidth} />
             </>
           )}
         </Box>

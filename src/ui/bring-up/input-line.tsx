@@ -1,4 +1,5 @@
 import { Box, Text } from 'ink';
+import { useEffect, useState } from 'react';
 import { FieldText } from '../components/text-field.js';
 import { toneProps } from '../theme.js';
 import type { Status } from './use-bring-up-state.js';
@@ -31,12 +32,30 @@ export function InputLine({ check, text, cursor = text.length, status, isFocused
   );
 }
 
+/** `reading dmm (MEAS:VOLT:DC?)… 1.2 s · Esc cancels`, the time ticking while the instrument is asked. */
+function Measuring({ status }: { readonly status: Extract<Status, { kind: 'measuring' }> }) {
+  const [now, setNow] = useState(Date.now());
+  useEffect(() => {
+    const timer = setInterval(() => setNow(Date.now()), 200);
+    return () => clearInterval(timer);
+  }, []);
+  const elapsed = Math.max(0, (now - status.since) / 1000).toFixed(1);
+  const which = status.of > 1 ? ` ${status.count + 1} of ${status.of}` : '';
+  return (
+    <Text wrap="truncate-end" {...toneProps('accent')}>
+      reading {status.instrument}{which} ({status.query})… {elapsed} s · Esc cancels
+    </Text>
+  );
+}
+
 function StatusLine({ status }: { readonly status: Status }) {
   switch (status.kind) {
     case 'loading':
       return <Text {...toneProps('dim')}>reading the board's log to resume…</Text>;
     case 'saving':
       return <Text {...toneProps('accent')}>saving {status.text}…</Text>;
+    case 'measuring':
+      return <Measuring status={status} />;
     case 'rejected':
       return (
         <Text wrap="truncate-end" {...toneProps('warn')}>

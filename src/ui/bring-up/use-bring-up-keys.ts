@@ -5,7 +5,7 @@ import type { BringUpScreenState } from './use-bring-up-screen-state.js';
 import type { BringUp } from './use-bring-up-state.js';
 
 /** Letters that act on the screen when typed into an empty reading line. */
-const commands = new Set(['?', 'r', 'a', 'e']);
+const commands = new Set(['?', 'r', 'a', 'e', 'm', 'M']);
 
 /**
  * The keyboard of the bring-up screen: one listener that asks the live state
@@ -18,6 +18,9 @@ export function useBringUpKeys(run: BringUp, screen: BringUpScreenState, isActiv
     else if (input === 'r') screen.openRework();
     else if (input === 'a') screen.openCapture();
     else if (input === 'e') screen.openEnd();
+    // m: one reading from the check's instrument; M: five, recorded as their mean.
+    else if (input === 'm') run.measure(1);
+    else if (input === 'M') run.measure(5);
   };
 
   const onList = (input: string, key: Key) => {
@@ -45,6 +48,12 @@ export function useBringUpKeys(run: BringUp, screen: BringUpScreenState, isActiv
     const { focus, rework } = screen.screenRef.current;
     // While a resumed run is read back, keys would act on an empty run.
     if (run.statusRef.current.kind === 'loading') return;
+    // While an instrument is asked, Esc cancels and the other keys wait (the screen keeps drawing).
+    if (run.statusRef.current.kind === 'measuring') {
+      if (key.escape) run.cancelMeasure();
+      else if (input === '?') screen.toggleHelp();
+      return;
+    }
     if (focus === 'help') {
       if (input === '?' || key.escape) screen.toggleHelp();
       return;
