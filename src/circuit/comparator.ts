@@ -28,6 +28,21 @@ interface Thresholds {
  * open or R2 shorted puts the (+) input on the output (a = 1); R2 open or R1
  * shorted on the reference (a = 0, no hysteresis).
  */
+/** Output current a general-purpose op-amp delivers before it current-limits, A (common practice, no source). */
+const currentLimit = 25e-3;
+
+/**
+ * The output levels: the swing (rail less headroom), or less where the load at
+ * the output would draw more than the op-amp's current limit (|V| = Ilim·|Z|).
+ */
+function outputLevels(input: EvalInput<ComparatorSettings>): { high: number; low: number; isLimited: boolean } {
+  const { high, low } = swing(input.opamp, input.supplies);
+  const z = input.load?.('out', input.input?.frequency ?? 0);
+  if (!z) return { high, low, isLimited: false };
+  const most = currentLimit * Math.hypot(z.re, z.im);
+  return { high: Math.min(high, most), low: Math.max(low, -most), isLimited: most < Math.max(high, -low) };
+}
+
 function thresholds(input: EvalInput<ComparatorSettings>): Thresholds {
   const r1 = input.parts['R1'] ?? Number.NaN;
   const r2 = input.parts['R2'] ?? Number.NaN;
@@ -36,7 +51,7 @@ function thresholds(input: EvalInput<ComparatorSettings>): Thresholds {
   let a = r1 / (r1 + r2);
   if (fault && ((fault.role === 'R1' && fault.mode === 'open') || (fault.role === 'R2' && fault.mode === 'short'))) a = 1;
   if (fault && ((fault.role === 'R2' && fault.mode === 'open') || (fault.role === 'R1' && fault.mode === 'short'))) a = 0;
-  const { high, low } = swing(input.opamp, input.supplies);
+  const { high, low } = outputLevels(input);
   return { high: vref * (1 - a) + high * a, low: vref * (1 - a) + low * a, outHigh: high, outLow: low, a, base: vref * (1 - a) };
 }
 
@@ -122,6 +137,9 @@ function evaluate(input: EvalInput<ComparatorSettings>): EvalOutput {
     values['duty'] = duty;
   }
   if (!input.isTrial) {
+    if (outputLevels(input).isLimited) {
+      warnings.push({ message: `the load on the output draws more than the op-amp's ${formatValue(currentLimit, 'A')} or so: it current-limits at ${formatValue(th.outLow, 'V')} … ${formatValue(th.outHigh, 'V')} and runs warm` });
+    }
     if (cycles === 0) {
       warnings.push({
         message: `the input swings ${formatValue(inLo, 'V')} … ${formatValue(inHi, 'V')} but the thresholds are ${formatValue(th.low, 'V')} and ${formatValue(th.high, 'V')}: the output never switches`,

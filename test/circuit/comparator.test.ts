@@ -145,6 +145,15 @@ describe('comparator closed form and behaviour', () => {
     expect(comparatorKind.checks(stage({ parts: { R1: '1k', R2: '1k' }, periodic: false }).settings as ComparatorSettings).map((c) => c.key)).not.toContain('freq');
   });
 
+  test('a 200 Ω load current-limits the output at about 25 mA × 200 Ω = ±5 V (common practice, no source), and the thresholds follow', () => {
+    const s = stage({ parts: { R1: '10k', R2: '100k' } });
+    const parts = Object.fromEntries(Object.entries(s.parts).map(([k, v]) => [k, v.nominal]));
+    const r = comparatorKind.evaluate({ parts, settings: s.settings, opamp: defaultOpamp, supplies, rails: {}, input: sine(1e3, 3), load: (o) => (o === 'out' ? { re: 200, im: 0 } : undefined) });
+    expect(r.values['out.vpp']).toBeCloseTo(10, 6);
+    expect(r.values['vth.high']).toBeCloseTo((5 * 10) / 110, 9);
+    expect(r.warnings.map((w) => w.message).join('\n')).toMatch(/current-limits/);
+  });
+
   test('faults: R2 open leaves no hysteresis, R1 open makes it the whole swing', () => {
     const json = { parts: { R1: '10k', R2: '100k' }, vref: '1 V' };
     const open2 = run(json, sine(1e3, 3), defaultOpamp, { role: 'R2', mode: 'open' });
