@@ -75,7 +75,7 @@ export function historyText(board: BoardFile, bands: ReadonlyMap<string, Snapsho
       const band = t ? `band ${bandWords(t.worst, t.unit)}` : 'band unknown (plan snapshot missing)';
       const deviation = deviationWords(r.value, entry.deviation);
       const dev = deviation ? `, ${deviation}` : '';
-      rows.push({ at: r.at, order: 3, text: `  ${r.verdict.toUpperCase().padEnd(8)} ${r.check} = ${formatValue(r.value, r.unit)} (typed ${JSON.stringify(r.raw)}, ${r.operator}); ${band}${dev}` });
+      rows.push({ at: r.at, order: 3, text: `  ${r.verdict.toUpperCase().padEnd(8)} ${r.check} = ${formatValue(r.value, r.unit)} (${r.instrument ? `from ${r.instrument.name}, answered` : r.capture ? 'from a capture,' : 'typed'} ${JSON.stringify(r.raw)}, ${r.operator}); ${band}${dev}` });
       for (const w of r.warnings ?? []) rows.push({ at: r.at, order: 3, text: `           warning: ${w}` });
     } else if (entry.kind === 'rework') {
       const w = entry.rework;

@@ -209,12 +209,14 @@ export const recordCommand: Command = async (argv, io) => {
   let text: string;
   let value: number;
   let instrument: InstrumentRef | undefined;
+  let record: { readonly name: string; readonly bytes: Uint8Array } | undefined;
   if (typeof fromName === 'string') {
     // Nothing is saved unless the instrument gave a usable number (DESIGN §7a).
     const taken = await readFromInstrument(fromName.trim(), typeof args.options.instruments === 'string' ? args.options.instruments : undefined, target, io);
     text = taken.raw;
     value = taken.value;
     instrument = taken.instrument;
+    record = taken.capture;
   } else {
     text = need('value');
     value = readValue(text, target, { decimalComma: decimalCommaOf(args.options['decimal-comma'], io.env, plan) });
@@ -225,13 +227,16 @@ export const recordCommand: Command = async (argv, io) => {
 
   // A busy board (another bench writing it) is said at once, not after a silent wait.
   const log = await openStore(dir, { onLockWait: (message) => io.stderr(`probebook: ${message}\n`) });
+  // A scope record the value was measured from is kept in the log with the reading, as an attached capture is.
+  const kept = record ? (await log.saveCapture(record.bytes, record.name)).file : undefined;
   // The skipped-safety warnings are judged under the board's lock, from the run's readings as saved.
   const saved = await log.appendToOpenRun(
     serial,
     { plan: plan.plan, planHash: plan.hash, planText: plan.text, operator },
-    { check, value, unit: target.unit, raw: text, operator, verdict: result.verdict, planHash: plan.hash, ...(result.warnings.length ? { warnings: result.warnings } : {}), ...(instrument ? { instrument } : {}) },
+    { check, value, unit: target.unit, raw: text, operator, verdict: result.verdict, planHash: plan.hash, ...(result.warnings.length ? { warnings: result.warnings } : {}), ...(instrument ? { instrument } : {}), ...(kept ? { capture: kept } : {}) },
     (board, run) => skippedSafety(set.targets, target, latestVerdicts(board.readings, run.id)),
   );
+  if (kept && record) await log.linkCapture(serial, { file: kept, name: record.name, at: saved.reading.at, check, run: saved.run.id });
   const done = latestVerdicts(saved.board.readings, saved.run.id);
   let next = nextCheck(set.targets, done, { check, verdict: result.verdict });
   let ended: RunOutcome | null = null;

@@ -210,3 +210,34 @@ describe('the simulated scope', () => {
     }
   }, 60_000);
 });
+
+describe('record --from a scope (a capture figure measured from an SCPI record)', () => {
+  test('a sine record answers a vpp check: measured, recorded, and the record kept with the reading', async () => {
+    const { fileURLToPath } = await import('node:url');
+    const plan = fileURLToPath(new URL('../../demo/line-driver.plan.json', import.meta.url));
+    // An invented 2 kHz sine of 1.25 V peak, 4,000 int16 codes at 1 MS/s (50 µV a code).
+    const n = 4000;
+    const codes = Buffer.alloc(2 * n);
+    for (let i = 0; i < n; i++) codes.writeInt16LE(Math.round((1.25 * Math.sin((2 * Math.PI * 2000 * i) / 1e6)) / 50e-6), 2 * i);
+    const block = Buffer.concat([Buffer.from(`#4${codes.length}`), codes, Buffer.from('\n')]);
+    const scope = await startTestInstrument((c) =>
+      c === '*IDN?' ? { kind: 'text', text: 'Invented Scopes,S-1,5,0.9' } : c === 'WAV:DATA?' ? { kind: 'bytes', bytes: block } : { kind: 'text', text: ({ 'WAV:XINC?': '1E-6', 'WAV:YINC?': '5E-5', 'WAV:YOR?': '0' } as Record<string, string>)[c] ?? '-113,"Undefined header"' },
+    );
+    servers.push(scope);
+    const file = join(t.dir, 'scope.json');
+    writeFileSync(file, JSON.stringify({ instruments: [{ name: 'scope', address: `tcp://127.0.0.1:${scope.port}`, capture: { data: 'WAV:DATA?', format: 'int16', xincrement: 'WAV:XINC?', yscale: 'WAV:YINC?', yoffset: 'WAV:YOR?' } }] }));
+    const r = await cli(['record', '--plan', plan, '--board', 'SC-1', '--check', 'filt.out.vpp', '--from', 'scope', '--instruments', file, '--json'], env);
+    expect(r.status, r.stderr).toBe(0);
+    const out = JSON.parse(r.stdout);
+    // A sine's peak-to-peak is twice its peak (any signals handbook): 2.5 V, within 0.5 % (quantisation and sampling).
+    expect(Math.abs(out.reading.value / 2.5 - 1)).toBeLessThan(0.005);
+    expect(out.reading.raw).toMatch(/^vpp .* from scope's record$/);
+    const board = await (await openLog(t.dir)).readBoard('SC-1');
+    const saved = board?.readings[0];
+    expect(saved?.capture).toMatch(/^[0-9a-f]{64}\.csv$/);
+    expect(board?.captures).toEqual([expect.objectContaining({ file: saved?.capture, check: 'filt.out.vpp', name: 'scope-filt.out.vpp.csv' })]);
+    // The kept record reads back as a capture: analyze gives the same peak-to-peak.
+    const analyzed = await cli(['analyze', join(t.dir, 'captures', saved?.capture ?? ''), '--json'], env);
+    expect(JSON.parse(analyzed.stdout).vpp).toBeCloseTo(out.reading.value, 6);
+  });
+});

@@ -55,7 +55,7 @@ export function BringUpScreen(props: BringUpProps) {
     : next
       ? `next: ${next.check} — ${next.why}${next.check === state.selected ? '' : ' (Enter)'}`
       : 'every check has a reading: e ends the run';
-  const source = target ? run.instrumentFor(target.check, target.unit) : null;
+  const source = target ? run.instrumentFor(target.check, target.unit, target.captureFigure) : null;
   const placeholder = `${next && next.check !== state.selected ? 'type a reading, or Enter for the next check' : 'type a reading'}${source ? `; m reads ${source.name} (${source.query})` : ''}`;
   const body = (() => {
     if (focus === 'help') {

@@ -6,6 +6,8 @@ import type { RunOutcome } from '../../log/types.js';
 import { assessReading } from '../../run/assess.js';
 import { uncertaintyFor, verdictFor } from '../../analysis/verdict.js';
 import type { InstrumentSource } from '../../bench/source.js';
+import { captureCsv } from '../../bench/capture-csv.js';
+import { measure as measureRecord } from '../../signal/measure.js';
 import { createRunState } from '../../run/create.js';
 import { lockReason } from '../../run/gates.js';
 import { runReducer } from '../../run/reducer.js';
@@ -125,69 +127,6 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
     [targets, plan, log, serial, operator, ensureRun],
   );
 
-  const measureAbort = useRef<AbortController | null>(null);
-  /**
-   * Take the selected check's reading from its bench instrument (`count` > 1:
-   * that many readings, recorded as their mean with the spread added to the
-   * guard band as 2·s/√n). The screen keeps drawing while it waits; `cancelMeasure` stops it.
-   */
-  const measure = useCallback(
-    (count = 1): boolean => {
-      const s = stateRef.current;
-      const t = targets.targets.find((x) => x.check === s.selected);
-      if (!t || busy.current) return false;
-      const source = instruments;
-      const pick = source?.pick(t.check, t.unit) ?? null;
-      if (!source || !pick) {
-        setStatus({ kind: 'rejected', message: source ? `no instrument covers ${t.check} (${t.unit}): add its id or unit to an instrument's queries` : 'no instruments file: see probebook instruments --help (or start a simulated bench)' });
-        return false;
-      }
-      const locked = lockReason(s, t.check);
-      if (locked) {
-        setStatus({ kind: 'rejected', message: `not recorded: ${t.check}: ${locked}` });
-        return false;
-      }
-      busy.current = true;
-      const abort = new AbortController();
-      measureAbort.current = abort;
-      const since = Date.now();
-      void (async () => {
-        try {
-          const values: number[] = [];
-          let last: Awaited<ReturnType<InstrumentSource['read']>> | null = null;
-          for (let i = 0; i < count; i++) {
-            setStatus({ kind: 'measuring', instrument: pick.name, query: pick.query, since, count: i, of: count });
-            last = await source.read(pick.name, t.check, t.unit, abort.signal);
-            values.push(last.value);
-            if (last.isOverload) break;
-          }
-          if (!last) return;
-          const n = values.length;
-          const mean = values.reduce((a, b) => a + b, 0) / n;
-          const sd = n > 1 ? Math.sqrt(values.reduce((a, v) => a + (v - mean) ** 2, 0) / (n - 1)) : 0;
-          const spec = uncertaintyFor(plan, t.check, t.unit);
-          // The mean's own scatter (2·s/√n, a coverage factor of 2 as in the GUM) widens the guard band.
-          const widened = n > 1 && Number.isFinite(mean) ? { relative: spec?.relative ?? 0, absolute: (spec?.absolute ?? 0) + (2 * sd) / Math.sqrt(n) } : spec;
-          const value = last.isOverload ? Number.POSITIVE_INFINITY : mean;
-          const result = verdictFor(t, value, Number.isFinite(value) ? widened : undefined);
-          const raw = last.isOverload ? `OL (${last.raw})` : n > 1 ? `mean of ${n}: ${values.map((v) => String(+v.toPrecision(6))).join(', ')}` : last.raw;
-          const run = await ensureRun();
-          const input = { run, check: t.check, value, unit: t.unit, raw, operator, verdict: result.verdict, planHash: plan.hash, instrument: last.instrument };
-          const saved = await log.appendReading(serial, result.warnings.length > 0 ? { ...input, warnings: result.warnings } : input);
-          dispatch({ type: 'record-reading', reading: toRunReading(saved) });
-          setStatus({ kind: 'saved', id: saved.id });
-        } catch (error) {
-          setStatus({ kind: 'error', message: `not recorded: ${message(error).replace(/; nothing was recorded$/, '')}` });
-        } finally {
-          busy.current = false;
-          measureAbort.current = null;
-        }
-      })();
-      return true;
-    },
-    [targets, plan, log, serial, operator, ensureRun, instruments],
-  );
-  const cancelMeasure = useCallback(() => measureAbort.current?.abort(), []);
 
   /** Select a check; returns why it cannot be selected, or null. */
   const select = useCallback((check: string): string | null => {
@@ -277,6 +216,79 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
     [targets, plan, log, serial, operator, ensureRun],
   );
 
+  const measureAbort = useRef<AbortController | null>(null);
+  /**
+   * Take the selected check's reading from its bench instrument (`count` > 1:
+   * that many readings, recorded as their mean with the spread added to the
+   * guard band as 2·s/√n). The screen keeps drawing while it waits; `cancelMeasure` stops it.
+   */
+  const measure = useCallback(
+    (count = 1, expectedShape?: string): boolean => {
+      const s = stateRef.current;
+      const t = targets.targets.find((x) => x.check === s.selected);
+      if (!t || busy.current) return false;
+      const source = instruments;
+      const pick = source?.pick(t.check, t.unit, t.captureFigure) ?? null;
+      if (!source || !pick) {
+        setStatus({ kind: 'rejected', message: source ? `no instrument covers ${t.check} (${t.unit}): add its id or unit to an instrument's queries` : 'no instruments file: see probebook instruments --help (or start a simulated bench)' });
+        return false;
+      }
+      const locked = lockReason(s, t.check);
+      if (locked) {
+        setStatus({ kind: 'rejected', message: `not recorded: ${t.check}: ${locked}` });
+        return false;
+      }
+      busy.current = true;
+      const abort = new AbortController();
+      measureAbort.current = abort;
+      const since = Date.now();
+      void (async () => {
+        try {
+          if (pick.mode === 'capture') {
+            // A scope record: measured and attached like a capture file, its figures recorded for every check it answers.
+            setStatus({ kind: 'measuring', instrument: pick.name, query: pick.query, since, count: 0, of: 1 });
+            const record = await source.capture(pick.name, abort.signal);
+            const { measurements, period } = measureRecord(record.samples, record.sampleRate);
+            busy.current = false;
+            await attachCapture({ name: `${pick.name}-${t.check}.csv`, bytes: captureCsv(record.samples, record.sampleRate), measurements, samples: record.samples, sampleRate: record.sampleRate, ...(period && period.length > 1 ? { period } : {}) }, expectedShape);
+            return;
+          }
+          const values: number[] = [];
+          let last: Awaited<ReturnType<InstrumentSource['read']>> | null = null;
+          for (let i = 0; i < count; i++) {
+            setStatus({ kind: 'measuring', instrument: pick.name, query: pick.query, since, count: i, of: count });
+            last = await source.read(pick.name, t.check, t.unit, abort.signal);
+            values.push(last.value);
+            if (last.isOverload) break;
+          }
+          if (!last) return;
+          const n = values.length;
+          const mean = values.reduce((a, b) => a + b, 0) / n;
+          const sd = n > 1 ? Math.sqrt(values.reduce((a, v) => a + (v - mean) ** 2, 0) / (n - 1)) : 0;
+          const spec = uncertaintyFor(plan, t.check, t.unit);
+          // The mean's own scatter (2·s/√n, a coverage factor of 2 as in the GUM) widens the guard band.
+          const widened = n > 1 && Number.isFinite(mean) ? { relative: spec?.relative ?? 0, absolute: (spec?.absolute ?? 0) + (2 * sd) / Math.sqrt(n) } : spec;
+          const value = last.isOverload ? Number.POSITIVE_INFINITY : mean;
+          const result = verdictFor(t, value, Number.isFinite(value) ? widened : undefined);
+          const raw = last.isOverload ? `OL (${last.raw})` : n > 1 ? `mean of ${n}: ${values.map((v) => String(+v.toPrecision(6))).join(', ')}` : last.raw;
+          const run = await ensureRun();
+          const input = { run, check: t.check, value, unit: t.unit, raw, operator, verdict: result.verdict, planHash: plan.hash, instrument: last.instrument };
+          const saved = await log.appendReading(serial, result.warnings.length > 0 ? { ...input, warnings: result.warnings } : input);
+          dispatch({ type: 'record-reading', reading: toRunReading(saved) });
+          setStatus({ kind: 'saved', id: saved.id });
+        } catch (error) {
+          setStatus({ kind: 'error', message: `not recorded: ${message(error).replace(/; nothing was recorded$/, '')}` });
+        } finally {
+          busy.current = false;
+          measureAbort.current = null;
+        }
+      })();
+      return true;
+    },
+    [targets, plan, log, serial, operator, ensureRun, instruments, attachCapture],
+  );
+  const cancelMeasure = useCallback(() => measureAbort.current?.abort(), []);
+
   const last = state.last;
   const lastTarget: Target | undefined = last ? targets.targets.find((t) => t.check === last.check) : undefined;
   const explanation = useMemo(() => {
@@ -316,7 +328,7 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
     measure,
     cancelMeasure,
     /** The instrument and query the selected check would be read with, or null. */
-    instrumentFor: useCallback((check: string, unit: string) => instruments?.pick(check, unit) ?? null, [instruments]),
+    instrumentFor: useCallback((check: string, unit: string, figure?: string) => instruments?.pick(check, unit, figure) ?? null, [instruments]),
     stateRef,
     statusRef,
     acknowledgeCautions: useCallback(() => dispatch({ type: 'acknowledge-cautions' }), [dispatch]),
