@@ -10,7 +10,9 @@
 // November 2026 instead of all landing on the minute the script runs.
 import { existsSync, readdirSync } from 'node:fs';
 import { resolve } from 'node:path';
+import { diagnose } from '../src/analysis/diagnose.js';
 import { explainReading } from '../src/analysis/explain.js';
+import { buildChain, type ChainFault } from '../src/plan/chain.js';
 import { computeTargets } from '../src/analysis/targets.js';
 import type { Target, Verdict } from '../src/analysis/types.js';
 import { uncertaintyFor, verdictFor } from '../src/analysis/verdict.js';
@@ -254,6 +256,40 @@ if (driver) {
   const firstStage = exciterTargets.find((t) => t.phase === 'stage');
   await readGood(b, undefined, firstStage ? after(b, after(b, firstStage.check) ?? firstStage.check) : undefined);
   written.push(`${b.serial} in progress`);
+}
+
+// Three exciter boards with one planted fault each, of the commonest kinds (invented
+// events). Their stage readings are what the plan's own model predicts for the faulted
+// board, read with a bench instrument's scatter and rounding; the run stops failed and
+// \`probebook diagnose\` names the part.
+const exciterPlan: Plan = exciter;
+async function faultyBoard(serial: string, what: string, change: { part?: string; value?: number; fault?: ChainFault }): Promise<void> {
+  const chain = buildChain(exciterPlan);
+  const x = Float64Array.from(chain.nominal);
+  if (change.part) x[chain.variables.findIndex((v) => v.name === change.part)] = change.value ?? Number.NaN;
+  const predicted = chain.detail(x, undefined, change.fault).values;
+  const b = await newBoard(log, exciterPlan, exciterTargets, serial);
+  const firstStage = exciterTargets.find((t) => t.phase === 'stage');
+  await readGood(b, undefined, firstStage?.check);
+  for (const t of exciterTargets.filter((u) => u.phase === 'stage')) {
+    const p = predicted[t.check];
+    // A stopped oscillator or a flat output reads as nothing: 0 on the counter or the scope.
+    const value = p === undefined || !Number.isFinite(p) ? 0 : p * (1 + 0.002 * gauss());
+    await read(b, t.check, value);
+  }
+  await log.endRun(b.serial, b.run, 'failed');
+  const board = await log.readBoard(serial);
+  const top = diagnose(exciterPlan, exciterTargets, board?.readings ?? [], { top: 3 }).hypotheses;
+  const planted = change.fault ? `${change.fault.stage}.${change.fault.role}` : change.part;
+  if (!top.some((h) => h.part === planted || h.alternatives.some((a) => a.part === planted))) console.warn(`make-demo-log: ${serial}: the diagnosis does not list ${planted} in its top 3`);
+  written.push(`${serial} ${what}, failed, awaiting diagnosis`);
+}
+const clampStage = exciter.stages.find((s) => s.id === 'osc' && 'clamp' in (s.refs ?? {}));
+if (clampStage) {
+  await faultyBoard('EXB-0110', 'high-side zener of the clamp pair fitted backwards', { fault: { stage: 'osc', role: 'clamp', mode: 'reversed', variant: 0 } });
+  if (ct) await faultyBoard('EXB-0111', 'timing capacitor a decade low (1n fitted for 10n)', { part: 'osc.Ct', value: ct.nominal / 10 });
+  const rf = exciter.stages.find((s) => s.id === 'gain')?.parts['Rf'];
+  if (rf) await faultyBoard('EXB-0112', 'gain-stage feedback resistor one E24 step high (16k for 15k)', { part: 'gain.Rf', value: 16_000 });
 }
 
 // Line-driver boards: three pass; one fails its crossover dead band and stays failed.

@@ -4,6 +4,7 @@ import { build } from 'esbuild';
 import { createHash } from 'node:crypto';
 import { chmodSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 
 // A build id from the sources and data tables: caches of computed targets are
 // keyed by it, so a changed model never serves bands computed by an older one.
@@ -38,6 +39,15 @@ const noDevtools = {
   },
 };
 
+// jsonc-parser's "main" is a UMD build that requires its own files at run time
+// (`./impl/format`), which a bundle does not hold: take its ES module build.
+const jsoncEsm = {
+  name: 'jsonc-esm',
+  setup(b) {
+    b.onResolve({ filter: /^jsonc-parser$/ }, () => ({ path: fileURLToPath(new URL('../node_modules/jsonc-parser/lib/esm/main.js', import.meta.url)) }));
+  },
+};
+
 // One build with code splitting: `dist/probebook.js` (the command) and
 // `dist/targets-worker.js` (the bench screen runs a plan's Monte Carlo in a worker
 // thread so the screen keeps drawing) share their chunks, and the shell commands
@@ -57,7 +67,7 @@ await build({
   minify: true,
   sourcemap: 'linked',
   legalComments: 'linked',
-  plugins: [noDevtools],
+  plugins: [noDevtools, jsoncEsm],
   // serialport loads its native binding from its own package folder, and pg's optional
   // native client is never used: both stay outside the bundle (serialport is a dependency).
   external: ['serialport', 'pg-native'],

@@ -3,7 +3,8 @@ import { type ShaperBranch, type ShaperNet, solveNode, solveTransfer } from './s
 import { fastThd } from './spectrum.js';
 import { choiceAt, countAt, list, nested, ohmRange, onlyKeys, partAt, reader, type StageReader } from './stage-parse.js';
 import { StageParseError } from './errors.js';
-import type { CheckSpec, Complex, EvalInput, EvalOutput, ImpedanceInput, PartValue, StageKind, StageWarning } from './types.js';
+import { faultedParts, resistorFaults } from './faults.js';
+import type { CheckSpec, Complex, EvalInput, EvalOutput, ImpedanceInput, PartFaults, PartValue, StageKind, StageWarning } from './types.js';
 import { mirrorOrder } from './mirror.js';
 import { extremes } from './waveform.js';
 
@@ -85,29 +86,69 @@ function parse(raw: Parameters<StageKind['parse']>[0], file: string): { parts: R
   return { parts, settings: { branches, hasLoad: load !== undefined, diode: diode.model, diodeName: diode.name } };
 }
 
-/** The node as the solver sees it, for one sample of the parts. */
+function resistorRoles(settings: DiodeShaperSettings): string[] {
+  return ['Rs', ...(settings.hasLoad ? ['Rload'] : []), ...settings.branches.map((b) => b.rRole)];
+}
+
+/** The fault on a branch's diode string, if the evaluation carries one. */
+function diodeFault(input: EvalInput<DiodeShaperSettings>, i: number): 'open' | 'short' | 'reversed' | undefined {
+  const f = input.fault;
+  if (!f || f.role !== `branches[${i}].diodes`) return undefined;
+  return f.mode === 'missing' ? 'open' : f.mode;
+}
+
+/**
+ * The node as the solver sees it, for one sample of the parts. A branch diode
+ * that is open (or not fitted) takes its branch away; one fitted backwards in a
+ * one-diode branch makes it conduct on the other side of its bias, and in a
+ * longer string (one diode against the others) blocks the branch both ways;
+ * a shorted diode leaves the others, and a one-diode branch becomes its
+ * resistor alone, a linear branch to the bias.
+ */
 export function shaperNet(input: EvalInput<DiodeShaperSettings>): ShaperNet {
-  const { parts, settings } = input;
+  const { settings } = input;
+  const parts = faultedParts(input, resistorRoles(settings));
   // One sample of the diodes (IS, N) at the board temperature (Vt = kT/q and the SPICE law for IS).
   const base = settings.diode;
   const model: DiodeModel = { is: parts['diode.is'] ?? base.is, n: parts['diode.n'] ?? base.n, rs: base.rs };
   const kelvin = input.temperature ?? nominalTemperature;
   const vt = thermalVoltage(kelvin);
   const is = saturationAt(model, kelvin);
-  const branches = settings.branches.map(
-    (b): ShaperBranch => ({
-      sign: b.polarity === '+' ? 1 : -1,
-      bias: parts[b.biasRole] ?? 0,
-      diodes: diodeString(model, b.diodes, parts[b.rRole] ?? Number.NaN, vt, is),
-    }),
-  );
+  let gl = 0;
+  let il = 0;
+  const branches: ShaperBranch[] = [];
+  settings.branches.forEach((b, i) => {
+    const fault = diodeFault(input, i);
+    const bias = parts[b.biasRole] ?? 0;
+    const r = parts[b.rRole] ?? Number.NaN;
+    if (fault === 'open' || (fault === 'reversed' && b.diodes > 1)) return;
+    if (fault === 'short' && b.diodes === 1) {
+      gl += 1 / r;
+      il += bias / r;
+      return;
+    }
+    const sign = (b.polarity === '+') === (fault !== 'reversed') ? 1 : -1;
+    branches.push({ sign, bias, diodes: diodeString(model, fault === 'short' ? b.diodes - 1 : b.diodes, r, vt, is) });
+  });
   const rload = settings.hasLoad ? (parts['Rload'] ?? Number.NaN) : Number.POSITIVE_INFINITY;
   // What the chain hangs on the node (the next stage's input, an external load) adds its
   // large-signal equivalent, the resistive part at the fundamental, to Rload.
   const frequency = input.input?.frequency ?? 0;
   const z = input.load?.('out', frequency > 0 ? frequency : 0);
   const gExtra = z !== undefined && Number.isFinite(z.re) && z.re > 0 ? z.re / (z.re * z.re + z.im * z.im) : 0;
-  return { gs: 1 / (parts['Rs'] ?? Number.NaN), gl: 1 / rload + gExtra, branches };
+  const gs = 1 / (parts['Rs'] ?? Number.NaN);
+  return il === 0 ? { gs, gl: gl + 1 / rload + gExtra, branches } : { gs, gl: gl + 1 / rload + gExtra, il, branches };
+}
+
+function faults(settings: DiodeShaperSettings): readonly PartFaults[] {
+  const words: Record<string, string> = { Rs: 'series resistor', Rload: 'load resistor' };
+  settings.branches.forEach((b, i) => {
+    words[b.rRole] = `branch ${i + 1} resistor`;
+  });
+  return [
+    ...resistorFaults(resistorRoles(settings), words),
+    ...settings.branches.map((b, i): PartFaults => ({ role: `branches[${i}].diodes`, modes: ['open', 'short', 'reversed'], description: `branch ${i + 1} diode${b.diodes > 1 ? 's' : ''} (${b.polarity})` })),
+  ];
 }
 
 function evaluate(input: EvalInput<DiodeShaperSettings>): EvalOutput {
@@ -192,6 +233,7 @@ export const diodeShaperKind: StageKind<DiodeShaperSettings> = {
   parse,
   checks: () => shaperChecks,
   evaluate,
+  faults,
   inputImpedance,
   // Seen from downstream with the branches off: Rs ‖ Rload (small signal about 0 V).
   outputImpedance: (x) => {

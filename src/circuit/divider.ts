@@ -1,4 +1,5 @@
 import { nested, ohmRange, onlyKeys, partAt, reader, textAt } from './stage-parse.js';
+import { faultedParts, resistorFaults } from './faults.js';
 import type { CheckSpec, EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
 import { dc } from './waveform.js';
 
@@ -14,8 +15,9 @@ function evaluate(input: EvalInput<DividerSettings>): EvalOutput {
     const known = Object.keys(input.rails).map((id) => JSON.stringify(id)).join(', ');
     throw new Error(`divider: "from" names rail ${JSON.stringify(input.settings.from)}, which the plan does not have (rails: ${known || 'none'})`);
   }
-  const top = input.parts['Rtop'] ?? Number.NaN;
-  const bottom = input.parts['Rbottom'] ?? Number.NaN;
+  const parts = faultedParts(input, ['Rtop', 'Rbottom']);
+  const top = parts['Rtop'] ?? Number.NaN;
+  const bottom = parts['Rbottom'] ?? Number.NaN;
   // Unloaded resistive divider: V · Rbottom / (Rtop + Rbottom); loaded, that open-circuit
   // level behind its Thevenin resistance Rtop‖Rbottom into the load's DC resistance.
   const open = (rail * bottom) / (top + bottom);
@@ -51,6 +53,7 @@ export const dividerKind: StageKind<DividerSettings> = {
   },
   checks: () => checks,
   evaluate,
+  faults: () => resistorFaults(['Rtop', 'Rbottom'], { Rtop: 'upper divider resistor', Rbottom: 'lower divider resistor' }),
   // Thevenin resistance of the tap: Rtop ‖ Rbottom (the rail an ideal source).
   outputImpedance: (x) => {
     const top = x.parts['Rtop'] ?? Number.NaN;

@@ -1,13 +1,16 @@
 import { amplifierChecks, amplifierHints, evaluateAmplifier } from './amplifier.js';
 import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
+import { faultedParts, resistorFaults } from './faults.js';
 import type { Complex, EvalInput, EvalOutput, ImpedanceInput, PartValue, StageKind } from './types.js';
 
 /** An inverting gain stage has no settings beyond its parts. */
 export type InvertingAmpSettings = Readonly<Record<string, never>>;
 
 function evaluate(input: EvalInput<InvertingAmpSettings>): EvalOutput {
-  const rin = input.parts['Rin'] ?? Number.NaN;
-  const rf = input.parts['Rf'] ?? Number.NaN;
+  // An open or shorted resistor is a huge or tiny one: the same equations carry it (Rf open: open loop, clipped).
+  const parts = faultedParts(input, ['Rin', 'Rf']);
+  const rin = parts['Rin'] ?? Number.NaN;
+  const rf = parts['Rf'] ?? Number.NaN;
   // Gain −Rf/Rin, noise gain 1 + Rf/Rin (Sedra and Smith, the inverting configuration).
   return evaluateAmplifier({ ideal: -rf / rin, noiseGain: 1 + rf / rin, rf }, input, 'inverting-amp');
 }
@@ -52,6 +55,7 @@ export const invertingAmpKind: StageKind<InvertingAmpSettings> = {
   },
   checks: () => amplifierChecks,
   evaluate,
+  faults: () => resistorFaults(['Rin', 'Rf'], { Rin: 'input resistor', Rf: 'feedback resistor' }),
   inputImpedance,
   faultHints: {
     gain: [

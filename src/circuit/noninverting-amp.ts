@@ -1,13 +1,16 @@
 import { amplifierChecks, amplifierHints, evaluateAmplifier } from './amplifier.js';
 import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
+import { faultedParts, resistorFaults } from './faults.js';
 import type { EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
 
 /** A non-inverting gain stage has no settings beyond its parts. */
 export type NoninvertingAmpSettings = Readonly<Record<string, never>>;
 
 function evaluate(input: EvalInput<NoninvertingAmpSettings>): EvalOutput {
-  const rg = input.parts['Rg'] ?? Number.NaN;
-  const rf = input.parts['Rf'] ?? Number.NaN;
+  // An open or shorted resistor is a huge or tiny one: the same equations carry it (Rg open: a follower).
+  const parts = faultedParts(input, ['Rg', 'Rf']);
+  const rg = parts['Rg'] ?? Number.NaN;
+  const rf = parts['Rf'] ?? Number.NaN;
   // Gain 1 + Rf/Rg, equal to its noise gain (Sedra and Smith, the non-inverting configuration).
   const g = 1 + rf / rg;
   return evaluateAmplifier({ ideal: g, noiseGain: g, rf }, input, 'noninverting-amp');
@@ -34,6 +37,7 @@ export const noninvertingAmpKind: StageKind<NoninvertingAmpSettings> = {
   },
   checks: () => amplifierChecks,
   evaluate,
+  faults: () => resistorFaults(['Rg', 'Rf'], { Rg: 'gain resistor to ground', Rf: 'feedback resistor' }),
   faultHints: {
     gain: [
       'Rf and Rg swapped: 1 + Rg/Rf instead of 1 + Rf/Rg',

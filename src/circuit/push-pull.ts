@@ -3,8 +3,9 @@ import { formatValue } from '../units/format.js';
 import { thermalVoltage } from './diode.js';
 import { extremes } from './waveform.js';
 import { choiceAt, nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
+import { faultedParts, isFault, resistorFaults } from './faults.js';
 import { evaluateNetwork } from './push-pull-network.js';
-import type { CheckSpec, EvalInput, EvalOutput, ImpedanceInput, PartValue, StageKind, StageWarning } from './types.js';
+import type { CheckSpec, EvalInput, EvalOutput, ImpedanceInput, PartFaults, PartValue, StageKind, StageWarning } from './types.js';
 
 /**
  * A complementary emitter follower (NPN on top, PNP below, emitters joined at the
@@ -171,13 +172,32 @@ function lawAt(x: number): number {
 function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   const source = input.input;
   if (!source) throw new Error('push-pull: no input waveform; the plan must name an "input"');
-  if (input.settings.hasNetwork) return evaluateNetwork(input, source);
+  // The network solver takes a wrong load value; an open or shorted transistor or bias diode is
+  // evaluated by the follower law below instead (its bias resistors then only set the fight current).
+  if (input.settings.hasNetwork && !isActiveFault(input.fault)) return evaluateNetwork(input.fault ? { ...input, parts: faultedParts(input, ['Rload']) } : input, source);
   const vbe = input.parts['vbe'] ?? defaultVbe;
   const hfe = input.parts['hfe'] ?? defaultHfe;
-  const load = outputLoad(input, source.frequency);
+  // An open or shorted load resistor is a huge or tiny one (src/circuit/faults.ts).
+  const load = outputLoad(input.fault ? { ...input, parts: faultedParts(input, ['Rload']) } : input, source.frequency);
   const crossover = input.settings.bias === 'none';
   // The part of Vbe the bias diode does not cancel (0 when it drops as much or more).
   const dead = crossover ? vbe : Math.max(0, vbe - (input.parts['vd'] ?? vbe));
+  const f = input.fault;
+  // A shorted bias diode leaves its transistor's whole Vbe uncancelled: a dead band on that half only.
+  const deadUp = isFault(f, 'bias[0]', 'short') ? vbe : dead;
+  const deadDown = isFault(f, 'bias[1]', 'short') ? vbe : dead;
+  // A missing (or open) bias diode leaves its base on the bias resistor alone: that transistor
+  // is driven hard on and fights the other one (a large standing current, both run hot). The
+  // other one still follows the input on its own half, which the driven one clamps near 0 V:
+  // the far half of the wave is lost (checked against ngspice in the diagnosis fault set).
+  const stuckHigh = isFault(f, 'bias[0]', 'missing') || isFault(f, 'bias[0]', 'open');
+  const stuckLow = isFault(f, 'bias[1]', 'missing') || isFault(f, 'bias[1]', 'open');
+  // The follower that still works carries the driven one's current, about hfe times the bias
+  // current: its Vbe exceeds its bias diode's drop by Vt·ln(hfe) (Shockley law, Vt = kT/q).
+  const fight = stuckHigh || stuckLow ? thermalVoltage() * Math.log(hfe) : 0;
+  // An open output transistor: its half of the wave is missing.
+  const noUpper = isFault(f, 'Q[0]', 'open');
+  const noLower = isFault(f, 'Q[1]', 'open');
   // Unbiased into a load: each junction by the diode law at the current it carries.
   const law = crossover && Number.isFinite(load);
   const vt = thermalVoltage();
@@ -201,7 +221,10 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   let clipped = false;
   for (let i = 0; i < n; i++) {
     const x = samples[i] as number;
-    let y = law ? lawAt(x) : x > dead ? x - dead : x < -dead ? x + dead : 0;
+    let y = law ? lawAt(x) : x > deadUp ? x - deadUp : x < -deadDown ? x + deadDown : 0;
+    if ((noUpper && y > 0) || (noLower && y < 0)) y = 0;
+    if (stuckHigh) y = y < 0 ? 0 : y + fight;
+    else if (stuckLow) y = y > 0 ? 0 : y - fight;
     if (y > high || y < low) {
       clipped = true;
       y = Math.min(high, Math.max(low, y));
@@ -226,7 +249,7 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
     heatBottom /= load;
   }
   const ipeak = Math.max(Math.abs(hi), Math.abs(lo)) / load;
-  const values: Record<string, number> = { 'out.vpp': hi - lo, deadband: law ? lawDeadband(k, vt) : 2 * dead };
+  const values: Record<string, number> = { 'out.vpp': hi - lo, deadband: stuckHigh || stuckLow ? Number.NaN : law ? lawDeadband(k, vt) : deadUp + deadDown };
   if (input.settings.hasLoad) {
     values['out.ipeak'] = ipeak;
     values['base.ipeak'] = ipeak / hfe;
@@ -262,6 +285,29 @@ function inputImpedance(x: ImpedanceInput<PushPullSettings>, f: number): { re: n
   let g = Number.isFinite(rl) ? 1 / ((0.5 * (hn + hp) + 1) * rl) : 0;
   if (x.settings.hasNetwork) g += 1 / (x.parts['Rb1'] ?? Number.NaN) + 1 / (x.parts['Rb2'] ?? Number.NaN);
   return { re: g > 0 ? 1 / g : Number.POSITIVE_INFINITY, im: 0 };
+}
+
+/** A fault on an output transistor or a bias diode (the follower law models those, not the network solver). */
+function isActiveFault(f: EvalInput<PushPullSettings>['fault']): boolean {
+  return f !== undefined && /^(Q|bias)\[[01]\]$/.test(f.role);
+}
+
+/**
+ * Fault modes (DESIGN §5a): an output transistor open, a bias diode not fitted
+ * or shorted, the load open or shorted. With a bias network (`Rb1`, `Rb2`) the
+ * transistor and diode faults are evaluated by the follower law, not by the
+ * network solver (a first-order model of the faulted stage).
+ */
+function faults(settings: PushPullSettings): readonly PartFaults[] {
+  const list: PartFaults[] = [
+    { role: 'Q[0]', modes: ['open'], description: 'upper (NPN) output transistor' },
+    { role: 'Q[1]', modes: ['open'], description: 'lower (PNP) output transistor' },
+  ];
+  if (settings.hasLoad) list.push(...resistorFaults(['Rload'], { Rload: 'load resistor' }));
+  if (settings.bias === 'diodes') {
+    list.push({ role: 'bias[0]', modes: ['missing', 'short'], description: 'upper bias diode' }, { role: 'bias[1]', modes: ['missing', 'short'], description: 'lower bias diode' });
+  }
+  return list;
 }
 
 function checks(settings: PushPullSettings): readonly CheckSpec[] {
@@ -348,6 +394,7 @@ export const pushPullKind: StageKind<PushPullSettings> = {
   },
   checks,
   evaluate,
+  faults,
   inputImpedance,
   // Seen from the load: the base source over (hfe + 1) plus the emitter's Vt/Ie at about 1 mA
   // (emitter follower output resistance, Horowitz and Hill); an estimate, the stage solves its own load.

@@ -2,7 +2,8 @@ import { add, capacitor, isOpen, parallel, resistance } from './complex.js';
 import { applyResponse } from './response.js';
 import { singlePole } from './single-pole.js';
 import { nested, ohmRange, onlyKeys, partAt, reader } from './stage-parse.js';
-import { extremes } from './waveform.js';
+import { dc, extremes } from './waveform.js';
+import { faultedParts, isFault, resistorFaults } from './faults.js';
 import type { CheckSpec, Complex, EvalInput, EvalOutput, PartValue, StageKind } from './types.js';
 
 /** A passive RC low-pass has no settings beyond its parts. */
@@ -25,8 +26,11 @@ const probeHarmonic = 64;
 function evaluate(input: EvalInput<RcLowpassSettings>): EvalOutput {
   const source = input.input;
   if (!source) throw new Error('rc-lowpass: no input waveform; the plan must name an "input"');
-  const r = input.parts['R'] ?? Number.NaN;
-  const c = input.parts['C'] ?? Number.NaN;
+  const parts = faultedParts(input, ['R'], ['C']);
+  const r = parts['R'] ?? Number.NaN;
+  const c = parts['C'] ?? Number.NaN;
+  // C shorted: the output node is tied to ground; nothing passes and no corner can be found.
+  if (isFault(input.fault, 'C', 'short')) return { outputs: { out: dc(0) }, values: { fc: Number.NaN, 'out.vpp': 0 }, warnings: [] };
   const load = input.load;
   const f0 = source.frequency;
   const zl = load ? load('out', f0 > 0 ? f0 : 0) : undefined;
@@ -186,6 +190,7 @@ export const rcLowpassKind: StageKind<RcLowpassSettings> = {
   },
   checks: () => checks,
   evaluate,
+  faults: () => [...resistorFaults(['R'], { R: 'series resistor' }), { role: 'C', modes: ['open', 'short'], description: 'filter capacitor' }],
   // Input: R in series with C ‖ the load on the output (Kirchhoff, series and parallel impedances).
   inputImpedance: (x, f) => add(resistance(x.parts['R'] ?? Number.NaN), parallel(capacitor(x.parts['C'] ?? Number.NaN, f), x.load?.('out', f))),
   // Output, seen from downstream: the Thevenin impedance R ‖ 1/(jωC).

@@ -3,7 +3,8 @@ import { type SchmittCircuit, type SchmittTiming, schmittTiming } from './schmit
 import { parseSchmitt, type SchmittSettings } from './schmitt-parse.js';
 import { schmittWarnings } from './schmitt-warnings.js';
 import { schmittWaves } from './schmitt-wave.js';
-import type { CheckSpec, EvalInput, EvalOutput, StageKind } from './types.js';
+import { faultedParts, isFault, resistorFaults } from './faults.js';
+import type { CheckSpec, EvalInput, EvalOutput, PartFaults, StageKind } from './types.js';
 import { defaultSamples } from './waveform.js';
 
 export type { SchmittSettings } from './schmitt-parse.js';
@@ -20,14 +21,37 @@ export type { SchmittSettings } from './schmitt-parse.js';
  * at the latched levels (frequency 0); a warning says why.
  */
 
+const resistorRoles = ['R1', 'R2', 'Rt', 'RV', 'Rz'];
+
+/**
+ * The clamp levels (high side, low side as a magnitude) of the back-to-back pair,
+ * with a fault on it. D1 breaks down at the high level and D2 conducts forward;
+ * the other way round at the low level. One zener fitted backwards turns the
+ * pair into two diodes in series pointing the same way: both forward on one
+ * side (vf + vf2) and both in breakdown on the other (vz + vz2, usually beyond
+ * the swing, so that side is not clamped at all). Open (or not fitted): no
+ * clamp. Shorted (a bridge across the pair): the square node sits at ground.
+ */
+function clampLevels(input: EvalInput<SchmittSettings>, vz: number, vf: number, vz2: number, vf2: number): { vc: number; vcLow: number } {
+  const f = input.fault;
+  if (f && f.role === 'clamp') {
+    if (f.mode === 'open' || f.mode === 'missing') return { vc: Number.POSITIVE_INFINITY, vcLow: Number.POSITIVE_INFINITY };
+    if (f.mode === 'short') return { vc: 0, vcLow: 0 };
+    if (f.mode === 'reversed') return (f.variant ?? 0) === 0 ? { vc: vf + vf2, vcLow: vz + vz2 } : { vc: vz + vz2, vcLow: vf + vf2 };
+  }
+  return { vc: vz + vf2, vcLow: vz2 + vf };
+}
+
 function circuit(input: EvalInput<SchmittSettings>, pot: number): SchmittCircuit {
-  const { parts, opamp } = input;
+  const { opamp } = input;
+  const parts = faultedParts(input, resistorRoles, ['Ct']);
   const { high, low } = swing(opamp, input.supplies);
   const vz = parts['clamp.vz'];
   const vf = parts['clamp.vf'];
   const vz2 = parts['clamp.vz2'] ?? vz;
   const vf2 = parts['clamp.vf2'] ?? vf;
   const clamped = input.settings.hasClamp && vz !== undefined && vf !== undefined && vz2 !== undefined && vf2 !== undefined;
+  const levels = clamped ? clampLevels(input, vz, vf, vz2, vf2) : undefined;
   return {
     r1: parts['R1'] ?? Number.NaN,
     r2: parts['R2'] ?? Number.NaN,
@@ -35,8 +59,8 @@ function circuit(input: EvalInput<SchmittSettings>, pot: number): SchmittCircuit
     c: parts['Ct'] ?? Number.NaN,
     rz: parts['Rz'] ?? 0,
     // D1 in breakdown and D2 forward at the high level; the other way round at the low.
-    vc: clamped ? vz + vf2 : Number.POSITIVE_INFINITY,
-    vcLow: clamped ? vz2 + vf : Number.POSITIVE_INFINITY,
+    vc: levels ? levels.vc : Number.POSITIVE_INFINITY,
+    vcLow: levels ? levels.vcLow : Number.POSITIVE_INFINITY,
     high,
     low,
     slew: opamp.slew,
@@ -51,13 +75,15 @@ function frequencyOf(t: SchmittTiming): number {
 function evaluate(input: EvalInput<SchmittSettings>): EvalOutput {
   const s = input.settings;
   const p = circuit(input, s.pot);
+  if (isFault(input.fault, 'Ct', 'short')) return shortedCt(p, input.fault?.variant ?? 0);
   const t = schmittTiming(p);
   const warnings = schmittWarnings(p, t, { hasClamp: s.hasClamp, hasRz: p.rz > 0 });
   const values: Record<string, number> = {
     freq: frequencyOf(t),
     'square.vpp': t.oscillates ? t.squareHigh - t.squareLow : 0,
     'square.high': t.squareHigh,
-    'square.low': t.squareLow,
+    // Latched, the square is DC at its high level: both levels read the same.
+    'square.low': t.oscillates ? t.squareLow : t.squareHigh,
     duty: t.oscillates ? t.duty : Number.NaN,
   };
   if (s.hasPot) {
@@ -86,6 +112,36 @@ function evaluate(input: EvalInput<SchmittSettings>): EvalOutput {
   return { outputs: { square, triangle }, values, warnings };
 }
 
+/**
+ * Ct shorted: the integrator's output is tied to its − input, a virtual ground,
+ * so the triangle is a flat 0 V; the comparator's + input then sees only the
+ * square through R1/(R1 + R2), positive feedback, and latches: the square sits
+ * at one level, high (variant 0) or low (variant 1), whichever it held when the
+ * loop stopped.
+ */
+function shortedCt(p: SchmittCircuit, variant: number): EvalOutput {
+  const t = schmittTiming(p);
+  const level = variant === 1 ? t.squareLow : t.squareHigh;
+  return {
+    outputs: {
+      square: { frequency: 0, samples: new Float64Array(defaultSamples).fill(level) },
+      triangle: { frequency: 0, samples: new Float64Array(defaultSamples) },
+    },
+    values: { freq: Number.NaN, 'square.vpp': 0, 'square.high': level, 'square.low': level, duty: Number.NaN, 'triangle.vpp': 0, 'triangle.peak': 0, 'freq.min': Number.NaN, 'freq.max': Number.NaN },
+    warnings: [],
+  };
+}
+
+function faults(settings: SchmittSettings): readonly PartFaults[] {
+  const words: Record<string, string> = { R1: 'hysteresis resistor', R2: 'feedback resistor', Rt: 'timing resistor', RV: 'frequency pot', Rz: 'zener feed resistor' };
+  const roles = resistorRoles.filter((r) => (r !== 'RV' || settings.hasPot) && (r !== 'Rz' || settings.hasClamp));
+  const list: PartFaults[] = [...resistorFaults(roles, words), { role: 'Ct', modes: ['open', 'short'], description: 'timing capacitor', variants: { short: ['square latched high', 'square latched low'] } }];
+  if (settings.hasClamp) {
+    list.push({ role: 'clamp', modes: ['reversed', 'open', 'short'], description: 'zener pair', variants: { reversed: ['high-side zener backwards', 'low-side zener backwards'] } });
+  }
+  return list;
+}
+
 const baseChecks: readonly CheckSpec[] = [
   { key: 'freq', captureFigure: 'frequency', quantity: 'frequency', unit: 'Hz', output: 'square', instrument: 'counter', how: 'counter on the square test point, DC coupled; period mode below about 1 kHz' },
   { key: 'square.vpp', captureFigure: 'vpp', quantity: 'square peak-to-peak', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, 10× probe, measure Vpp' },
@@ -111,7 +167,7 @@ const faultHints: Readonly<Record<string, readonly string[]>> = {
   'freq.min': ['RV open or its track broken at one end', 'RV of a different value fitted (10k for 100k)', 'Ct or Rt wrong: check freq first'],
   'freq.max': ['RV wiper not reaching the end (Rt alone sets the top)', 'Rt wrong: check freq first', 'slew rate limiting the top end: check the square edges'],
   'square.vpp': [
-    'zener fitted backwards (square at about ±0.7 V, both zeners forward)',
+    'one zener fitted backwards (one side of the square at about two forward drops, the other unclamped: a lopsided square and a wrong frequency)',
     'one zener open or missing (one side at the op-amp swing)',
     'zener of another voltage fitted (check the marking)',
     'rail low or missing: check rails first (unclamped square follows the rails)',
@@ -149,4 +205,5 @@ export const schmittIntegratorKind: StageKind<SchmittSettings> = {
   checks: (settings) => (settings.hasPot ? [...baseChecks.slice(0, 1), ...potChecks, ...baseChecks.slice(1)] : baseChecks),
   evaluate,
   faultHints,
+  faults,
 };

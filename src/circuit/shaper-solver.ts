@@ -10,6 +10,12 @@ import { extremes } from './waveform.js';
 export interface ShaperNet {
   readonly gs: number;
   readonly gl: number;
+  /**
+   * Current fed into the node by linear branches to a bias (a branch whose one
+   * diode is shorted is its resistor alone: its conductance is in `gl`, its
+   * bias · conductance here), A. @default 0
+   */
+  readonly il?: number;
   readonly branches: readonly ShaperBranch[];
 }
 
@@ -86,6 +92,7 @@ export function solveNode(net: ShaperNet, vin: Float64Array, order: ArrayLike<nu
     r[b] = br.diodes.r;
   }
   const { gs, gl } = net;
+  const il = net.il ?? 0;
   let v = 0;
   // The last three solved samples: inputs a1, a2, a3 (newest first) and node voltages.
   let a1 = 0, a2 = 0, a3 = 0, v1 = 0, v2 = 0, v3 = 0;
@@ -94,7 +101,7 @@ export function solveNode(net: ShaperNet, vin: Float64Array, order: ArrayLike<nu
     const idx = order[j] as number;
     const vi = vin[idx] as number;
     if (j === 0) {
-      v = (vi * gs) / (gs + gl);
+      v = (vi * gs + il) / (gs + gl);
       for (let b = 0; b < k; b++) {
         x[b] = junctionCeiling(net.branches[b]!.diodes, sign[b]! * (v - bias[b]!));
       }
@@ -117,7 +124,7 @@ export function solveNode(net: ShaperNet, vin: Float64Array, order: ArrayLike<nu
     let den = gs + gl;
     for (let it = 0; it < maxNewton; it++) {
       steps++;
-      let f = gs * (vi - v) - gl * v;
+      let f = gs * (vi - v) - gl * v + il;
       den = gs + gl;
       let num = 0;
       for (let b = 0; b < k; b++) {
@@ -301,7 +308,7 @@ export function branchJunction(d: DiodeString, u: number): number {
 
 /** Net current leaving the node at voltage v, A (falls as v rises: the root is unique). */
 export function nodeCurrent(net: ShaperNet, vin: number, v: number): number {
-  let f = net.gs * (vin - v) - net.gl * v;
+  let f = net.gs * (vin - v) - net.gl * v + (net.il ?? 0);
   for (const br of net.branches) {
     const x = branchJunction(br.diodes, br.sign * (v - br.bias));
     f -= br.sign * br.diodes.is * Math.expm1(x / br.diodes.nvt);

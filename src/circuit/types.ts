@@ -131,6 +131,12 @@ export interface StageFault {
   /** The part role or part group (`Ct`, `clamp`, `branches[1].diodes`). */
   readonly role: string;
   readonly mode: Exclude<FaultMode, 'value'>;
+  /**
+   * Which way the mode happens when a part group can fail it in more than one
+   * way (`PartFaults.variants`: the upper or the lower zener of a pair fitted
+   * backwards). @default 0
+   */
+  readonly variant?: number;
 }
 
 /** The fault modes one part (or part group) of a stage can have. */
@@ -141,6 +147,11 @@ export interface PartFaults {
   readonly modes: readonly Exclude<FaultMode, 'value'>[];
   /** The part in bench words ("zener pair", "upper bias diode"). */
   readonly description: string;
+  /**
+   * Modes that can happen in more than one way, each way in bench words, in
+   * `StageFault.variant` order (`{ reversed: ['upper zener backwards', 'lower zener backwards'] }`).
+   */
+  readonly variants?: Readonly<Partial<Record<Exclude<FaultMode, 'value'>, readonly string[]>>>;
 }
 
 /** One sample of a stage's parts and its settings: what its impedances follow from. */

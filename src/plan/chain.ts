@@ -1,4 +1,4 @@
-import type { Complex, EvalOutput, OpampModel, Supplies, Waveform } from '../circuit/types.js';
+import type { Complex, EvalOutput, OpampModel, StageFault, Supplies, Waveform } from '../circuit/types.js';
 import { type OpampSpreadKey, type Spread, opampSpreadKeys } from './active-spread.js';
 import type { Unit } from '../units/unit.js';
 import { type PlanCheck, planChecks } from './checks.js';
@@ -59,9 +59,11 @@ export interface Chain {
    * of evaluating them: only valid when `x` differs from the nominal in no
    * variable of those stages and in no rail (one-part-at-a-time searches).
    * Stages see `isTrial: true` here (bench accuracy, no warnings); `detail`
-   * evaluates exactly, for nominal values shown to the user.
+   * evaluates exactly, for nominal values shown to the user. `fault` applies
+   * one non-value fault to its stage for this evaluation only (how it changes
+   * the load the stage puts on its input is not modelled).
    */
-  evaluate(x: Float64Array, out: Float64Array, stages?: number, reuse?: number): void;
+  evaluate(x: Float64Array, out: Float64Array, stages?: number, reuse?: number, fault?: ChainFault): void;
   /** Position of a stage in chain order, −1 for none (rails). */
   stageIndex(id: string): number;
   /**
@@ -70,8 +72,13 @@ export interface Chain {
    * passive path): a search over the variables that move a check of `id` needs theirs too.
    */
   loaders(id: string): string[];
-  /** `stages` as in `evaluate`: only the first so many stages (chain order). */
-  detail(x: Float64Array, stages?: number): ChainDetail;
+  /** `stages` as in `evaluate`: only the first so many stages (chain order); `fault` as in `evaluate`. */
+  detail(x: Float64Array, stages?: number, fault?: ChainFault): ChainDetail;
+}
+
+/** A single non-value fault on one stage's part, for one evaluation (diagnosis, DESIGN §5a). */
+export interface ChainFault extends StageFault {
+  readonly stage: string;
 }
 
 const opampUnits: Readonly<Record<OpampSpreadKey, Unit>> = { gbw: 'Hz', slew: 'V/s', headroom: 'V', vos: 'V', ib: 'A' };
@@ -92,6 +99,7 @@ interface HotArgs {
   buffer?: ((slot: number, length: number) => Float64Array) | undefined;
   load?: ((output: string, f: number) => Complex | undefined) | undefined;
   temperature?: number | undefined;
+  fault?: StageFault | undefined;
 }
 
 /** What a stage kind's `inputImpedance` reads, for the current sample (parts looked up on each call). */
@@ -248,7 +256,7 @@ export function buildChain(plan: Plan): Chain {
   const hotResults: (EvalOutput | undefined)[] = new Array(stagePlans.length);
   const hotBuffers = stagePlans.map(() => bufferPool());
 
-  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length, reuse = 0, capture?: (EvalOutput | undefined)[], carry = 0): ChainDetail => {
+  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length, reuse = 0, capture?: (EvalOutput | undefined)[], carry = 0, fault?: ChainFault): ChainDetail => {
     const rails: Record<string, number> = keep ? {} : hotRails;
     for (let i = 0; i < railIds.length; i++) {
       const v = x[i] ?? Number.NaN;
@@ -304,6 +312,8 @@ export function buildChain(plan: Plan): Chain {
             // The captured nominal results are read again later: they must not share the trials' arrays.
             args.buffer = capture ? undefined : hotBuffers[s];
           }
+          // The fault reaches its own stage only, and only for this evaluation.
+          args.fault = fault && fault.stage === sp.stage.id ? fault : undefined;
           result = sp.stage.module.evaluate(input && keep ? { ...args, input } : args);
         } catch (error) {
           if (keep) failures.push({ stage: sp.stage.id, message: error instanceof Error ? error.message : String(error) });
@@ -336,7 +346,7 @@ export function buildChain(plan: Plan): Chain {
     variables,
     checks,
     nominal,
-    evaluate(x, out, stages, reuse) {
+    evaluate(x, out, stages, reuse, fault) {
       out.fill(Number.NaN);
       const upTo = stages === undefined ? stagePlans.length : Math.max(0, Math.min(stagePlans.length, stages));
       let from = 0;
@@ -359,9 +369,11 @@ export function buildChain(plan: Plan): Chain {
           if (x[i] !== hotX[i]) carry = Math.min(carry, Math.max(0, varStage[i] as number));
         }
       }
-      run(x, out, false, upTo, from, undefined, carry);
+      // A faulted stage and those after it must be evaluated afresh, and their results hold for this fault only.
+      const faulted = fault ? (stagePosition.get(fault.stage) ?? 0) : upTo;
+      run(x, out, false, upTo, from, undefined, Math.min(carry, faulted), fault);
       hotX.set(x);
-      hotValid = upTo;
+      hotValid = Math.min(upTo, faulted);
     },
     stageIndex(id) {
       return stagePosition.get(id) ?? -1;
@@ -371,8 +383,8 @@ export function buildChain(plan: Plan): Chain {
       if (at === undefined) return [];
       return stageIds.filter((_, s) => s > at && (reach[s] as number) <= at);
     },
-    detail(x, stages) {
-      const d = run(x, undefined, true, stages === undefined ? stagePlans.length : Math.max(0, Math.min(stagePlans.length, stages)));
+    detail(x, stages, fault) {
+      const d = run(x, undefined, true, stages === undefined ? stagePlans.length : Math.max(0, Math.min(stagePlans.length, stages)), 0, undefined, 0, fault);
       const values: Record<string, number> = { ...d.values };
       railIds.forEach((id, i) => {
         values[`rails.${id}.dc`] = x[i] ?? Number.NaN;

@@ -73,44 +73,94 @@ export async function loadPlanFile(file: string, options: { readonly cwd?: strin
  * `hash` is the sha256 of the exact text, so a run can be tied to the plan it used.
  */
 export function loadPlanText(text: string, file: string, kinds: Readonly<Record<string, StageKind<unknown>>> = stageKinds): Plan {
+  return readPlan(text, file, kinds) as Plan;
+}
+
+/**
+ * Every problem of a plan at once (`probebook plan check`, the plan editor's
+ * save), each a PlanError with its JSON path and remedy; empty when the plan
+ * loads. A JSON syntax error or a wrong shape stops the search there (what
+ * follows cannot be read); otherwise each rail, setting and stage is checked
+ * on its own, and a stage with a mistake is left out of the later checks.
+ */
+export function checkPlanText(text: string, file: string, kinds: Readonly<Record<string, StageKind<unknown>>> = stageKinds): PlanError[] {
+  const problems: PlanError[] = [];
+  try {
+    readPlan(text, file, kinds, problems);
+  } catch (error) {
+    if (!(error instanceof PlanError)) throw error;
+    problems.push(error);
+  }
+  return problems;
+}
+
+function readPlan(text: string, file: string, kinds: Readonly<Record<string, StageKind<unknown>>>, problems?: PlanError[]): Plan | null {
+  const attempt = <T>(work: () => T): T | undefined => {
+    if (!problems) return work();
+    try {
+      return work();
+    } catch (error) {
+      if (!(error instanceof PlanError)) throw error;
+      problems.push(error);
+      return undefined;
+    }
+  };
   if (text.length > maxPlanBytes) throw new PlanError(file, '', `is ${(text.length / 1e6).toFixed(1)} MB; a plan is at most ${maxPlanBytes / 1e6} MB`);
   const json = parseJson(text, file);
   checkSize(json, file);
   const result = planSchema.safeParse(json);
   if (!result.success) {
-    const issue = result.error.issues[0];
-    if (!issue) throw new PlanError(file, '', 'is not a valid plan');
-    throw new PlanError(file, jsonPath(issue.path), describeIssue(issue, json));
+    const issues = result.error.issues;
+    // The shape is wrong: every issue is a problem, and nothing after can be read.
+    if (problems && issues.length > 0) {
+      for (const issue of issues) problems.push(new PlanError(file, jsonPath(issue.path), describeIssue(issue, json)));
+      return null;
+    }
+    const first = issues[0];
+    if (!first) throw new PlanError(file, '', 'is not a valid plan');
+    throw new PlanError(file, jsonPath(first.path), describeIssue(first, json));
   }
   const raw = result.data;
 
-  const rails = readRails(raw, file);
-  const opampSpec = readOpampSpec(raw.opamp, { model: defaultOpamp, spread: { vos: defaultVos } }, file, 'opamp');
+  const rails = problems ? raw.rails.flatMap((r, i) => attempt(() => readRails({ ...raw, rails: raw.rails.slice(0, i + 1) }, file).slice(i)) ?? []) : readRails(raw, file);
+  const fallbackSpec = { model: defaultOpamp, spread: { vos: defaultVos } };
+  const opampSpec = attempt(() => readOpampSpec(raw.opamp, fallbackSpec, file, 'opamp')) ?? fallbackSpec;
   const opampBase = opampSpec.model;
-  const temperature = readTemperatureRange(raw.temperature, file);
-  const stages = resolveStages(raw.stages, kinds, opampSpec, file, rails.map((r) => r.id));
+  const temperature = attempt(() => readTemperatureRange(raw.temperature, file));
+  // A rail with a mistake is still a rail of the plan for the stages' `from` (not a second mistake).
+  const stages = resolveStages(raw.stages, kinds, opampSpec, file, problems ? raw.rails.map((r) => r.id) : rails.map((r) => r.id), problems);
 
   const uncertainty: Partial<Record<Unit, UncertaintySpec>> = {};
   for (const [key, spec] of Object.entries(raw.uncertainty ?? {})) {
     const unit = uncertaintyUnits[key];
-    if (unit && spec !== undefined) uncertainty[unit] = readUncertainty(spec, unit, file, `uncertainty.${key}`);
+    if (unit && spec !== undefined) {
+      const read = attempt(() => readUncertainty(spec, unit, file, `uncertainty.${key}`));
+      if (read) uncertainty[unit] = read;
+    }
   }
 
   const checks = planChecks({ rails, stages });
   const checkUncertainty: Record<string, UncertaintySpec> = {};
   for (const [id, spec] of Object.entries(raw.checkUncertainty ?? {})) {
-    const check = checks.find((c) => c.check === id);
-    if (!check) {
-      const sample = checks.slice(0, 6).map((c) => JSON.stringify(c.check)).join(', ');
-      throw new PlanError(file, `checkUncertainty[${JSON.stringify(id)}]`, `no check ${JSON.stringify(id)} in this plan; check ids look like ${sample}`);
-    }
-    checkUncertainty[id] = readUncertainty(spec, check.unit, file, `checkUncertainty[${JSON.stringify(id)}]`);
+    attempt(() => {
+      const check = checks.find((c) => c.check === id);
+      if (!check) {
+        // A check of a stage that already has a mistake is not a second mistake.
+        if (problems && problems.length > 0) return;
+        const sample = checks.slice(0, 6).map((c) => JSON.stringify(c.check)).join(', ');
+        throw new PlanError(file, `checkUncertainty[${JSON.stringify(id)}]`, `no check ${JSON.stringify(id)} in this plan; check ids look like ${sample}`);
+      }
+      checkUncertainty[id] = readUncertainty(spec, check.unit, file, `checkUncertainty[${JSON.stringify(id)}]`);
+    });
   }
 
   let railShortMin = defaultRailShortMin;
-  if (raw.railShortMin !== undefined) {
-    railShortMin = readValue(raw.railShortMin, 'Ω', file, 'railShortMin', { allowTolerance: false }).value;
-    if (!(railShortMin > 0)) throw new PlanError(file, 'railShortMin', 'must be a resistance above zero, e.g. "100 ohm"');
+  const shortText = raw.railShortMin;
+  if (shortText !== undefined) {
+    attempt(() => {
+      railShortMin = readValue(shortText, 'Ω', file, 'railShortMin', { allowTolerance: false }).value;
+      if (!(railShortMin > 0)) throw new PlanError(file, 'railShortMin', 'must be a resistance above zero, e.g. "100 ohm"');
+    });
   }
 
   const base = {
@@ -131,10 +181,17 @@ export function loadPlanText(text: string, file: string, kinds: Readonly<Record<
   };
   const withComma = raw.decimalComma === true ? { ...base, decimalComma: true } : base;
   const withNote = raw.note === undefined ? withComma : { ...withComma, note: raw.note };
-  if (raw.idleCurrent === undefined) return withNote;
-  const idle = readValue(raw.idleCurrent.max, 'A', file, 'idleCurrent.max', { allowTolerance: false }).value;
-  if (!(idle > 0)) throw new PlanError(file, 'idleCurrent.max', 'must be a current above zero, e.g. "45 mA"');
-  return { ...withNote, idleCurrentMax: idle };
+  let idle: number | undefined;
+  if (raw.idleCurrent !== undefined) {
+    const max = raw.idleCurrent.max;
+    idle = attempt(() => {
+      const v = readValue(max, 'A', file, 'idleCurrent.max', { allowTolerance: false }).value;
+      if (!(v > 0)) throw new PlanError(file, 'idleCurrent.max', 'must be a current above zero, e.g. "45 mA"');
+      return v;
+    });
+  }
+  if (problems && problems.length > 0) return null;
+  return idle === undefined ? withNote : { ...withNote, idleCurrentMax: idle };
 }
 
 /** Refuse plans beyond the size limits before any stage is read, naming the place. */

@@ -66,6 +66,7 @@ export const stageSchema = z.looseObject({
   input: z.optional(text('an upstream output such as "osc.triangle"')),
   testPoints: z.optional(z.record(z.string(), name('a test point name such as "TP3"', 40), { error: 'expected test points by output, e.g. {"out": "TP4"}' })),
   opamp: z.optional(opampSchema),
+  refs: z.optional(z.record(z.string(), text('a reference designator such as "C7"'), { error: 'expected reference designators by part role, e.g. {"Ct": "C7", "clamp": "D3/D4"}' })),
   /**
    * External loads on the stage's outputs, by output name (`{"out": "600 ohm 5%"}`):
    * a line, a meter or scope input the bench hangs there. An addition to the contract keys.

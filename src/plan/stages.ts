@@ -38,18 +38,56 @@ export function resolveStages(
   planOpamp: OpampModel | OpampSpec,
   file: string,
   railIds: readonly string[] = [],
+  problems?: PlanError[],
 ): PlanStage[] {
   // A bare model (callers from before spreads) is an exact op-amp.
   const planSpec: OpampSpec = 'model' in planOpamp ? planOpamp : { model: planOpamp, spread: {} };
+  // With `problems`, a stage with a mistake is noted there and left out, and the others are
+  // still checked (`plan check`: every problem at once); without it the first mistake throws.
+  const attempt = <T>(work: () => T): T | undefined => {
+    if (!problems) return work();
+    try {
+      return work();
+    } catch (error) {
+      if (!(error instanceof PlanError)) throw error;
+      problems.push(error);
+      return undefined;
+    }
+  };
   const seen = new Map<string, number>();
+  const skipped = new Set<number>();
   raws.forEach((raw, i) => {
-    if (raw.id === 'rails') throw new PlanError(file, `stages[${i}].id`, '"rails" is reserved for the supply checks (rails.<id>.dc); name the stage otherwise');
-    const first = seen.get(raw.id);
-    if (first !== undefined) throw new PlanError(file, `stages[${i}].id`, `duplicate stage id ${JSON.stringify(raw.id)} (also stages[${first}]); every stage needs its own id`);
-    seen.set(raw.id, i);
+    const ok = attempt(() => {
+      if (raw.id === 'rails') throw new PlanError(file, `stages[${i}].id`, '"rails" is reserved for the supply checks (rails.<id>.dc); name the stage otherwise');
+      const first = seen.get(raw.id);
+      if (first !== undefined) throw new PlanError(file, `stages[${i}].id`, `duplicate stage id ${JSON.stringify(raw.id)} (also stages[${first}]); every stage needs its own id`);
+      seen.set(raw.id, i);
+      return true;
+    });
+    if (!ok) skipped.add(i);
   });
 
-  const built = raws.map((raw, i): PlanStage & { inputText?: string } => {
+  const failedIds = new Set<string>();
+  const built = raws.flatMap((raw, i) => {
+    if (skipped.has(i)) return [];
+    const stage = attempt(() => buildStage(raw, i));
+    if (!stage) failedIds.add(raw.id);
+    return stage ? [stage] : [];
+  });
+
+  const byId = new Map(built.map((s) => [s.id, s] as const));
+  const resolved: PlanStage[] = built.flatMap((s) => {
+    const { inputText, ...stage } = s;
+    if (inputText === undefined) return [stage];
+    // An input from a stage that already has a mistake is not a second mistake.
+    if (problems && failedIds.has(inputText.split('.')[0] ?? '')) return [];
+    const input = attempt(() => resolveInput(inputText, s, byId, file));
+    return input ? [{ ...stage, input }] : [];
+  });
+  const ordered = attempt(() => chainOrder(resolved, file));
+  return ordered ?? [];
+
+  function buildStage(raw: RawStageJson, i: number): PlanStage & { inputText?: string } {
     const path = `stages[${i}]`;
     const module = kinds[raw.kind];
     if (!module) {
@@ -94,6 +132,13 @@ export function resolveStages(
         throw new PlanError(file, `${path}.testPoints.${key}`, `${JSON.stringify(key)} is not an output or check of a ${raw.kind} stage; use one of ${quoteList([...module.outputs, ...checkKeys])}`);
       }
     }
+    const refs: Record<string, string> = { ...(raw.refs ?? {}) };
+    const faultRoles = module.faults?.(parsed.settings).map((f) => f.role) ?? [];
+    for (const key of Object.keys(refs)) {
+      if (!(key in parts) && !faultRoles.includes(key)) {
+        throw new PlanError(file, `${path}.refs.${key}`, `${JSON.stringify(key)} is not a part of this ${raw.kind} stage; use one of ${quoteList([...Object.keys(parts), ...faultRoles.filter((r) => !(r in parts))])}`);
+      }
+    }
     if (module.needsInput && raw.input === undefined) {
       throw new PlanError(file, `${path}.input`, `a ${raw.kind} stage needs an input; write the upstream output, e.g. "input": "osc.triangle"`);
     }
@@ -107,21 +152,14 @@ export function resolveStages(
       parts,
       settings: parsed.settings,
       testPoints,
+      ...(Object.keys(refs).length > 0 ? { refs } : {}),
       opamp: opampSpec.model,
       opampSpread: opampSpec.spread,
       ...(raw.opamp ? { hasOwnOpamp: true } : {}),
       path,
     };
     return raw.input === undefined ? base : { ...base, inputText: raw.input };
-  });
-
-  const byId = new Map(built.map((s) => [s.id, s] as const));
-  const resolved: PlanStage[] = built.map((s) => {
-    const { inputText, ...stage } = s;
-    if (inputText === undefined) return stage;
-    return { ...stage, input: resolveInput(inputText, s, byId, file) };
-  });
-  return chainOrder(resolved, file);
+  }
 }
 
 function resolveInput(text: string, stage: PlanStage, byId: ReadonlyMap<string, PlanStage>, file: string): InputRef {

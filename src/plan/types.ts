@@ -36,6 +36,8 @@ export interface PlanStage {
   readonly settings: unknown;
   /** Test point by output name (`{ square: "TP2" }`), or by check key. */
   readonly testPoints: Readonly<Record<string, string>>;
+  /** Reference designators by part role or part group (`{ Ct: "C7", clamp: "D3/D4" }`), as printed on the board. */
+  readonly refs?: Readonly<Record<string, string>>;
   /** The op-amp this stage uses (plan default, or the stage's own `opamp`). */
   readonly opamp: OpampModel;
   /**

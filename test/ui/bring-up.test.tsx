@@ -103,7 +103,8 @@ describe('bring-up screen', () => {
     // shrinks against the longer ramp, so the part that explains it solves to about 10× (220 nF ± the slew share).
     await s.read(`${target('osc.freq').nominal / 10}`);
     const shown = await s.until('✗ FAIL');
-    expect(shown).toMatch(/osc\.Ct ×10 slip: would be 2\d\d nF \(fitted 22 nF\)/);
+    // The diagnosis of the run names it first; Rt ten times too large gives the same frequency, so it is named beside it.
+    expect(shown).toMatch(/1\. \d+ % osc\.Ct 220 nF \(decade slip\): osc\.freq would read 11\d\.\d Hz \(or osc\.Rt\)/);
   });
 
   test('rework then re-measure: the reworked stage comes up again first', async () => {
@@ -123,7 +124,8 @@ describe('bring-up screen', () => {
     await s.press(keys.enter);
     await s.until(() => !s.frame().includes('Rework note'));
     const board = await s.board();
-    expect(board?.rework).toMatchObject([{ part: 'osc.Ct', from: '22n 5%', to: '22n', note: '220n fitted by mistake', run: board?.runs[0]?.id }]);
+    // The note starts with what the diagnosis found; the technician's words follow.
+    expect(board?.rework).toMatchObject([{ part: 'osc.Ct', from: '22n 5%', to: '22n', note: expect.stringMatching(/^diagnosis 220 nF found \(\d+ %\); 220n fitted by mistake$/), run: board?.runs[0]?.id }]);
     // The oscillator's reading no longer counts (↻) and the next suggestion is to measure it again.
     expect(s.frame()).toMatch(/↻ freq/);
     expect(s.frame()).toContain('osc.freq ›');
