@@ -14,10 +14,12 @@ export interface ZenerShuntSettings {
 
 /**
  * A zener fitted the wrong way round conducts forward as a generic silicon
- * junction, IS = 1e-14 A, N = 1 (about 0.7 V at a few mA; common practice,
- * no source), in series with its rz.
+ * junction, IS = 1e-14 A, N = 1 (about 0.7 V at a few mA), with a bulk
+ * resistance of 0.5 Ω: its breakdown rz plays no part forward (common
+ * practice, no source).
  */
 const forwardIs = 1e-14;
+const forwardBulk = 0.5;
 /** A shorted part reads a few tenths of an ohm on the board (common practice, no source), Ω. */
 const shortOhms = 0.1;
 /** A small glass zener is rated about 0.5 W; warn a little below (common practice, no source), W. */
@@ -62,7 +64,7 @@ function solve(input: EvalInput<ZenerShuntSettings>): Solution {
   const vth = gth > 0 ? (rail * gs) / gth : 0;
   const hasZener = !(fault?.role === 'Z' && fault.mode === 'open');
   const rz = p['rz'] ?? Number.NaN;
-  if (fault?.role === 'Z' && fault.mode === 'reversed') return forward(vth, gth, rz, rail, rs);
+  if (fault?.role === 'Z' && fault.mode === 'reversed') return forward(vth, gth, forwardBulk, rail, rs);
   const knee = p['vz'] ?? Number.NaN;
   if (!hasZener || !(vth > knee)) return { v: vth, iz: 0, rail, rs, isConducting: false };
   // Node equation with the zener as knee + rz: (Vth − V)·Gth = (V − vz)/rz.
@@ -70,7 +72,7 @@ function solve(input: EvalInput<ZenerShuntSettings>): Solution {
   return { v, iz: (v - knee) / rz, rail, rs, isConducting: true };
 }
 
-/** The node with the zener reversed: a forward junction (Shockley law) plus rz, solved by bisection. */
+/** The node with the zener reversed: a forward junction (Shockley law) plus its bulk resistance, solved by bisection. */
 function forward(vth: number, gth: number, rz: number, rail: number, rs: number): Solution {
   const vt = thermalVoltage();
   // KCL at the node, f(vj) = (Vth − vj − I·rz)·Gth − I with I = IS·(e^(vj/Vt) − 1): falls as vj rises.
@@ -86,8 +88,8 @@ function forward(vth: number, gth: number, rz: number, rail: number, rs: number)
     else hi = mid;
   }
   const i = forwardIs * Math.expm1(lo / vt);
-  // The zener carries current the wrong way: no regulation current.
-  return { v: lo + i * rz, iz: 0, rail, rs, isConducting: true };
+  // The zener carries its current forward: what the meter works out from the drops is that current.
+  return { v: lo + i * rz, iz: i, rail, rs, isConducting: true };
 }
 
 function evaluate(input: EvalInput<ZenerShuntSettings>): EvalOutput {
@@ -130,7 +132,7 @@ function sourceResistance(x: ImpedanceInput<ZenerShuntSettings>): number {
 
 const checks: readonly CheckSpec[] = [
   { key: 'out.dc', quantity: 'zener voltage', unit: 'V', output: 'out', instrument: 'meter', how: 'DC voltmeter from the zener cathode to ground, the load connected', captureFigure: 'mean' },
-  { key: 'iz', quantity: 'zener current', unit: 'A', instrument: 'meter', how: 'voltage across Rs divided by Rs (never break the circuit to insert an ammeter with the power on)' },
+  { key: 'iz', quantity: 'zener current', unit: 'A', instrument: 'meter', how: 'the drop across Rs over Rs, less what the load takes (output voltage over Rload); never break the circuit to insert an ammeter with the power on' },
   { key: 'pz', quantity: 'zener dissipation', unit: 'W', instrument: 'meter', how: 'design figure: zener voltage × zener current; not probed', isDesignFigure: true },
 ];
 
