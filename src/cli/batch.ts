@@ -46,6 +46,20 @@ function filterFromOptions(options: ParsedArgs['options']): BatchFilter {
   return filter;
 }
 
+/** Whether any board has a reading of the check (through the index's columns where it has them). */
+function hasCheck(index: LogIndex, check: string): boolean {
+  const columns = index.checkColumns;
+  const id = columns ? columns.checkIds.indexOf(check) : -1;
+  for (const serial in index.boards) {
+    const b = columns ? columns.rowsOf(serial) : -1;
+    if (columns && b >= 0) {
+      if (id < 0) continue;
+      for (let r = columns.rowStart[b] ?? 0; r < (columns.rowStart[b + 1] ?? 0); r++) if (columns.checkOf[r] === id) return true;
+    } else if (check in (index.boards[serial]?.checks ?? {})) return true;
+  }
+  return false;
+}
+
 /** Refuse a plan or check the log has never seen, naming the ones it has. */
 function checkFilterAgainstIndex(index: LogIndex, filter: BatchFilter, dir: string): void {
   const boards = Object.values(index.boards);
@@ -53,7 +67,7 @@ function checkFilterAgainstIndex(index: LogIndex, filter: BatchFilter, dir: stri
     const plans = [...new Set(boards.map((b) => b.plan).filter((p): p is string => p !== null))].sort();
     throw new UsageError(`no boards of plan ${JSON.stringify(filter.plan)} in the log ${dir}; ${plans.length ? `plans there: ${plans.slice(0, 8).join(', ')}` : 'it has no runs yet'}`);
   }
-  if (filter.check !== undefined && !boards.some((b) => filter.check !== undefined && filter.check in b.checks)) {
+  if (filter.check !== undefined && !hasCheck(index, filter.check)) {
     throw new UsageError(`no readings of check ${JSON.stringify(filter.check)} in the log ${dir}; check ids look like osc.freq or rails.+12V.dc (targets PLAN lists them)`);
   }
 }

@@ -75,7 +75,7 @@ export class DurableTextFile implements Adapter<string> {
     return readTextIfAny(this.file);
   }
 
-  async write(text: string): Promise<void> {
+  async write(text: string | Uint8Array): Promise<void> {
     const tmp = tempName(this.file, 'tmp');
     try {
       writeFlushed(tmp, text);

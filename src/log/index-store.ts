@@ -1,4 +1,4 @@
-import { appendFileSync, readdirSync, renameSync, statSync, unlinkSync } from 'node:fs';
+import { appendFileSync, readdirSync, readFileSync, renameSync, statSync, unlinkSync } from 'node:fs';
 export { fileStamp } from './board-scan.js';
 import { randomBytes } from 'node:crypto';
 import { join } from 'node:path';
@@ -6,16 +6,17 @@ import { readBoardFileSync } from './board-file-adapter.js';
 import { DurableTextFile } from './durable-text-file.js';
 import { errorCode, LogDamageError } from './errors.js';
 import { readTextIfAny } from './read-text.js';
+import { decodeCheckColumns, encodeCheckColumns } from './check-columns.js';
 import { withFileLock } from './file-lock.js';
 import { boardSerials, bootId, folderTime, stampsOf } from './board-scan.js';
-import { type BoardHead, type CheckMap, headOf, type IntentLine, type JournalLine, type KnownBoard, replayJournal, reviveChecks, type SuspectLine } from './index-journal.js';
+import { type BoardHead, type CheckMap, headOf, type IntentLine, type JournalLine, type KnownBoard, replayJournal, type SuspectLine } from './index-journal.js';
 import { packBoards, type PackedBoards, unpackBoards } from './index-rows.js';
 import { toLogJson } from './json-text.js';
 import { summarizeBoard } from './summary.js';
-import type { BoardFile, BoardSummary, DamagedBoard, LogIndex } from './types.js';
+import type { BoardFile, BoardSummary, CheckColumns, DamagedBoard, LogIndex } from './types.js';
 
 /** Version of the index files (a cache: any other version is rebuilt, never refused). */
-export const indexSchemaVersion = 4;
+export const indexSchemaVersion = 5;
 
 /** Called while boards are read to rebuild the index: `done` of `total` board files. */
 export type IndexProgress = (done: number, total: number) => void;
@@ -35,7 +36,9 @@ export const journalLimitBytes = 1024 * 1024;
 /** Boards read again in one go above which the reader writes a new snapshot instead of journal lines. */
 const rereadsBeforeCompact = 100;
 
-const checksPattern = /^index-checks\.[0-9a-f]+\.json$/;
+/** The per-check columns file of a snapshot; the older JSON form is only ever deleted. */
+const checksPattern = /^index-checks\.[0-9a-f]+\.bin$/;
+const anyChecksPattern = /^index-checks\.[0-9a-f]+\.(bin|json)$/;
 
 interface Snapshot {
   readonly schemaVersion: number;
@@ -55,9 +58,11 @@ interface Snapshot {
  * of boards. Three files:
  * - `index.json`, the snapshot: each board's counts and state (no checks) and the
  *   stamp of the board file it was made from;
- * - `index-checks.<gen>.json`, every board's first/latest reading per check,
- *   written with the snapshot and read only when a caller looks at `checks`
- *   (the bench screen never does; the batch review does);
+ * - `index-checks.<gen>.bin`, every board's first/latest reading per check as
+ *   columns of numbers (`check-columns.ts`), written with the snapshot and read
+ *   only when a caller looks at `checks` or `checkColumns` (the bench screen
+ *   never does; the batch review does). A damaged one is refused (checksum) and,
+ *   on a verifying read, rebuilt from the board files;
  * - `index.journal`: writers never rewrite the snapshot; before each board write
  *   they append an intent line, after it one line (the board's counts, the
  *   checks that changed, the old and new stamps, the boards folder's time).
@@ -135,7 +140,10 @@ export class IndexStore {
 
     const damaged: DamagedBoard[] = [];
     const lines: string[] = [];
-    const shouldCompact = snapshot === null || stale.length > rereadsBeforeCompact || journalText.length > journalLimitBytes;
+    const columns = this.#columnsLoader(snapshot);
+    // A verifying read (the batch review) needs the columns anyway: a missing or damaged file is rebuilt now.
+    const isColumnsLost = options.verify === true && snapshot !== null && columns() === null;
+    const shouldCompact = snapshot === null || isColumnsLost || stale.length > rereadsBeforeCompact || journalText.length > journalLimitBytes;
     if (stale.length > 0) onProgress?.(0, stale.length);
     let done = 0;
     for (const [serial, stamp] of stale) {
@@ -157,19 +165,32 @@ export class IndexStore {
     if (lines.length > 0) await this.#tryWrite(() => appendFileSync(this.journal, lines.join('')));
 
     const boards: Record<string, BoardSummary> = {};
-    const checksOf = this.#checksResolver(snapshot);
+    const checksOf = this.#checksResolver(columns);
     for (const [serial, k] of known) boards[serial] = lazySummary(k.head, () => checksOf(serial, k));
-    if (shouldCompact) await this.#compact(boards, known, snapshot, { dir: startDir, boot, suspects: damaged.map((d) => d.serial) });
-    return damaged.length > 0 ? { schemaVersion: indexSchemaVersion, boards, damaged } : { schemaVersion: indexSchemaVersion, boards };
+    let index: LogIndex = damaged.length > 0 ? { schemaVersion: indexSchemaVersion, boards, damaged } : { schemaVersion: indexSchemaVersion, boards };
+    if (shouldCompact) {
+      const written = await this.#compact(boards, known, snapshot, { dir: startDir, boot, suspects: damaged.map((d) => d.serial) });
+      if (written) index = withColumns(index, () => written, known);
+    } else {
+      index = withColumns(index, columns, known);
+    }
+    return index;
+  }
+
+  /** The snapshot's columns file, read (and checked) the first time it is asked for; null when gone or damaged. */
+  #columnsLoader(snapshot: Snapshot | null): () => CheckColumns | null {
+    let stored: CheckColumns | null | undefined;
+    return () => {
+      if (stored === undefined) stored = snapshot ? this.#readChecks(snapshot.checksFile) : null;
+      return stored;
+    };
   }
 
   /** How a board's checks are found when asked for: in full, or the snapshot's with the journal's changes on top. */
-  #checksResolver(snapshot: Snapshot | null): (serial: string, k: KnownBoard) => CheckMap {
-    let stored: Record<string, CheckMap> | null | undefined;
+  #checksResolver(columns: () => CheckColumns | null): (serial: string, k: KnownBoard) => CheckMap {
     return (serial, k) => {
       if (k.full) return k.full;
-      if (stored === undefined) stored = snapshot ? this.#readChecks(snapshot.checksFile) : null;
-      const base = stored?.[serial];
+      const base = columns()?.checksOf(serial) ?? undefined;
       if (base === undefined) {
         // The checks file is gone or lacks this board (a crash mid-compaction): read the board itself.
         try {
@@ -198,25 +219,24 @@ export class IndexStore {
     return rows ? { ...(data as Snapshot), rows } : null;
   }
 
-  #readChecks(name: string): Record<string, CheckMap> | null {
+  #readChecks(name: string): CheckColumns | null {
     if (!checksPattern.test(name)) return null;
-    const text = readTextIfAny(join(this.dir, name));
-    if (text === null) return null;
+    let bytes: Buffer;
     try {
-      const data = JSON.parse(text) as { schemaVersion?: unknown; checks?: Record<string, CheckMap> };
-      if (data.schemaVersion !== indexSchemaVersion || typeof data.checks !== 'object' || data.checks === null) return null;
-      for (const checks of Object.values(data.checks)) reviveChecks(checks);
-      return data.checks;
-    } catch {
-      return null;
+      bytes = readFileSync(join(this.dir, name));
+    } catch (error) {
+      if (errorCode(error) === 'ENOENT') return null;
+      throw error;
     }
+    return decodeCheckColumns(bytes);
   }
 
-  async #compact(boards: Record<string, BoardSummary>, known: ReadonlyMap<string, KnownBoard>, before: Snapshot | null, seen: Pick<Snapshot, 'dir' | 'boot' | 'suspects'>): Promise<void> {
-    const checks: Record<string, CheckMap> = {};
-    for (const serial of known.keys()) checks[serial] = boards[serial]?.checks ?? {};
+  /** Fold the journal into a new snapshot and columns file; returns the columns written, or null when the log is read-only. */
+  async #compact(boards: Record<string, BoardSummary>, known: Map<string, KnownBoard>, before: Snapshot | null, seen: Pick<Snapshot, 'dir' | 'boot' | 'suspects'>): Promise<CheckColumns | null> {
+    const bytes = encodeCheckColumns([...known.keys()].map((serial) => [serial, boards[serial]?.checks ?? {}] as [string, CheckMap]));
     const packed = packBoards([...known].map(([serial, k]) => [serial, k.head, k.stamp] as [string, BoardHead, string]));
-    const checksFile = `index-checks.${randomBytes(6).toString('hex')}.json`;
+    const checksFile = `index-checks.${randomBytes(6).toString('hex')}.bin`;
+    let isWritten = false;
     await this.#tryWrite(() =>
       withFileLock(this.file, async () => {
         // Lines appended after this move are lost from the journal; their boards'
@@ -228,9 +248,10 @@ export class IndexStore {
           if (errorCode(error) !== 'ENOENT') throw error;
         }
         const replaced = this.#readSnapshot()?.checksFile ?? before?.checksFile;
-        await new DurableTextFile(join(this.dir, checksFile)).write(toLogJson({ schemaVersion: indexSchemaVersion, checks }));
+        await new DurableTextFile(join(this.dir, checksFile)).write(bytes);
         await new DurableTextFile(this.file).write(JSON.stringify({ schemaVersion: indexSchemaVersion, boards: packed, checksFile, ...seen } satisfies Snapshot));
-        for (const name of [aside, ...readdirSync(this.dir).filter((n) => checksPattern.test(n) && n !== checksFile && n !== replaced).map((n) => join(this.dir, n))]) {
+        isWritten = true;
+        for (const name of [aside, ...readdirSync(this.dir).filter((n) => anyChecksPattern.test(n) && n !== checksFile && n !== replaced).map((n) => join(this.dir, n))]) {
           try {
             unlinkSync(name);
           } catch (error) {
@@ -239,6 +260,13 @@ export class IndexStore {
         }
       }),
     );
+    if (!isWritten) return null;
+    // Every board's checks are now exactly the file's.
+    for (const k of known.values()) {
+      k.full = null;
+      k.deltas = [];
+    }
+    return decodeCheckColumns(bytes);
   }
 
   /** Index writes are a cache: on a log opened read-only they are skipped, the index in memory is still right. */
@@ -251,6 +279,31 @@ export class IndexStore {
       throw error;
     }
   }
+}
+
+/**
+ * The index with its columns (non-enumerable, looked up when first asked for),
+ * answering only for boards whose summaries are exactly the file's.
+ */
+function withColumns(index: LogIndex, columns: () => CheckColumns | null, known: ReadonlyMap<string, KnownBoard>): LogIndex {
+  let view: CheckColumns | undefined | null = null;
+  return Object.defineProperty(index, 'checkColumns', {
+    enumerable: false,
+    get: () => {
+      if (view !== null) return view;
+      const c = columns();
+      view = c
+        ? {
+            ...c,
+            rowsOf: (serial: string) => {
+              const k = known.get(serial);
+              return k && k.full === null && k.deltas.length === 0 && !k.broken ? c.rowsOf(serial) : -1;
+            },
+          }
+        : undefined;
+      return view;
+    },
+  });
 }
 
 /** A board summary whose `checks` are looked up the first time they are read. */

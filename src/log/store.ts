@@ -246,7 +246,7 @@ function checkExistingLog(root: string): void {
  *   refused), the previous version kept as `<serial>.json.bak`;
  * - `plans/<sha256>.json`: the exact plan text each run used;
  * - `captures/<sha256>.<ext>`: raw capture files, by content;
- * - `index.json`, `index-checks.<gen>.json`, `index.journal`: the rebuildable
+ * - `index.json`, `index-checks.<gen>.bin`, `index.journal`: the rebuildable
  *   index (see `IndexStore`).
  * Every change to a board happens under that board's lock (`locks/<serial>.json.lock`)
  * as read → change → durable replace, so concurrent processes lose nothing and

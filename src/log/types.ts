@@ -108,6 +108,37 @@ export interface LogIndex {
   readonly boards: Readonly<Record<string, BoardSummary>>;
   /** Board files that could not be read (damaged, newer schema), each with its one-line message and remedy. */
   readonly damaged?: readonly DamagedBoard[];
+  /**
+   * The per-check summaries as columns, when the store keeps them so (a folder
+   * log); not enumerable, so an index still prints and compares as before.
+   */
+  readonly checkColumns?: CheckColumns;
+}
+
+/**
+ * Every board's per-check summaries as columns (rows grouped by board): what a
+ * batch review reads instead of one object per board and check. A folder log
+ * offers it beside `boards`; a board whose summaries changed since its columns
+ * were written has none (`rowsOf` gives -1) and is read from its `checks`.
+ */
+export interface CheckColumns {
+  readonly checkIds: readonly string[];
+  /** Board position of a serial in `rowStart`, or -1 when the columns do not hold that board as it is now. */
+  rowsOf(serial: string): number;
+  /** Board b's rows are `rowStart[b]` up to `rowStart[b + 1]`. */
+  readonly rowStart: Uint32Array;
+  /** Index into `checkIds`, per row. */
+  readonly checkOf: Uint32Array;
+  /** The latest reading's value, SI units. */
+  readonly latestValue: Float64Array;
+  /** The latest reading's time, ms since epoch; NaN when its text is not the canonical ISO form (then see `latestAt`). */
+  readonly latestAtMs: Float64Array;
+  /** Verdict codes 0 pass, 1 marginal, 2 fail: the latest in bits 0–1, the first in bits 2–3. */
+  readonly verdicts: Uint8Array;
+  /** The latest reading's time as stored (ISO 8601 text). */
+  latestAt(row: number): string;
+  /** One board's summaries as objects, or null when the columns do not hold it. */
+  checksOf(serial: string): Record<string, CheckSummary> | null;
 }
 
 /** A board file the index could not read; its summary (if listed) is from its last good version. */

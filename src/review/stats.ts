@@ -14,13 +14,14 @@ export interface Spread {
  * deviations) rather than a running sum of squares: readings of a 10 kHz
  * oscillator spread by a few hertz would lose their digits in x² sums.
  */
-export function spreadOf(values: readonly number[]): Spread {
+export function spreadOf(values: ArrayLike<number>): Spread {
   const n = values.length;
   if (n === 0) return { n, mean: null, sd: null, min: null, max: null };
   let sum = 0;
   let min = Infinity;
   let max = -Infinity;
-  for (const v of values) {
+  for (let i = 0; i < n; i++) {
+    const v = values[i] as number;
     sum += v;
     if (v < min) min = v;
     if (v > max) max = v;
@@ -28,6 +29,6 @@ export function spreadOf(values: readonly number[]): Spread {
   const mean = sum / n;
   if (n < 2) return { n, mean, sd: null, min, max };
   let squares = 0;
-  for (const v of values) squares += (v - mean) ** 2;
+  for (let i = 0; i < n; i++) squares += ((values[i] as number) - mean) ** 2;
   return { n, mean, sd: Math.sqrt(squares / (n - 1)), min, max };
 }

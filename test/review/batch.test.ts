@@ -120,3 +120,26 @@ describe('batch figures from the index', () => {
     expect(parseDateBound('yesterday', 'from')).toBeNull();
   });
 });
+
+describe('batch figures through the per-check columns', () => {
+  test('the same figures, outliers and points as through the board objects, times written in any form', async () => {
+    const { decodeCheckColumns, encodeCheckColumns } = await import('../../src/log/check-columns.js');
+    const { batchJson } = await import('../../src/review/batch-json.js');
+    // The worked data set plus a board on revision B and one whose time lacks milliseconds.
+    const objects = indexOf(
+      ...Object.values(worked().boards),
+      board('S006', { 'osc.freq': summary([40, 'fail', '2026-11-05T09:00:00Z']), 'rails.p.dc': summary([12, 'pass', d3]) }, revB),
+      board('S007', { 'osc.freq': summary([15, 'pass', '2026-11-04T09:00:00.000+00:00']) }),
+    );
+    const columns = decodeCheckColumns(encodeCheckColumns(Object.values(objects.boards).map((b) => [b.serial, b.checks] as [string, typeof b.checks])));
+    expect(columns).not.toBeNull();
+    const withColumns = Object.defineProperty({ ...objects }, 'checkColumns', { value: columns, enumerable: false });
+    for (const filter of [{}, { check: 'osc.freq' }, { from: Date.parse(d2) }, { revision: revB.slice(0, 6) }]) {
+      const a = batchFigures(objects, demoBands(), filter);
+      const b = batchFigures(withColumns, demoBands(), filter);
+      expect(JSON.stringify(batchJson(b, 'x'))).toBe(JSON.stringify(batchJson(a, 'x')));
+      expect(b.checks.map((c) => c.points)).toEqual(a.checks.map((c) => c.points));
+      expect([b.boards, b.incomplete, b.firstPassBoards, b.finalPassBoards]).toEqual([a.boards, a.incomplete, a.firstPassBoards, a.finalPassBoards]);
+    }
+  });
+});
