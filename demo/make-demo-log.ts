@@ -2,7 +2,7 @@
 // screen has something real to show. No board, serial, reading or person here
 // exists; the values are drawn around the targets of our own invented plans.
 //
-//   node --import tsx demo/make-demo-log.ts DIR [--plans exciter.plan.json,line-driver.plan.json]
+//   node --import tsx demo/make-demo-log.ts DIR [--plans exciter.plan.json,line-driver.plan.json,calibrator.plan.json]
 //
 // Everything goes through the real store (`openLog`) and the real target engine
 // (`computeTargets`, `verdictFor`, `explainReading`), as the bench screen writes
@@ -168,18 +168,18 @@ async function newBoard(log: BenchLog, plan: Plan, targets: readonly Target[], s
 const args = process.argv.slice(2);
 const dir = args[0];
 if (!dir || dir.startsWith('--')) {
-  console.error('usage: make-demo-log.ts DIR [--plans exciter.plan.json,line-driver.plan.json]');
+  console.error('usage: make-demo-log.ts DIR [--plans exciter.plan.json,line-driver.plan.json,calibrator.plan.json]');
   process.exit(2);
 }
 const plansAt = args.indexOf('--plans');
-const planFiles = plansAt >= 0 ? (args[plansAt + 1] ?? '').split(',') : ['demo/exciter.plan.json', 'demo/line-driver.plan.json'];
+const planFiles = plansAt >= 0 ? (args[plansAt + 1] ?? '').split(',') : ['demo/exciter.plan.json', 'demo/line-driver.plan.json', 'demo/calibrator.plan.json'];
 if (existsSync(resolve(dir, 'boards')) && readdirSync(resolve(dir, 'boards')).length > 0) {
   console.error(`make-demo-log: ${dir} already holds boards; give an empty or new folder`);
   process.exit(2);
 }
 
 const log = await openLog(dir);
-const [exciter, lineDriver] = await Promise.all(planFiles.map((f) => loadPlanFile(f)));
+const [exciter, lineDriver, calibrator] = await Promise.all(planFiles.map((f) => loadPlanFile(f)));
 if (!exciter) throw new Error('make-demo-log: no plan given');
 const exciterTargets = computeTargets(exciter).targets;
 const written: string[] = [];
@@ -310,6 +310,32 @@ if (lineDriver) {
   } else await readGood(b);
   await log.endRun(b.serial, b.run, 'failed');
   written.push(`${b.serial} failed`);
+}
+
+// Calibrator boards (two, so the whole demo list still fits an 80×24 bench screen):
+// one passes; on the other the reference zener went in back to front (it reads a
+// forward drop), is turned round and passes.
+if (calibrator) {
+  const calTargets = computeTargets(calibrator).targets;
+  for (let n = 301; n <= 301; n++) {
+    const b = await newBoard(log, calibrator, calTargets, `CAL-0${n}`);
+    await readGood(b);
+    await log.endRun(b.serial, b.run, 'passed');
+    written.push(`${b.serial} passed`);
+  }
+  const zener = calibrator.stages.find((s) => s.module.faults?.(s.settings).some((f) => f.modes.includes('reversed') && f.role === 'Z'));
+  if (zener) {
+    const b = await newBoard(log, calibrator, calTargets, 'CAL-0302');
+    const dc = `${zener.id}.out.dc`;
+    await readGood(b, undefined, dc);
+    // A silicon junction's forward drop at a few mA (common practice): what a zener fitted backwards reads.
+    if ((await read(b, dc, 0.71 + 0.01 * gauss())) !== 'fail') throw new Error('a reversed zener should fail the reference level');
+    clock.advance(20);
+    await log.addRework(b.serial, { run: b.run, part: `${zener.id}.Z`, from: 'reversed', to: 'turned round', note: 'reference zener fitted with its band at the ground end; turned round (invented demo event)', operator: b.operator });
+    await readGood(b, dc);
+    await log.endRun(b.serial, b.run, 'passed');
+    written.push(`${b.serial} reversed zener found, reworked, passed`);
+  }
 }
 
 await log.readIndex();

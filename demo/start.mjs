@@ -11,7 +11,7 @@ import { fileURLToPath } from 'node:url';
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
 const logDir = process.env.PROBEBOOK_DEMO_LOG ? resolve(process.env.PROBEBOOK_DEMO_LOG) : join(root, '.demo-log');
 const bundle = join(root, 'dist', 'probebook.js');
-const plans = ['demo/exciter.plan.json', 'demo/line-driver.plan.json'];
+const plans = ['demo/exciter.plan.json', 'demo/line-driver.plan.json', 'demo/calibrator.plan.json'];
 
 /** The newest modification time of the files under `dir`, ms. */
 function newest(dir) {

@@ -165,6 +165,13 @@ export interface ImpedanceInput<Settings> {
    * R + (1/(jωC) ‖ load)). Absent: nothing loads them.
    */
   readonly load?: ((output: string, f: number) => Complex | undefined) | undefined;
+  /**
+   * Every rail of the board by id, volts, when the caller knows them: a stage
+   * tied to a rail (a transistor's bias, a zener in or out of regulation) sets
+   * its impedances from its operating point. Absent: the kind falls back to
+   * a form from its parts alone.
+   */
+  readonly rails?: Readonly<Record<string, number>>;
 }
 
 /**
