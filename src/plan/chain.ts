@@ -108,6 +108,8 @@ interface ImpedanceArgs {
   readonly settings: unknown;
   readonly opamp: PlanStage['opamp'];
   load: ((output: string, f: number) => Complex | undefined) | undefined;
+  /** The current sample's rails (a rail-tied stage sets its impedances from its operating point). */
+  readonly rails: Record<string, number>;
 }
 
 /** Op-amp keys a chain may vary, and where a stage's sampled value sits in `x` (−1: the plan's fixed value). */
@@ -213,9 +215,13 @@ export function buildChain(plan: Plan): Chain {
   // the parts of the current sample from `sampleParts`, which `run` fills for every
   // stage before it evaluates any: an upstream output depends on downstream parts.
   const sampleParts: Record<string, number>[] = stagePlans.map(() => ({}));
+  let sampleRails: Record<string, number> = {};
   const impedanceArgs: ImpedanceArgs[] = stagePlans.map((sp, i) => ({
     get parts() {
       return sampleParts[i] as Record<string, number>;
+    },
+    get rails() {
+      return sampleRails;
     },
     settings: sp.stage.settings,
     opamp: sp.stage.opamp,
@@ -264,6 +270,7 @@ export function buildChain(plan: Plan): Chain {
       const o = railDcOut[i] ?? -1;
       if (out && o >= 0) out[o] = v;
     }
+    sampleRails = rails;
     const pos = posIdx >= 0 ? (x[posIdx] ?? 0) : 0;
     const neg = negIdx >= 0 ? (x[negIdx] ?? 0) : 0;
     let supplies: Supplies;

@@ -1,5 +1,6 @@
 import { describe, expect, test } from 'vitest';
 import type { StageKind } from '../../src/circuit/types.js';
+import { dc } from '../../src/circuit/waveform.js';
 import { buildChain } from '../../src/plan/chain.js';
 import { loadPlanText } from '../../src/plan/load.js';
 import { upstreamOf } from '../../src/plan/stages.js';
@@ -67,6 +68,51 @@ describe('buildChain', () => {
     chain.evaluate(x, full);
     chain.evaluate(x, reused, undefined, chain.stageIndex('amp'));
     expect(Array.from(reused)).toEqual(Array.from(full));
+  });
+
+  test('a stage input impedance sees the sample rails (a rail-tied stage loads its source from its operating point)', () => {
+    // A 1 V source behind 1 kΩ, and a taker whose input is (rail volts) kΩ: invented stand-ins.
+    const source: StageKind<null> = {
+      kind: 'src',
+      summary: '1 V behind 1 kΩ',
+      roles: [],
+      outputs: ['out'],
+      needsInput: false,
+      parse: () => ({ parts: {}, settings: null }),
+      checks: () => [{ key: 'out.dc', quantity: 'DC level', unit: 'V', output: 'out', instrument: 'meter', how: '' }],
+      outputImpedance: () => ({ re: 1000, im: 0 }),
+      evaluate: ({ load }) => {
+        const z = load?.('out', 0);
+        // Voltage divider: 1 V · Zl / (1 kΩ + Zl), resistive load.
+        const v = z ? z.re / (1000 + z.re) : 1;
+        return { outputs: { out: dc(v) }, values: { 'out.dc': v }, warnings: [] };
+      },
+      faultHints: {},
+    };
+    const taker: StageKind<null> = {
+      kind: 'taker',
+      summary: 'input set by a rail',
+      roles: [],
+      outputs: ['out'],
+      needsInput: true,
+      parse: () => ({ parts: {}, settings: null }),
+      checks: () => [],
+      inputImpedance: (x) => ({ re: 1000 * (x.rails?.['+12V'] ?? Number.NaN), im: 0 }),
+      evaluate: () => ({ outputs: { out: dc(0) }, values: {}, warnings: [] }),
+      faultHints: {},
+    };
+    const k = { ...fakeKinds, src: source as StageKind<unknown>, taker: taker as StageKind<unknown> };
+    const plan = loadPlanText(
+      JSON.stringify({ plan: 'p', title: 't', rails: [{ id: '+12V', nominal: '12 V 5%' }], stages: [{ id: 's', kind: 'src' }, { id: 't', kind: 'taker', input: 's.out' }] }),
+      'p.plan.json',
+      k,
+    );
+    const chain = buildChain(plan);
+    // Hand arithmetic: 12 kΩ load on 1 kΩ: 12/13 V; at a 13.2 V rail 13.2/14.2 V.
+    expect(chain.detail(chain.nominal).values['s.out.dc']).toBeCloseTo(12 / 13, 12);
+    const x = Float64Array.from(chain.nominal);
+    x[0] = 13.2;
+    expect(chain.detail(x).values['s.out.dc']).toBeCloseTo(13.2 / 14.2, 12);
   });
 
   test('upstreamOf lists the input chain nearest first', () => {
