@@ -102,7 +102,22 @@ console.log(`node -e 0: ${bare.seconds.toFixed(3)} s, peak RSS ${(bare.rssKb / 1
 const na = 'n/a';
 const baseline = process.env.BENCH_BASELINE;
 const contenders: { label: string; command: string }[] = [{ label: '', command: bundle }, ...(baseline ? [{ label: ' (baseline)', command: baseline }] : [])];
-const rows: string[][] = [['samples', 'file MB', 'read bytes s', 'probebook s', 'numpy s', 'pb/numpy', 'pb/read', 'CPU pb/np', 'pb RSS MB', 'pb RSS/file', 'node -e 0 RSS/file', 'np RSS/file']];
+const rows: string[][] = [
+  [
+    'samples',
+    'file MB',
+    'read bytes s',
+    'probebook s',
+    'numpy s',
+    'pb/numpy',
+    'pb/read',
+    'CPU pb/np',
+    'pb RSS MB',
+    'pb RSS/file',
+    'node -e 0 RSS/file',
+    'np RSS/file',
+  ],
+];
 for (const n of sizes) {
   const file = makeCapture(n);
   const size = statSync(file).size;
@@ -117,7 +132,9 @@ for (const n of sizes) {
   const ours = JSON.parse(pb[0]?.[0]?.out ?? '{}') as Record<string, number>;
   if (hasNumpy) {
     const theirs = JSON.parse(np[0]?.out ?? '{}') as Record<string, number>;
-    console.log(`${n} samples: frequency ${ours.frequency?.toFixed(4)} vs ${theirs.frequency?.toFixed(4)} Hz, THD ${ours.thd?.toFixed(5)} vs ${theirs.thd?.toFixed(5)}, Vrms ${ours.vrms?.toFixed(5)} vs ${theirs.vrms?.toFixed(5)}`);
+    console.log(
+      `${n} samples: frequency ${ours.frequency?.toFixed(4)} vs ${theirs.frequency?.toFixed(4)} Hz, THD ${ours.thd?.toFixed(5)} vs ${theirs.thd?.toFixed(5)}, Vrms ${ours.vrms?.toFixed(5)} vs ${theirs.vrms?.toFixed(5)}`,
+    );
   } else console.log(`${n} samples: frequency ${ours.frequency?.toFixed(4)} Hz, THD ${ours.thd?.toFixed(5)}, Vrms ${ours.vrms?.toFixed(5)}`);
   contenders.forEach((c, i) => {
     const runs = pb[i] ?? [];
@@ -127,9 +144,17 @@ for (const n of sizes) {
     const pbS = median(runs.map((t) => t.seconds));
     const pbRss = Math.max(...runs.map((t) => t.rssKb)) * 1024;
     rows.push([
-      `${n}${c.label}`, (size / 1e6).toFixed(1), median(read).toFixed(3), pbS.toFixed(3), hasNumpy ? median(np.map((t) => t.seconds)).toFixed(3) : na,
-      hasNumpy ? `${median(ratios).toFixed(2)}×` : na, `${(pbS / median(read)).toFixed(1)}×`, hasNumpy ? `${median(cpuRatios).toFixed(2)}×` : na,
-      (pbRss / 1e6).toFixed(1), `${(pbRss / size).toFixed(2)}×`, `${((bare.rssKb * 1024) / size).toFixed(2)}×`,
+      `${n}${c.label}`,
+      (size / 1e6).toFixed(1),
+      median(read).toFixed(3),
+      pbS.toFixed(3),
+      hasNumpy ? median(np.map((t) => t.seconds)).toFixed(3) : na,
+      hasNumpy ? `${median(ratios).toFixed(2)}×` : na,
+      `${(pbS / median(read)).toFixed(1)}×`,
+      hasNumpy ? `${median(cpuRatios).toFixed(2)}×` : na,
+      (pbRss / 1e6).toFixed(1),
+      `${(pbRss / size).toFixed(2)}×`,
+      `${((bare.rssKb * 1024) / size).toFixed(2)}×`,
       hasNumpy ? `${((Math.max(...np.map((t) => t.rssKb)) * 1024) / size).toFixed(2)}×` : na,
     ]);
   });

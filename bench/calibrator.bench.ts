@@ -32,7 +32,9 @@ for (let r = 0; r < rounds; r++) {
   cal.push(time(() => computeTargets(calibrator, { trials, seed: r + 1 })));
   exc.push(time(() => computeTargets(exciter, { trials, seed: r + 1 })));
 }
-console.log(`computeTargets, ${trials} trials, median of ${rounds}: calibrator ${median(cal).toFixed(1)} ms, exciter ${median(exc).toFixed(1)} ms, ratio ${(median(cal) / median(exc)).toFixed(2)}×`);
+console.log(
+  `computeTargets, ${trials} trials, median of ${rounds}: calibrator ${median(cal).toFixed(1)} ms, exciter ${median(exc).toFixed(1)} ms, ratio ${(median(cal) / median(exc)).toFixed(2)}×`,
+);
 
 const chain = buildChain(calibrator);
 const detail = chain.detail(chain.nominal);
@@ -46,10 +48,16 @@ const perCall = (s: (typeof calibrator.stages)[number]) => {
   const arg = input ? { ...base, input } : base;
   const n = 2000;
   for (let i = 0; i < 200; i++) s.module.evaluate(arg);
-  return (time(() => {
-    for (let i = 0; i < n; i++) s.module.evaluate(arg);
-  }) / n) * 1000;
+  return (
+    (time(() => {
+      for (let i = 0; i < n; i++) s.module.evaluate(arg);
+    }) /
+      n) *
+    1000
+  );
 };
 const us = calibrator.stages.map((s) => [s, median([perCall(s), perCall(s), perCall(s)])] as const);
 const floor = Math.min(...us.map(([, t]) => t));
-console.log(`per stage evaluate (CPU, as a trial), µs and × the cheapest: ${us.map(([s, t]) => `${s.id} (${s.kind}) ${t.toFixed(2)} µs ${(t / floor).toFixed(1)}×`).join(', ')}`);
+console.log(
+  `per stage evaluate (CPU, as a trial), µs and × the cheapest: ${us.map(([s, t]) => `${s.id} (${s.kind}) ${t.toFixed(2)} µs ${(t / floor).toFixed(1)}×`).join(', ')}`,
+);

@@ -35,11 +35,11 @@ const chain = buildChain(plan);
 
 function readingsFor(values: Readonly<Record<string, number>>): DiagnosisReading[] {
   return targets.map((t) => {
-      // The unpowered and first-power checks as a healthy board reads them: open to ground, half the idle limit.
-      const v = t.phase === 'unpowered' ? 1e5 : t.phase === 'first-power' ? t.worst.max / 2 : values[t.check];
-      const value = v === undefined || !Number.isFinite(v) ? 0 : v;
-      return { check: t.check, value, verdict: verdictFor(t, value, uncertaintyFor(plan, t.check, uncertaintyKey(t.unit))).verdict };
-    });
+    // The unpowered and first-power checks as a healthy board reads them: open to ground, half the idle limit.
+    const v = t.phase === 'unpowered' ? 1e5 : t.phase === 'first-power' ? t.worst.max / 2 : values[t.check];
+    const value = v === undefined || !Number.isFinite(v) ? 0 : v;
+    return { check: t.check, value, verdict: verdictFor(t, value, uncertaintyFor(plan, t.check, uncertaintyKey(t.unit))).verdict };
+  });
 }
 
 const faulted = readingsFor(chain.detail(chain.nominal, undefined, { stage: 'osc', role: 'clamp', mode: 'reversed', variant: 0 }).values);
@@ -61,16 +61,20 @@ for (let r = 0; r < rounds; r++) {
   fresh.push(time(() => diagnose(plan, targets, faulted)));
   pass.push(time(() => diagnose(plan, targets, healthy, { chain })));
   // A rail moved each time: the chain keeps results of stages nothing changed in, a rail changes all.
-  evals.push(time(() => {
-    for (let i = 0; i < 200; i++) {
-      x[0] = (chain.nominal[0] as number) * (1 + 1e-4 * (i % 2));
-      chain.evaluate(x, out);
-    }
-  }) / 200);
+  evals.push(
+    time(() => {
+      for (let i = 0; i < 200; i++) {
+        x[0] = (chain.nominal[0] as number) * (1 + 1e-4 * (i % 2));
+        chain.evaluate(x, out);
+      }
+    }) / 200,
+  );
 }
 
 const t = median(full);
-console.log(`diagnose, exciter demo, ${faulted.length} readings (${faulted.filter((x) => x.verdict !== 'pass').length} outside their band): ${t.toFixed(0)} ms (median of ${rounds}; goal < 300 ms) — first hypothesis ${named}`);
+console.log(
+  `diagnose, exciter demo, ${faulted.length} readings (${faulted.filter((x) => x.verdict !== 'pass').length} outside their band): ${t.toFixed(0)} ms (median of ${rounds}; goal < 300 ms) — first hypothesis ${named}`,
+);
 console.log(`  same with the chain built inside: ${median(fresh).toFixed(0)} ms`);
 console.log(`  all-pass board (nothing to explain): ${median(pass).toFixed(2)} ms`);
 console.log(`  one whole-chain evaluation: ${median(evals).toFixed(3)} ms → diagnose ≈ ${(t / median(evals)).toFixed(0)} evaluations`);

@@ -71,7 +71,9 @@ console.log(`THD by direct DFT (waveform.ts)       ${direct.toFixed(2)} µs   ra
 console.log(`512 × Math.exp (machine yardstick)    ${expRef.toFixed(2)} µs   shaper / yardstick ${(shaper / expRef).toFixed(2)}`);
 const plan0 = mirrorOrder(triangle.samples);
 const steps = solveNode(shaperNet(input as EvalInput<DiodeShaperSettings>), triangle.samples, plan0.order, new Float64Array(triangle.samples.length));
-console.log(`Newton steps per solved sample        ${(steps / plan0.order.length).toFixed(2)} (${plan0.order.length} of ${triangle.samples.length} samples solved)`);
+console.log(
+  `Newton steps per solved sample        ${(steps / plan0.order.length).toFixed(2)} (${plan0.order.length} of ${triangle.samples.length} samples solved)`,
+);
 console.log(`10,000 shaper evaluations             ${(shaper * 10).toFixed(1)} ms`);
 if (!Number.isFinite(sink + exps)) console.log('(sink)');
 
@@ -84,7 +86,7 @@ for (let t = 0; t < 300; t++) {
   for (const [k, v] of Object.entries(stage.parts)) p[k] = v.nominal * (1 + v.tol * (2 * random.next() - 1));
   const drive = 3.2 * (1 + 0.05 * (2 * random.next() - 1));
   const skew = 0.5 + 0.02 * (2 * random.next() - 1);
-  const tri = fromPhase(2400, (x) => (x < skew ? drive * (2 * x / skew - 1) : drive * (1 - 2 * (x - skew) / (1 - skew))));
+  const tri = fromPhase(2400, (x) => (x < skew ? drive * ((2 * x) / skew - 1) : drive * (1 - (2 * (x - skew)) / (1 - skew))));
   const exact = stage.module.evaluate({ ...input, parts: p, input: tri });
   const fast = stage.module.evaluate({ ...input, parts: p, input: tri, isTrial: true });
   const a = exact.outputs['out']?.samples ?? new Float64Array(0);
@@ -92,4 +94,6 @@ for (let t = 0; t < 300; t++) {
   for (let i = 0; i < a.length; i++) worstSample = Math.max(worstSample, Math.abs((a[i] as number) - (b[i] as number)));
   worstThd = Math.max(worstThd, Math.abs((exact.values['out.thd'] ?? 0) - (fast.values['out.thd'] ?? 0)));
 }
-console.log(`trial vs full solve, 300 random corners: largest sample difference ${(worstSample * 1e6).toFixed(1)} µV, largest THD difference ${worstThd.toExponential(2)}`);
+console.log(
+  `trial vs full solve, 300 random corners: largest sample difference ${(worstSample * 1e6).toFixed(1)} µV, largest THD difference ${worstThd.toExponential(2)}`,
+);

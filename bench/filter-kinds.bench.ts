@@ -44,18 +44,27 @@ const rows: [string, string, number][] = [];
 for (const [kind, parts, settings] of cases) {
   const module = stageKinds[kind];
   if (!module) throw new Error(`no kind ${kind}`);
-  for (const [label, wave] of [['sine', sine], ['triangle', triangle]] as const) {
+  for (const [label, wave] of [
+    ['sine', sine],
+    ['triangle', triangle],
+  ] as const) {
     const input: EvalInput<unknown> = { parts, settings, opamp, supplies, rails: {}, input: wave, isTrial: true, buffer: () => buffer };
     const n = kind === 'wien-bridge' ? 500 : 3000;
-    rows.push([kind, label, perCall(n, () => {
-      sink += module.evaluate(input).values['out.vpp'] ?? 0;
-    })]);
+    rows.push([
+      kind,
+      label,
+      perCall(n, () => {
+        sink += module.evaluate(input).values['out.vpp'] ?? 0;
+      }),
+    ]);
     if (kind === 'wien-bridge') break; // no input: one row
   }
 }
-const yardstick = (rows.find((r) => r[0] === 'rc-lowpass' && r[1] === 'sine')?.[2] ?? 1);
+const yardstick = rows.find((r) => r[0] === 'rc-lowpass' && r[1] === 'sine')?.[2] ?? 1;
 console.log('kind                  input      µs/trial   × rc-lowpass');
 for (const [kind, label, us] of rows) {
-  console.log(`${kind.padEnd(22)}${(kind === 'wien-bridge' ? '—' : label).padEnd(11)}${us.toFixed(1).padStart(8)}   ${(us / yardstick).toFixed(1).padStart(8)}×`);
+  console.log(
+    `${kind.padEnd(22)}${(kind === 'wien-bridge' ? '—' : label).padEnd(11)}${us.toFixed(1).padStart(8)}   ${(us / yardstick).toFixed(1).padStart(8)}×`,
+  );
 }
 if (sink === 42) console.log('');

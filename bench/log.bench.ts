@@ -14,7 +14,10 @@ import { toLogJson } from '../src/log/json-text.js';
 import { openLog } from '../src/log/store.js';
 import { type BoardFile, boardSchemaVersion, type Reading } from '../src/log/types.js';
 
-const sizes = process.argv.slice(2).map(Number).filter((n) => n > 0);
+const sizes = process.argv
+  .slice(2)
+  .map(Number)
+  .filter((n) => n > 0);
 const boardCounts = sizes.length > 0 ? sizes : [10, 1000, 10_000];
 const perBoard = 60;
 const checks = 30; // 60 readings = every check read twice (before and after a rework)
@@ -42,13 +45,26 @@ function makeBoards(dir: string, count: number): string[] {
     const readings: Reading[] = [];
     for (let i = 0; i < perBoard; i++) {
       const at = new Date(t0 + b * 3_600_000 + i * 30_000).toISOString();
-      readings.push({ id: `r-b${b.toString(36)}-${i}`, run, check: `stage${i % checks}.out.dc`, value: 1 + ((b * 7 + i) % 13) / 100, unit: 'V', raw: String(1 + i / 100), at, operator: 'bench', verdict: i % 17 === 0 ? 'fail' : 'pass', planHash });
+      readings.push({
+        id: `r-b${b.toString(36)}-${i}`,
+        run,
+        check: `stage${i % checks}.out.dc`,
+        value: 1 + ((b * 7 + i) % 13) / 100,
+        unit: 'V',
+        raw: String(1 + i / 100),
+        at,
+        operator: 'bench',
+        verdict: i % 17 === 0 ? 'fail' : 'pass',
+        planHash,
+      });
     }
     const board: BoardFile = {
       schemaVersion: boardSchemaVersion,
       serial,
       plan: 'bench-board',
-      runs: [{ id: run, started: new Date(t0 + b * 3_600_000).toISOString(), ended: null, operator: 'bench', outcome: 'in-progress', plan: 'bench-board', planHash }],
+      runs: [
+        { id: run, started: new Date(t0 + b * 3_600_000).toISOString(), ended: null, operator: 'bench', outcome: 'in-progress', plan: 'bench-board', planHash },
+      ],
       readings,
       rework: [],
       captures: [],
@@ -108,7 +124,16 @@ for (const count of boardCounts) {
     for (let i = 0; i < appends; i++) {
       const serial = serials[(i * 7919) % serials.length] as string;
       const t0 = performance.now();
-      await log.appendReading(serial, { run: `u-bench${((i * 7919) % serials.length).toString(36)}`, check: `stage${i % checks}.out.dc`, value: 1.05, unit: 'V', raw: '1.05', operator: 'bench', verdict: 'pass', planHash });
+      await log.appendReading(serial, {
+        run: `u-bench${((i * 7919) % serials.length).toString(36)}`,
+        check: `stage${i % checks}.out.dc`,
+        value: 1.05,
+        unit: 'V',
+        raw: '1.05',
+        operator: 'bench',
+        verdict: 'pass',
+        planHash,
+      });
       lat.push(performance.now() - t0);
     }
     const cpuUsed = process.cpuUsage(cpu0);
@@ -132,7 +157,18 @@ for (const count of boardCounts) {
     const h: number[] = [];
     for (let i = 0; i < 5; i++) h.push(await timeCommand(['history', serials[i % serials.length] as string, '--json', '--log', dir]));
     h.sort((a, b) => a - b);
-    rows.push({ boards: count, rebuild, open: quantile(opens, 0.5), openCpu: quantile(openCpus, 0.5), median: quantile(lat, 0.5), p99: quantile(lat, 0.99), appendCpu, floor: floorHere, history: quantile(h, 0.5), indexMb });
+    rows.push({
+      boards: count,
+      rebuild,
+      open: quantile(opens, 0.5),
+      openCpu: quantile(openCpus, 0.5),
+      median: quantile(lat, 0.5),
+      p99: quantile(lat, 0.99),
+      appendCpu,
+      floor: floorHere,
+      history: quantile(h, 0.5),
+      indexMb,
+    });
   } finally {
     // PROBEBOOK_BENCH_KEEP=1 keeps the folders for a closer look.
     if (process.env.PROBEBOOK_BENCH_KEEP) process.stdout.write(`  kept ${dir}\n`);
@@ -145,7 +181,18 @@ function singleFileAppend(readings: number): number {
   const dir = mkdtempSync(join(tmpdir(), 'probebook-bench-one-'));
   try {
     const path = join(dir, 'all.json');
-    const one = { id: 'r-x', run: 'u-x', check: 'stage1.out.dc', value: 1.05, unit: 'V', raw: '1.05', at: '2026-03-02T08:00:00.000Z', operator: 'bench', verdict: 'pass', planHash };
+    const one = {
+      id: 'r-x',
+      run: 'u-x',
+      check: 'stage1.out.dc',
+      value: 1.05,
+      unit: 'V',
+      raw: '1.05',
+      at: '2026-03-02T08:00:00.000Z',
+      operator: 'bench',
+      verdict: 'pass',
+      planHash,
+    };
     writeFileSync(path, JSON.stringify({ readings: Array.from({ length: readings }, () => one) }));
     const lat: number[] = [];
     for (let i = 0; i < 20; i++) {
@@ -158,7 +205,10 @@ function singleFileAppend(readings: number): number {
       closeSync(fd);
       lat.push(performance.now() - t0);
     }
-    return quantile(lat.sort((a, b) => a - b), 0.5);
+    return quantile(
+      lat.sort((a, b) => a - b),
+      0.5,
+    );
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
@@ -182,13 +232,18 @@ function rawReplace(): number {
       closeSync(d);
       lat.push(performance.now() - t0);
     }
-    return quantile(lat.sort((a, b) => a - b), 0.5);
+    return quantile(
+      lat.sort((a, b) => a - b),
+      0.5,
+    );
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
 }
 const base = rows[0];
-process.stdout.write(`\nboards   readings  append median (cpu)  p99       disk floor  median/floor  history --json  open index (cpu)     index rebuild  index.json\n`);
+process.stdout.write(
+  `\nboards   readings  append median (cpu)  p99       disk floor  median/floor  history --json  open index (cpu)     index rebuild  index.json\n`,
+);
 for (const r of rows) {
   process.stdout.write(
     `${String(r.boards).padStart(6)}  ${String(r.boards * perBoard).padStart(8)}  ${`${ms(r.median)} (${ms(r.appendCpu)})`.padStart(19)}  ${ms(r.p99).padStart(8)}  ${ms(r.floor).padStart(10)}  ${`×${(r.median / r.floor).toFixed(2)}`.padStart(12)}  ${ms(r.history).padStart(14)}  ${`${ms(r.open)} (${ms(r.openCpu)})`.padStart(19)}  ${ms(r.rebuild).padStart(13)}  ${`${r.indexMb.toFixed(1)} MB`.padStart(10)}\n`,
@@ -196,8 +251,12 @@ for (const r of rows) {
 }
 const last = rows.at(-1);
 if (base && last) {
-  process.stdout.write(`per-reading cost from ${base.boards} to ${last.boards} boards: append cpu ×${(last.appendCpu / base.appendCpu).toFixed(2)}, append median ×${(last.median / base.median).toFixed(2)}\n`);
-  process.stdout.write(`goals at ${last.boards} boards: append median ${ms(last.median)} (goal < 5 ms), open index ${ms(last.open)} (goal < 200 ms); on a loaded machine compare the cpu figures and the ratio to the disk floor\n`);
+  process.stdout.write(
+    `per-reading cost from ${base.boards} to ${last.boards} boards: append cpu ×${(last.appendCpu / base.appendCpu).toFixed(2)}, append median ×${(last.median / base.median).toFixed(2)}\n`,
+  );
+  process.stdout.write(
+    `goals at ${last.boards} boards: append median ${ms(last.median)} (goal < 5 ms), open index ${ms(last.open)} (goal < 200 ms); on a loaded machine compare the cpu figures and the ratio to the disk floor\n`,
+  );
 }
 process.stdout.write('\none file with every reading, rewritten per append (the layout not taken):\n');
 for (const n of [10_000, 100_000]) {

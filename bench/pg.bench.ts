@@ -98,7 +98,11 @@ try {
   const recordTimes: number[] = [];
   for (let i = 0; i < 60; i++) {
     const t = performance.now();
-    await log.appendToOpenRun(`REC-${i % 10}`, { plan: 'bias-ref-a', planHash: hashOf, planText, operator: 'bench' }, { check: 'ref.out.dc', value: 3.27, unit: 'V', raw: '3.27', operator: 'bench', verdict: 'pass', planHash: hashOf });
+    await log.appendToOpenRun(
+      `REC-${i % 10}`,
+      { plan: 'bias-ref-a', planHash: hashOf, planText, operator: 'bench' },
+      { check: 'ref.out.dc', value: 3.27, unit: 'V', raw: '3.27', operator: 'bench', verdict: 'pass', planHash: hashOf },
+    );
     if (i >= 10) recordTimes.push(ms(t));
   }
   await log.close();

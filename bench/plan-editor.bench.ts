@@ -41,5 +41,7 @@ for (const file of ['demo/exciter.plan.json', 'demo/line-driver.plan.json']) {
   }
   const q = median(quick);
   const f = median(full);
-  console.log(`${file}: quick pass (check + load + nominal + worst case) median ${q.toFixed(1)} ms, p-max ${Math.max(...quick).toFixed(1)} ms (goal ${goalMs} ms: ${q <= goalMs ? 'met' : 'missed'}); full 10,000-trial pass ${f.toFixed(0)} ms in the worker; quick/full ${(q / f).toFixed(3)}`);
+  console.log(
+    `${file}: quick pass (check + load + nominal + worst case) median ${q.toFixed(1)} ms, p-max ${Math.max(...quick).toFixed(1)} ms (goal ${goalMs} ms: ${q <= goalMs ? 'met' : 'missed'}); full 10,000-trial pass ${f.toFixed(0)} ms in the worker; quick/full ${(q / f).toFixed(3)}`,
+  );
 }

@@ -9,7 +9,8 @@ import { computeTargets } from '../src/analysis/targets.js';
 
 function chainPlan(n: number): string {
   const stages: unknown[] = [{ id: 'src', kind: 'signal-in', shape: 'sine', peak: '1 V', frequency: '1 kHz' }];
-  for (let i = 0; i < n - 1; i++) stages.push({ id: `f${i}`, kind: 'rc-lowpass', input: i === 0 ? 'src.out' : `f${i - 1}.out`, parts: { R: '1k 1%', C: '10n 5%' } });
+  for (let i = 0; i < n - 1; i++)
+    stages.push({ id: `f${i}`, kind: 'rc-lowpass', input: i === 0 ? 'src.out' : `f${i - 1}.out`, parts: { R: '1k 1%', C: '10n 5%' } });
   return JSON.stringify({ plan: 'gen', title: 'Generated chain (invented)', rails: [{ id: '+12V', nominal: '12 V', tol: '3%' }], stages });
 }
 
@@ -33,5 +34,7 @@ for (let i = 1; i < rows.length; i++) {
   const a = rows[i - 1];
   const b = rows[i];
   if (!a || !b) continue;
-  console.log(`${a.n} → ${b.n} stages: load ×${(b.load / a.load).toFixed(2)}, build ×${(b.build / a.build).toFixed(2)}, targets ×${(b.targets / a.targets).toFixed(2)}`);
+  console.log(
+    `${a.n} → ${b.n} stages: load ×${(b.load / a.load).toFixed(2)}, build ×${(b.build / a.build).toFixed(2)}, targets ×${(b.targets / a.targets).toFixed(2)}`,
+  );
 }

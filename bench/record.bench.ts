@@ -29,7 +29,22 @@ function timed(args: readonly string[]): number {
   return ms;
 }
 
-const record = (board: string, cacheDir: string) => [bundle, 'record', '--plan', plan, '--board', board, '--check', 'rails.idle-current', '--value', '20 mA', '--log', log, '--cache', cacheDir];
+const record = (board: string, cacheDir: string) => [
+  bundle,
+  'record',
+  '--plan',
+  plan,
+  '--board',
+  board,
+  '--check',
+  'rails.idle-current',
+  '--value',
+  '20 mA',
+  '--log',
+  log,
+  '--cache',
+  cacheDir,
+];
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)] ?? Number.NaN;
 
 // Fill the cache once (and warm the page cache for node and the bundle).

@@ -19,8 +19,5 @@ export const benchPlan = {
   idleCurrent: { max: '80 mA' },
   opamp: { gbw: '3 MHz', slew: '2 V/us', headroom: '1.5 V', maxSupply: '18 V' },
   uncertainty: { V: '0.5% + 2 mV', A: '1% + 0.1 mA', Hz: '0.05%', ohm: '1% + 1 ohm', 'V/V': '0.05%', '1': '0.5%' },
-  stages: [
-    { id: 'osc', kind: 'schmitt-integrator', parts: { R1: '12k 1%', R2: '27k 1%', Rt: '15k 1%', Ct: '10n 5%' } },
-    ...buffers,
-  ],
+  stages: [{ id: 'osc', kind: 'schmitt-integrator', parts: { R1: '12k 1%', R2: '27k 1%', Rt: '15k 1%', Ct: '10n 5%' } }, ...buffers],
 };

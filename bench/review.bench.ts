@@ -42,7 +42,7 @@ const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.len
 const fmt = (x: number) => `${x.toFixed(x < 10 ? 2 : 0)} ms`;
 // A small seeded generator (LCG, Numerical Recipes constants) so every run writes the same log.
 let seed = 12345;
-const rand = () => ((seed = (seed * 1664525 + 1013904223) >>> 0) / 2 ** 32);
+const rand = () => (seed = (seed * 1664525 + 1013904223) >>> 0) / 2 ** 32;
 const gauss = () => Math.sqrt(-2 * Math.log(rand() + 1e-12)) * Math.cos(2 * Math.PI * rand());
 
 const log = await openLog(dir);
@@ -64,62 +64,99 @@ function verdictOf(t: Target, value: number) {
 }
 
 if (!isReused) {
-// Board 1 through the store: run, 60 durable readings, end (also saves the plan snapshot).
-{
-  const first = await log.startRun('BR-00001', { plan: plan.plan, planHash: plan.hash, planText, operator: 'bench' });
-  t0 = performance.now();
-  const set = await planBandSource(log, diskCache()).get(plan.hash);
-  const coldTargets = ms(t0);
-  console.log(`targets of the ${set?.order.length}-check plan, first time (Monte Carlo, then cached): ${fmt(coldTargets)}`);
-  targets.push(...computeTargets(plan).targets.slice(0, checksPerBoard));
-  t0 = performance.now();
-  for (const t of targets) {
-    const value = valueFor(t);
-    await log.appendReading('BR-00001', { run: first.id, check: t.check, value, unit: t.unit, raw: String(value), operator: 'bench', verdict: verdictOf(t, value), planHash: plan.hash });
+  // Board 1 through the store: run, 60 durable readings, end (also saves the plan snapshot).
+  {
+    const first = await log.startRun('BR-00001', { plan: plan.plan, planHash: plan.hash, planText, operator: 'bench' });
+    t0 = performance.now();
+    const set = await planBandSource(log, diskCache()).get(plan.hash);
+    const coldTargets = ms(t0);
+    console.log(`targets of the ${set?.order.length}-check plan, first time (Monte Carlo, then cached): ${fmt(coldTargets)}`);
+    targets.push(...computeTargets(plan).targets.slice(0, checksPerBoard));
+    t0 = performance.now();
+    for (const t of targets) {
+      const value = valueFor(t);
+      await log.appendReading('BR-00001', {
+        run: first.id,
+        check: t.check,
+        value,
+        unit: t.unit,
+        raw: String(value),
+        operator: 'bench',
+        verdict: verdictOf(t, value),
+        planHash: plan.hash,
+      });
+    }
+    await log.endRun('BR-00001', first.id, 'passed');
+    console.log(`store: ${checksPerBoard} durable readings on one board: ${fmt(ms(t0))} (${fmt(ms(t0) / checksPerBoard)} each)`);
   }
-  await log.endRun('BR-00001', first.id, 'passed');
-  console.log(`store: ${checksPerBoard} durable readings on one board: ${fmt(ms(t0))} (${fmt(ms(t0) / checksPerBoard)} each)`);
-}
 
-// Boards 2…N written directly, a day of bench time spread over them; one in 20 reworked and re-run.
-t0 = performance.now();
-const start0 = Date.UTC(2026, 9, 1);
-for (let b = 2; b <= boards; b++) {
-  const serial = `BR-${String(b).padStart(5, '0')}`;
-  const at = (k: number) => new Date(start0 + b * 60_000 + k * 500).toISOString();
-  const runs = [{ id: `u-${b}-1`, started: at(0), ended: at(100), operator: 'bench', outcome: 'passed' as const, plan: plan.plan, planHash: plan.hash }];
-  const readings: Reading[] = targets.map((t, i) => {
-    const value = valueFor(t);
-    return { id: `r-${b}-${i}`, run: runs[0]?.id ?? '', check: t.check, value, unit: t.unit, raw: String(value), at: at(i + 1), operator: 'bench', verdict: verdictOf(t, value), planHash: plan.hash };
+  // Boards 2…N written directly, a day of bench time spread over them; one in 20 reworked and re-run.
+  t0 = performance.now();
+  const start0 = Date.UTC(2026, 9, 1);
+  for (let b = 2; b <= boards; b++) {
+    const serial = `BR-${String(b).padStart(5, '0')}`;
+    const at = (k: number) => new Date(start0 + b * 60_000 + k * 500).toISOString();
+    const runs = [{ id: `u-${b}-1`, started: at(0), ended: at(100), operator: 'bench', outcome: 'passed' as const, plan: plan.plan, planHash: plan.hash }];
+    const readings: Reading[] = targets.map((t, i) => {
+      const value = valueFor(t);
+      return {
+        id: `r-${b}-${i}`,
+        run: runs[0]?.id ?? '',
+        check: t.check,
+        value,
+        unit: t.unit,
+        raw: String(value),
+        at: at(i + 1),
+        operator: 'bench',
+        verdict: verdictOf(t, value),
+        planHash: plan.hash,
+      };
+    });
+    const rework = [];
+    if (b % 20 === 0) {
+      rework.push({ id: `w-${b}`, at: at(101), run: null, part: 'osc.Ct', from: '8n2', to: '10n', note: 'invented rework', operator: 'bench' });
+      runs.push({ id: `u-${b}-2`, started: at(102), ended: at(110), operator: 'bench', outcome: 'passed', plan: plan.plan, planHash: plan.hash });
+      const t = targets[5];
+      if (t)
+        readings.push({
+          id: `r-${b}-x`,
+          run: `u-${b}-2`,
+          check: t.check,
+          value: t.nominal,
+          unit: t.unit,
+          raw: String(t.nominal),
+          at: at(103),
+          operator: 'bench',
+          verdict: 'pass',
+          planHash: plan.hash,
+        });
+    }
+    const board: BoardFile = { schemaVersion: boardSchemaVersion, serial, plan: plan.plan, runs, readings, rework, captures: [] };
+    writeFileSync(join(dir, 'boards', `${serial}.json`), `${toLogJson(board, 1)}\n`);
+  }
+  console.log(`wrote ${boards - 1} board files directly: ${fmt(ms(t0))}`);
+
+  t0 = performance.now();
+  let lastShown = 0;
+  await log.readIndex((done, total) => {
+    if (done - lastShown >= total / 4 || done === total) {
+      lastShown = done;
+      console.log(`  index rebuild: ${done} of ${total} board files`);
+    }
   });
-  const rework = [];
-  if (b % 20 === 0) {
-    rework.push({ id: `w-${b}`, at: at(101), run: null, part: 'osc.Ct', from: '8n2', to: '10n', note: 'invented rework', operator: 'bench' });
-    runs.push({ id: `u-${b}-2`, started: at(102), ended: at(110), operator: 'bench', outcome: 'passed', plan: plan.plan, planHash: plan.hash });
-    const t = targets[5];
-    if (t) readings.push({ id: `r-${b}-x`, run: `u-${b}-2`, check: t.check, value: t.nominal, unit: t.unit, raw: String(t.nominal), at: at(103), operator: 'bench', verdict: 'pass', planHash: plan.hash });
-  }
-  const board: BoardFile = { schemaVersion: boardSchemaVersion, serial, plan: plan.plan, runs, readings, rework, captures: [] };
-  writeFileSync(join(dir, 'boards', `${serial}.json`), `${toLogJson(board, 1)}\n`);
-}
-console.log(`wrote ${boards - 1} board files directly: ${fmt(ms(t0))}`);
-
-t0 = performance.now();
-let lastShown = 0;
-await log.readIndex((done, total) => {
-  if (done - lastShown >= total / 4 || done === total) {
-    lastShown = done;
-    console.log(`  index rebuild: ${done} of ${total} board files`);
-  }
-});
-console.log(`index rebuild (the long scan, once): ${fmt(ms(t0))}`);
+  console.log(`index rebuild (the long scan, once): ${fmt(ms(t0))}`);
   writeFileSync(join(dir, 'complete'), '');
 } else {
   console.log(`reusing the synthetic log in ${dir} (BENCH_FRESH=1 writes it again)`);
   await planBandSource(log, diskCache()).get(plan.hash);
 }
 
-const io = (sink: { out: string }) => ({ stdout: (t: string) => void (sink.out += t), stderr: () => {}, env: { PROBEBOOK_CACHE: cacheDir }, cwd: process.cwd() });
+const io = (sink: { out: string }) => ({
+  stdout: (t: string) => void (sink.out += t),
+  stderr: () => {},
+  env: { PROBEBOOK_CACHE: cacheDir },
+  cwd: process.cwd(),
+});
 const inProcess: number[] = [];
 let size = 0;
 for (let i = 0; i < 3; i++) {
@@ -129,7 +166,9 @@ for (let i = 0; i < 3; i++) {
   inProcess.push(ms(t0));
   size = sink.out.length;
 }
-console.log(`batch --json in process (${boards} boards × ${checksPerBoard} checks, ${(size / 1024).toFixed(0)} KiB out): median ${fmt(median(inProcess))} of ${inProcess.map((x) => x.toFixed(0)).join(', ')} ms`);
+console.log(
+  `batch --json in process (${boards} boards × ${checksPerBoard} checks, ${(size / 1024).toFixed(0)} KiB out): median ${fmt(median(inProcess))} of ${inProcess.map((x) => x.toFixed(0)).join(', ')} ms`,
+);
 
 {
   // Where the in-process time goes, step by step.
@@ -157,9 +196,13 @@ console.log(`batch --json in process (${boards} boards × ${checksPerBoard} chec
   t = performance.now();
   JSON.stringify(batchJson(figures, 'all boards'));
   const tJson = ms(t);
-  console.log(`  of which: read index with every board file verified ${fmt(tIndex)} (quick path without verifying: ${fmt(tQuick)}), per-check columns ${fmt(tChecks)} (${columns ? columns.latestValue.length : 0} rows), bands ${fmt(tBands)}, figures ${fmt(tFigures)}, JSON ${fmt(tJson)}`);
+  console.log(
+    `  of which: read index with every board file verified ${fmt(tIndex)} (quick path without verifying: ${fmt(tQuick)}), per-check columns ${fmt(tChecks)} (${columns ? columns.latestValue.length : 0} rows), bands ${fmt(tBands)}, figures ${fmt(tFigures)}, JSON ${fmt(tJson)}`,
+  );
   const total = tIndex + tChecks + tBands + tFigures + tJson;
-  console.log(`  shares: index ${(tIndex / total).toFixed(2)}, per-check columns ${(tChecks / total).toFixed(2)}, figures ${(tFigures / total).toFixed(2)}, bands+JSON ${((tBands + tJson) / total).toFixed(2)}`);
+  console.log(
+    `  shares: index ${(tIndex / total).toFixed(2)}, per-check columns ${(tChecks / total).toFixed(2)}, figures ${(tFigures / total).toFixed(2)}, bands+JSON ${((tBands + tJson) / total).toFixed(2)}`,
+  );
 }
 // The command as users run it: scripts/build.mjs's split bundle (React and Ink stay in a chunk `batch` never loads).
 spawnSync(process.execPath, ['scripts/build.mjs'], { cwd: join(import.meta.dirname, '..'), stdio: 'inherit' });
@@ -196,8 +239,12 @@ for (let i = 0; i < 3; i++) {
 const batchGoal = 1000;
 const historyGoal = 100;
 const row = (work: string, today: string, figure: number, goal: number) =>
-  console.log(`${work.padEnd(46)}${today.padStart(10)}${fmt(figure).padStart(11)}${`≤ ${goal} ms`.padStart(11)}${(figure / goal).toFixed(2).padStart(8)}${`${(figure / median(bare)).toFixed(1)}×`.padStart(9)}`);
-console.log(`\n${'work'.padEnd(46)}${'today'.padStart(10)}${'now'.padStart(11)}${'goal'.padStart(11)}${'÷goal'.padStart(8)}${'÷node'.padStart(9)}   (node -e 0: ${fmt(median(bare))}; ÷goal below 1 meets it)`);
+  console.log(
+    `${work.padEnd(46)}${today.padStart(10)}${fmt(figure).padStart(11)}${`≤ ${goal} ms`.padStart(11)}${(figure / goal).toFixed(2).padStart(8)}${`${(figure / median(bare)).toFixed(1)}×`.padStart(9)}`,
+  );
+console.log(
+  `\n${'work'.padEnd(46)}${'today'.padStart(10)}${'now'.padStart(11)}${'goal'.padStart(11)}${'÷goal'.padStart(8)}${'÷node'.padStart(9)}   (node -e 0: ${fmt(median(bare))}; ÷goal below 1 meets it)`,
+);
 row(`batch --json, ${boards} boards × ${checksPerBoard}, process`, '3300 ms', median(asProcess), batchGoal);
 row(`batch --json, ${boards} boards × ${checksPerBoard}, in process`, '—', median(inProcess), batchGoal);
 row('history data load of one board', '—', median(history), historyGoal);

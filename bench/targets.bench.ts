@@ -62,7 +62,13 @@ for (let r = 0; r < rounds; r++) {
       let sink = 0;
       for (let i = 0; i < 20 * trials; i++) {
         parts.Rtop = 10_000 + (i % 7);
-        const out = dividerKind.evaluate({ parts, settings: dividerStage.settings, opamp: dividerStage.opamp, supplies: { pos: 12, neg: 0 }, rails: { '+12V': 12 } });
+        const out = dividerKind.evaluate({
+          parts,
+          settings: dividerStage.settings,
+          opamp: dividerStage.opamp,
+          supplies: { pos: 12, neg: 0 },
+          rails: { '+12V': 12 },
+        });
         sink += out.values['out.dc'] ?? 0;
       }
       if (sink === 42) console.log('');
@@ -79,14 +85,20 @@ for (let r = 0; r < rounds; r++) {
 }
 
 const ms = (x: number) => `${x.toFixed(1)} ms`;
-console.log(`demo exciter: ${plan.stages.length} stages, ${chain.variables.filter((v) => v.tol > 0).length} toleranced variables, ${chain.checks.length} checks; ${trials} trials, median of ${rounds}`);
+console.log(
+  `demo exciter: ${plan.stages.length} stages, ${chain.variables.filter((v) => v.tol > 0).length} toleranced variables, ${chain.checks.length} checks; ${trials} trials, median of ${rounds}`,
+);
 console.log(`computeTargets (worst case + sensitivities + Monte Carlo + bands): ${ms(median(full))}  (goal < 250 ms)`);
-console.log(`Monte Carlo alone:                                             ${ms(median(mcOnly))}  (${(median(mcOnly) / trials * 1000).toFixed(1)} µs per trial)`);
+console.log(
+  `Monte Carlo alone:                                             ${ms(median(mcOnly))}  (${((median(mcOnly) / trials) * 1000).toFixed(1)} µs per trial)`,
+);
 console.log(`one-divider chain, same trials:                                ${ms(median(divChain))}`);
 console.log(`divider stage evaluate alone, same count:                      ${ms(median(divStage))}`);
 console.log(`ratio computeTargets / divider evaluations:                    ${(median(full) / median(divStage)).toFixed(1)}×`);
 console.log(`ratio Monte Carlo / one-divider chain:                         ${(median(mcOnly) / median(divChain)).toFixed(1)}×`);
-console.log(`a million Math.exp (machine yardstick):                        ${ms(median(yardstick))}; computeTargets = ${(median(full) / median(yardstick)).toFixed(1)} yardsticks`);
+console.log(
+  `a million Math.exp (machine yardstick):                        ${ms(median(yardstick))}; computeTargets = ${(median(full) / median(yardstick)).toFixed(1)} yardsticks`,
+);
 
 // Where the time goes: each stage's own evaluate at nominal, µs per call.
 const detail = chain.detail(chain.nominal);
@@ -139,6 +151,10 @@ const demoPlans = ['demo/exciter.plan.json', 'demo/line-driver.plan.json'];
       }
     }
     const line = `targets ${file}: ${ms(median(now))} with loading`;
-    console.log(old ? `${line}, ${ms(median(before))} before it (${baseline}); ratio ${(median(now) / median(before)).toFixed(2)}× (goal ≤ 1.5×)` : `${line} (set PROBEBOOK_BASELINE to compare with older sources)`);
+    console.log(
+      old
+        ? `${line}, ${ms(median(before))} before it (${baseline}); ratio ${(median(now) / median(before)).toFixed(2)}× (goal ≤ 1.5×)`
+        : `${line} (set PROBEBOOK_BASELINE to compare with older sources)`,
+    );
   });
 }

@@ -39,7 +39,8 @@ const wall = (cmd: string, args: readonly string[], env: NodeJS.ProcessEnv = pro
   if (r.status !== 0) throw new Error(`${cmd} ${args.join(' ')} exited ${r.status}: ${r.stderr.toString()}`);
   return performance.now() - t0;
 };
-const row = (what: string, figure: number, goal: string, ratio: string): string => `${what.padEnd(58)} ${`${figure.toFixed(1)} ms`.padStart(10)}  goal ${goal.padEnd(16)} ${ratio}`;
+const row = (what: string, figure: number, goal: string, ratio: string): string =>
+  `${what.padEnd(58)} ${`${figure.toFixed(1)} ms`.padStart(10)}  goal ${goal.padEnd(16)} ${ratio}`;
 
 const plan = await loadPlanFile(join(root, 'demo/exciter.plan.json'));
 const chain = buildChain(plan);
@@ -69,11 +70,27 @@ for (let r = 0; r < rounds; r++) {
 }
 
 const varied = chain.variables.filter((v) => spreadOf(v) > 0).length;
-console.log(`demo exciter: ${plan.stages.length} stages, ${varied} varied variables (parts, op-amp, defaults), ${chain.checks.length} checks; median of ${rounds}, CPU time`);
-console.log(row('Monte Carlo, 10,000 trials, in process', median(mc), '≤ 100 ms', `${(median(mc) / 100).toFixed(2)}× the goal; ${((median(mc) / trials) * 1000).toFixed(1)} µs per trial`));
+console.log(
+  `demo exciter: ${plan.stages.length} stages, ${varied} varied variables (parts, op-amp, defaults), ${chain.checks.length} checks; median of ${rounds}, CPU time`,
+);
+console.log(
+  row(
+    'Monte Carlo, 10,000 trials, in process',
+    median(mc),
+    '≤ 100 ms',
+    `${(median(mc) / 100).toFixed(2)}× the goal; ${((median(mc) / trials) * 1000).toFixed(1)} µs per trial`,
+  ),
+);
 console.log(row(`worst-case search (${evaluations} chain evaluations), in process`, median(wc), '≤ 100 ms', `${(median(wc) / 100).toFixed(2)}× the goal`));
 console.log(row('sensitivities (two evaluations per variable)', median(sens), '(report)', ''));
-console.log(row('computeTargets (all of it), 10,000 trials', median(full), '(report)', `Monte Carlo ${((100 * median(mc)) / median(full)).toFixed(0)} %, worst case ${((100 * median(wc)) / median(full)).toFixed(0)} %`));
+console.log(
+  row(
+    'computeTargets (all of it), 10,000 trials',
+    median(full),
+    '(report)',
+    `Monte Carlo ${((100 * median(mc)) / median(full)).toFixed(0)} %, worst case ${((100 * median(wc)) / median(full)).toFixed(0)} %`,
+  ),
+);
 
 // Whole process: the bundle's `targets --json` against a bare node start, interleaved.
 const bundle = join(root, 'dist/probebook.js');
@@ -86,11 +103,20 @@ if (!existsSync(bundle)) {
     bare.push(wall(process.execPath, ['-e', '0']));
     const cache = mkdtempSync(join(tmpdir(), 'probebook-bench-cache-'));
     try {
-      targets.push(wall(process.execPath, [bundle, 'targets', 'demo/exciter.plan.json', '--json', '--trials', String(trials)], { ...process.env, PROBEBOOK_CACHE: cache }));
+      targets.push(
+        wall(process.execPath, [bundle, 'targets', 'demo/exciter.plan.json', '--json', '--trials', String(trials)], { ...process.env, PROBEBOOK_CACHE: cache }),
+      );
     } finally {
       rmSync(cache, { recursive: true, force: true });
     }
   }
   console.log(row('node -e 0 (yardstick), wall', median(bare), '', ''));
-  console.log(row('targets --json, 10,000 trials, no cache, whole process, wall', median(targets), '≤ 4× node -e 0', `${(median(targets) / median(bare)).toFixed(1)}× node -e 0`));
+  console.log(
+    row(
+      'targets --json, 10,000 trials, no cache, whole process, wall',
+      median(targets),
+      '≤ 4× node -e 0',
+      `${(median(targets) / median(bare)).toFixed(1)}× node -e 0`,
+    ),
+  );
 }

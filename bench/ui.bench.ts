@@ -29,7 +29,13 @@ const ms = (x: number) => `${x.toFixed(1)} ms`;
 
 // ---- a 40-check plan (invented): rails, an oscillator, a gain stage, and hand-written checks
 
-const manualChecks = Array.from({ length: 26 }, (_, i) => ({ id: `tp${i + 1}`, quantity: 'DC level', unit: 'V', nominal: `${(1 + i * 0.25).toFixed(2)} V`, tol: '2%' }));
+const manualChecks = Array.from({ length: 26 }, (_, i) => ({
+  id: `tp${i + 1}`,
+  quantity: 'DC level',
+  unit: 'V',
+  nominal: `${(1 + i * 0.25).toFixed(2)} V`,
+  tol: '2%',
+}));
 const planText = JSON.stringify({
   plan: 'bench-40',
   title: 'Benchmark board, 40 checks (invented)',
@@ -41,7 +47,12 @@ const planText = JSON.stringify({
   idleCurrent: { max: '40 mA' },
   uncertainty: { V: '0.5% + 2 mV', A: '1% + 0.1 mA', Hz: '0.01%', ohm: '1% + 1 ohm' },
   stages: [
-    { id: 'osc', kind: 'schmitt-integrator', parts: { R1: '10k 1%', R2: '22k 1%', Rt: '4k7 1%', Ct: '47n 5%' }, testPoints: { square: 'TP1', triangle: 'TP2' } },
+    {
+      id: 'osc',
+      kind: 'schmitt-integrator',
+      parts: { R1: '10k 1%', R2: '22k 1%', Rt: '4k7 1%', Ct: '47n 5%' },
+      testPoints: { square: 'TP1', triangle: 'TP2' },
+    },
     { id: 'amp', kind: 'inverting-amp', input: 'osc.triangle', parts: { Rin: '10k 1%', Rf: '15k 1%' }, testPoints: { out: 'TP3' } },
     { id: 'misc', kind: 'manual', checks: manualChecks },
   ],
@@ -139,7 +150,8 @@ async function productionApp() {
   const outfile = join(out, 'ui-app.mjs');
   await build({
     stdin: {
-      contents: "export { App } from './src/ui/app.tsx'; export { PlanCatalog } from './src/ui/bench/plan-catalog.ts'; export { render } from 'ink'; export { createElement } from 'react';",
+      contents:
+        "export { App } from './src/ui/app.tsx'; export { PlanCatalog } from './src/ui/bench/plan-catalog.ts'; export { render } from 'ink'; export { createElement } from 'react';",
       resolveDir: root,
       loader: 'ts',
     },
@@ -175,7 +187,13 @@ async function keystrokeToFrame(log: Awaited<ReturnType<typeof bigLog>>['log']) 
   const stdout = new FakeStdout();
   const stdin = new FakeStdin();
   const app = render(
-    createElement(App, { log, catalog, operator: 'bench', size: { width: 80, height: 23 }, initialRoute: { screen: 'bring-up', serial: 'BENCH-00000', planHash: plan.hash } }),
+    createElement(App, {
+      log,
+      catalog,
+      operator: 'bench',
+      size: { width: 80, height: 23 },
+      initialRoute: { screen: 'bring-up', serial: 'BENCH-00000', planHash: plan.hash },
+    }),
     { stdout: stdout as unknown as NodeJS.WriteStream, stdin: stdin as unknown as NodeJS.ReadStream, exitOnCtrlC: false, patchConsole: false },
   );
   await sleep(500);
@@ -227,7 +245,9 @@ function tmuxFirstFrame(command: string, marker: string, label: string, runs = 5
 
 const { log, dir } = await bigLog();
 const keyTimes = await keystrokeToFrame(log);
-console.log(`keystroke to frame, bring-up screen, 40 checks, ${boardsWanted}-board log: median ${ms(median(keyTimes))}, p95 ${ms(pct(keyTimes, 0.95))}, max ${ms(Math.max(...keyTimes))} over ${keyTimes.length} keys (goal: median < 16 ms)`);
+console.log(
+  `keystroke to frame, bring-up screen, 40 checks, ${boardsWanted}-board log: median ${ms(median(keyTimes))}, p95 ${ms(pct(keyTimes, 0.95))}, max ${ms(Math.max(...keyTimes))} over ${keyTimes.length} keys (goal: median < 16 ms)`,
+);
 
 // `npm run bench ui -- ` runs everything; PROBEBOOK_BENCH_KEYS_ONLY=1 stops here (for profiling).
 if (process.env.PROBEBOOK_BENCH_KEYS_ONLY) process.exit(0);
@@ -236,14 +256,26 @@ const node = process.execPath;
 const bare = tmuxFirstFrame(`'${node}' -e "console.log('probebook · bench')"`, 'probebook · bench', 'bare node start to its first line (yardstick)');
 const demoPlans = `--plan '${join(root, 'demo/exciter.plan.json')}' --plan '${join(root, 'demo/line-driver.plan.json')}'`;
 const small = join(out, 'ui-empty-log');
-const first = tmuxFirstFrame(`'${node}' '${join(root, 'dist/probebook.js')}' --log '${small}' ${demoPlans}`, 'probebook · bench', 'bundle start to first frame (empty log)');
-const big = tmuxFirstFrame(`'${node}' '${join(root, 'dist/probebook.js')}' --log '${dir}' ${demoPlans}`, 'BENCH-', `bundle start to the board list (${boardsWanted}-board log)`);
+const first = tmuxFirstFrame(
+  `'${node}' '${join(root, 'dist/probebook.js')}' --log '${small}' ${demoPlans}`,
+  'probebook · bench',
+  'bundle start to first frame (empty log)',
+);
+const big = tmuxFirstFrame(
+  `'${node}' '${join(root, 'dist/probebook.js')}' --log '${dir}' ${demoPlans}`,
+  'BENCH-',
+  `bundle start to the board list (${boardsWanted}-board log)`,
+);
 console.log(`ratios to bare node: first frame ${(first / bare).toFixed(2)}×, board list of ${boardsWanted} ${(big / bare).toFixed(2)}×`);
 // Issue 15's goals beside today's figures (measured on a quiet machine before the work began).
 const keyP95 = pct(keyTimes, 0.95);
 const goalRow = (work: string, today: string, figure: number, goal: number) =>
-  console.log(`${work.padEnd(44)}${today.padStart(9)}${ms(figure).padStart(11)}${`≤ ${goal} ms`.padStart(10)}${(figure / goal).toFixed(2).padStart(7)}${`${(figure / bare).toFixed(2)}×`.padStart(8)}`);
-console.log(`\n${'work'.padEnd(44)}${'today'.padStart(9)}${'now'.padStart(11)}${'goal'.padStart(10)}${'÷goal'.padStart(7)}${'÷node'.padStart(8)}   (bare node in tmux: ${ms(bare)}; ÷goal below 1 meets it)`);
+  console.log(
+    `${work.padEnd(44)}${today.padStart(9)}${ms(figure).padStart(11)}${`≤ ${goal} ms`.padStart(10)}${(figure / goal).toFixed(2).padStart(7)}${`${(figure / bare).toFixed(2)}×`.padStart(8)}`,
+  );
+console.log(
+  `\n${'work'.padEnd(44)}${'today'.padStart(9)}${'now'.padStart(11)}${'goal'.padStart(10)}${'÷goal'.padStart(7)}${'÷node'.padStart(8)}   (bare node in tmux: ${ms(bare)}; ÷goal below 1 meets it)`,
+);
 goalRow('TUI first frame, empty log', '550 ms', first, 300);
 goalRow(`TUI board list, ${boardsWanted} boards`, '965 ms', big, 400);
 goalRow(`keystroke to frame p95, bring-up, 40 checks`, '17.9 ms', keyP95, 16);

@@ -232,7 +232,14 @@ if (driver) {
   await read(b, vpp, target(b, vpp).nominal * (0.5 + 0.02 * random()));
   await log.endRun(b.serial, b.run, 'failed');
   clock.advance(90);
-  await log.addRework(b.serial, { run: b.run, part: `${driver.id}.Q2`, from: 'open', to: 'new part', note: 'lower output transistor open; replaced, re-test pending (invented demo event)', operator: b.operator });
+  await log.addRework(b.serial, {
+    run: b.run,
+    part: `${driver.id}.Q2`,
+    from: 'open',
+    to: 'new part',
+    note: 'lower output transistor open; replaced, re-test pending (invented demo event)',
+    operator: b.operator,
+  });
   written.push(`${b.serial} driver failed, reworked, awaiting re-test`);
 }
 
@@ -281,7 +288,8 @@ async function faultyBoard(serial: string, what: string, change: { part?: string
   const board = await log.readBoard(serial);
   const top = diagnose(exciterPlan, exciterTargets, board?.readings ?? [], { top: 3 }).hypotheses;
   const planted = change.fault ? `${change.fault.stage}.${change.fault.role}` : change.part;
-  if (!top.some((h) => h.part === planted || h.alternatives.some((a) => a.part === planted))) console.warn(`make-demo-log: ${serial}: the diagnosis does not list ${planted} in its top 3`);
+  if (!top.some((h) => h.part === planted || h.alternatives.some((a) => a.part === planted)))
+    console.warn(`make-demo-log: ${serial}: the diagnosis does not list ${planted} in its top 3`);
   written.push(`${serial} ${what}, failed, awaiting diagnosis`);
 }
 const clampStage = exciter.stages.find((s) => s.id === 'osc' && 'clamp' in (s.refs ?? {}));
@@ -331,7 +339,14 @@ if (calibrator) {
     // A silicon junction's forward drop at a few mA (common practice): what a zener fitted backwards reads.
     if ((await read(b, dc, 0.71 + 0.01 * gauss())) !== 'fail') throw new Error('a reversed zener should fail the reference level');
     clock.advance(20);
-    await log.addRework(b.serial, { run: b.run, part: `${zener.id}.Z`, from: 'reversed', to: 'turned round', note: 'reference zener fitted with its band at the ground end; turned round (invented demo event)', operator: b.operator });
+    await log.addRework(b.serial, {
+      run: b.run,
+      part: `${zener.id}.Z`,
+      from: 'reversed',
+      to: 'turned round',
+      note: 'reference zener fitted with its band at the ground end; turned round (invented demo event)',
+      operator: b.operator,
+    });
     await readGood(b, dc);
     await log.endRun(b.serial, b.run, 'passed');
     written.push(`${b.serial} reversed zener found, reworked, passed`);

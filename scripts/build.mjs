@@ -74,7 +74,10 @@ await build({
   // Ink's layout engine (yoga, Emscripten) asks `typeof fetch` before it decodes
   // its embedded wasm; in Node 20 that touches the lazy global and loads undici
   // (tens of ms at start-up) to fetch a data: URL. probebook never uses fetch.
-  define: { 'process.env.NODE_ENV': '"production"', fetch: 'undefined', __PROBEBOOK_BUILD__: JSON.stringify(buildId()),
+  define: {
+    'process.env.NODE_ENV': '"production"',
+    fetch: 'undefined',
+    __PROBEBOOK_BUILD__: JSON.stringify(buildId()),
     __PROBEBOOK_VERSION__: JSON.stringify(JSON.parse(readFileSync('package.json', 'utf8')).version),
   },
   banner: {

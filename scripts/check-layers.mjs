@@ -86,10 +86,17 @@ export function importsOf(text) {
   for (const m of code.matchAll(statement)) {
     const clause = m[4] ?? '';
     const names = /^\{([^}]*)\}$/.exec(clause.trim());
-    const allTypes = names !== null && names[1].split(',').map((s) => s.trim()).filter(Boolean).every((s) => s.startsWith('type '));
+    const allTypes =
+      names !== null &&
+      names[1]
+        .split(',')
+        .map((s) => s.trim())
+        .filter(Boolean)
+        .every((s) => s.startsWith('type '));
     found.push({ spec: m[5], line: lineAt(m.index + m[0].search(/import|export/)), isType: Boolean(m[3]) || allTypes });
   }
-  for (const m of code.matchAll(/(^|[;\n])\s*import\s*['"]([^'"]+)['"]/g)) found.push({ spec: m[2], line: lineAt(m.index + m[0].search(/import/)), isType: false });
+  for (const m of code.matchAll(/(^|[;\n])\s*import\s*['"]([^'"]+)['"]/g))
+    found.push({ spec: m[2], line: lineAt(m.index + m[0].search(/import/)), isType: false });
   for (const m of code.matchAll(/\bimport\s*\(\s*['"]([^'"]+)['"]\s*\)/g)) found.push({ spec: m[1], line: lineAt(m.index), isType: false });
   return found;
 }

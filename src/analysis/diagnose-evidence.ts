@@ -48,7 +48,7 @@ const modelError: Readonly<Partial<Record<Unit, { readonly rel: number; readonly
   'V/V': { rel: 0.01, abs: 0 },
   '1': { rel: 0.08, abs: 0.004 },
   A: { rel: 0.03, abs: 10e-6 },
-  'Ω': { rel: 0.01, abs: 0 },
+  Ω: { rel: 0.01, abs: 0 },
 };
 
 /**
@@ -70,7 +70,12 @@ export function modelErrorOf(unit: Unit, predicted: number, extra = 0): number {
  * check, with a modelled target (the unpowered and first-power limits have no
  * model value and are left to their hints).
  */
-export function gatherEvidence(plan: Plan, chain: Chain, targets: readonly DiagnosisTarget[], readings: readonly DiagnosisReading[]): { evidence: Evidence[]; unmodelled: DiagnosisReading[] } {
+export function gatherEvidence(
+  plan: Plan,
+  chain: Chain,
+  targets: readonly DiagnosisTarget[],
+  readings: readonly DiagnosisReading[],
+): { evidence: Evidence[]; unmodelled: DiagnosisReading[] } {
   const healthy = new Float64Array(chain.checks.length);
   chain.evaluate(chain.nominal, healthy);
   const latest = new Map<string, DiagnosisReading>();
@@ -91,7 +96,18 @@ export function gatherEvidence(plan: Plan, chain: Chain, targets: readonly Diagn
     const spec = uncertaintyFor(plan, r.check, uncertaintyKey(target.unit));
     const u = spec ? uncertaintyOf(r.value, spec) : 0;
     const width = Number.isFinite(target.stat.max - target.stat.min) ? target.stat.max - target.stat.min : 0;
-    const e = { check: r.check, index, value: r.value, verdict: r.verdict, unit: target.unit, stage: check.stage, target, u, spread: width / 6, deviates: false };
+    const e = {
+      check: r.check,
+      index,
+      value: r.value,
+      verdict: r.verdict,
+      unit: target.unit,
+      stage: check.stage,
+      target,
+      u,
+      spread: width / 6,
+      deviates: false,
+    };
     // Outside its band, and not what a healthy board can read within the model's error: a marginal
     // reading the nominal board reproduces asks for no cause.
     evidence.push({ ...e, deviates: r.verdict === 'fail' || (r.verdict === 'marginal' && !reproduces(e, healthy[index] as number)) });

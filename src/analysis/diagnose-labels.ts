@@ -75,12 +75,22 @@ export function predictedWords(value: number, unit: Unit): string {
   return Number.isFinite(value) ? formatValue(value, unit) : 'nothing (no signal)';
 }
 
-const shortClass: Readonly<Record<ValueClass, string>> = { decade: 'decade slip', decade2: 'two-decade slip', neighbour: 'series neighbour', standard: 'wrong reel?', 'off-standard': 'no standard value', rail: 'rail off' };
+const shortClass: Readonly<Record<ValueClass, string>> = {
+  decade: 'decade slip',
+  decade2: 'two-decade slip',
+  neighbour: 'series neighbour',
+  standard: 'wrong reel?',
+  'off-standard': 'no standard value',
+  rail: 'rail off',
+};
 
 /** The same in a few words for a one-line panel: `osc.Ct (C7) 220 nF (decade slip): osc.freq would read 113 Hz`. */
 export function shortLabel(h: Labelled, ref: string | null, deviating: readonly Evidence[]): string {
   const name = `${h.part}${ref ? ` (${ref})` : ''}`;
-  const what = h.mode === 'value' && h.value !== null && h.unit ? `${formatValue(h.value, h.unit, { digits: 3 })}${h.valueClass ? ` (${shortClass[h.valueClass]})` : ''}` : `${modeWords[h.mode]}${h.variantWords ? ` (${h.variantWords})` : ''}`;
+  const what =
+    h.mode === 'value' && h.value !== null && h.unit
+      ? `${formatValue(h.value, h.unit, { digits: 3 })}${h.valueClass ? ` (${shortClass[h.valueClass]})` : ''}`
+      : `${modeWords[h.mode]}${h.variantWords ? ` (${h.variantWords})` : ''}`;
   const e = headline(deviating, h.stage);
   return e ? `${name} ${what}: ${e.check} would read ${predictedWords(h.predicted[e.index] as number, e.unit)}` : `${name} ${what}`;
 }

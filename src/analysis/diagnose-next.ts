@@ -80,9 +80,21 @@ function entropy(weights: readonly number[]): number {
  * than a reading resolves fall in one group). Ties go to plan order. Null when
  * no unread check separates them (or fewer than two remain).
  */
-export function nextSeparating(plan: Plan, chain: Chain, evidence: readonly Evidence[], hypotheses: readonly { readonly score: number; readonly predictedAll: Readonly<Record<string, number>>; readonly alternatives?: readonly { readonly score: number; readonly predictedAll: Readonly<Record<string, number>> }[] }[]): { check: string; why: string } | null {
+export function nextSeparating(
+  plan: Plan,
+  chain: Chain,
+  evidence: readonly Evidence[],
+  hypotheses: readonly {
+    readonly score: number;
+    readonly predictedAll: Readonly<Record<string, number>>;
+    readonly alternatives?: readonly { readonly score: number; readonly predictedAll: Readonly<Record<string, number>> }[];
+  }[],
+): { check: string; why: string } | null {
   // Every fault on its own, grouped ones too: the readings so far cannot tell them apart, an unread check may.
-  const faults = hypotheses.flatMap((h) => [{ score: h.score - (h.alternatives ?? []).reduce((s, a) => s + a.score, 0), predictedAll: h.predictedAll }, ...(h.alternatives ?? [])]);
+  const faults = hypotheses.flatMap((h) => [
+    { score: h.score - (h.alternatives ?? []).reduce((s, a) => s + a.score, 0), predictedAll: h.predictedAll },
+    ...(h.alternatives ?? []),
+  ]);
   if (faults.length < 2) return null;
   const read = new Set(evidence.map((e) => e.check));
   let best = 1e-6;
@@ -94,14 +106,19 @@ export function nextSeparating(plan: Plan, chain: Chain, evidence: readonly Evid
     const groups: { value: number; weight: number }[] = [];
     for (const h of faults) {
       const v = h.predictedAll[c.check] ?? Number.NaN;
-      const home = groups.find((g) => (Number.isFinite(g.value) ? Number.isFinite(v) && Math.abs(g.value - v) <= resolution(plan, chain, k, v) : !Number.isFinite(v)));
+      const home = groups.find((g) =>
+        Number.isFinite(g.value) ? Number.isFinite(v) && Math.abs(g.value - v) <= resolution(plan, chain, k, v) : !Number.isFinite(v),
+      );
       if (home) home.weight += h.score;
       else groups.push({ value: v, weight: h.score });
     }
     const bits = entropy(groups.map((g) => g.weight));
     if (bits > best + 1e-9) {
       best = bits;
-      pick = { check: c.check, why: `${c.check}${c.testPoint ? ` at ${c.testPoint}` : ''} tells the likely faults apart best (${groups.length} distinct outcomes, ${bits.toFixed(2)} bits expected)` };
+      pick = {
+        check: c.check,
+        why: `${c.check}${c.testPoint ? ` at ${c.testPoint}` : ''} tells the likely faults apart best (${groups.length} distinct outcomes, ${bits.toFixed(2)} bits expected)`,
+      };
     }
   }
   return pick;

@@ -72,7 +72,12 @@ export function discreteCandidates(v: ChainVariable): ValueCandidate[] {
   if (!series || !(v.nominal > 0)) return [];
   const list: ValueCandidate[] = [];
   if (v.unit !== 'V') {
-    list.push({ value: v.nominal * 10, cls: 'decade' }, { value: v.nominal / 10, cls: 'decade' }, { value: v.nominal * 100, cls: 'decade2' }, { value: v.nominal / 100, cls: 'decade2' });
+    list.push(
+      { value: v.nominal * 10, cls: 'decade' },
+      { value: v.nominal / 10, cls: 'decade' },
+      { value: v.nominal * 100, cls: 'decade2' },
+      { value: v.nominal / 100, cls: 'decade2' },
+    );
   }
   const near = nearestStandard(v.nominal, series);
   for (const x of [near.below, near.above]) if (x !== near.nearest) list.push({ value: x, cls: 'neighbour' });
@@ -88,7 +93,8 @@ export function classify(v: ChainVariable, value: number): ValueCandidate {
   const fitted = nearestStandard(v.nominal, series);
   const ratio = near.nearest / v.nominal;
   const decades = Math.log10(ratio);
-  if (Math.abs(decades - Math.round(decades)) < 1e-3 && Math.round(decades) !== 0) return { value: near.nearest, cls: Math.abs(Math.round(decades)) === 1 ? 'decade' : 'decade2' };
+  if (Math.abs(decades - Math.round(decades)) < 1e-3 && Math.round(decades) !== 0)
+    return { value: near.nearest, cls: Math.abs(Math.round(decades)) === 1 ? 'decade' : 'decade2' };
   if (near.nearest === fitted.below || near.nearest === fitted.above) return { value: near.nearest, cls: 'neighbour' };
   return { value: near.nearest, cls: 'standard' };
 }

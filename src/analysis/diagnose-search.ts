@@ -72,7 +72,12 @@ function range(v: ChainVariable): [number, number] {
  * kept only if it reproduces every reading and is no jump's edge; the kept one
  * with the highest prior × likelihood wins. Undefined when none is kept.
  */
-export function searchValue(chain: Chain, i: number, evidence: readonly Evidence[], canExplain: (stage: string) => boolean = () => true): ValueResult | undefined {
+export function searchValue(
+  chain: Chain,
+  i: number,
+  evidence: readonly Evidence[],
+  canExplain: (stage: string) => boolean = () => true,
+): ValueResult | undefined {
   const v = chain.variables[i] as ChainVariable;
   if (!(v.nominal !== 0) || !Number.isFinite(v.nominal) || !canExplain(v.stage)) return undefined;
   const x = Float64Array.from(chain.nominal);
@@ -137,7 +142,14 @@ export function searchValue(chain: Chain, i: number, evidence: readonly Evidence
     if (Math.abs(ratio - 1) <= v.tol + 1e-9) continue;
     const predicted = at(c.value);
     if (!reproducesAll(evidence, predicted)) continue;
-    kept.push({ value: c.value, cls: c.cls, predicted, logLikelihood: logLikelihood(evidence, predicted), prior: valuePrior(c.cls, ratio, v.unit), verified: true });
+    kept.push({
+      value: c.value,
+      cls: c.cls,
+      predicted,
+      logLikelihood: logLikelihood(evidence, predicted),
+      prior: valuePrior(c.cls, ratio, v.unit),
+      verified: true,
+    });
   }
   kept.sort((p, q) => q.logLikelihood + Math.log(q.prior) - (p.logLikelihood + Math.log(p.prior)));
   // The most probable candidate that is no jump's edge.

@@ -140,7 +140,9 @@ export function diagnose(plan: Plan, targets: readonly DiagnosisTarget[], readin
   }
 
   // Causality: a part can only move the checks of its own stage and of stages downstream of it.
-  const reach = new Map(plan.stages.map((s) => [s.id, new Set([s.id, ...plan.stages.filter((d) => upstreamOf(plan.stages, d.id).includes(s.id)).map((d) => d.id)])] as const));
+  const reach = new Map(
+    plan.stages.map((s) => [s.id, new Set([s.id, ...plan.stages.filter((d) => upstreamOf(plan.stages, d.id).includes(s.id)).map((d) => d.id)])] as const),
+  );
   const canExplain = (stage: string): boolean => stage === 'rails' || deviating.some((e) => reach.get(stage)?.has(e.stage) === true);
   const raws: Raw[] = [];
   chain.variables.forEach((v, i) => {
@@ -149,13 +151,43 @@ export function diagnose(plan: Plan, targets: readonly DiagnosisTarget[], readin
     const found = searchValue(chain, i, evidence, canExplain);
     if (!found) return;
     const unit = v.unit;
-    raws.push({ stage: v.stage, role: v.role, part: v.name, mode: 'value', variant: 0, value: found.value, unit, valueClass: found.cls, description: stage?.module.roles.find((r) => r.role === v.role)?.description ?? (v.stage === 'rails' ? 'supply rail' : v.role), variantWords: null, predicted: found.predicted, logLikelihood: found.logLikelihood, prior: found.prior, extra: 0 });
+    raws.push({
+      stage: v.stage,
+      role: v.role,
+      part: v.name,
+      mode: 'value',
+      variant: 0,
+      value: found.value,
+      unit,
+      valueClass: found.cls,
+      description: stage?.module.roles.find((r) => r.role === v.role)?.description ?? (v.stage === 'rails' ? 'supply rail' : v.role),
+      variantWords: null,
+      predicted: found.predicted,
+      logLikelihood: found.logLikelihood,
+      prior: found.prior,
+      extra: 0,
+    });
   });
   for (const { fault, description, variantWords } of nonValueFaults(plan)) {
     if (!canExplain(fault.stage)) continue;
     const predicted = predict(chain, chain.nominal, chain.stageIndex(fault.stage), fault);
     if (!reproducesAll(evidence, predicted, faultModeError)) continue;
-    raws.push({ stage: fault.stage, role: fault.role, part: `${fault.stage}.${fault.role}`, mode: fault.mode, variant: fault.variant ?? 0, value: null, unit: null, valueClass: null, description, variantWords, predicted, logLikelihood: logLikelihood(evidence, predicted, faultModeError), prior: modePrior[fault.mode], extra: faultModeError });
+    raws.push({
+      stage: fault.stage,
+      role: fault.role,
+      part: `${fault.stage}.${fault.role}`,
+      mode: fault.mode,
+      variant: fault.variant ?? 0,
+      value: null,
+      unit: null,
+      valueClass: null,
+      description,
+      variantWords,
+      predicted,
+      logLikelihood: logLikelihood(evidence, predicted, faultModeError),
+      prior: modePrior[fault.mode],
+      extra: faultModeError,
+    });
   }
   // A fault must explain something: one that reproduces the readings only because it changes nothing read is no cause.
   const causes = raws.filter((r) => deviating.some((e) => reproduces(e, r.predicted[e.index] as number, r.extra)));
@@ -198,7 +230,16 @@ function rank(plan: Plan, chain: Chain, evidence: readonly Evidence[], raws: rea
         });
       return o;
     };
-    const alternatives: Alternative[] = rest.map((a) => ({ part: a.r.part, ref: a.ref, mode: a.r.mode, value: a.r.value, label: a.label, variantWords: a.r.variantWords, score: a.score, predictedAll: record(a.r.predicted) }));
+    const alternatives: Alternative[] = rest.map((a) => ({
+      part: a.r.part,
+      ref: a.ref,
+      mode: a.r.mode,
+      value: a.r.value,
+      label: a.label,
+      variantWords: a.r.variantWords,
+      score: a.score,
+      predictedAll: record(a.r.predicted),
+    }));
     return {
       rank: n + 1,
       part: h.r.part,
@@ -222,7 +263,10 @@ function rank(plan: Plan, chain: Chain, evidence: readonly Evidence[], raws: rea
     };
   });
   const explained = new Set(hypotheses.flatMap((h) => h.explains));
-  const unexplained = [...deviating.filter((e) => !explained.has(e.check)).map((e) => e.check), ...hints.map((h) => h.check).filter((c) => !evidence.some((e) => e.check === c))];
+  const unexplained = [
+    ...deviating.filter((e) => !explained.has(e.check)).map((e) => e.check),
+    ...hints.map((h) => h.check).filter((c) => !evidence.some((e) => e.check === c)),
+  ];
   return { hypotheses, unexplained, allPass: false, hints, next: nextSeparating(plan, chain, evidence, hypotheses) };
 }
 

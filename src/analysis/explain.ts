@@ -79,10 +79,20 @@ function classify(part: string, unit: Unit, fitted: number, tol: number, ratio: 
   // Drift: the further from fitted, the less likely (a part rarely drifts by more than a few tolerances).
   const driftScore = 0.5 * Math.exp(-Math.abs(Math.log(ratio)) / 0.3);
   if (isRail) {
-    return { ...base, likely: 'drift', score: driftScore * 0.8, note: `the rail would read ${shown} instead of ${fittedText}: read ${part}.dc and the regulator` };
+    return {
+      ...base,
+      likely: 'drift',
+      score: driftScore * 0.8,
+      note: `the rail would read ${shown} instead of ${fittedText}: read ${part}.dc and the regulator`,
+    };
   }
   if (Math.abs(ratio - 1) <= tol) {
-    return { ...base, likely: 'drift', score: driftScore, note: `${part} at ${shown} (${formatPercent(ratio - 1)}) is still inside its ${formatPercent(tol)} tolerance: several parts together may add up` };
+    return {
+      ...base,
+      likely: 'drift',
+      score: driftScore,
+      note: `${part} at ${shown} (${formatPercent(ratio - 1)}) is still inside its ${formatPercent(tol)} tolerance: several parts together may add up`,
+    };
   }
   if (seriesUnits.has(unit) && wouldBe > 0) {
     const decades = Math.log10(ratio);
@@ -106,7 +116,12 @@ function classify(part: string, unit: Unit, fitted: number, tol: number, ratio: 
       const stdText = formatValue(std.nearest, unit);
       const fit = 1 - Math.abs(std.error) / (Math.max(tol, 0.01) + 0.01) / 2;
       if (std.nearest === near.below || std.nearest === near.above) {
-        return { ...base, likely: 'neighbour-value', score: 0.85 * fit, note: `a ${stdText} part, the ${series} neighbour of the fitted ${fittedText}, would read this: check that the right value was fitted` };
+        return {
+          ...base,
+          likely: 'neighbour-value',
+          score: 0.85 * fit,
+          note: `a ${stdText} part, the ${series} neighbour of the fitted ${fittedText}, would read this: check that the right value was fitted`,
+        };
       }
       return { ...base, likely: 'standard-value', score: 0.6 * fit, note: `a ${stdText} part (a standard value) would read this: a wrong part from the kit?` };
     }
@@ -122,9 +137,19 @@ function classify(part: string, unit: Unit, fitted: number, tol: number, ratio: 
 /** The stage's fault hints for a check (DESIGN §5.2), or the supply's for rail checks. */
 export function hintsFor(plan: Plan, check: string): string[] {
   if (check.startsWith('rails.')) {
-    if (check === 'rails.idle-current') return ['a reversed electrolytic or tantalum capacitor', 'a reversed or wrong-type op-amp or transistor (feel for a hot part)', 'a solder bridge between a rail and ground'];
-    if (check.endsWith('.to-ground')) return ['a solder bridge or a whisker between the rail and ground', 'a reversed polarised capacitor', 'a shorted decoupling capacitor'];
-    return ['the regulator and its set resistors', 'the bench supply setting and its current limit (a supply in current limit sags)', 'a heavy load downstream pulling the rail down'];
+    if (check === 'rails.idle-current')
+      return [
+        'a reversed electrolytic or tantalum capacitor',
+        'a reversed or wrong-type op-amp or transistor (feel for a hot part)',
+        'a solder bridge between a rail and ground',
+      ];
+    if (check.endsWith('.to-ground'))
+      return ['a solder bridge or a whisker between the rail and ground', 'a reversed polarised capacitor', 'a shorted decoupling capacitor'];
+    return [
+      'the regulator and its set resistors',
+      'the bench supply setting and its current limit (a supply in current limit sags)',
+      'a heavy load downstream pulling the rail down',
+    ];
   }
   const stage = [...plan.stages].sort((a, b) => b.id.length - a.id.length).find((s) => check.startsWith(`${s.id}.`));
   if (!stage) return [];

@@ -36,7 +36,10 @@ export function nextCheck(
     const v = done.get(t.check);
     if (v === undefined) return { check: t.check, why: `power off: measure ${t.check} first (a short to ground must be found before any power is applied)` };
     if (v !== 'pass') {
-      return { check: t.check, why: `power off: ${t.check} read ${v === 'fail' ? 'below' : 'at'} the short limit; find the short (polarised capacitor, solder bridge, reversed part), then measure again` };
+      return {
+        check: t.check,
+        why: `power off: ${t.check} read ${v === 'fail' ? 'below' : 'at'} the short limit; find the short (polarised capacitor, solder bridge, reversed part), then measure again`,
+      };
     }
   }
 
@@ -44,8 +47,10 @@ export function nextCheck(
   if (idle) {
     const v = done.get(idle.check);
     if (v === undefined) return { check: idle.check, why: 'first power through a current-limited supply: read the idle current before probing anything' };
-    if (v === 'fail') return { check: idle.check, why: 'power off: the idle current is above the limit; look for a hot or reversed part before powering again' };
-    if (v === 'marginal') return { check: idle.check, why: 'power off: the idle current is at the limit; check for a warm part, then power up and read it again' };
+    if (v === 'fail')
+      return { check: idle.check, why: 'power off: the idle current is above the limit; look for a hot or reversed part before powering again' };
+    if (v === 'marginal')
+      return { check: idle.check, why: 'power off: the idle current is at the limit; check for a warm part, then power up and read it again' };
   }
 
   for (const t of targets.filter((x) => x.phase === 'rails')) {
@@ -68,7 +73,10 @@ export function nextCheck(
   const next = targets.find(pending);
   if (!next) return null;
   if (last && last.verdict !== 'pass') {
-    return { check: next.check, why: `nothing upstream of ${last.check} is left unmeasured: the cause is likely in its own stage; then go on with ${next.check}` };
+    return {
+      check: next.check,
+      why: `nothing upstream of ${last.check} is left unmeasured: the cause is likely in its own stage; then go on with ${next.check}`,
+    };
   }
   return { check: next.check, why: `next in plan order${next.testPoint ? ` (at ${next.testPoint})` : ''}` };
 }

@@ -138,7 +138,10 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
   const extra: DesignWarning[] = [...gaps].map(([stage, g]) => {
     const cause = stage === 'rails' ? undefined : upstreamOf(plan.stages, stage).find((u) => gaps.has(u));
     const why = cause ? `its input from ${cause} stops at some tolerance corners` : 'the stage stops working at some tolerance corners';
-    return { stage, message: `in up to ${g.most} of ${trials} trials (${formatPercentOf(g.most, trials)}) ${g.checks.join(', ')} had no value: ${why}; the bands cover the trials that work` };
+    return {
+      stage,
+      message: `in up to ${g.most} of ${trials} trials (${formatPercentOf(g.most, trials)}) ${g.checks.join(', ')} had no value: ${why}; the bands cover the trials that work`,
+    };
   });
   const warnings = [...designWarnings(plan, nominalDetail), ...cornerWarnings(chain, perSigma, nominalDetail), ...extra];
   for (const t of targets) {

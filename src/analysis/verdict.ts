@@ -30,7 +30,8 @@ export function verdictFor(target: Pick<Target, 'nominal' | 'worst' | 'floor'>, 
   else if (reading - lowGuard >= min && reading + u <= max) verdict = 'pass';
   else if (reading + u < min || reading - u > max) verdict = 'fail';
   else verdict = 'marginal';
-  if ((isAtFloor ? u : 2 * u) >= max - min) warnings.push('the instrument uncertainty is as wide as the band: this reading cannot pass; use a better instrument or range');
+  if ((isAtFloor ? u : 2 * u) >= max - min)
+    warnings.push('the instrument uncertainty is as wide as the band: this reading cannot pass; use a better instrument or range');
   const width = max - min;
   return {
     verdict,

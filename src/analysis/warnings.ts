@@ -21,7 +21,10 @@ export function designWarnings(plan: Plan, nominal: ChainDetail): DesignWarning[
 
   for (const rail of plan.rails) {
     if (rail.tol === 0) {
-      out.push({ stage: 'rails', message: `rail ${rail.id} has no tolerance, so its band is a single value no reading can meet: give the regulator's, e.g. "tol": "5%"` });
+      out.push({
+        stage: 'rails',
+        message: `rail ${rail.id} has no tolerance, so its band is a single value no reading can meet: give the regulator's, e.g. "tol": "5%"`,
+      });
     }
   }
 
@@ -32,9 +35,15 @@ export function designWarnings(plan: Plan, nominal: ChainDetail): DesignWarning[
     for (const rail of plan.rails) {
       const top = Math.abs(rail.nominal) * (1 + rail.tol);
       if (Math.abs(rail.nominal) > stage.opamp.maxSupply) {
-        out.push({ stage: stage.id, message: `rail ${rail.id} (${formatValue(rail.nominal, 'V')}) is above the op-amp's supply ceiling of ±${formatValue(stage.opamp.maxSupply, 'V')}: the part may fail at power-up` });
+        out.push({
+          stage: stage.id,
+          message: `rail ${rail.id} (${formatValue(rail.nominal, 'V')}) is above the op-amp's supply ceiling of ±${formatValue(stage.opamp.maxSupply, 'V')}: the part may fail at power-up`,
+        });
       } else if (top > stage.opamp.maxSupply) {
-        out.push({ stage: stage.id, message: `rail ${rail.id} can reach ${formatValue(top, 'V')} at the top of its tolerance, above the op-amp's supply ceiling of ±${formatValue(stage.opamp.maxSupply, 'V')}` });
+        out.push({
+          stage: stage.id,
+          message: `rail ${rail.id} can reach ${formatValue(top, 'V')} at the top of its tolerance, above the op-amp's supply ceiling of ±${formatValue(stage.opamp.maxSupply, 'V')}`,
+        });
       }
     }
   }
@@ -58,7 +67,10 @@ export function designWarnings(plan: Plan, nominal: ChainDetail): DesignWarning[
     }
     const bw = nominal.values[`${stage.id}.bw`];
     if (bw !== undefined && Number.isFinite(bw) && input.frequency > bw / 3) {
-      out.push({ stage: stage.id, message: `the signal (${formatValue(input.frequency, 'Hz')}) is within a factor 3 of the closed-loop bandwidth ${formatValue(bw, 'Hz')}: gain and phase will droop` });
+      out.push({
+        stage: stage.id,
+        message: `the signal (${formatValue(input.frequency, 'Hz')}) is within a factor 3 of the closed-loop bandwidth ${formatValue(bw, 'Hz')}: gain and phase will droop`,
+      });
     }
   }
   return dedupe(out);

@@ -48,7 +48,8 @@ function groups(chain: Chain, upstream: WorstCaseOptions['upstream']): Group[] {
   for (const id of stageOrder) {
     const index = chain.stageIndex(id);
     const before = upstream ? new Set([id, ...upstream(id)]) : undefined;
-    const isUpstream = (stage: string): boolean => global.has(stage) || (before ? before.has(stage) : chain.stageIndex(stage) >= 0 && chain.stageIndex(stage) <= index);
+    const isUpstream = (stage: string): boolean =>
+      global.has(stage) || (before ? before.has(stage) : chain.stageIndex(stage) >= 0 && chain.stageIndex(stage) <= index);
     out.push({
       depth: index + 1,
       checks: chain.checks.flatMap((c, i) => (c.stage === id ? [i] : [])),

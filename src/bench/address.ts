@@ -14,7 +14,8 @@ const defaultBaud = 9600;
  */
 export function parseAddress(text: string): InstrumentAddress | { readonly problem: string } {
   const match = /^([a-z]+):\/\/(.*)$/i.exec(text.trim());
-  if (!match) return { problem: `${JSON.stringify(text)} is not an address; write tcp://HOST[:PORT], serial:///dev/ttyUSB0?baud=9600 or usbtmc:///dev/usbtmc0` };
+  if (!match)
+    return { problem: `${JSON.stringify(text)} is not an address; write tcp://HOST[:PORT], serial:///dev/ttyUSB0?baud=9600 or usbtmc:///dev/usbtmc0` };
   const scheme = (match[1] ?? '').toLowerCase();
   const rest = match[2] ?? '';
   if (scheme === 'tcp') {
@@ -35,7 +36,8 @@ export function parseAddress(text: string): InstrumentAddress | { readonly probl
       const [key, value] = pair.split('=', 2);
       if (key !== 'baud') return { problem: `${JSON.stringify(text)}: unknown setting ${JSON.stringify(key)}; only baud=N is read` };
       baud = Number(value);
-      if (!Number.isInteger(baud) || baud < 50 || baud > 4_000_000) return { problem: `${JSON.stringify(text)}: baud ${JSON.stringify(value)} is not a baud rate (e.g. 9600, 115200)` };
+      if (!Number.isInteger(baud) || baud < 50 || baud > 4_000_000)
+        return { problem: `${JSON.stringify(text)}: baud ${JSON.stringify(value)} is not a baud rate (e.g. 9600, 115200)` };
     }
     return { kind: 'serial', device, baud };
   }

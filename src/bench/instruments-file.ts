@@ -56,7 +56,9 @@ const defaultTimeoutMs = 3000;
 const queryPattern = /^[\x20-\x7e]{1,200}$/;
 const unitKeys = new Set(['V', 'A', 'Hz', 'ohm', 'Ω', '1', 's', 'F', 'V/V']);
 
-const queryValue = z.union([z.string(), z.strictObject({ query: z.string(), scale: z.optional(z.number()) })], { error: 'expected a query such as "MEAS:VOLT:DC?" or {"query": "MEAS:DUTY?", "scale": 0.01}' });
+const queryValue = z.union([z.string(), z.strictObject({ query: z.string(), scale: z.optional(z.number()) })], {
+  error: 'expected a query such as "MEAS:VOLT:DC?" or {"query": "MEAS:DUTY?", "scale": 0.01}',
+});
 const fixedOrQuery = z.union([z.string(), z.number()], { error: 'expected a query such as "WAV:XINC?" or a number' });
 const schema = z.strictObject({
   instruments: z.array(
@@ -107,7 +109,8 @@ export function parseInstruments(json: unknown, file: string): InstrumentsFile {
   const instruments = result.data.instruments.map((raw, i): Instrument => {
     const at = `instruments[${i}]`;
     const name = raw.name.trim();
-    if (!/^[A-Za-z0-9_.-]{1,40}$/.test(name)) throw new InstrumentsFileError(file, `${at}.name`, `${JSON.stringify(raw.name)}: a name is 1–40 letters, digits, "_", "." or "-", e.g. "dmm"`);
+    if (!/^[A-Za-z0-9_.-]{1,40}$/.test(name))
+      throw new InstrumentsFileError(file, `${at}.name`, `${JSON.stringify(raw.name)}: a name is 1–40 letters, digits, "_", "." or "-", e.g. "dmm"`);
     if (seen.has(name)) throw new InstrumentsFileError(file, `${at}.name`, `${JSON.stringify(name)} is named twice; give each instrument its own name`);
     seen.add(name);
     const address = parseAddress(raw.address);
@@ -115,26 +118,31 @@ export function parseInstruments(json: unknown, file: string): InstrumentsFile {
     let timeout = defaultTimeoutMs;
     if (raw.timeout !== undefined) {
       const t = typeof raw.timeout === 'number' ? { ok: true as const, value: raw.timeout } : parseValue(raw.timeout, { expected: 's', allowTolerance: false });
-      if (!t.ok || !Number.isFinite(t.value) || t.value <= 0 || t.value > 600) throw new InstrumentsFileError(file, `${at}.timeout`, `${JSON.stringify(raw.timeout)}: write a time from 1 ms to 600 s, e.g. "3 s"`);
+      if (!t.ok || !Number.isFinite(t.value) || t.value <= 0 || t.value > 600)
+        throw new InstrumentsFileError(file, `${at}.timeout`, `${JSON.stringify(raw.timeout)}: write a time from 1 ms to 600 s, e.g. "3 s"`);
       timeout = Math.max(1, Math.round(t.value * 1000));
     }
     const queries: Record<string, QuerySpec> = {};
     for (const [key, value] of Object.entries(raw.queries ?? {})) {
       const where = `${at}.queries.${key}`;
-      if (!unitKeys.has(key) && !/^[^.\s]+\.[^\s]+$/.test(key)) throw new InstrumentsFileError(file, where, `${JSON.stringify(key)} is neither a unit (V, A, Hz, ohm, 1) nor a check id such as "osc.freq"`);
+      if (!unitKeys.has(key) && !/^[^.\s]+\.[^\s]+$/.test(key))
+        throw new InstrumentsFileError(file, where, `${JSON.stringify(key)} is neither a unit (V, A, Hz, ohm, 1) nor a check id such as "osc.freq"`);
       const spec = typeof value === 'string' ? { query: value, scale: 1 } : { query: value.query, scale: value.scale ?? 1 };
       if (!queryPattern.test(spec.query)) throw new InstrumentsFileError(file, where, 'a query is one line of printable text, at most 200 characters');
-      if (!Number.isFinite(spec.scale) || spec.scale === 0) throw new InstrumentsFileError(file, `${where}.scale`, 'scale must be a non-zero number (0.01 for an answer in %)');
+      if (!Number.isFinite(spec.scale) || spec.scale === 0)
+        throw new InstrumentsFileError(file, `${where}.scale`, 'scale must be a non-zero number (0.01 for an answer in %)');
       queries[key === 'ohm' ? 'Ω' : key] = spec;
     }
     let capture: CaptureSpec | undefined;
     if (raw.capture) {
       const c = raw.capture;
       for (const [k, v] of Object.entries({ data: c.data, xincrement: c.xincrement, yscale: c.yscale, yoffset: c.yoffset })) {
-        if (typeof v === 'string' && !queryPattern.test(v)) throw new InstrumentsFileError(file, `${at}.capture.${k}`, 'a query is one line of printable text, at most 200 characters');
+        if (typeof v === 'string' && !queryPattern.test(v))
+          throw new InstrumentsFileError(file, `${at}.capture.${k}`, 'a query is one line of printable text, at most 200 characters');
         if (typeof v === 'number' && !Number.isFinite(v)) throw new InstrumentsFileError(file, `${at}.capture.${k}`, 'expected a finite number');
       }
-      if (typeof c.xincrement === 'number' && c.xincrement <= 0) throw new InstrumentsFileError(file, `${at}.capture.xincrement`, 'the time between samples must be above 0 s');
+      if (typeof c.xincrement === 'number' && c.xincrement <= 0)
+        throw new InstrumentsFileError(file, `${at}.capture.xincrement`, 'the time between samples must be above 0 s');
       capture = { data: c.data, format: c.format, xincrement: c.xincrement, yscale: c.yscale ?? 1, yoffset: c.yoffset ?? 0, bigEndian: c.byteOrder === 'big' };
     }
     const hasQueries = Object.keys(queries).length > 0;
@@ -154,7 +162,8 @@ export async function loadInstruments(path: string): Promise<InstrumentsFile> {
   } catch (error) {
     if (error instanceof InstrumentsFileError) throw error;
     const code = (error as NodeJS.ErrnoException).code;
-    if (code === 'ENOENT') throw new InstrumentsFileError(path, '', 'not found; pass --instruments FILE or set PROBEBOOK_INSTRUMENTS (see probebook instruments --help)');
+    if (code === 'ENOENT')
+      throw new InstrumentsFileError(path, '', 'not found; pass --instruments FILE or set PROBEBOOK_INSTRUMENTS (see probebook instruments --help)');
     throw new InstrumentsFileError(path, '', `cannot be read (${code ?? String(error)})`);
   }
   let json: unknown;

@@ -68,7 +68,8 @@ export class BenchSession {
     const existing = this.open.get(inst.name);
     if (existing?.isOpen) return existing;
     const a = inst.address;
-    const t = a.kind === 'tcp' ? await openTcp(a, inst.timeout, signal) : a.kind === 'serial' ? await openSerial(a, inst.timeout) : await UsbtmcTransport.open(a);
+    const t =
+      a.kind === 'tcp' ? await openTcp(a, inst.timeout, signal) : a.kind === 'serial' ? await openSerial(a, inst.timeout) : await UsbtmcTransport.open(a);
     this.open.set(inst.name, t);
     return t;
   }
@@ -105,7 +106,10 @@ export class BenchSession {
     const spec = queryFor(inst, check, unit);
     if (!spec) {
       const keys = Object.keys(inst.queries);
-      throw new InstrumentError(inst.name, `has no query for ${check} (unit ${unit}); add "${unit === 'Ω' ? 'ohm' : unit}" or "${check}" to its queries (it has ${keys.join(', ') || 'none'})`);
+      throw new InstrumentError(
+        inst.name,
+        `has no query for ${check} (unit ${unit}); add "${unit === 'Ω' ? 'ohm' : unit}" or "${check}" to its queries (it has ${keys.join(', ') || 'none'})`,
+      );
     }
     // Identity first: a wrong port or a dead peer is found before the measurement.
     let identity: string | null = null;
@@ -124,7 +128,10 @@ export class BenchSession {
     const value = parsed.value * spec.scale;
     const range = plausible[unit];
     if (range && (value < range[0] || value > range[1])) {
-      throw new InstrumentError(inst.name, `answered ${raw} to ${spec.query}, out of range for a reading in ${unit} (check the query and the instrument's function)`);
+      throw new InstrumentError(
+        inst.name,
+        `answered ${raw} to ${spec.query}, out of range for a reading in ${unit} (check the query and the instrument's function)`,
+      );
     }
     return { value, isOverload: false, raw, query: spec.query, instrument: who };
   }
@@ -132,7 +139,8 @@ export class BenchSession {
   private async numberOf(inst: Instrument, source: string | number, what: string, signal?: AbortSignal): Promise<number> {
     if (typeof source === 'number') return source;
     const parsed = parseScpiNumber((await this.ask(inst, source, 'line', signal)).toString('latin1'));
-    if (parsed.kind !== 'number') throw new InstrumentError(inst.name, `${what} (${source}): ${parsed.kind === 'error' ? parsed.message : 'answered the overflow value'}`);
+    if (parsed.kind !== 'number')
+      throw new InstrumentError(inst.name, `${what} (${source}): ${parsed.kind === 'error' ? parsed.message : 'answered the overflow value'}`);
     return parsed.value;
   }
 

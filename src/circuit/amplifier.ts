@@ -172,9 +172,31 @@ export function evaluateAmplifier(shape: AmplifierShape, input: EvalInput<unknow
 }
 
 export const amplifierChecks: readonly CheckSpec[] = [
-  { key: 'gain', quantity: 'gain', unit: 'V/V', output: 'out', instrument: 'scope', how: 'two channels, input and output, at a frequency well below the bandwidth: output over input peak-to-peak, negative when the output is inverted' },
-  { key: 'bw', quantity: '−3 dB bandwidth', unit: 'Hz', output: 'out', instrument: 'scope', how: 'small sine in, raise the generator frequency until the output falls to 0.707 of its low-frequency level; read the generator' },
-  { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the amplifier output with the chain signal applied, read peak-to-peak' },
+  {
+    key: 'gain',
+    quantity: 'gain',
+    unit: 'V/V',
+    output: 'out',
+    instrument: 'scope',
+    how: 'two channels, input and output, at a frequency well below the bandwidth: output over input peak-to-peak, negative when the output is inverted',
+  },
+  {
+    key: 'bw',
+    quantity: '−3 dB bandwidth',
+    unit: 'Hz',
+    output: 'out',
+    instrument: 'scope',
+    how: 'small sine in, raise the generator frequency until the output falls to 0.707 of its low-frequency level; read the generator',
+  },
+  {
+    key: 'out.vpp',
+    captureFigure: 'vpp',
+    quantity: 'peak-to-peak',
+    unit: 'V',
+    output: 'out',
+    instrument: 'scope',
+    how: 'scope DC-coupled at the amplifier output with the chain signal applied, read peak-to-peak',
+  },
   {
     key: 'out.dc',
     quantity: 'DC level (average)',
@@ -182,7 +204,7 @@ export const amplifierChecks: readonly CheckSpec[] = [
     output: 'out',
     instrument: 'meter',
     captureFigure: 'mean',
-    how: 'meter on DC volts from the amplifier output to ground, signal running (it reads the average); a reading within a volt or two of a rail means the stage is stuck there — the commonest fault on a new board: check the feedback resistor, the input pins and the op-amp\'s supply pins before anything downstream',
+    how: "meter on DC volts from the amplifier output to ground, signal running (it reads the average); a reading within a volt or two of a rail means the stage is stuck there — the commonest fault on a new board: check the feedback resistor, the input pins and the op-amp's supply pins before anything downstream",
   },
 ];
 
@@ -191,8 +213,8 @@ export const amplifierHints: Readonly<Record<string, readonly string[]>> = {
   'out.dc': [
     'stuck at a rail: the feedback loop is open (Rf missing or a dry joint) or an input pin is lifted',
     'stuck at a rail: the op-amp fitted the wrong way round or not powered (check both supply pins first)',
-    'a steady offset of tens of millivolts: the op-amp\'s input offset times the noise gain, or bias current through a large Rf',
-    'the upstream stage\'s own DC level passed on and amplified: measure the input\'s DC level too',
+    "a steady offset of tens of millivolts: the op-amp's input offset times the noise gain, or bias current through a large Rf",
+    "the upstream stage's own DC level passed on and amplified: measure the input's DC level too",
   ],
   bw: [
     'a slower op-amp fitted than the plan assumes (lower gain-bandwidth)',

@@ -106,10 +106,20 @@ function evaluate(input: EvalInput<CommonEmitterSettings>): EvalOutput {
   const outputs = { out: { frequency: source.frequency, samples: out } };
   if (input.isTrial) return { outputs, values, warnings: [] };
   const warnings: StageWarning[] = [];
-  if (q.region === 'saturated') warnings.push({ message: `the transistor is saturated at its operating point (collector ${formatValue(q.vc, 'V')}, emitter ${formatValue(q.ve, 'V')}): no gain; bias it lower or make Rc smaller` });
-  if (q.region === 'cut-off') warnings.push({ message: `the transistor is cut off: the base divider gives ${formatValue(q.vb, 'V')}, below the base-emitter drop; no gain` });
-  if (isSaturating) warnings.push({ message: `at the signal peak the collector would fall below the emitter plus ${formatValue(vceSat, 'V')}: the transistor saturates and the output's low peaks flatten` });
-  if (isCutting) warnings.push({ message: `at the signal peak the collector current would reach zero: the transistor cuts off and the output's high peaks flatten at ${formatValue(top, 'V')}` });
+  if (q.region === 'saturated')
+    warnings.push({
+      message: `the transistor is saturated at its operating point (collector ${formatValue(q.vc, 'V')}, emitter ${formatValue(q.ve, 'V')}): no gain; bias it lower or make Rc smaller`,
+    });
+  if (q.region === 'cut-off')
+    warnings.push({ message: `the transistor is cut off: the base divider gives ${formatValue(q.vb, 'V')}, below the base-emitter drop; no gain` });
+  if (isSaturating)
+    warnings.push({
+      message: `at the signal peak the collector would fall below the emitter plus ${formatValue(vceSat, 'V')}: the transistor saturates and the output's low peaks flatten`,
+    });
+  if (isCutting)
+    warnings.push({
+      message: `at the signal peak the collector current would reach zero: the transistor cuts off and the output's high peaks flatten at ${formatValue(top, 'V')}`,
+    });
   const pq = q.ic * Math.max(0, q.vc - q.ve);
   if (pq > 0.3) warnings.push({ message: `the transistor dissipates ${formatValue(pq, 'W')}: a small-signal package runs hot at this; mind your fingers` });
   return { outputs, values, warnings };
@@ -156,12 +166,47 @@ function outputImpedance(x: ImpedanceInput<CommonEmitterSettings>, _output: stri
 }
 
 const checks: readonly CheckSpec[] = [
-  { key: 'vb.dc', quantity: 'base voltage', unit: 'V', instrument: 'meter', how: 'DC voltmeter from the base to ground, no signal (a 10 MΩ meter barely loads the divider)' },
+  {
+    key: 'vb.dc',
+    quantity: 'base voltage',
+    unit: 'V',
+    instrument: 'meter',
+    how: 'DC voltmeter from the base to ground, no signal (a 10 MΩ meter barely loads the divider)',
+  },
   { key: 've.dc', quantity: 'emitter voltage', unit: 'V', instrument: 'meter', how: 'DC voltmeter from the emitter to ground, no signal' },
-  { key: 'vc.dc', quantity: 'collector voltage', unit: 'V', output: 'out', instrument: 'meter', how: 'DC voltmeter from the collector to ground, no signal', captureFigure: 'mean' },
-  { key: 'ic', quantity: 'collector current', unit: 'A', instrument: 'meter', how: 'voltage across Rc divided by Rc (do not break the collector lead to insert a meter)' },
-  { key: 'gain', quantity: 'voltage gain, collector over base (signed)', unit: 'V/V', output: 'out', instrument: 'scope', how: 'two channels: base and collector peak-to-peak with a small signal; the ratio, negative (inverted)' },
-  { key: 'out.vpp', quantity: 'collector peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the collector, AC coupled, with the chain signal applied; look for flattened peaks', captureFigure: 'vpp' },
+  {
+    key: 'vc.dc',
+    quantity: 'collector voltage',
+    unit: 'V',
+    output: 'out',
+    instrument: 'meter',
+    how: 'DC voltmeter from the collector to ground, no signal',
+    captureFigure: 'mean',
+  },
+  {
+    key: 'ic',
+    quantity: 'collector current',
+    unit: 'A',
+    instrument: 'meter',
+    how: 'voltage across Rc divided by Rc (do not break the collector lead to insert a meter)',
+  },
+  {
+    key: 'gain',
+    quantity: 'voltage gain, collector over base (signed)',
+    unit: 'V/V',
+    output: 'out',
+    instrument: 'scope',
+    how: 'two channels: base and collector peak-to-peak with a small signal; the ratio, negative (inverted)',
+  },
+  {
+    key: 'out.vpp',
+    quantity: 'collector peak-to-peak',
+    unit: 'V',
+    output: 'out',
+    instrument: 'scope',
+    how: 'scope at the collector, AC coupled, with the chain signal applied; look for flattened peaks',
+    captureFigure: 'vpp',
+  },
 ];
 
 function faults(settings: CommonEmitterSettings): readonly PartFaults[] {
@@ -203,9 +248,24 @@ export const commonEmitterKind: StageKind<CommonEmitterSettings> = {
       R2: ohm('R2', '"10k 1%"'),
       Rc: ohm('Rc', '"4k7 1%"'),
       Re: ohm('Re', '"1k 1%"'),
-      hfe: partAt(r, 'hfe', 'V/V', false, { positive: true, plausible: [5, 2000], example: '"150 50%"' }) ?? { nominal: 150, tol: 0.5, unit: 'V/V', text: '150 50% (default)' },
-      vbe: partAt(r, 'vbe', 'V', false, { positive: true, plausible: [0.3, 1], example: '"0.65 V"' }) ?? { nominal: 0.65, tol: 0, unit: 'V', text: '0.65 V (default)' },
-      vaf: partAt(r, 'vaf', 'V', false, { positive: true, plausible: [5, 1000], example: '"100 V"' }) ?? { nominal: 100, tol: 0, unit: 'V', text: '100 V (default)' },
+      hfe: partAt(r, 'hfe', 'V/V', false, { positive: true, plausible: [5, 2000], example: '"150 50%"' }) ?? {
+        nominal: 150,
+        tol: 0.5,
+        unit: 'V/V',
+        text: '150 50% (default)',
+      },
+      vbe: partAt(r, 'vbe', 'V', false, { positive: true, plausible: [0.3, 1], example: '"0.65 V"' }) ?? {
+        nominal: 0.65,
+        tol: 0,
+        unit: 'V',
+        text: '0.65 V (default)',
+      },
+      vaf: partAt(r, 'vaf', 'V', false, { positive: true, plausible: [5, 1000], example: '"100 V"' }) ?? {
+        nominal: 100,
+        tol: 0,
+        unit: 'V',
+        text: '100 V (default)',
+      },
     };
     const ce = partAt(p, 'Ce', 'F', false, { positive: true, plausible: [1e-12, 1], example: '"100u 20%"' });
     if (ce) parts['Ce'] = ce;
@@ -217,8 +277,14 @@ export const commonEmitterKind: StageKind<CommonEmitterSettings> = {
   outputImpedance,
   faults,
   faultHints: {
-    'vb.dc': ['R1 or R2 the wrong value or swapped (the base near the rail: R2 open or R1 shorted)', 'the base loaded by the previous stage: its coupling capacitor leaky'],
-    've.dc': ['about 0.6 V below the base is right; equal to the base: the base-emitter junction open (a damaged transistor)', '0 V with the base at its level: Re shorted or the emitter lead open'],
+    'vb.dc': [
+      'R1 or R2 the wrong value or swapped (the base near the rail: R2 open or R1 shorted)',
+      'the base loaded by the previous stage: its coupling capacitor leaky',
+    ],
+    've.dc': [
+      'about 0.6 V below the base is right; equal to the base: the base-emitter junction open (a damaged transistor)',
+      '0 V with the base at its level: Re shorted or the emitter lead open',
+    ],
     'vc.dc': [
       'at the rail: no collector current (transistor open or cut off, Re open, R1 open)',
       'near the emitter: saturated (R2 open, Rc too large, or collector and emitter shorted)',

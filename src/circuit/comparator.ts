@@ -122,7 +122,8 @@ function evaluate(input: EvalInput<ComparatorSettings>): EvalOutput {
       values['duty'] = Number.NaN;
     }
     if (!input.isTrial) {
-      if (level > th.low && level < th.high) warnings.push({ message: `the DC input ${formatValue(level, 'V')} lies between the thresholds: the output may rest at either level` });
+      if (level > th.low && level < th.high)
+        warnings.push({ message: `the DC input ${formatValue(level, 'V')} lies between the thresholds: the output may rest at either level` });
       if (input.settings.isPeriodic) warnings.push({ message: 'the input is a DC level: no frequency or duty to read; write "periodic": false on this stage' });
     }
     return { outputs: { out: dc(v) }, values, warnings };
@@ -138,7 +139,9 @@ function evaluate(input: EvalInput<ComparatorSettings>): EvalOutput {
   }
   if (!input.isTrial) {
     if (outputLevels(input).isLimited) {
-      warnings.push({ message: `the load on the output draws more than the op-amp's ${formatValue(currentLimit, 'A')} or so: it current-limits at ${formatValue(th.outLow, 'V')} … ${formatValue(th.outHigh, 'V')} and runs warm` });
+      warnings.push({
+        message: `the load on the output draws more than the op-amp's ${formatValue(currentLimit, 'A')} or so: it current-limits at ${formatValue(th.outLow, 'V')} … ${formatValue(th.outHigh, 'V')} and runs warm`,
+      });
     }
     if (cycles === 0) {
       warnings.push({
@@ -147,7 +150,9 @@ function evaluate(input: EvalInput<ComparatorSettings>): EvalOutput {
     }
     const transition = (th.outHigh - th.outLow) / input.opamp.slew;
     if (cycles > 0 && hi - lo < 0.98 * (th.outHigh - th.outLow)) {
-      warnings.push({ message: `each output edge takes ${formatValue(transition, 's')} at the op-amp's slew rate, longer than the signal leaves it: the output never reaches its levels` });
+      warnings.push({
+        message: `each output edge takes ${formatValue(transition, 's')} at the op-amp's slew rate, longer than the signal leaves it: the output never reaches its levels`,
+      });
     }
   }
   return { outputs: { out: { frequency: source.frequency, samples } }, values, warnings };
@@ -155,15 +160,57 @@ function evaluate(input: EvalInput<ComparatorSettings>): EvalOutput {
 
 function checks(settings: ComparatorSettings): readonly CheckSpec[] {
   const list: CheckSpec[] = [
-    { key: 'vth.high', quantity: 'upper threshold (output falls)', unit: 'V', instrument: 'meter', how: 'DC input from a bench supply: raise it slowly until the output falls; read the input with a meter' },
-    { key: 'vth.low', quantity: 'lower threshold (output rises)', unit: 'V', instrument: 'meter', how: 'then lower the input slowly until the output rises again; read the input' },
-    { key: 'hysteresis', quantity: 'hysteresis (upper − lower threshold)', unit: 'V', instrument: 'meter', how: 'the difference of the two threshold readings' },
-    { key: 'out.vpp', quantity: 'output peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the comparator output with the chain signal applied, read peak-to-peak', captureFigure: 'vpp' },
+    {
+      key: 'vth.high',
+      quantity: 'upper threshold (output falls)',
+      unit: 'V',
+      instrument: 'meter',
+      how: 'DC input from a bench supply: raise it slowly until the output falls; read the input with a meter',
+    },
+    {
+      key: 'vth.low',
+      quantity: 'lower threshold (output rises)',
+      unit: 'V',
+      instrument: 'meter',
+      how: 'then lower the input slowly until the output rises again; read the input',
+    },
+    {
+      key: 'hysteresis',
+      quantity: 'hysteresis (upper − lower threshold)',
+      unit: 'V',
+      instrument: 'meter',
+      how: 'the difference of the two threshold readings',
+    },
+    {
+      key: 'out.vpp',
+      quantity: 'output peak-to-peak',
+      unit: 'V',
+      output: 'out',
+      instrument: 'scope',
+      how: 'scope at the comparator output with the chain signal applied, read peak-to-peak',
+      captureFigure: 'vpp',
+    },
   ];
   if (settings.isPeriodic) {
     list.push(
-      { key: 'freq', quantity: 'output frequency', unit: 'Hz', output: 'out', instrument: 'counter', how: 'counter or scope frequency readout at the comparator output', captureFigure: 'frequency' },
-      { key: 'duty', quantity: 'output duty (fraction high)', unit: '1', output: 'out', instrument: 'scope', how: 'scope duty readout at the comparator output (positive duty)', captureFigure: 'duty' },
+      {
+        key: 'freq',
+        quantity: 'output frequency',
+        unit: 'Hz',
+        output: 'out',
+        instrument: 'counter',
+        how: 'counter or scope frequency readout at the comparator output',
+        captureFigure: 'frequency',
+      },
+      {
+        key: 'duty',
+        quantity: 'output duty (fraction high)',
+        unit: '1',
+        output: 'out',
+        instrument: 'scope',
+        how: 'scope duty readout at the comparator output (positive duty)',
+        captureFigure: 'duty',
+      },
     );
   }
   return list;
@@ -206,10 +253,7 @@ export const comparatorKind: StageKind<ComparatorSettings> = {
       'the output not reaching its rail: a different op-amp, or a rail low',
     ],
     'vth.low': ['as the upper threshold: reference, R1/R2 ratio, output levels'],
-    hysteresis: [
-      'none at all: R2 open or not fitted (the output chatters on a slow or noisy input)',
-      'as wide as the output swing: R1 open, or R2 shorted',
-    ],
+    hysteresis: ['none at all: R2 open or not fitted (the output chatters on a slow or noisy input)', 'as wide as the output swing: R1 open, or R2 shorted'],
     'out.vpp': ['small or triangular: the op-amp too slow for the signal (slew rate)', 'no swing: the input never crosses both thresholds (amplitude too low)'],
     freq: ['zero: the input amplitude is below the thresholds', 'double: chatter from missing hysteresis on a noisy input'],
     duty: ['off centre: the reference or the threshold resistors, or an offset on the input'],

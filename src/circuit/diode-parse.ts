@@ -13,7 +13,13 @@ export function parseDiodeModel(r: StageReader): { model: DiodeModel; name: stri
   if (typeof raw === 'string') {
     const model = diodeModels[raw];
     if (!model) {
-      throw new StageParseError(r.file, `${r.path}.diode`, `no diode model ${JSON.stringify(raw)}; write ${Object.keys(diodeModels).map((m) => JSON.stringify(m)).join(' or ')}, or { "is": "2.52n", "n": 1.752, "rs": "0.568" }`);
+      throw new StageParseError(
+        r.file,
+        `${r.path}.diode`,
+        `no diode model ${JSON.stringify(raw)}; write ${Object.keys(diodeModels)
+          .map((m) => JSON.stringify(m))
+          .join(' or ')}, or { "is": "2.52n", "n": 1.752, "rs": "0.568" }`,
+      );
     }
     return { model, name: raw };
   }

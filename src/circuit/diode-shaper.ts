@@ -50,7 +50,13 @@ function parseDiode(r: StageReader): { model: DiodeModel; name: string; parts: R
   if (typeof raw === 'string') {
     const model = diodeModels[raw];
     if (!model) {
-      throw new StageParseError(r.file, `${r.path}.diode`, `no diode model ${JSON.stringify(raw)}; write ${Object.keys(diodeModels).map((m) => JSON.stringify(m)).join(' or ')}, or { "is": "2.52n", "n": 1.752, "rs": "0.568" }`);
+      throw new StageParseError(
+        r.file,
+        `${r.path}.diode`,
+        `no diode model ${JSON.stringify(raw)}; write ${Object.keys(diodeModels)
+          .map((m) => JSON.stringify(m))
+          .join(' or ')}, or { "is": "2.52n", "n": 1.752, "rs": "0.568" }`,
+      );
     }
     return { model, name: raw, parts: diodeParts(model) };
   }
@@ -147,7 +153,13 @@ function faults(settings: DiodeShaperSettings): readonly PartFaults[] {
   });
   return [
     ...resistorFaults(resistorRoles(settings), words),
-    ...settings.branches.map((b, i): PartFaults => ({ role: `branches[${i}].diodes`, modes: ['open', 'short', 'reversed'], description: `branch ${i + 1} diode${b.diodes > 1 ? 's' : ''} (${b.polarity})` })),
+    ...settings.branches.map(
+      (b, i): PartFaults => ({
+        role: `branches[${i}].diodes`,
+        modes: ['open', 'short', 'reversed'],
+        description: `branch ${i + 1} diode${b.diodes > 1 ? 's' : ''} (${b.polarity})`,
+      }),
+    ),
   ];
 }
 
@@ -186,10 +198,15 @@ function warningsFor(net: ShaperNet, vin: Float64Array, out: Float64Array, peaks
   let peakCurrent = 0;
   for (const current of peaks) peakCurrent = Math.max(peakCurrent, current);
   if (!(peakCurrent > 0.01 * rsPeak)) {
-    warnings.push({ message: 'the drive never reaches a breakpoint: no branch conducts and the output is a scaled copy of the input; check the drive level and the bias voltages' });
+    warnings.push({
+      message:
+        'the drive never reaches a breakpoint: no branch conducts and the output is a scaled copy of the input; check the drive level and the bias voltages',
+    });
   }
   if (peakCurrent > diodeCurrentWarn) {
-    warnings.push({ message: `a branch carries ${(peakCurrent * 1e3).toPrecision(3)} mA at the peak; small-signal diodes are rated a few hundred mA at most (check the datasheet), raise the branch resistor` });
+    warnings.push({
+      message: `a branch carries ${(peakCurrent * 1e3).toPrecision(3)} mA at the peak; small-signal diodes are rated a few hundred mA at most (check the datasheet), raise the branch resistor`,
+    });
   }
   return warnings;
 }
@@ -211,8 +228,25 @@ function inputImpedance(x: ImpedanceInput<DiodeShaperSettings>, f: number): Comp
 }
 
 const shaperChecks: readonly CheckSpec[] = [
-  { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the shaper output, 10× probe, read peak-to-peak' },
-  { key: 'out.thd', captureFigure: 'thd', quantity: 'total harmonic distortion', unit: '1', output: 'out', instrument: 'scope', how: 'scope FFT (or save a capture and run analyze) at the shaper output, harmonics 2–50', floor: 0 },
+  {
+    key: 'out.vpp',
+    captureFigure: 'vpp',
+    quantity: 'peak-to-peak',
+    unit: 'V',
+    output: 'out',
+    instrument: 'scope',
+    how: 'scope DC-coupled at the shaper output, 10× probe, read peak-to-peak',
+  },
+  {
+    key: 'out.thd',
+    captureFigure: 'thd',
+    quantity: 'total harmonic distortion',
+    unit: '1',
+    output: 'out',
+    instrument: 'scope',
+    how: 'scope FFT (or save a capture and run analyze) at the shaper output, harmonics 2–50',
+    floor: 0,
+  },
   { key: 'out.peak', quantity: 'positive peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the shaper output, read the maximum' },
 ];
 
@@ -225,8 +259,8 @@ export const diodeShaperKind: StageKind<DiodeShaperSettings> = {
     { role: 'Rload', unit: 'Ω', description: 'load from the shaper node to ground', optional: true },
     { role: 'branches[i].R', unit: 'Ω', description: 'breakpoint branch resistor (sets the slope above the breakpoint)' },
     { role: 'branches[i].bias', unit: 'V', description: 'breakpoint branch bias voltage (sets where the branch starts to conduct)' },
-    { role: 'diode.is', unit: 'A', description: 'the diodes\' saturation current IS (default spread ±50 %)', optional: true },
-    { role: 'diode.n', unit: '1', description: 'the diodes\' emission coefficient N (default spread ±2 %)', optional: true },
+    { role: 'diode.is', unit: 'A', description: "the diodes' saturation current IS (default spread ±50 %)", optional: true },
+    { role: 'diode.n', unit: '1', description: "the diodes' emission coefficient N (default spread ±2 %)", optional: true },
   ],
   outputs: ['out'],
   needsInput: true,
@@ -244,7 +278,7 @@ export const diodeShaperKind: StageKind<DiodeShaperSettings> = {
   faultHints: {
     'out.thd': [
       'a diode fitted backwards: that branch conducts on the wrong half-cycle and one side flattens early',
-      'a branch resistor a decade off (470R for 4k7 or the reverse) moves that breakpoint\'s slope',
+      "a branch resistor a decade off (470R for 4k7 or the reverse) moves that breakpoint's slope",
       'a bias voltage or bias divider off: the breakpoints sit at the wrong levels',
       'an open diode or a dry joint: one breakpoint is missing and the peaks stay pointed',
       'the drive level is off: check the triangle amplitude upstream first, a shaper is tuned for one drive',

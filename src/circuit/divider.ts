@@ -12,7 +12,9 @@ function evaluate(input: EvalInput<DividerSettings>): EvalOutput {
   const rail = input.rails[input.settings.from];
   // `parse` cannot see the plan's rails: an unknown rail id surfaces here, as a stage that cannot be evaluated.
   if (rail === undefined) {
-    const known = Object.keys(input.rails).map((id) => JSON.stringify(id)).join(', ');
+    const known = Object.keys(input.rails)
+      .map((id) => JSON.stringify(id))
+      .join(', ');
     throw new Error(`divider: "from" names rail ${JSON.stringify(input.settings.from)}, which the plan does not have (rails: ${known || 'none'})`);
   }
   const parts = faultedParts(input, ['Rtop', 'Rbottom']);
@@ -28,7 +30,15 @@ function evaluate(input: EvalInput<DividerSettings>): EvalOutput {
 }
 
 const checks: readonly CheckSpec[] = [
-  { key: 'out.dc', captureFigure: 'mean', quantity: 'DC level', unit: 'V', output: 'out', instrument: 'meter', how: 'DC voltmeter from the divider tap to ground (a 10 MΩ meter input loads dividers above about 100 kΩ)' },
+  {
+    key: 'out.dc',
+    captureFigure: 'mean',
+    quantity: 'DC level',
+    unit: 'V',
+    output: 'out',
+    instrument: 'meter',
+    how: 'DC voltmeter from the divider tap to ground (a 10 MΩ meter input loads dividers above about 100 kΩ)',
+  },
 ];
 
 export const dividerKind: StageKind<DividerSettings> = {

@@ -14,7 +14,13 @@ export interface PlacedPart {
  * The net of a filter section for one sample of its parts, with a non-value
  * fault applied (open: the part removed; short: a milliohm bridge).
  */
-export function buildNet(nodes: number, placed: readonly PlacedPart[], values: Readonly<Record<string, number>>, fault: StageFault | undefined, opamp: NetOpamp): LinearNet {
+export function buildNet(
+  nodes: number,
+  placed: readonly PlacedPart[],
+  values: Readonly<Record<string, number>>,
+  fault: StageFault | undefined,
+  opamp: NetOpamp,
+): LinearNet {
   const elements: NetElement[] = placed.map((p) => {
     const e: NetElement = { a: p.a, b: p.b, g: 0, c: 0 };
     const mode = fault && fault.role === p.role && fault.mode !== 'reversed' ? fault.mode : undefined;

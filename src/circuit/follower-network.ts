@@ -93,8 +93,19 @@ export function solveFollower(net: FollowerNetwork, vin: number, s: FollowerStat
   const rs = diode.rs;
   let { a, b, y, j1, j2 } = s;
   let converged = false;
-  let g1c1 = 0, g2c2 = 0, j11 = 1, j22 = 1, j31 = 0, j32 = 0, j13 = 0, j23 = 0, jyy = 1;
-  let icn = 0, icp = 0, i1 = 0, i2 = 0;
+  let g1c1 = 0,
+    g2c2 = 0,
+    j11 = 1,
+    j22 = 1,
+    j31 = 0,
+    j32 = 0,
+    j13 = 0,
+    j23 = 0,
+    jyy = 1;
+  let icn = 0,
+    icp = 0,
+    i1 = 0,
+    i2 = 0;
   for (let it = 0; it < 100; it++) {
     const e1 = Math.exp(j1 / nvt);
     const e2 = Math.exp(j2 / nvt);

@@ -31,7 +31,7 @@ function inputImpedance(x: ImpedanceInput<InvertingAmpSettings>, f: number): Com
   const w = f * (aol / gbw);
   // Rf·(1 + jw)/(1 + aol + jw), w = f/fp.
   const d = (1 + aol) * (1 + aol) + w * w;
-  return { re: rin + (rf * ((1 + aol) + w * w)) / d, im: (rf * (w * (1 + aol) - w)) / d };
+  return { re: rin + (rf * (1 + aol + w * w)) / d, im: (rf * (w * (1 + aol) - w)) / d };
 }
 
 export const invertingAmpKind: StageKind<InvertingAmpSettings> = {

@@ -47,7 +47,12 @@ function unitFrom(r: StageReader): Unit {
   const text = textAt(r, 'unit', true, '"V", "A", "Hz", "s", "ohm", "F", "W", "V/V" or "%"');
   if (text === '%' || text === '1') return '1';
   const unit = unitAliases[text] ?? unitAliases[text.toLowerCase()];
-  if (!unit) throw new StageParseError(r.file, `${r.path}.unit`, `${JSON.stringify(text)} is not a unit; write "V", "A", "Hz", "s", "ohm", "F", "W", "V/V" or "%" (no prefix)`);
+  if (!unit)
+    throw new StageParseError(
+      r.file,
+      `${r.path}.unit`,
+      `${JSON.stringify(text)} is not a unit; write "V", "A", "Hz", "s", "ohm", "F", "W", "V/V" or "%" (no prefix)`,
+    );
   return unit;
 }
 
@@ -74,7 +79,8 @@ const keyPattern = /^[A-Za-z][A-Za-z0-9_-]*(?:\.[A-Za-z0-9_-]+)*$/;
 function readCheck(r: StageReader, i: number, seen: Set<string>, parts: Record<string, PartValue>): ManualCheck {
   onlyKeys(r, ['id', 'quantity', 'unit', 'nominal', 'tol', 'min', 'max', 'instrument', 'how']);
   const key = textAt(r, 'id', true, '"ref.dc"');
-  if (!keyPattern.test(key)) throw new StageParseError(r.file, `${r.path}.id`, `${JSON.stringify(key)} is not a check key; use letters, digits and dots, e.g. "ref.dc"`);
+  if (!keyPattern.test(key))
+    throw new StageParseError(r.file, `${r.path}.id`, `${JSON.stringify(key)} is not a check key; use letters, digits and dots, e.g. "ref.dc"`);
   if (seen.has(key)) throw new StageParseError(r.file, `${r.path}.id`, `${JSON.stringify(key)} is used twice in this stage; every check needs its own id`);
   seen.add(key);
   const quantity = textAt(r, 'quantity', true, '"reference voltage"');
@@ -88,26 +94,39 @@ function readCheck(r: StageReader, i: number, seen: Set<string>, parts: Record<s
   const hasBand = r.json['min'] !== undefined || r.json['max'] !== undefined;
   const base = { key, quantity, unit, instrument, how };
   if (hasNominal && hasBand) throw new StageParseError(r.file, r.path, 'give either "nominal" and "tol", or "min" and "max", not both');
-  if (!hasNominal && !hasBand) throw new StageParseError(r.file, r.path, 'no target; write "nominal" and "tol" (e.g. "2.5 V", "2%") or "min" and "max" (e.g. "-5 mV", "5 mV")');
+  if (!hasNominal && !hasBand)
+    throw new StageParseError(r.file, r.path, 'no target; write "nominal" and "tol" (e.g. "2.5 V", "2%") or "min" and "max" (e.g. "-5 mV", "5 mV")');
   const example = unit === '1' ? '0.05' : `"1 ${unit === 'Ω' ? 'ohm' : unit}"`;
   if (hasNominal) {
     const nominal = partAt(r, 'nominal', unit, true, { example });
     const tolRaw = r.json['tol'];
-    if (typeof tolRaw !== 'string') throw new StageParseError(r.file, `${r.path}.tol`, `${tolRaw === undefined ? 'missing' : 'must be text'}; write a percentage ("2%") or an amount in ${unit === '1' ? 'the same unit' : unit} (e.g. ${example})`);
+    if (typeof tolRaw !== 'string')
+      throw new StageParseError(
+        r.file,
+        `${r.path}.tol`,
+        `${tolRaw === undefined ? 'missing' : 'must be text'}; write a percentage ("2%") or an amount in ${unit === '1' ? 'the same unit' : unit} (e.g. ${example})`,
+      );
     const pct = /^\s*±?\s*(\d+(?:\.\d+)?)\s*%\s*$/.exec(tolRaw);
     if (pct && unit !== '1') {
       const role = `checks[${i}].nominal`;
       parts[role] = { ...nominal, tol: Number(pct[1]) / 100, text: `${nominal.text} ${tolRaw.trim()}` };
-      if (nominal.nominal === 0) throw new StageParseError(r.file, `${r.path}.tol`, `a percentage of a zero nominal is zero; write an amount (e.g. ${example}) or "min" and "max"`);
+      if (nominal.nominal === 0)
+        throw new StageParseError(r.file, `${r.path}.tol`, `a percentage of a zero nominal is zero; write an amount (e.g. ${example}) or "min" and "max"`);
       return { ...base, role };
     }
     const amount = parseValue(tolRaw, { expected: unit, allowTolerance: false });
-    if (!amount.ok || !(amount.value > 0)) throw new StageParseError(r.file, `${r.path}.tol`, `${JSON.stringify(tolRaw)} is not a tolerance; write a percentage ("2%") or an amount (e.g. ${example})`);
+    if (!amount.ok || !(amount.value > 0))
+      throw new StageParseError(
+        r.file,
+        `${r.path}.tol`,
+        `${JSON.stringify(tolRaw)} is not a tolerance; write a percentage ("2%") or an amount (e.g. ${example})`,
+      );
     return bandCheck(base, i, nominal.nominal - amount.value, nominal.nominal + amount.value, parts);
   }
   const min = partAt(r, 'min', unit, true, { example });
   const max = partAt(r, 'max', unit, true, { example });
-  if (!(max.nominal > min.nominal)) throw new StageParseError(r.file, `${r.path}.max`, `${JSON.stringify(max.text)} must be above min ${JSON.stringify(min.text)}`);
+  if (!(max.nominal > min.nominal))
+    throw new StageParseError(r.file, `${r.path}.max`, `${JSON.stringify(max.text)} must be above min ${JSON.stringify(min.text)}`);
   return bandCheck(base, i, min.nominal, max.nominal, parts);
 }
 
@@ -131,7 +150,7 @@ export const manualKind: StageKind<ManualSettings> = {
   summary: 'targets written by hand (nominal ± tolerance, or min … max) for anything without a model',
   traits: { usesOpamp: false, isAmplifier: false, isHandWritten: true },
   roles: [
-    { role: 'checks[i].nominal', unit: '1', description: 'a hand-written nominal with its percentage tolerance (in the check\'s unit)' },
+    { role: 'checks[i].nominal', unit: '1', description: "a hand-written nominal with its percentage tolerance (in the check's unit)" },
     { role: 'checks[i].band', unit: '1', description: 'position within a hand-written min … max band (0.5 = min, 1.5 = max)' },
   ],
   outputs: [],

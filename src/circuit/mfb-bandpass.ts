@@ -55,9 +55,18 @@ function evaluate(input: EvalInput<MfbBandpassSettings>): EvalOutput {
     const { high, low } = swing(input.opamp, input.supplies);
     const isOscillating = behaviour.kind === 'oscillates';
     for (let i = 0; i < n; i++) target[i] = isOscillating && i >= n / 2 ? low : high;
-    if (!input.isTrial) warnings.push({ message: isOscillating ? 'the section is unstable with this fault: it oscillates between the rails' : 'the op-amp has no DC feedback (R3 open or the like) and drifts to a rail' });
+    if (!input.isTrial)
+      warnings.push({
+        message: isOscillating
+          ? 'the section is unstable with this fault: it oscillates between the rails'
+          : 'the op-amp has no DC feedback (R3 open or the like) and drifts to a rail',
+      });
     const values = { f0: Number.NaN, q: Number.NaN, bw: Number.NaN, gain: Number.NaN, 'out.vpp': isOscillating ? high - low : 0 };
-    return { outputs: { out: { frequency: isOscillating ? behaviour.frequency : 0, samples: isOscillating ? target : target.subarray(0, 1) } }, values, warnings };
+    return {
+      outputs: { out: { frequency: isOscillating ? behaviour.frequency : 0, samples: isOscillating ? target : target.subarray(0, 1) } },
+      values,
+      warnings,
+    };
   }
   const figures = filterFigures(net, OUT, input.opamp, 'bandpass', ideal.f0, input.isTrial ? 1e-6 : 1e-10);
   const out = applyResponse(source.samples, source.frequency, figures.response, target);
@@ -80,11 +89,47 @@ function evaluate(input: EvalInput<MfbBandpassSettings>): EvalOutput {
 }
 
 const checks: readonly CheckSpec[] = [
-  { key: 'f0', quantity: 'centre frequency (peak)', unit: 'Hz', output: 'out', instrument: 'scope', how: 'small sine in, tune the generator for the largest output (the output is then in antiphase with the input); read the generator' },
-  { key: 'q', quantity: 'Q (f0 over bandwidth, a plain ratio)', unit: 'V/V', output: 'out', instrument: 'scope', how: 'f0 divided by the bandwidth between the two −3 dB points' },
-  { key: 'bw', quantity: '−3 dB bandwidth', unit: 'Hz', output: 'out', instrument: 'scope', how: 'tune the generator below and above f0 to where the output is 0.707 of its peak; the difference of the two readings' },
-  { key: 'gain', quantity: 'gain at f0 (negative: inverted)', unit: 'V/V', output: 'out', instrument: 'scope', how: 'output over input peak-to-peak at f0, small signal so nothing clips; negative, the output is inverted' },
-  { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the filter output with the chain signal applied, 10× probe, read peak-to-peak', captureFigure: 'vpp' },
+  {
+    key: 'f0',
+    quantity: 'centre frequency (peak)',
+    unit: 'Hz',
+    output: 'out',
+    instrument: 'scope',
+    how: 'small sine in, tune the generator for the largest output (the output is then in antiphase with the input); read the generator',
+  },
+  {
+    key: 'q',
+    quantity: 'Q (f0 over bandwidth, a plain ratio)',
+    unit: 'V/V',
+    output: 'out',
+    instrument: 'scope',
+    how: 'f0 divided by the bandwidth between the two −3 dB points',
+  },
+  {
+    key: 'bw',
+    quantity: '−3 dB bandwidth',
+    unit: 'Hz',
+    output: 'out',
+    instrument: 'scope',
+    how: 'tune the generator below and above f0 to where the output is 0.707 of its peak; the difference of the two readings',
+  },
+  {
+    key: 'gain',
+    quantity: 'gain at f0 (negative: inverted)',
+    unit: 'V/V',
+    output: 'out',
+    instrument: 'scope',
+    how: 'output over input peak-to-peak at f0, small signal so nothing clips; negative, the output is inverted',
+  },
+  {
+    key: 'out.vpp',
+    quantity: 'peak-to-peak',
+    unit: 'V',
+    output: 'out',
+    instrument: 'scope',
+    how: 'scope at the filter output with the chain signal applied, 10× probe, read peak-to-peak',
+    captureFigure: 'vpp',
+  },
 ];
 
 const faults: readonly PartFaults[] = [
@@ -97,7 +142,8 @@ const faults: readonly PartFaults[] = [
 
 export const mfbBandpassKind: StageKind<MfbBandpassSettings> = {
   kind: 'mfb-bandpass',
-  summary: 'multiple-feedback band-pass (inverting): centre f0, Q and gain −R3·C1/(R1·(C1+C2)) at f0, with the op-amp gain-bandwidth (Q rises and f0 falls on a slow op-amp), swing and slew',
+  summary:
+    'multiple-feedback band-pass (inverting): centre f0, Q and gain −R3·C1/(R1·(C1+C2)) at f0, with the op-amp gain-bandwidth (Q rises and f0 falls on a slow op-amp), swing and slew',
   roles: [
     { role: 'R1', unit: 'Ω', description: 'input resistor, to node A' },
     { role: 'R2', unit: 'Ω', description: 'resistor from node A to ground (sets f0 without changing Q much)' },
@@ -138,7 +184,12 @@ export const mfbBandpassKind: StageKind<MfbBandpassSettings> = {
     ],
     q: ['R3 the wrong value: Q follows R3', 'C1 and C2 of different values swapped'],
     bw: ['read f0 and Q first: the bandwidth is f0/Q'],
-    gain: ['R1 the wrong value: the gain at f0 follows R3/R1', 'R3 shorted: no output', 'R3 open: the output sits at a rail', 'the input level is off: check the upstream stage'],
+    gain: [
+      'R1 the wrong value: the gain at f0 follows R3/R1',
+      'R3 shorted: no output',
+      'R3 open: the output sits at a rail',
+      'the input level is off: check the upstream stage',
+    ],
     'out.vpp': [
       'the input level is off: check the upstream stage first',
       'the signal is off f0: a band-pass passes little away from its centre',

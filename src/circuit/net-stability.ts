@@ -132,7 +132,8 @@ export function routhStable(c: readonly number[]): boolean {
     const pivot = lower[0] ?? 0;
     if (!(pivot > 0)) return false;
     const next: number[] = [];
-    for (let j = 0; j + 1 < upper.length; j++) next.push(((lower[0] as number) * (upper[j + 1] as number) - (upper[0] as number) * (lower[j + 1] ?? 0)) / pivot);
+    for (let j = 0; j + 1 < upper.length; j++)
+      next.push(((lower[0] as number) * (upper[j + 1] as number) - (upper[0] as number) * (lower[j + 1] ?? 0)) / pivot);
     upper = lower;
     lower = next.length > 0 ? next : [0];
   }

@@ -33,7 +33,9 @@ export function limitOutput(out: Float64Array, frequency: number, opamp: OpampMo
   if (clipped) {
     for (let i = 0; i < n; i++) out[i] = Math.min(high, Math.max(low, out[i] as number));
     if (!isTrial) {
-      warnings.push({ message: `the output would swing ${formatValue(wantLo, 'V')} … ${formatValue(wantHi, 'V')} but the op-amp reaches only ${formatValue(low, 'V')} … ${formatValue(high, 'V')} on these rails (headroom ${formatValue(opamp.headroom, 'V')}): it clips` });
+      warnings.push({
+        message: `the output would swing ${formatValue(wantLo, 'V')} … ${formatValue(wantHi, 'V')} but the op-amp reaches only ${formatValue(low, 'V')} … ${formatValue(high, 'V')} on these rails (headroom ${formatValue(opamp.headroom, 'V')}): it clips`,
+      });
     }
   }
   if (frequency > 0 && n > 1) {
@@ -60,7 +62,9 @@ export function limitOutput(out: Float64Array, frequency: number, opamp: OpampMo
       if (!isTrial) {
         const peak = Math.max(Math.abs(wantHi), Math.abs(wantLo));
         const fpbw = opamp.slew / (2 * Math.PI * peak);
-        warnings.push({ message: `the output needs ${formatValue(needed, 'V/s')} but the op-amp slews ${formatValue(opamp.slew, 'V/s')}: edges turn into ramps (full-power bandwidth at ${formatValue(peak, 'V')} peak is ${formatValue(fpbw, 'Hz')})` });
+        warnings.push({
+          message: `the output needs ${formatValue(needed, 'V/s')} but the op-amp slews ${formatValue(opamp.slew, 'V/s')}: edges turn into ramps (full-power bandwidth at ${formatValue(peak, 'V')} peak is ${formatValue(fpbw, 'Hz')})`,
+        });
       }
     }
   }

@@ -97,7 +97,8 @@ export function evaluateNetwork(input: EvalInput<PushPullSettings>, source: Wave
     const j = step <= k - m ? m + step : m - (step - (k - m));
     const x = j === k ? top : bottom + j * h;
     if (step === k - m + 1) copyState(s, middle);
-    const from = step === 0 ? 0 : step === k - m + 1 ? (m === k ? top : bottom + m * h) : j > m ? (j - 1 === k ? top : bottom + (j - 1) * h) : bottom + (j + 1) * h;
+    const from =
+      step === 0 ? 0 : step === k - m + 1 ? (m === k ? top : bottom + m * h) : j > m ? (j - 1 === k ? top : bottom + (j - 1) * h) : bottom + (j + 1) * h;
     solveAt(net, x, s, from);
     if (step === 0) copyState(middle, s);
     ys[j] = s.converged ? s.y : Number.NaN;
@@ -139,10 +140,14 @@ export function evaluateNetwork(input: EvalInput<PushPullSettings>, source: Wave
   const warnings: StageWarning[] = [];
   if (input.isTrial) return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings };
   if (starved) {
-    warnings.push({ message: `at the drive's peaks a bias diode stops conducting: Rb1/Rb2 (${formatValue(net.rb1, 'Ω')}, ${formatValue(net.rb2, 'Ω')}) cannot feed the base current the load needs, so the output flattens; lower Rb or raise the load resistance` });
+    warnings.push({
+      message: `at the drive's peaks a bias diode stops conducting: Rb1/Rb2 (${formatValue(net.rb1, 'Ω')}, ${formatValue(net.rb2, 'Ω')}) cannot feed the base current the load needs, so the output flattens; lower Rb or raise the load resistance`,
+    });
   }
   if (zero.converged && 0.5 * (zero.icn + zero.icp) * (net.vpos - net.vneg) > hotWatts) {
-    warnings.push({ message: `the standing current ${formatValue(values['iq'] as number, 'A')} makes each transistor dissipate over ${formatValue(hotWatts, 'W')} with no signal: expect hot parts and possible thermal runaway; caution, do not touch` });
+    warnings.push({
+      message: `the standing current ${formatValue(values['iq'] as number, 'A')} makes each transistor dissipate over ${formatValue(hotWatts, 'W')} with no signal: expect hot parts and possible thermal runaway; caution, do not touch`,
+    });
   }
   return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings };
 }

@@ -48,7 +48,10 @@ export const defaultHfeTol = 0.5;
 const hotWatts = 0.5;
 
 /** Total load on the output at f: Rload in parallel with what the plan or the chain hangs there, Ω. */
-export function outputLoad(input: { readonly parts: Readonly<Record<string, number>>; readonly settings: PushPullSettings; readonly load?: EvalInput<PushPullSettings>['load'] }, f: number): number {
+export function outputLoad(
+  input: { readonly parts: Readonly<Record<string, number>>; readonly settings: PushPullSettings; readonly load?: EvalInput<PushPullSettings>['load'] },
+  f: number,
+): number {
   let g = input.settings.hasLoad ? 1 / (input.parts['Rload'] ?? Number.NaN) : 0;
   const z = input.load?.('out', f);
   // A follower's output node is resistive at audio frequencies: its large-signal load is the real part.
@@ -174,7 +177,8 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   if (!source) throw new Error('push-pull: no input waveform; the plan must name an "input"');
   // The network solver takes a wrong load value; an open or shorted transistor or bias diode is
   // evaluated by the follower law below instead (its bias resistors then only set the fight current).
-  if (input.settings.hasNetwork && !isActiveFault(input.fault)) return evaluateNetwork(input.fault ? { ...input, parts: faultedParts(input, ['Rload']) } : input, source);
+  if (input.settings.hasNetwork && !isActiveFault(input.fault))
+    return evaluateNetwork(input.fault ? { ...input, parts: faultedParts(input, ['Rload']) } : input, source);
   const vbe = input.parts['vbe'] ?? defaultVbe;
   const hfe = input.parts['hfe'] ?? defaultHfe;
   // An open or shorted load resistor is a huge or tiny one (src/circuit/faults.ts).
@@ -264,7 +268,9 @@ function evaluate(input: EvalInput<PushPullSettings>): EvalOutput {
   }
   const watts = Math.max(heatTop, heatBottom) / n;
   if (input.settings.hasLoad && watts > hotWatts) {
-    warnings.push({ message: `each output transistor dissipates about ${formatValue(watts, 'W')}: too hot for a small package without a heatsink; do not touch the transistors while the signal runs` });
+    warnings.push({
+      message: `each output transistor dissipates about ${formatValue(watts, 'W')}: too hot for a small package without a heatsink; do not touch the transistors while the signal runs`,
+    });
   }
   return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings };
 }
@@ -305,27 +311,74 @@ function faults(settings: PushPullSettings): readonly PartFaults[] {
   ];
   if (settings.hasLoad) list.push(...resistorFaults(['Rload'], { Rload: 'load resistor' }));
   if (settings.bias === 'diodes') {
-    list.push({ role: 'bias[0]', modes: ['missing', 'short'], description: 'upper bias diode' }, { role: 'bias[1]', modes: ['missing', 'short'], description: 'lower bias diode' });
+    list.push(
+      { role: 'bias[0]', modes: ['missing', 'short'], description: 'upper bias diode' },
+      { role: 'bias[1]', modes: ['missing', 'short'], description: 'lower bias diode' },
+    );
   }
   return list;
 }
 
 function checks(settings: PushPullSettings): readonly CheckSpec[] {
   const list: CheckSpec[] = [
-    { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope DC-coupled at the output across the load, read peak-to-peak' },
-    { key: 'deadband', quantity: 'crossover dead band (total width)', unit: 'V', output: 'out', instrument: 'scope', how: 'scope in X-Y mode, input on X and output on Y: read the width of the flat step around zero', floor: 0 },
+    {
+      key: 'out.vpp',
+      captureFigure: 'vpp',
+      quantity: 'peak-to-peak',
+      unit: 'V',
+      output: 'out',
+      instrument: 'scope',
+      how: 'scope DC-coupled at the output across the load, read peak-to-peak',
+    },
+    {
+      key: 'deadband',
+      quantity: 'crossover dead band (total width)',
+      unit: 'V',
+      output: 'out',
+      instrument: 'scope',
+      how: 'scope in X-Y mode, input on X and output on Y: read the width of the flat step around zero',
+      floor: 0,
+    },
   ];
   if (settings.hasNetwork) {
     list.push(
-      { key: 'iq', quantity: 'quiescent collector current per transistor', unit: 'A', instrument: 'meter', how: 'no signal (drive at 0 V): ammeter in series with one collector, or the rail current less the bias resistor\'s; caution, the transistors may run hot' },
-      { key: 'out.dc', quantity: 'output offset, no signal', unit: 'V', output: 'out', instrument: 'meter', how: 'no signal (drive at 0 V): DC voltmeter from the output to ground' },
+      {
+        key: 'iq',
+        quantity: 'quiescent collector current per transistor',
+        unit: 'A',
+        instrument: 'meter',
+        how: "no signal (drive at 0 V): ammeter in series with one collector, or the rail current less the bias resistor's; caution, the transistors may run hot",
+      },
+      {
+        key: 'out.dc',
+        quantity: 'output offset, no signal',
+        unit: 'V',
+        output: 'out',
+        instrument: 'meter',
+        how: 'no signal (drive at 0 V): DC voltmeter from the output to ground',
+      },
     );
   }
   // Nobody probes these at a test point: design figures, in targets but not on the bring-up list.
   if (settings.hasLoad) {
     list.push(
-      { key: 'out.ipeak', quantity: 'peak load current', unit: 'A', output: 'out', instrument: 'scope', how: 'scope across the load resistor: peak voltage over its value', isDesignFigure: true },
-      { key: 'base.ipeak', quantity: 'peak base drive current', unit: 'A', instrument: 'scope', how: 'scope across a series base resistor if fitted, or from the driver\'s output; peak voltage over the resistor', isDesignFigure: true },
+      {
+        key: 'out.ipeak',
+        quantity: 'peak load current',
+        unit: 'A',
+        output: 'out',
+        instrument: 'scope',
+        how: 'scope across the load resistor: peak voltage over its value',
+        isDesignFigure: true,
+      },
+      {
+        key: 'base.ipeak',
+        quantity: 'peak base drive current',
+        unit: 'A',
+        instrument: 'scope',
+        how: "scope across a series base resistor if fitted, or from the driver's output; peak voltage over the resistor",
+        isDesignFigure: true,
+      },
     );
   }
   return list;
@@ -342,8 +395,8 @@ export const pushPullKind: StageKind<PushPullSettings> = {
     { role: 'vd', unit: 'V', description: 'drop of each bias diode (diode bias without Rb1/Rb2 only; default Vbe ± 8 %)', optional: true },
     { role: 'Rb1', unit: 'Ω', description: 'bias resistor from the positive rail to the NPN base (diode bias)', optional: true },
     { role: 'Rb2', unit: 'Ω', description: 'bias resistor from the PNP base to the negative rail (diode bias)', optional: true },
-    { role: 'vbe.pnp', unit: 'V', description: 'base-emitter drop of the PNP at 1 mA (with Rb1/Rb2; default: the plan\'s vbe)', optional: true },
-    { role: 'hfe.pnp', unit: 'V/V', description: 'current gain of the PNP (with Rb1/Rb2; default: the plan\'s hfe)', optional: true },
+    { role: 'vbe.pnp', unit: 'V', description: "base-emitter drop of the PNP at 1 mA (with Rb1/Rb2; default: the plan's vbe)", optional: true },
+    { role: 'hfe.pnp', unit: 'V/V', description: "current gain of the PNP (with Rb1/Rb2; default: the plan's hfe)", optional: true },
   ],
   outputs: ['out'],
   needsInput: true,
@@ -362,13 +415,24 @@ export const pushPullKind: StageKind<PushPullSettings> = {
     if (hfe) parts['hfe'] = hfe.tol > 0 ? hfe : { ...hfe, tol: defaultHfeTol, text: `${hfe.text} ${defaultHfeTol * 100}% (default hfe spread)` };
     const bias = choiceAt(r, 'bias', ['none', 'diodes'] as const);
     const vd = partAt(r, 'vd', 'V', false, { positive: true, example: '"0.65 V 8%"' });
-    if (vd && bias !== 'diodes') throw new StageParseError(file, `${raw.path}.vd`, 'a bias diode drop only applies with "bias": "diodes"; remove it or set the bias');
+    if (vd && bias !== 'diodes')
+      throw new StageParseError(file, `${raw.path}.vd`, 'a bias diode drop only applies with "bias": "diodes"; remove it or set the bias');
     const rb1 = partAt(p, 'Rb1', 'Ω', false, { positive: true, plausible: ohmRange, example: '"4k7 5%"' });
     const rb2 = partAt(p, 'Rb2', 'Ω', false, { positive: true, plausible: ohmRange, example: '"4k7 5%"' });
     const hasNetwork = rb1 !== undefined || rb2 !== undefined;
     if (hasNetwork) {
-      if (bias !== 'diodes') throw new StageParseError(file, `${raw.path}.parts.${rb1 ? 'Rb1' : 'Rb2'}`, 'bias resistors only apply with "bias": "diodes"; set the bias or remove them');
-      if (!rb1 || !rb2) throw new StageParseError(file, `${raw.path}.parts.${rb1 ? 'Rb2' : 'Rb1'}`, 'missing; the diode bias network needs both Rb1 (+rail to the NPN base) and Rb2 (PNP base to −rail), e.g. "4k7 5%"');
+      if (bias !== 'diodes')
+        throw new StageParseError(
+          file,
+          `${raw.path}.parts.${rb1 ? 'Rb1' : 'Rb2'}`,
+          'bias resistors only apply with "bias": "diodes"; set the bias or remove them',
+        );
+      if (!rb1 || !rb2)
+        throw new StageParseError(
+          file,
+          `${raw.path}.parts.${rb1 ? 'Rb2' : 'Rb1'}`,
+          'missing; the diode bias network needs both Rb1 (+rail to the NPN base) and Rb2 (PNP base to −rail), e.g. "4k7 5%"',
+        );
       if (vd) throw new StageParseError(file, `${raw.path}.vd`, 'with Rb1 and Rb2 the bias diodes follow the diode law at their real current; remove "vd"');
       parts['Rb1'] = rb1;
       parts['Rb2'] = rb2;
@@ -415,7 +479,7 @@ export const pushPullKind: StageKind<PushPullSettings> = {
       'caution: a bias set too high makes the transistors run hot (thermal runaway); power off if they heat with no signal',
     ],
     'out.ipeak': ['the load is not the value the plan assumes', 'the output is clipping: check the rails'],
-    'base.ipeak': ['a lower-gain transistor fitted (hfe below the plan\'s)', 'the driver cannot supply the base current: its output sags at the peaks'],
+    'base.ipeak': ["a lower-gain transistor fitted (hfe below the plan's)", 'the driver cannot supply the base current: its output sags at the peaks'],
     iq: [
       'a bias diode shorted or the wrong type: the standing current collapses (crossover returns) or climbs',
       'Rb1 or Rb2 the wrong value: the diodes carry another current and drop more or less',

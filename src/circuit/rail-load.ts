@@ -11,7 +11,9 @@ export function railOf(kind: string, input: EvalInput<unknown>, from: string): n
   const rail = input.rails[from];
   // `parse` cannot see the plan's rails (the plan loader checks the id); a chain built by hand may still miss it.
   if (rail === undefined) {
-    const known = Object.keys(input.rails).map((id) => JSON.stringify(id)).join(', ');
+    const known = Object.keys(input.rails)
+      .map((id) => JSON.stringify(id))
+      .join(', ');
     throw new Error(`${kind}: "from" names rail ${JSON.stringify(from)}, which the plan does not have (rails: ${known || 'none'})`);
   }
   return rail;

@@ -81,8 +81,23 @@ function evaluate(input: EvalInput<RcHighpassSettings>): EvalOutput {
 }
 
 const checks: readonly CheckSpec[] = [
-  { key: 'fc', quantity: '−3 dB corner frequency', unit: 'Hz', output: 'out', instrument: 'scope', how: 'small sine in, lower the generator frequency until the output is 0.707 of its high-frequency level (45° ahead); read the generator' },
-  { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the filter output with the chain signal applied, 10× probe, DC coupling (the output sits at 0 V), read peak-to-peak', captureFigure: 'vpp' },
+  {
+    key: 'fc',
+    quantity: '−3 dB corner frequency',
+    unit: 'Hz',
+    output: 'out',
+    instrument: 'scope',
+    how: 'small sine in, lower the generator frequency until the output is 0.707 of its high-frequency level (45° ahead); read the generator',
+  },
+  {
+    key: 'out.vpp',
+    quantity: 'peak-to-peak',
+    unit: 'V',
+    output: 'out',
+    instrument: 'scope',
+    how: 'scope at the filter output with the chain signal applied, 10× probe, DC coupling (the output sits at 0 V), read peak-to-peak',
+    captureFigure: 'vpp',
+  },
 ];
 
 const faults: readonly PartFaults[] = [

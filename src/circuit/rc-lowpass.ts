@@ -164,8 +164,23 @@ export function loadedCorner(mag2: (f: number) => number, guess: number): number
 }
 
 const checks: readonly CheckSpec[] = [
-  { key: 'fc', quantity: '−3 dB corner frequency', unit: 'Hz', output: 'out', instrument: 'scope', how: 'next stage connected, small sine in: raise the generator frequency until the output falls to 0.707 of its low-frequency level; read the generator' },
-  { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the filter output with the chain signal applied, 10× probe (a 1× probe adds about 100 pF), read peak-to-peak' },
+  {
+    key: 'fc',
+    quantity: '−3 dB corner frequency',
+    unit: 'Hz',
+    output: 'out',
+    instrument: 'scope',
+    how: 'next stage connected, small sine in: raise the generator frequency until the output falls to 0.707 of its low-frequency level; read the generator',
+  },
+  {
+    key: 'out.vpp',
+    captureFigure: 'vpp',
+    quantity: 'peak-to-peak',
+    unit: 'V',
+    output: 'out',
+    instrument: 'scope',
+    how: 'scope at the filter output with the chain signal applied, 10× probe (a 1× probe adds about 100 pF), read peak-to-peak',
+  },
 ];
 
 export const rcLowpassKind: StageKind<RcLowpassSettings> = {

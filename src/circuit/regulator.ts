@@ -80,13 +80,23 @@ function evaluate(input: EvalInput<RegulatorSettings>): EvalOutput {
     });
   }
   if (pdiss > hotPackage) {
-    warnings.push({ message: `the regulator dissipates ${formatValue(pdiss, 'W')}: it runs hot enough to burn a finger without a heat sink; let it cool before touching it after power-off` });
+    warnings.push({
+      message: `the regulator dissipates ${formatValue(pdiss, 'W')}: it runs hot enough to burn a finger without a heat sink; let it cool before touching it after power-off`,
+    });
   }
   return { outputs: { out: dc(vout) }, values, warnings };
 }
 
 const checks: readonly CheckSpec[] = [
-  { key: 'out.dc', quantity: 'regulated output', unit: 'V', output: 'out', instrument: 'meter', how: 'DC voltmeter from the regulator output to ground, the board otherwise idle', captureFigure: 'mean' },
+  {
+    key: 'out.dc',
+    quantity: 'regulated output',
+    unit: 'V',
+    output: 'out',
+    instrument: 'meter',
+    how: 'DC voltmeter from the regulator output to ground, the board otherwise idle',
+    captureFigure: 'mean',
+  },
   {
     key: 'pdiss',
     quantity: 'regulator dissipation (input − output) × current',
@@ -128,10 +138,17 @@ export const regulatorKind: StageKind<RegulatorSettings> = {
     if (vout) {
       if (raw.json['parts'] !== undefined) onlyKeys(nested(r, 'parts'), []);
       for (const key of ['vref', 'iadj']) {
-        if (raw.json[key] !== undefined) throw new StageParseError(file, `${r.path}.${key}`, `a fixed regulator ("vout") has no ${key}; remove it, or give R1 and R2 instead of "vout"`);
+        if (raw.json[key] !== undefined)
+          throw new StageParseError(file, `${r.path}.${key}`, `a fixed regulator ("vout") has no ${key}; remove it, or give R1 and R2 instead of "vout"`);
       }
-      if (vout.nominal === 0) throw new StageParseError(file, `${r.path}.vout`, `${JSON.stringify(vout.text)} is not a regulator output; write e.g. "5 V 4%" or "-5 V 4%"`);
-      if (polarity === '+' && vout.nominal < 0) throw new StageParseError(file, `${r.path}.polarity`, `"+" with a negative vout ${JSON.stringify(vout.text)}; write "polarity": "-" or a positive vout`);
+      if (vout.nominal === 0)
+        throw new StageParseError(file, `${r.path}.vout`, `${JSON.stringify(vout.text)} is not a regulator output; write e.g. "5 V 4%" or "-5 V 4%"`);
+      if (polarity === '+' && vout.nominal < 0)
+        throw new StageParseError(
+          file,
+          `${r.path}.polarity`,
+          `"+" with a negative vout ${JSON.stringify(vout.text)}; write "polarity": "-" or a positive vout`,
+        );
       polarity = vout.nominal < 0 ? '-' : polarity;
       parts['vout'] = { ...vout, nominal: Math.abs(vout.nominal) };
     } else {
@@ -140,10 +157,25 @@ export const regulatorKind: StageKind<RegulatorSettings> = {
       parts['R1'] = partAt(p, 'R1', 'Ω', true, { positive: true, plausible: ohmRange, example: '"240 1%"' });
       parts['R2'] = partAt(p, 'R2', 'Ω', true, { positive: true, plausible: ohmRange, example: '"720 1%"' });
       // The reference and adjust current are magnitudes; a negative regulator mirrors them (DESIGN §3).
-      parts['vref'] = partAt(r, 'vref', 'V', false, { positive: true, plausible: [0.5, 5], example: '"1.25 V 4%"' }) ?? { nominal: 1.25, tol: 0.04, unit: 'V', text: '1.25 V 4% (default)' };
-      parts['iadj'] = partAt(r, 'iadj', 'A', false, { nonNegative: true, plausible: [0, 1e-3], example: '"50 uA"' }) ?? { nominal: 50e-6, tol: 0, unit: 'A', text: '50 uA (default)' };
+      parts['vref'] = partAt(r, 'vref', 'V', false, { positive: true, plausible: [0.5, 5], example: '"1.25 V 4%"' }) ?? {
+        nominal: 1.25,
+        tol: 0.04,
+        unit: 'V',
+        text: '1.25 V 4% (default)',
+      };
+      parts['iadj'] = partAt(r, 'iadj', 'A', false, { nonNegative: true, plausible: [0, 1e-3], example: '"50 uA"' }) ?? {
+        nominal: 50e-6,
+        tol: 0,
+        unit: 'A',
+        text: '50 uA (default)',
+      };
     }
-    parts['dropout'] = partAt(r, 'dropout', 'V', false, { nonNegative: true, plausible: [0, 10], example: '"2 V"' }) ?? { nominal: 2, tol: 0, unit: 'V', text: '2 V (default)' };
+    parts['dropout'] = partAt(r, 'dropout', 'V', false, { nonNegative: true, plausible: [0, 10], example: '"2 V"' }) ?? {
+      nominal: 2,
+      tol: 0,
+      unit: 'V',
+      text: '2 V (default)',
+    };
     return { parts, settings: { from, polarity, isFixed: vout !== undefined } };
   },
   checks: () => checks,

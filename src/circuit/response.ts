@@ -12,7 +12,12 @@ import type { Complex } from './types.js';
  * Harmonics up to half the sample count are kept; the Nyquist bin takes the real
  * part of h only, so a real waveform stays real.
  */
-export function applyResponse(samples: Float64Array, frequency: number, h: (f: number) => Complex, out: Float64Array = new Float64Array(samples.length)): Float64Array {
+export function applyResponse(
+  samples: Float64Array,
+  frequency: number,
+  h: (f: number) => Complex,
+  out: Float64Array = new Float64Array(samples.length),
+): Float64Array {
   const n = samples.length;
   if (!(frequency > 0) || n < 2) {
     const g = h(0).re;

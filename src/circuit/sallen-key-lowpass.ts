@@ -1,11 +1,20 @@
-import { evaluateSallenKey, parseSallenKey, sallenKeyChecks, sallenKeyFaults, sallenKeyHints, sallenKeyInputImpedance, type SallenKeySettings } from './sallen-key.js';
+import {
+  evaluateSallenKey,
+  parseSallenKey,
+  sallenKeyChecks,
+  sallenKeyFaults,
+  sallenKeyHints,
+  sallenKeyInputImpedance,
+  type SallenKeySettings,
+} from './sallen-key.js';
 import type { StageKind } from './types.js';
 
 const checks = sallenKeyChecks('lowpass');
 
 export const sallenKeyLowpassKind: StageKind<SallenKeySettings> = {
   kind: 'sallen-key-lowpass',
-  summary: 'second-order Sallen–Key low-pass: f0 1/(2π√(R1R2C1C2)), Q and passband gain K = 1 + Rf/Rg (a follower without them), shifted by the op-amp gain-bandwidth; swing and slew limits',
+  summary:
+    'second-order Sallen–Key low-pass: f0 1/(2π√(R1R2C1C2)), Q and passband gain K = 1 + Rf/Rg (a follower without them), shifted by the op-amp gain-bandwidth; swing and slew limits',
   roles: [
     { role: 'R1', unit: 'Ω', description: 'resistor from the input to node A' },
     { role: 'R2', unit: 'Ω', description: 'resistor from node A to the + input' },

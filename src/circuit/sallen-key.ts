@@ -87,7 +87,10 @@ export function evaluateSallenKey(variant: SallenKeyVariant, input: EvalInput<Sa
     for (let i = 0; i < n; i++) target[i] = isOscillating && i >= n / 2 ? low : high;
     if (!input.isTrial) {
       const what = isOscillating ? `oscillates between the rails (near ${formatValue(stability.frequency, 'Hz')} at onset)` : 'latches at a rail';
-      const why = ideal.denominator > 0 ? `the op-amp's lag at this Q (gain-bandwidth ${formatValue(input.opamp.gbw, 'Hz')})` : `K = ${k.toPrecision(3)}, too high for these parts`;
+      const why =
+        ideal.denominator > 0
+          ? `the op-amp's lag at this Q (gain-bandwidth ${formatValue(input.opamp.gbw, 'Hz')})`
+          : `K = ${k.toPrecision(3)}, too high for these parts`;
       warnings.push({ message: `the section is unstable (${why}): the stage ${what} instead of filtering` });
     }
     const values = { f0: Number.NaN, q: Number.NaN, fc: Number.NaN, gain: Number.NaN, 'out.vpp': isOscillating ? high - low : 0 };
@@ -106,7 +109,8 @@ export function evaluateSallenKey(variant: SallenKeyVariant, input: EvalInput<Sa
         message: `the op-amp's gain-bandwidth (${formatValue(input.opamp.gbw, 'Hz')}) moves f0 from ${formatValue(nominalIdeal.f0, 'Hz')} to ${formatValue(figures.f0, 'Hz')} and Q from ${nominalIdeal.q.toPrecision(3)} to ${figures.q.toPrecision(3)}; an op-amp of ${formatValue(100 * k * nominalIdeal.f0, 'Hz')} or more brings them back to the design`,
       });
     }
-    if (!fault && nominalIdeal.q > 10) warnings.push({ message: `Q = ${nominalIdeal.q.toPrecision(3)}: a section this sharp moves with every percent of its parts; use 1 % parts or split it` });
+    if (!fault && nominalIdeal.q > 10)
+      warnings.push({ message: `Q = ${nominalIdeal.q.toPrecision(3)}: a section this sharp moves with every percent of its parts; use 1 % parts or split it` });
   }
   const values = { f0: figures.f0, q: figures.q, fc: figures.fc, gain: figures.gain, 'out.vpp': limited.hi - limited.lo };
   return { outputs: { out: { frequency: source.frequency, samples: out } }, values, warnings };
@@ -152,7 +156,11 @@ export function parseSallenKey(variant: SallenKeyVariant, raw: RawStage, file: s
   const rg = partAt(p, 'Rg', 'Ω', false, { positive: true, plausible: ohmRange, example: '"10k 1%"' });
   if ((rf === undefined) !== (rg === undefined)) {
     const missing = rf === undefined ? 'Rf' : 'Rg';
-    throw new StageParseError(file, `${p.path}.${missing}`, `missing; gain needs both Rf (output to −in) and Rg (−in to ground), e.g. "Rf": "5k6 1%", "Rg": "10k 1%"; for a unity-gain follower leave out both`);
+    throw new StageParseError(
+      file,
+      `${p.path}.${missing}`,
+      `missing; gain needs both Rf (output to −in) and Rg (−in to ground), e.g. "Rf": "5k6 1%", "Rg": "10k 1%"; for a unity-gain follower leave out both`,
+    );
   }
   if (rf && rg) {
     parts['Rf'] = rf;
@@ -165,11 +173,47 @@ export function sallenKeyChecks(variant: SallenKeyVariant): readonly CheckSpec[]
   const lag = variant === 'lowpass' ? '90° behind' : '90° ahead of';
   const passband = variant === 'lowpass' ? 'at a tenth of f0 or lower' : 'at thirty times f0';
   return [
-    { key: 'f0', quantity: 'natural frequency (90° phase point)', unit: 'Hz', output: 'out', instrument: 'scope', how: `two channels, input and output, small sine: tune the generator until the output is ${lag} the input (X-Y: an upright ellipse); read the generator` },
-    { key: 'q', quantity: 'Q (gain at f0 over passband gain)', unit: 'V/V', output: 'out', instrument: 'scope', how: `output over input at f0, divided by the passband gain (${passband})` },
-    { key: 'fc', quantity: '−3 dB corner frequency', unit: 'Hz', output: 'out', instrument: 'scope', how: 'small sine, tune the generator until the output is 0.707 of its passband level; read the generator' },
-    { key: 'gain', quantity: 'passband gain', unit: 'V/V', output: 'out', instrument: 'scope', how: `output over input peak-to-peak ${passband}, small signal so nothing clips` },
-    { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the filter output with the chain signal applied, 10× probe, read peak-to-peak', captureFigure: 'vpp' },
+    {
+      key: 'f0',
+      quantity: 'natural frequency (90° phase point)',
+      unit: 'Hz',
+      output: 'out',
+      instrument: 'scope',
+      how: `two channels, input and output, small sine: tune the generator until the output is ${lag} the input (X-Y: an upright ellipse); read the generator`,
+    },
+    {
+      key: 'q',
+      quantity: 'Q (gain at f0 over passband gain)',
+      unit: 'V/V',
+      output: 'out',
+      instrument: 'scope',
+      how: `output over input at f0, divided by the passband gain (${passband})`,
+    },
+    {
+      key: 'fc',
+      quantity: '−3 dB corner frequency',
+      unit: 'Hz',
+      output: 'out',
+      instrument: 'scope',
+      how: 'small sine, tune the generator until the output is 0.707 of its passband level; read the generator',
+    },
+    {
+      key: 'gain',
+      quantity: 'passband gain',
+      unit: 'V/V',
+      output: 'out',
+      instrument: 'scope',
+      how: `output over input peak-to-peak ${passband}, small signal so nothing clips`,
+    },
+    {
+      key: 'out.vpp',
+      quantity: 'peak-to-peak',
+      unit: 'V',
+      output: 'out',
+      instrument: 'scope',
+      how: 'scope at the filter output with the chain signal applied, 10× probe, read peak-to-peak',
+      captureFigure: 'vpp',
+    },
   ];
 }
 
@@ -181,13 +225,17 @@ export function sallenKeyFaults(settings: SallenKeySettings): readonly PartFault
     { role: 'C2', modes: ['open', 'short'], description: 'second capacitor, at the + input' },
   ];
   if (settings.hasGain) {
-    list.push({ role: 'Rf', modes: ['open', 'short'], description: 'gain resistor from the output to the − input' }, { role: 'Rg', modes: ['open', 'short'], description: 'gain resistor from the − input to ground' });
+    list.push(
+      { role: 'Rf', modes: ['open', 'short'], description: 'gain resistor from the output to the − input' },
+      { role: 'Rg', modes: ['open', 'short'], description: 'gain resistor from the − input to ground' },
+    );
   }
   return list;
 }
 
 export function sallenKeyHints(variant: SallenKeyVariant): Readonly<Record<string, readonly string[]>> {
-  const pass = variant === 'lowpass' ? 'C1 from node A to the output and C2 from + input to ground' : 'R1 from node A to the output and R2 from + input to ground';
+  const pass =
+    variant === 'lowpass' ? 'C1 from node A to the output and C2 from + input to ground' : 'R1 from node A to the output and R2 from + input to ground';
   return {
     f0: [
       'a capacitor a decade off (1n or 100n fitted for 10n): f0 moves by √10',

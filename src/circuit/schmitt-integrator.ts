@@ -127,33 +127,117 @@ function shortedCt(p: SchmittCircuit, variant: number): EvalOutput {
       square: { frequency: 0, samples: new Float64Array(defaultSamples).fill(level) },
       triangle: { frequency: 0, samples: new Float64Array(defaultSamples) },
     },
-    values: { freq: Number.NaN, 'square.vpp': 0, 'square.high': level, 'square.low': level, duty: Number.NaN, 'triangle.vpp': 0, 'triangle.peak': 0, 'freq.min': Number.NaN, 'freq.max': Number.NaN },
+    values: {
+      freq: Number.NaN,
+      'square.vpp': 0,
+      'square.high': level,
+      'square.low': level,
+      duty: Number.NaN,
+      'triangle.vpp': 0,
+      'triangle.peak': 0,
+      'freq.min': Number.NaN,
+      'freq.max': Number.NaN,
+    },
     warnings: [],
   };
 }
 
 function faults(settings: SchmittSettings): readonly PartFaults[] {
-  const words: Record<string, string> = { R1: 'hysteresis resistor', R2: 'feedback resistor', Rt: 'timing resistor', RV: 'frequency pot', Rz: 'zener feed resistor' };
+  const words: Record<string, string> = {
+    R1: 'hysteresis resistor',
+    R2: 'feedback resistor',
+    Rt: 'timing resistor',
+    RV: 'frequency pot',
+    Rz: 'zener feed resistor',
+  };
   const roles = resistorRoles.filter((r) => (r !== 'RV' || settings.hasPot) && (r !== 'Rz' || settings.hasClamp));
-  const list: PartFaults[] = [...resistorFaults(roles, words), { role: 'Ct', modes: ['open', 'short'], description: 'timing capacitor', variants: { short: ['square latched high', 'square latched low'] } }];
+  const list: PartFaults[] = [
+    ...resistorFaults(roles, words),
+    { role: 'Ct', modes: ['open', 'short'], description: 'timing capacitor', variants: { short: ['square latched high', 'square latched low'] } },
+  ];
   if (settings.hasClamp) {
-    list.push({ role: 'clamp', modes: ['reversed', 'open', 'short'], description: 'zener pair', variants: { reversed: ['high-side zener backwards', 'low-side zener backwards'] } });
+    list.push({
+      role: 'clamp',
+      modes: ['reversed', 'open', 'short'],
+      description: 'zener pair',
+      variants: { reversed: ['high-side zener backwards', 'low-side zener backwards'] },
+    });
   }
   return list;
 }
 
 const baseChecks: readonly CheckSpec[] = [
-  { key: 'freq', captureFigure: 'frequency', quantity: 'frequency', unit: 'Hz', output: 'square', instrument: 'counter', how: 'counter on the square test point, DC coupled; period mode below about 1 kHz' },
-  { key: 'square.vpp', captureFigure: 'vpp', quantity: 'square peak-to-peak', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, 10× probe, measure Vpp' },
-  { key: 'square.high', quantity: 'square high level', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, measure the top level' },
-  { key: 'square.low', quantity: 'square low level', unit: 'V', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, measure the base level' },
-  { key: 'duty', captureFigure: 'duty', quantity: 'duty cycle (high time / period)', unit: '1', output: 'square', instrument: 'scope', how: 'scope on the square test point, DC coupled, measure positive duty at the 50 % level' },
-  { key: 'triangle.vpp', captureFigure: 'vpp', quantity: 'triangle peak-to-peak', unit: 'V', output: 'triangle', instrument: 'scope', how: 'scope on the triangle test point, DC coupled, 10× probe, measure Vpp' },
+  {
+    key: 'freq',
+    captureFigure: 'frequency',
+    quantity: 'frequency',
+    unit: 'Hz',
+    output: 'square',
+    instrument: 'counter',
+    how: 'counter on the square test point, DC coupled; period mode below about 1 kHz',
+  },
+  {
+    key: 'square.vpp',
+    captureFigure: 'vpp',
+    quantity: 'square peak-to-peak',
+    unit: 'V',
+    output: 'square',
+    instrument: 'scope',
+    how: 'scope on the square test point, DC coupled, 10× probe, measure Vpp',
+  },
+  {
+    key: 'square.high',
+    quantity: 'square high level',
+    unit: 'V',
+    output: 'square',
+    instrument: 'scope',
+    how: 'scope on the square test point, DC coupled, measure the top level',
+  },
+  {
+    key: 'square.low',
+    quantity: 'square low level',
+    unit: 'V',
+    output: 'square',
+    instrument: 'scope',
+    how: 'scope on the square test point, DC coupled, measure the base level',
+  },
+  {
+    key: 'duty',
+    captureFigure: 'duty',
+    quantity: 'duty cycle (high time / period)',
+    unit: '1',
+    output: 'square',
+    instrument: 'scope',
+    how: 'scope on the square test point, DC coupled, measure positive duty at the 50 % level',
+  },
+  {
+    key: 'triangle.vpp',
+    captureFigure: 'vpp',
+    quantity: 'triangle peak-to-peak',
+    unit: 'V',
+    output: 'triangle',
+    instrument: 'scope',
+    how: 'scope on the triangle test point, DC coupled, 10× probe, measure Vpp',
+  },
 ];
 
 const potChecks: readonly CheckSpec[] = [
-  { key: 'freq.min', quantity: 'lowest frequency (RV all in)', unit: 'Hz', output: 'square', instrument: 'counter', how: 'turn RV to the slow end, read the counter on the square test point, then set RV back' },
-  { key: 'freq.max', quantity: 'highest frequency (RV shorted)', unit: 'Hz', output: 'square', instrument: 'counter', how: 'turn RV to the fast end, read the counter on the square test point, then set RV back' },
+  {
+    key: 'freq.min',
+    quantity: 'lowest frequency (RV all in)',
+    unit: 'Hz',
+    output: 'square',
+    instrument: 'counter',
+    how: 'turn RV to the slow end, read the counter on the square test point, then set RV back',
+  },
+  {
+    key: 'freq.max',
+    quantity: 'highest frequency (RV shorted)',
+    unit: 'Hz',
+    output: 'square',
+    instrument: 'counter',
+    how: 'turn RV to the fast end, read the counter on the square test point, then set RV back',
+  },
 ];
 
 const faultHints: Readonly<Record<string, readonly string[]>> = {
@@ -174,7 +258,11 @@ const faultHints: Readonly<Record<string, readonly string[]>> = {
   ],
   'square.high': ['positive rail low', 'upper zener of the wrong voltage or backwards', 'Rz too large for the load (clamp not reached)'],
   'square.low': ['negative rail low', 'lower zener of the wrong voltage or backwards', 'Rz too large for the load (clamp not reached)'],
-  duty: ['unequal rails (unclamped square): check both rail readings', 'one zener of another voltage', 'offset at the integrator or comparator input (leaky Ct, a resistor from a node to a rail)'],
+  duty: [
+    'unequal rails (unclamped square): check both rail readings',
+    'one zener of another voltage',
+    'offset at the integrator or comparator input (leaky Ct, a resistor from a node to a rail)',
+  ],
   'triangle.vpp': [
     'R1 or R2 wrong: triangle peak = square level × R1/R2',
     'square level wrong: check square.vpp first',

@@ -54,7 +54,11 @@ export function parseSchmitt(raw: RawStage, file: string): ParsedStage<SchmittSe
   const base = raw.path;
   const partsJson = objectAt(raw.json, 'parts', file, `${base}.parts`, '{ "R1": "10k 1%", "R2": "22k 1%", "Rt": "3k3 1%", "Ct": "22n 5%" }');
   if (!partsJson) {
-    throw new StageParseError(file, `${base}.parts`, 'missing; a schmitt-integrator needs R1, R2, Rt and Ct, e.g. { "R1": "10k 1%", "R2": "22k 1%", "Rt": "3k3 1%", "Ct": "22n 5%" }');
+    throw new StageParseError(
+      file,
+      `${base}.parts`,
+      'missing; a schmitt-integrator needs R1, R2, Rt and Ct, e.g. { "R1": "10k 1%", "R2": "22k 1%", "Rt": "3k3 1%", "Ct": "22n 5%" }',
+    );
   }
   const parts: Record<string, PartValue> = {};
   for (const key of Object.keys(partsJson)) {
@@ -85,7 +89,11 @@ export function parseSchmitt(raw: RawStage, file: string): ParsedStage<SchmittSe
       if (!hasPot) throw new StageParseError(file, path, `a setting is given but parts has no RV; add the pot, e.g. "RV": "10k 20%", or drop the setting`);
       const value = typeof setting === 'number' ? setting : typeof setting === 'string' ? Number(setting) : Number.NaN;
       if (!Number.isFinite(value) || value < 0 || value > 1) {
-        throw new StageParseError(file, path, `${JSON.stringify(setting)} is not a wiper setting; write a number from 0 (RV shorted) to 1 (all of RV in), e.g. 0.5`);
+        throw new StageParseError(
+          file,
+          path,
+          `${JSON.stringify(setting)} is not a wiper setting; write a number from 0 (RV shorted) to 1 (all of RV in), e.g. 0.5`,
+        );
       }
       pot = value;
     }
@@ -95,17 +103,25 @@ export function parseSchmitt(raw: RawStage, file: string): ParsedStage<SchmittSe
   if (clampJson) {
     for (const key of Object.keys(clampJson)) {
       if (key !== 'vz' && key !== 'vf' && key !== 'vz2' && key !== 'vf2') {
-        throw new StageParseError(file, `${base}.clamp.${key}`, 'is not a clamp value; write the zener voltage vz and the forward drop vf, e.g. { "vz": "3.9 V", "vf": "0.7 V" }, and for a pair of two different zeners the second one\'s vz2 (and vf2)');
+        throw new StageParseError(
+          file,
+          `${base}.clamp.${key}`,
+          'is not a clamp value; write the zener voltage vz and the forward drop vf, e.g. { "vz": "3.9 V", "vf": "0.7 V" }, and for a pair of two different zeners the second one\'s vz2 (and vf2)',
+        );
       }
     }
-    for (const [key, example] of [['vz', '"3.9 V 5%"'], ['vf', '"0.7 V"']] as const) {
+    for (const [key, example] of [
+      ['vz', '"3.9 V 5%"'],
+      ['vf', '"0.7 V"'],
+    ] as const) {
       const path = `${base}.clamp.${key}`;
       const value = clampJson[key];
       if (value === undefined) throw new StageParseError(file, path, `missing; the clamp needs vz and vf, e.g. "${key}": ${example}`);
       const part = positiveValue(value, 'V', example, file, path);
       // A zener written without a tolerance spreads as the common ±5 % selection of
       // small zener series does (the "C" grade; from memory of data sheets, common practice).
-      parts[`clamp.${key}`] = key === 'vz' && part.tol === 0 ? { ...part, tol: defaultZenerTol, text: `${part.text} ${defaultZenerTol * 100}% (default zener spread)` } : part;
+      parts[`clamp.${key}`] =
+        key === 'vz' && part.tol === 0 ? { ...part, tol: defaultZenerTol, text: `${part.text} ${defaultZenerTol * 100}% (default zener spread)` } : part;
     }
     // Two zeners, each with its own spread: `clamp.vz`/`clamp.vf` are the one in
     // breakdown at the high level (D1), `clamp.vz2`/`clamp.vf2` its partner (D2).
@@ -115,7 +131,10 @@ export function parseSchmitt(raw: RawStage, file: string): ParsedStage<SchmittSe
     // otherwise the partner is the same type, with its own spread.
     const vz = parts['clamp.vz'];
     const vf = parts['clamp.vf'];
-    for (const [key, same, example] of [['vz2', vz, '"4.3 V 5%"'], ['vf2', vf, '"0.7 V"']] as const) {
+    for (const [key, same, example] of [
+      ['vz2', vz, '"4.3 V 5%"'],
+      ['vf2', vf, '"0.7 V"'],
+    ] as const) {
       const value = clampJson[key];
       const own = value === undefined ? undefined : positiveValue(value, 'V', example, file, `${base}.clamp.${key}`);
       const part = own ?? same;

@@ -33,11 +33,7 @@ function v(x: number): string {
   return formatValue(x, 'V', { digits: 3 });
 }
 
-export function schmittWarnings(
-  p: SchmittCircuit,
-  t: SchmittTiming,
-  opts: { readonly hasClamp: boolean; readonly hasRz: boolean },
-): readonly StageWarning[] {
+export function schmittWarnings(p: SchmittCircuit, t: SchmittTiming, opts: { readonly hasClamp: boolean; readonly hasRz: boolean }): readonly StageWarning[] {
   let out: StageWarning[] | undefined;
   const add = (message: string) => (out ??= []).push({ message });
   const ratio = p.r1 / p.r2;
@@ -63,7 +59,9 @@ export function schmittWarnings(
   }
   const f = 1 / t.period;
   if (f > p.gbw / 10) {
-    add(`${formatValue(f, 'Hz', { digits: 3 })} is above about a tenth of the op-amp's gain-bandwidth (${formatValue(p.gbw, 'Hz', { digits: 3 })}): a general-purpose op-amp gives out here and the targets are only a guide.`);
+    add(
+      `${formatValue(f, 'Hz', { digits: 3 })} is above about a tenth of the op-amp's gain-bandwidth (${formatValue(p.gbw, 'Hz', { digits: 3 })}): a general-purpose op-amp gives out here and the targets are only a guide.`,
+    );
   }
   if (t.overdriveTime > overdriveShareLimit * t.period) {
     add(
@@ -78,7 +76,9 @@ export function schmittWarnings(
   }
   const slope = Math.max(t.squareHigh, -t.squareLow) / (p.r * p.c);
   if (slope > p.slew) {
-    add(`the triangle would ramp at ${formatValue(slope, 'V/s', { digits: 3 })}, faster than the integrator can slew (${formatValue(p.slew, 'V/s', { digits: 3 })}): the ramp is set by the op-amp, not by Rt and Ct; raise Rt or Ct.`);
+    add(
+      `the triangle would ramp at ${formatValue(slope, 'V/s', { digits: 3 })}, faster than the integrator can slew (${formatValue(p.slew, 'V/s', { digits: 3 })}): the ramp is set by the op-amp, not by Rt and Ct; raise Rt or Ct.`,
+    );
   }
   if (opts.hasClamp && t.clampReach <= 1) {
     const highOpen = t.squareHigh < p.vc;
@@ -89,7 +89,9 @@ export function schmittWarnings(
     );
   }
   if (opts.hasClamp && !opts.hasRz) {
-    add(`the clamp has no series resistor Rz: the zeners hold the comparator's output in current limit and it runs hot; fit Rz (e.g. "1k 5%") between the comparator and the square node.`);
+    add(
+      `the clamp has no series resistor Rz: the zeners hold the comparator's output in current limit and it runs hot; fit Rz (e.g. "1k 5%") between the comparator and the square node.`,
+    );
   }
   return out ?? none;
 }

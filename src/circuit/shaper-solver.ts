@@ -76,7 +76,15 @@ function makeScratch(size: number): Scratch {
  * `tolerance` is the last step's size that counts as settled, V.
  * Returns the number of Newton steps taken (for benchmarks).
  */
-export function solveNode(net: ShaperNet, vin: Float64Array, order: ArrayLike<number>, out: Float64Array, peaks?: Float64Array, slopes?: Float64Array, tolerance = stepTolerance): number {
+export function solveNode(
+  net: ShaperNet,
+  vin: Float64Array,
+  order: ArrayLike<number>,
+  out: Float64Array,
+  peaks?: Float64Array,
+  slopes?: Float64Array,
+  tolerance = stepTolerance,
+): number {
   let steps = 0;
   if (peaks) peaks.fill(0);
   const k = net.branches.length;
@@ -95,7 +103,12 @@ export function solveNode(net: ShaperNet, vin: Float64Array, order: ArrayLike<nu
   const il = net.il ?? 0;
   let v = 0;
   // The last three solved samples: inputs a1, a2, a3 (newest first) and node voltages.
-  let a1 = 0, a2 = 0, a3 = 0, v1 = 0, v2 = 0, v3 = 0;
+  let a1 = 0,
+    a2 = 0,
+    a3 = 0,
+    v1 = 0,
+    v2 = 0,
+    v3 = 0;
   let slope = 0;
   for (let j = 0; j < order.length; j++) {
     const idx = order[j] as number;
@@ -106,7 +119,9 @@ export function solveNode(net: ShaperNet, vin: Float64Array, order: ArrayLike<nu
         x[b] = junctionCeiling(net.branches[b]!.diodes, sign[b]! * (v - bias[b]!));
       }
     } else {
-      const d12 = a1 - a2, d13 = a1 - a3, d23 = a2 - a3;
+      const d12 = a1 - a2,
+        d13 = a1 - a3,
+        d23 = a2 - a3;
       if (j >= 3 && d12 !== 0 && d13 !== 0 && d23 !== 0) {
         // Lagrange weights for extrapolating to vi from the last three samples.
         const w1 = ((vi - a2) * (vi - a3)) / (d12 * d13);
@@ -184,8 +199,12 @@ export function solveNode(net: ShaperNet, vin: Float64Array, order: ArrayLike<nu
     // dv/dvin at the solution: the input conductance over the node's total conductance.
     slope = Number.isFinite(den) ? gs / den : 0;
     if (slopes) slopes[idx] = slope;
-    a3 = a2; a2 = a1; a1 = vi;
-    v3 = v2; v2 = v1; v1 = v;
+    a3 = a2;
+    a2 = a1;
+    a1 = vi;
+    v3 = v2;
+    v2 = v1;
+    v1 = v;
     for (let b = 0; b < k; b++) {
       x3[b] = x2[b]!;
       x2[b] = x1[b]!;

@@ -54,11 +54,35 @@ function evaluate(input: EvalInput<SignalInSettings>): EvalOutput {
 
 function checks(settings: SignalInSettings): readonly CheckSpec[] {
   const list: CheckSpec[] = [
-    { key: 'out.vpp', captureFigure: 'vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the input connector with the generator connected: generators that show amplitude into 50 Ω read double into a high-impedance input' },
-    { key: 'freq', captureFigure: 'frequency', quantity: 'frequency', unit: 'Hz', output: 'out', instrument: 'counter', how: 'counter or scope frequency readout at the input connector' },
+    {
+      key: 'out.vpp',
+      captureFigure: 'vpp',
+      quantity: 'peak-to-peak',
+      unit: 'V',
+      output: 'out',
+      instrument: 'scope',
+      how: 'scope at the input connector with the generator connected: generators that show amplitude into 50 Ω read double into a high-impedance input',
+    },
+    {
+      key: 'freq',
+      captureFigure: 'frequency',
+      quantity: 'frequency',
+      unit: 'Hz',
+      output: 'out',
+      instrument: 'counter',
+      how: 'counter or scope frequency readout at the input connector',
+    },
   ];
   if (settings.hasOffset) {
-    list.push({ key: 'out.dc', captureFigure: 'mean', quantity: 'DC offset', unit: 'V', output: 'out', instrument: 'meter', how: 'DC voltmeter (or the scope mean) at the input connector' });
+    list.push({
+      key: 'out.dc',
+      captureFigure: 'mean',
+      quantity: 'DC offset',
+      unit: 'V',
+      output: 'out',
+      instrument: 'meter',
+      how: 'DC voltmeter (or the scope mean) at the input connector',
+    });
   }
   return list;
 }
@@ -86,7 +110,10 @@ export const signalInKind: StageKind<SignalInSettings> = {
     const source = partAt(r, 'source', 'Ω', false, { positive: true, plausible: ohmRange, example: '"50 ohm 1%"' });
     if (source) parts['source'] = source;
     if (raw.json['parts'] !== undefined) onlyKeys(nested(r, 'parts'), []);
-    return { parts, settings: { shape: choiceAt(r, 'shape', ['sine', 'triangle', 'square'] as const), hasOffset: offset !== undefined, hasSource: source !== undefined } };
+    return {
+      parts,
+      settings: { shape: choiceAt(r, 'shape', ['sine', 'triangle', 'square'] as const), hasOffset: offset !== undefined, hasSource: source !== undefined },
+    };
   },
   checks,
   evaluate,

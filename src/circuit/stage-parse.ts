@@ -102,7 +102,11 @@ export function partAt(r: StageReader, key: string, unit: Unit, required: boolea
     throw new StageParseError(r.file, path, `${JSON.stringify(part.text)} must be above zero; write e.g. ${example}`);
   }
   if (rule.plausible && (part.nominal < rule.plausible[0] || part.nominal > rule.plausible[1])) {
-    throw new StageParseError(r.file, path, `${JSON.stringify(part.text)} reads as ${formatValue(part.nominal, unit)}, not a plausible value here; write e.g. ${example}`);
+    throw new StageParseError(
+      r.file,
+      path,
+      `${JSON.stringify(part.text)} reads as ${formatValue(part.nominal, unit)}, not a plausible value here; write e.g. ${example}`,
+    );
   }
   if (rule.nonNegative && part.nominal < 0) {
     throw new StageParseError(r.file, path, `${JSON.stringify(part.text)} must not be negative; write e.g. ${example}`);

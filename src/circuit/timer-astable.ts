@@ -104,9 +104,10 @@ function evaluate(input: EvalInput<TimerAstableSettings>): EvalOutput {
     const level = rail > 0 ? high : 0;
     if (!input.isTrial) {
       warnings.push({
-        message: rail > 0
-          ? `the timer does not run: the capacitor cannot charge to 2/3 of the rail (${formatValue((2 * rail) / 3, 'V')}), so the output stays high`
-          : `the timer needs a positive supply; rail ${JSON.stringify(input.settings.from)} is ${formatValue(rail, 'V')}`,
+        message:
+          rail > 0
+            ? `the timer does not run: the capacitor cannot charge to 2/3 of the rail (${formatValue((2 * rail) / 3, 'V')}), so the output stays high`
+            : `the timer needs a positive supply; rail ${JSON.stringify(input.settings.from)} is ${formatValue(rail, 'V')}`,
       });
     }
     return { outputs: { out: dc(level), cap: dc(0) }, values: { freq: 0, duty: 1, 'out.vpp': 0, 'cap.vpp': 0 }, warnings };
@@ -116,21 +117,57 @@ function evaluate(input: EvalInput<TimerAstableSettings>): EvalOutput {
   const { out, cap } = waves(t, rail, high, input.buffer);
   if (!input.isTrial) {
     if (rail < supplyRange[0] || rail > supplyRange[1]) {
-      warnings.push({ message: `the bipolar timer runs from ${formatValue(supplyRange[0], 'V')} to ${formatValue(supplyRange[1], 'V')}; rail ${JSON.stringify(input.settings.from)} is ${formatValue(rail, 'V')}` });
+      warnings.push({
+        message: `the bipolar timer runs from ${formatValue(supplyRange[0], 'V')} to ${formatValue(supplyRange[1], 'V')}; rail ${JSON.stringify(input.settings.from)} is ${formatValue(rail, 'V')}`,
+      });
     }
     const ra = input.parts['Ra'] ?? Number.NaN;
     if (rail / ra > 0.1 || input.fault?.role === 'Ra') {
-      warnings.push({ message: `while the output is low the discharge pin sinks ${formatValue(rail / Math.max(ra, shortOhms), 'A')} through Ra: keep Ra at 1 kΩ or more or the timer runs hot` });
+      warnings.push({
+        message: `while the output is low the discharge pin sinks ${formatValue(rail / Math.max(ra, shortOhms), 'A')} through Ra: keep Ra at 1 kΩ or more or the timer runs hot`,
+      });
     }
   }
   return { outputs: { out, cap }, values, warnings };
 }
 
 const checks: readonly CheckSpec[] = [
-  { key: 'freq', quantity: 'output frequency', unit: 'Hz', output: 'out', instrument: 'counter', how: 'counter or scope frequency readout at the timer output', captureFigure: 'frequency' },
-  { key: 'duty', quantity: 'output duty (fraction high)', unit: '1', output: 'out', instrument: 'scope', how: 'scope positive-duty readout at the timer output', captureFigure: 'duty' },
-  { key: 'out.vpp', quantity: 'output peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the timer output, DC coupled, read peak-to-peak', captureFigure: 'vpp' },
-  { key: 'cap.vpp', quantity: 'capacitor swing (1/3 to 2/3 of the rail)', unit: 'V', output: 'cap', instrument: 'scope', how: '10× probe on the timing capacitor (a 1× probe or a meter there slows the timer), read peak-to-peak', captureFigure: 'vpp' },
+  {
+    key: 'freq',
+    quantity: 'output frequency',
+    unit: 'Hz',
+    output: 'out',
+    instrument: 'counter',
+    how: 'counter or scope frequency readout at the timer output',
+    captureFigure: 'frequency',
+  },
+  {
+    key: 'duty',
+    quantity: 'output duty (fraction high)',
+    unit: '1',
+    output: 'out',
+    instrument: 'scope',
+    how: 'scope positive-duty readout at the timer output',
+    captureFigure: 'duty',
+  },
+  {
+    key: 'out.vpp',
+    quantity: 'output peak-to-peak',
+    unit: 'V',
+    output: 'out',
+    instrument: 'scope',
+    how: 'scope at the timer output, DC coupled, read peak-to-peak',
+    captureFigure: 'vpp',
+  },
+  {
+    key: 'cap.vpp',
+    quantity: 'capacitor swing (1/3 to 2/3 of the rail)',
+    unit: 'V',
+    output: 'cap',
+    instrument: 'scope',
+    how: '10× probe on the timing capacitor (a 1× probe or a meter there slows the timer), read peak-to-peak',
+    captureFigure: 'vpp',
+  },
 ];
 
 const faults = (): readonly PartFaults[] => [
@@ -161,7 +198,12 @@ export const timerAstableKind: StageKind<TimerAstableSettings> = {
       Rb: partAt(p, 'Rb', 'Ω', true, { positive: true, plausible: ohmRange, example: '"47k 1%"' }),
       // Above 1 F is a missing prefix or an RKM slip, not a timing capacitor.
       C: partAt(p, 'C', 'F', true, { positive: true, plausible: [1e-12, 1], example: '"10n 5%"' }),
-      vdrop: partAt(r, 'vdrop', 'V', false, { nonNegative: true, plausible: [0, 5], example: '"1.7 V"' }) ?? { nominal: 1.7, tol: 0, unit: 'V', text: '1.7 V (default)' },
+      vdrop: partAt(r, 'vdrop', 'V', false, { nonNegative: true, plausible: [0, 5], example: '"1.7 V"' }) ?? {
+        nominal: 1.7,
+        tol: 0,
+        unit: 'V',
+        text: '1.7 V (default)',
+      },
     };
     return { parts, settings: { from } };
   },

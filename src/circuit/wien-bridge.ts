@@ -30,7 +30,13 @@ export interface WienBridgeSettings {
  * (Loop equations of the non-inverting stage with finite gain, Sedra and
  * Smith; describing-function method for the amplitude.)
  */
-function loop(x: Readonly<Record<string, number>>, fault: StageFault | undefined, op: { aol: number; gbw: number }, f: number, out: { re: number; im: number }): void {
+function loop(
+  x: Readonly<Record<string, number>>,
+  fault: StageFault | undefined,
+  op: { aol: number; gbw: number },
+  f: number,
+  out: { re: number; im: number },
+): void {
   const w = 2 * Math.PI * f;
   const mode = (role: string) => (fault && fault.role === role ? fault.mode : undefined);
   const isOpen = (role: string) => mode(role) === 'open' || mode(role) === 'missing';
@@ -91,7 +97,11 @@ function evaluate(input: EvalInput<WienBridgeSettings>): EvalOutput {
   if (!(high > 0 && low < 0)) {
     // Single supply: the bridge here is referred to ground and needs the output to swing both ways.
     const why = `the op-amp's output reaches only ${formatValue(low, 'V')} … ${formatValue(high, 'V')}: a Wien bridge referred to ground needs a negative rail (a mid-rail bias is not modelled)`;
-    return { outputs: { out: { frequency: 0, samples: new Float64Array([Math.max(low, Math.min(high, 0))]) } }, values: { freq: Number.NaN, 'out.vpp': 0, 'out.thd': Number.NaN }, warnings: input.isTrial ? [] : [{ message: why }] };
+    return {
+      outputs: { out: { frequency: 0, samples: new Float64Array([Math.max(low, Math.min(high, 0))]) } },
+      values: { freq: Number.NaN, 'out.vpp': 0, 'out.thd': Number.NaN },
+      warnings: input.isTrial ? [] : [{ message: why }],
+    };
   }
   const path = gainPath(input, high, low);
   const nvt = thermalVoltage() * input.settings.diode.n;
@@ -133,9 +143,12 @@ function evaluate(input: EvalInput<WienBridgeSettings>): EvalOutput {
   }
   const target = bestRe > 0 ? 1 / bestRe : Number.POSITIVE_INFINITY;
   if (!(g0 > target)) {
-    return still(0, Number.isFinite(target)
-      ? `it will not start: the gain path gives ${g0.toPrecision(4)} at small signal but the bridge needs more than ${target.toPrecision(4)} (1 + R1/R2 + C2/C1 = ${needed.toPrecision(4)} with an ideal op-amp): raise Rf1 + Rf2 or lower Rg`
-      : 'it will not start: the bridge returns nothing to the + input');
+    return still(
+      0,
+      Number.isFinite(target)
+        ? `it will not start: the gain path gives ${g0.toPrecision(4)} at small signal but the bridge needs more than ${target.toPrecision(4)} (1 + R1/R2 + C2/C1 = ${needed.toPrecision(4)} with an ideal op-amp): raise Rf1 + Rf2 or lower Rg`
+        : 'it will not start: the bridge returns nothing to the + input',
+    );
   }
   // Amplitude at the (+) input where the describing gain falls to the target (log-axis root).
   const top = 2 * Math.max(Math.abs(high), Math.abs(low));
@@ -163,14 +176,26 @@ function evaluate(input: EvalInput<WienBridgeSettings>): EvalOutput {
   } else {
     // Far into slewing the balance may not settle: keep the describing-function answer, and say so.
     pathWave(shape, vp, out);
-    if (!isTrial) warnings.push({ message: 'the frequency and level are the first-harmonic estimate only: the output is far into slewing, and the real oscillator runs lower than shown' });
+    if (!isTrial)
+      warnings.push({
+        message: 'the frequency and level are the first-harmonic estimate only: the output is far into slewing, and the real oscillator runs lower than shown',
+      });
   }
   const limited = limitOutput(out, best, opamp, input.supplies, isTrial);
   if (!isTrial) {
-    const clips = (out.some((v) => v >= high - 1e-9) || out.some((v) => v <= low + 1e-9));
-    if (clips && !input.settings.hasLimiter) warnings.push({ message: `without Rf2 and its diodes nothing limits the amplitude but the op-amp's swing: the output clips at ${formatValue(low, 'V')} … ${formatValue(high, 'V')} and the sine is flattened; fit Rf2 with two antiparallel diodes across it` });
-    else if (clips && !fault) warnings.push({ message: `the diodes do not bring the gain back before the output reaches the rails (1 + Rf1/Rg = ${(1 + path.rf1 / path.rg).toPrecision(3)} is not below ${target.toPrecision(3)}): it clips; lower Rf1` });
-    if (!fault && g0 < target * 1.05) warnings.push({ message: `the start-up margin is thin (small-signal gain ${g0.toPrecision(4)} against ${target.toPrecision(4)} needed): with part tolerances some boards will not start` });
+    const clips = out.some((v) => v >= high - 1e-9) || out.some((v) => v <= low + 1e-9);
+    if (clips && !input.settings.hasLimiter)
+      warnings.push({
+        message: `without Rf2 and its diodes nothing limits the amplitude but the op-amp's swing: the output clips at ${formatValue(low, 'V')} … ${formatValue(high, 'V')} and the sine is flattened; fit Rf2 with two antiparallel diodes across it`,
+      });
+    else if (clips && !fault)
+      warnings.push({
+        message: `the diodes do not bring the gain back before the output reaches the rails (1 + Rf1/Rg = ${(1 + path.rf1 / path.rg).toPrecision(3)} is not below ${target.toPrecision(3)}): it clips; lower Rf1`,
+      });
+    if (!fault && g0 < target * 1.05)
+      warnings.push({
+        message: `the start-up margin is thin (small-signal gain ${g0.toPrecision(4)} against ${target.toPrecision(4)} needed): with part tolerances some boards will not start`,
+      });
     warnings.push(...limited.warnings);
   }
   // THD per DESIGN §4 (harmonics 2…50 over the fundamental), of the output as drawn: the diodes'
@@ -179,9 +204,34 @@ function evaluate(input: EvalInput<WienBridgeSettings>): EvalOutput {
 }
 
 const checks: readonly CheckSpec[] = [
-  { key: 'freq', quantity: 'frequency', unit: 'Hz', output: 'out', instrument: 'counter', how: 'counter or scope frequency readout at the oscillator output, 10× probe (a 1× probe loads the bridge)', captureFigure: 'frequency' },
-  { key: 'out.vpp', quantity: 'peak-to-peak', unit: 'V', output: 'out', instrument: 'scope', how: 'scope at the oscillator output once the amplitude has settled (a second or so), 10× probe, read peak-to-peak', captureFigure: 'vpp' },
-  { key: 'out.thd', quantity: 'total harmonic distortion', unit: '1', output: 'out', instrument: 'scope', how: 'distortion analyser, or a scope capture analysed for THD (harmonics 2 to 50): the limiting diodes leave a few per cent', captureFigure: 'thd', floor: 0 },
+  {
+    key: 'freq',
+    quantity: 'frequency',
+    unit: 'Hz',
+    output: 'out',
+    instrument: 'counter',
+    how: 'counter or scope frequency readout at the oscillator output, 10× probe (a 1× probe loads the bridge)',
+    captureFigure: 'frequency',
+  },
+  {
+    key: 'out.vpp',
+    quantity: 'peak-to-peak',
+    unit: 'V',
+    output: 'out',
+    instrument: 'scope',
+    how: 'scope at the oscillator output once the amplitude has settled (a second or so), 10× probe, read peak-to-peak',
+    captureFigure: 'vpp',
+  },
+  {
+    key: 'out.thd',
+    quantity: 'total harmonic distortion',
+    unit: '1',
+    output: 'out',
+    instrument: 'scope',
+    how: 'distortion analyser, or a scope capture analysed for THD (harmonics 2 to 50): the limiting diodes leave a few per cent',
+    captureFigure: 'thd',
+    floor: 0,
+  },
 ];
 
 function faults(settings: WienBridgeSettings): readonly PartFaults[] {
@@ -194,14 +244,18 @@ function faults(settings: WienBridgeSettings): readonly PartFaults[] {
     { role: 'Rf1', modes: ['open', 'short'], description: 'feedback resistor, output side' },
   ];
   if (settings.hasLimiter) {
-    list.push({ role: 'Rf2', modes: ['open', 'short'], description: 'feedback resistor the diodes sit across' }, { role: 'diodes', modes: ['open', 'short'], description: 'antiparallel limiting diode pair across Rf2' });
+    list.push(
+      { role: 'Rf2', modes: ['open', 'short'], description: 'feedback resistor the diodes sit across' },
+      { role: 'diodes', modes: ['open', 'short'], description: 'antiparallel limiting diode pair across Rf2' },
+    );
   }
   return list;
 }
 
 export const wienBridgeKind: StageKind<WienBridgeSettings> = {
   kind: 'wien-bridge',
-  summary: 'Wien-bridge sine oscillator: f0 1/(2π√(R1R2C1C2)) shifted by the op-amp gain-bandwidth, start-up check, amplitude where the diodes across Rf2 bring the loop gain back (clips without them)',
+  summary:
+    'Wien-bridge sine oscillator: f0 1/(2π√(R1R2C1C2)) shifted by the op-amp gain-bandwidth, start-up check, amplitude where the diodes across Rf2 bring the loop gain back (clips without them)',
   roles: [
     { role: 'R1', unit: 'Ω', description: 'series-arm resistor, output to + input (with C1)' },
     { role: 'C1', unit: 'F', description: 'series-arm capacitor' },
@@ -220,7 +274,14 @@ export const wienBridgeKind: StageKind<WienBridgeSettings> = {
     const res = (role: string, example: string) => partAt(p, role, 'Ω', true, { positive: true, plausible: ohmRange, example });
     // Above 1 F is a missing prefix or an RKM slip ("10k"), not a timing capacitor.
     const cap = (role: string) => partAt(p, role, 'F', true, { positive: true, plausible: [1e-15, 1], example: '"10n 5%"' });
-    const parts: Record<string, PartValue> = { R1: res('R1', '"15k 1%"'), C1: cap('C1'), R2: res('R2', '"15k 1%"'), C2: cap('C2'), Rg: res('Rg', '"10k 1%"'), Rf1: res('Rf1', '"15k 1%"') };
+    const parts: Record<string, PartValue> = {
+      R1: res('R1', '"15k 1%"'),
+      C1: cap('C1'),
+      R2: res('R2', '"15k 1%"'),
+      C2: cap('C2'),
+      Rg: res('Rg', '"10k 1%"'),
+      Rf1: res('Rf1', '"15k 1%"'),
+    };
     const rf2 = partAt(p, 'Rf2', 'Ω', false, { positive: true, plausible: ohmRange, example: '"10k 1%"' });
     if (rf2) parts['Rf2'] = rf2;
     const diode = parseDiodeModel(r);

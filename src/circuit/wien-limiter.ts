@@ -163,7 +163,12 @@ export function pathFunction(p: WienGainPath, nvt: number, vmax: number, points 
     const t = (x - x0) / h;
     const t2 = t * t;
     const t3 = t2 * t;
-    return (2 * t3 - 3 * t2 + 1) * (ys[lo] as number) + (t3 - 2 * t2 + t) * h * (ds[lo] as number) + (-2 * t3 + 3 * t2) * (ys[hi] as number) + (t3 - t2) * h * (ds[hi] as number);
+    return (
+      (2 * t3 - 3 * t2 + 1) * (ys[lo] as number) +
+      (t3 - 2 * t2 + t) * h * (ds[lo] as number) +
+      (-2 * t3 + 3 * t2) * (ys[hi] as number) +
+      (t3 - t2) * h * (ds[hi] as number)
+    );
   };
   return (v) => clip(v, v < 0 ? -unclipped(-v) : unclipped(v));
 }

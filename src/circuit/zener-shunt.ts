@@ -58,7 +58,7 @@ function solve(input: EvalInput<ZenerShuntSettings>): Solution {
     else if (!(fault?.role === 'Rload' && fault.mode === 'open')) gLoad += 1 / rl;
   }
   const gs = Number.isFinite(rs) ? 1 / rs : 0;
-  if (fault?.role === 'Z' && fault.mode === 'short') return { v: 0, iz: (rail * gs), rail, rs, isConducting: true };
+  if (fault?.role === 'Z' && fault.mode === 'short') return { v: 0, iz: rail * gs, rail, rs, isConducting: true };
   // Thevenin equivalent of the rail, Rs and the loads, seen by the zener.
   const gth = gs + gLoad;
   const vth = gth > 0 ? (rail * gs) / gth : 0;
@@ -109,7 +109,9 @@ function evaluate(input: EvalInput<ZenerShuntSettings>): EvalOutput {
     });
   }
   if (pz > zenerPowerWarn) {
-    warnings.push({ message: `the zener dissipates ${formatValue(pz, 'W')}: a small glass zener is rated about 0.5 W; it runs hot, so let it cool before touching it` });
+    warnings.push({
+      message: `the zener dissipates ${formatValue(pz, 'W')}: a small glass zener is rated about 0.5 W; it runs hot, so let it cool before touching it`,
+    });
   }
   const prs = Number.isFinite(s.rs) ? (s.rail - s.v) ** 2 / s.rs : 0;
   if (prs > resistorPowerWarn) {
@@ -131,9 +133,30 @@ function sourceResistance(x: ImpedanceInput<ZenerShuntSettings>): number {
 }
 
 const checks: readonly CheckSpec[] = [
-  { key: 'out.dc', quantity: 'zener voltage', unit: 'V', output: 'out', instrument: 'meter', how: 'DC voltmeter from the zener cathode to ground, the load connected', captureFigure: 'mean' },
-  { key: 'iz', quantity: 'zener current', unit: 'A', instrument: 'meter', how: 'the drop across Rs over Rs, less what the load takes (output voltage over Rload); never break the circuit to insert an ammeter with the power on' },
-  { key: 'pz', quantity: 'zener dissipation', unit: 'W', instrument: 'meter', how: 'design figure: zener voltage × zener current; not probed', isDesignFigure: true },
+  {
+    key: 'out.dc',
+    quantity: 'zener voltage',
+    unit: 'V',
+    output: 'out',
+    instrument: 'meter',
+    how: 'DC voltmeter from the zener cathode to ground, the load connected',
+    captureFigure: 'mean',
+  },
+  {
+    key: 'iz',
+    quantity: 'zener current',
+    unit: 'A',
+    instrument: 'meter',
+    how: 'the drop across Rs over Rs, less what the load takes (output voltage over Rload); never break the circuit to insert an ammeter with the power on',
+  },
+  {
+    key: 'pz',
+    quantity: 'zener dissipation',
+    unit: 'W',
+    instrument: 'meter',
+    how: 'design figure: zener voltage × zener current; not probed',
+    isDesignFigure: true,
+  },
 ];
 
 function faults(settings: ZenerShuntSettings): readonly PartFaults[] {
@@ -166,8 +189,18 @@ export const zenerShuntKind: StageKind<ZenerShuntSettings> = {
     const parts: Record<string, PartValue> = {
       Rs: partAt(p, 'Rs', 'Ω', true, { positive: true, plausible: ohmRange, example: '"1k 5%"' }),
       vz: partAt(r, 'vz', 'V', true, { positive: true, plausible: [1.8, 200], example: '"5.1 V 5%"' }),
-      rz: partAt(r, 'rz', 'Ω', false, { positive: true, plausible: [0.01, 1e4], example: '"5 ohm"' }) ?? { nominal: 5, tol: 0, unit: 'Ω', text: '5 ohm (default)' },
-      izmin: partAt(r, 'izmin', 'A', false, { nonNegative: true, plausible: [0, 1], example: '"1 mA"' }) ?? { nominal: 1e-3, tol: 0, unit: 'A', text: '1 mA (default)' },
+      rz: partAt(r, 'rz', 'Ω', false, { positive: true, plausible: [0.01, 1e4], example: '"5 ohm"' }) ?? {
+        nominal: 5,
+        tol: 0,
+        unit: 'Ω',
+        text: '5 ohm (default)',
+      },
+      izmin: partAt(r, 'izmin', 'A', false, { nonNegative: true, plausible: [0, 1], example: '"1 mA"' }) ?? {
+        nominal: 1e-3,
+        tol: 0,
+        unit: 'A',
+        text: '1 mA (default)',
+      },
     };
     const rload = partAt(p, 'Rload', 'Ω', false, { positive: true, plausible: ohmRange, example: '"4k7 5%"' });
     if (rload) parts['Rload'] = rload;

@@ -16,7 +16,9 @@ function positive(value: string | boolean | undefined, name: string, unit: 's' |
   if (value === undefined) return undefined;
   const parsed = typeof value === 'string' ? parseValue(value, { expected: unit, allowTolerance: false }) : undefined;
   if (!parsed?.ok || !(parsed.value > 0) || !Number.isFinite(parsed.value)) {
-    throw new UsageError(`--${name} takes a positive ${unit === 's' ? 'time' : 'voltage'}, e.g. ${example}; got ${typeof value === 'string' ? quoteTyped(value) : String(value)}`);
+    throw new UsageError(
+      `--${name} takes a positive ${unit === 's' ? 'time' : 'voltage'}, e.g. ${example}; got ${typeof value === 'string' ? quoteTyped(value) : String(value)}`,
+    );
   }
   return parsed.value;
 }
@@ -74,11 +76,30 @@ export const analyzeCommand: Command = async (argv, io) => {
   if (mismatch) io.stderr(`probebook: warning: ${mismatch.message}\n`);
   if (options.json) {
     const out = {
-      samples: m.samples, sampleRate: m.sampleRate, frequency: m.frequency, vpp: m.vpp, vrms: m.vrms, vrmsAc: m.vrmsAc,
-      mean: m.mean, duty: m.duty, rise: m.rise, fall: m.fall, thd: m.thd, shape: m.shape,
-      overshoot: m.overshoot, clipped: m.clipped, notch: m.notch, notchTime: m.notchTime, min: m.min, max: m.max,
-      crestFactor: m.crestFactor, formFactor: m.formFactor, periods: m.periods, window: m.window,
-      channel: analyzed.channel.name, source: analyzed.capture.source,
+      samples: m.samples,
+      sampleRate: m.sampleRate,
+      frequency: m.frequency,
+      vpp: m.vpp,
+      vrms: m.vrms,
+      vrmsAc: m.vrmsAc,
+      mean: m.mean,
+      duty: m.duty,
+      rise: m.rise,
+      fall: m.fall,
+      thd: m.thd,
+      shape: m.shape,
+      overshoot: m.overshoot,
+      clipped: m.clipped,
+      notch: m.notch,
+      notchTime: m.notchTime,
+      min: m.min,
+      max: m.max,
+      crestFactor: m.crestFactor,
+      formFactor: m.formFactor,
+      periods: m.periods,
+      window: m.window,
+      channel: analyzed.channel.name,
+      source: analyzed.capture.source,
       ...(expect ? { expect, mismatch: mismatch ? mismatch.message : null } : {}),
       warnings: m.warnings,
     };

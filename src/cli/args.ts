@@ -93,6 +93,7 @@ function cut(text: string): string {
 export function intOption(value: string | boolean | undefined, name: string, fallback: number, min: number, max: number): number {
   if (value === undefined) return fallback;
   const n = typeof value === 'string' && /^\d+$/.test(value.trim()) ? Number(value) : Number.NaN;
-  if (!Number.isSafeInteger(n) || n < min || n > max) throw new UsageError(`--${name} takes a whole number from ${min} to ${max}, got ${JSON.stringify(value)}`);
+  if (!Number.isSafeInteger(n) || n < min || n > max)
+    throw new UsageError(`--${name} takes a whole number from ${min} to ${max}, got ${JSON.stringify(value)}`);
   return n;
 }

@@ -34,7 +34,8 @@ function filterFromOptions(options: ParsedArgs['options']): BatchFilter {
     return ms;
   };
   const rev = text('rev');
-  if (rev !== undefined && !/^[0-9a-f]{4,64}$/i.test(rev)) throw new UsageError(`--rev ${JSON.stringify(rev)} is not a plan hash; give at least 4 hex digits of it (history shows them)`);
+  if (rev !== undefined && !/^[0-9a-f]{4,64}$/i.test(rev))
+    throw new UsageError(`--rev ${JSON.stringify(rev)} is not a plan hash; give at least 4 hex digits of it (history shows them)`);
   const filter: BatchFilter = {
     ...(text('plan') === undefined ? {} : { plan: text('plan') as string }),
     ...(rev === undefined ? {} : { revision: rev.toLowerCase() }),
@@ -65,19 +66,19 @@ function checkFilterAgainstIndex(index: LogIndex, filter: BatchFilter, dir: stri
   const boards = Object.values(index.boards);
   if (filter.plan !== undefined && !boards.some((b) => b.plan === filter.plan)) {
     const plans = [...new Set(boards.map((b) => b.plan).filter((p): p is string => p !== null))].sort();
-    throw new UsageError(`no boards of plan ${JSON.stringify(filter.plan)} in the log ${dir}; ${plans.length ? `plans there: ${plans.slice(0, 8).join(', ')}` : 'it has no runs yet'}`);
+    throw new UsageError(
+      `no boards of plan ${JSON.stringify(filter.plan)} in the log ${dir}; ${plans.length ? `plans there: ${plans.slice(0, 8).join(', ')}` : 'it has no runs yet'}`,
+    );
   }
   if (filter.check !== undefined && !hasCheck(index, filter.check)) {
-    throw new UsageError(`no readings of check ${JSON.stringify(filter.check)} in the log ${dir}; check ids look like osc.freq or rails.+12V.dc (targets PLAN lists them)`);
+    throw new UsageError(
+      `no readings of check ${JSON.stringify(filter.check)} in the log ${dir}; check ids look like osc.freq or rails.+12V.dc (targets PLAN lists them)`,
+    );
   }
 }
 
 /** Read the index, load the bands of the revisions it selects, and compute the figures. */
-async function loadBatch(
-  index: LogIndex,
-  bands: BandSource,
-  filter: BatchFilter,
-): Promise<BatchFigures> {
+async function loadBatch(index: LogIndex, bands: BandSource, filter: BatchFilter): Promise<BatchFigures> {
   const snapshots = await bands.load(revisionsOf(index, filter));
   return batchFigures(index, snapshots, filter, bands.problems());
 }
@@ -91,13 +92,16 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
   // A review only reads: a mistyped --log must not leave an empty log behind.
   const log = await openStore(dir, { mustExist: true });
   let shown = 0;
-  const index = await log.readIndex((done, total) => {
-    // A rebuild of thousands of boards takes a while: say so every tenth.
-    if (total >= 500 && (done === total || done - shown >= total / 10)) {
-      shown = done;
-      io.stderr(`reading board files for the index: ${done} of ${total}\n`);
-    }
-  }, { verify: true });
+  const index = await log.readIndex(
+    (done, total) => {
+      // A rebuild of thousands of boards takes a while: say so every tenth.
+      if (total >= 500 && (done === total || done - shown >= total / 10)) {
+        shown = done;
+        io.stderr(`reading board files for the index: ${done} of ${total}\n`);
+      }
+    },
+    { verify: true },
+  );
   checkFilterAgainstIndex(index, filter, log.dir);
   let said = -1;
   const bands = planBandSource(log, cache, (hash, done, total) => {
@@ -115,15 +119,21 @@ export async function runBatch(options: ParsedArgs['options'], io: CommandIo): P
 function batchTable(f: BatchFigures, filter: BatchFilter): string {
   const lines: string[] = [];
   const leftOut = f.problems.filter((p) => p.serial !== undefined).length;
-  lines.push(`batch · ${describeFilter(filter)} · ${f.boards} board${f.boards === 1 ? '' : 's'}${f.incomplete ? ` (${f.incomplete} not through every check)` : ''}${leftOut ? ` · ${leftOut} left out (damaged board file${leftOut === 1 ? '' : 's'}, see the warnings)` : ''}`);
-  lines.push(`first-pass yield ${formatPercent(f.firstPassYield)} (${f.firstPassBoards}/${f.boards}) · final yield ${formatPercent(f.finalYield)} (${f.finalPassBoards}/${f.boards})`);
+  lines.push(
+    `batch · ${describeFilter(filter)} · ${f.boards} board${f.boards === 1 ? '' : 's'}${f.incomplete ? ` (${f.incomplete} not through every check)` : ''}${leftOut ? ` · ${leftOut} left out (damaged board file${leftOut === 1 ? '' : 's'}, see the warnings)` : ''}`,
+  );
+  lines.push(
+    `first-pass yield ${formatPercent(f.firstPassYield)} (${f.firstPassBoards}/${f.boards}) · final yield ${formatPercent(f.finalYield)} (${f.finalPassBoards}/${f.boards})`,
+  );
   if (f.checks.length === 0) {
     lines.push('no readings match; widen the filter or record some readings first');
     for (const p of f.problems) lines.push(`warning: ${p.message}`);
     return `${lines.join('\n')}\n`;
   }
   lines.push('');
-  lines.push(`${padCell('check (weakest first)', 24)}${padCellRight('n', 7)}${padCellRight('pass', 7)}${padCellRight('marg', 7)}${padCellRight('fail', 7)}${padCellRight('final', 8)}${padCellRight('mean', 12)}${padCellRight('sd', 11)}${padCellRight('Cp', 6)}${padCellRight('Cpk', 6)}  capability`);
+  lines.push(
+    `${padCell('check (weakest first)', 24)}${padCellRight('n', 7)}${padCellRight('pass', 7)}${padCellRight('marg', 7)}${padCellRight('fail', 7)}${padCellRight('final', 8)}${padCellRight('mean', 12)}${padCellRight('sd', 11)}${padCellRight('Cp', 6)}${padCellRight('Cpk', 6)}  capability`,
+  );
   for (const c of [...f.checks].sort(weakestFirst)) {
     const word = c.status === 'ok' || c.status === 'one-sided' ? cpkWord(c.cpk) : c.status === 'no-band' ? 'no band' : 'not enough data';
     lines.push(

@@ -29,7 +29,11 @@ export function pickRun(board: BoardFile, wanted: string | undefined): Run {
     const matches = exact ? [exact] : board.runs.filter((r) => r.id.startsWith(wanted));
     if (matches.length === 1 && matches[0]) return matches[0];
     const ids = board.runs.map((r) => r.id).join(', ') || 'none';
-    throw new UsageError(matches.length > 1 ? `--run ${wanted} matches several runs of ${board.serial}; give more of the id (runs: ${ids})` : `board ${board.serial} has no run ${wanted}; its runs are ${ids}`);
+    throw new UsageError(
+      matches.length > 1
+        ? `--run ${wanted} matches several runs of ${board.serial}; give more of the id (runs: ${ids})`
+        : `board ${board.serial} has no run ${wanted}; its runs are ${ids}`,
+    );
   }
   const withReadings = [...board.runs].reverse().find((r) => board.readings.some((x) => x.run === r.id));
   const run = withReadings ?? board.runs[board.runs.length - 1];
@@ -85,12 +89,18 @@ export function diagnosisText(serial: string, run: Run, d: Diagnosis, readings: 
   if (d.unexplained.length > 0) lines.push('', `unexplained by any single fault: ${d.unexplained.join(', ')}`);
   if (d.next) lines.push('', `next check: ${d.next.why}`);
   // The hints of the unexplained readings first; a few lines, the JSON has them all.
-  const hints = [...d.hints].filter((h) => h.hints.length > 0).sort((a, b) => Number(d.unexplained.includes(b.check)) - Number(d.unexplained.includes(a.check))).slice(0, 4);
+  const hints = [...d.hints]
+    .filter((h) => h.hints.length > 0)
+    .sort((a, b) => Number(d.unexplained.includes(b.check)) - Number(d.unexplained.includes(a.check)))
+    .slice(0, 4);
   if (hints.length > 0) {
     lines.push('', 'fault hints (not verified against the readings):');
     for (const h of hints) lines.push(`  ${h.check}: ${h.hints.slice(0, 3).join('; ')}`);
   }
-  lines.push('', 'caution: power off and let the capacitors discharge before any rework; output transistors and regulators may be hot. Follow local codes and your site\'s practice.');
+  lines.push(
+    '',
+    "caution: power off and let the capacitors discharge before any rework; output transistors and regulators may be hot. Follow local codes and your site's practice.",
+  );
   return `${lines.join('\n')}\n`;
 }
 
@@ -102,7 +112,11 @@ async function planOf(log: { readPlanSnapshot(hash: string): Promise<string | nu
 
 /** `probebook diagnose SERIAL` (DESIGN §5a, §7). */
 export const diagnoseCommand: Command = async (argv, io: CommandIo) => {
-  const args = parseArgs(argv, { options: { json: 'boolean', log: 'string', cache: 'string', help: 'boolean', run: 'string', top: 'string' }, positionals: [0, 1], usage });
+  const args = parseArgs(argv, {
+    options: { json: 'boolean', log: 'string', cache: 'string', help: 'boolean', run: 'string', top: 'string' },
+    positionals: [0, 1],
+    usage,
+  });
   if (args.options.help) {
     io.stdout(help);
     return 0;
@@ -123,7 +137,13 @@ export const diagnoseCommand: Command = async (argv, io: CommandIo) => {
     plan = await planOf(log, run);
     const source = planBandSource(log, cache);
     bands = await source.get(run.planHash);
-    if (!bands) throw new Error(`the targets of plan ${run.plan} (${run.planHash.slice(0, 12)}) could not be computed: ${source.problems().map((p) => p.message).join('; ')}`);
+    if (!bands)
+      throw new Error(
+        `the targets of plan ${run.plan} (${run.planHash.slice(0, 12)}) could not be computed: ${source
+          .problems()
+          .map((p) => p.message)
+          .join('; ')}`,
+      );
   } finally {
     // Everything is read: a shared (PostgreSQL) log lets its connections go.
     await log.close();

@@ -19,7 +19,11 @@ import { bandWords, closeMatches, deviationWords, readingJson } from './record.j
 const usage = 'probebook history SERIAL [--json] [--log DIR] [--cache DIR]';
 
 /** Open the log and read one board, or a UsageError naming the log and the boards close to the serial. */
-export async function loadBoard(serial: string, logFlag: string | boolean | undefined, io: CommandIo): Promise<{ log: LogStore; board: BoardFile; dir: string }> {
+export async function loadBoard(
+  serial: string,
+  logFlag: string | boolean | undefined,
+  io: CommandIo,
+): Promise<{ log: LogStore; board: BoardFile; dir: string }> {
   const problem = validateSerial(serial);
   if (problem) throw new UsageError(problem);
   const dir = resolveLogDir(logFlag, io.env);
@@ -28,12 +32,21 @@ export async function loadBoard(serial: string, logFlag: string | boolean | unde
   if (board) return { log, board, dir: log.dir };
   const known = Object.keys((await log.readIndex()).boards);
   const close = closeMatches(serial, known);
-  const hint = known.length === 0 ? 'the log has no boards yet (record a reading first, or pass --log DIR)' : close.length > 0 ? `close ones: ${close.join(', ')}` : `it has ${known.length} board${known.length === 1 ? '' : 's'}, e.g. ${known.slice(0, 3).join(', ')}`;
+  const hint =
+    known.length === 0
+      ? 'the log has no boards yet (record a reading first, or pass --log DIR)'
+      : close.length > 0
+        ? `close ones: ${close.join(', ')}`
+        : `it has ${known.length} board${known.length === 1 ? '' : 's'}, e.g. ${known.slice(0, 3).join(', ')}`;
   throw new UsageError(`no board ${serial} in ${log.dir}; ${hint}`);
 }
 
 /** The targets of every plan revision a board used, by hash (warnings for snapshots that would not load). */
-export async function boardBands(log: Pick<BenchLog, 'readPlanSnapshot'>, board: BoardFile, cache: TargetsCache): Promise<{ bands: ReadonlyMap<string, SnapshotBands>; problems: string[] }> {
+export async function boardBands(
+  log: Pick<BenchLog, 'readPlanSnapshot'>,
+  board: BoardFile,
+  cache: TargetsCache,
+): Promise<{ bands: ReadonlyMap<string, SnapshotBands>; problems: string[] }> {
   const source = planBandSource(log, cache);
   const bands = await source.load(boardHashes(board));
   return { bands, problems: source.problems().map((p) => p.message) };
@@ -68,7 +81,11 @@ export function historyText(board: BoardFile, bands: ReadonlyMap<string, Snapsho
   for (const entry of timelineOf(board, bands)) {
     if (entry.kind === 'run') {
       const r = entry.run;
-      rows.push({ at: r.started, order: 0, text: `run ${runNumber.get(r.id)} (${r.id}) started by ${r.operator}, plan ${r.plan} rev ${r.planHash.slice(0, 8)}` });
+      rows.push({
+        at: r.started,
+        order: 0,
+        text: `run ${runNumber.get(r.id)} (${r.id}) started by ${r.operator}, plan ${r.plan} rev ${r.planHash.slice(0, 8)}`,
+      });
       if (r.ended) rows.push({ at: r.ended, order: 4, text: `run ${runNumber.get(r.id)} ended: ${r.outcome}` });
     } else if (entry.kind === 'reading') {
       const r = entry.reading;
@@ -76,7 +93,11 @@ export function historyText(board: BoardFile, bands: ReadonlyMap<string, Snapsho
       const band = t ? `band ${bandWords(t.worst, t.unit)}` : 'band unknown (plan snapshot missing)';
       const deviation = deviationWords(r.value, entry.deviation);
       const dev = deviation ? `, ${deviation}` : '';
-      rows.push({ at: r.at, order: 3, text: `  ${r.verdict.toUpperCase().padEnd(8)} ${r.check} = ${formatValue(r.value, r.unit)} (${r.instrument ? `from ${r.instrument.name}, answered` : r.capture ? 'from a capture,' : 'typed'} ${JSON.stringify(r.raw)}, ${r.operator}); ${band}${dev}` });
+      rows.push({
+        at: r.at,
+        order: 3,
+        text: `  ${r.verdict.toUpperCase().padEnd(8)} ${r.check} = ${formatValue(r.value, r.unit)} (${r.instrument ? `from ${r.instrument.name}, answered` : r.capture ? 'from a capture,' : 'typed'} ${JSON.stringify(r.raw)}, ${r.operator}); ${band}${dev}`,
+      });
       for (const w of r.warnings ?? []) rows.push({ at: r.at, order: 3, text: `           warning: ${w}` });
     } else if (entry.kind === 'rework') {
       const w = entry.rework;
@@ -97,7 +118,15 @@ export function historyText(board: BoardFile, bands: ReadonlyMap<string, Snapsho
 export function historyJson(board: BoardFile) {
   return {
     serial: board.serial,
-    runs: board.runs.map((r) => ({ id: r.id, started: r.started, ended: r.ended, operator: r.operator, outcome: r.outcome, plan: r.plan, planHash: r.planHash })),
+    runs: board.runs.map((r) => ({
+      id: r.id,
+      started: r.started,
+      ended: r.ended,
+      operator: r.operator,
+      outcome: r.outcome,
+      plan: r.plan,
+      planHash: r.planHash,
+    })),
     readings: board.readings.map(readingJson),
     rework: board.rework.map((w) => ({ at: w.at, part: w.part, from: w.from, to: w.to, note: w.note, operator: w.operator, run: w.run })),
     captures: board.captures.map((k) => ({ file: k.file, name: k.name, at: k.at, check: k.check, run: k.run })),

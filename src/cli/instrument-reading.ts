@@ -28,7 +28,9 @@ export async function readFromInstrument(name: string, fileFlag: string | undefi
   const file = await loadInstruments(instrumentsPath(fileFlag, io.env, io.cwd));
   if (!file.instruments.some((i) => i.name === name)) {
     const names = file.instruments.map((i) => i.name);
-    throw new UsageError(`--from ${JSON.stringify(name)}: no such instrument in ${file.file}; ${names.length ? `it has ${names.join(', ')}` : 'it lists none'}; nothing was saved`);
+    throw new UsageError(
+      `--from ${JSON.stringify(name)}: no such instrument in ${file.file}; ${names.length ? `it has ${names.join(', ')}` : 'it lists none'}; nothing was saved`,
+    );
   }
   const session = new BenchSession(file);
   const source = sessionSource({ ...file, instruments: file.instruments.filter((i) => i.name === name) }, session);
@@ -44,9 +46,15 @@ export async function readFromInstrument(name: string, fileFlag: string | undefi
       } catch (error) {
         throw new InstrumentError(name, `record cannot be measured: ${error instanceof Error ? error.message : String(error)}`);
       }
-      if (value === null || !Number.isFinite(value)) throw new InstrumentError(name, `record gives no ${figure} for ${target.check} (check the trigger and the time base)`);
+      if (value === null || !Number.isFinite(value))
+        throw new InstrumentError(name, `record gives no ${figure} for ${target.check} (check the trigger and the time base)`);
       const captureName = `${name}-${target.check}.csv`;
-      return { value, raw: `${figure} ${formatValue(value, target.unit)} from ${name}'s record`, instrument: record.instrument, capture: { name: captureName, bytes: captureCsv(record.samples, record.sampleRate) } };
+      return {
+        value,
+        raw: `${figure} ${formatValue(value, target.unit)} from ${name}'s record`,
+        instrument: record.instrument,
+        capture: { name: captureName, bytes: captureCsv(record.samples, record.sampleRate) },
+      };
     }
     const reading = await session.readCheck(session.instrument(name), target.check, target.unit);
     return { value: reading.value, raw: reading.isOverload ? `OL (${reading.raw})` : reading.raw, instrument: reading.instrument };

@@ -26,7 +26,10 @@ export function simulatedValue(t: Target, normal: () => number): number {
 
 /** SCPI numbers as a meter sends them (NR3, 6 significant digits). */
 function nr3(value: number): string {
-  return value.toExponential(5).toUpperCase().replace(/E([+-])(\d)$/, 'E$10$2');
+  return value
+    .toExponential(5)
+    .toUpperCase()
+    .replace(/E([+-])(\d)$/, 'E$10$2');
 }
 
 /** The plan's last stage output with a waveform, as 8-bit codes over three periods. */
@@ -102,7 +105,17 @@ export async function simulateBench(options: Readonly<Record<string, string | bo
   const file = {
     instruments: [
       { name: 'sim-meter', address, timeout: '2 s', queries: Object.fromEntries(targets.map((t) => [t.check, `SIM:MEAS? ${t.check}`])) },
-      ...(record ? [{ name: 'sim-scope', address, timeout: '2 s', queries: {}, capture: { data: 'WAV:DATA?', format: 'int8', xincrement: 'WAV:XINC?', yscale: 'WAV:YINC?', yoffset: 'WAV:YOR?' } }] : []),
+      ...(record
+        ? [
+            {
+              name: 'sim-scope',
+              address,
+              timeout: '2 s',
+              queries: {},
+              capture: { data: 'WAV:DATA?', format: 'int8', xincrement: 'WAV:XINC?', yscale: 'WAV:YINC?', yoffset: 'WAV:YOR?' },
+            },
+          ]
+        : []),
     ],
   };
   if (typeof options.write === 'string') {
@@ -111,7 +124,9 @@ export async function simulateBench(options: Readonly<Record<string, string | bo
     io.stdout(`instruments file written to ${path}\n`);
   }
   io.stdout(`simulated bench for plan ${plan.plan} at ${address} (invented values near the targets; not a real board)\n`);
-  io.stdout(`try: probebook record --plan ${String(options.simulate)} --board SIM-1 --check ${targets[0]?.check ?? 'ID'} --from sim-meter${typeof options.write === 'string' ? ` --instruments ${options.write}` : ''}\n`);
+  io.stdout(
+    `try: probebook record --plan ${String(options.simulate)} --board SIM-1 --check ${targets[0]?.check ?? 'ID'} --from sim-meter${typeof options.write === 'string' ? ` --instruments ${options.write}` : ''}\n`,
+  );
   io.stdout('Ctrl-C stops it.\n');
   await new Promise<void>((done) => {
     const stop = () => {

@@ -96,7 +96,8 @@ export const logCommand: Command = async (argv, io) => {
         io.stdout(`copied ${from.dir} → ${to.dir}: ${serials.length} board${serials.length === 1 ? '' : 's'} read\n`);
         io.stdout(`  added ${copied.runs} runs, ${copied.readings} readings, ${copied.rework} rework notes, ${copied.captures} capture links\n`);
         io.stdout(`  ${unchanged} board${unchanged === 1 ? '' : 's'} already up to date (nothing added)\n`);
-        if (skipped.length) io.stdout(`  ${skipped.length} damaged board file${skipped.length === 1 ? '' : 's'} skipped: ${skipped.map((s) => s.serial).join(', ')}\n`);
+        if (skipped.length)
+          io.stdout(`  ${skipped.length} damaged board file${skipped.length === 1 ? '' : 's'} skipped: ${skipped.map((s) => s.serial).join(', ')}\n`);
       }
       return skipped.length ? 1 : 0;
     } finally {

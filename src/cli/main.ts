@@ -82,7 +82,13 @@ export async function main(argv: readonly string[], io: CommandIo): Promise<numb
     const safeIo: CommandIo = { ...io, stdout: (text) => io.stdout(terminalSafe(text)), stderr: (text) => io.stderr(terminalSafe(text)) };
     return await (await load())(rest, safeIo);
   } catch (error) {
-    if (error instanceof UsageError || error instanceof PlanError || error instanceof InstrumentsFileError || error instanceof LogLocationError || error instanceof LogMissingError) {
+    if (
+      error instanceof UsageError ||
+      error instanceof PlanError ||
+      error instanceof InstrumentsFileError ||
+      error instanceof LogLocationError ||
+      error instanceof LogMissingError
+    ) {
       io.stderr(`probebook: ${terminalSafe(oneLineMessage(error.message))}\n`);
       return 2;
     }

@@ -14,7 +14,10 @@ const usage = 'probebook plan new FILE';
 
 /** A plan id from the file's name: `bench-7.plan.json` → `bench-7`. */
 export function idFromFile(file: string): string {
-  const id = basename(file).replace(/\.plan\.json$|\.json$/i, '').replace(/[^A-Za-z0-9._-]/g, '-').replace(/^[^A-Za-z0-9]+/, '');
+  const id = basename(file)
+    .replace(/\.plan\.json$|\.json$/i, '')
+    .replace(/[^A-Za-z0-9._-]/g, '-')
+    .replace(/^[^A-Za-z0-9]+/, '');
   return id || 'new-board';
 }
 
@@ -32,7 +35,9 @@ export async function openDraft(path: string, shownAs: string): Promise<{ draft:
     return { draft: parseDraft(text), savedText: text };
   } catch {
     const fault = findJsonFault(text);
-    throw new UsageError(`plan ${shownAs}${fault ? `, line ${fault.line}, column ${fault.column}` : ''}: not a JSON object${fault ? ` (expected ${fault.expected})` : ''}; mend it in a text editor first (probebook plan check ${shownAs} lists every problem)`);
+    throw new UsageError(
+      `plan ${shownAs}${fault ? `, line ${fault.line}, column ${fault.column}` : ''}: not a JSON object${fault ? ` (expected ${fault.expected})` : ''}; mend it in a text editor first (probebook plan check ${shownAs} lists every problem)`,
+    );
   }
 }
 
@@ -44,7 +49,9 @@ const leaveAltScreen = '\u001B[?1049l';
 export const planNewCommand: Command = async (argv, io) => {
   const args = parseArgs(argv, { options: { help: 'boolean' }, positionals: [0, 1], usage });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  the plan editor: a form for the board, its rails and stages with the targets beside it,\n  updated as you type; it saves only a plan that loads (the old file kept as FILE.bak).\n  FILE may be new. ? shows the keys on the screen.\n`);
+    io.stdout(
+      `usage: ${usage}\n  the plan editor: a form for the board, its rails and stages with the targets beside it,\n  updated as you type; it saves only a plan that loads (the old file kept as FILE.bak).\n  FILE may be new. ? shows the keys on the screen.\n`,
+    );
     return 0;
   }
   const file = args.positionals[0];
@@ -52,14 +59,20 @@ export const planNewCommand: Command = async (argv, io) => {
   const path = resolve(io.cwd, file);
   const { draft, savedText } = await openDraft(path, file);
   if (!process.stdin.isTTY || !process.stdout.isTTY) {
-    io.stderr(notTerminalMessage.replace('the bench screen needs a terminal', 'the plan editor needs a terminal').replace(/use probebook .*$/m, `check a plan with probebook plan check ${file}`));
+    io.stderr(
+      notTerminalMessage
+        .replace('the bench screen needs a terminal', 'the plan editor needs a terminal')
+        .replace(/use probebook .*$/m, `check a plan with probebook plan check ${file}`),
+    );
     return 2;
   }
   process.stdout.write(enterAltScreen);
   const restore = () => process.stdout.write(leaveAltScreen);
   process.once('exit', restore);
   try {
-    const app = render(<PlanEditorApp file={file} initial={draft} savedText={savedText} save={(text) => savePlanText(path, text, file)} />, { exitOnCtrlC: true });
+    const app = render(<PlanEditorApp file={file} initial={draft} savedText={savedText} save={(text) => savePlanText(path, text, file)} />, {
+      exitOnCtrlC: true,
+    });
     await app.waitUntilExit();
   } finally {
     process.off('exit', restore);

@@ -14,7 +14,11 @@ export function savePlanText(file: string, text: string, shownAs: string = file)
   const problems = checkPlanText(text, shownAs);
   if (problems.length > 0) {
     const first = problems[0] as PlanError;
-    throw new PlanError(first.file, first.path, `${first.detail}${problems.length > 1 ? ` (and ${problems.length - 1} more problem${problems.length === 2 ? '' : 's'}: probebook plan check lists them)` : ''}; the plan was not saved`);
+    throw new PlanError(
+      first.file,
+      first.path,
+      `${first.detail}${problems.length > 1 ? ` (and ${problems.length - 1} more problem${problems.length === 2 ? '' : 's'}: probebook plan check lists them)` : ''}; the plan was not saved`,
+    );
   }
   const temp = join(dirname(file), `.${basename(file)}.tmp-${process.pid}`);
   const fd = openSync(temp, 'w', 0o644);

@@ -10,7 +10,8 @@ import type { Command, CommandIo } from './command.js';
 import { UsageError } from './errors.js';
 import { savePlanText } from './plan-save.js';
 
-const usage = 'probebook plan new FILE | plan check PLAN [--json] | plan bom PLAN BOM.csv [--write] [--json] [--ref-col NAME] [--value-col NAME] [--tol-col NAME]';
+const usage =
+  'probebook plan new FILE | plan check PLAN [--json] | plan bom PLAN BOM.csv [--write] [--json] [--ref-col NAME] [--value-col NAME] [--tol-col NAME]';
 
 const help = `usage:
   probebook plan new FILE            the plan editor (a screen) on a new or existing plan
@@ -51,7 +52,9 @@ async function planCheck(argv: readonly string[], io: CommandIo): Promise<number
     io.stdout(`${JSON.stringify({ plan: file, ok: problems.length === 0, problems: problems.map((p) => ({ path: p.path, message: p.detail })) })}\n`);
   } else if (problems.length === 0) {
     const plan = await loadPlanFile(file, { cwd: io.cwd });
-    io.stdout(`plan ${file} loads: ${plan.stages.length} stage${plan.stages.length === 1 ? '' : 's'}, ${plan.rails.length} rail${plan.rails.length === 1 ? '' : 's'}; no problems\n`);
+    io.stdout(
+      `plan ${file} loads: ${plan.stages.length} stage${plan.stages.length === 1 ? '' : 's'}, ${plan.rails.length} rail${plan.rails.length === 1 ? '' : 's'}; no problems\n`,
+    );
   } else {
     for (const p of problems) io.stdout(`${p.message}\n`);
     io.stdout(`${problems.length} problem${problems.length === 1 ? '' : 's'}\n`);
@@ -74,7 +77,11 @@ async function planBom(argv: readonly string[], io: CommandIo): Promise<number> 
   const col = (name: string) => (typeof args.options[name] === 'string' ? (args.options[name] as string) : undefined);
   let bom;
   try {
-    bom = parseBom(await readText(bomFile, 'BOM', io.cwd), { ...(col('ref-col') ? { ref: col('ref-col') as string } : {}), ...(col('value-col') ? { value: col('value-col') as string } : {}), ...(col('tol-col') ? { tol: col('tol-col') as string } : {}) });
+    bom = parseBom(await readText(bomFile, 'BOM', io.cwd), {
+      ...(col('ref-col') ? { ref: col('ref-col') as string } : {}),
+      ...(col('value-col') ? { value: col('value-col') as string } : {}),
+      ...(col('tol-col') ? { tol: col('tol-col') as string } : {}),
+    });
   } catch (error) {
     if (error instanceof BomError) throw new UsageError(`BOM ${bomFile}: ${error.message}`);
     throw error;
@@ -102,7 +109,9 @@ async function planBom(argv: readonly string[], io: CommandIo): Promise<number> 
     );
     return 0;
   }
-  const lines: string[] = [`plan ${planFile} against BOM ${bomFile}: ${report.same} part${report.same === 1 ? '' : 's'} agree, ${report.differences.length} differ`];
+  const lines: string[] = [
+    `plan ${planFile} against BOM ${bomFile}: ${report.same} part${report.same === 1 ? '' : 's'} agree, ${report.differences.length} differ`,
+  ];
   for (const d of report.differences) lines.push(`  differs      ${d.part} (${d.ref}): plan ${JSON.stringify(d.plan)}, BOM ${d.bom}`);
   for (const r of report.onlyInPlan) lines.push(`  only in plan ${r.stage}.${r.role} (${r.ref})`);
   for (const e of report.onlyInBom) lines.push(`  only in BOM  ${e.ref} ${JSON.stringify(e.value)} (line ${e.line})`);

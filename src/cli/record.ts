@@ -18,12 +18,21 @@ import { UsageError } from './errors.js';
 import { resolveLogDir } from './log-dir.js';
 import { cacheHelp, targetsCacheFor } from './targets-cache.js';
 
-const usage = 'probebook record --plan PLAN --board SERIAL --check ID (--value TEXT | --from INSTRUMENT [--instruments FILE]) [--operator NAME] [--decimal-comma] [--json] [--log DIR] [--cache DIR]';
+const usage =
+  'probebook record --plan PLAN --board SERIAL --check ID (--value TEXT | --from INSTRUMENT [--instruments FILE]) [--operator NAME] [--decimal-comma] [--json] [--log DIR] [--cache DIR]';
 
 /** The reading as `record --json` and `history --json` print it (DESIGN §7); ±∞ (an open circuit) as null. */
 export function readingJson(r: Reading) {
   return {
-    id: r.id, run: r.run, check: r.check, value: Number.isFinite(r.value) ? r.value : null, unit: r.unit, raw: r.raw, at: r.at, operator: r.operator, verdict: r.verdict,
+    id: r.id,
+    run: r.run,
+    check: r.check,
+    value: Number.isFinite(r.value) ? r.value : null,
+    unit: r.unit,
+    raw: r.raw,
+    at: r.at,
+    operator: r.operator,
+    verdict: r.verdict,
     ...(r.instrument ? { instrument: { name: r.instrument.name, identity: r.instrument.identity } } : {}),
   };
 }
@@ -34,12 +43,17 @@ export function readingJson(r: Reading) {
  * would colour a terminal or forge history lines), at most 64 characters.
  */
 export function operatorOf(flag: string | boolean | undefined, env: NodeJS.ProcessEnv): string {
-  const sources: [string | boolean | undefined, string][] = [[flag, '--operator'], [env.PROBEBOOK_OPERATOR, 'PROBEBOOK_OPERATOR'], [env.USER, 'USER']];
+  const sources: [string | boolean | undefined, string][] = [
+    [flag, '--operator'],
+    [env.PROBEBOOK_OPERATOR, 'PROBEBOOK_OPERATOR'],
+    [env.USER, 'USER'],
+  ];
   for (const [v, from] of sources) {
     if (typeof v !== 'string') continue;
     const name = oneLine(v);
     if (name === '') continue;
-    if (name.length > maxOperatorLength) throw new UsageError(`${from}: an operator name is at most ${maxOperatorLength} characters (got ${name.length}); nothing was saved`);
+    if (name.length > maxOperatorLength)
+      throw new UsageError(`${from}: an operator name is at most ${maxOperatorLength} characters (got ${name.length}); nothing was saved`);
     return name;
   }
   return 'unknown';
@@ -83,7 +97,8 @@ export function decimalCommaOf(flag: string | boolean | undefined, env: NodeJS.P
 export function readValue(text: string, target: Target, options: { readonly decimalComma?: boolean } = {}): number {
   if (target.unit === 'Ω' && openWords.test(text.trim())) return Infinity;
   const parsed = parseValue(text, { expected: target.unit, allowTolerance: false, decimalComma: options.decimalComma ?? false });
-  if (!parsed.ok) throw new UsageError(`check ${target.check}: ${parsed.message}${target.unit === 'Ω' ? ' (an open circuit may be typed OL)' : ''}; nothing was saved`);
+  if (!parsed.ok)
+    throw new UsageError(`check ${target.check}: ${parsed.message}${target.unit === 'Ω' ? ' (an open circuit may be typed OL)' : ''}; nothing was saved`);
   return parsed.value;
 }
 
@@ -94,10 +109,13 @@ function skippedSafety(targets: readonly Target[], target: Target, done: Readonl
   const skipped = targets.filter((t) => before.includes(t.phase) && !done.has(t.check)).map((t) => t.check);
   const warnings: string[] = [];
   if (skipped.length > 0) {
-    warnings.push(`safety checks skipped: ${skipped.join(', ')} ${skipped.length === 1 ? 'has' : 'have'} no reading in this run; with power off, make them before going on (a short or a reversed part can burn the board)`);
+    warnings.push(
+      `safety checks skipped: ${skipped.join(', ')} ${skipped.length === 1 ? 'has' : 'have'} no reading in this run; with power off, make them before going on (a short or a reversed part can burn the board)`,
+    );
   }
   const idle = targets.find((t) => t.phase === 'first-power');
-  if (idle && target.phase !== 'first-power' && done.get(idle.check) === 'fail') warnings.push(`${idle.check} read above its limit in this run: power off before probing further`);
+  if (idle && target.phase !== 'first-power' && done.get(idle.check) === 'fail')
+    warnings.push(`${idle.check} read above its limit in this run: power off before probing further`);
   return warnings;
 }
 
@@ -168,8 +186,13 @@ function outcomeOf(done: ReadonlyMap<string, Verdict>): RunOutcome {
 function findTarget(set: TargetSet, plan: Plan, check: string): Target {
   const target = set.targets.find((t) => t.check === check);
   if (target) return target;
-  const close = closeMatches(check, set.targets.map((t) => t.check));
-  throw new UsageError(`no check ${JSON.stringify(check)} in plan ${plan.file}; ${close.length ? `close ones: ${close.join(', ')}` : 'probebook targets PLAN lists them'}; nothing was saved`);
+  const close = closeMatches(
+    check,
+    set.targets.map((t) => t.check),
+  );
+  throw new UsageError(
+    `no check ${JSON.stringify(check)} in plan ${plan.file}; ${close.length ? `close ones: ${close.join(', ')}` : 'probebook targets PLAN lists them'}; nothing was saved`,
+  );
 }
 
 /**
@@ -180,12 +203,27 @@ function findTarget(set: TargetSet, plan: Plan, check: string): Target {
  */
 export const recordCommand: Command = async (argv, io) => {
   const args = parseArgs(argv, {
-    options: { plan: 'string', board: 'string', check: 'string', value: 'string', from: 'string', instruments: 'string', operator: 'string', json: 'boolean', log: 'string', cache: 'string', help: 'boolean', 'decimal-comma': 'boolean' },
+    options: {
+      plan: 'string',
+      board: 'string',
+      check: 'string',
+      value: 'string',
+      from: 'string',
+      instruments: 'string',
+      operator: 'string',
+      json: 'boolean',
+      log: 'string',
+      cache: 'string',
+      help: 'boolean',
+      'decimal-comma': 'boolean',
+    },
     usage,
     negativeNumbers: ['value'],
   });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL;\n                 no spaces inside the number; "1,500" is refused as ambiguous (write 1.5 or 1500)\n  --decimal-comma  the bench writes decimal commas ("1,500" is 1.5); also PROBEBOOK_DECIMAL_COMMA=1 or the plan's "decimalComma": true\n  --from NAME    take the reading from that bench instrument (SCPI; see probebook instruments --help);\n                 its query by check id, else by unit; an overload (9.9E37) is recorded as OL;\n                 no answer within its timeout, or no number, records nothing (exit 1)\n  --instruments FILE  the instruments file (else $PROBEBOOK_INSTRUMENTS, else $XDG_CONFIG_HOME/probebook/instruments.json)\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\n  --log DIR      the log to write (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook)\n${cacheHelp}verdict: guarded acceptance with the guard band w = U (ILAC-G8:09/2019 terms), U the plan's instrument uncertainty for the reading:\n  pass when reading ± U lies inside the worst-case band, fail when wholly outside, marginal otherwise;\n  a band that stops at a physical floor (a dead band of 0 V, a THD, an idle current) is guarded on its open side only: a reading at the floor passes\nCaution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`);
+    io.stdout(
+      `usage: ${usage}\n  --value TEXT   as read: "11.93", "-11.95 V", "4k62", "1.02 kHz"; an open circuit on a resistance check as OL;\n                 no spaces inside the number; "1,500" is refused as ambiguous (write 1.5 or 1500)\n  --decimal-comma  the bench writes decimal commas ("1,500" is 1.5); also PROBEBOOK_DECIMAL_COMMA=1 or the plan's "decimalComma": true\n  --from NAME    take the reading from that bench instrument (SCPI; see probebook instruments --help);\n                 its query by check id, else by unit; an overload (9.9E37) is recorded as OL;\n                 no answer within its timeout, or no number, records nothing (exit 1)\n  --instruments FILE  the instruments file (else $PROBEBOOK_INSTRUMENTS, else $XDG_CONFIG_HOME/probebook/instruments.json)\n  --operator     default $PROBEBOOK_OPERATOR, else $USER\n  --json         machine-readable, SI base units\n  --log DIR      the log to write (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook)\n${cacheHelp}verdict: guarded acceptance with the guard band w = U (ILAC-G8:09/2019 terms), U the plan's instrument uncertainty for the reading:\n  pass when reading ± U lies inside the worst-case band, fail when wholly outside, marginal otherwise;\n  a band that stops at a physical floor (a dead band of 0 V, a THD, an idle current) is guarded on its open side only: a reading at the floor passes\nCaution: make the unpowered checks first and apply first power through a current-limited supply; follow local codes and licensed practice for anything mains-powered.\n`,
+    );
     return 0;
   }
   const need = (name: string): string => {
@@ -233,7 +271,18 @@ export const recordCommand: Command = async (argv, io) => {
   const saved = await log.appendToOpenRun(
     serial,
     { plan: plan.plan, planHash: plan.hash, planText: plan.text, operator },
-    { check, value, unit: target.unit, raw: text, operator, verdict: result.verdict, planHash: plan.hash, ...(result.warnings.length ? { warnings: result.warnings } : {}), ...(instrument ? { instrument } : {}), ...(kept ? { capture: kept } : {}) },
+    {
+      check,
+      value,
+      unit: target.unit,
+      raw: text,
+      operator,
+      verdict: result.verdict,
+      planHash: plan.hash,
+      ...(result.warnings.length ? { warnings: result.warnings } : {}),
+      ...(instrument ? { instrument } : {}),
+      ...(kept ? { capture: kept } : {}),
+    },
     (board, run) => skippedSafety(set.targets, target, latestVerdicts(board.readings, run.id)),
   );
   if (kept && record) await log.linkCapture(serial, { file: kept, name: record.name, at: saved.reading.at, check, run: saved.run.id });
@@ -245,7 +294,15 @@ export const recordCommand: Command = async (argv, io) => {
   if (ended) await log.endRun(serial, saved.run.id, ended);
   if (ended === 'power-off') next = next ?? { check, why: 'power off: the idle current is above the limit' };
 
-  const outcome: Outcome = { reading: saved.reading, target, deviation: result.deviation, uncertainty: result.uncertainty, next, ended, startedRun: saved.startedRun };
+  const outcome: Outcome = {
+    reading: saved.reading,
+    target,
+    deviation: result.deviation,
+    uncertainty: result.uncertainty,
+    next,
+    ended,
+    startedRun: saved.startedRun,
+  };
   if (args.options.json) {
     const finite = (x: number) => (Number.isFinite(x) ? x : null);
     io.stdout(

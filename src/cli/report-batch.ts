@@ -15,7 +15,9 @@ const usage = 'probebook report --batch --format md|csv [--plan ID] [--rev HASH]
  */
 export const reportBatchCommand: Command = async (argv, io) => {
   if (argv.includes('--help') || argv.includes('-h')) {
-    io.stdout(`usage: ${usage}\n  md: a report to read and file; csv: one row per check with the batch --json figures (RFC 4180).\n  The filters are those of probebook batch (see probebook batch --help).\n${cacheHelp}`);
+    io.stdout(
+      `usage: ${usage}\n  md: a report to read and file; csv: one row per check with the batch --json figures (RFC 4180).\n  The filters are those of probebook batch (see probebook batch --help).\n${cacheHelp}`,
+    );
     return 0;
   }
   const args = parseArgs(argv, { options: { ...batchOptions, batch: 'boolean', format: 'string' }, usage });

@@ -21,8 +21,24 @@ export const reportCautions =
 
 /** The CSV columns of a board report, one row per reading. */
 export const boardCsvColumns = [
-  'serial', 'run', 'check', 'value', 'unit', 'raw', 'verdict', 'at', 'operator', 'plan_hash',
-  'reading_id', 'nominal', 'worst_min', 'worst_max', 'deviation', 'test_point', 'capture', 'warnings',
+  'serial',
+  'run',
+  'check',
+  'value',
+  'unit',
+  'raw',
+  'verdict',
+  'at',
+  'operator',
+  'plan_hash',
+  'reading_id',
+  'nominal',
+  'worst_min',
+  'worst_max',
+  'deviation',
+  'test_point',
+  'capture',
+  'warnings',
 ] as const;
 
 /**
@@ -49,7 +65,8 @@ interface Row {
 function rowsOf(board: BoardFile, bands: ReadonlyMap<string, SnapshotBands>): Row[] {
   return board.readings.map((reading) => {
     const band = bands.get(reading.planHash)?.bands.get(reading.check) ?? null;
-    const deviation = band && band.nominal !== 0 && !band.isLimit && Number.isFinite(reading.value) ? (reading.value - band.nominal) / Math.abs(band.nominal) : null;
+    const deviation =
+      band && band.nominal !== 0 && !band.isLimit && Number.isFinite(reading.value) ? (reading.value - band.nominal) / Math.abs(band.nominal) : null;
     return { reading, band, deviation };
   });
 }
@@ -65,10 +82,24 @@ export function boardCsv(board: BoardFile, bands: ReadonlyMap<string, SnapshotBa
     const finite = (x: number | undefined) => (x === undefined || !Number.isFinite(x) ? null : x);
     lines.push(
       [
-        boardCsvField(board.serial), boardCsvField(r.run), boardCsvField(r.check, true), boardCsvField(r.value), boardCsvField(uncertaintyKey(r.unit)), boardCsvField(r.raw, true),
-        boardCsvField(r.verdict), boardCsvField(r.at), boardCsvField(r.operator, true), boardCsvField(r.planHash), boardCsvField(r.id),
-        boardCsvField(band && !band.isLimit ? band.nominal : null), boardCsvField(finite(band?.worst.min)), boardCsvField(finite(band?.worst.max)),
-        boardCsvField(deviation), boardCsvField(band?.testPoint ?? null, true), boardCsvField(r.capture ?? null), boardCsvField((r.warnings ?? []).join(' | '), true),
+        boardCsvField(board.serial),
+        boardCsvField(r.run),
+        boardCsvField(r.check, true),
+        boardCsvField(r.value),
+        boardCsvField(uncertaintyKey(r.unit)),
+        boardCsvField(r.raw, true),
+        boardCsvField(r.verdict),
+        boardCsvField(r.at),
+        boardCsvField(r.operator, true),
+        boardCsvField(r.planHash),
+        boardCsvField(r.id),
+        boardCsvField(band && !band.isLimit ? band.nominal : null),
+        boardCsvField(finite(band?.worst.min)),
+        boardCsvField(finite(band?.worst.max)),
+        boardCsvField(deviation),
+        boardCsvField(band?.testPoint ?? null, true),
+        boardCsvField(r.capture ?? null),
+        boardCsvField((r.warnings ?? []).join(' | '), true),
       ].join(','),
     );
   }
@@ -91,7 +122,11 @@ function planTitle(text: string | null): string | null {
 }
 
 /** The board's traveler in Markdown: header, cautions, runs, every reading with its band, rework notes, captures, sign-off. */
-export function boardMarkdown(board: BoardFile, bands: ReadonlyMap<string, SnapshotBands>, info: { titles: ReadonlyMap<string, string | null>; dir: string; printed: Date; refs?: ReadonlyMap<string, string> }): string {
+export function boardMarkdown(
+  board: BoardFile,
+  bands: ReadonlyMap<string, SnapshotBands>,
+  info: { titles: ReadonlyMap<string, string | null>; dir: string; printed: Date; refs?: ReadonlyMap<string, string> },
+): string {
   const c = historyCounts(board);
   const hashes = [...new Set(board.runs.map((r) => r.planHash))];
   const out: string[] = [];
@@ -112,7 +147,10 @@ export function boardMarkdown(board: BoardFile, bands: ReadonlyMap<string, Snaps
   if (board.runs.length === 0) out.push('No runs yet.', '');
   else {
     out.push('| # | run | started | ended | operator | outcome | plan revision |', '| ---: | --- | --- | --- | --- | --- | --- |');
-    for (const [i, r] of board.runs.entries()) out.push(`| ${i + 1} | ${r.id} | ${localTime(r.started)} | ${r.ended ? localTime(r.ended) : '—'} | ${mdCell(r.operator)} | ${r.outcome} | \`${r.planHash.slice(0, 12)}\` |`);
+    for (const [i, r] of board.runs.entries())
+      out.push(
+        `| ${i + 1} | ${r.id} | ${localTime(r.started)} | ${r.ended ? localTime(r.ended) : '—'} | ${mdCell(r.operator)} | ${r.outcome} | \`${r.planHash.slice(0, 12)}\` |`,
+      );
     out.push('');
   }
 
@@ -140,7 +178,10 @@ export function boardMarkdown(board: BoardFile, bands: ReadonlyMap<string, Snaps
   if (board.rework.length === 0) out.push('None.', '');
   else {
     out.push('| time | run | part | from | to | note | operator |', '| --- | ---: | --- | --- | --- | --- | --- |');
-    for (const w of board.rework) out.push(`| ${localTime(w.at)} | ${w.run ? (runNumber.get(w.run) ?? '?') : '—'} | ${mdCell(partWithRef(w.part, info.refs ?? new Map()))} | ${mdCell(w.from)} | ${mdCell(w.to)} | ${mdCell(w.note)} | ${mdCell(w.operator)} |`);
+    for (const w of board.rework)
+      out.push(
+        `| ${localTime(w.at)} | ${w.run ? (runNumber.get(w.run) ?? '?') : '—'} | ${mdCell(partWithRef(w.part, info.refs ?? new Map()))} | ${mdCell(w.from)} | ${mdCell(w.to)} | ${mdCell(w.note)} | ${mdCell(w.operator)} |`,
+      );
     out.push('');
   }
   if (board.captures.length > 0) {
@@ -158,11 +199,14 @@ export const reportCommand: Command = async (argv, io) => {
   if (argv.includes('--batch')) return (await import('./report-batch.js')).reportBatchCommand(argv, io);
   const args = parseArgs(argv, { options: { format: 'string', log: 'string', cache: 'string', help: 'boolean' }, positionals: [0, 1], usage });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  --format md    a traveler to print: board, plan revision, runs, every reading with its band and verdict, rework notes (default)\n  --format csv   one row per reading (RFC 4180) for a spreadsheet: ${boardCsvColumns.join(', ')}\n  --log DIR      the log to read (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook); only read, never created\n${cacheHelp}`);
+    io.stdout(
+      `usage: ${usage}\n  --format md    a traveler to print: board, plan revision, runs, every reading with its band and verdict, rework notes (default)\n  --format csv   one row per reading (RFC 4180) for a spreadsheet: ${boardCsvColumns.join(', ')}\n  --log DIR      the log to read (else $PROBEBOOK_LOG, else $XDG_DATA_HOME/probebook); only read, never created\n${cacheHelp}`,
+    );
     return 0;
   }
   const format = args.options.format ?? 'md';
-  if (format !== 'md' && format !== 'csv') throw new UsageError(`--format ${JSON.stringify(format)} is not known; use md (a printable traveler) or csv (a spreadsheet)`);
+  if (format !== 'md' && format !== 'csv')
+    throw new UsageError(`--format ${JSON.stringify(format)} is not known; use md (a printable traveler) or csv (a spreadsheet)`);
   const serial = args.positionals[0];
   if (serial === undefined) throw new UsageError(`missing argument SERIAL; usage: ${usage}`);
   // Every argument is checked before the log is opened.

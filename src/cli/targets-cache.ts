@@ -7,12 +7,13 @@ import { UsageError } from './errors.js';
 /** What `--help` says about the cache, on every command that computes targets. */
 export const cacheHelp =
   '  --cache DIR  where computed targets are kept (else $PROBEBOOK_CACHE, else $XDG_CACHE_HOME/probebook,\n' +
-  '               i.e. ~/.cache/probebook): in the user\'s cache folder even when --log is given; safe to delete\n';
+  "               i.e. ~/.cache/probebook): in the user's cache folder even when --log is given; safe to delete\n";
 
 /** The `--cache` option's value, or a UsageError for an empty one. */
 export function cacheFlag(value: string | boolean | undefined): string | undefined {
   if (value === undefined) return undefined;
-  if (typeof value !== 'string' || value.trim() === '') throw new UsageError('--cache needs a folder; leave it out to use $PROBEBOOK_CACHE or ~/.cache/probebook');
+  if (typeof value !== 'string' || value.trim() === '')
+    throw new UsageError('--cache needs a folder; leave it out to use $PROBEBOOK_CACHE or ~/.cache/probebook');
   return value;
 }
 

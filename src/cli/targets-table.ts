@@ -86,11 +86,22 @@ export interface TableHeader {
  */
 export function targetsTable(set: TargetSet, header: TableHeader): string {
   // A design figure has no test point to probe: its TP column says so.
-  const rows = set.targets.map((t) => [t.check, t.isDesignFigure ? 'design' : (t.testPoint ?? ''), nominalText(t), `${formatBand(t.worst.min, t.worst.max, t.unit)}${t.method ? ` ${methodMark[t.method]}` : ''}`, t.phase === 'stage' || t.phase === 'rails' ? formatBand(t.stat.min, t.stat.max, t.unit) : '', contributorText(t, header.refs ?? new Map())]);
+  const rows = set.targets.map((t) => [
+    t.check,
+    t.isDesignFigure ? 'design' : (t.testPoint ?? ''),
+    nominalText(t),
+    `${formatBand(t.worst.min, t.worst.max, t.unit)}${t.method ? ` ${methodMark[t.method]}` : ''}`,
+    t.phase === 'stage' || t.phase === 'rails' ? formatBand(t.stat.min, t.stat.max, t.unit) : '',
+    contributorText(t, header.refs ?? new Map()),
+  ]);
   const heads = ['check', 'TP', 'nominal', 'worst-case band', 'statistical band', 'top contributor'];
   const caps = [26, 6, 12, 24, 22, 20];
   const widths = heads.map((h, c) => Math.min(caps[c] ?? 20, Math.max([...h].length, ...rows.map((r) => [...(r[c] ?? '')].length))));
-  const line = (cells: readonly string[]): string => cells.map((cell, c) => fitCell(cell, widths[c] ?? 10)).join('  ').trimEnd();
+  const line = (cells: readonly string[]): string =>
+    cells
+      .map((cell, c) => fitCell(cell, widths[c] ?? 10))
+      .join('  ')
+      .trimEnd();
   const out: string[] = [];
   out.push(`${header.title} (plan ${set.plan}, ${header.file})`);
   const spread = header.distribution === 'normal' ? 'parts normal (tol = 3σ, truncated)' : 'parts uniform';
@@ -110,7 +121,9 @@ export function targetsTable(set: TargetSet, header: TableHeader): string {
   }
   out.push('');
   if (set.targets.some((t) => t.isDesignFigure)) {
-    out.push(...wrap('TP "design": a design figure, worked out from the parts but not probed at a test point; the bring-up does not ask for it.', tableWidth, '', ''));
+    out.push(
+      ...wrap('TP "design": a design figure, worked out from the parts but not probed at a test point; the bring-up does not ask for it.', tableWidth, '', ''),
+    );
     out.push('');
   }
   if (set.warnings.length === 0) out.push('No design warnings.');

@@ -32,7 +32,9 @@ export const targetsCommand: Command = async (argv, io) => {
     negativeNumbers: ['trials', 'seed'],
   });
   if (args.options.help) {
-    io.stdout(`usage: ${usage}\n  --trials N   Monte Carlo trials (default ${defaultTrials})\n  --seed S     seed of the generator (default ${defaultSeed}); the same seed gives the same bands\n  --spread     normal (default: tolerance = 3σ, truncated) or uniform\n  --json       machine-readable output in SI base units\n${cacheHelp}`);
+    io.stdout(
+      `usage: ${usage}\n  --trials N   Monte Carlo trials (default ${defaultTrials})\n  --seed S     seed of the generator (default ${defaultSeed}); the same seed gives the same bands\n  --spread     normal (default: tolerance = 3σ, truncated) or uniform\n  --json       machine-readable output in SI base units\n${cacheHelp}`,
+    );
     return 0;
   }
   const file = args.positionals[0];
@@ -66,6 +68,17 @@ export const targetsCommand: Command = async (argv, io) => {
       : {}),
   });
   if (args.options.json) io.stdout(`${JSON.stringify(targetsJson(set), null, 2)}\n`);
-  else io.stdout(targetsTable(set, { title: plan.title, file, trials, seed, distribution, ...(plan.note === undefined ? {} : { note: plan.note }), refs: refsOfPlanText(plan.text) }));
+  else
+    io.stdout(
+      targetsTable(set, {
+        title: plan.title,
+        file,
+        trials,
+        seed,
+        distribution,
+        ...(plan.note === undefined ? {} : { note: plan.note }),
+        refs: refsOfPlanText(plan.text),
+      }),
+    );
   return 0;
 };

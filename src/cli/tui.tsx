@@ -58,15 +58,35 @@ export function parseTuiArgs(argv: readonly string[]): TuiArgs {
     }
     if (value === undefined || value.trim() === '') throw new UsageError(`--${name} needs a value; usage: ${tuiUsage}`);
     // As the commands' parser: a flag is never taken as a value, and only --plan may repeat.
-    if (value.startsWith('-')) throw new UsageError(`--${name} needs a value, but ${JSON.stringify(value.slice(0, 40))} looks like an option; usage: ${tuiUsage}`);
-    if ((name === 'log' && log !== undefined) || (name === 'cache' && cache !== undefined) || (name === 'operator' && operator !== undefined) || (name === 'instruments' && instruments !== undefined)) throw new UsageError(`--${name} is given twice; give it once`);
+    if (value.startsWith('-'))
+      throw new UsageError(`--${name} needs a value, but ${JSON.stringify(value.slice(0, 40))} looks like an option; usage: ${tuiUsage}`);
+    if (
+      (name === 'log' && log !== undefined) ||
+      (name === 'cache' && cache !== undefined) ||
+      (name === 'operator' && operator !== undefined) ||
+      (name === 'instruments' && instruments !== undefined)
+    )
+      throw new UsageError(`--${name} is given twice; give it once`);
     if (name === 'log') log = value;
     else if (name === 'cache') cache = value;
     else if (name === 'instruments') instruments = value;
     else if (name === 'operator') operator = value.trim();
-    else plans.push(...value.split(',').map((p) => p.trim()).filter((p) => p !== ''));
+    else
+      plans.push(
+        ...value
+          .split(',')
+          .map((p) => p.trim())
+          .filter((p) => p !== ''),
+      );
   }
-  return { ...(log !== undefined ? { log } : {}), ...(operator !== undefined ? { operator } : {}), ...(cache !== undefined ? { cache } : {}), ...(instruments !== undefined ? { instruments } : {}), plans, isHelp };
+  return {
+    ...(log !== undefined ? { log } : {}),
+    ...(operator !== undefined ? { operator } : {}),
+    ...(cache !== undefined ? { cache } : {}),
+    ...(instruments !== undefined ? { instruments } : {}),
+    plans,
+    isHelp,
+  };
 }
 
 /** `--operator`, else `$PROBEBOOK_OPERATOR`, else `$USER`, else `unknown` (as `probebook record`). */
@@ -79,8 +99,7 @@ export function operatorFrom(flag: string | undefined, env: NodeJS.ProcessEnv): 
   return 'unknown';
 }
 
-export const notTerminalMessage =
-  'probebook: the bench screen needs a terminal; use probebook targets|record|history|batch|report for scripts\n';
+export const notTerminalMessage = 'probebook: the bench screen needs a terminal; use probebook targets|record|history|batch|report for scripts\n';
 
 // The alternate screen buffer (xterm, common practice): the bench screen gets the
 // whole window, and the shell's scrollback comes back unchanged on quit.

@@ -31,7 +31,8 @@ export function emptyBoard(serial: string, schemaVersion: number): BoardFile {
 export function readingFrom(input: ReadingInput, run: Run | undefined): Reading {
   const warnings = [...(input.warnings ?? [])];
   if (run?.ended) warnings.push(`recorded after its run ${run.id} ended (${run.ended})`);
-  if (run && run.planHash !== input.planHash) warnings.push(`the plan changed since run ${run.id} started (run ${run.planHash.slice(0, 8)}, reading ${input.planHash.slice(0, 8)})`);
+  if (run && run.planHash !== input.planHash)
+    warnings.push(`the plan changed since run ${run.id} started (run ${run.planHash.slice(0, 8)}, reading ${input.planHash.slice(0, 8)})`);
   return {
     id: newId('reading'),
     run: input.run,
@@ -52,7 +53,15 @@ export function readingFrom(input: ReadingInput, run: Run | undefined): Reading 
 export function newRun(board: BoardFile, start: RunStart, now: string): { board: BoardFile; run: Run } {
   // One open run per board: starting another ends the open one as aborted.
   const runs = board.runs.map((r) => (r.ended === null ? { ...r, ended: now, outcome: 'aborted' as const } : r));
-  const run: Run = { id: newId('run'), started: now, ended: null, operator: start.operator, outcome: 'in-progress', plan: start.plan, planHash: start.planHash };
+  const run: Run = {
+    id: newId('run'),
+    started: now,
+    ended: null,
+    operator: start.operator,
+    outcome: 'in-progress',
+    plan: start.plan,
+    planHash: start.planHash,
+  };
   return { board: { ...board, plan: start.plan, runs: [...runs, run] }, run };
 }
 

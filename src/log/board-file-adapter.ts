@@ -8,7 +8,11 @@ import { type Migration, boardMigrations, migrateBoard } from './migrate.js';
 import { type BoardFile, boardSchemaVersion } from './types.js';
 
 /** The first problem that keeps a board file's text from being read, or null when it reads. */
-function problemOf(text: string, serial: string, migrations: Readonly<Record<number, Migration>>): { problem: string; isNewer: boolean } | { board: BoardFile } {
+function problemOf(
+  text: string,
+  serial: string,
+  migrations: Readonly<Record<number, Migration>>,
+): { problem: string; isNewer: boolean } | { board: BoardFile } {
   const parsed = fromLogJson(text);
   if (!parsed.ok) return { problem: parsed.problem, isNewer: false };
   const data = parsed.data;
@@ -16,7 +20,10 @@ function problemOf(text: string, serial: string, migrations: Readonly<Record<num
   const migrated = migrateBoard(data as Record<string, unknown>, migrations);
   if (!migrated.ok) {
     if (migrated.kind === 'newer') {
-      return { problem: `it was written by a newer probebook (schema version ${String(migrated.version)}; this one reads up to ${boardSchemaVersion})`, isNewer: true };
+      return {
+        problem: `it was written by a newer probebook (schema version ${String(migrated.version)}; this one reads up to ${boardSchemaVersion})`,
+        isNewer: true,
+      };
     }
     return { problem: `schemaVersion: ${JSON.stringify(migrated.version) ?? 'missing'} is not a known board schema version`, isNewer: false };
   }
@@ -24,7 +31,10 @@ function problemOf(text: string, serial: string, migrations: Readonly<Record<num
   if (!shape.ok) return { problem: `wrong shape at ${shape.problem}`, isNewer: false };
   if (shape.board.serial !== serial) {
     // A case-blind file system maps "sn-1" and "SN-1" to one file: never mix two boards.
-    return { problem: `it holds board ${JSON.stringify(shape.board.serial)}, not ${JSON.stringify(serial)} (serials that differ only in case share a file on this file system)`, isNewer: false };
+    return {
+      problem: `it holds board ${JSON.stringify(shape.board.serial)}, not ${JSON.stringify(serial)} (serials that differ only in case share a file on this file system)`,
+      isNewer: false,
+    };
   }
   return { board: shape.board };
 }
@@ -48,7 +58,10 @@ export function readBoardFileSync(file: string, serial: string, migrations: Read
   if (text === null) return null;
   const result = problemOf(text, serial, migrations);
   if ('board' in result) return result.board;
-  throw new LogDamageError(file, `board file ${file} cannot be read: ${result.problem}; it was left untouched. ${remedy(file, serial, result.isNewer, migrations)}`);
+  throw new LogDamageError(
+    file,
+    `board file ${file} cannot be read: ${result.problem}; it was left untouched. ${remedy(file, serial, result.isNewer, migrations)}`,
+  );
 }
 
 /**

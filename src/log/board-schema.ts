@@ -31,7 +31,10 @@ const optional =
   (v) =>
     v === undefined ? null : check(v);
 const instrumentRef: Check = (v) =>
-  typeof v === 'object' && v !== null && typeof (v as { name?: unknown }).name === 'string' && ['string', 'object'].includes(typeof (v as { identity?: unknown }).identity)
+  typeof v === 'object' &&
+  v !== null &&
+  typeof (v as { name?: unknown }).name === 'string' &&
+  ['string', 'object'].includes(typeof (v as { identity?: unknown }).identity)
     ? null
     : 'expected {"name", "identity"}';
 const texts: Check = (v) => (Array.isArray(v) && v.every((x) => typeof x === 'string') ? null : 'expected a list of texts');
@@ -39,12 +42,28 @@ const texts: Check = (v) => (Array.isArray(v) && v.every((x) => typeof x === 'st
 type Shape = Readonly<Record<string, Check>>;
 
 const readingShape: Shape = {
-  id: nonEmpty, run: nonEmpty, check: nonEmpty, value: reading, unit, raw: text, at: iso, operator: text,
-  verdict: oneOf('pass', 'marginal', 'fail'), planHash: hash, capture: optional(text), warnings: optional(texts), instrument: optional(instrumentRef),
+  id: nonEmpty,
+  run: nonEmpty,
+  check: nonEmpty,
+  value: reading,
+  unit,
+  raw: text,
+  at: iso,
+  operator: text,
+  verdict: oneOf('pass', 'marginal', 'fail'),
+  planHash: hash,
+  capture: optional(text),
+  warnings: optional(texts),
+  instrument: optional(instrumentRef),
 };
 const runShape: Shape = {
-  id: nonEmpty, started: iso, ended: isoOrNull, operator: text,
-  outcome: oneOf('in-progress', 'passed', 'failed', 'aborted', 'power-off'), plan: text, planHash: hash,
+  id: nonEmpty,
+  started: iso,
+  ended: isoOrNull,
+  operator: text,
+  outcome: oneOf('in-progress', 'passed', 'failed', 'aborted', 'power-off'),
+  plan: text,
+  planHash: hash,
 };
 const reworkShape: Shape = { id: nonEmpty, at: iso, run: textOrNull, part: text, from: text, to: text, note: text, operator: text };
 const captureShape: Shape = { file: nonEmpty, name: text, at: iso, check: textOrNull, run: textOrNull };

@@ -149,7 +149,15 @@ export function decodeCheckColumns(bytes: Uint8Array): CheckColumns | null {
   } catch {
     return null;
   }
-  if (!Array.isArray(header.serials) || !Array.isArray(header.checks) || !Number.isInteger(header.rows) || !Number.isInteger(header.firsts) || typeof header.texts !== 'object' || header.texts === null) return null;
+  if (
+    !Array.isArray(header.serials) ||
+    !Array.isArray(header.checks) ||
+    !Number.isInteger(header.rows) ||
+    !Number.isInteger(header.firsts) ||
+    typeof header.texts !== 'object' ||
+    header.texts === null
+  )
+    return null;
   const boards = header.serials.length;
   const layout = columnLayout(align8(headBytes + headerLength), boards, header.rows, header.firsts);
   if (layout.end !== data.length) return null;
@@ -190,7 +198,8 @@ function columnsOver(header: Header, a: Arrays): CheckColumns | null {
   for (let k = 0; k < a.firstRow.length; k++) firstOf.set(a.firstRow[k] ?? -1, k);
   const checkCount = header.checks.length;
   for (let r = 0; r < header.rows; r++) {
-    if ((a.checkOf[r] ?? checkCount) >= checkCount || (a.verdicts[r] ?? 0xff) & 0xf0 || ((a.verdicts[r] ?? 0) & 3) > 2 || ((a.verdicts[r] ?? 0) >> 2) > 2) return null;
+    if ((a.checkOf[r] ?? checkCount) >= checkCount || (a.verdicts[r] ?? 0xff) & 0xf0 || ((a.verdicts[r] ?? 0) & 3) > 2 || (a.verdicts[r] ?? 0) >> 2 > 2)
+      return null;
   }
   const text = (key: string, ms: number): string => header.texts[key] ?? new Date(ms).toISOString();
   const latestAtText = (row: number) => text(`l${row}`, a.latestAt[row] ?? Number.NaN);
@@ -214,7 +223,10 @@ function columnsOver(header: Header, a: Arrays): CheckColumns | null {
         const v = a.verdicts[r] ?? 0;
         const latest = { value: a.latestValue[r] ?? Number.NaN, verdict: verdictName[v & 3] ?? 'fail', at: latestAtText(r) };
         const k = firstOf.get(r);
-        const first = k === undefined ? { ...latest } : { value: a.firstValue[k] ?? Number.NaN, verdict: verdictName[v >> 2] ?? 'fail', at: text(`f${k}`, a.firstAt[k] ?? Number.NaN) };
+        const first =
+          k === undefined
+            ? { ...latest }
+            : { value: a.firstValue[k] ?? Number.NaN, verdict: verdictName[v >> 2] ?? 'fail', at: text(`f${k}`, a.firstAt[k] ?? Number.NaN) };
         map[header.checks[a.checkOf[r] ?? 0] ?? ''] = { first, latest, count: a.count[r] ?? 1 };
       }
       return map;

@@ -83,5 +83,8 @@ export function ioFailure(error: unknown, doing: string, path?: string): unknown
   if (!known || error instanceof LogIoError) return error;
   const [reason, remedy] = known;
   const at = path === undefined ? '' : ` at ${path}`;
-  return new LogIoError(`${doing}: ${reason}${at} (${code}); ${remedy}${code === 'ENOSPC' || code === 'EDQUOT' || code === 'EROFS' ? '. Nothing was saved' : ''}`, code as string);
+  return new LogIoError(
+    `${doing}: ${reason}${at} (${code}); ${remedy}${code === 'ENOSPC' || code === 'EDQUOT' || code === 'EROFS' ? '. Nothing was saved' : ''}`,
+    code as string,
+  );
 }

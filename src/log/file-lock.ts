@@ -184,7 +184,10 @@ async function withLockFile<T>(path: string, target: string, fn: () => Promise<T
     }
     if (Date.now() > deadline) {
       const who = holderWords(lock.holder);
-      throw new LogLockError(target, `${target} is busy: its lock ${path} has been held by ${who}; if no probebook is running there, delete ${path} and try again`);
+      throw new LogLockError(
+        target,
+        `${target} is busy: its lock ${path} has been held by ${who}; if no probebook is running there, delete ${path} and try again`,
+      );
     }
     await sleep(pause + Math.random() * pause);
     pause = Math.min(pause * 2, 8);

@@ -17,7 +17,8 @@ export function ensureFolder(path: string): void {
       isDir = statSync(dir).isDirectory();
     } catch (error) {
       const code = errorCode(error);
-      if (code === 'ENOTDIR') throw new LogIoError(`log folder ${target} cannot be made: a file stands where a folder should be on that path; pass another --log DIR`, code);
+      if (code === 'ENOTDIR')
+        throw new LogIoError(`log folder ${target} cannot be made: a file stands where a folder should be on that path; pass another --log DIR`, code);
       if (code !== 'ENOENT') throw ioFailure(error, `log folder ${target} cannot be used`, dir);
       isDir = null;
     }

@@ -77,7 +77,16 @@ export function reviveChecks(checks: CheckMap): CheckMap {
 }
 
 function isLine(d: Partial<JournalLine>): d is JournalLine {
-  return typeof d.serial === 'string' && typeof d.stamp === 'string' && (d.prev === null || typeof d.prev === 'string') && typeof d.full === 'boolean' && typeof d.head === 'object' && d.head !== null && typeof d.checks === 'object' && d.checks !== null;
+  return (
+    typeof d.serial === 'string' &&
+    typeof d.stamp === 'string' &&
+    (d.prev === null || typeof d.prev === 'string') &&
+    typeof d.full === 'boolean' &&
+    typeof d.head === 'object' &&
+    d.head !== null &&
+    typeof d.checks === 'object' &&
+    d.checks !== null
+  );
 }
 
 /** Apply the journal's lines, in order, to what the snapshot said. Torn or foreign lines are skipped. */

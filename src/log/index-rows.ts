@@ -7,7 +7,16 @@ import type { BoardState } from './types.js';
  * follows its size. Plan hashes (64 characters, shared by a whole batch) are
  * kept once in a table and referred to by position.
  */
-export type BoardRow = [plan: string | null, hash: number, state: BoardState, lastRunAt: string | null, runs: number, readings: number, rework: number, stamp: string];
+export type BoardRow = [
+  plan: string | null,
+  hash: number,
+  state: BoardState,
+  lastRunAt: string | null,
+  runs: number,
+  readings: number,
+  rework: number,
+  stamp: string,
+];
 
 export interface PackedBoards {
   readonly hashes: string[];

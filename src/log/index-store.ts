@@ -106,7 +106,17 @@ export class IndexStore {
     const summary = summarizeBoard(board);
     const full = touched === 'all' || prev === null;
     const checks: CheckMap = full ? summary.checks : Object.fromEntries(touched.flatMap((c) => (summary.checks[c] ? [[c, summary.checks[c]]] : [])));
-    const line: JournalLine = { serial: board.serial, stamp, prev, full, head: headOf(summary), checks, nonce, dir: folderTime(this.boardsDir), boot: bootId() };
+    const line: JournalLine = {
+      serial: board.serial,
+      stamp,
+      prev,
+      full,
+      head: headOf(summary),
+      checks,
+      nonce,
+      dir: folderTime(this.boardsDir),
+      boot: bootId(),
+    };
     appendFileSync(this.journal, `${toLogJson(line)}\n`);
     return { journalBytes: statSync(this.journal).size };
   }
@@ -127,7 +137,13 @@ export class IndexStore {
     const facts = replayJournal(journalText, known);
     for (const s of snapshot?.suspects ?? []) facts.suspects.add(s);
     const lastDir = Math.max(snapshot?.dir ?? -1, facts.dir ?? -1);
-    const isQuick = options.verify !== true && snapshot !== null && snapshot.boot === boot && [...facts.boots].every((b) => b === boot) && startDir !== null && lastDir === startDir;
+    const isQuick =
+      options.verify !== true &&
+      snapshot !== null &&
+      snapshot.boot === boot &&
+      [...facts.boots].every((b) => b === boot) &&
+      startDir !== null &&
+      lastDir === startDir;
 
     const serials = boardSerials(this.boardsDir);
     const present = new Set(serials);
@@ -152,7 +168,10 @@ export class IndexStore {
         if (board) {
           const summary = summarizeBoard(board);
           known.set(serial, { head: headOf(summary), stamp, full: summary.checks, deltas: [], broken: false });
-          if (!shouldCompact) lines.push(`${toLogJson({ serial, stamp, prev: null, full: true, head: headOf(summary), checks: summary.checks, dir: startDir, boot } satisfies JournalLine)}\n`);
+          if (!shouldCompact)
+            lines.push(
+              `${toLogJson({ serial, stamp, prev: null, full: true, head: headOf(summary), checks: summary.checks, dir: startDir, boot } satisfies JournalLine)}\n`,
+            );
         }
       } catch (error) {
         if (!(error instanceof LogDamageError)) throw error;
@@ -214,7 +233,15 @@ export class IndexStore {
     } catch {
       return null; // the index is a cache of the board files: a damaged one is rebuilt, not refused
     }
-    if (!data || data.schemaVersion !== indexSchemaVersion || typeof data.boards !== 'object' || data.boards === null || typeof data.checksFile !== 'string' || !Array.isArray(data.suspects)) return null;
+    if (
+      !data ||
+      data.schemaVersion !== indexSchemaVersion ||
+      typeof data.boards !== 'object' ||
+      data.boards === null ||
+      typeof data.checksFile !== 'string' ||
+      !Array.isArray(data.suspects)
+    )
+      return null;
     const rows = unpackBoards(data.boards);
     return rows ? { ...(data as Snapshot), rows } : null;
   }
@@ -232,7 +259,12 @@ export class IndexStore {
   }
 
   /** Fold the journal into a new snapshot and columns file; returns the columns written, or null when the log is read-only. */
-  async #compact(boards: Record<string, BoardSummary>, known: Map<string, KnownBoard>, before: Snapshot | null, seen: Pick<Snapshot, 'dir' | 'boot' | 'suspects'>): Promise<CheckColumns | null> {
+  async #compact(
+    boards: Record<string, BoardSummary>,
+    known: Map<string, KnownBoard>,
+    before: Snapshot | null,
+    seen: Pick<Snapshot, 'dir' | 'boot' | 'suspects'>,
+  ): Promise<CheckColumns | null> {
     const bytes = encodeCheckColumns([...known.keys()].map((serial) => [serial, boards[serial]?.checks ?? {}] as [string, CheckMap]));
     const packed = packBoards([...known].map(([serial, k]) => [serial, k.head, k.stamp] as [string, BoardHead, string]));
     const checksFile = `index-checks.${randomBytes(6).toString('hex')}.bin`;
@@ -249,9 +281,16 @@ export class IndexStore {
         }
         const replaced = this.#readSnapshot()?.checksFile ?? before?.checksFile;
         await new DurableTextFile(join(this.dir, checksFile)).write(bytes);
-        await new DurableTextFile(this.file).write(JSON.stringify({ schemaVersion: indexSchemaVersion, boards: packed, checksFile, ...seen } satisfies Snapshot));
+        await new DurableTextFile(this.file).write(
+          JSON.stringify({ schemaVersion: indexSchemaVersion, boards: packed, checksFile, ...seen } satisfies Snapshot),
+        );
         isWritten = true;
-        for (const name of [aside, ...readdirSync(this.dir).filter((n) => anyChecksPattern.test(n) && n !== checksFile && n !== replaced).map((n) => join(this.dir, n))]) {
+        for (const name of [
+          aside,
+          ...readdirSync(this.dir)
+            .filter((n) => anyChecksPattern.test(n) && n !== checksFile && n !== replaced)
+            .map((n) => join(this.dir, n)),
+        ]) {
           try {
             unlinkSync(name);
           } catch (error) {

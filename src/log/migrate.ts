@@ -12,9 +12,7 @@ export type Migration = (data: Record<string, unknown>) => Record<string, unknow
  */
 export const boardMigrations: Readonly<Record<number, Migration>> = {};
 
-export type MigrationResult =
-  | { ok: true; data: Record<string, unknown>; from: number }
-  | { ok: false; kind: 'newer' | 'unknown'; version: unknown };
+export type MigrationResult = { ok: true; data: Record<string, unknown>; from: number } | { ok: false; kind: 'newer' | 'unknown'; version: unknown };
 
 /** Carry a parsed board file forward to `target`, or say why it cannot be. */
 export function migrateBoard(

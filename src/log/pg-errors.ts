@@ -17,7 +17,9 @@ export function serverError(error: unknown, shown: string, isCommitting = false)
   const e = (typeof error === 'object' && error !== null ? error : {}) as PgLike;
   const text = maskInText(e.message ?? String(error));
   const at = `log ${shown}`;
-  const lost = /Connection terminated|connection terminated|ECONNRESET|EPIPE|server closed the connection|terminating connection/i.test(text) || ['57P01', '57P02', '57P03', 'ECONNRESET', 'EPIPE'].includes(e.code ?? '');
+  const lost =
+    /Connection terminated|connection terminated|ECONNRESET|EPIPE|server closed the connection|terminating connection/i.test(text) ||
+    ['57P01', '57P02', '57P03', 'ECONNRESET', 'EPIPE'].includes(e.code ?? '');
   if (lost) {
     return new LogServerError(
       isCommitting
@@ -42,7 +44,9 @@ export function serverError(error: unknown, shown: string, isCommitting = false)
     case '3D000':
       return new LogServerError(`${at}: the database does not exist; create it (createdb NAME) or fix the URL`);
     case '42501':
-      return new LogServerError(`${at}: permission denied (${text.split('\n')[0]}); the user needs CREATE on the database the first time, then SELECT/INSERT/UPDATE on probebook's tables`);
+      return new LogServerError(
+        `${at}: permission denied (${text.split('\n')[0]}); the user needs CREATE on the database the first time, then SELECT/INSERT/UPDATE on probebook's tables`,
+      );
     default:
       break;
   }

@@ -1,5 +1,18 @@
 import pg from 'pg';
-import { addReworkChange, appendReadingChange, appendToOpenRunChange, type AppendResult, type BoardChange, checkRework, emptyBoard, endRunChange, linkCaptureChange, type MergeCounts, mergeBoardChange, startRunChange } from './board-changes.js';
+import {
+  addReworkChange,
+  appendReadingChange,
+  appendToOpenRunChange,
+  type AppendResult,
+  type BoardChange,
+  checkRework,
+  emptyBoard,
+  endRunChange,
+  linkCaptureChange,
+  type MergeCounts,
+  mergeBoardChange,
+  startRunChange,
+} from './board-changes.js';
 import { captureExtension, sha256Hex } from './content-store.js';
 import { LogInputError } from './errors.js';
 import { indexSchemaVersion } from './index-store.js';
@@ -8,7 +21,20 @@ import { LogServerError, serverError } from './pg-errors.js';
 import { validateSerial } from './serial.js';
 import type { LogStore } from './store.js';
 import { summarizeBoard } from './summary.js';
-import { type BoardFile, boardSchemaVersion, type BoardState, type BoardSummary, type CaptureRef, type CheckSummary, type LogIndex, type Reading, type ReadingInput, type Rework, type Run, type RunOutcome } from './types.js';
+import {
+  type BoardFile,
+  boardSchemaVersion,
+  type BoardState,
+  type BoardSummary,
+  type CaptureRef,
+  type CheckSummary,
+  type LogIndex,
+  type Reading,
+  type ReadingInput,
+  type Rework,
+  type Run,
+  type RunOutcome,
+} from './types.js';
 import type { Verdict } from '../analysis/types.js';
 import { checkReadingInput, checkRunStart, type RunStart } from './validate-input.js';
 
@@ -28,14 +54,19 @@ async function loadBoard(db: Db, serial: string): Promise<BoardFile | null> {
   if (board.rowCount === 0) return null;
   // One after another: a client inside a transaction takes one query at a time.
   const runs = await db.query('SELECT id, started, ended, operator, outcome, plan, plan_hash FROM runs WHERE serial = $1 ORDER BY seq', [serial]);
-  const readings = await db.query('SELECT id, run, check_id, value, unit, raw, at, operator, verdict, plan_hash, capture, warnings, instrument FROM readings WHERE serial = $1 ORDER BY seq', [serial]);
+  const readings = await db.query(
+    'SELECT id, run, check_id, value, unit, raw, at, operator, verdict, plan_hash, capture, warnings, instrument FROM readings WHERE serial = $1 ORDER BY seq',
+    [serial],
+  );
   const rework = await db.query('SELECT id, at, run, part, from_value, to_value, note, operator FROM rework WHERE serial = $1 ORDER BY seq', [serial]);
   const captures = await db.query('SELECT file, name, at, check_id, run FROM board_captures WHERE serial = $1 ORDER BY seq', [serial]);
   return {
     schemaVersion: boardSchemaVersion,
     serial,
     plan: board.rows[0]?.plan ?? null,
-    runs: runs.rows.map((r): Run => ({ id: r.id, started: r.started, ended: r.ended, operator: r.operator, outcome: r.outcome, plan: r.plan, planHash: r.plan_hash })),
+    runs: runs.rows.map(
+      (r): Run => ({ id: r.id, started: r.started, ended: r.ended, operator: r.operator, outcome: r.outcome, plan: r.plan, planHash: r.plan_hash }),
+    ),
     readings: readings.rows.map(
       (r): Reading => ({
         id: r.id,
@@ -53,7 +84,9 @@ async function loadBoard(db: Db, serial: string): Promise<BoardFile | null> {
         ...(r.instrument === null ? {} : { instrument: r.instrument }),
       }),
     ),
-    rework: rework.rows.map((w): Rework => ({ id: w.id, at: w.at, run: w.run, part: w.part, from: w.from_value, to: w.to_value, note: w.note, operator: w.operator })),
+    rework: rework.rows.map(
+      (w): Rework => ({ id: w.id, at: w.at, run: w.run, part: w.part, from: w.from_value, to: w.to_value, note: w.note, operator: w.operator }),
+    ),
     captures: captures.rows.map((c): CaptureRef => ({ file: c.file, name: c.name, at: c.at, check: c.check_id, run: c.run })),
   };
 }
@@ -65,7 +98,16 @@ async function writeDelta(db: Db, prev: BoardFile, next: BoardFile): Promise<voi
   for (const r of next.runs) {
     const old = oldRuns.get(r.id);
     if (!old) {
-      await db.query('INSERT INTO runs (id, serial, started, ended, operator, outcome, plan, plan_hash) VALUES ($1,$2,$3,$4,$5,$6,$7,$8)', [r.id, next.serial, r.started, r.ended, r.operator, r.outcome, r.plan, r.planHash]);
+      await db.query('INSERT INTO runs (id, serial, started, ended, operator, outcome, plan, plan_hash) VALUES ($1,$2,$3,$4,$5,$6,$7,$8)', [
+        r.id,
+        next.serial,
+        r.started,
+        r.ended,
+        r.operator,
+        r.outcome,
+        r.plan,
+        r.planHash,
+      ]);
     } else if (old.ended !== r.ended || old.outcome !== r.outcome) {
       await db.query('UPDATE runs SET ended = $2, outcome = $3 WHERE id = $1', [r.id, r.ended, r.outcome]);
     }
@@ -73,21 +115,53 @@ async function writeDelta(db: Db, prev: BoardFile, next: BoardFile): Promise<voi
   const oldReadings = new Set(prev.readings.map((r) => r.id));
   for (const r of next.readings) {
     if (oldReadings.has(r.id)) continue;
-    await db.query('INSERT INTO readings (id, serial, run, check_id, value, unit, raw, at, operator, verdict, plan_hash, capture, warnings, instrument) VALUES ($1,$2,$3,$4,$5,$6,$7,$8,$9,$10,$11,$12,$13,$14)', [
-      r.id, next.serial, r.run, r.check, r.value, r.unit, r.raw, r.at, r.operator, r.verdict, r.planHash, r.capture ?? null,
-      r.warnings === undefined ? null : JSON.stringify(r.warnings), r.instrument === undefined ? null : JSON.stringify(r.instrument),
-    ]);
+    await db.query(
+      'INSERT INTO readings (id, serial, run, check_id, value, unit, raw, at, operator, verdict, plan_hash, capture, warnings, instrument) VALUES ($1,$2,$3,$4,$5,$6,$7,$8,$9,$10,$11,$12,$13,$14)',
+      [
+        r.id,
+        next.serial,
+        r.run,
+        r.check,
+        r.value,
+        r.unit,
+        r.raw,
+        r.at,
+        r.operator,
+        r.verdict,
+        r.planHash,
+        r.capture ?? null,
+        r.warnings === undefined ? null : JSON.stringify(r.warnings),
+        r.instrument === undefined ? null : JSON.stringify(r.instrument),
+      ],
+    );
   }
   const oldRework = new Set(prev.rework.map((w) => w.id));
   for (const w of next.rework) {
     if (oldRework.has(w.id)) continue;
-    await db.query('INSERT INTO rework (id, serial, at, run, part, from_value, to_value, note, operator) VALUES ($1,$2,$3,$4,$5,$6,$7,$8,$9)', [w.id, next.serial, w.at, w.run, w.part, w.from, w.to, w.note, w.operator]);
+    await db.query('INSERT INTO rework (id, serial, at, run, part, from_value, to_value, note, operator) VALUES ($1,$2,$3,$4,$5,$6,$7,$8,$9)', [
+      w.id,
+      next.serial,
+      w.at,
+      w.run,
+      w.part,
+      w.from,
+      w.to,
+      w.note,
+      w.operator,
+    ]);
   }
   const key = (c: CaptureRef) => `${c.file}\u0000${c.check}\u0000${c.run}`;
   const oldCaptures = new Set(prev.captures.map(key));
   for (const c of next.captures) {
     if (oldCaptures.has(key(c))) continue;
-    await db.query('INSERT INTO board_captures (serial, file, name, at, check_id, run) VALUES ($1,$2,$3,$4,$5,$6)', [next.serial, c.file, c.name, c.at, c.check, c.run]);
+    await db.query('INSERT INTO board_captures (serial, file, name, at, check_id, run) VALUES ($1,$2,$3,$4,$5,$6)', [
+      next.serial,
+      c.file,
+      c.name,
+      c.at,
+      c.check,
+      c.run,
+    ]);
   }
 }
 
@@ -129,7 +203,9 @@ export class PgStore implements LogStore {
   ) {
     this.#pool = pool;
     this.#tooNew =
-      schemaVersion > pgSchemaVersion ? `log ${dir}: its schema is version ${schemaVersion}, newer than this probebook writes (${pgSchemaVersion}); upgrade probebook before recording into it` : null;
+      schemaVersion > pgSchemaVersion
+        ? `log ${dir}: its schema is version ${schemaVersion}, newer than this probebook writes (${pgSchemaVersion}); upgrade probebook before recording into it`
+        : null;
   }
 
   boardPath(serial: string): string {
@@ -193,7 +269,10 @@ export class PgStore implements LogStore {
     return this.#read(async () => {
       // Rows as arrays, not objects (the driver's row objects cost most of the fetch at 10⁵ boards;
       // measured with bench/pg.bench.ts). ±Infinity arrives as a float8 the driver parses.
-      const boards = await this.#pool.query<BoardRow>({ text: 'SELECT serial, plan, plan_hash, state, last_run_at, runs, readings, rework FROM board_summary', rowMode: 'array' });
+      const boards = await this.#pool.query<BoardRow>({
+        text: 'SELECT serial, plan, plan_hash, state, last_run_at, runs, readings, rework FROM board_summary',
+        rowMode: 'array',
+      });
       const checks = await this.#pool.query<CheckRow>({
         text: 'SELECT serial, check_id, first_value, first_verdict, first_at, latest_value, latest_verdict, latest_at, count FROM check_summary',
         rowMode: 'array',
@@ -206,7 +285,17 @@ export class PgStore implements LogStore {
       }
       const out: Record<string, BoardSummary> = {};
       for (const b of boards.rows) {
-        out[b[0]] = { serial: b[0], plan: b[1], planHash: b[2], state: b[3], lastRunAt: b[4], runs: b[5], readings: b[6], rework: b[7], checks: byBoard.get(b[0]) ?? {} };
+        out[b[0]] = {
+          serial: b[0],
+          plan: b[1],
+          planHash: b[2],
+          state: b[3],
+          lastRunAt: b[4],
+          runs: b[5],
+          readings: b[6],
+          rework: b[7],
+          checks: byBoard.get(b[0]) ?? {},
+        };
       }
       return { schemaVersion: indexSchemaVersion, boards: out, damaged: [] };
     });
@@ -241,7 +330,12 @@ export class PgStore implements LogStore {
     });
   }
 
-  async appendToOpenRun(serial: string, start: RunStart, input: Omit<ReadingInput, 'run'>, warningsFor?: (board: BoardFile, run: Run) => readonly string[]): Promise<AppendResult> {
+  async appendToOpenRun(
+    serial: string,
+    start: RunStart,
+    input: Omit<ReadingInput, 'run'>,
+    warningsFor?: (board: BoardFile, run: Run) => readonly string[],
+  ): Promise<AppendResult> {
     checkRunStart(start);
     if (sha256Hex(start.planText) !== start.planHash) throw new LogInputError(`plan ${start.plan}: planHash is not the sha256 of planText`);
     checkReadingInput({ ...input, run: 'pending' });
@@ -260,7 +354,8 @@ export class PgStore implements LogStore {
       mergeBoardChange(source),
       async (db) => {
         for (const [hash, text] of plans) await db.query('INSERT INTO plan_snapshots (hash, text) VALUES ($1, $2) ON CONFLICT (hash) DO NOTHING', [hash, text]);
-        for (const [file, bytes] of captures) await db.query('INSERT INTO captures (file, bytes) VALUES ($1, $2) ON CONFLICT (file) DO NOTHING', [file, Buffer.from(bytes)]);
+        for (const [file, bytes] of captures)
+          await db.query('INSERT INTO captures (file, bytes) VALUES ($1, $2) ON CONFLICT (file) DO NOTHING', [file, Buffer.from(bytes)]);
       },
       true,
     );
@@ -298,7 +393,14 @@ export class PgStore implements LogStore {
 
 /** Connect, create or check the schema, and hand back the store. */
 export async function openPgLog(url: string, shown: string): Promise<PgStore> {
-  const pool = new pg.Pool({ connectionString: url, max: 4, allowExitOnIdle: true, connectionTimeoutMillis: 5000, query_timeout: 30_000, application_name: 'probebook' });
+  const pool = new pg.Pool({
+    connectionString: url,
+    max: 4,
+    allowExitOnIdle: true,
+    connectionTimeoutMillis: 5000,
+    query_timeout: 30_000,
+    application_name: 'probebook',
+  });
   // An idle client whose server went away must not crash the process.
   pool.on('error', () => undefined);
   let client: pg.PoolClient;

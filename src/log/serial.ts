@@ -14,7 +14,8 @@ const reservedNames = /^(con|prn|aux|nul|com[1-9]|lpt[1-9])$/i;
 export function validateSerial(text: string): string | null {
   const allowed = 'a serial may use letters A-Z a-z, digits, "-", "_" and "." (e.g. "EXB-0042")';
   if (text === '') return `the serial is empty; ${allowed}`;
-  if (text.length > maxSerialLength) return `serial ${JSON.stringify(text.slice(0, 20))}… is ${text.length} characters long; at most ${maxSerialLength} are allowed`;
+  if (text.length > maxSerialLength)
+    return `serial ${JSON.stringify(text.slice(0, 20))}… is ${text.length} characters long; at most ${maxSerialLength} are allowed`;
   for (const ch of text) {
     const code = ch.codePointAt(0) ?? 0;
     if (code < 0x20 || code === 0x7f || (code >= 0x80 && code < 0xa0)) {
@@ -28,6 +29,7 @@ export function validateSerial(text: string): string | null {
   if (text.endsWith('.')) return `serial ${JSON.stringify(text)} ends with "."; ${allowed}`;
   const bad = /[^A-Za-z0-9._-]/.exec(text);
   if (bad) return `serial ${JSON.stringify(text)} contains ${JSON.stringify(bad[0])}; ${allowed}`;
-  if (reservedNames.test(text.split('.')[0] ?? '')) return `serial ${JSON.stringify(text)} is a reserved device name on Windows; add a prefix, e.g. "SN-${text}"`;
+  if (reservedNames.test(text.split('.')[0] ?? ''))
+    return `serial ${JSON.stringify(text)} is a reserved device name on Windows; add a prefix, e.g. "SN-${text}"`;
   return null;
 }

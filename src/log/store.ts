@@ -7,10 +7,34 @@ import { captureExtension, ContentStore, sha256Hex } from './content-store.js';
 import { errorCode, ioFailure, LogInputError, LogMissingError } from './errors.js';
 import { ensureFolder } from './folder.js';
 import { withFileLock } from './file-lock.js';
-import { addReworkChange, appendReadingChange, appendToOpenRunChange, type AppendResult, type BoardChange, checkRework, emptyBoard as emptyBoardOf, endRunChange, linkCaptureChange, type MergeCounts, mergeBoardChange, startRunChange } from './board-changes.js';
+import {
+  addReworkChange,
+  appendReadingChange,
+  appendToOpenRunChange,
+  type AppendResult,
+  type BoardChange,
+  checkRework,
+  emptyBoard as emptyBoardOf,
+  endRunChange,
+  linkCaptureChange,
+  type MergeCounts,
+  mergeBoardChange,
+  startRunChange,
+} from './board-changes.js';
 import { fileStamp, IndexStore, type IndexProgress, type IndexReadOptions, journalLimitBytes } from './index-store.js';
 import { validateSerial } from './serial.js';
-import { type BenchLog, type BoardFile, boardSchemaVersion, type CaptureRef, type LogIndex, type Reading, type ReadingInput, type Rework, type Run, type RunOutcome } from './types.js';
+import {
+  type BenchLog,
+  type BoardFile,
+  boardSchemaVersion,
+  type CaptureRef,
+  type LogIndex,
+  type Reading,
+  type ReadingInput,
+  type Rework,
+  type Run,
+  type RunOutcome,
+} from './types.js';
 import { checkReadingInput, checkRunStart, type RunStart } from './validate-input.js';
 
 export type { AppendResult } from './board-changes.js';
@@ -31,7 +55,12 @@ export interface LogStore extends BenchLog {
    * `warningsFor` adds warnings judged from the board as it is under the lock
    * (e.g. the run's readings so far), so they never come from a stale copy.
    */
-  appendToOpenRun(serial: string, run: RunStart, reading: Omit<ReadingInput, 'run'>, warningsFor?: (board: BoardFile, run: Run) => readonly string[]): Promise<AppendResult>;
+  appendToOpenRun(
+    serial: string,
+    run: RunStart,
+    reading: Omit<ReadingInput, 'run'>,
+    warningsFor?: (board: BoardFile, run: Run) => readonly string[],
+  ): Promise<AppendResult>;
   /** The path of a board's file (for messages). */
   boardPath(serial: string): string;
   /** Every board serial in the log (for `log copy`). */
@@ -96,24 +125,31 @@ class Store implements LogStore {
     // Locks live apart from the boards so that taking one leaves the boards folder's time alone (the index's quick path).
     // A file-system failure anywhere in the step is one line with the remedy (no raw `EPERM … .tmp` path).
     const saving = `cannot save board ${serial} in the log ${this.dir}`;
-    const lockOptions = this.options.onLockWait ? { onWait: (who: string) => this.options.onLockWait?.(`board ${serial} is busy: waiting for ${who} (up to 30 s)`) } : {};
-    const { result, journalBytes } = await withFileLock(join(this.dir, 'locks', `${serial}.json`), async () => {
-      const db = new Low<BoardFile>(new BoardFileAdapter(path, serial), emptyBoard(serial));
-      await db.read();
-      const prev = fileStamp(path);
-      const next = change(db.data);
-      db.data = next.board;
-      const nonce = this.#index.intend(serial);
-      await db.write();
-      const stamp = fileStamp(path);
-      if (stamp === null) throw new Error(`board file ${path} vanished right after it was written`);
-      return { result: next.result, journalBytes: this.#index.noteBoard(next.board, stamp, prev, next.touched ?? [], nonce).journalBytes };
-    }, lockOptions).catch((error: unknown) => {
+    const lockOptions = this.options.onLockWait
+      ? { onWait: (who: string) => this.options.onLockWait?.(`board ${serial} is busy: waiting for ${who} (up to 30 s)`) }
+      : {};
+    const { result, journalBytes } = await withFileLock(
+      join(this.dir, 'locks', `${serial}.json`),
+      async () => {
+        const db = new Low<BoardFile>(new BoardFileAdapter(path, serial), emptyBoard(serial));
+        await db.read();
+        const prev = fileStamp(path);
+        const next = change(db.data);
+        db.data = next.board;
+        const nonce = this.#index.intend(serial);
+        await db.write();
+        const stamp = fileStamp(path);
+        if (stamp === null) throw new Error(`board file ${path} vanished right after it was written`);
+        return { result: next.result, journalBytes: this.#index.noteBoard(next.board, stamp, prev, next.touched ?? [], nonce).journalBytes };
+      },
+      lockOptions,
+    ).catch((error: unknown) => {
       throw ioFailure(error, saving);
     });
-    if (journalBytes > journalLimitBytes) await this.#index.read().catch((error: unknown) => {
-      throw ioFailure(error, `board ${serial} is saved, but the index of ${this.dir} could not be updated`);
-    });
+    if (journalBytes > journalLimitBytes)
+      await this.#index.read().catch((error: unknown) => {
+        throw ioFailure(error, `board ${serial} is saved, but the index of ${this.dir} could not be updated`);
+      });
     return result;
   }
 
@@ -147,7 +183,12 @@ class Store implements LogStore {
     return this.#update(serial, appendReadingChange(serial, input));
   }
 
-  async appendToOpenRun(serial: string, start: RunStart, input: Omit<ReadingInput, 'run'>, warningsFor?: (board: BoardFile, run: Run) => readonly string[]): Promise<AppendResult> {
+  async appendToOpenRun(
+    serial: string,
+    start: RunStart,
+    input: Omit<ReadingInput, 'run'>,
+    warningsFor?: (board: BoardFile, run: Run) => readonly string[],
+  ): Promise<AppendResult> {
     this.#savePlan(start);
     checkReadingInput({ ...input, run: 'pending' });
     return this.#update(serial, appendToOpenRunChange(start, input, warningsFor));
@@ -187,7 +228,11 @@ class Store implements LogStore {
       if (errorCode(error) === 'ENOENT') return [];
       throw error;
     }
-    return names.filter((n) => n.endsWith('.json')).map((n) => n.slice(0, -5)).filter((s) => validateSerial(s) === null).sort();
+    return names
+      .filter((n) => n.endsWith('.json'))
+      .map((n) => n.slice(0, -5))
+      .filter((s) => validateSerial(s) === null)
+      .sort();
   }
 
   async close(): Promise<void> {}
@@ -226,7 +271,8 @@ function checkExistingLog(root: string): void {
   try {
     isFolder = statSync(root).isDirectory();
   } catch (error) {
-    if (errorCode(error) === 'ENOENT' || errorCode(error) === 'ENOTDIR') throw new LogMissingError(root, `there is no log at ${root}; check --log (or $PROBEBOOK_LOG), or record a reading first`);
+    if (errorCode(error) === 'ENOENT' || errorCode(error) === 'ENOTDIR')
+      throw new LogMissingError(root, `there is no log at ${root}; check --log (or $PROBEBOOK_LOG), or record a reading first`);
     throw error;
   }
   if (!isFolder) throw new LogMissingError(root, `${root} is a file, not a log folder; check --log (or $PROBEBOOK_LOG)`);

@@ -173,7 +173,8 @@ export class TargetsCache {
     try {
       text = readFileSync(file, 'utf8');
     } catch (error) {
-      if (errorCode(error) !== 'ENOENT') this.notice(`targets cache ${file} could not be read (${errorCode(error) ?? (error as Error).message}); the targets are computed again`);
+      if (errorCode(error) !== 'ENOENT')
+        this.notice(`targets cache ${file} could not be read (${errorCode(error) ?? (error as Error).message}); the targets are computed again`);
       return null;
     }
     let entry: { format?: unknown; version?: unknown; key?: unknown; set?: unknown; sha256?: unknown };

@@ -1,10 +1,38 @@
 import type { Verdict } from '../analysis/types.js';
 import type { Unit } from '../units/unit.js';
-import type { Reading, InstrumentRef, RunOutcome, Run, Rework, CaptureRef, BoardFile, BoardState, CheckSummary, BoardSummary, LogIndex, CheckColumns, DamagedBoard } from '../analysis/records.js';
+import type {
+  Reading,
+  InstrumentRef,
+  RunOutcome,
+  Run,
+  Rework,
+  CaptureRef,
+  BoardFile,
+  BoardState,
+  CheckSummary,
+  BoardSummary,
+  LogIndex,
+  CheckColumns,
+  DamagedBoard,
+} from '../analysis/records.js';
 
 /** Board file schema version; older files are migrated on read, newer ones refused. */
 export const boardSchemaVersion = 1;
-export type { Reading, InstrumentRef, RunOutcome, Run, Rework, CaptureRef, BoardFile, BoardState, CheckSummary, BoardSummary, LogIndex, CheckColumns, DamagedBoard } from '../analysis/records.js';
+export type {
+  Reading,
+  InstrumentRef,
+  RunOutcome,
+  Run,
+  Rework,
+  CaptureRef,
+  BoardFile,
+  BoardState,
+  CheckSummary,
+  BoardSummary,
+  LogIndex,
+  CheckColumns,
+  DamagedBoard,
+} from '../analysis/records.js';
 
 /** What a caller gives to save a reading; the store adds id, time and plan hash checks. */
 export interface ReadingInput {

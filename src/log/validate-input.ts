@@ -24,7 +24,9 @@ export function checkReadingInput(input: ReadingInput): void {
   if (typeof input.check !== 'string' || input.check === '') throw new LogInputError('a reading needs its check id');
   if (typeof input.value !== 'number' || Number.isNaN(input.value)) throw new LogInputError(`reading of ${input.check}: the value is not a number`);
   if (!(input.unit in unitNoun)) throw new LogInputError(`reading of ${input.check}: ${JSON.stringify(input.unit)} is not a unit`);
-  if (input.verdict !== 'pass' && input.verdict !== 'marginal' && input.verdict !== 'fail') throw new LogInputError(`reading of ${input.check}: ${JSON.stringify(input.verdict)} is not a verdict`);
+  if (input.verdict !== 'pass' && input.verdict !== 'marginal' && input.verdict !== 'fail')
+    throw new LogInputError(`reading of ${input.check}: ${JSON.stringify(input.verdict)} is not a verdict`);
   if (!hashPattern.test(input.planHash)) throw new LogInputError(`reading of ${input.check}: ${JSON.stringify(input.planHash)} is not a sha256 in hex`);
-  if (typeof input.raw !== 'string' || typeof input.operator !== 'string') throw new LogInputError(`reading of ${input.check}: raw text and operator are needed`);
+  if (typeof input.raw !== 'string' || typeof input.operator !== 'string')
+    throw new LogInputError(`reading of ${input.check}: raw text and operator are needed`);
 }

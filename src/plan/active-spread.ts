@@ -30,7 +30,7 @@ export interface OpampSpec {
  * around 3–7.5 mV; from memory, common practice, no source). It enters only
  * DC levels (`<stage>.<output>.dc`), so it widens no AC band.
  */
-export const defaultVos: Spread = { half: 5e-3, text: '5 mV (default: a general-purpose op-amp\'s offset)' };
+export const defaultVos: Spread = { half: 5e-3, text: "5 mV (default: a general-purpose op-amp's offset)" };
 
 const units: Readonly<Record<OpampSpreadKey | 'maxSupply' | 'aol', Unit>> = {
   gbw: 'Hz',
@@ -48,7 +48,8 @@ const units: Readonly<Record<OpampSpreadKey | 'maxSupply' | 'aol', Unit>> = {
  */
 export function readSpreadValue(raw: string | number, unit: Unit, file: string, path: string): { value: number; half: number } {
   if (typeof raw === 'number') {
-    if (!Number.isFinite(raw) || (unit !== '1' && unit !== 'V/V')) throw new PlanError(file, path, `${raw}: write ${unitNoun[unit]} as text, e.g. ${unitExample[unit]}`);
+    if (!Number.isFinite(raw) || (unit !== '1' && unit !== 'V/V'))
+      throw new PlanError(file, path, `${raw}: write ${unitNoun[unit]} as text, e.g. ${unitExample[unit]}`);
     return { value: raw, half: 0 };
   }
   const whole = parseValue(raw, { expected: unit, allowTolerance: true });
@@ -63,15 +64,29 @@ export function readSpreadValue(raw: string | number, unit: Unit, file: string, 
   const tokens = raw.trim().split(/\s+/);
   for (let k = 1; k < tokens.length; k++) {
     const a = parseValue(tokens.slice(0, k).join(' '), { expected: unit, allowTolerance: false });
-    const b = parseValue(tokens.slice(k).join(' ').replace(/^(±|\+\/-)\s*/, ''), { expected: unit, allowTolerance: false });
+    const b = parseValue(
+      tokens
+        .slice(k)
+        .join(' ')
+        .replace(/^(±|\+\/-)\s*/, ''),
+      { expected: unit, allowTolerance: false },
+    );
     if (!a.ok || !b.ok || a.unit !== unit || b.unit !== unit) continue;
     if (!(b.value >= 0)) throw new PlanError(file, path, `${JSON.stringify(raw)}: a tolerance cannot be negative`);
     if (a.value !== 0 && b.value >= Math.abs(a.value)) {
-      throw new PlanError(file, path, `${JSON.stringify(raw)}: the tolerance is as large as the value itself; write the part's real spread, e.g. "1.5 V 0.3 V"`);
+      throw new PlanError(
+        file,
+        path,
+        `${JSON.stringify(raw)}: the tolerance is as large as the value itself; write the part's real spread, e.g. "1.5 V 0.3 V"`,
+      );
     }
     return { value: a.value, half: b.value };
   }
-  throw new PlanError(file, path, `${whole.message}; a spread is written as a percentage or in the same unit, e.g. ${unitExample[unit].replace(/"$/, ' 20%"')}`);
+  throw new PlanError(
+    file,
+    path,
+    `${whole.message}; a spread is written as a percentage or in the same unit, e.g. ${unitExample[unit].replace(/"$/, ' 20%"')}`,
+  );
 }
 
 /**
@@ -92,7 +107,11 @@ export function readOpampSpec(raw: RawOpamp | undefined, base: OpampSpec, file: 
     if (key === 'vos') {
       const r = readSpreadValue(v, unit, file, where);
       if (r.half !== 0 || r.value < 0) {
-        throw new PlanError(file, where, `${JSON.stringify(v)}: write the offset as its ± maximum from the data sheet, e.g. "2 mV" (the offset then lies anywhere in −2 … +2 mV)`);
+        throw new PlanError(
+          file,
+          where,
+          `${JSON.stringify(v)}: write the offset as its ± maximum from the data sheet, e.g. "2 mV" (the offset then lies anywhere in −2 … +2 mV)`,
+        );
       }
       model['vos'] = 0;
       if (r.value > 0) spread.vos = { half: r.value, text: String(v) };
@@ -133,7 +152,11 @@ function readTemperature(raw: unknown, file: string, path: string): number {
   // Below −55 °C or above 125 °C lies outside every common part's rating (common practice, no source).
   if (!(kelvin > 0)) throw new PlanError(file, path, `${JSON.stringify(raw)} is below absolute zero`);
   if (kelvin < 273.15 - 55 || kelvin > 273.15 + 125) {
-    throw new PlanError(file, path, `${JSON.stringify(raw)} lies outside −55 … 125 °C, beyond the ratings of common parts; give the board's real ambient range`);
+    throw new PlanError(
+      file,
+      path,
+      `${JSON.stringify(raw)} lies outside −55 … 125 °C, beyond the ratings of common parts; give the board's real ambient range`,
+    );
   }
   return kelvin;
 }

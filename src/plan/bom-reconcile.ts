@@ -58,8 +58,19 @@ export function planRefs(plan: Plan): PlanRef[] {
     if (!stage || !s.refs) return;
     for (const [role, text] of Object.entries(s.refs)) {
       const part = stage.parts[role];
-      for (const ref of String(text).split(/[\s/,;]+/).filter(Boolean)) {
-        out.push({ ref: ref.toUpperCase(), stage: stage.id, stageIndex, role, text: part?.text ?? null, nominal: part?.nominal ?? null, tol: part?.tol ?? null, unit: part?.unit ?? null });
+      for (const ref of String(text)
+        .split(/[\s/,;]+/)
+        .filter(Boolean)) {
+        out.push({
+          ref: ref.toUpperCase(),
+          stage: stage.id,
+          stageIndex,
+          role,
+          text: part?.text ?? null,
+          nominal: part?.nominal ?? null,
+          tol: part?.tol ?? null,
+          unit: part?.unit ?? null,
+        });
       }
     }
   });
@@ -67,7 +78,11 @@ export function planRefs(plan: Plan): PlanRef[] {
 }
 
 /** Read a BOM value as a value of `unit`: `10K`, `4.7uF`, `4u7`, `10K 1%`, `100nF/50V`, `10k X7R`. */
-export function readBomValue(text: string, unit: Unit, tolText: string | null): { ok: true; value: number; tol: number | null; text: string } | { ok: false; message: string } {
+export function readBomValue(
+  text: string,
+  unit: Unit,
+  tolText: string | null,
+): { ok: true; value: number; tol: number | null; text: string } | { ok: false; message: string } {
   const candidates = [text, text.split('/')[0] ?? '', text.split(/\s+/)[0] ?? ''].map((t) => t.trim()).filter((t, i, all) => t !== '' && all.indexOf(t) === i);
   for (const candidate of candidates) {
     const parsed = parseValue(candidate, { expected: unit, allowTolerance: true });
@@ -82,7 +97,12 @@ export function readBomValue(text: string, unit: Unit, tolText: string | null): 
     }
   }
   const first = parseValue(text, { expected: unit, allowTolerance: true });
-  return { ok: false, message: first.ok ? `${JSON.stringify(text)} is not ${unit === 'Ω' ? 'a resistance' : unit === 'F' ? 'a capacitance' : `a value in ${unit}`}` : first.message };
+  return {
+    ok: false,
+    message: first.ok
+      ? `${JSON.stringify(text)} is not ${unit === 'Ω' ? 'a resistance' : unit === 'F' ? 'a capacitance' : `a value in ${unit}`}`
+      : first.message,
+  };
 }
 
 const pct = (tol: number) => `${+(tol * 100).toFixed(3)}%`;
@@ -117,7 +137,14 @@ export function reconcileBom(plan: Plan, bom: Bom): BomReport {
     seenParts.add(part);
     const tol = read.tol ?? r.tol;
     const write = tol !== null && tol > 0 ? `${read.text} ${pct(tol)}` : read.text;
-    differences.push({ ref: r.ref, part, plan: r.text, bom: `${e.value}${e.tol ? ` ${e.tol}` : ''} (${formatValue(read.value, r.unit)})`, write, path: ['stages', r.stageIndex, ...rolePath(r.role)] });
+    differences.push({
+      ref: r.ref,
+      part,
+      plan: r.text,
+      bom: `${e.value}${e.tol ? ` ${e.tol}` : ''} (${formatValue(read.value, r.unit)})`,
+      write,
+      path: ['stages', r.stageIndex, ...rolePath(r.role)],
+    });
   }
   const onlyInPlan = refs.filter((r) => !bomByRef.has(r.ref));
   const onlyInBom = [...bomByRef.values()].filter((e) => !byRef.has(e.ref));

@@ -33,7 +33,19 @@ export class BomError extends Error {
 }
 
 /** The header names each column is known by (case, spaces and punctuation ignored). */
-export const refHeaders = ['designator', 'designators', 'reference', 'references', 'ref', 'refs', 'refdes', 'referencedesignator', 'referencedesignators', 'partreference', 'parts'];
+export const refHeaders = [
+  'designator',
+  'designators',
+  'reference',
+  'references',
+  'ref',
+  'refs',
+  'refdes',
+  'referencedesignator',
+  'referencedesignators',
+  'partreference',
+  'parts',
+];
 export const valueHeaders = ['value', 'val', 'comment', 'partvalue', 'values'];
 export const tolHeaders = ['tolerance', 'tol', 'tolerances'];
 
@@ -92,7 +104,10 @@ function sniffDelimiter(text: string): ',' | ';' | '\t' {
   let bestScore = -1;
   for (const d of [',', ';', '\t'] as const) {
     const rows = csvRows(head, d).slice(0, 12);
-    const score = Math.max(0, ...rows.map((r) => (findColumn(r.fields, refHeaders) >= 0 && findColumn(r.fields, valueHeaders) >= 0 ? 1000 : 0) + r.fields.length));
+    const score = Math.max(
+      0,
+      ...rows.map((r) => (findColumn(r.fields, refHeaders) >= 0 && findColumn(r.fields, valueHeaders) >= 0 ? 1000 : 0) + r.fields.length),
+    );
     if (score > bestScore) {
       best = d;
       bestScore = score;
@@ -135,8 +150,13 @@ export function parseBom(text: string, columns: BomColumns = {}): Bom {
   // The header is the first row that names a reference and a value column (preamble lines before it are skipped).
   const headerAt = rows.findIndex((r) => findColumn(r.fields, refHeaders, columns.ref) >= 0 && findColumn(r.fields, valueHeaders, columns.value) >= 0);
   if (headerAt < 0) {
-    const named = columns.ref || columns.value ? ` (asked for ${[columns.ref && `--ref-col ${JSON.stringify(columns.ref)}`, columns.value && `--value-col ${JSON.stringify(columns.value)}`].filter(Boolean).join(', ')})` : '';
-    throw new BomError(`no header with a reference and a value column${named}; known names: ${refHeaders.slice(0, 6).join(', ')} … and ${valueHeaders.join(', ')}; or name them with --ref-col and --value-col`);
+    const named =
+      columns.ref || columns.value
+        ? ` (asked for ${[columns.ref && `--ref-col ${JSON.stringify(columns.ref)}`, columns.value && `--value-col ${JSON.stringify(columns.value)}`].filter(Boolean).join(', ')})`
+        : '';
+    throw new BomError(
+      `no header with a reference and a value column${named}; known names: ${refHeaders.slice(0, 6).join(', ')} … and ${valueHeaders.join(', ')}; or name them with --ref-col and --value-col`,
+    );
   }
   const header = (rows[headerAt] as { fields: string[] }).fields;
   const refCol = findColumn(header, refHeaders, columns.ref);

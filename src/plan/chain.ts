@@ -154,7 +154,16 @@ export function buildChain(plan: Plan): Chain {
   }
   for (const stage of plan.stages) {
     for (const [role, part] of Object.entries(stage.parts)) {
-      variables.push({ name: `${stage.id}.${role}`, stage: stage.id, role, nominal: part.nominal, tol: part.tol, unit: part.unit, text: part.text, spread: Math.abs(part.nominal) * part.tol });
+      variables.push({
+        name: `${stage.id}.${role}`,
+        stage: stage.id,
+        role,
+        nominal: part.nominal,
+        tol: part.tol,
+        unit: part.unit,
+        text: part.text,
+        spread: Math.abs(part.nominal) * part.tol,
+      });
     }
   }
   // Active parts (issue 11): the op-amp's toleranced keys, once for the plan's part (shared by every
@@ -164,7 +173,16 @@ export function buildChain(plan: Plan): Chain {
     const nominal = model[key] ?? 0;
     const name = `${prefix}opamp.${key}`;
     if (variables.some((v) => v.name === name)) return;
-    variables.push({ name, stage: stageId, role: `opamp.${key}`, nominal, tol: nominal === 0 ? 0 : spread.half / Math.abs(nominal), unit: opampUnits[key], text: spread.text, spread: spread.half });
+    variables.push({
+      name,
+      stage: stageId,
+      role: `opamp.${key}`,
+      nominal,
+      tol: nominal === 0 ? 0 : spread.half / Math.abs(nominal),
+      unit: opampUnits[key],
+      text: spread.text,
+      spread: spread.half,
+    });
   };
   for (const s of opampStages) {
     const own = s.hasOwnOpamp === true;
@@ -175,7 +193,16 @@ export function buildChain(plan: Plan): Chain {
   }
   if (plan.temperature) {
     const t = plan.temperature;
-    variables.push({ name: 'temperature', stage: 'temperature', role: 'temperature', nominal: t.nominal, tol: (t.max - t.nominal) / t.nominal, unit: 'K', text: t.text, spread: t.max - t.nominal });
+    variables.push({
+      name: 'temperature',
+      stage: 'temperature',
+      role: 'temperature',
+      nominal: t.nominal,
+      tol: (t.max - t.nominal) / t.nominal,
+      unit: 'K',
+      text: t.text,
+      spread: t.max - t.nominal,
+    });
   }
   const temperatureIndex = variables.findIndex((v) => v.name === 'temperature');
   const checks = planChecks(plan);
@@ -205,8 +232,17 @@ export function buildChain(plan: Plan): Chain {
     const varIndex = Int32Array.from(roles, (role) => variablePosition.get(`${stage.id}.${role}`) ?? -1);
     const outIndex = checksByStage.get(stage.id) ?? [];
     const prefix = stage.hasOwnOpamp === true ? `${stage.id}.` : '';
-    const opampIndex = Int32Array.from(opampKeys, (key) => (stage.module.traits?.usesOpamp === true ? (variablePosition.get(`${prefix}opamp.${key}`) ?? -1) : -1));
-    return { stage, roles, varIndex, outIndex, inputStage: stage.input ? (stagePosition.get(stage.input.stage) ?? -1) : -1, opampIndex: opampIndex.some((i) => i >= 0) ? opampIndex : null };
+    const opampIndex = Int32Array.from(opampKeys, (key) =>
+      stage.module.traits?.usesOpamp === true ? (variablePosition.get(`${prefix}opamp.${key}`) ?? -1) : -1,
+    );
+    return {
+      stage,
+      roles,
+      varIndex,
+      outIndex,
+      inputStage: stage.input ? (stagePosition.get(stage.input.stage) ?? -1) : -1,
+      opampIndex: opampIndex.some((i) => i >= 0) ? opampIndex : null,
+    };
   });
 
   // Loading (DESIGN §3: every stage's input loads the output it takes). For each
@@ -256,13 +292,31 @@ export function buildChain(plan: Plan): Chain {
   const hotArgs = stagePlans.map((sp) => {
     const parts: Record<string, number> = Object.fromEntries(sp.roles.map((r) => [r, 0]));
     const opamp = sp.opampIndex ? { ...sp.stage.opamp } : sp.stage.opamp;
-    const args: HotArgs = { parts, settings: sp.stage.settings, opamp, supplies: hotSupplies, rails: hotRails, isTrial: true, buffer: undefined, load: undefined };
+    const args: HotArgs = {
+      parts,
+      settings: sp.stage.settings,
+      opamp,
+      supplies: hotSupplies,
+      rails: hotRails,
+      isTrial: true,
+      buffer: undefined,
+      load: undefined,
+    };
     return args;
   });
   const hotResults: (EvalOutput | undefined)[] = new Array(stagePlans.length);
   const hotBuffers = stagePlans.map(() => bufferPool());
 
-  const run = (x: Float64Array, out: Float64Array | undefined, keep: boolean, upTo = stagePlans.length, reuse = 0, capture?: (EvalOutput | undefined)[], carry = 0, fault?: ChainFault): ChainDetail => {
+  const run = (
+    x: Float64Array,
+    out: Float64Array | undefined,
+    keep: boolean,
+    upTo = stagePlans.length,
+    reuse = 0,
+    capture?: (EvalOutput | undefined)[],
+    carry = 0,
+    fault?: ChainFault,
+  ): ChainDetail => {
     const rails: Record<string, number> = keep ? {} : hotRails;
     for (let i = 0; i < railIds.length; i++) {
       const v = x[i] ?? Number.NaN;
@@ -303,7 +357,14 @@ export function buildChain(plan: Plan): Chain {
       else if (sp.inputStage < 0 || input) {
         try {
           const args: HotArgs = keep
-            ? { parts: sampleParts[s] as Record<string, number>, settings: sp.stage.settings, opamp: sp.opampIndex ? { ...sp.stage.opamp } : sp.stage.opamp, supplies, rails, load: loadFns[s] }
+            ? {
+                parts: sampleParts[s] as Record<string, number>,
+                settings: sp.stage.settings,
+                opamp: sp.opampIndex ? { ...sp.stage.opamp } : sp.stage.opamp,
+                supplies,
+                rails,
+                load: loadFns[s],
+              }
             : (hotArgs[s] as HotArgs);
           if (sp.opampIndex) {
             const op = args.opamp as MutableOpamp;

@@ -138,7 +138,12 @@ export function exampleFrom(message: string): Json | undefined {
  * message gives (a rail setting with the plan's first rail), so the kind
  * module alone decides what a stage needs; no kind is named here.
  */
-export function stageTemplate(kind: string, id: string, railIds: readonly string[], kinds: Readonly<Record<string, StageKind<unknown>>> = stageKinds): JsonObject {
+export function stageTemplate(
+  kind: string,
+  id: string,
+  railIds: readonly string[],
+  kinds: Readonly<Record<string, StageKind<unknown>>> = stageKinds,
+): JsonObject {
   const module = kinds[kind];
   let json: JsonObject = { id, kind };
   if (!module) return json;
@@ -166,7 +171,12 @@ export function addStage(draft: Draft, kind: string, kinds: Readonly<Record<stri
   const module = kinds[kind];
   const stages = stagesOf(draft);
   const id = freeStageId(draft, kind.split('-')[0] ?? 'stage');
-  let stage = stageTemplate(kind, id, railsOf(draft).map((r) => String(r['id'])), kinds);
+  let stage = stageTemplate(
+    kind,
+    id,
+    railsOf(draft).map((r) => String(r['id'])),
+    kinds,
+  );
   const last = [...stages].reverse().find((s) => (kinds[String(s['kind'])]?.outputs.length ?? 0) > 0);
   if (module?.needsInput && last) {
     const out = kinds[String(last['kind'])]?.outputs[0];
@@ -220,7 +230,21 @@ export function inputChoices(draft: Draft, index: number, kinds: Readonly<Record
 }
 
 // Key order of a saved plan: the contract keys in DESIGN §3's order, then anything else as it was.
-const topOrder = ['$schema', 'plan', 'title', 'note', 'rails', 'idleCurrent', 'railShortMin', 'opamp', 'temperature', 'uncertainty', 'checkUncertainty', 'decimalComma', 'stages'];
+const topOrder = [
+  '$schema',
+  'plan',
+  'title',
+  'note',
+  'rails',
+  'idleCurrent',
+  'railShortMin',
+  'opamp',
+  'temperature',
+  'uncertainty',
+  'checkUncertainty',
+  'decimalComma',
+  'stages',
+];
 const railOrder = ['id', 'nominal', 'tol', 'testPoint'];
 const stageFirst = ['id', 'kind', 'input'];
 const stageLast = ['testPoints', 'refs'];
@@ -240,7 +264,8 @@ function orderStage(stage: JsonObject): JsonObject {
 /** The draft with its keys in the plan's usual order (unknown keys kept, after the known ones). */
 export function orderDraft(draft: Draft): Draft {
   const top = ordered(draft, topOrder);
-  if (Array.isArray(top['rails'])) top['rails'] = top['rails'].map((r) => (r !== null && typeof r === 'object' && !Array.isArray(r) ? ordered(r, railOrder) : r));
+  if (Array.isArray(top['rails']))
+    top['rails'] = top['rails'].map((r) => (r !== null && typeof r === 'object' && !Array.isArray(r) ? ordered(r, railOrder) : r));
   if (Array.isArray(top['stages'])) top['stages'] = top['stages'].map((s) => (s !== null && typeof s === 'object' && !Array.isArray(s) ? orderStage(s) : s));
   return top;
 }
@@ -260,7 +285,9 @@ export function serialiseDraft(draft: Draft): string {
 function inline(v: Json): string {
   if (v === null || typeof v !== 'object') return JSON.stringify(v);
   if (Array.isArray(v)) return `[${v.map(inline).join(', ')}]`;
-  return `{${Object.entries(v).map(([k, x]) => `${JSON.stringify(k)}: ${inline(x)}`).join(', ')}}`;
+  return `{${Object.entries(v)
+    .map(([k, x]) => `${JSON.stringify(k)}: ${inline(x)}`)
+    .join(', ')}}`;
 }
 
 /** Where a value sits: the plan, its rail and stage lists and each stage are always one key a line (a plan reads stage by stage). */

@@ -53,14 +53,19 @@ export async function loadPlanFile(file: string, options: { readonly cwd?: strin
     const info = await handle.stat();
     if (info.isDirectory()) throw new PlanError(file, '', 'is a folder; give the path of a *.plan.json file');
     if (!info.isFile()) throw new PlanError(file, '', 'is not a regular file (a pipe, a device or a socket); give the path of a *.plan.json file');
-    if (info.size > maxPlanBytes) throw new PlanError(file, '', `is ${(info.size / 1e6).toFixed(1)} MB; a plan is at most ${maxPlanBytes / 1e6} MB (${maxStages} stages), so this is not one`);
+    if (info.size > maxPlanBytes)
+      throw new PlanError(
+        file,
+        '',
+        `is ${(info.size / 1e6).toFixed(1)} MB; a plan is at most ${maxPlanBytes / 1e6} MB (${maxStages} stages), so this is not one`,
+      );
     text = await handle.readFile('utf8');
   } catch (error) {
     if (error instanceof PlanError) throw error;
     const code = (error as NodeJS.ErrnoException).code;
     if (code === 'ENOENT') throw new PlanError(file, '', 'no such file; give the path of a *.plan.json file');
     if (code === 'EISDIR') throw new PlanError(file, '', 'is a folder; give the path of a *.plan.json file');
-    if (code === 'EACCES' || code === 'EPERM') throw new PlanError(file, '', 'cannot be read: permission denied; check the file\'s permissions');
+    if (code === 'EACCES' || code === 'EPERM') throw new PlanError(file, '', "cannot be read: permission denied; check the file's permissions");
     throw new PlanError(file, '', `cannot be read (${code ?? (error as Error).message})`);
   } finally {
     await handle?.close();
@@ -113,7 +118,9 @@ function readPlan(text: string, file: string, kinds: Readonly<Record<string, Sta
   }
   const raw = result.data;
 
-  const rails = problems ? raw.rails.flatMap((r, i) => attempt(() => readRails({ ...raw, rails: raw.rails.slice(0, i + 1) }, file).slice(i)) ?? []) : readRails(raw, file);
+  const rails = problems
+    ? raw.rails.flatMap((r, i) => attempt(() => readRails({ ...raw, rails: raw.rails.slice(0, i + 1) }, file).slice(i)) ?? [])
+    : readRails(raw, file);
   const fallbackSpec = { model: defaultOpamp, spread: { vos: defaultVos } };
   const opampSpec = attempt(() => readOpampSpec(raw.opamp, fallbackSpec, file, 'opamp')) ?? fallbackSpec;
   const opampBase = opampSpec.model;
@@ -138,7 +145,10 @@ function readPlan(text: string, file: string, kinds: Readonly<Record<string, Sta
       if (!check) {
         // A check of a stage that already has a mistake is not a second mistake.
         if (problems && problems.length > 0) return;
-        const sample = checks.slice(0, 6).map((c) => JSON.stringify(c.check)).join(', ');
+        const sample = checks
+          .slice(0, 6)
+          .map((c) => JSON.stringify(c.check))
+          .join(', ');
         throw new PlanError(file, `checkUncertainty[${JSON.stringify(id)}]`, `no check ${JSON.stringify(id)} in this plan; check ids look like ${sample}`);
       }
       checkUncertainty[id] = readUncertainty(spec, check.unit, file, `checkUncertainty[${JSON.stringify(id)}]`);
@@ -190,7 +200,8 @@ function checkSize(json: unknown, file: string): void {
   if (json === null || typeof json !== 'object') return;
   const stages = (json as { stages?: unknown }).stages;
   if (!Array.isArray(stages)) return;
-  if (stages.length > maxStages) throw new PlanError(file, 'stages', `${stages.length} stages; a plan holds at most ${maxStages} (split the board into several plans)`);
+  if (stages.length > maxStages)
+    throw new PlanError(file, 'stages', `${stages.length} stages; a plan holds at most ${maxStages} (split the board into several plans)`);
   stages.forEach((stage: unknown, i) => {
     if (stage === null || typeof stage !== 'object') return;
     for (const [key, value] of Object.entries(stage)) {
@@ -209,7 +220,8 @@ export function nestingDepth(text: string, limit: number): number {
   for (let i = 0; i < text.length; i++) {
     const c = text.charCodeAt(i);
     if (inString) {
-      if (c === 0x5c) i++; // backslash: skip the escaped character
+      if (c === 0x5c)
+        i++; // backslash: skip the escaped character
       else if (c === 0x22) inString = false;
     } else if (c === 0x22) inString = true;
     else if (c === 0x7b || c === 0x5b) {
@@ -225,7 +237,8 @@ function parseJson(text: string, file: string): unknown {
   // Editors on some systems write a byte-order mark; it is not part of the JSON.
   const body = text.charCodeAt(0) === 0xfeff ? ` ${text.slice(1)}` : text;
   // Checked before parsing: the fault finder below recurses once per level.
-  if (nestingDepth(body, maxPlanDepth) > maxPlanDepth) throw new PlanError(file, '', `is nested more than ${maxPlanDepth} levels deep; a plan is a few levels of objects and lists`);
+  if (nestingDepth(body, maxPlanDepth) > maxPlanDepth)
+    throw new PlanError(file, '', `is nested more than ${maxPlanDepth} levels deep; a plan is a few levels of objects and lists`);
   try {
     return JSON.parse(body);
   } catch {

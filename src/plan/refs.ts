@@ -17,7 +17,8 @@ export function refsOfPlanText(text: string | null | undefined): Map<string, str
   if (!Array.isArray(stages)) return out;
   for (const s of stages as { id?: unknown; refs?: unknown }[]) {
     if (typeof s?.id !== 'string' || typeof s.refs !== 'object' || s.refs === null) continue;
-    for (const [role, ref] of Object.entries(s.refs as Record<string, unknown>)) if (typeof ref === 'string' && ref.trim() !== '') out.set(`${s.id}.${role}`, ref.trim());
+    for (const [role, ref] of Object.entries(s.refs as Record<string, unknown>))
+      if (typeof ref === 'string' && ref.trim() !== '') out.set(`${s.id}.${role}`, ref.trim());
   }
   return out;
 }

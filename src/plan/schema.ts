@@ -56,9 +56,9 @@ const uncertaintySchema = z.strictObject({
 });
 
 /** Stage ids name check ids (`osc.freq`), so they may not hold dots or spaces. */
-const stageId = z
-  .string({ error: 'expected a stage id such as "osc"' })
-  .regex(/^[A-Za-z][A-Za-z0-9_-]*$/, { error: 'a stage id starts with a letter and holds only letters, digits, "-" and "_" (it becomes part of check ids such as "osc.freq")' });
+const stageId = z.string({ error: 'expected a stage id such as "osc"' }).regex(/^[A-Za-z][A-Za-z0-9_-]*$/, {
+  error: 'a stage id starts with a letter and holds only letters, digits, "-" and "_" (it becomes part of check ids such as "osc.freq")',
+});
 
 export const stageSchema = z.looseObject({
   id: stageId,
@@ -66,7 +66,11 @@ export const stageSchema = z.looseObject({
   input: z.optional(text('an upstream output such as "osc.triangle"')),
   testPoints: z.optional(z.record(z.string(), name('a test point name such as "TP3"', 40), { error: 'expected test points by output, e.g. {"out": "TP4"}' })),
   opamp: z.optional(opampSchema),
-  refs: z.optional(z.record(z.string(), text('a reference designator such as "C7"'), { error: 'expected reference designators by part role, e.g. {"Ct": "C7", "clamp": "D3/D4"}' })),
+  refs: z.optional(
+    z.record(z.string(), text('a reference designator such as "C7"'), {
+      error: 'expected reference designators by part role, e.g. {"Ct": "C7", "clamp": "D3/D4"}',
+    }),
+  ),
   /**
    * External loads on the stage's outputs, by output name (`{"out": "600 ohm 5%"}`):
    * a line, a meter or scope input the bench hangs there. An addition to the contract keys.
@@ -77,7 +81,9 @@ export const stageSchema = z.looseObject({
 export const planSchema = z.strictObject({
   /** Allowed so editors can point at a schema file; ignored. */
   $schema: z.optional(z.string()),
-  plan: text('a plan id such as "exciter-b"').regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, { error: 'a plan id holds letters, digits, ".", "-" and "_", e.g. "exciter-b"' }),
+  plan: text('a plan id such as "exciter-b"').regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, {
+    error: 'a plan id holds letters, digits, ".", "-" and "_", e.g. "exciter-b"',
+  }),
   /** Control characters are taken out of it when loaded (see load.ts); at most 200 characters. */
   title: text('a title such as "Sensor exciter, rev B"').max(200, { error: 'a title is at most 200 characters' }),
   note: z.optional(text('free text')),

@@ -49,9 +49,11 @@ export function resolveStages(
   const skipped = new Set<number>();
   raws.forEach((raw, i) => {
     const ok = attempt(() => {
-      if (raw.id === 'rails') throw new PlanError(file, `stages[${i}].id`, '"rails" is reserved for the supply checks (rails.<id>.dc); name the stage otherwise');
+      if (raw.id === 'rails')
+        throw new PlanError(file, `stages[${i}].id`, '"rails" is reserved for the supply checks (rails.<id>.dc); name the stage otherwise');
       const first = seen.get(raw.id);
-      if (first !== undefined) throw new PlanError(file, `stages[${i}].id`, `duplicate stage id ${JSON.stringify(raw.id)} (also stages[${first}]); every stage needs its own id`);
+      if (first !== undefined)
+        throw new PlanError(file, `stages[${i}].id`, `duplicate stage id ${JSON.stringify(raw.id)} (also stages[${first}]); every stage needs its own id`);
       seen.set(raw.id, i);
       return true;
     });
@@ -120,14 +122,22 @@ export function resolveStages(
     const checkKeys = module.checks(parsed.settings).map((c) => c.key);
     for (const key of Object.keys(testPoints)) {
       if (!module.outputs.includes(key) && !checkKeys.includes(key)) {
-        throw new PlanError(file, `${path}.testPoints.${key}`, `${JSON.stringify(key)} is not an output or check of a ${raw.kind} stage; use one of ${quoteList([...module.outputs, ...checkKeys])}`);
+        throw new PlanError(
+          file,
+          `${path}.testPoints.${key}`,
+          `${JSON.stringify(key)} is not an output or check of a ${raw.kind} stage; use one of ${quoteList([...module.outputs, ...checkKeys])}`,
+        );
       }
     }
     const refs: Record<string, string> = { ...(raw.refs ?? {}) };
     const faultRoles = module.faults?.(parsed.settings).map((f) => f.role) ?? [];
     for (const key of Object.keys(refs)) {
       if (!(key in parts) && !faultRoles.includes(key)) {
-        throw new PlanError(file, `${path}.refs.${key}`, `${JSON.stringify(key)} is not a part of this ${raw.kind} stage; use one of ${quoteList([...Object.keys(parts), ...faultRoles.filter((r) => !(r in parts))])}`);
+        throw new PlanError(
+          file,
+          `${path}.refs.${key}`,
+          `${JSON.stringify(key)} is not a part of this ${raw.kind} stage; use one of ${quoteList([...Object.keys(parts), ...faultRoles.filter((r) => !(r in parts))])}`,
+        );
       }
     }
     if (module.needsInput && raw.input === undefined) {

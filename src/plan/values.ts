@@ -36,7 +36,12 @@ export function readValue(raw: string | number, unit: Unit, file: string, path: 
 /** Throws unless 0 ≤ tol < 1. */
 export function checkTolerance(tol: number, text: string, file: string, path: string): void {
   if (!Number.isFinite(tol) || tol < 0) throw new PlanError(file, path, `${JSON.stringify(text)}: a tolerance cannot be negative; write e.g. "5%"`);
-  if (tol >= 1) throw new PlanError(file, path, `${JSON.stringify(text)}: a tolerance of ${Math.round(tol * 100)} % or more is impossible (the part could be zero); write the part's real tolerance, e.g. "20%"`);
+  if (tol >= 1)
+    throw new PlanError(
+      file,
+      path,
+      `${JSON.stringify(text)}: a tolerance of ${Math.round(tol * 100)} % or more is impossible (the part could be zero); write the part's real tolerance, e.g. "20%"`,
+    );
 }
 
 /** A separate tolerance such as `"3%"`. */

@@ -55,7 +55,16 @@ export interface BandSource {
 export function toSnapshotBands(hash: string, set: TargetList): SnapshotBands {
   const bands = new Map<string, CheckBand>();
   for (const t of set.targets) {
-    bands.set(t.check, { check: t.check, unit: t.unit, nominal: t.nominal, worst: t.worst, stat: t.stat, testPoint: t.testPoint, how: t.how, isLimit: t.isLimit ?? false });
+    bands.set(t.check, {
+      check: t.check,
+      unit: t.unit,
+      nominal: t.nominal,
+      worst: t.worst,
+      stat: t.stat,
+      testPoint: t.testPoint,
+      how: t.how,
+      isLimit: t.isLimit ?? false,
+    });
   }
   return { hash, plan: set.plan, order: [...bands.keys()], bands };
 }

@@ -2,8 +2,26 @@ import type { BatchFigures } from './batch-types.js';
 
 /** The CSV columns: the `batch --json` contract keys, then the extras a quality engineer files. */
 export const batchCsvColumns = [
-  'check', 'n', 'pass', 'marginal', 'fail', 'mean', 'sd', 'min', 'max', 'cp', 'cpk',
-  'plan', 'unit', 'nominal', 'worst_min', 'worst_max', 'first_pass_yield', 'final_yield', 'status', 'outliers',
+  'check',
+  'n',
+  'pass',
+  'marginal',
+  'fail',
+  'mean',
+  'sd',
+  'min',
+  'max',
+  'cp',
+  'cpk',
+  'plan',
+  'unit',
+  'nominal',
+  'worst_min',
+  'worst_max',
+  'first_pass_yield',
+  'final_yield',
+  'status',
+  'outliers',
 ] as const;
 
 /**
@@ -23,8 +41,25 @@ export function batchCsv(f: BatchFigures): string {
   const lines = [batchCsvColumns.join(',')];
   for (const c of f.checks) {
     const row: (string | number | null)[] = [
-      c.check, c.n, c.pass, c.marginal, c.fail, c.mean, c.sd, c.min, c.max, c.cp, c.cpk,
-      c.plan, c.unit, c.nominal, c.band?.min ?? null, c.band?.max ?? null, c.firstPassYield, c.finalYield, c.status,
+      c.check,
+      c.n,
+      c.pass,
+      c.marginal,
+      c.fail,
+      c.mean,
+      c.sd,
+      c.min,
+      c.max,
+      c.cp,
+      c.cpk,
+      c.plan,
+      c.unit,
+      c.nominal,
+      c.band?.min ?? null,
+      c.band?.max ?? null,
+      c.firstPassYield,
+      c.finalYield,
+      c.status,
       c.outliers.map((o) => o.serial).join(' '),
     ];
     lines.push(row.map(csvField).join(','));

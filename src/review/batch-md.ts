@@ -26,7 +26,11 @@ export function batchMarkdown(f: BatchFigures, o: MarkdownOptions): string {
   out.push(`- Boards: ${f.boards}${f.incomplete > 0 ? ` (${f.incomplete} not yet through every check)` : ''}`);
   out.push(`- First-pass yield: ${formatPercent(f.firstPassYield)} (${f.firstPassBoards} of ${f.boards} boards passed every check at the first reading)`);
   out.push(`- Final yield: ${formatPercent(f.finalYield)} (${f.finalPassBoards} of ${f.boards} boards pass every check at the latest reading)`);
-  out.push('', 'Figures use the latest reading of each check on each board. Cp and Cpk are taken against the worst-case band of the newest plan revision measured; Cpk of 1.33 or more is the usual aim.', '');
+  out.push(
+    '',
+    'Figures use the latest reading of each check on each board. Cp and Cpk are taken against the worst-case band of the newest plan revision measured; Cpk of 1.33 or more is the usual aim.',
+    '',
+  );
   out.push('| check | n | pass | marginal | fail | first-pass | final | mean | sd | min | max | band | Cp | Cpk | |');
   out.push('| --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | --- | ---: | ---: | --- |');
   const sorted = [...f.checks].sort(weakestFirst);
@@ -49,7 +53,9 @@ export function batchMarkdown(f: BatchFigures, o: MarkdownOptions): string {
   out.push('', '## Outlier boards', '');
   if (outliers.length === 0) out.push('None: every latest reading lies inside its band and within 3σ of the mean.');
   for (const { c, x } of outliers.slice(0, 200)) {
-    out.push(`- ${md(x.serial)} — ${md(c.check)} = ${formatFigure(x.value, c.unit)} (${x.reasons.join(', ')}${x.z !== null ? `, z = ${x.z.toFixed(1)}` : ''}), ${x.at}`);
+    out.push(
+      `- ${md(x.serial)} — ${md(c.check)} = ${formatFigure(x.value, c.unit)} (${x.reasons.join(', ')}${x.z !== null ? `, z = ${x.z.toFixed(1)}` : ''}), ${x.at}`,
+    );
   }
   if (outliers.length > 200) out.push(`- … and ${outliers.length - 200} more (see the CSV)`);
   if (f.problems.length > 0) {

@@ -81,7 +81,12 @@ export interface BatchAccumulator {
  * With `columns` (the index's `checkColumns`) a board's checks are read from
  * them instead of its `checks` objects; the figures are the same either way.
  */
-export function batchAccumulator(bands: ReadonlyMap<string, SnapshotBands>, filter: BatchFilter = {}, damaged: readonly DamagedBoard[] = [], columns?: CheckColumns): BatchAccumulator {
+export function batchAccumulator(
+  bands: ReadonlyMap<string, SnapshotBands>,
+  filter: BatchFilter = {},
+  damaged: readonly DamagedBoard[] = [],
+  columns?: CheckColumns,
+): BatchAccumulator {
   const leftOut = new Set(damaged.map((d) => d.serial));
   const boardProblems: BatchProblem[] = damaged.map((d) => ({ serial: d.serial, message: `board ${d.serial} is left out of these figures: ${d.message}` }));
   const groups = new Map<string | null, Map<string, Group>>();

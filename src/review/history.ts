@@ -30,7 +30,8 @@ export function timelineOf(board: BoardFile, bands: ReadonlyMap<string, Snapshot
   for (const capture of board.captures) entries.push({ kind: 'capture', at: capture.at, capture });
   for (const reading of board.readings) {
     const target = bands.get(reading.planHash)?.bands.get(reading.check) ?? null;
-    const deviation = target && target.nominal !== 0 && !target.isLimit && Number.isFinite(reading.value) ? (reading.value - target.nominal) / Math.abs(target.nominal) : null;
+    const deviation =
+      target && target.nominal !== 0 && !target.isLimit && Number.isFinite(reading.value) ? (reading.value - target.nominal) / Math.abs(target.nominal) : null;
     entries.push({ kind: 'reading', at: reading.at, reading, target, deviation });
   }
   // Stable: entries at the same instant keep run → rework → capture → reading order.

@@ -46,7 +46,13 @@ export function captureReadings(
     if (!figure || !canRecord(t.check)) continue;
     const value = capture.figures[figure];
     if (value === null || !Number.isFinite(value)) continue;
-    out.push({ check: t.check, value, unit: t.unit, raw: `${figure} ${formatValue(value, t.unit)} from ${capture.name}`, verdict: judge(plan, t, value).verdict });
+    out.push({
+      check: t.check,
+      value,
+      unit: t.unit,
+      raw: `${figure} ${formatValue(value, t.unit)} from ${capture.name}`,
+      verdict: judge(plan, t, value).verdict,
+    });
   }
   return out;
 }

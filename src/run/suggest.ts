@@ -23,7 +23,8 @@ export function suggestNext(state: RunState): Suggestion | null {
   const suggested = nextCheck(state.targets, done, last);
   const proposed = suggested && shapeOff && fresh ? { check: suggested.check, why: `${fresh.shapeWarning}; ${suggested.why}` } : suggested;
   const gated = { ...state, isCautionsPending: false, isPowerOff: false };
-  if (proposed && lockReason(gated, proposed.check) === null) return state.stale.has(proposed.check) ? { check: proposed.check, why: againWhy(state) } : proposed;
+  if (proposed && lockReason(gated, proposed.check) === null)
+    return state.stale.has(proposed.check) ? { check: proposed.check, why: againWhy(state) } : proposed;
   const open = state.targets.find((t) => !done.has(t.check) && lockReason(gated, t.check) === null);
   if (open) {
     return { check: open.check, why: state.stale.has(open.check) ? againWhy(state) : 'next open check in safe order' };

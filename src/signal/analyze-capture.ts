@@ -30,7 +30,10 @@ function pickChannel(capture: Capture, which: string | undefined): CaptureChanne
     return c;
   }
   const c = channels.find((ch) => ch.name.toLowerCase() === which.toLowerCase());
-  if (!c) throw new CaptureError(`no channel named ${JSON.stringify(which.length > 40 ? `${which.slice(0, 40)}…` : which)}; the capture has ${names.length > 200 ? `${names.slice(0, 200)}…` : names}`);
+  if (!c)
+    throw new CaptureError(
+      `no channel named ${JSON.stringify(which.length > 40 ? `${which.slice(0, 40)}…` : which)}; the capture has ${names.length > 200 ? `${names.slice(0, 200)}…` : names}`,
+    );
   return c;
 }
 

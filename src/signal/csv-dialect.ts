@@ -142,7 +142,8 @@ function splitUnit(raw: string): { label: string; unit: string } {
   return { label: raw, unit: '' };
 }
 
-const dtLine = /^\s*"?(?:sample[ _-]?interval|sampling[ _-]?interval|interval|dt|x[ _-]?increment|xinc)"?\s*[,;:\t=]\s*"?([-+]?[\d.,]+(?:[eE][-+]?\d+)?)\s*(s|ms|us|µs|μs|ns)?"?/i;
+const dtLine =
+  /^\s*"?(?:sample[ _-]?interval|sampling[ _-]?interval|interval|dt|x[ _-]?increment|xinc)"?\s*[,;:\t=]\s*"?([-+]?[\d.,]+(?:[eE][-+]?\d+)?)\s*(s|ms|us|µs|μs|ns)?"?/i;
 
 function findPreambleDt(preamble: readonly string[]): number | undefined {
   for (const l of preamble) {

@@ -360,7 +360,9 @@ export class CsvParser {
     else {
       const step = t - this.tPrev;
       if (!(step > 0)) {
-        throw new CaptureError(`${this.options.name ?? 'capture'}, line ${this.line}: time ${t} does not increase (the row before had ${this.tPrev}); if the file has no time column, give the sample interval with --dt SECONDS`);
+        throw new CaptureError(
+          `${this.options.name ?? 'capture'}, line ${this.line}: time ${t} does not increase (the row before had ${this.tPrev}); if the file has no time column, give the sample interval with --dt SECONDS`,
+        );
       }
       if (step < this.minStep) this.minStep = step;
       if (step > this.maxStep) this.maxStep = step;
@@ -395,7 +397,9 @@ export class CsvParser {
       if (this.rows < 2) throw new CaptureError(`${name}: ${this.rows} row(s); at least 16 samples are needed`);
       dt = ((this.tLast - this.t0) / (this.rows - 1)) * scale;
       if (this.maxStep > this.minStep * 1.1 && (this.maxStep - this.minStep) * scale > 0.01 * dt) {
-        warnings.push(`time steps vary from ${(this.minStep * scale).toPrecision(3)} s to ${(this.maxStep * scale).toPrecision(3)} s; figures assume the mean step`);
+        warnings.push(
+          `time steps vary from ${(this.minStep * scale).toPrecision(3)} s to ${(this.maxStep * scale).toPrecision(3)} s; figures assume the mean step`,
+        );
       }
     } else if (dt === undefined) dt = d.preambleDt;
     if (dt === undefined || !(dt > 0) || !Number.isFinite(dt)) throw new CaptureError(`${name}: no usable sample interval; give it with --dt SECONDS`);

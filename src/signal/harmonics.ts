@@ -98,7 +98,17 @@ function windowBlock(x: Float64Array, base: number, count: number, dc: number, a
  * keep the floating-point units busy where one would leave them idle
  * (measured beside two at a time: a little faster).
  */
-function rotate4(v: Float64Array, count: number, n: number, k: number, steps: Float64Array, crs: Float64Array, srs: Float64Array, re: Float64Array, im: Float64Array): void {
+function rotate4(
+  v: Float64Array,
+  count: number,
+  n: number,
+  k: number,
+  steps: Float64Array,
+  crs: Float64Array,
+  srs: Float64Array,
+  re: Float64Array,
+  im: Float64Array,
+): void {
   const cr0 = crs[k] as number;
   const sr0 = srs[k] as number;
   const cr1 = crs[k + 1] as number;
@@ -164,7 +174,17 @@ function rotate4(v: Float64Array, count: number, n: number, k: number, steps: Fl
 }
 
 /** One frequency, `k`, over one windowed block starting at sample `n`. */
-function rotate1(v: Float64Array, count: number, n: number, k: number, steps: Float64Array, crs: Float64Array, srs: Float64Array, re: Float64Array, im: Float64Array): void {
+function rotate1(
+  v: Float64Array,
+  count: number,
+  n: number,
+  k: number,
+  steps: Float64Array,
+  crs: Float64Array,
+  srs: Float64Array,
+  re: Float64Array,
+  im: Float64Array,
+): void {
   const step = steps[k] as number;
   const cr = crs[k] as number;
   const sr = srs[k] as number;

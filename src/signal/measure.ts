@@ -65,14 +65,32 @@ export function measure(x: Float64Array, sampleRate: number): MeasureResult {
   const whole = momentsAbout(x, 0, n, sum / n);
   const warnings: string[] = [];
   const none = {
-    samples: n, sampleRate, min, max, vpp,
-    duty: null, rise: null, fall: null, overshoot: null, notchTime: null,
+    samples: n,
+    sampleRate,
+    min,
+    max,
+    vpp,
+    duty: null,
+    rise: null,
+    fall: null,
+    overshoot: null,
+    notchTime: null,
   };
   const aperiodic = (reason: string): MeasureResult => ({
     measurements: {
-      ...none, frequency: null, mean: whole.mean, vrms: whole.rms, vrmsAc: whole.rmsAc, thd: null, shape: 'other',
-      clipped: false, notch: false, crestFactor: whole.rmsAc > 0 ? Math.max(max - whole.mean, whole.mean - min) / whole.rmsAc : Number.NaN,
-      formFactor: whole.meanAbs > 0 ? whole.rmsAc / whole.meanAbs : Number.NaN, periods: 0, window: 'none',
+      ...none,
+      frequency: null,
+      mean: whole.mean,
+      vrms: whole.rms,
+      vrmsAc: whole.rmsAc,
+      thd: null,
+      shape: 'other',
+      clipped: false,
+      notch: false,
+      crestFactor: whole.rmsAc > 0 ? Math.max(max - whole.mean, whole.mean - min) / whole.rmsAc : Number.NaN,
+      formFactor: whole.meanAbs > 0 ? whole.rmsAc / whole.meanAbs : Number.NaN,
+      periods: 0,
+      window: 'none',
       warnings: [...warnings, reason],
     },
     period: new Float64Array(0),
@@ -85,7 +103,9 @@ export function measure(x: Float64Array, sampleRate: number): MeasureResult {
   const found = crossings(x, whole.mean, whole.mean - 0.3 * (whole.mean - min), whole.mean + 0.3 * (max - whole.mean));
   const rising = found.rising;
   if (rising.length < 3) {
-    return aperiodic(`fewer than 2 whole periods (${Math.max(0, rising.length - 1)} found): frequency, THD and shape need at least 2; figures over the whole record`);
+    return aperiodic(
+      `fewer than 2 whole periods (${Math.max(0, rising.length - 1)} found): frequency, THD and shape need at least 2; figures over the whole record`,
+    );
   }
   const rough = periodFromCrossings(rising);
   // At least 8 periods where the capture has them, however slow the signal.
@@ -134,10 +154,17 @@ export function measure(x: Float64Array, sampleRate: number): MeasureResult {
     measurements: {
       ...none,
       frequency: sampleRate / period,
-      mean: m.mean, vrms: m.rms, vrmsAc: m.rmsAc,
-      duty, rise, fall, overshoot,
+      mean: m.mean,
+      vrms: m.rms,
+      vrmsAc: m.rmsAc,
+      duty,
+      rise,
+      fall,
+      overshoot,
       thd: Number.isFinite(h.thd) ? h.thd : null,
-      shape, clipped, notch,
+      shape,
+      clipped,
+      notch,
       notchTime: notch ? (features.midDwell * period) / sampleRate : null,
       crestFactor: features.crestFactor,
       formFactor: features.formFactor,

@@ -45,11 +45,7 @@ const progressChunkBytes = 256 * 1024;
  * CSV is parsed as the chunks arrive, so its text is never held whole unless
  * `keepBytes` asks for the bytes.
  */
-export async function readCaptureFile(
-  path: string,
-  options: ReadOptions & { readonly keepBytes?: boolean } = {},
-  onProgress?: ProgressFn,
-): Promise<FileRead> {
+export async function readCaptureFile(path: string, options: ReadOptions & { readonly keepBytes?: boolean } = {}, onProgress?: ProgressFn): Promise<FileRead> {
   const name = options.name ?? basename(path);
   let handle;
   try {

@@ -20,14 +20,7 @@ const maxEdges = 2000;
  * between samples. Overshoot is the largest excursion beyond the state level
  * that follows, within the next half period, over the amplitude.
  */
-export function transitions(
-  x: Float64Array,
-  rising: Float64Array,
-  falling: Float64Array,
-  low: number,
-  high: number,
-  period: number,
-): Transitions {
+export function transitions(x: Float64Array, rising: Float64Array, falling: Float64Array, low: number, high: number, period: number): Transitions {
   const amplitude = high - low;
   const r10 = low + 0.1 * amplitude;
   const r90 = low + 0.9 * amplitude;

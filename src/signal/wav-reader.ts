@@ -57,7 +57,9 @@ export const wavReader: CaptureReader = {
     const { tag, channels, rate, bits } = fmt;
     const supported = (tag === PCM && [8, 16, 24, 32].includes(bits)) || (tag === FLOAT && bits === 32);
     if (!supported) {
-      throw new CaptureError(`${name}: ${tag === FLOAT ? 'float' : tag === PCM ? 'PCM' : `format tag ${tag}`} with ${bits} bits is not supported; use PCM 8/16/24/32-bit or 32-bit float`);
+      throw new CaptureError(
+        `${name}: ${tag === FLOAT ? 'float' : tag === PCM ? 'PCM' : `format tag ${tag}`} with ${bits} bits is not supported; use PCM 8/16/24/32-bit or 32-bit float`,
+      );
     }
     if (channels < 1 || rate < 1) throw new CaptureError(`${name}: ${channels} channels at ${rate} Hz is not a usable capture`);
     const bytesPer = bits / 8;
@@ -89,7 +91,9 @@ export const wavReader: CaptureReader = {
       source: `${name} (WAV, ${tag === FLOAT ? '32-bit float' : `${bits}-bit PCM`}, ${channels} channel${channels === 1 ? '' : 's'})`,
       warnings: [
         ...(data.claimed !== 0 && data.claimed !== 0xffffffff && data.claimed > data.length
-          ? [`the header claims ${data.claimed} bytes of samples but the file holds ${data.length}: it is cut short; only the ${frames} whole frames there were read`]
+          ? [
+              `the header claims ${data.claimed} bytes of samples but the file holds ${data.length}: it is cut short; only the ${frames} whole frames there were read`,
+            ]
           : []),
         ...(options.scale === undefined ? ['WAV full scale taken as 1 V; give --scale VOLTS for the probe and input range used'] : []),
       ],

@@ -49,12 +49,15 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
   const [isConfirming, setConfirming] = useState(false);
   const route = stack[stack.length - 1] ?? { screen: 'bench' };
 
-  const push = useCallback((next: Route) => {
-    if ('serial' in next) setLastSerial(next.serial);
-    setDirty(false);
-    setTyping(false);
-    setStack((s) => [...s, next]);
-  }, [setDirty, setTyping]);
+  const push = useCallback(
+    (next: Route) => {
+      if ('serial' in next) setLastSerial(next.serial);
+      setDirty(false);
+      setTyping(false);
+      setStack((s) => [...s, next]);
+    },
+    [setDirty, setTyping],
+  );
   const back = useCallback(() => {
     setDirty(false);
     setTyping(false);
@@ -76,8 +79,7 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
   const isActive = !isConfirming;
   const common = { log, width, height: isConfirming ? Math.max(5, height - 5) : height, isActive, onExit: back };
   const go = {
-    onOpenRun: (serial: string, planHash: string, resumeRun?: string) =>
-      push({ screen: 'bring-up', serial, planHash, ...(resumeRun ? { resumeRun } : {}) }),
+    onOpenRun: (serial: string, planHash: string, resumeRun?: string) => push({ screen: 'bring-up', serial, planHash, ...(resumeRun ? { resumeRun } : {}) }),
     onHistory: (serial: string) => push({ screen: 'history', serial }),
     onBatch: () => push({ screen: 'batch' }),
     onPlan: (planHash: string) => push({ screen: 'plan', planHash }),
@@ -86,7 +88,16 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
   let screen;
   switch (route.screen) {
     case 'bench':
-      screen = <BenchScreen {...common} catalog={catalog} go={go} onTypingChange={setTyping} onSelect={setLastSerial} {...(lastSerial ? { initialSerial: lastSerial } : {})} />;
+      screen = (
+        <BenchScreen
+          {...common}
+          catalog={catalog}
+          go={go}
+          onTypingChange={setTyping}
+          onSelect={setLastSerial}
+          {...(lastSerial ? { initialSerial: lastSerial } : {})}
+        />
+      );
       break;
     case 'bring-up':
       screen = (
@@ -111,7 +122,9 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
       screen = <HistoryScreen {...common} serial={route.serial} targetsCache={catalog.targetsCache} onTypingChange={setTyping} />;
       break;
     case 'batch':
-      screen = <BatchScreen {...common} targetsCache={catalog.targetsCache} onTypingChange={setTyping} onOpenBoard={(serial) => push({ screen: 'history', serial })} />;
+      screen = (
+        <BatchScreen {...common} targetsCache={catalog.targetsCache} onTypingChange={setTyping} onOpenBoard={(serial) => push({ screen: 'history', serial })} />
+      );
       break;
     case 'plan':
       screen = (

@@ -190,7 +190,9 @@ export function parseValue(text: string, options: ParseOptions = {}): ParseResul
     const joined = body.replace(/\s+/g, '');
     const dotted = body.replace(/(\d)\s+(\d)/, '$1.$2').replace(/\s+/g, '');
     const offer = dotted !== joined && !body.includes('.') ? `write ${joined} or ${dotted}` : `write ${joined}`;
-    return fail(`${shown} has a space inside the number: ${offer.length > 60 ? 'write the number without spaces' : offer} (a space may only stand before the unit${expected ? `, as in ${unitExample[expected]}` : ''})`);
+    return fail(
+      `${shown} has a space inside the number: ${offer.length > 60 ? 'write the number without spaces' : offer} (a space may only stand before the unit${expected ? `, as in ${unitExample[expected]}` : ''})`,
+    );
   }
 
   let value: number;

@@ -22,7 +22,10 @@ export function parseUncertainty(text: string, unit: Unit): UncertaintySpec | st
   let relative = 0;
   let absolute = 0;
   if (text.length > maxValueLength) return `an uncertainty of ${text.length} characters is too long; write e.g. "0.5% + 2 mV"`;
-  const terms = text.split('+').map((t) => t.trim()).filter((t) => t !== '');
+  const terms = text
+    .split('+')
+    .map((t) => t.trim())
+    .filter((t) => t !== '');
   if (terms.length === 0) return `${JSON.stringify(text)} is empty; write e.g. "0.5% + 2 mV"`;
   for (const term of terms) {
     const pct = /^(\d+(?:\.\d+)?)\s*%$/.exec(term);

@@ -5,7 +5,7 @@ import { loadPlanFile } from '../../src/plan/load.js';
 import { createRunState } from '../../src/run/create.js';
 
 describe('design figures (checks nobody probes at a test point)', () => {
-  test('the follower\'s peak currents are in targets, marked, and never on the bring-up list', async () => {
+  test("the follower's peak currents are in targets, marked, and never on the bring-up list", async () => {
     const plan = await loadPlanFile('demo/exciter.plan.json');
     const set = computeTargets(plan, { trials: 200 });
     const figures = set.targets.filter((t) => t.isDesignFigure).map((t) => t.check);

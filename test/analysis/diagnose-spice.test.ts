@@ -57,7 +57,11 @@ function timing(plan: Plan, c: FaultCase): { period: number; dc: boolean } {
   const nominal = 1 / (chain.detail(chain.nominal).values['osc.freq'] ?? 1000);
   const x = Float64Array.from(chain.nominal);
   for (const [name, v] of Object.entries(c.fault.values ?? {})) x[chain.variables.findIndex((w) => w.name === name)] = v;
-  const f = chain.detail(x, undefined, c.fault.mode && c.fault.stage && c.fault.role ? { stage: c.fault.stage, role: c.fault.role, mode: c.fault.mode, variant: c.fault.variant ?? 0 } : undefined).values['osc.freq'];
+  const f = chain.detail(
+    x,
+    undefined,
+    c.fault.mode && c.fault.stage && c.fault.role ? { stage: c.fault.stage, role: c.fault.role, mode: c.fault.mode, variant: c.fault.variant ?? 0 } : undefined,
+  ).values['osc.freq'];
   const faulted = f !== undefined && f > 0 ? 1 / f : nominal;
   return { period: Math.min(20 * nominal, Math.max(nominal, faulted)), dc: false };
 }
@@ -70,7 +74,11 @@ function simulate(c: FaultCase, seed: number): Outcome['readings'] {
   // Twelve periods, read over the last six: a lopsided oscillator (one side unclamped) takes a few to settle.
   const stop = dc ? period : 12 * period;
   const step = dc ? period / 100 : period / 1500;
-  const tab = runSpice(deck.netlist, `tran ${step.toExponential(4)} ${stop.toExponential(4)} 0 ${step.toExponential(4)} uic`, names.map((n) => `v(${n})`));
+  const tab = runSpice(
+    deck.netlist,
+    `tran ${step.toExponential(4)} ${stop.toExponential(4)} 0 ${step.toExponential(4)} uic`,
+    names.map((n) => `v(${n})`),
+  );
   const t = tab['time'] ?? new Float64Array();
   const waves = new Map<string, WaveReading>();
   const wave = (output: string): WaveReading => {
@@ -88,7 +96,11 @@ function simulate(c: FaultCase, seed: number): Outcome['readings'] {
     const value = readingOf(plan, deck.rails, target, wave);
     if (value === undefined || !Number.isFinite(value)) continue;
     const read = display(value * (1 + 0.001 * noise()));
-    readings.push({ check: target.check, value: read, verdict: verdictFor(target, read, uncertaintyFor(plan, target.check, uncertaintyKey(target.unit))).verdict });
+    readings.push({
+      check: target.check,
+      value: read,
+      verdict: verdictFor(target, read, uncertaintyFor(plan, target.check, uncertaintyKey(target.unit))).verdict,
+    });
   }
   return readings;
 }
@@ -149,7 +161,11 @@ beforeAll(() => {
   });
   const rows = outcomes.map((o) => {
     const top = o.d.hypotheses[0];
-    const named = top ? `${top.part} ${top.mode}${top.value !== null ? ` ${top.value.toPrecision(3)}` : ''}` : o.d.unexplained.length > 0 ? `unexplained: ${o.d.unexplained.join(', ')}` : '(none)';
+    const named = top
+      ? `${top.part} ${top.mode}${top.value !== null ? ` ${top.value.toPrecision(3)}` : ''}`
+      : o.d.unexplained.length > 0
+        ? `unexplained: ${o.d.unexplained.join(', ')}`
+        : '(none)';
     return `| ${o.c.name} | ${o.c.kind} | ${o.c.part ?? '—'} | ${o.c.part === null ? '—' : o.rank === 0 ? 'missed' : o.rank} | ${named} | ${o.d.hypotheses.length} |`;
   });
   console.log(['| board | fault kind | planted | rank | named first | listed |', '| --- | --- | --- | --- | --- | --- |', ...rows].join('\n'));
@@ -195,7 +211,10 @@ describe('diagnosis on ngspice-simulated single-fault boards', () => {
 
   test('a healthy board reads inside its bands and gets no hypothesis', () => {
     for (const o of outcomes.filter((x) => x.c.part === null)) {
-      expect(o.readings.filter((r) => r.verdict === 'fail'), o.c.name).toEqual([]);
+      expect(
+        o.readings.filter((r) => r.verdict === 'fail'),
+        o.c.name,
+      ).toEqual([]);
       expect(o.d.hypotheses, o.c.name).toEqual([]);
     }
   });

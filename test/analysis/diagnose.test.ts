@@ -22,7 +22,12 @@ beforeAll(async () => {
 });
 
 /** Readings of the given checks as the plan's own model predicts them for one change, judged against the targets. */
-function readingsOf(plan: Plan, targets: readonly Target[], checks: readonly string[], change: { part?: string; value?: number; fault?: ChainFault } = {}): DiagnosisReading[] {
+function readingsOf(
+  plan: Plan,
+  targets: readonly Target[],
+  checks: readonly string[],
+  change: { part?: string; value?: number; fault?: ChainFault } = {},
+): DiagnosisReading[] {
   const chain = buildChain(plan);
   const x = Float64Array.from(chain.nominal);
   if (change.part) x[chain.variables.findIndex((v) => v.name === change.part)] = change.value ?? Number.NaN;
@@ -58,14 +63,22 @@ describe('diagnose', () => {
 
   test('a backwards zener, read on every stage, names the zener pair first with its designators', () => {
     const checks = exciterTargets.filter((t) => t.phase === 'stage' || t.phase === 'rails').map((t) => t.check);
-    const d = diagnose(exciter, exciterTargets, readingsOf(exciter, exciterTargets, checks, { fault: { stage: 'osc', role: 'clamp', mode: 'reversed', variant: 1 } }));
+    const d = diagnose(
+      exciter,
+      exciterTargets,
+      readingsOf(exciter, exciterTargets, checks, { fault: { stage: 'osc', role: 'clamp', mode: 'reversed', variant: 1 } }),
+    );
     expect(d.hypotheses[0]).toMatchObject({ part: 'osc.clamp', ref: 'D3/D4', mode: 'reversed', variant: 1, variantWords: 'low-side zener backwards' });
     expect(d.hypotheses[0]?.short).toMatch(/^osc\.clamp \(D3\/D4\) reversed \(low-side zener backwards\): osc\.\S+ would read/);
   });
 
   test('R and C of one RC product are one ambiguity, with what would separate them', () => {
     // C ten times its value: the corner falls tenfold and the 1 kHz signal is cut; R ten times gives the same.
-    const d = diagnose(filter, filterTargets, readingsOf(filter, filterTargets, ['rails.+12V.dc', 'in.out.vpp', 'filt.out.vpp', 'amp.out.vpp'], { part: 'filt.C', value: 220e-9 }));
+    const d = diagnose(
+      filter,
+      filterTargets,
+      readingsOf(filter, filterTargets, ['rails.+12V.dc', 'in.out.vpp', 'filt.out.vpp', 'amp.out.vpp'], { part: 'filt.C', value: 220e-9 }),
+    );
     const top = d.hypotheses[0];
     expect([top?.part, ...(top?.alternatives.map((a) => a.part) ?? [])].sort()).toEqual(expect.arrayContaining(['filt.C', 'filt.R']));
     expect(top?.separate).toMatch(/filt\.R.*filt\.C|filt\.C.*filt\.R/);
@@ -83,7 +96,11 @@ describe('diagnose', () => {
   });
 
   test('scores are normalised over the listed hypotheses; a decade slip outranks an off-standard value fitting as well', () => {
-    const d = diagnose(filter, filterTargets, readingsOf(filter, filterTargets, ['rails.+12V.dc', 'in.out.vpp', 'filt.out.vpp', 'amp.gain', 'amp.out.vpp'], { part: 'amp.Rf', value: 220e3 }));
+    const d = diagnose(
+      filter,
+      filterTargets,
+      readingsOf(filter, filterTargets, ['rails.+12V.dc', 'in.out.vpp', 'filt.out.vpp', 'amp.gain', 'amp.out.vpp'], { part: 'amp.Rf', value: 220e3 }),
+    );
     const total = d.hypotheses.reduce((s, h) => s + h.score, 0);
     expect(total).toBeCloseTo(1, 6);
     // Ranked by score, a group by its members' summed score.

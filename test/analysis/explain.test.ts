@@ -38,7 +38,12 @@ describe('explainReading', () => {
 
   test('a divider tap at 12·10k/110k: top ×10 and bottom ×0.1 both decade slips (closed form)', () => {
     const list = explainReading(plan, 'ref.out.dc', (12 * 10) / 110);
-    expect(list.slice(0, 2).map((e) => e.part).sort()).toEqual(['ref.Rbottom', 'ref.Rtop']);
+    expect(
+      list
+        .slice(0, 2)
+        .map((e) => e.part)
+        .sort(),
+    ).toEqual(['ref.Rbottom', 'ref.Rtop']);
     expect(list.slice(0, 2).every((e) => e.likely === 'x10-slip')).toBe(true);
   });
 

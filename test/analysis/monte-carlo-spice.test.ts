@@ -213,7 +213,9 @@ const checks: readonly [keyof Figures, string][] = [
 // The DC level is checked against an ngspice operating point in test/circuit/amplifier-dc.test.ts instead.
 
 describe('Monte Carlo of a whole chain against an independent Monte Carlo in ngspice', () => {
-  test(`medians and 10–90 %, 2.5–97.5 % widths of ${checks.length} checks agree within the sampling error of ${runs} ngspice runs`, { timeout: 600_000 }, () => {
+  test(`medians and 10–90 %, 2.5–97.5 % widths of ${checks.length} checks agree within the sampling error of ${runs} ngspice runs`, {
+    timeout: 600_000,
+  }, () => {
     const u = mulberry32(20261203);
     const spiceRuns: Figures[] = [];
     for (let r = 0; r < runs; r++) spiceRuns.push(simulate(draw(u)));
@@ -237,7 +239,10 @@ describe('Monte Carlo of a whole chain against an independent Monte Carlo in ngs
       lines.push(`${check}: median tool ${q(0.5).toPrecision(6)}, ngspice ${median.toPrecision(6)} (ngspice nominal run ${spiceNominal[key].toPrecision(6)})`);
       expect.soft(Math.abs(q(0.5) / median - 1), `${check} median`).toBeLessThan(0.015);
       // Spread: the tool's inter-quantile widths against the widest and narrowest the ngspice intervals allow.
-      for (const [pl, ph] of [[0.1, 0.9], [0.025, 0.975]] as const) {
+      for (const [pl, ph] of [
+        [0.1, 0.9],
+        [0.025, 0.975],
+      ] as const) {
         const [l1, h1] = interval(spice, pl);
         const [l2, h2] = interval(spice, ph);
         const width = q(ph) - q(pl);

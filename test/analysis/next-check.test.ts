@@ -31,7 +31,13 @@ describe('nextCheck', () => {
   test('nothing is powered before every rail-to-ground check passes', () => {
     const n = nextCheck(targets, doneWith([['rails.+12V.to-ground', 'pass']]));
     expect(n?.check).toBe('rails.-12V.to-ground');
-    const short = nextCheck(targets, doneWith([['rails.+12V.to-ground', 'fail'], ['rails.-12V.to-ground', 'pass']]));
+    const short = nextCheck(
+      targets,
+      doneWith([
+        ['rails.+12V.to-ground', 'fail'],
+        ['rails.-12V.to-ground', 'pass'],
+      ]),
+    );
     expect(short?.check).toBe('rails.+12V.to-ground');
     expect(short?.why).toMatch(/^power off: .*short/);
   });

@@ -43,10 +43,13 @@ describe('xoshiro128** (src/analysis/random.ts)', () => {
   test('any other state: the same outputs as the BigInt reference (fast-check)', () => {
     const word = fc.integer({ min: 0, max: 0xffffffff });
     fc.assert(
-      fc.property(fc.tuple(word, word, word, word).filter((s) => s.some((w) => w !== 0)), (state) => {
-        const next = xoshiro128StarStar(state);
-        expect(Array.from({ length: 64 }, () => next())).toEqual(reference(state, 64));
-      }),
+      fc.property(
+        fc.tuple(word, word, word, word).filter((s) => s.some((w) => w !== 0)),
+        (state) => {
+          const next = xoshiro128StarStar(state);
+          expect(Array.from({ length: 64 }, () => next())).toEqual(reference(state, 64));
+        },
+      ),
       { numRuns: 200 },
     );
   });

@@ -28,11 +28,19 @@ describe('divider bands over random parts (fast-check)', () => {
         );
         const t = computeTargets(plan, { trials: 300, seed: 1 }).targets.find((x) => x.check === 'd.out.dc');
         if (!t) return false;
-        const v = (s: number, a: number, b: number) => (volts * (1 + s * railTol / 100) * rb * (1 + b * bottom.tol / 100)) / (rt * (1 + a * top.tol / 100) + rb * (1 + b * bottom.tol / 100));
+        const v = (s: number, a: number, b: number) =>
+          (volts * (1 + (s * railTol) / 100) * rb * (1 + (b * bottom.tol) / 100)) / (rt * (1 + (a * top.tol) / 100) + rb * (1 + (b * bottom.tol) / 100));
         const hi = v(1, -1, 1);
         const lo = v(-1, 1, -1);
         const close = (a: number, b: number) => Math.abs(a - b) <= 1e-9 * Math.abs(b);
-        return close(t.worst.max, hi) && close(t.worst.min, lo) && t.stat.min >= t.worst.min && t.stat.max <= t.worst.max && t.stat.min < t.nominal && t.nominal < t.stat.max;
+        return (
+          close(t.worst.max, hi) &&
+          close(t.worst.min, lo) &&
+          t.stat.min >= t.worst.min &&
+          t.stat.max <= t.worst.max &&
+          t.stat.min < t.nominal &&
+          t.nominal < t.stat.max
+        );
       }),
       { numRuns: 25, seed: 42 },
     );

@@ -24,7 +24,7 @@ function dividerPlan(extra: Record<string, unknown>[] = []) {
 
 // GUM (JCGM 100:2008, eq. 10) for V·Rb/(Rt+Rb): relative sensitivities 1 (V), +½ (Rb), −½ (Rt);
 // each input normal with tolerance = 3σ, so u = 1 %/3 each.
-const uRel = Math.sqrt((0.01 / 3) ** 2 + (0.5 * 0.01 / 3) ** 2 + (0.5 * 0.01 / 3) ** 2);
+const uRel = Math.sqrt((0.01 / 3) ** 2 + ((0.5 * 0.01) / 3) ** 2 + ((0.5 * 0.01) / 3) ** 2);
 
 describe('divider against closed forms', () => {
   test('worst case equals Vout = V·Rb/(Rt+Rb) at the corners (closed form)', () => {
@@ -64,7 +64,7 @@ describe('divider against closed forms', () => {
     const i = chain.checks.findIndex((c) => c.check === 'ref.out.dc');
     const sd = sampleStandardDeviation(Array.from(samples.values[i] ?? []));
     // GUM (JCGM 100:2008) RSS with relative sensitivities 1, ½, ½ and a uniform part's SD = half width/√3 (uniform variance, any statistics handbook); 2 % for 40,000 trials.
-    const expected = 6 * Math.sqrt(0.01 ** 2 + 2 * (0.005) ** 2) / Math.sqrt(3);
+    const expected = (6 * Math.sqrt(0.01 ** 2 + 2 * 0.005 ** 2)) / Math.sqrt(3);
     expect(Math.abs(sd / expected - 1)).toBeLessThan(0.02);
   });
 
@@ -167,7 +167,8 @@ describe('engine properties', () => {
     const json = targetsJson(computeTargets(plan, { trials: 200 })) as { plan: string; targets: Record<string, unknown>[]; warnings: unknown[] };
     expect(json.plan).toBe('fake-1');
     expect(json.targets[0]).toMatchObject({ check: 'rails.+12V.to-ground', unit: 'Ω', worst: { min: 100, max: null }, testPoint: null });
-    for (const t of json.targets) expect(Object.keys(t)).toEqual(expect.arrayContaining(['check', 'stage', 'quantity', 'unit', 'nominal', 'worst', 'stat', 'testPoint']));
+    for (const t of json.targets)
+      expect(Object.keys(t)).toEqual(expect.arrayContaining(['check', 'stage', 'quantity', 'unit', 'nominal', 'worst', 'stat', 'testPoint']));
   });
 
   test('stage warnings are collected with their stage; no idle limit is itself a warning', () => {
@@ -197,7 +198,14 @@ describe('engine properties', () => {
   test('progress is reported while sampling, ending at the trial count', () => {
     const seen: number[] = [];
     const fresh = loadPlanText(JSON.stringify(fakePlan()), 'fake.plan.json', fakeKinds);
-    computeTargets(fresh, { trials: 40_000, seed: 3, onProgress: (done, total) => { expect(total).toBe(40_000); seen.push(done); } });
+    computeTargets(fresh, {
+      trials: 40_000,
+      seed: 3,
+      onProgress: (done, total) => {
+        expect(total).toBe(40_000);
+        seen.push(done);
+      },
+    });
     // Progress every 1000 trials or a twentieth, whichever is more (the sampler's own rule): at least 10 calls for 40,000.
     expect(seen.length).toBeGreaterThanOrEqual(10);
     expect(seen.at(-1)).toBe(40_000);

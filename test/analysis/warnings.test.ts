@@ -36,7 +36,7 @@ describe('design warnings', () => {
     const set = computeTargets(plan({ rails, opamp: { maxSupply: '15 V' } }), { trials: 200 });
     const ceiling = set.warnings.filter((w) => w.message.includes('supply ceiling'));
     expect(ceiling.map((w) => w.stage).sort()).toEqual(['gain', 'gain', 'osc', 'osc']);
-    expect(ceiling[0]?.message).toContain('rail +16V (16 V) is above the op-amp\'s supply ceiling of ±15 V');
+    expect(ceiling[0]?.message).toContain("rail +16V (16 V) is above the op-amp's supply ceiling of ±15 V");
   });
 
   test('a rail whose tolerance reaches past the ceiling', () => {

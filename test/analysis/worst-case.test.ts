@@ -19,7 +19,10 @@ import { loadPlanFile, loadPlanText } from '../../src/plan/load.js';
 const planText = JSON.stringify({
   plan: 'wc-grid',
   title: 'shaper on a bench triangle (invented values)',
-  rails: [{ id: '+12V', nominal: '12 V' }, { id: '-12V', nominal: '-12 V' }],
+  rails: [
+    { id: '+12V', nominal: '12 V' },
+    { id: '-12V', nominal: '-12 V' },
+  ],
   stages: [
     // 3.25 V peak is about the drive where this shaper's THD is least (0.8 %); ±10 % spans both sides of it.
     { id: 'in', kind: 'signal-in', shape: 'triangle', peak: '3.25 V 10%', frequency: '1 kHz' },
@@ -54,7 +57,7 @@ function gridExtremes(chain: ReturnType<typeof buildChain>, check: number, steps
       const k = r % steps;
       r = Math.floor(r / steps);
       const v = chain.variables[i];
-      if (v) x[i] = v.nominal + (2 * k / (steps - 1) - 1) * spreadOf(v);
+      if (v) x[i] = v.nominal + ((2 * k) / (steps - 1) - 1) * spreadOf(v);
     }
     chain.evaluate(x, out);
     const y = out[check] as number;
@@ -83,7 +86,9 @@ describe('worst case: deterministic search of the tolerance box', () => {
       const w = worstCase(chain, perSigma, { maxCornerVariables: limit });
       const lo = w.min[thd] as number;
       const hi = w.max[thd] as number;
-      console.log(`THD limit ${limit}: search ${lo.toExponential(4)} … ${hi.toExponential(4)}, grid ${grid.min.toExponential(4)} … ${grid.max.toExponential(4)}, ${w.evaluations} evaluations, ${w.method[thd]}`);
+      console.log(
+        `THD limit ${limit}: search ${lo.toExponential(4)} … ${hi.toExponential(4)}, grid ${grid.min.toExponential(4)} … ${grid.max.toExponential(4)}, ${w.evaluations} evaluations, ${w.method[thd]}`,
+      );
       // Upper side: the maximum sits at a vertex of the box, which the 9-point grid contains: equal within 1e-9 relative.
       expect(hi).toBeGreaterThanOrEqual(grid.max * (1 - 1e-9));
       expect(hi).toBeLessThanOrEqual(grid.max * (1 + 0.01));

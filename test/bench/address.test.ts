@@ -13,7 +13,17 @@ describe('instrument addresses (DESIGN §7a)', () => {
     expect(parseAddress('serial:///dev/ttyS1')).toEqual({ kind: 'serial', device: '/dev/ttyS1', baud: 9600 });
     expect(parseAddress('usbtmc:///dev/usbtmc0')).toEqual({ kind: 'usbtmc', device: '/dev/usbtmc0' });
   });
-  test.each(['192.0.2.10:5025', 'tcp://host:99999', 'tcp://host:abc', 'http://host', 'serial://ttyUSB0', 'serial:///dev/ttyUSB0?baud=fast', 'serial:///dev/x?parity=odd', 'usbtmc://usbtmc0', 'tcp://'])('%j is refused with a remedy', (text) => {
+  test.each([
+    '192.0.2.10:5025',
+    'tcp://host:99999',
+    'tcp://host:abc',
+    'http://host',
+    'serial://ttyUSB0',
+    'serial:///dev/ttyUSB0?baud=fast',
+    'serial:///dev/x?parity=odd',
+    'usbtmc://usbtmc0',
+    'tcp://',
+  ])('%j is refused with a remedy', (text) => {
     const r = parseAddress(text);
     expect('problem' in r && r.problem).toMatch(/write|not|unknown/);
   });

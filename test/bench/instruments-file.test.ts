@@ -48,11 +48,20 @@ describe('the instruments file (DESIGN §7a)', () => {
   test('mistakes name the file and the JSON path', () => {
     expect(problem({ instruments: [{ name: 'dmm', address: 'dmm.local' }] })).toMatch(/^instruments bench\.json, instruments\[0\]\.address: .*tcp:\/\//);
     expect(problem({ instruments: [{ name: 'dmm', address: 'tcp://h', timeout: 'soon' }] })).toMatch(/instruments\[0\]\.timeout/);
-    expect(problem({ instruments: [{ name: 'a', address: 'tcp://h' }, { name: 'a', address: 'tcp://h' }] })).toMatch(/instruments\[1\]\.name: "a" is named twice/);
+    expect(
+      problem({
+        instruments: [
+          { name: 'a', address: 'tcp://h' },
+          { name: 'a', address: 'tcp://h' },
+        ],
+      }),
+    ).toMatch(/instruments\[1\]\.name: "a" is named twice/);
     expect(problem({ instruments: [{ name: 'a', address: 'tcp://h', queries: { volts: 'X?' } }] })).toMatch(/queries\.volts/);
     expect(problem({ instruments: [{ name: 'a', address: 'tcp://h', queries: { V: 'MEAS?\n*RST' } }] })).toMatch(/one line/);
     expect(problem({ instruments: [{ name: 'a', address: 'tcp://h', colour: 'red' }] })).toMatch(/instruments\[0\]/);
-    expect(problem({ instruments: [{ name: 'a', address: 'tcp://h', capture: { data: 'WAV:DATA?', format: 'float', xincrement: 1e-6 } }] })).toMatch(/capture\.format/);
+    expect(problem({ instruments: [{ name: 'a', address: 'tcp://h', capture: { data: 'WAV:DATA?', format: 'float', xincrement: 1e-6 } }] })).toMatch(
+      /capture\.format/,
+    );
     expect(problem({ devices: [] })).toMatch(/^instruments bench\.json/);
   });
 

@@ -50,7 +50,9 @@ describe('serial and USBTMC transports (over a pty pair)', () => {
   test('serial://DEVICE?baud=N: identity and a reading through the serialport package', async () => {
     const { device, peer, stop } = await ptyPair('serial');
     const handle = await answerOn(peer, (line) => (line === '*IDN?' ? 'Invented Counter,C-1,7,2.0' : line === 'MEAS:FREQ?' ? '+1.00230E+03' : null));
-    const session = new BenchSession(parseInstruments({ instruments: [{ name: 'counter', address: `serial://${device}?baud=115200`, timeout: '2 s' }] }, 'b.json'));
+    const session = new BenchSession(
+      parseInstruments({ instruments: [{ name: 'counter', address: `serial://${device}?baud=115200`, timeout: '2 s' }] }, 'b.json'),
+    );
     try {
       const r = await session.readCheck(session.instrument('counter'), 'osc.freq', 'Hz');
       expect(r.value).toBeCloseTo(1002.3, 9);
@@ -78,7 +80,17 @@ describe('serial and USBTMC transports (over a pty pair)', () => {
   });
 
   test('a missing device is one line', async () => {
-    const session = new BenchSession(parseInstruments({ instruments: [{ name: 'meter', address: `usbtmc://${join(dir, 'none')}`, timeout: '1 s' }, { name: 'port', address: `serial://${join(dir, 'none')}`, timeout: '1 s' }] }, 'b.json'));
+    const session = new BenchSession(
+      parseInstruments(
+        {
+          instruments: [
+            { name: 'meter', address: `usbtmc://${join(dir, 'none')}`, timeout: '1 s' },
+            { name: 'port', address: `serial://${join(dir, 'none')}`, timeout: '1 s' },
+          ],
+        },
+        'b.json',
+      ),
+    );
     await expect(session.readCheck(session.instrument('meter'), 'a.v', 'V')).rejects.toThrow(/^instrument meter: has no device at usbtmc:\/\//);
     await expect(session.readCheck(session.instrument('port'), 'a.v', 'V')).rejects.toThrow(/^instrument port: /);
     session.close();

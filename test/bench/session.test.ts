@@ -46,7 +46,9 @@ describe('a bench session over real loopback TCP', () => {
   });
 
   test('the check id wins over the unit; a scale turns a % answer into a fraction', async () => {
-    const { session, dmm } = await bench((c) => (c === 'MEAS:DUTY?' ? { kind: 'text', text: '49.5' } : { kind: 'text', text: '1' }), { queries: { '1': 'MEAS:OTHER?', 'osc.duty': { query: 'MEAS:DUTY?', scale: 0.01 } } });
+    const { session, dmm } = await bench((c) => (c === 'MEAS:DUTY?' ? { kind: 'text', text: '49.5' } : { kind: 'text', text: '1' }), {
+      queries: { '1': 'MEAS:OTHER?', 'osc.duty': { query: 'MEAS:DUTY?', scale: 0.01 } },
+    });
     const r = await session.readCheck(dmm, 'osc.duty', '1');
     expect(r.value).toBeCloseTo(0.495, 12); // 49.5 % as a fraction
     expect(r.query).toBe('MEAS:DUTY?');
@@ -81,7 +83,9 @@ describe('a bench session over real loopback TCP', () => {
 
   test('a slow answer past the timeout fails, and is never read as the next answer', async () => {
     let n = 0;
-    const { session, dmm } = await bench((c) => (c === 'MEAS:VOLT:DC?' ? { kind: 'text', text: String(++n), delayMs: n === 0 ? 0 : n === 1 ? 700 : 0 } : { kind: 'silent' }));
+    const { session, dmm } = await bench((c) =>
+      c === 'MEAS:VOLT:DC?' ? { kind: 'text', text: String(++n), delayMs: n === 0 ? 0 : n === 1 ? 700 : 0 } : { kind: 'silent' },
+    );
     expect(await failure(session.readCheck(dmm, 'x.v', 'V'))).toMatch(/gave no answer/);
     const r = await session.readCheck(dmm, 'x.v', 'V');
     expect(r.value).toBe(2);
@@ -99,11 +103,17 @@ describe('a bench session over real loopback TCP', () => {
     const port = await closedPort();
     const session = new BenchSession(parseInstruments({ instruments: [{ name: 'dead', address: `tcp://127.0.0.1:${port}`, timeout: '2 s' }] }, 'b.json'));
     sessions.push(session);
-    expect(await failure(session.readCheck(session.instrument('dead'), 'a.v', 'V'))).toMatch(/^instrument dead: refused the connection at tcp:\/\/127\.0\.0\.1:\d+/);
+    expect(await failure(session.readCheck(session.instrument('dead'), 'a.v', 'V'))).toMatch(
+      /^instrument dead: refused the connection at tcp:\/\/127\.0\.0\.1:\d+/,
+    );
   });
 
   test('a reset, a close in mid-answer, a flood of bytes without a newline: no hang, no crash', async () => {
-    const behaviours: Record<string, Behaviour> = { 'MEAS:VOLT:DC?': { kind: 'reset' }, 'MEAS:CURR:DC?': { kind: 'close-mid', partial: '1.23' }, 'MEAS:FREQ?': { kind: 'flood', bytes: 2 * 1024 * 1024 } };
+    const behaviours: Record<string, Behaviour> = {
+      'MEAS:VOLT:DC?': { kind: 'reset' },
+      'MEAS:CURR:DC?': { kind: 'close-mid', partial: '1.23' },
+      'MEAS:FREQ?': { kind: 'flood', bytes: 2 * 1024 * 1024 },
+    };
     const { session, dmm } = await bench((c) => behaviours[c] ?? { kind: 'silent' }, {}, '3 s');
     expect(await failure(session.readCheck(dmm, 'a.v', 'V'))).toMatch(/reset the connection|closed the connection/);
     expect(await failure(session.readCheck(dmm, 'a.i', 'A'))).toMatch(/closed the connection/);
@@ -137,7 +147,9 @@ describe('scope records over SCPI', () => {
     const data = Buffer.alloc(codes.length * 2);
     for (const [i, c] of codes.entries()) data.writeInt16LE(c, 2 * i);
     const block = Buffer.concat([Buffer.from('#42000'), data, Buffer.from('\n')]);
-    const { session, dmm } = await bench((c) => (c === 'WAV:DATA?' ? { kind: 'bytes', bytes: block } : { kind: 'text', text: scaling[c] ?? '' }), { capture: { ...capture, format: 'int16' } });
+    const { session, dmm } = await bench((c) => (c === 'WAV:DATA?' ? { kind: 'bytes', bytes: block } : { kind: 'text', text: scaling[c] ?? '' }), {
+      capture: { ...capture, format: 'int16' },
+    });
     const r = await session.capture(dmm);
     expect(r.sampleRate).toBeCloseTo(1e6, 6);
     expect(r.samples.length).toBe(1000);
@@ -149,19 +161,26 @@ describe('scope records over SCPI', () => {
     const data = Buffer.alloc(codes.length);
     for (const [i, c] of codes.entries()) data.writeInt8(c, i);
     const block = Buffer.concat([Buffer.from('#3300'), data, Buffer.from('\n')]);
-    const { session, dmm } = await bench((c) => (c === 'WAV:DATA?' ? { kind: 'bytes', bytes: block } : { kind: 'text', text: scaling[c] ?? '' }), { capture: { ...capture, format: 'int8' } });
+    const { session, dmm } = await bench((c) => (c === 'WAV:DATA?' ? { kind: 'bytes', bytes: block } : { kind: 'text', text: scaling[c] ?? '' }), {
+      capture: { ...capture, format: 'int8' },
+    });
     const r = await session.capture(dmm);
     expect(Array.from(r.samples, (v) => Math.round(v / 0.02 + 10))).toEqual(codes);
 
     const list = codes.map((c) => (c * 0.1).toFixed(1)).join(',');
-    const ascii = await bench((c) => (c === 'WAV:DATA?' ? { kind: 'text', text: list } : { kind: 'silent' }), { capture: { data: 'WAV:DATA?', format: 'ascii', xincrement: 2e-6 } });
+    const ascii = await bench((c) => (c === 'WAV:DATA?' ? { kind: 'text', text: list } : { kind: 'silent' }), {
+      capture: { data: 'WAV:DATA?', format: 'ascii', xincrement: 2e-6 },
+    });
     const a = await ascii.session.capture(ascii.dmm);
     expect(a.sampleRate).toBeCloseTo(5e5, 6);
     expect(a.samples[1]).toBeCloseTo(-2.4, 12); // (−24 · 0.1 − 0) · 1
   });
 
   test('a block shorter than its header says times out instead of hanging', async () => {
-    const { session, dmm } = await bench((c) => (c === 'WAV:DATA?' ? { kind: 'bytes', bytes: Buffer.from('#3100abc') } : { kind: 'text', text: scaling[c] ?? '' }), { capture: { ...capture, format: 'int8' } });
+    const { session, dmm } = await bench(
+      (c) => (c === 'WAV:DATA?' ? { kind: 'bytes', bytes: Buffer.from('#3100abc') } : { kind: 'text', text: scaling[c] ?? '' }),
+      { capture: { ...capture, format: 'int8' } },
+    );
     expect(await failure(session.capture(dmm))).toMatch(/gave no complete answer to WAV:DATA\?/);
   });
 });

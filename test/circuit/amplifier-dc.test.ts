@@ -40,10 +40,42 @@ function spiceDc(topology: 'inverting' | 'noninverting', parts: Record<string, n
 const base: OpampModel = { gbw: 1e6, slew: 0.5e6, headroom: 1.5, maxSupply: 18, aol: 2e5 };
 
 const cases = [
-  { name: 'non-inverting ×2.5, 0.2 V in, +3 mV offset', kind: noninvertingAmpKind, topology: 'noninverting', parts: { Rg: 10e3, Rf: 15e3 }, vin: 0.2, vos: 3e-3, ib: 0 },
-  { name: 'non-inverting ×2.5, 0 V in, −5 mV offset, 250 nA bias through 15k', kind: noninvertingAmpKind, topology: 'noninverting', parts: { Rg: 10e3, Rf: 15e3 }, vin: 0, vos: -5e-3, ib: 250e-9 },
-  { name: 'inverting ×−3.3, 0.1 V in, +2 mV offset, 80 nA bias through 330k', kind: invertingAmpKind, topology: 'inverting', parts: { Rin: 100e3, Rf: 330e3 }, vin: 0.1, vos: 2e-3, ib: 80e-9 },
-  { name: 'stuck at the rail: ×2.5 of 5 V sits at the swing limit', kind: noninvertingAmpKind, topology: 'noninverting', parts: { Rg: 10e3, Rf: 15e3 }, vin: 5, vos: 1e-3, ib: 0 },
+  {
+    name: 'non-inverting ×2.5, 0.2 V in, +3 mV offset',
+    kind: noninvertingAmpKind,
+    topology: 'noninverting',
+    parts: { Rg: 10e3, Rf: 15e3 },
+    vin: 0.2,
+    vos: 3e-3,
+    ib: 0,
+  },
+  {
+    name: 'non-inverting ×2.5, 0 V in, −5 mV offset, 250 nA bias through 15k',
+    kind: noninvertingAmpKind,
+    topology: 'noninverting',
+    parts: { Rg: 10e3, Rf: 15e3 },
+    vin: 0,
+    vos: -5e-3,
+    ib: 250e-9,
+  },
+  {
+    name: 'inverting ×−3.3, 0.1 V in, +2 mV offset, 80 nA bias through 330k',
+    kind: invertingAmpKind,
+    topology: 'inverting',
+    parts: { Rin: 100e3, Rf: 330e3 },
+    vin: 0.1,
+    vos: 2e-3,
+    ib: 80e-9,
+  },
+  {
+    name: 'stuck at the rail: ×2.5 of 5 V sits at the swing limit',
+    kind: noninvertingAmpKind,
+    topology: 'noninverting',
+    parts: { Rg: 10e3, Rf: 15e3 },
+    vin: 5,
+    vos: 1e-3,
+    ib: 0,
+  },
 ] as const;
 
 describe('amplifier DC level (vos × noise gain + ib × Rf) against an ngspice operating point', () => {

@@ -24,7 +24,10 @@ const cases = [
 describe('slew-limited amplitude against ngspice', () => {
   for (const c of cases) {
     test(`${c.shape} ${c.peak} V at ${c.f / 1000} kHz, gain −${c.rf}/10k`, () => {
-      const rails = [{ id: '+15V', nominal: '15 V' }, { id: '-15V', nominal: '-15 V' }];
+      const rails = [
+        { id: '+15V', nominal: '15 V' },
+        { id: '-15V', nominal: '-15 V' },
+      ];
       const p = loadPlanText(
         JSON.stringify({
           plan: 'slew-test',

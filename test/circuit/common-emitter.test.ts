@@ -26,7 +26,15 @@ function stage(c: Case, extra: Record<string, unknown> = {}) {
 function run(c: Case, input: Waveform, fault?: StageFault) {
   const s = stage(c);
   const parts = Object.fromEntries(Object.entries(s.parts).map(([k, v]) => [k, v.nominal]));
-  return commonEmitterKind.evaluate({ parts, settings: s.settings, opamp: defaultOpamp, supplies: { pos: 15, neg: -15 }, rails: { VCC: c.rail }, input, ...(fault ? { fault } : {}) });
+  return commonEmitterKind.evaluate({
+    parts,
+    settings: s.settings,
+    opamp: defaultOpamp,
+    supplies: { pos: 15, neg: -15 },
+    rails: { VCC: c.rail },
+    input,
+    ...(fault ? { fault } : {}),
+  });
 }
 
 const sine = (f: number, peak: number) => fromPhase(f, (p) => peak * Math.sin(2 * Math.PI * p), 256);
@@ -124,7 +132,11 @@ describe('common-emitter faults against ngspice (the same transistor)', () => {
     const r = run(_name.startsWith('Ce') ? bypassed : unbypassed, sine(1e3, 1e-3), fault);
     // ngspice operating point with the part opened (1 TΩ) or shorted (0.1 Ω): each DC level within 2 % or 50 mV
     // (saturation: Vce(sat) from the forced β by the Ebers–Moll form, ngspice from its Gummel–Poon equations).
-    for (const [key, node] of [['vb.dc', 'v(b)'], ['ve.dc', 'v(e)'], ['vc.dc', 'v(c)']] as const) {
+    for (const [key, node] of [
+      ['vb.dc', 'v(b)'],
+      ['ve.dc', 'v(e)'],
+      ['vc.dc', 'v(c)'],
+    ] as const) {
       const spice = (t[node] as Float64Array)[0] as number;
       expect(Math.abs((r.values[key] as number) - spice)).toBeLessThan(Math.max(0.05, 0.02 * Math.abs(spice)));
     }
@@ -166,7 +178,11 @@ describe('common-emitter faults, impedances and plan', () => {
     const zin = commonEmitterKind.inputImpedance?.(x, 1e3);
     const zout = commonEmitterKind.outputImpedance?.(x, 'out', 1e3);
     // ngspice: 1 A AC into the base through the coupling capacitor (input) and into the collector with the input grounded (output).
-    const tin = runSpice(`${deck(unbypassed, 'DC 0')}\nIt 0 b DC 0 AC 1`.replace('Vin in 0 DC 0', 'Vin in 0 DC 0\nRopen in 0 1e12').replace('Cin in b 1', 'Cin in b 1p'), 'ac lin 1 1000 1000', ['vm(b)']);
+    const tin = runSpice(
+      `${deck(unbypassed, 'DC 0')}\nIt 0 b DC 0 AC 1`.replace('Vin in 0 DC 0', 'Vin in 0 DC 0\nRopen in 0 1e12').replace('Cin in b 1', 'Cin in b 1p'),
+      'ac lin 1 1000 1000',
+      ['vm(b)'],
+    );
     const tout = runSpice(`${deck(unbypassed, 'DC 0')}\nIt 0 c DC 0 AC 1`, 'ac lin 1 1000 1000', ['vm(c)']);
     expect(rel(Math.hypot(zin?.re ?? 0, zin?.im ?? 0), (tin['vm(b)'] as Float64Array)[0] as number)).toBeLessThan(0.02);
     expect(rel(Math.hypot(zout?.re ?? 0, zout?.im ?? 0), (tout['vm(c)'] as Float64Array)[0] as number)).toBeLessThan(0.02);
@@ -176,7 +192,11 @@ describe('common-emitter faults, impedances and plan', () => {
     const s = stage(bypassed);
     const parts = Object.fromEntries(Object.entries(s.parts).map(([k, v]) => [k, v.nominal]));
     const zin = commonEmitterKind.inputImpedance?.({ parts, settings: s.settings as CommonEmitterSettings, opamp: defaultOpamp }, 1e3);
-    const t = runSpice(`${deck(bypassed, 'DC 0')}\nIt 0 b DC 0 AC 1`.replace('Vin in 0 DC 0', 'Vin in 0 DC 0\nRopen in 0 1e12').replace('Cin in b 1', 'Cin in b 1p'), 'ac lin 1 1000 1000', ['vm(b)']);
+    const t = runSpice(
+      `${deck(bypassed, 'DC 0')}\nIt 0 b DC 0 AC 1`.replace('Vin in 0 DC 0', 'Vin in 0 DC 0\nRopen in 0 1e12').replace('Cin in b 1', 'Cin in b 1p'),
+      'ac lin 1 1000 1000',
+      ['vm(b)'],
+    );
     // ngspice AC: 2.24 kΩ; the fallback takes rπ at 1 mA instead of the 1.37 mA operating point.
     expect(rel(Math.hypot(zin?.re ?? 0, zin?.im ?? 0), (t['vm(b)'] as Float64Array)[0] as number)).toBeLessThan(0.25);
   });

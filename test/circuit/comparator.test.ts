@@ -23,7 +23,14 @@ const sine = (f: number, peak: number) => fromPhase(f, (p) => peak * Math.sin(2 
 
 /** The comparator in ngspice: the behavioural op-amp of test/helpers/spice-opamp.ts, R1 from the reference, R2 from the output. */
 function deck(o: { r1: number; r2: number; vref: number; source: string; opamp: OpampModel }): string {
-  return [opampSubcktFor('oa', o.opamp, supplies), `Vin in 0 ${o.source}`, `Vr ref 0 DC ${o.vref}`, `R1 ref p ${o.r1}`, `R2 out p ${o.r2}`, 'Xc p in out oa'].join('\n');
+  return [
+    opampSubcktFor('oa', o.opamp, supplies),
+    `Vin in 0 ${o.source}`,
+    `Vr ref 0 DC ${o.vref}`,
+    `R1 ref p ${o.r1}`,
+    `R2 out p ${o.r2}`,
+    'Xc p in out oa',
+  ].join('\n');
 }
 
 /** Output frequency, duty (time above the mid level) and peak-to-peak over the whole periods of a transient. */
@@ -59,7 +66,11 @@ describe('comparator against ngspice (behavioural op-amp, test/helpers/spice-opa
   ] as const)('thresholds from a slow triangle: %s', (_name, r1, r2, vref) => {
     const f = 20;
     const T = 1 / f;
-    const t = runSpice(deck({ r1, r2, vref, opamp: defaultOpamp, source: `PWL(0 0 ${T / 4} 9 ${(3 * T) / 4} -9 ${T} 0) r=0` }), `tran ${T / 20000} ${2 * T} ${T} ${T / 20000}`, ['v(out)', 'v(in)']);
+    const t = runSpice(
+      deck({ r1, r2, vref, opamp: defaultOpamp, source: `PWL(0 0 ${T / 4} 9 ${(3 * T) / 4} -9 ${T} 0) r=0` }),
+      `tran ${T / 20000} ${2 * T} ${T} ${T / 20000}`,
+      ['v(out)', 'v(in)'],
+    );
     const time = t['time'] as Float64Array;
     const out = t['v(out)'] as Float64Array;
     const vin = t['v(in)'] as Float64Array;
@@ -70,7 +81,8 @@ describe('comparator against ngspice (behavioural op-amp, test/helpers/spice-opa
       for (let i = 1; i < out.length; i++) {
         const was = out[i - 1] as number;
         const is = out[i] as number;
-        if (fromHigh ? was > hi - 0.02 * (hi - lo) && is <= hi - 0.02 * (hi - lo) : was < lo + 0.02 * (hi - lo) && is >= lo + 0.02 * (hi - lo)) return vin[i] as number;
+        if (fromHigh ? was > hi - 0.02 * (hi - lo) && is <= hi - 0.02 * (hi - lo) : was < lo + 0.02 * (hi - lo) && is >= lo + 0.02 * (hi - lo))
+          return vin[i] as number;
       }
       return Number.NaN;
     };
@@ -103,7 +115,11 @@ describe('comparator whose edges cannot finish (40 kHz on a 0.5 V/µs op-amp)', 
   test('the output is a triangle of about SR·T/2 with a warning; ngspice agrees on its size within 2 %', () => {
     const f = 40e3;
     const T = 1 / f;
-    const t = runSpice(deck({ r1: 10e3, r2: 100e3, vref: 0, opamp: defaultOpamp, source: `SIN(0 5 ${f})` }), `tran ${T / 2000} ${40 * T} ${30 * T} ${T / 2000}`, ['v(out)']);
+    const t = runSpice(
+      deck({ r1: 10e3, r2: 100e3, vref: 0, opamp: defaultOpamp, source: `SIN(0 5 ${f})` }),
+      `tran ${T / 2000} ${40 * T} ${30 * T} ${T / 2000}`,
+      ['v(out)'],
+    );
     const v = t['v(out)'] as Float64Array;
     const spiceVpp = Math.max(...v) - Math.min(...v);
     const r = run({ parts: { R1: '10k', R2: '100k' } }, sine(f, 5));
@@ -142,13 +158,23 @@ describe('comparator closed form and behaviour', () => {
     expect(r.warnings.map((w) => w.message).join('\n')).toMatch(/"periodic": false/);
     const quiet = run({ parts: { R1: '10k', R2: '100k' }, periodic: false }, level);
     expect(Object.keys(quiet.values).sort()).toEqual(['hysteresis', 'out.vpp', 'vth.high', 'vth.low']);
-    expect(comparatorKind.checks(stage({ parts: { R1: '1k', R2: '1k' }, periodic: false }).settings as ComparatorSettings).map((c) => c.key)).not.toContain('freq');
+    expect(comparatorKind.checks(stage({ parts: { R1: '1k', R2: '1k' }, periodic: false }).settings as ComparatorSettings).map((c) => c.key)).not.toContain(
+      'freq',
+    );
   });
 
   test('a 200 Ω load current-limits the output at about 25 mA × 200 Ω = ±5 V (common practice, no source), and the thresholds follow', () => {
     const s = stage({ parts: { R1: '10k', R2: '100k' } });
     const parts = Object.fromEntries(Object.entries(s.parts).map(([k, v]) => [k, v.nominal]));
-    const r = comparatorKind.evaluate({ parts, settings: s.settings, opamp: defaultOpamp, supplies, rails: {}, input: sine(1e3, 3), load: (o) => (o === 'out' ? { re: 200, im: 0 } : undefined) });
+    const r = comparatorKind.evaluate({
+      parts,
+      settings: s.settings,
+      opamp: defaultOpamp,
+      supplies,
+      rails: {},
+      input: sine(1e3, 3),
+      load: (o) => (o === 'out' ? { re: 200, im: 0 } : undefined),
+    });
     expect(r.values['out.vpp']).toBeCloseTo(10, 6);
     expect(r.values['vth.high']).toBeCloseTo((5 * 10) / 110, 9);
     expect(r.warnings.map((w) => w.message).join('\n')).toMatch(/current-limits/);

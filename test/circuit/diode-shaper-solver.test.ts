@@ -47,7 +47,8 @@ describe('shaper node solve on random networks and drives', () => {
         const vin = new Float64Array(256);
         for (let i = 0; i < 256; i++) {
           const p = i / 256;
-          const unit = d.shape === 'sine' ? Math.sin(2 * Math.PI * p) : d.shape === 'square' ? (p < 0.5 ? 1 : -1) : p < 0.25 ? 4 * p : p < 0.75 ? 2 - 4 * p : 4 * p - 4;
+          const unit =
+            d.shape === 'sine' ? Math.sin(2 * Math.PI * p) : d.shape === 'square' ? (p < 0.5 ? 1 : -1) : p < 0.25 ? 4 * p : p < 0.75 ? 2 - 4 * p : 4 * p - 4;
           vin[i] = d.offset + d.peak * unit;
         }
         const plan = mirrorOrder(vin);

@@ -215,7 +215,11 @@ describe('diode-shaper behaviour', () => {
       const net = {
         gs: 1 / (parts['Rs'] as number),
         gl: 0,
-        branches: settings.branches.map((b) => ({ sign: b.polarity === '+' ? (1 as const) : (-1 as const), bias: parts[b.biasRole] as number, diodes: diodeString(settings.diode, b.diodes, parts[b.rRole] as number) })),
+        branches: settings.branches.map((b) => ({
+          sign: b.polarity === '+' ? (1 as const) : (-1 as const),
+          bias: parts[b.biasRole] as number,
+          diodes: diodeString(settings.diode, b.diodes, parts[b.rRole] as number),
+        })),
       };
       const tri = triangle(peak).samples;
       for (let i = 0; i < tri.length; i += 7) {

@@ -11,7 +11,9 @@ import { runSpice } from '../helpers/ngspice.js';
  */
 
 function spiceDrop(celsius: number, amps: number): number {
-  const netlist = [`.temp ${celsius}`, `i1 0 a DC ${amps}`, 'd1 a 0 dd', `.model dd D (IS=${defaultDiode.is} N=${defaultDiode.n} RS=${defaultDiode.rs})`].join('\n');
+  const netlist = [`.temp ${celsius}`, `i1 0 a DC ${amps}`, 'd1 a 0 dd', `.model dd D (IS=${defaultDiode.is} N=${defaultDiode.n} RS=${defaultDiode.rs})`].join(
+    '\n',
+  );
   const tab = runSpice(netlist, `dc i1 ${amps} ${amps} 1`, ['v(a)']);
   return (tab['v(a)'] as Float64Array)[0] as number;
 }

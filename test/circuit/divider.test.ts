@@ -5,7 +5,13 @@ import { defaultOpamp } from '../../src/circuit/opamp.js';
 import { StageParseError } from '../../src/circuit/errors.js';
 
 function run(top: number, bottom: number, rail: number, from = '+12V') {
-  return dividerKind.evaluate({ parts: { Rtop: top, Rbottom: bottom }, settings: { from }, opamp: defaultOpamp, supplies: { pos: 12, neg: -12 }, rails: { '+12V': rail, '-12V': -rail } });
+  return dividerKind.evaluate({
+    parts: { Rtop: top, Rbottom: bottom },
+    settings: { from },
+    opamp: defaultOpamp,
+    supplies: { pos: 12, neg: -12 },
+    rails: { '+12V': rail, '-12V': -rail },
+  });
 }
 
 describe('divider', () => {
@@ -16,11 +22,16 @@ describe('divider', () => {
 
   test('closed form over random values, and from a negative rail', () => {
     fc.assert(
-      fc.property(fc.double({ min: 1, max: 1e6, noNaN: true }), fc.double({ min: 1, max: 1e6, noNaN: true }), fc.double({ min: -30, max: 30, noNaN: true }), (t, b, v) => {
-        const got = run(t, b, v).values['out.dc'] as number;
-        // Independent form: the current V/(Rt + Rb) through Rb.
-        expect(got).toBeCloseTo((v / (t + b)) * b, 9);
-      }),
+      fc.property(
+        fc.double({ min: 1, max: 1e6, noNaN: true }),
+        fc.double({ min: 1, max: 1e6, noNaN: true }),
+        fc.double({ min: -30, max: 30, noNaN: true }),
+        (t, b, v) => {
+          const got = run(t, b, v).values['out.dc'] as number;
+          // Independent form: the current V/(Rt + Rb) through Rb.
+          expect(got).toBeCloseTo((v / (t + b)) * b, 9);
+        },
+      ),
       { numRuns: 200 },
     );
     // Equal halves from the −15 V rail: half the rail, −7.5 V (divider formula, by hand).

@@ -24,7 +24,9 @@ describe('fault modes of the stage kinds', () => {
           for (const mode of pf.modes) {
             const faulted = new Float64Array(chain.checks.length);
             chain.evaluate(chain.nominal, faulted, undefined, undefined, { stage: stage.id, role: pf.role, mode });
-            const changed = chain.checks.some((_, k) => !Object.is(faulted[k], healthy[k]) && Math.abs((faulted[k] as number) - (healthy[k] as number)) > 1e-9 * Math.abs(healthy[k] as number));
+            const changed = chain.checks.some(
+              (_, k) => !Object.is(faulted[k], healthy[k]) && Math.abs((faulted[k] as number) - (healthy[k] as number)) > 1e-9 * Math.abs(healthy[k] as number),
+            );
             expect(changed, `${stage.id}.${pf.role} ${mode}`).toBe(true);
             const again = new Float64Array(chain.checks.length);
             chain.evaluate(chain.nominal, again);
@@ -36,9 +38,29 @@ describe('fault modes of the stage kinds', () => {
   });
 
   test('shaper: an open diode removes its branch; a shorted one leaves its resistor to the bias', () => {
-    const parsed = diodeShaperKind.parse({ json: { parts: { Rs: '10k' }, branches: [{ diodes: 1, polarity: '+', R: '1k', bias: '1 V' }, { diodes: 1, polarity: '-', R: '2k', bias: '-1 V' }] }, path: 'stages[0]' }, 'test.plan.json');
+    const parsed = diodeShaperKind.parse(
+      {
+        json: {
+          parts: { Rs: '10k' },
+          branches: [
+            { diodes: 1, polarity: '+', R: '1k', bias: '1 V' },
+            { diodes: 1, polarity: '-', R: '2k', bias: '-1 V' },
+          ],
+        },
+        path: 'stages[0]',
+      },
+      'test.plan.json',
+    );
     const parts = Object.fromEntries(Object.entries(parsed.parts).map(([k, v]) => [k, v.nominal]));
-    const input = (samples: number[], fault?: EvalInput<DiodeShaperSettings>['fault']): EvalInput<DiodeShaperSettings> => ({ parts, settings: parsed.settings, opamp: defaultOpamp, supplies: { pos: 12, neg: -12 }, rails: {}, input: { frequency: 0, samples: Float64Array.from(samples) }, fault });
+    const input = (samples: number[], fault?: EvalInput<DiodeShaperSettings>['fault']): EvalInput<DiodeShaperSettings> => ({
+      parts,
+      settings: parsed.settings,
+      opamp: defaultOpamp,
+      supplies: { pos: 12, neg: -12 },
+      rails: {},
+      input: { frequency: 0, samples: Float64Array.from(samples) },
+      fault,
+    });
     // +0.5 V in: with branch 0 shorted it is 1 kΩ to +1 V, branch 1 stays off (node above −1 V):
     // the node is (0.5/10k + 1/1k)/(1/10k + 1/1k) = 0.954545 V (Kirchhoff's current law, by hand).
     const shorted = diodeShaperKind.evaluate(input([0.5], { role: 'branches[0].diodes', mode: 'short' }));
@@ -62,31 +84,38 @@ describe('fault modes of the stage kinds', () => {
     ['fault-set', 0],
     ['fault-set', 1],
     ['exciter demo', 0],
-  ] as const)('%s oscillator, a zener fitted backwards (variant %i): the square within 3 %, the frequency within 3 % (5 % with one side unclamped) of ngspice', async (which, variant) => {
-    const exciter = JSON.parse(await readFile('demo/exciter.plan.json', 'utf8')) as { stages: object[] };
-    const source = which === 'fault-set' ? (faultSetPlans['osc'] as { stages: object[] }) : exciter;
-    const json = { ...source, checkUncertainty: {}, stages: [source.stages[0]] };
-    const plan = loadPlanText(JSON.stringify(json), 'zener.plan.json');
-    const chain = buildChain(plan);
-    const model = chain.detail(chain.nominal, undefined, { stage: 'osc', role: 'clamp', mode: 'reversed', variant }).values;
-    const period = 1 / (model['osc.freq'] as number);
-    const deck = boardDeck(plan, { stage: 'osc', role: 'clamp', mode: 'reversed', variant });
-    const step = period / 2000;
-    const tab = runSpice(deck.netlist, `tran ${step.toExponential(4)} ${(16 * period).toExponential(4)} 0 ${step.toExponential(4)} uic`, ['v(osc_sq)']);
-    const sq = readWave(tab['time'] ?? new Float64Array(), tab['v(osc_sq)'] ?? new Float64Array(), 8 * period);
-    expect(Math.abs(sq.high - (model['osc.square.high'] as number))).toBeLessThan(0.03 * Math.abs(sq.high) + 0.02);
-    expect(Math.abs(sq.low - (model['osc.square.low'] as number))).toBeLessThan(0.03 * Math.abs(sq.low) + 0.02);
-    const fTolerance = which === 'fault-set' ? 0.03 : 0.05;
-    expect(sq.frequency / (model['osc.freq'] as number)).toBeGreaterThan(1 - fTolerance);
-    expect(sq.frequency / (model['osc.freq'] as number)).toBeLessThan(1 + fTolerance);
-    // One side at about two forward drops (2 × 0.65 V, with the knee's spread), the other near −2·vz.
-    const forward = variant === 0 ? sq.high : -sq.low;
-    expect(forward).toBeGreaterThan(1.1);
-    expect(forward).toBeLessThan(1.5);
-  }, 60_000);
+  ] as const)(
+    '%s oscillator, a zener fitted backwards (variant %i): the square within 3 %, the frequency within 3 % (5 % with one side unclamped) of ngspice',
+    async (which, variant) => {
+      const exciter = JSON.parse(await readFile('demo/exciter.plan.json', 'utf8')) as { stages: object[] };
+      const source = which === 'fault-set' ? (faultSetPlans['osc'] as { stages: object[] }) : exciter;
+      const json = { ...source, checkUncertainty: {}, stages: [source.stages[0]] };
+      const plan = loadPlanText(JSON.stringify(json), 'zener.plan.json');
+      const chain = buildChain(plan);
+      const model = chain.detail(chain.nominal, undefined, { stage: 'osc', role: 'clamp', mode: 'reversed', variant }).values;
+      const period = 1 / (model['osc.freq'] as number);
+      const deck = boardDeck(plan, { stage: 'osc', role: 'clamp', mode: 'reversed', variant });
+      const step = period / 2000;
+      const tab = runSpice(deck.netlist, `tran ${step.toExponential(4)} ${(16 * period).toExponential(4)} 0 ${step.toExponential(4)} uic`, ['v(osc_sq)']);
+      const sq = readWave(tab['time'] ?? new Float64Array(), tab['v(osc_sq)'] ?? new Float64Array(), 8 * period);
+      expect(Math.abs(sq.high - (model['osc.square.high'] as number))).toBeLessThan(0.03 * Math.abs(sq.high) + 0.02);
+      expect(Math.abs(sq.low - (model['osc.square.low'] as number))).toBeLessThan(0.03 * Math.abs(sq.low) + 0.02);
+      const fTolerance = which === 'fault-set' ? 0.03 : 0.05;
+      expect(sq.frequency / (model['osc.freq'] as number)).toBeGreaterThan(1 - fTolerance);
+      expect(sq.frequency / (model['osc.freq'] as number)).toBeLessThan(1 + fTolerance);
+      // One side at about two forward drops (2 × 0.65 V, with the knee's spread), the other near −2·vz.
+      const forward = variant === 0 ? sq.high : -sq.low;
+      expect(forward).toBeGreaterThan(1.1);
+      expect(forward).toBeLessThan(1.5);
+    },
+    60_000,
+  );
 
   test('refs: a designator for a role the stage does not have is a plan error naming the path', () => {
-    const json = { ...(faultSetPlans['refs'] as object), stages: [{ id: 'ref1', kind: 'divider', from: '+15V', parts: { Rtop: '10k 1%', Rbottom: '4k7 1%' }, refs: { Rmid: 'R9' } }] };
+    const json = {
+      ...(faultSetPlans['refs'] as object),
+      stages: [{ id: 'ref1', kind: 'divider', from: '+15V', parts: { Rtop: '10k 1%', Rbottom: '4k7 1%' }, refs: { Rmid: 'R9' } }],
+    };
     expect(() => loadPlanText(JSON.stringify(json), 'refs.plan.json')).toThrow(PlanError);
     expect(() => loadPlanText(JSON.stringify(json), 'refs.plan.json')).toThrow(/stages\[0\]\.refs\.Rmid/);
     const ok = loadPlanText(JSON.stringify({ ...json, stages: [{ ...json.stages[0], refs: { Rtop: 'R9' } }] }), 'refs.plan.json');

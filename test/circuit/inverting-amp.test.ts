@@ -45,7 +45,10 @@ describe('inverting-amp against ngspice AC (behavioural single-pole op-amp)', ()
     const f = 1000;
     const peak = 4;
     const source = `Vin in 0 PWL(0 0 ${0.25 / f} ${peak} ${0.75 / f} ${-peak} ${1 / f} 0) r=0`;
-    for (const { rf, freq } of [{ rf: 33e3, freq: f }, { rf: 10e3, freq: f }]) {
+    for (const { rf, freq } of [
+      { rf: 33e3, freq: f },
+      { rf: 10e3, freq: f },
+    ]) {
       const t = runSpice(deck(opamp, 10e3, rf, source), `tran ${1 / (freq * 2000)} ${5 / freq} ${4 / freq} ${1 / (freq * 2000)}`, ['v(out)']);
       const v = t['v(out)'] as Float64Array;
       const spiceVpp = Math.max(...v) - Math.min(...v);

@@ -58,7 +58,15 @@ describe('manual targets', () => {
     [{ checks: [{ id: 'a', quantity: 'q', unit: 'mV', nominal: '1 V', tol: '1%' }] }, /stages\[5\]\.checks\[0\]\.unit: "mV" is not a unit/],
     [{ checks: [{ id: 'a', quantity: 'q', unit: 'V', min: '2 V', max: '1 V' }] }, /stages\[5\]\.checks\[0\]\.max: "1 V" must be above min "2 V"/],
     [{ checks: [{ id: 'a', quantity: 'q', unit: 'V', nominal: '0 V', tol: '5%' }] }, /stages\[5\]\.checks\[0\]\.tol: a percentage of a zero nominal/],
-    [{ checks: [{ id: 'a', quantity: 'q', unit: 'V', nominal: '1 V', tol: '5%' }, { id: 'a', quantity: 'q', unit: 'V', nominal: '1 V', tol: '5%' }] }, /stages\[5\]\.checks\[1\]\.id: "a" is used twice/],
+    [
+      {
+        checks: [
+          { id: 'a', quantity: 'q', unit: 'V', nominal: '1 V', tol: '5%' },
+          { id: 'a', quantity: 'q', unit: 'V', nominal: '1 V', tol: '5%' },
+        ],
+      },
+      /stages\[5\]\.checks\[1\]\.id: "a" is used twice/,
+    ],
     [{ checks: [{ id: 'a b', quantity: 'q', unit: 'V', nominal: '1 V', tol: '5%' }] }, /stages\[5\]\.checks\[0\]\.id: "a b" is not a check key/],
     [{ checks: [{ id: 'a', quantity: 'q', unit: 'V', nominal: '1 V', tol: '5%', instrument: 'probe' }] }, /stages\[5\]\.checks\[0\]\.instrument: "probe"/],
     [{ checks: [{ id: 'a', quantity: 'q', unit: 'V', nominal: '1 A', tol: '5%' }] }, /stages\[5\]\.checks\[0\]\.nominal: .*current/],

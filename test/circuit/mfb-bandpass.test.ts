@@ -20,7 +20,16 @@ function run(parts: Parts, input: Waveform, op: OpampModel, fault?: StageFault) 
 }
 
 function deck(p: Parts, op: OpampModel, source: string): string {
-  return [opampSubcktFor('opa', op, supplies), source, `R1 in a ${p['R1']}`, `R2 a 0 ${p['R2']}`, `C1 a n ${p['C1']}`, `C2 a out ${p['C2']}`, `R3 out n ${p['R3']}`, 'X1 0 n out opa'].join('\n');
+  return [
+    opampSubcktFor('opa', op, supplies),
+    source,
+    `R1 in a ${p['R1']}`,
+    `R2 a 0 ${p['R2']}`,
+    `C1 a n ${p['C1']}`,
+    `C2 a out ${p['C2']}`,
+    `R3 out n ${p['R3']}`,
+    'X1 0 n out opa',
+  ].join('\n');
 }
 
 const rel = (a: number, b: number) => Math.abs(a / b - 1);

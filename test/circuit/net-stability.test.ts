@@ -53,7 +53,18 @@ describe('natural behaviour of nets', () => {
 
   test('Sallen–Key low-pass with K = 3.2 (equal parts): ngspice shows it oscillating rail to rail; the model says so', () => {
     const t = runSpice(
-      [opampSubcktFor('opa', op, supplies), 'Vin in 0 DC 0', 'R1 in a 10k', 'R2 a p 10k', 'C1 a out 10n', 'C2 p 0 10n', 'Rf out n 22k', 'Rg n 0 10k', 'X1 p n out opa', '.ic v(p)=0.001'].join('\n'),
+      [
+        opampSubcktFor('opa', op, supplies),
+        'Vin in 0 DC 0',
+        'R1 in a 10k',
+        'R2 a p 10k',
+        'C1 a out 10n',
+        'C2 p 0 10n',
+        'Rf out n 22k',
+        'Rg n 0 10k',
+        'X1 p n out opa',
+        '.ic v(p)=0.001',
+      ].join('\n'),
       'tran 2u 40m 30m 2u uic',
       ['v(out)'],
     );
@@ -61,7 +72,14 @@ describe('natural behaviour of nets', () => {
     // ngspice: the swing reaches both limits (±10.5 V).
     expect(Math.max(...v)).toBeGreaterThan(10.4);
     expect(Math.min(...v)).toBeLessThan(-10.4);
-    const r = sallenKeyLowpassKind.evaluate({ parts: { R1: 10e3, R2: 10e3, C1: 10e-9, C2: 10e-9, Rf: 22e3, Rg: 10e3 }, settings: { hasGain: true }, opamp: op, supplies, rails: {}, input: fromPhase(100, (p) => 0.01 * Math.sin(2 * Math.PI * p)) });
+    const r = sallenKeyLowpassKind.evaluate({
+      parts: { R1: 10e3, R2: 10e3, C1: 10e-9, C2: 10e-9, Rf: 22e3, Rg: 10e3 },
+      settings: { hasGain: true },
+      opamp: op,
+      supplies,
+      rails: {},
+      input: fromPhase(100, (p) => 0.01 * Math.sin(2 * Math.PI * p)),
+    });
     expect(r.values['out.vpp']).toBeCloseTo(21, 6);
   });
 
@@ -80,8 +98,24 @@ describe('natural behaviour of nets', () => {
     const input = fromPhase(1000, (p) => Math.sin(2 * Math.PI * p));
     const r =
       kind === 'hp'
-        ? sallenKeyHighpassKind.evaluate({ parts: { C1: 10e-9, C2: 10e-9, R1: 15e3, R2: 15e3, Rf: 15e3, Rg: 10e3 }, settings: { hasGain: true }, opamp: op, supplies, rails: {}, input, fault: { role: 'C1', mode: 'open' } })
-        : sallenKeyLowpassKind.evaluate({ parts: { R1: 10e3, R2: 10e3, C1: 10e-9, C2: 10e-9, Rf: 15e3, Rg: 10e3 }, settings: { hasGain: true }, opamp: op, supplies, rails: {}, input, fault: { role: fault, mode: 'open' } });
+        ? sallenKeyHighpassKind.evaluate({
+            parts: { C1: 10e-9, C2: 10e-9, R1: 15e3, R2: 15e3, Rf: 15e3, Rg: 10e3 },
+            settings: { hasGain: true },
+            opamp: op,
+            supplies,
+            rails: {},
+            input,
+            fault: { role: 'C1', mode: 'open' },
+          })
+        : sallenKeyLowpassKind.evaluate({
+            parts: { R1: 10e3, R2: 10e3, C1: 10e-9, C2: 10e-9, Rf: 15e3, Rg: 10e3 },
+            settings: { hasGain: true },
+            opamp: op,
+            supplies,
+            rails: {},
+            input,
+            fault: { role: fault, mode: 'open' },
+          });
     expect(r.values['out.vpp']).toBeCloseTo(21, 6);
     expect(r.values['f0']).toBeNaN();
     expect(r.warnings.map((w) => w.message).join()).toMatch(/oscillates between the rails/);
@@ -89,14 +123,33 @@ describe('natural behaviour of nets', () => {
 
   test('Sallen–Key low-pass with C1 shorted and K = 2.5: positive feedback that holds at DC; ngspice stays at a rail, the model latches', () => {
     const t = runSpice(
-      [opampSubcktFor('opa', op, supplies), 'Vin in 0 DC 0', 'R1 in a 10k', 'R2 a p 10k', 'R_C1 a out 1m', 'C2 p 0 10n', 'Rf out n 15k', 'Rg n 0 10k', 'X1 p n out opa', '.ic v(p)=0.001'].join('\n'),
+      [
+        opampSubcktFor('opa', op, supplies),
+        'Vin in 0 DC 0',
+        'R1 in a 10k',
+        'R2 a p 10k',
+        'R_C1 a out 1m',
+        'C2 p 0 10n',
+        'Rf out n 15k',
+        'Rg n 0 10k',
+        'X1 p n out opa',
+        '.ic v(p)=0.001',
+      ].join('\n'),
       'tran 2u 40m 30m 2u uic',
       ['v(out)'],
     );
     const v = t['v(out)'] as Float64Array;
     expect(Math.abs(v[v.length - 1] as number)).toBeGreaterThan(10.4);
     expect(Math.max(...v) - Math.min(...v)).toBeLessThan(0.01);
-    const r = sallenKeyLowpassKind.evaluate({ parts: { R1: 10e3, R2: 10e3, C1: 10e-9, C2: 10e-9, Rf: 15e3, Rg: 10e3 }, settings: { hasGain: true }, opamp: op, supplies, rails: {}, input: fromPhase(1000, (p) => Math.sin(2 * Math.PI * p)), fault: { role: 'C1', mode: 'short' } });
+    const r = sallenKeyLowpassKind.evaluate({
+      parts: { R1: 10e3, R2: 10e3, C1: 10e-9, C2: 10e-9, Rf: 15e3, Rg: 10e3 },
+      settings: { hasGain: true },
+      opamp: op,
+      supplies,
+      rails: {},
+      input: fromPhase(1000, (p) => Math.sin(2 * Math.PI * p)),
+      fault: { role: 'C1', mode: 'short' },
+    });
     expect(r.values['out.vpp']).toBe(0);
     expect(r.warnings.map((w) => w.message).join()).toMatch(/latches at a rail/);
   });

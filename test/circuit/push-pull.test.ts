@@ -35,12 +35,20 @@ function at(s: { vin: Float64Array; vout: Float64Array }, x: number): number {
 
 /** Where the straight part of the transfer curve (|vout| between 1 and 3 V) meets vout = 0, by least squares. */
 function knee(s: { vin: Float64Array; vout: Float64Array }, side: 1 | -1): number {
-  let n = 0, sx = 0, sy = 0, sxx = 0, sxy = 0;
+  let n = 0,
+    sx = 0,
+    sy = 0,
+    sxx = 0,
+    sxy = 0;
   for (let i = 0; i < s.vin.length; i++) {
     const y = (s.vout[i] as number) * side;
     if (y < 1 || y > 3) continue;
     const x = (s.vin[i] as number) * side;
-    n++; sx += x; sy += y; sxx += x * x; sxy += x * y;
+    n++;
+    sx += x;
+    sy += y;
+    sxx += x * x;
+    sxy += x * y;
   }
   const slope = (n * sxy - sx * sy) / (n * sxx - sx * sx);
   const intercept = (sy - slope * sx) / n;
@@ -168,13 +176,23 @@ describe('push-pull currents and limits', () => {
 
 describe('diode bias: the dead band is what the bias diode does not cancel', () => {
   test('a diode dropping 50 mV less than Vbe leaves a 0.1 V dead band; one dropping more leaves none', () => {
-    const parsed = pushPullKind.parse({ json: { id: 'drv', kind: 'push-pull', input: 'a.out', bias: 'diodes', vd: '0.6 V', parts: { Rload: '1k' } }, path: 'stages[3]' }, 'pp.plan.json');
+    const parsed = pushPullKind.parse(
+      { json: { id: 'drv', kind: 'push-pull', input: 'a.out', bias: 'diodes', vd: '0.6 V', parts: { Rload: '1k' } }, path: 'stages[3]' },
+      'pp.plan.json',
+    );
     // The default diode is matched to Vbe with a ±8 % spread (common practice, no source).
     expect(parsed.parts['vd']?.nominal).toBeCloseTo(0.6, 12);
     const parts = Object.fromEntries(Object.entries(parsed.parts).map(([k, p]) => [k, p.nominal]));
     const sine = fromPhase(1000, (ph) => 4 * Math.sin(2 * Math.PI * ph));
     const run = (vd: number) =>
-      pushPullKind.evaluate({ parts: { ...parts, vd }, settings: parsed.settings, opamp: defaultOpamp, supplies: { pos: 12, neg: -12 }, rails: {}, input: sine });
+      pushPullKind.evaluate({
+        parts: { ...parts, vd },
+        settings: parsed.settings,
+        opamp: defaultOpamp,
+        supplies: { pos: 12, neg: -12 },
+        rails: {},
+        input: sine,
+      });
     // 2·(Vbe − vd) with Vbe = 0.65 V (arithmetic on the stated model).
     expect(run(0.6).values['deadband']).toBeCloseTo(0.1, 9);
     expect(run(0.7).values['deadband']).toBe(0);
@@ -191,6 +209,8 @@ describe('diode bias: the dead band is what the bias diode does not cancel', () 
   });
 
   test('vd without diode bias is a plan error naming the path', () => {
-    expect(() => pushPullKind.parse({ json: { id: 'drv', kind: 'push-pull', input: 'a.out', bias: 'none', vd: '0.6 V' }, path: 'stages[3]' }, 'pp.plan.json')).toThrow(/stages\[3\]\.vd: a bias diode drop only applies/);
+    expect(() =>
+      pushPullKind.parse({ json: { id: 'drv', kind: 'push-pull', input: 'a.out', bias: 'none', vd: '0.6 V' }, path: 'stages[3]' }, 'pp.plan.json'),
+    ).toThrow(/stages\[3\]\.vd: a bias diode drop only applies/);
   });
 });

@@ -29,13 +29,16 @@ describe('rc-highpass against ngspice', () => {
   ])('$name: corner frequency against an ngspice AC sweep', ({ C, R, RL, CL }) => {
     const load = RL === undefined ? '' : `\nRL out 0 ${RL}${CL ? `\nCL out 0 ${CL}` : ''}`;
     const t = runSpice(`Vin in 0 DC 0 AC 1\nC1 in out ${C}\nR1 out 0 ${R}${load}`, 'ac dec 1000 0.1 10meg', ['vm(out)']);
-    const loadFn = RL === undefined ? undefined : (_o: string, f: number): Complex => {
-      // RL ∥ CL as a complex impedance.
-      const yr = 1 / RL;
-      const yi = 2 * Math.PI * f * (CL ?? 0);
-      const d = yr * yr + yi * yi;
-      return { re: yr / d, im: -yi / d };
-    };
+    const loadFn =
+      RL === undefined
+        ? undefined
+        : (_o: string, f: number): Complex => {
+            // RL ∥ CL as a complex impedance.
+            const yr = 1 / RL;
+            const yi = 2 * Math.PI * f * (CL ?? 0);
+            const d = yr * yr + yi * yi;
+            return { re: yr / d, im: -yi / d };
+          };
     const r = run(C, R, sine(1, 1000), loadFn);
     // ngspice AC −3 dB point (1000 points a decade, log-interpolated): within 0.5 %.
     expect(rel(r.values['fc'] as number, risingCorner(t))).toBeLessThan(0.005);

@@ -41,13 +41,19 @@ describe('rc-lowpass against ngspice', () => {
     for (const f of [fc, 3 * fc]) {
       const T = 1 / f;
       const src =
-        shape === 'sine' ? `SIN(0 2 ${f})`
-        : shape === 'triangle' ? `PWL(0 0 ${T / 4} 2 ${(3 * T) / 4} -2 ${T} 0) r=0`
-        : `PULSE(2 -2 ${T / 2} 1n 1n ${T / 2 - 1e-9} ${T})`;
+        shape === 'sine'
+          ? `SIN(0 2 ${f})`
+          : shape === 'triangle'
+            ? `PWL(0 0 ${T / 4} 2 ${(3 * T) / 4} -2 ${T} 0) r=0`
+            : `PULSE(2 -2 ${T / 2} 1n 1n ${T / 2 - 1e-9} ${T})`;
       const t = runSpice(`Vin in 0 ${src}\nR1 in out ${R}\nC1 out 0 ${C}`, `tran ${T / 1000} ${12 * T} ${10 * T} ${T / 1000}`, ['v(out)']);
       const v = t['v(out)'] as Float64Array;
       const spiceVpp = Math.max(...v) - Math.min(...v);
-      const r = run(R, C, fromPhase(f, (p) => 2 * (shapes[shape] as (p: number) => number)(p)));
+      const r = run(
+        R,
+        C,
+        fromPhase(f, (p) => 2 * (shapes[shape] as (p: number) => number)(p)),
+      );
       // ngspice transient, last two of twelve periods: within 1 % (a square's edge is one sample long here).
       expect(Math.abs((r.values['out.vpp'] as number) - spiceVpp) / spiceVpp).toBeLessThan(0.01);
     }
@@ -55,7 +61,11 @@ describe('rc-lowpass against ngspice', () => {
 
   test('a sine at the corner comes out at 1/√2 (handbook: |H| = 1/√(1 + (f/fc)²))', () => {
     const fc = 1 / (2 * Math.PI * 10e3 * 15e-9);
-    const r = run(10e3, 15e-9, fromPhase(fc, (p) => Math.sin(2 * Math.PI * p), 1024));
+    const r = run(
+      10e3,
+      15e-9,
+      fromPhase(fc, (p) => Math.sin(2 * Math.PI * p), 1024),
+    );
     // At the corner a single-pole RC passes 1/√2 of the amplitude (handbook): 1e-4.
     expect(Math.abs((r.values['out.vpp'] as number) / 2 - Math.SQRT1_2)).toBeLessThan(1e-4);
   });

@@ -10,7 +10,11 @@ function stage(json: Record<string, unknown>) {
   return regulatorKind.parse({ json, path: 'stages[2]' }, 'x.plan.json');
 }
 
-function run(json: Record<string, unknown>, rails: Record<string, number>, extra: { fault?: StageFault; load?: (o: string, f: number) => Complex | undefined } = {}) {
+function run(
+  json: Record<string, unknown>,
+  rails: Record<string, number>,
+  extra: { fault?: StageFault; load?: (o: string, f: number) => Complex | undefined } = {},
+) {
   const s = stage(json);
   const parts = Object.fromEntries(Object.entries(s.parts).map(([k, v]) => [k, v.nominal]));
   return regulatorKind.evaluate({ parts, settings: s.settings, opamp: defaultOpamp, supplies: { pos: 15, neg: -15 }, rails, ...extra });
@@ -61,7 +65,10 @@ describe('regulator against ngspice (behavioural error loop, stated above)', () 
     expect(loaded.warnings).toEqual([]);
     // Dissipation by hand: (12 − 5.036 V) × (5.036/960 + 5.036/100) A = 0.3872 W.
     expect(loaded.values['pdiss']).toBeCloseTo((12 - 5.036) * (5.036 / 960 + 5.036 / 100), 3);
-    expect(regulatorKind.checks(stage({ from: 'VIN', parts: { R1: '240', R2: '720' } }).settings as RegulatorSettings).find((c) => c.key === 'pdiss')?.isDesignFigure).toBe(true);
+    expect(
+      regulatorKind.checks(stage({ from: 'VIN', parts: { R1: '240', R2: '720' } }).settings as RegulatorSettings).find((c) => c.key === 'pdiss')
+        ?.isDesignFigure,
+    ).toBe(true);
   });
 });
 
@@ -91,13 +98,19 @@ describe('regulator closed form and warnings', () => {
     const hot = run({ from: 'VIN', parts: { R1: '240', R2: '720' } }, { VIN: 24 }, { load: () => ({ re: 20, im: 0 }) });
     // Dissipation by hand: (24 − 5.036 V) × (5.036/960 + 5.036/20) A = 4.875 W.
     const v = 5.036;
-    expect(hot.warnings.map((w) => w.message).join('\n')).toContain(`dissipates ${formatValue((24 - v) * (v / 960 + v / 20), 'W')}: it runs hot enough to burn a finger`);
+    expect(hot.warnings.map((w) => w.message).join('\n')).toContain(
+      `dissipates ${formatValue((24 - v) * (v / 960 + v / 20), 'W')}: it runs hot enough to burn a finger`,
+    );
   });
 
   test('fault modes: R2 shorted reads the reference, R1 open or shorted and R2 open rise to the input less the dropout', () => {
     const json = { from: 'VIN', parts: { R1: '240', R2: '720' } };
     expect(run(json, { VIN: 12 }, { fault: { role: 'R2', mode: 'short' } }).values['out.dc']).toBeCloseTo(1.25, 12);
-    for (const fault of [{ role: 'R1', mode: 'open' }, { role: 'R1', mode: 'short' }, { role: 'R2', mode: 'open' }] as const) {
+    for (const fault of [
+      { role: 'R1', mode: 'open' },
+      { role: 'R1', mode: 'short' },
+      { role: 'R2', mode: 'open' },
+    ] as const) {
       expect(run(json, { VIN: 12 }, { fault }).values['out.dc']).toBeCloseTo(10, 12);
     }
     expect(regulatorKind.faults?.(stage(json).settings as RegulatorSettings).map((f) => f.role)).toEqual(['R1', 'R2']);

@@ -58,7 +58,13 @@ function evaluateCase(c: Case): { out: EvalOutput; input: EvalInput<SchmittSetti
     parts['clamp.vz2'] = c.zener2.vz;
     parts['clamp.vf2'] = c.zener2.vf;
   }
-  const input: EvalInput<SchmittSettings> = { parts, settings: parsed.settings, opamp: c.opamp ?? opamp, supplies: { pos: c.pos ?? 12, neg: c.neg ?? -12 }, rails: {} };
+  const input: EvalInput<SchmittSettings> = {
+    parts,
+    settings: parsed.settings,
+    opamp: c.opamp ?? opamp,
+    supplies: { pos: c.pos ?? 12, neg: c.neg ?? -12 },
+    rails: {},
+  };
   return { out: kind.evaluate(input), input };
 }
 
@@ -132,7 +138,11 @@ function simulate(input: EvalInput<SchmittSettings>, pot: number, sharpClamp = f
   const periods = 6;
   // Steps short against the edges: with long steps the regenerative switching jitters.
   const step = Math.min(expectedPeriod / 5000, edge / 25);
-  const tab = runSpice(deck(input, pot, sharpClamp), `tran ${step.toExponential(4)} ${(periods * expectedPeriod).toExponential(4)} 0 ${step.toExponential(4)} uic`, ['v(sq)', 'v(tri)']);
+  const tab = runSpice(
+    deck(input, pot, sharpClamp),
+    `tran ${step.toExponential(4)} ${(periods * expectedPeriod).toExponential(4)} 0 ${step.toExponential(4)} uic`,
+    ['v(sq)', 'v(tri)'],
+  );
   const t = tab['time'] ?? new Float64Array();
   const sq = tab['v(sq)'] ?? new Float64Array();
   const tri = tab['v(tri)'] ?? new Float64Array();
@@ -184,10 +194,23 @@ const cases: readonly Case[] = [
   { name: 'ideal clamp (diodes into sources), 4.5 kHz', parts: { ...base, Rt: '3k3', Ct: '22n', Rz: '1k' }, clamp: zener, sharpClamp: true },
   { name: 'asymmetric rails +15/−9 V, unclamped, 840 Hz', parts: { ...base, Rt: '5k6', Ct: '100n' }, pos: 15, neg: -9 },
   // A mismatched zener pair (3.6 V against 4.3 V) moves the duty off 50 %.
-  { name: 'mismatched zeners 3.6 V / 4.3 V, clamped, 1.2 kHz', parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' }, clamp: { vz: '3.6 V', vf: '0.7 V' }, zener2: { vz: 4.3, vf: 0.7 } },
+  {
+    name: 'mismatched zeners 3.6 V / 4.3 V, clamped, 1.2 kHz',
+    parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' },
+    clamp: { vz: '3.6 V', vf: '0.7 V' },
+    zener2: { vz: 4.3, vf: 0.7 },
+  },
   // The same pair written in the plan (`clamp.vz2`), and one with a second forward drop too.
-  { name: 'zener pair from the plan, vz2 4.3 V, clamped, 1.2 kHz', parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' }, clamp: { vz: '3.6 V', vf: '0.7 V', vz2: '4.3 V' } },
-  { name: 'zener pair from the plan, vz2 5.1 V, vf2 0.75 V, clamped, 1.2 kHz', parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' }, clamp: { vz: '3.3 V', vf: '0.7 V', vz2: '5.1 V', vf2: '0.75 V' } },
+  {
+    name: 'zener pair from the plan, vz2 4.3 V, clamped, 1.2 kHz',
+    parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' },
+    clamp: { vz: '3.6 V', vf: '0.7 V', vz2: '4.3 V' },
+  },
+  {
+    name: 'zener pair from the plan, vz2 5.1 V, vf2 0.75 V, clamped, 1.2 kHz',
+    parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' },
+    clamp: { vz: '3.3 V', vf: '0.7 V', vz2: '5.1 V', vf2: '0.75 V' },
+  },
   { name: 'asymmetric rails +15/−9 V, clamped, 1.2 kHz', parts: { ...base, Rt: '8k2', Ct: '47n', Rz: '1k' }, clamp: zener, pos: 15, neg: -9 },
   // A low-GBW op-amp (100 kHz, 1 V/µs) with a short integrator time constant (RC = 48 µs):
   // the integrator's finite-GBW term 1/(2π·GBW·RC) is 3.3 % of RC, so the wrong sign of that
@@ -227,7 +250,9 @@ describe('schmitt-integrator against ngspice (0.5 V/µs, 1 MHz op-amps)', () => 
       let worst = 0;
       for (let i = 0; i < tri.length; i += 8) worst = Math.max(worst, Math.abs((tri[i] ?? 0) - sim.triangleAt(i / tri.length)));
       expect(worst / sim.triangleVpp).toBeLessThan(c.shapeLimit ?? limit);
-      console.log(`${c.name}: tool ${freq.toFixed(2)} Hz, ngspice ${sim.f.toFixed(2)} Hz, ${(relErr(freq, sim.f) * 100).toFixed(2)} %; duty ${(v['duty'] ?? 0).toFixed(4)} / ${sim.duty.toFixed(4)}; triangle ${(v['triangle.vpp'] ?? 0).toFixed(3)} / ${sim.triangleVpp.toFixed(3)} V; shape within ${((worst / sim.triangleVpp) * 100).toFixed(2)} % of Vpp`);
+      console.log(
+        `${c.name}: tool ${freq.toFixed(2)} Hz, ngspice ${sim.f.toFixed(2)} Hz, ${(relErr(freq, sim.f) * 100).toFixed(2)} %; duty ${(v['duty'] ?? 0).toFixed(4)} / ${sim.duty.toFixed(4)}; triangle ${(v['triangle.vpp'] ?? 0).toFixed(3)} / ${sim.triangleVpp.toFixed(3)} V; shape within ${((worst / sim.triangleVpp) * 100).toFixed(2)} % of Vpp`,
+      );
     });
   }
 
@@ -241,7 +266,9 @@ describe('schmitt-integrator against ngspice (0.5 V/µs, 1 MHz op-amps)', () => 
     // ngspice with Rt + RV (all in) and Rt alone; 2 % each.
     expect(Math.abs(relErr(fMin, slow.f))).toBeLessThan(limit);
     expect(Math.abs(relErr(fMax, fast.f))).toBeLessThan(limit);
-    console.log(`pot ends: freq.min tool ${fMin.toFixed(2)} / ngspice ${slow.f.toFixed(2)} Hz, freq.max tool ${fMax.toFixed(2)} / ngspice ${fast.f.toFixed(2)} Hz`);
+    console.log(
+      `pot ends: freq.min tool ${fMin.toFixed(2)} / ngspice ${slow.f.toFixed(2)} Hz, freq.max tool ${fMax.toFixed(2)} / ngspice ${fast.f.toFixed(2)} Hz`,
+    );
   });
 
   test('far into the slew-limited region the tool warns instead of modelling, and ngspice shows why', () => {

@@ -314,7 +314,12 @@ describe('parse', () => {
     ['pot without RV', { parts: good.parts, pot: { RV: 0.3 } }, 'stages[0].pot.RV', /parts has no RV/],
     ['clamp missing vf', { ...clamped, clamp: { vz: '3.9 V' } }, 'stages[0].clamp.vf', /missing; .*"vf": "0.7 V"/],
     ['clamp not a voltage', { ...clamped, clamp: { vz: '3.9 mA', vf: '0.7 V' } }, 'stages[0].clamp.vz', /"3.9 mA" is not a voltage; write e\.g\. "3.9 V 5%"/],
-    ['second zener not a voltage', { ...clamped, clamp: { vz: '3.9 V', vf: '0.7 V', vz2: '4.3 mA' } }, 'stages[0].clamp.vz2', /"4.3 mA" is not a voltage; write e\.g\. "4.3 V 5%"/],
+    [
+      'second zener not a voltage',
+      { ...clamped, clamp: { vz: '3.9 V', vf: '0.7 V', vz2: '4.3 mA' } },
+      'stages[0].clamp.vz2',
+      /"4.3 mA" is not a voltage; write e\.g\. "4.3 V 5%"/,
+    ],
     ['unknown clamp key', { ...clamped, clamp: { vz: '3.9 V', vf: '0.7 V', vz3: '5 V' } }, 'stages[0].clamp.vz3', /is not a clamp value; .*vz2/],
   ];
   for (const [name, json, path, message] of cases) {

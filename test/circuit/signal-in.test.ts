@@ -18,7 +18,7 @@ describe('signal-in', () => {
     // The square's series converges slowly: its harmonics 2–50 alone (odd, 1/k) give √(Σ 1/k², k = 3, 5 … 49) ≈ 47.3 %
     // rather than the whole series' 48.3 %; 256 samples fold the harmonics above 128 back, hence 0.5 pp.
     ['square', Math.sqrt(Array.from({ length: 24 }, (_, i) => 1 / (2 * i + 3) ** 2).reduce((a, b) => a + b, 0)), 0.005],
-  ] as const)('%s: vpp, frequency and the shape\'s THD', (shape, ideal, tol) => {
+  ] as const)("%s: vpp, frequency and the shape's THD", (shape, ideal, tol) => {
     const { result } = run({ shape, peak: '1.5 V 2%', frequency: '2 kHz' });
     expect(result.values['out.vpp']).toBeCloseTo(3, 12);
     expect(result.values['freq']).toBe(2000);

@@ -114,7 +114,11 @@ describe('timer-astable closed form', () => {
 
 describe('timer-astable faults and plan', () => {
   test('Ra or Rb open, or C shorted: stopped with the output high', () => {
-    for (const fault of [{ role: 'Ra', mode: 'open' }, { role: 'Rb', mode: 'open' }, { role: 'C', mode: 'short' }] as const) {
+    for (const fault of [
+      { role: 'Ra', mode: 'open' },
+      { role: 'Rb', mode: 'open' },
+      { role: 'C', mode: 'short' },
+    ] as const) {
       const r = run(1e3, 10e3, 100e-9, 12, { fault });
       expect(r.values['freq']).toBe(0);
       expect(r.outputs['out']?.samples[0]).toBeCloseTo(10.3, 12);
@@ -124,10 +128,18 @@ describe('timer-astable faults and plan', () => {
   test('C open runs on stray capacitance (far higher), Rb shorted runs near 100 % duty, Ra shorted warns of heat', () => {
     expect(run(1e3, 10e3, 100e-9, 12, { fault: { role: 'C', mode: 'open' } }).values['freq'] as number).toBeGreaterThan(1e6);
     expect(run(1e3, 10e3, 100e-9, 12, { fault: { role: 'Rb', mode: 'short' } }).values['duty'] as number).toBeGreaterThan(0.999);
-    expect(run(1e3, 10e3, 100e-9, 12, { fault: { role: 'Ra', mode: 'short' } }).warnings.map((w) => w.message).join('\n')).toMatch(/runs hot/);
+    expect(
+      run(1e3, 10e3, 100e-9, 12, { fault: { role: 'Ra', mode: 'short' } })
+        .warnings.map((w) => w.message)
+        .join('\n'),
+    ).toMatch(/runs hot/);
   });
   test('a supply outside 4.5–16 V warns', () => {
-    expect(run(10e3, 10e3, 10e-9, 18).warnings.map((w) => w.message).join('\n')).toMatch(/runs from 4\.5 V to 16 V/);
+    expect(
+      run(10e3, 10e3, 10e-9, 18)
+        .warnings.map((w) => w.message)
+        .join('\n'),
+    ).toMatch(/runs from 4\.5 V to 16 V/);
   });
   test.each([
     [{ from: 'VCC', parts: { Ra: '10k', Rb: '10k' } }, /stages\[5\]\.parts\.C: missing; write a capacitance, e\.g\. "10n 5%"/],

@@ -14,7 +14,14 @@ const supplies = { pos: 12, neg: -12 };
 const rel = (a: number, b: number) => Math.abs(a / b - 1);
 
 function run(parts: Record<string, number>, o: OpampModel = op, fault?: StageFault, diode: DiodeModel = defaultDiode) {
-  return wienBridgeKind.evaluate({ parts, settings: { hasLimiter: parts['Rf2'] !== undefined, diode, diodeName: 'test' }, opamp: o, supplies, rails: {}, fault });
+  return wienBridgeKind.evaluate({
+    parts,
+    settings: { hasLimiter: parts['Rf2'] !== undefined, diode, diodeName: 'test' },
+    opamp: o,
+    supplies,
+    rails: {},
+    fault,
+  });
 }
 
 // Invented part values.
@@ -80,7 +87,20 @@ describe('wien-bridge against an ngspice transient (behavioural op-amp, 1N4148-c
 
   test('R2 open: the + input has no DC path and the output latches at a rail (ngspice agrees)', () => {
     const t = runSpice(
-      [opampSubcktFor('opa', op, supplies), 'R1 out s 15k', 'C1 s p 10n', 'C2 p 0 10n', 'Rg n 0 10k', 'Rf1 out m 15k', 'Rf2 m n 10k', 'D1 m n dlim', 'D2 n m dlim', '.model dlim D(IS=2.52n N=1.752 RS=0.568)', 'X1 p n out opa', '.ic v(p)=0.01'].join('\n'),
+      [
+        opampSubcktFor('opa', op, supplies),
+        'R1 out s 15k',
+        'C1 s p 10n',
+        'C2 p 0 10n',
+        'Rg n 0 10k',
+        'Rf1 out m 15k',
+        'Rf2 m n 10k',
+        'D1 m n dlim',
+        'D2 n m dlim',
+        '.model dlim D(IS=2.52n N=1.752 RS=0.568)',
+        'X1 p n out opa',
+        '.ic v(p)=0.01',
+      ].join('\n'),
       'tran 10u 50m 40m 10u uic',
       ['v(out)'],
     );
@@ -136,7 +156,13 @@ describe('wien-bridge closed forms and the limiter', () => {
     expect(run(equalArms, op, { role: 'Rf2', mode: 'short' }).values['out.vpp']).toBe(0);
   });
   test('on a single supply (no negative rail) it is refused with a reason, not computed', () => {
-    const r = wienBridgeKind.evaluate({ parts: equalArms, settings: { hasLimiter: true, diode: defaultDiode, diodeName: 'test' }, opamp: op, supplies: { pos: 12, neg: 0 }, rails: {} });
+    const r = wienBridgeKind.evaluate({
+      parts: equalArms,
+      settings: { hasLimiter: true, diode: defaultDiode, diodeName: 'test' },
+      opamp: op,
+      supplies: { pos: 12, neg: 0 },
+      rails: {},
+    });
     expect(r.values['freq']).toBeNaN();
     expect(r.warnings.map((w) => w.message).join()).toMatch(/needs a negative rail/);
   });

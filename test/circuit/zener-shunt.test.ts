@@ -108,7 +108,11 @@ describe('zener-shunt faults, impedance and plan', () => {
     expect(run(json, 12, { fault: { role: 'Rs', mode: 'open' } }).values['out.dc']).toBe(0);
     const hot = run(json, 12, { fault: { role: 'Rs', mode: 'short' } });
     expect(hot.warnings.map((w) => w.message).join('\n')).toMatch(/runs hot/);
-    expect(zenerShuntKind.faults?.(stage({ from: 'R', ...json }).settings as ZenerShuntSettings).map((f) => `${f.role}:${f.modes.join('/')}`)).toEqual(['Z:open/short/reversed', 'Rs:open/short', 'Rload:open/short']);
+    expect(zenerShuntKind.faults?.(stage({ from: 'R', ...json }).settings as ZenerShuntSettings).map((f) => `${f.role}:${f.modes.join('/')}`)).toEqual([
+      'Z:open/short/reversed',
+      'Rs:open/short',
+      'Rload:open/short',
+    ]);
   });
 
   test('output impedance rz ∥ Rs ∥ Rload in regulation, Rs ∥ Rload out of it', () => {

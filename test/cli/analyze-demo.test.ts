@@ -12,7 +12,11 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 /** The real command through its entry point, as a technician runs it. */
 function probebook(...args: string[]): { status: number; stdout: string; stderr: string } {
   try {
-    const stdout = execFileSync(process.execPath, ['--import', 'tsx', join(root, 'src', 'cli', 'bin.ts'), ...args], { cwd: root, encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] });
+    const stdout = execFileSync(process.execPath, ['--import', 'tsx', join(root, 'src', 'cli', 'bin.ts'), ...args], {
+      cwd: root,
+      encoding: 'utf8',
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
     return { status: 0, stdout, stderr: '' };
   } catch (error) {
     const e = error as { status: number; stdout: string; stderr: string };

@@ -10,7 +10,11 @@ const t = tempDir('batch-damaged');
 afterAll(() => t.remove());
 const env = { PROBEBOOK_LOG: t.dir, PROBEBOOK_OPERATOR: 'tess', PROBEBOOK_CACHE: join(t.dir, 'cache') };
 // Invented readings: B-2's 3.37 V is the one a damaged file must not keep in the figures.
-const readings: [string, string][] = [['B-1', '3.25'], ['B-2', '3.37'], ['B-3', '3.27']];
+const readings: [string, string][] = [
+  ['B-1', '3.25'],
+  ['B-2', '3.37'],
+  ['B-3', '3.27'],
+];
 
 beforeAll(async () => {
   for (const [board, value] of readings) {

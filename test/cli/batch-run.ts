@@ -10,6 +10,11 @@ export const cacheDir = mkdtempSync(join(tmpdir(), 'probebook-cache-'));
 export async function run(argv: string[], env: NodeJS.ProcessEnv = {}) {
   let stdout = '';
   let stderr = '';
-  const status = await main(argv, { stdout: (t) => (stdout += t), stderr: (t) => (stderr += t), env: { PROBEBOOK_CACHE: cacheDir, ...env }, cwd: process.cwd() });
+  const status = await main(argv, {
+    stdout: (t) => (stdout += t),
+    stderr: (t) => (stderr += t),
+    env: { PROBEBOOK_CACHE: cacheDir, ...env },
+    cwd: process.cwd(),
+  });
   return { status, stdout, stderr };
 }

@@ -6,7 +6,6 @@ import { fillDemoLog, latestFreq } from '../review/demo-boards.js';
 import { makeLog, type TestLog } from '../review/real-log.js';
 import { run } from './batch-run.js';
 
-
 let t: TestLog;
 beforeAll(async () => {
   t = await makeLog();
@@ -63,7 +62,12 @@ describe('batch --json', () => {
   });
 
   test('bad dates and revisions are exit 2 with what to type', async () => {
-    for (const argv of [['--from', 'monday'], ['--to', '2026-13-01'], ['--from', '2026-11-05', '--to', '2026-11-01'], ['--rev', 'xyz']]) {
+    for (const argv of [
+      ['--from', 'monday'],
+      ['--to', '2026-13-01'],
+      ['--from', '2026-11-05', '--to', '2026-11-01'],
+      ['--rev', 'xyz'],
+    ]) {
       const r = await run(['batch', ...argv, '--log', t.dir]);
       expect(r.status, argv.join(' ')).toBe(2);
       expect(r.stderr).toMatch(/^probebook: .+\n$/);

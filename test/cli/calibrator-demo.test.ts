@@ -19,7 +19,18 @@ interface JsonTarget {
 }
 
 const file = 'demo/calibrator.plan.json';
-const secondSet = ['rc-highpass', 'sallen-key-lowpass', 'sallen-key-highpass', 'mfb-bandpass', 'regulator', 'zener-shunt', 'wien-bridge', 'comparator', 'common-emitter', 'timer-astable'];
+const secondSet = [
+  'rc-highpass',
+  'sallen-key-lowpass',
+  'sallen-key-highpass',
+  'mfb-bandpass',
+  'regulator',
+  'zener-shunt',
+  'wien-bridge',
+  'comparator',
+  'common-emitter',
+  'timer-astable',
+];
 
 describe('the calibrator demo plan (invented board)', () => {
   const raw = JSON.parse(readFileSync(file, 'utf8')) as { note: string; stages: { id: string; kind: string; parts?: Record<string, string> }[] };

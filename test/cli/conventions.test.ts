@@ -38,7 +38,12 @@ describe('probebook conventions', () => {
     expect(r.stdout).toMatch(/^usage: probebook \[--log DIR\]/);
   });
 
-  test.each([['targets', 'demo/exciter.plan.json', '--cache='], ['history', 'X-1', '--cache', ''], ['batch', '--cache='], ['report', 'X-1', '--cache=']])('an empty --cache is refused with one line (%s)', async (...argv) => {
+  test.each([
+    ['targets', 'demo/exciter.plan.json', '--cache='],
+    ['history', 'X-1', '--cache', ''],
+    ['batch', '--cache='],
+    ['report', 'X-1', '--cache='],
+  ])('an empty --cache is refused with one line (%s)', async (...argv) => {
     const r = await cli(argv);
     expect(r.status).toBe(2);
     expect(r.stderr).toBe('probebook: --cache needs a folder; leave it out to use $PROBEBOOK_CACHE or ~/.cache/probebook\n');

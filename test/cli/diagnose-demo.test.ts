@@ -18,7 +18,10 @@ beforeAll(() => {
 async function diagnosed(serial: string) {
   const r = await cli(['diagnose', serial, '--json', '--log', `${t.dir}/log`], env);
   expect(r.status, r.stderr).toBe(0);
-  return JSON.parse(r.stdout) as { hypotheses: { part: string; ref: string | null; mode: string; value: number | null; label: string; alternatives: { part: string }[] }[]; unexplained: string[] };
+  return JSON.parse(r.stdout) as {
+    hypotheses: { part: string; ref: string | null; mode: string; value: number | null; label: string; alternatives: { part: string }[] }[];
+    unexplained: string[];
+  };
 }
 
 describe('diagnose on the demo log', () => {

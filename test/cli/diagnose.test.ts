@@ -81,7 +81,10 @@ describe('probebook diagnose on a PostgreSQL log', () => {
     const db = await freshDatabase('diagnose');
     try {
       const pgEnv = { ...env, PROBEBOOK_LOG: db.url };
-      for (const [check, value] of [['rails.+10V.dc', '10.01'], ['ref.out.dc', '3.465']] as const) {
+      for (const [check, value] of [
+        ['rails.+10V.dc', '10.01'],
+        ['ref.out.dc', '3.465'],
+      ] as const) {
         const r = await cli(['record', '--plan', biasPlan, '--board', 'D-101', '--check', check, '--value', value], pgEnv);
         expect(r.status, r.stderr).toBe(0);
       }

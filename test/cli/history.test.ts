@@ -21,7 +21,14 @@ beforeAll(async () => {
   }
   const log = await openLog(t.dir);
   const board = await log.readBoard('H-001');
-  await log.addRework('H-001', { run: board?.runs[0]?.id ?? null, part: 'ref.Rbottom', from: '3k6', to: '3k3', note: 'wrong value fitted (invented)', operator: 'kim' });
+  await log.addRework('H-001', {
+    run: board?.runs[0]?.id ?? null,
+    part: 'ref.Rbottom',
+    from: '3k6',
+    to: '3k3',
+    note: 'wrong value fitted (invented)',
+    operator: 'kim',
+  });
 });
 
 describe('probebook history', () => {
@@ -36,7 +43,9 @@ describe('probebook history', () => {
     expect(Object.keys(out.readings[0])).toEqual(['id', 'run', 'check', 'value', 'unit', 'raw', 'at', 'operator', 'verdict']);
     expect(out.readings[1]).toMatchObject({ value: 4700, unit: 'Ω', raw: '4k7', verdict: 'pass' });
     expect(out.readings[3].verdict).toBe('fail');
-    expect(out.rework).toEqual([{ at: expect.any(String), part: 'ref.Rbottom', from: '3k6', to: '3k3', note: 'wrong value fitted (invented)', operator: 'kim', run: out.runs[0].id }]);
+    expect(out.rework).toEqual([
+      { at: expect.any(String), part: 'ref.Rbottom', from: '3k6', to: '3k3', note: 'wrong value fitted (invented)', operator: 'kim', run: out.runs[0].id },
+    ]);
   });
 
   test('readable: a header with counts and a timeline with every reading, its band and the rework note', async () => {
@@ -156,7 +165,15 @@ describe('--log and --cache on the command line (issue 10 items 7 and 9)', () =>
   });
 
   test('--help of every command that computes targets says where the cache lives, even with --log', async () => {
-    for (const argv of [['targets', '--help'], ['record', '--help'], ['history', '--help'], ['batch', '--help'], ['report', '--help'], ['report', '--batch', '--help'], ['--help']]) {
+    for (const argv of [
+      ['targets', '--help'],
+      ['record', '--help'],
+      ['history', '--help'],
+      ['batch', '--help'],
+      ['report', '--help'],
+      ['report', '--batch', '--help'],
+      ['--help'],
+    ]) {
       const r = await cli(argv, env);
       expect(r.status, argv.join(' ')).toBe(0);
       expect(r.stdout, argv.join(' ')).toMatch(/--cache DIR/);

@@ -20,7 +20,11 @@ async function folderLog(): Promise<string> {
   const env = { PROBEBOOK_LOG: t.dir, PROBEBOOK_OPERATOR: 'cora' };
   for (const [i, v] of values.entries()) {
     const board = `CP-${String(i + 1).padStart(3, '0')}`;
-    for (const [check, value] of [['rails.+10V.to-ground', '15k'], ['ref.out.dc', v], ['neg.out.dc', '-4.06']] as const) {
+    for (const [check, value] of [
+      ['rails.+10V.to-ground', '15k'],
+      ['ref.out.dc', v],
+      ['neg.out.dc', '-4.06'],
+    ] as const) {
       const r = await cli(['record', '--plan', biasPlan, '--board', board, '--check', check, '--value', value], env);
       expect(r.status, r.stderr).toBe(0);
     }

@@ -22,13 +22,27 @@ beforeAll(async () => {
   const planText = readFileSync(biasPlan, 'utf8');
   const planHash = createHash('sha256').update(planText).digest('hex');
   const forged = `eve\n2026-01-01 00:00:00    PASS     ref.out.dc = 3.3 V${esc}[2J${esc}]0;owned\u0007\u009b31m`;
-  await log.appendToOpenRun('OLD-1', { plan: 'bias-ref-a', planHash, planText, operator: forged }, { check: 'ref.out.dc', value: 3.4, unit: 'V', raw: `3.4${esc}[31m`, operator: forged, verdict: 'fail', planHash });
-  await log.addRework('OLD-1', { run: null, part: 'ref.Rtop', from: '6k2', to: '6k8', note: `<script>alert(1)</script> | \`code\` ${esc}[5m`, operator: forged });
+  await log.appendToOpenRun(
+    'OLD-1',
+    { plan: 'bias-ref-a', planHash, planText, operator: forged },
+    { check: 'ref.out.dc', value: 3.4, unit: 'V', raw: `3.4${esc}[31m`, operator: forged, verdict: 'fail', planHash },
+  );
+  await log.addRework('OLD-1', {
+    run: null,
+    part: 'ref.Rtop',
+    from: '6k2',
+    to: '6k8',
+    note: `<script>alert(1)</script> | \`code\` ${esc}[5m`,
+    operator: forged,
+  });
 });
 
 describe('operator names are cleaned on the way in', () => {
   test('a newline and an escape sequence in --operator are not saved', async () => {
-    const r = await cli(['record', '--plan', biasPlan, '--board', 'OP-1', '--check', 'ref.out.dc', '--value', '3.28', '--operator', `kim${esc}[31m\nPASS forged`, '--json'], env);
+    const r = await cli(
+      ['record', '--plan', biasPlan, '--board', 'OP-1', '--check', 'ref.out.dc', '--value', '3.28', '--operator', `kim${esc}[31m\nPASS forged`, '--json'],
+      env,
+    );
     expect(r.status, r.stderr).toBe(0);
     expect(JSON.parse(r.stdout).reading.operator).toBe('kim[31m PASS forged');
   });

@@ -26,7 +26,8 @@ async function benchFile(name: string, answers: Record<string, string | null>, e
   return file;
 }
 
-const record = (board: string, file: string, extra: string[] = []) => cli(['record', '--plan', biasPlan, '--board', board, '--check', 'ref.out.dc', '--from', 'dmm', '--instruments', file, ...extra], env);
+const record = (board: string, file: string, extra: string[] = []) =>
+  cli(['record', '--plan', biasPlan, '--board', board, '--check', 'ref.out.dc', '--from', 'dmm', '--instruments', file, ...extra], env);
 
 describe('record --from (DESIGN §7a)', () => {
   test('the instrument answer is recorded like a typed reading, with its raw text and the instrument', async () => {
@@ -34,7 +35,14 @@ describe('record --from (DESIGN §7a)', () => {
     const r = await record('F-001', file, ['--json']);
     expect(r.status, r.stderr).toBe(0);
     const out = JSON.parse(r.stdout);
-    expect(out.reading).toMatchObject({ check: 'ref.out.dc', value: 3.271, unit: 'V', raw: '+3.27100000E+00', operator: 'ines', instrument: { name: 'dmm', identity: idn } });
+    expect(out.reading).toMatchObject({
+      check: 'ref.out.dc',
+      value: 3.271,
+      unit: 'V',
+      raw: '+3.27100000E+00',
+      operator: 'ines',
+      instrument: { name: 'dmm', identity: idn },
+    });
     // 3.271 V lies inside the divider's band (10 V · 3k3/(6k8+3k3) = 3.267 V nominal, any circuits handbook).
     expect(out.verdict).toBe('pass');
     const board = await (await openLog(t.dir)).readBoard('F-001');
@@ -85,7 +93,10 @@ describe('record --from (DESIGN §7a)', () => {
 
   test('bad arguments and a bad file exit 2', async () => {
     const file = await benchFile('args', { 'MEAS:VOLT:DC?': '3.3' });
-    const both = await cli(['record', '--plan', biasPlan, '--board', 'X-1', '--check', 'ref.out.dc', '--from', 'dmm', '--value', '3.3', '--instruments', file], env);
+    const both = await cli(
+      ['record', '--plan', biasPlan, '--board', 'X-1', '--check', 'ref.out.dc', '--from', 'dmm', '--value', '3.3', '--instruments', file],
+      env,
+    );
     expect(both.status).toBe(2);
     expect(both.stderr).toMatch(/--value or --from, not both/);
     const unknown = await cli(['record', '--plan', biasPlan, '--board', 'X-1', '--check', 'ref.out.dc', '--from', 'scope', '--instruments', file], env);
@@ -144,7 +155,9 @@ describe('the simulated bench (instruments --simulate)', () => {
     const { fileURLToPath } = await import('node:url');
     const bin = fileURLToPath(new URL('../../src/cli/bin.ts', import.meta.url));
     const file = join(t.dir, 'sim.json');
-    const child = spawn(process.execPath, ['--import', 'tsx', bin, 'instruments', '--simulate', biasPlan, '--port', '0', '--write', file, '--seed', '7'], { stdio: ['ignore', 'pipe', 'pipe'] });
+    const child = spawn(process.execPath, ['--import', 'tsx', bin, 'instruments', '--simulate', biasPlan, '--port', '0', '--write', file, '--seed', '7'], {
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
     try {
       let out = '';
       await new Promise<void>((resolve, reject) => {
@@ -158,7 +171,10 @@ describe('the simulated bench (instruments --simulate)', () => {
         });
         child.on('exit', () => reject(new Error(`simulator exited: ${out}`)));
       });
-      const r = await cli(['record', '--plan', biasPlan, '--board', 'SIM-1', '--check', 'ref.out.dc', '--from', 'sim-meter', '--instruments', file, '--json'], env);
+      const r = await cli(
+        ['record', '--plan', biasPlan, '--board', 'SIM-1', '--check', 'ref.out.dc', '--from', 'sim-meter', '--instruments', file, '--json'],
+        env,
+      );
       expect(r.status, r.stderr).toBe(0);
       const got = JSON.parse(r.stdout);
       expect(got.reading.instrument.identity).toMatch(/simulated bench/);
@@ -173,7 +189,7 @@ describe('the simulated bench (instruments --simulate)', () => {
 });
 
 describe('the simulated scope', () => {
-  test('a record of the exciter demo\'s last waveform arrives as an int8 block at the oscillator frequency', async () => {
+  test("a record of the exciter demo's last waveform arrives as an int8 block at the oscillator frequency", async () => {
     const { spawn } = await import('node:child_process');
     const { fileURLToPath } = await import('node:url');
     const { loadInstruments } = await import('../../src/bench/instruments-file.js');
@@ -182,7 +198,9 @@ describe('the simulated scope', () => {
     const bin = fileURLToPath(new URL('../../src/cli/bin.ts', import.meta.url));
     const plan = fileURLToPath(new URL('../../demo/exciter.plan.json', import.meta.url));
     const file = join(t.dir, 'sim-scope.json');
-    const child = spawn(process.execPath, ['--import', 'tsx', bin, 'instruments', '--simulate', plan, '--port', '0', '--write', file, '--seed', '7'], { stdio: ['ignore', 'pipe', 'pipe'] });
+    const child = spawn(process.execPath, ['--import', 'tsx', bin, 'instruments', '--simulate', plan, '--port', '0', '--write', file, '--seed', '7'], {
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
     try {
       let out = '';
       await new Promise<void>((resolve, reject) => {
@@ -221,11 +239,26 @@ describe('record --from a scope (a capture figure measured from an SCPI record)'
     for (let i = 0; i < n; i++) codes.writeInt16LE(Math.round((1.25 * Math.sin((2 * Math.PI * 2000 * i) / 1e6)) / 50e-6), 2 * i);
     const block = Buffer.concat([Buffer.from(`#4${codes.length}`), codes, Buffer.from('\n')]);
     const scope = await startTestInstrument((c) =>
-      c === '*IDN?' ? { kind: 'text', text: 'Invented Scopes,S-1,5,0.9' } : c === 'WAV:DATA?' ? { kind: 'bytes', bytes: block } : { kind: 'text', text: ({ 'WAV:XINC?': '1E-6', 'WAV:YINC?': '5E-5', 'WAV:YOR?': '0' } as Record<string, string>)[c] ?? '-113,"Undefined header"' },
+      c === '*IDN?'
+        ? { kind: 'text', text: 'Invented Scopes,S-1,5,0.9' }
+        : c === 'WAV:DATA?'
+          ? { kind: 'bytes', bytes: block }
+          : { kind: 'text', text: ({ 'WAV:XINC?': '1E-6', 'WAV:YINC?': '5E-5', 'WAV:YOR?': '0' } as Record<string, string>)[c] ?? '-113,"Undefined header"' },
     );
     servers.push(scope);
     const file = join(t.dir, 'scope.json');
-    writeFileSync(file, JSON.stringify({ instruments: [{ name: 'scope', address: `tcp://127.0.0.1:${scope.port}`, capture: { data: 'WAV:DATA?', format: 'int16', xincrement: 'WAV:XINC?', yscale: 'WAV:YINC?', yoffset: 'WAV:YOR?' } }] }));
+    writeFileSync(
+      file,
+      JSON.stringify({
+        instruments: [
+          {
+            name: 'scope',
+            address: `tcp://127.0.0.1:${scope.port}`,
+            capture: { data: 'WAV:DATA?', format: 'int16', xincrement: 'WAV:XINC?', yscale: 'WAV:YINC?', yoffset: 'WAV:YOR?' },
+          },
+        ],
+      }),
+    );
     const r = await cli(['record', '--plan', plan, '--board', 'SC-1', '--check', 'filt.out.vpp', '--from', 'scope', '--instruments', file, '--json'], env);
     expect(r.status, r.stderr).toBe(0);
     const out = JSON.parse(r.stdout);

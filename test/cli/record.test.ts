@@ -12,7 +12,8 @@ import { tempDir } from '../log/fixtures/temp-log.js';
 const t = tempDir('record');
 afterAll(() => t.remove());
 const env = { PROBEBOOK_LOG: t.dir, PROBEBOOK_OPERATOR: 'tess' };
-const record = (board: string, check: string, value: string, extra: string[] = []) => cli(['record', '--plan', biasPlan, '--board', board, '--check', check, '--value', value, ...extra], env);
+const record = (board: string, check: string, value: string, extra: string[] = []) =>
+  cli(['record', '--plan', biasPlan, '--board', board, '--check', check, '--value', value, ...extra], env);
 
 // Worst-case band of ref.out.dc from the divider formula Vout = V·Rb/(Rt+Rb)
 // (any circuits handbook), at the corners of the fixture's tolerance box:
@@ -139,7 +140,14 @@ describe('probebook record', () => {
 
   test('operator: --operator, else $PROBEBOOK_OPERATOR, else $USER, else unknown', async () => {
     const op = async (extra: string[], e: Record<string, string>) =>
-      JSON.parse((await cli(['record', '--plan', biasPlan, '--board', 'R-008', '--check', 'ref.out.dc', '--value', '3.3', '--json', ...extra], { PROBEBOOK_LOG: t.dir, ...e })).stdout).reading.operator;
+      JSON.parse(
+        (
+          await cli(['record', '--plan', biasPlan, '--board', 'R-008', '--check', 'ref.out.dc', '--value', '3.3', '--json', ...extra], {
+            PROBEBOOK_LOG: t.dir,
+            ...e,
+          })
+        ).stdout,
+      ).reading.operator;
     expect(await op(['--operator', 'kim'], { PROBEBOOK_OPERATOR: 'tess', USER: 'u' })).toBe('kim');
     expect(await op([], { PROBEBOOK_OPERATOR: 'tess', USER: 'u' })).toBe('tess');
     expect(await op([], { USER: 'u' })).toBe('u');
@@ -166,13 +174,23 @@ describe('the reading parser (readValue)', () => {
   });
 
   test('property: a number with an SI prefix reads as mantissa × 10^exponent (BIPM SI prefixes)', () => {
-    const prefixes: [string, number][] = [['m', -3], ['u', -6], ['k', 3], ['', 0]];
+    const prefixes: [string, number][] = [
+      ['m', -3],
+      ['u', -6],
+      ['k', 3],
+      ['', 0],
+    ];
     fc.assert(
-      fc.property(fc.integer({ min: -99999, max: 99999 }), fc.integer({ min: 0, max: 3 }), fc.constantFrom(...prefixes), (mantissa, decimals, [prefix, exp]) => {
-        const text = `${(mantissa / 10 ** decimals).toFixed(decimals)} ${prefix}V`;
-        // The number the property wrote, read back (decimal notation, no outside figure).
-        expect(readValue(text, volts)).toBeCloseTo((mantissa / 10 ** decimals) * 10 ** exp, 12 - Math.max(0, exp));
-      }),
+      fc.property(
+        fc.integer({ min: -99999, max: 99999 }),
+        fc.integer({ min: 0, max: 3 }),
+        fc.constantFrom(...prefixes),
+        (mantissa, decimals, [prefix, exp]) => {
+          const text = `${(mantissa / 10 ** decimals).toFixed(decimals)} ${prefix}V`;
+          // The number the property wrote, read back (decimal notation, no outside figure).
+          expect(readValue(text, volts)).toBeCloseTo((mantissa / 10 ** decimals) * 10 ** exp, 12 - Math.max(0, exp));
+        },
+      ),
       { numRuns: 300, seed: 11 },
     );
   });

@@ -9,7 +9,12 @@ import { cacheDir, run } from './batch-run.js';
 async function report(argv: string[]) {
   let stdout = '';
   let stderr = '';
-  const status = await reportBatchCommand(argv, { stdout: (x) => (stdout += x), stderr: (x) => (stderr += x), env: { PROBEBOOK_CACHE: cacheDir }, cwd: process.cwd() });
+  const status = await reportBatchCommand(argv, {
+    stdout: (x) => (stdout += x),
+    stderr: (x) => (stderr += x),
+    env: { PROBEBOOK_CACHE: cacheDir },
+    cwd: process.cwd(),
+  });
   return { status, stdout, stderr };
 }
 

@@ -28,7 +28,14 @@ beforeAll(async () => {
   }
   const log = await openLog(t.dir);
   const b = await log.readBoard('P-001');
-  await log.addRework('P-001', { run: b?.runs[0]?.id ?? null, part: 'ref.Rtop', from: '6k2', to: '6k8', note: 'swapped | mislabelled reel (invented)', operator: 'kim' });
+  await log.addRework('P-001', {
+    run: b?.runs[0]?.id ?? null,
+    part: 'ref.Rtop',
+    from: '6k2',
+    to: '6k8',
+    note: 'swapped | mislabelled reel (invented)',
+    operator: 'kim',
+  });
   board = (await log.readBoard('P-001')) as BoardFile;
 });
 

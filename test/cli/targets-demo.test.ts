@@ -59,7 +59,10 @@ describe.each(['demo/exciter.plan.json', 'demo/line-driver.plan.json'])('targets
 
 describe('demo designs', () => {
   test('the exciter runs at 2–3 kHz with its pot centred and has no design warnings', async () => {
-    const json = JSON.parse((await run(['targets', 'demo/exciter.plan.json', '--json', '--trials', '1000'])).stdout) as { targets: JsonTarget[]; warnings: unknown[] };
+    const json = JSON.parse((await run(['targets', 'demo/exciter.plan.json', '--json', '--trials', '1000'])).stdout) as {
+      targets: JsonTarget[];
+      warnings: unknown[];
+    };
     const f = json.targets.find((t) => t.check === 'osc.freq');
     // Ideal f = R2/(4·R1·R·Ct) of the demo plan's invented parts, about 2.4 kHz (Sedra and Smith, square/triangle generator); the slew correction stays within these bounds.
     expect(f?.nominal).toBeGreaterThan(2000);

@@ -11,7 +11,11 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 /** Run the real CLI as a child process, as a technician would (through tsx, no build needed). */
 function cli(args: readonly string[]): { status: number | null; stdout: string; stderr: string } {
-  const r = spawnSync(process.execPath, ['--import', 'tsx', 'src/cli/bin.ts', ...args], { encoding: 'utf8', timeout: 60_000, env: { ...process.env, PROBEBOOK_CACHE: join(dir, 'cache') } });
+  const r = spawnSync(process.execPath, ['--import', 'tsx', 'src/cli/bin.ts', ...args], {
+    encoding: 'utf8',
+    timeout: 60_000,
+    env: { ...process.env, PROBEBOOK_CACHE: join(dir, 'cache') },
+  });
   return { status: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 

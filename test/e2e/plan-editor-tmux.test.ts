@@ -44,7 +44,9 @@ async function screen(expected: string | RegExp, timeoutMs = 30_000): Promise<st
 /** Move down until the selected line (the pointer ›) shows `label`. */
 async function select(label: RegExp) {
   for (let i = 0; i < 60; i++) {
-    const line = capture().split('\n').find((l) => l.startsWith('›'));
+    const line = capture()
+      .split('\n')
+      .find((l) => l.startsWith('›'));
     if (line && label.test(line)) return;
     keys('Down');
     await new Promise((r) => setTimeout(r, 120));
@@ -128,7 +130,9 @@ describe('probebook plan new in a real terminal', () => {
     await screen('probebook exited 0');
 
     const text = await readFile(join(dir, 'board.plan.json'), 'utf8');
-    const saved = JSON.parse(text) as { stages: { id: string; kind: string; input?: string; parts?: Record<string, string>; peak?: string; testPoints?: Record<string, string> }[] };
+    const saved = JSON.parse(text) as {
+      stages: { id: string; kind: string; input?: string; parts?: Record<string, string>; peak?: string; testPoints?: Record<string, string> }[];
+    };
     expect(saved.stages.map((s) => [s.id, s.kind, s.input])).toEqual([
       ['signal', 'signal-in', undefined],
       ['rc', 'rc-lowpass', 'signal.out'],
@@ -137,7 +141,11 @@ describe('probebook plan new in a real terminal', () => {
     expect(saved.stages[1]?.parts).toEqual({ R: '3k3 1%', C: '4n7 5%' });
     expect(saved.stages[1]?.testPoints).toEqual({ out: 'TP2' });
 
-    const targets = spawnSync(tsx, ['--tsconfig', join(repo, 'tsconfig.json'), join(repo, 'src/cli/bin.ts'), 'targets', 'board.plan.json', '--cache', join(dir, 'cache')], { cwd: dir, encoding: 'utf8' });
+    const targets = spawnSync(
+      tsx,
+      ['--tsconfig', join(repo, 'tsconfig.json'), join(repo, 'src/cli/bin.ts'), 'targets', 'board.plan.json', '--cache', join(dir, 'cache')],
+      { cwd: dir, encoding: 'utf8' },
+    );
     expect(targets.status).toBe(0);
     for (const [check, nominal] of shown) expect(targets.stdout).toMatch(new RegExp(`^${check.replace('.', '\\.')}\\s+(TP2\\s+)?${nominal}\\s`, 'm'));
     // First-order low-pass, fc = 1/(2πRC) (any circuits handbook): 3k3 and 4n7 give 10.26 kHz.

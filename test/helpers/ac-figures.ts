@@ -56,7 +56,7 @@ export function spiceFigures(t: SpiceTable, shape: 'lowpass' | 'highpass' | 'ban
     const y1 = m[k] as number;
     const y2 = m[k + 1] as number;
     const d = (x1 - x0) * (y1 - y2) - (x1 - x2) * (y1 - y0);
-    const xp = x1 - 0.5 * (((x1 - x0) ** 2) * (y1 - y2) - ((x1 - x2) ** 2) * (y1 - y0)) / d;
+    const xp = x1 - (0.5 * ((x1 - x0) ** 2 * (y1 - y2) - (x1 - x2) ** 2 * (y1 - y0))) / d;
     const f0 = Math.exp(xp);
     const peak = magAt(f, m, f0);
     const level = (i: number) => (m[i] as number) - peak / Math.SQRT2;

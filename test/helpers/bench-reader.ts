@@ -92,7 +92,18 @@ export function readWave(t: Float64Array, v: Float64Array, from: number): WaveRe
   const amp = (h: number) => Math.hypot(re[h] as number, im[h] as number);
   let harmonics = 0;
   for (let h = 2; h <= k; h++) harmonics += amp(h) ** 2;
-  return { periodic: true, frequency: f, vpp: wMax - wMin, max: wMax, min: wMin, mean: area / span, duty: above / span, high: median(hi), low: median(lo), thd: Math.sqrt(harmonics) / amp(1) };
+  return {
+    periodic: true,
+    frequency: f,
+    vpp: wMax - wMin,
+    max: wMax,
+    min: wMin,
+    mean: area / span,
+    duty: above / span,
+    high: median(hi),
+    low: median(lo),
+    thd: Math.sqrt(harmonics) / amp(1),
+  };
 }
 
 /** Round to the digits a bench display shows (four significant). */

@@ -71,12 +71,19 @@ export function planDeck(plan: Plan, options: DeckOptions = {}): string {
         const pot = options.pot ?? (settings['pot'] as number);
         lines.push(`x${id}c ${id}_np 0 ${id}_cmp ${op}`, `R${id}1 ${tri} ${id}_np ${v('R1')}`, `R${id}2 ${sq} ${id}_np ${v('R2')}`);
         lines.push(has('Rz') ? `R${id}z ${id}_cmp ${sq} ${v('Rz')}` : `V${id}link ${id}_cmp ${sq} DC 0`);
-        lines.push(`R${id}t ${sq} ${id}_ni ${v('Rt') + (has('RV') ? v('RV') * pot : 0)}`, `C${id}t ${id}_ni ${tri} ${v('Ct')} IC=0.5`, `x${id}i 0 ${id}_ni ${tri} ${op}`);
+        lines.push(
+          `R${id}t ${sq} ${id}_ni ${v('Rt') + (has('RV') ? v('RV') * pot : 0)}`,
+          `C${id}t ${id}_ni ${tri} ${v('Ct')} IC=0.5`,
+          `x${id}i 0 ${id}_ni ${tri} ${op}`,
+        );
         if (has('clamp.vz')) {
           const isOf = (drop: number): string => (5e-3 / Math.exp(drop / kT)).toExponential(6);
           // dza in breakdown at the high level (vz, vf); dzb its partner (vz2, vf2).
           lines.push(`D${id}z1 ${sq} ${id}_zm dzb_${id}`, `D${id}z2 0 ${id}_zm dza_${id}`);
-          lines.push(`.model dza_${id} D (IS=${isOf(v('clamp.vf'))} N=1 BV=${v('clamp.vz')} IBV=5m)`, `.model dzb_${id} D (IS=${isOf(v('clamp.vf2'))} N=1 BV=${v('clamp.vz2')} IBV=5m)`);
+          lines.push(
+            `.model dza_${id} D (IS=${isOf(v('clamp.vf'))} N=1 BV=${v('clamp.vz')} IBV=5m)`,
+            `.model dzb_${id} D (IS=${isOf(v('clamp.vf2'))} N=1 BV=${v('clamp.vz2')} IBV=5m)`,
+          );
         }
         break;
       }
@@ -98,10 +105,20 @@ export function planDeck(plan: Plan, options: DeckOptions = {}): string {
         break;
       }
       case 'inverting-amp':
-        lines.push(opampSubcktFor(op, stage.opamp, { pos, neg }), `R${id}in ${input} ${id}_m ${v('Rin')}`, `R${id}f ${out('out')} ${id}_m ${v('Rf')}`, `x${id} 0 ${id}_m ${out('out')} ${op}`);
+        lines.push(
+          opampSubcktFor(op, stage.opamp, { pos, neg }),
+          `R${id}in ${input} ${id}_m ${v('Rin')}`,
+          `R${id}f ${out('out')} ${id}_m ${v('Rf')}`,
+          `x${id} 0 ${id}_m ${out('out')} ${op}`,
+        );
         break;
       case 'noninverting-amp':
-        lines.push(opampSubcktFor(op, stage.opamp, { pos, neg }), `R${id}g ${id}_m 0 ${v('Rg')}`, `R${id}f ${out('out')} ${id}_m ${v('Rf')}`, `x${id} ${input} ${id}_m ${out('out')} ${op}`);
+        lines.push(
+          opampSubcktFor(op, stage.opamp, { pos, neg }),
+          `R${id}g ${id}_m 0 ${v('Rg')}`,
+          `R${id}f ${out('out')} ${id}_m ${v('Rf')}`,
+          `x${id} ${input} ${id}_m ${out('out')} ${op}`,
+        );
         break;
       case 'rc-lowpass':
         lines.push(`R${id} ${input} ${out('out')} ${v('R')}`, `C${id} ${out('out')} 0 ${v('C')}`);

@@ -46,7 +46,8 @@ const d1n4148 = '.model d1n4148 D (IS=2.52n N=1.752 RS=0.568)';
 const vt = 0.025852;
 
 export function boardDeck(plan: Plan, fault: PlantedFault = {}): BoardDeck {
-  const value = (stage: string, role: string): number => fault.values?.[`${stage}.${role}`] ?? plan.stages.find((s) => s.id === stage)?.parts[role]?.nominal ?? Number.NaN;
+  const value = (stage: string, role: string): number =>
+    fault.values?.[`${stage}.${role}`] ?? plan.stages.find((s) => s.id === stage)?.parts[role]?.nominal ?? Number.NaN;
   const rails: Record<string, number> = {};
   const lines: string[] = [d1n4148];
   plan.rails.forEach((r, i) => {
@@ -68,7 +69,10 @@ export function boardDeck(plan: Plan, fault: PlantedFault = {}): BoardDeck {
   let opamps = 0;
   const opamp = (s: PlanStage, inp: string, inn: string, out: string): string[] => {
     const name = `oa${opamps++}`;
-    return [opampSubckt(name, { gbw: s.opamp.gbw, slew: s.opamp.slew, aol: s.opamp.aol, vhigh: pos - s.opamp.headroom, vlow: neg + s.opamp.headroom }), `x${name} ${inp} ${inn} ${out} ${name}`];
+    return [
+      opampSubckt(name, { gbw: s.opamp.gbw, slew: s.opamp.slew, aol: s.opamp.aol, vhigh: pos - s.opamp.headroom, vlow: neg + s.opamp.headroom }),
+      `x${name} ${inp} ${inn} ${out} ${name}`,
+    ];
   };
   for (const s of plan.stages) {
     const id = s.id;
@@ -162,8 +166,10 @@ export function boardDeck(plan: Plan, fault: PlantedFault = {}): BoardDeck {
       const isq = (2e-3 / Math.exp(vd / vt)).toExponential(6);
       lines.push(`.model qn_${id} NPN (IS=${isq} BF=100)`, `.model qp_${id} PNP (IS=${isq} BF=100)`);
       lines.push(`rbu_${id} ${posNode} ${bu} 10k`, `rbd_${id} ${bd} ${negNode} 10k`);
-      if (!is(s, 'bias[0]', 'missing') && !is(s, 'bias[0]', 'open')) lines.push(is(s, 'bias[0]', 'short') ? `rdu_${id} ${bu} ${input} 1e-3` : `ddu_${id} ${bu} ${input} d1n4148`);
-      if (!is(s, 'bias[1]', 'missing') && !is(s, 'bias[1]', 'open')) lines.push(is(s, 'bias[1]', 'short') ? `rdd_${id} ${input} ${bd} 1e-3` : `ddd_${id} ${input} ${bd} d1n4148`);
+      if (!is(s, 'bias[0]', 'missing') && !is(s, 'bias[0]', 'open'))
+        lines.push(is(s, 'bias[0]', 'short') ? `rdu_${id} ${bu} ${input} 1e-3` : `ddu_${id} ${bu} ${input} d1n4148`);
+      if (!is(s, 'bias[1]', 'missing') && !is(s, 'bias[1]', 'open'))
+        lines.push(is(s, 'bias[1]', 'short') ? `rdd_${id} ${input} ${bd} 1e-3` : `ddd_${id} ${input} ${bd} d1n4148`);
       if (!is(s, 'Q[0]', 'open')) lines.push(`qn_${id} ${posNode} ${bu} ${out} qn_${id}`);
       if (!is(s, 'Q[1]', 'open')) lines.push(`qp_${id} ${negNode} ${bd} ${out} qp_${id}`);
       lines.push(s.parts['Rload'] ? resistor(s, 'Rload', out, '0') : `r_${id}_leak ${out} 0 1e9`);

@@ -12,7 +12,14 @@ import { opampSubcktFor } from './spice-opamp.js';
  * ten whole periods, resampled at 4096 points between crossings and
  * transformed by a direct DFT written here (nothing from src/).
  */
-export function spiceWien(parts: Record<string, number>, op: OpampModel, supplies: Supplies, diode = { is: 2.52e-9, n: 1.752, rs: 0.568 }, periods = 150, keep = 20): { vpp: number; freq: number; thd: number } {
+export function spiceWien(
+  parts: Record<string, number>,
+  op: OpampModel,
+  supplies: Supplies,
+  diode = { is: 2.52e-9, n: 1.752, rs: 0.568 },
+  periods = 150,
+  keep = 20,
+): { vpp: number; freq: number; thd: number } {
   const f0 = 1 / (2 * Math.PI * Math.sqrt((parts['R1'] as number) * (parts['R2'] as number) * (parts['C1'] as number) * (parts['C2'] as number)));
   const T = 1 / f0;
   const hasRf2 = parts['Rf2'] !== undefined;
@@ -23,7 +30,9 @@ export function spiceWien(parts: Record<string, number>, op: OpampModel, supplie
     `R2 p 0 ${parts['R2']}`,
     `C2 p 0 ${parts['C2']}`,
     `Rg n 0 ${parts['Rg']}`,
-    hasRf2 ? `Rf1 out m ${parts['Rf1']}\nRf2 m n ${parts['Rf2']}\nD1 m n dlim\nD2 n m dlim\n.model dlim D(IS=${diode.is} N=${diode.n} RS=${diode.rs})` : `Rf1 out n ${parts['Rf1']}`,
+    hasRf2
+      ? `Rf1 out m ${parts['Rf1']}\nRf2 m n ${parts['Rf2']}\nD1 m n dlim\nD2 n m dlim\n.model dlim D(IS=${diode.is} N=${diode.n} RS=${diode.rs})`
+      : `Rf1 out n ${parts['Rf1']}`,
     'X1 p n out opa',
     '.ic v(p)=0.01',
     '.options reltol=1e-6 abstol=1e-12 vntol=1e-9',

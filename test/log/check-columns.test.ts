@@ -19,12 +19,29 @@ const maps: [string, CheckMap][] = [
   [
     'CC-001',
     {
-      'osc.freq': { first: { value: 1002.5, verdict: 'pass', at: '2026-11-02T09:00:00.000Z' }, latest: { value: 1002.5, verdict: 'pass', at: '2026-11-02T09:00:00.000Z' }, count: 1 },
-      'amp.out.vpp': { first: { value: Infinity, verdict: 'fail', at: '2026-11-02T09:01:00Z' }, latest: { value: 7.25, verdict: 'marginal', at: '2026-11-02T09:05:00+01:00' }, count: 3 },
+      'osc.freq': {
+        first: { value: 1002.5, verdict: 'pass', at: '2026-11-02T09:00:00.000Z' },
+        latest: { value: 1002.5, verdict: 'pass', at: '2026-11-02T09:00:00.000Z' },
+        count: 1,
+      },
+      'amp.out.vpp': {
+        first: { value: Infinity, verdict: 'fail', at: '2026-11-02T09:01:00Z' },
+        latest: { value: 7.25, verdict: 'marginal', at: '2026-11-02T09:05:00+01:00' },
+        count: 3,
+      },
     },
   ],
   ['CC-002', {}],
-  ['CC-003', { 'osc.freq': { first: { value: -0, verdict: 'marginal', at: '2026-11-03T10:00:00.000Z' }, latest: { value: 998, verdict: 'pass', at: '2026-11-03T10:02:00.000Z' }, count: 2 } }],
+  [
+    'CC-003',
+    {
+      'osc.freq': {
+        first: { value: -0, verdict: 'marginal', at: '2026-11-03T10:00:00.000Z' },
+        latest: { value: 998, verdict: 'pass', at: '2026-11-03T10:02:00.000Z' },
+        count: 2,
+      },
+    },
+  ],
 ];
 
 describe('per-check columns file', () => {
@@ -50,10 +67,17 @@ describe('per-check columns file', () => {
     const point = fc.record({
       value: fc.double(),
       verdict: fc.constantFrom('pass' as const, 'marginal' as const, 'fail' as const),
-      at: fc.oneof(fc.date({ min: new Date(0), max: new Date(Date.UTC(9999, 0)), noInvalidDate: true }).map((d) => d.toISOString()), fc.string()),
+      at: fc.oneof(
+        fc.date({ min: new Date(0), max: new Date(Date.UTC(9999, 0)), noInvalidDate: true }).map((d) => d.toISOString()),
+        fc.string(),
+      ),
     });
     const summary = fc.record({ first: point, latest: point, count: fc.integer({ min: 1, max: 2 ** 32 - 1 }) });
-    const board = fc.dictionary(fc.string({ minLength: 1 }).filter((k) => k !== '__proto__'), summary, { maxKeys: 6 });
+    const board = fc.dictionary(
+      fc.string({ minLength: 1 }).filter((k) => k !== '__proto__'),
+      summary,
+      { maxKeys: 6 },
+    );
     fc.assert(
       fc.property(fc.uniqueArray(fc.tuple(fc.string({ minLength: 1 }), board), { selector: (t) => t[0], maxLength: 6 }), (boards) => {
         const columns = decodeCheckColumns(encodeCheckColumns(boards));
@@ -107,7 +131,11 @@ describe('per-check columns file', () => {
     // generation for readers still holding the old snapshot, as with every compaction).
     const after = JSON.parse(readFileSync(join(dir, 'index.json'), 'utf8')) as { checksFile: string };
     expect(after.checksFile).not.toBe(snapshot.checksFile);
-    expect(readdirSync(dir).filter((n) => n.startsWith('index-checks.')).sort()).toEqual([after.checksFile, snapshot.checksFile].sort());
+    expect(
+      readdirSync(dir)
+        .filter((n) => n.startsWith('index-checks.'))
+        .sort(),
+    ).toEqual([after.checksFile, snapshot.checksFile].sort());
     expect(decodeCheckColumns(readFileSync(join(dir, after.checksFile)))?.checksOf('CD-2')).toEqual(index.boards['CD-2']?.checks);
     expect(index.checkColumns?.rowsOf('CD-1')).toBeGreaterThanOrEqual(0);
   });

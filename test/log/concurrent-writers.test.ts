@@ -58,7 +58,9 @@ describe('concurrent writers on one board', () => {
     const planHash = createHash('sha256').update(planText).digest('hex');
     const run = await log.startRun('CONC-02', { plan: 'in-process', planHash, planText, operator: 'ann' });
     await Promise.all(
-      Array.from({ length: 101 }, (_, i) => log.appendReading('CONC-02', { run: run.id, check: `p.n${i}`, value: i, unit: 'V', raw: String(i), operator: 'ann', verdict: 'pass', planHash })),
+      Array.from({ length: 101 }, (_, i) =>
+        log.appendReading('CONC-02', { run: run.id, check: `p.n${i}`, value: i, unit: 'V', raw: String(i), operator: 'ann', verdict: 'pass', planHash }),
+      ),
     );
     const board = await log.readBoard('CONC-02');
     expect(new Set(board?.readings.map((r) => r.check)).size).toBe(101);

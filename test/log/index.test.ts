@@ -111,7 +111,10 @@ describe('the index', () => {
     for (let i = 0; i < 5; i++) await log.appendReading('IX-002', reading(run, `d${i}.dc`, i));
     expect(readFileSync(snapshot, 'utf8')).toBe(text);
     expect(statSync(snapshot).mtimeMs).toBe(stamp);
-    const written = readFileSync(join(log.dir, 'index.journal'), 'utf8').trim().split('\n').map((l) => JSON.parse(l));
+    const written = readFileSync(join(log.dir, 'index.journal'), 'utf8')
+      .trim()
+      .split('\n')
+      .map((l) => JSON.parse(l));
     expect(written.filter((l) => 'intent' in l)).toHaveLength(5);
     expect(written.filter((l) => 'stamp' in l)).toHaveLength(5);
     const other = await openLog(log.dir);
@@ -183,4 +186,3 @@ describe('the index', () => {
     expect(after).toEqual(before);
   });
 });
-

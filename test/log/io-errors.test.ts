@@ -13,11 +13,28 @@ const t = tempDir('io-errors');
 afterAll(() => t.remove());
 const bin = fileURLToPath(new URL('../../src/cli/bin.ts', import.meta.url));
 const root = fileURLToPath(new URL('../..', import.meta.url));
-const record = (log: string, board: string, value = '3.28') => ['record', '--plan', biasPlan, '--board', board, '--check', 'ref.out.dc', '--value', value, '--log', log];
+const record = (log: string, board: string, value = '3.28') => [
+  'record',
+  '--plan',
+  biasPlan,
+  '--board',
+  board,
+  '--check',
+  'ref.out.dc',
+  '--value',
+  value,
+  '--log',
+  log,
+];
 
 /** The real command in a child process, killed after 30 s (a hang fails the test, it does not stall the run). */
 function run(argv: readonly string[]) {
-  const r = spawnSync(process.execPath, ['--import', 'tsx', bin, ...argv], { encoding: 'utf8', timeout: 30_000, cwd: root, env: { PATH: process.env.PATH ?? '', HOME: t.dir, PROBEBOOK_OPERATOR: 'tess' } });
+  const r = spawnSync(process.execPath, ['--import', 'tsx', bin, ...argv], {
+    encoding: 'utf8',
+    timeout: 30_000,
+    cwd: root,
+    env: { PATH: process.env.PATH ?? '', HOME: t.dir, PROBEBOOK_OPERATOR: 'tess' },
+  });
   return { status: r.status, stderr: r.stderr, signal: r.signal };
 }
 
@@ -67,7 +84,11 @@ describe('a full disk and a read-only disk (item 15)', () => {
       `${tsx} history F-1 --log ${mount}/log --json | grep -o '"value":[0-9.]*' | sed 's/^/saved /'`,
     ].join('\n');
     const asRoot = process.getuid?.() === 0;
-    const r = spawnSync('unshare', [asRoot ? '-m' : '-rm', 'sh', '-c', script], { encoding: 'utf8', timeout: 120_000, env: { PATH: process.env.PATH ?? '', HOME: t.dir, PROBEBOOK_OPERATOR: 'tess' } });
+    const r = spawnSync('unshare', [asRoot ? '-m' : '-rm', 'sh', '-c', script], {
+      encoding: 'utf8',
+      timeout: 120_000,
+      env: { PATH: process.env.PATH ?? '', HOME: t.dir, PROBEBOOK_OPERATOR: 'tess' },
+    });
     const out = `${r.stdout}${r.stderr}`;
     expect(r.status, out).toBe(0);
     const lines = out.trim().split('\n');
@@ -88,7 +109,12 @@ describe('a board locked by another host (item 18)', () => {
     const lock = join(log, 'locks', 'B-1.json.lock');
     writeFileSync(lock, JSON.stringify({ pid: 4242, host: 'bench-far-away', nonce: 'feedfeedfeedfeed', at: '2026-12-03T08:00:00.000Z' }));
     let stderr = '';
-    const io = { stdout: () => {}, stderr: (text: string) => (stderr += text), env: { PATH: process.env.PATH ?? '', PROBEBOOK_OPERATOR: 'tess' }, cwd: process.cwd() };
+    const io = {
+      stdout: () => {},
+      stderr: (text: string) => (stderr += text),
+      env: { PATH: process.env.PATH ?? '', PROBEBOOK_OPERATOR: 'tess' },
+      cwd: process.cwd(),
+    };
     const { main } = await import('../../src/cli/main.js');
     const pending = main(record(log, 'B-1'), io);
     const t0 = Date.now();

@@ -29,18 +29,21 @@ describe('validateSerial', () => {
 
   test('property: never throws; every rejection is one line; every acceptance is a safe file name', () => {
     fc.assert(
-      fc.property(fc.oneof(fc.string({ maxLength: 80 }), fc.string({ unit: 'binary', maxLength: 80 }), fc.stringMatching(/^[A-Za-z0-9._\-/\\]{0,70}$/)), (text) => {
-        const message = validateSerial(text);
-        if (message === null) {
-          expect(text).toMatch(/^[A-Za-z0-9_][A-Za-z0-9._-]*$/);
-          expect(text.length).toBeLessThanOrEqual(maxSerialLength);
-          expect(text).not.toContain('..');
-          expect(text.endsWith('.')).toBe(false);
-        } else {
-          expect(message.length).toBeGreaterThan(0);
-          expect(message).not.toMatch(/[\n\r]/);
-        }
-      }),
+      fc.property(
+        fc.oneof(fc.string({ maxLength: 80 }), fc.string({ unit: 'binary', maxLength: 80 }), fc.stringMatching(/^[A-Za-z0-9._\-/\\]{0,70}$/)),
+        (text) => {
+          const message = validateSerial(text);
+          if (message === null) {
+            expect(text).toMatch(/^[A-Za-z0-9_][A-Za-z0-9._-]*$/);
+            expect(text.length).toBeLessThanOrEqual(maxSerialLength);
+            expect(text).not.toContain('..');
+            expect(text.endsWith('.')).toBe(false);
+          } else {
+            expect(message.length).toBeGreaterThan(0);
+            expect(message).not.toMatch(/[\n\r]/);
+          }
+        },
+      ),
       { numRuns: 2000, seed: 4242 },
     );
   });

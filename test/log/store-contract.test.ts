@@ -53,7 +53,10 @@ describe.each(kinds)('the $name store', (kind) => {
     const run = await log.startRun('SN-001', runStart);
     expect(run).toMatchObject({ ended: null, outcome: 'in-progress', operator: 'ann', plan: 'store-test', planHash });
     const saved = await log.appendReading('SN-001', reading(run.id, 'rails.+12V.dc', 11.93, { raw: '11,93', warnings: ['a note'] }));
-    const ol = await log.appendReading('SN-001', reading(run.id, 'rails.+12V.to-ground', Infinity, { unit: 'Ω', raw: 'OL', instrument: { name: 'dmm', identity: 'Invented,1,2,3' } }));
+    const ol = await log.appendReading(
+      'SN-001',
+      reading(run.id, 'rails.+12V.to-ground', Infinity, { unit: 'Ω', raw: 'OL', instrument: { name: 'dmm', identity: 'Invented,1,2,3' } }),
+    );
     const other = await open(where);
     const board = await other.readBoard('SN-001');
     expect(board?.readings).toEqual([saved, ol]);
@@ -92,7 +95,9 @@ describe.each(kinds)('the $name store', (kind) => {
     expect(board?.rework).toEqual([note]);
     expect(board?.captures).toHaveLength(1);
     expect(Array.from((await log.readCapture(file)) ?? [])).toEqual(Array.from(bytes));
-    await expect(log.linkCapture('B-2', { file: `${'0'.repeat(64)}.csv`, name: 'x', at: '2026-12-01T10:00:00.000Z', check: null, run: null })).rejects.toThrow(/not in the log/);
+    await expect(log.linkCapture('B-2', { file: `${'0'.repeat(64)}.csv`, name: 'x', at: '2026-12-01T10:00:00.000Z', check: null, run: null })).rejects.toThrow(
+      /not in the log/,
+    );
   });
 
   test('the index: state, counts and the first and latest reading of each check', async () => {

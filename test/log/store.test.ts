@@ -45,7 +45,16 @@ describe('runs, readings and rework', () => {
     const other = await openLog(dir);
     const board = await other.readBoard('SN-001');
     expect(board?.readings).toEqual([saved]);
-    expect(board?.readings[0]).toMatchObject({ run: run.id, check: 'rails.+12V.dc', value: 11.93, unit: 'V', raw: '11,93', operator: 'ann', verdict: 'pass', planHash });
+    expect(board?.readings[0]).toMatchObject({
+      run: run.id,
+      check: 'rails.+12V.dc',
+      value: 11.93,
+      unit: 'V',
+      raw: '11,93',
+      operator: 'ann',
+      verdict: 'pass',
+      planHash,
+    });
     expect(board?.plan).toBe('store-test');
   });
 

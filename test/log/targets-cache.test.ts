@@ -43,7 +43,12 @@ describe('the targets cache (src/log/targets-cache.ts)', () => {
     const again = second.cache.forPlan(t.plan, settings);
     expect(second.compute).not.toHaveBeenCalled();
     expect(second.notices).toEqual([]);
-    expect(again).toEqual(JSON.parse(JSON.stringify(set, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? String(v) : v)), (_k, v) => (v === 'Infinity' ? Infinity : v === '-Infinity' ? -Infinity : v === 'NaN' ? Number.NaN : v)));
+    expect(again).toEqual(
+      JSON.parse(
+        JSON.stringify(set, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? String(v) : v)),
+        (_k, v) => (v === 'Infinity' ? Infinity : v === '-Infinity' ? -Infinity : v === 'NaN' ? Number.NaN : v),
+      ),
+    );
     expect(again.targets.find((x) => x.check === 'rails.+9V.to-ground')?.worst.max).toBe(Infinity);
     expect(again.targets.find((x) => x.check === 'osc.freq')?.worst).toEqual(set.targets.find((x) => x.check === 'osc.freq')?.worst);
     // The full target (phase, contributors, upstream) survives: `record` needs it for the next check.
@@ -137,19 +142,34 @@ describe('the targets cache (src/log/targets-cache.ts)', () => {
   test('safe under concurrent writers: 6 processes writing the same 25 keys leave only whole entries', async () => {
     const dir = tempDir('cache');
     const out = join(tempDir('child'), 'targets-cache-child.mjs');
-    buildSync({ entryPoints: [fileURLToPath(new URL('./fixtures/targets-cache-child.ts', import.meta.url))], bundle: true, platform: 'node', format: 'esm', target: 'node20', outfile: out, logLevel: 'error' });
-    const runs = Array.from({ length: 6 }, (_, i) =>
-      new Promise<{ code: number | null; stderr: string }>((resolve) => {
-        const child = spawn(process.execPath, [out, dir, `w${i}`, '25'], { stdio: ['ignore', 'ignore', 'pipe'] });
-        let stderr = '';
-        child.stderr.on('data', (d) => (stderr += d));
-        child.on('exit', (code) => resolve({ code, stderr }));
-      }),
+    buildSync({
+      entryPoints: [fileURLToPath(new URL('./fixtures/targets-cache-child.ts', import.meta.url))],
+      bundle: true,
+      platform: 'node',
+      format: 'esm',
+      target: 'node20',
+      outfile: out,
+      logLevel: 'error',
+    });
+    const runs = Array.from(
+      { length: 6 },
+      (_, i) =>
+        new Promise<{ code: number | null; stderr: string }>((resolve) => {
+          const child = spawn(process.execPath, [out, dir, `w${i}`, '25'], { stdio: ['ignore', 'ignore', 'pipe'] });
+          let stderr = '';
+          child.stderr.on('data', (d) => (stderr += d));
+          child.on('exit', (code) => resolve({ code, stderr }));
+        }),
     );
     for (const r of await Promise.all(runs)) expect(r).toEqual({ code: 0, stderr: '' });
     expect(cacheFiles(dir)).toHaveLength(25);
     expect(readdirSync(dir).filter((n) => n.endsWith('.tmp'))).toEqual([]);
-    const reader = new TargetsCache({ dir, build: 'concurrency', compute: () => ({ plan: 'recomputed', targets: [], warnings: [] }), onNotice: (m) => expect.fail(m) });
+    const reader = new TargetsCache({
+      dir,
+      build: 'concurrency',
+      compute: () => ({ plan: 'recomputed', targets: [], warnings: [] }),
+      onNotice: (m) => expect.fail(m),
+    });
     for (let seed = 0; seed < 25; seed++) {
       const set = reader.peek(reader.keyOf({ hash: 'a'.repeat(64) }, { trials: 100, seed }));
       expect(set?.plan).toMatch(/^writer-w\d$/);
@@ -200,7 +220,7 @@ describe('the build id and the folders', () => {
     expect(hashTree(root, ['src', 'data'])).not.toBe(before);
   });
 
-  test('bundled without a stamp and away from the sources: the running file\'s hash, else a fresh id', () => {
+  test("bundled without a stamp and away from the sources: the running file's hash, else a fresh id", () => {
     const dir = tempDir('bundle');
     const file = join(dir, 'chunk.js');
     writeFileSync(file, 'export const model = 1;\n');

@@ -16,7 +16,10 @@ function plan(extra: Record<string, unknown> = {}, stageOpamp?: Record<string, u
   return JSON.stringify({
     plan: 'spread-test',
     title: 'spread test (invented values)',
-    rails: [{ id: '+12V', nominal: '12 V', tol: '2%' }, { id: '-12V', nominal: '-12 V', tol: '2%' }],
+    rails: [
+      { id: '+12V', nominal: '12 V', tol: '2%' },
+      { id: '-12V', nominal: '-12 V', tol: '2%' },
+    ],
     ...extra,
     stages: [
       { id: 'in', kind: 'signal-in', shape: 'sine', peak: '1 V', frequency: '1 kHz' },
@@ -99,7 +102,9 @@ describe('temperature range', () => {
 
   test('widens the shaper band (the diode drop moves about −2 mV/K, common practice)', () => {
     const cold = computeTargets(loadPlanText(plan(), 'a.plan.json'), { trials: 200 }).targets.find((x) => x.check === 'shaper.out.vpp');
-    const warm = computeTargets(loadPlanText(plan({ temperature: { min: '0 °C', max: '70 °C' } }), 'b.plan.json'), { trials: 200 }).targets.find((x) => x.check === 'shaper.out.vpp');
+    const warm = computeTargets(loadPlanText(plan({ temperature: { min: '0 °C', max: '70 °C' } }), 'b.plan.json'), { trials: 200 }).targets.find(
+      (x) => x.check === 'shaper.out.vpp',
+    );
     expect((warm?.worst.max ?? 0) - (warm?.worst.min ?? 0)).toBeGreaterThan((cold?.worst.max ?? 0) - (cold?.worst.min ?? 0));
   });
 

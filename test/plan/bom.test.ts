@@ -111,7 +111,16 @@ describe('probebook plan bom and plan check', () => {
     plan: 'bom-fixture',
     title: 'Invented divider board for the BOM tests',
     rails: [{ id: '+10V', nominal: '10 V', tol: '2%' }],
-    stages: [{ id: 'ref', kind: 'divider', from: '+10V', parts: { Rtop: '6k8 1%', Rbottom: '3k3 1%' }, refs: { Rtop: 'R1', Rbottom: 'R2' }, unknownKey: { kept: true } }],
+    stages: [
+      {
+        id: 'ref',
+        kind: 'divider',
+        from: '+10V',
+        parts: { Rtop: '6k8 1%', Rbottom: '3k3 1%' },
+        refs: { Rtop: 'R1', Rbottom: 'R2' },
+        unknownKey: { kept: true },
+      },
+    ],
   };
   test('differences, one-sided refs, --write keeps the tolerance and every unknown key, backup kept', async () => {
     const planFile = join(dir, 'a.plan.json');

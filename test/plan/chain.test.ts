@@ -32,7 +32,13 @@ function supplies(rails: { id: string; nominal: string }[]) {
 
 describe('buildChain', () => {
   test('op-amp supplies: the most positive and the most negative rail; ground when a side has none', () => {
-    expect(supplies([{ id: '+5V', nominal: '5 V' }, { id: '+15V', nominal: '15 V' }, { id: '-5V', nominal: '-5 V' }])).toEqual([15, -5]);
+    expect(
+      supplies([
+        { id: '+5V', nominal: '5 V' },
+        { id: '+15V', nominal: '15 V' },
+        { id: '-5V', nominal: '-5 V' },
+      ]),
+    ).toEqual([15, -5]);
     expect(supplies([{ id: '+9V', nominal: '9 V' }])).toEqual([9, 0]);
     expect(supplies([{ id: '-12V', nominal: '-12 V' }])).toEqual([0, -12]);
   });
@@ -103,7 +109,15 @@ describe('buildChain', () => {
     };
     const k = { ...fakeKinds, src: source as StageKind<unknown>, taker: taker as StageKind<unknown> };
     const plan = loadPlanText(
-      JSON.stringify({ plan: 'p', title: 't', rails: [{ id: '+12V', nominal: '12 V 5%' }], stages: [{ id: 's', kind: 'src' }, { id: 't', kind: 'taker', input: 's.out' }] }),
+      JSON.stringify({
+        plan: 'p',
+        title: 't',
+        rails: [{ id: '+12V', nominal: '12 V 5%' }],
+        stages: [
+          { id: 's', kind: 'src' },
+          { id: 't', kind: 'taker', input: 's.out' },
+        ],
+      }),
       'p.plan.json',
       k,
     );

@@ -153,7 +153,9 @@ function compare(plan: Plan, targets: readonly Target[], spice: Figures): string
     // The ngspice value inside the worst-case band (a hair of numerical slack for a band that is a point).
     const slack = 1e-9 + 1e-6 * Math.abs(value);
     const inside = value >= t.worst.min - slack && value <= t.worst.max + slack;
-    rows.push(`${check.padEnd(20)} model ${t.nominal.toPrecision(5).padStart(11)}  ngspice ${value.toPrecision(5).padStart(11)}  band ${t.worst.min.toPrecision(4)} … ${t.worst.max.toPrecision(4)}${ok ? '' : '  OFF'}${inside ? '' : '  OUTSIDE'}`);
+    rows.push(
+      `${check.padEnd(20)} model ${t.nominal.toPrecision(5).padStart(11)}  ngspice ${value.toPrecision(5).padStart(11)}  band ${t.worst.min.toPrecision(4)} … ${t.worst.max.toPrecision(4)}${ok ? '' : '  OFF'}${inside ? '' : '  OUTSIDE'}`,
+    );
     if (!ok) problems.push(`${check}: model ${t.nominal} against ngspice ${value}`);
     if (!inside) problems.push(`${check}: ngspice ${value} outside the worst-case band ${t.worst.min} … ${t.worst.max}`);
   }
@@ -177,7 +179,10 @@ describe('demo boards as full-chain ngspice decks, nominal parts', () => {
       spice[`${s}.out.vpp`] = e.hi - e.lo;
       if (s === 'out') spice['out.out.ipeak'] = Math.max(e.hi, -e.lo) / 600;
     }
-    const ib = Math.max(extremesIn(t, tab['i(voutsbn)'] ?? (tab['i(Voutsbn)'] as Float64Array), t0, t1).hi, extremesIn(t, tab['i(voutsbp)'] ?? (tab['i(Voutsbp)'] as Float64Array), t0, t1).hi);
+    const ib = Math.max(
+      extremesIn(t, tab['i(voutsbn)'] ?? (tab['i(Voutsbn)'] as Float64Array), t0, t1).hi,
+      extremesIn(t, tab['i(voutsbp)'] ?? (tab['i(Voutsbp)'] as Float64Array), t0, t1).hi,
+    );
     spice['out.base.ipeak'] = ib;
     const filt = acFrom(plan, 'filt', node('filt', 'out'));
     spice['filt.fc'] = filt.fc;
@@ -190,7 +195,8 @@ describe('demo boards as full-chain ngspice decks, nominal parts', () => {
     const x = dead['v-sweep'] as Float64Array;
     const y = dead[`v(${node('out', 'out')})`] as Float64Array;
     let width = 0;
-    for (let i = 1; i < x.length; i++) if (((y[i] as number) - (y[i - 1] as number)) / ((x[i] as number) - (x[i - 1] as number)) < 0.5) width += (x[i] as number) - (x[i - 1] as number);
+    for (let i = 1; i < x.length; i++)
+      if (((y[i] as number) - (y[i - 1] as number)) / ((x[i] as number) - (x[i - 1] as number)) < 0.5) width += (x[i] as number) - (x[i - 1] as number);
     spice['out.deadband'] = width;
     expect(compare(plan, targets, spice)).toEqual([]);
   });
@@ -204,7 +210,12 @@ describe('demo boards as full-chain ngspice decks, nominal parts', () => {
     const osc = (pot: number | undefined, freq: number, withChain: boolean): { tab: SpiceTable; t0: number; t1: number; cross: Crossings } => {
       const period = 1 / freq;
       const vectors = withChain
-        ? ['osc_square', 'osc_triangle'].map((n) => `v(${node('osc', n.slice(4))})`).concat(['shaper', 'gain', 'filt', 'drive'].map((s) => `v(${node(s, 'out')})`), ['i(Vdrivesbn)', 'i(Vdrivesbp)'])
+        ? ['osc_square', 'osc_triangle']
+            .map((n) => `v(${node('osc', n.slice(4))})`)
+            .concat(
+              ['shaper', 'gain', 'filt', 'drive'].map((s) => `v(${node(s, 'out')})`),
+              ['i(Vdrivesbn)', 'i(Vdrivesbp)'],
+            )
         : [`v(${node('osc', 'square')})`, `v(${node('osc', 'triangle')})`];
       // Steps short against the comparator's edges (about 2.6 µs at 8 V/µs).
       const tab = transient(plan, period, 9, Math.min(period / 5000, 1e-7), vectors, pot);
@@ -235,8 +246,14 @@ describe('demo boards as full-chain ngspice decks, nominal parts', () => {
       if (s === 'drive') spice['drive.out.ipeak'] = Math.max(e.hi, -e.lo) / 330;
     }
     spice['shaper.out.thd'] = thdOf(resample(t, main.tab[`v(${node('shaper', 'out')})`] as Float64Array, t0, t1, 3 * 1024), 3);
-    spice['drive.base.ipeak'] = Math.max(extremesIn(t, main.tab['i(vdrivesbn)'] ?? (main.tab['i(Vdrivesbn)'] as Float64Array), t0, t1).hi, extremesIn(t, main.tab['i(vdrivesbp)'] ?? (main.tab['i(Vdrivesbp)'] as Float64Array), t0, t1).hi);
-    for (const [check, pot] of [['osc.freq.min', 1], ['osc.freq.max', 0]] as const) {
+    spice['drive.base.ipeak'] = Math.max(
+      extremesIn(t, main.tab['i(vdrivesbn)'] ?? (main.tab['i(Vdrivesbn)'] as Float64Array), t0, t1).hi,
+      extremesIn(t, main.tab['i(vdrivesbp)'] ?? (main.tab['i(Vdrivesbp)'] as Float64Array), t0, t1).hi,
+    );
+    for (const [check, pot] of [
+      ['osc.freq.min', 1],
+      ['osc.freq.max', 0],
+    ] as const) {
       const f = targets.find((x) => x.check === check)?.nominal ?? Number.NaN;
       const r = osc(pot, f, false);
       spice[check] = 3 / (r.t1 - r.t0);

@@ -53,8 +53,13 @@ describe('draft round trip', () => {
     expect(Object.keys(saved).at(-1)).toBe('x-bench');
   });
 
-  test('keys come out in the plan\'s usual order whatever order they were written in', () => {
-    const messy = { stages: [{ parts: { R: '1k 1%', C: '10n 5%' }, testPoints: { out: 'TP2' }, input: 'in.out', kind: 'rc-lowpass', id: 'f' }], rails: [{ tol: '5%', nominal: '5 V', id: '+5V' }], title: 'T', plan: 'p' };
+  test("keys come out in the plan's usual order whatever order they were written in", () => {
+    const messy = {
+      stages: [{ parts: { R: '1k 1%', C: '10n 5%' }, testPoints: { out: 'TP2' }, input: 'in.out', kind: 'rc-lowpass', id: 'f' }],
+      rails: [{ tol: '5%', nominal: '5 V', id: '+5V' }],
+      title: 'T',
+      plan: 'p',
+    };
     const text = serialiseDraft(messy);
     const parsed = JSON.parse(text) as { stages: Record<string, unknown>[]; rails: Record<string, unknown>[] };
     expect(Object.keys(parsed)).toEqual(['plan', 'title', 'rails', 'stages']);
@@ -114,7 +119,7 @@ describe('draft edits', () => {
     d = removeAt(d, 'stages', 0);
     expect(stagesOf(d).map((s) => s['id'])).toEqual(['signal']);
     d = addRail(d);
-    expect((getAt(d, ['rails', 2, 'id']) as string)).toBe('+5V');
+    expect(getAt(d, ['rails', 2, 'id']) as string).toBe('+5V');
     expect(before).not.toBe(d);
     expect(getAt(before, ['rails', 2])).toBeUndefined();
   });
@@ -125,7 +130,7 @@ describe('draft edits', () => {
     expect(pathKeys('stages[0].branches[2].R')).toEqual(['stages', 0, 'branches', 2, 'R']);
   });
 
-  test('the example a kind\'s message gives', () => {
+  test("the example a kind's message gives", () => {
     expect(exampleFrom('missing; write a resistance, e.g. "4k7 1%"')).toBe('4k7 1%');
     expect(exampleFrom('missing; write "sine" or "triangle"')).toBe('sine');
     expect(exampleFrom('missing; write a list, e.g. [{ "a": 1 }]')).toEqual([{ a: 1 }]);

@@ -28,10 +28,19 @@ describe('fixed examples', () => {
   test.each([
     ['invalid JSON 10,000 levels deep', '['.repeat(10_000)],
     ['objects 10,000 levels deep', '{"a":'.repeat(10_000)],
-    ['valid JSON nested deep inside a stage', demo.replace('"stages": [', `"stages": [{"id": "deep", "kind": "manual", "x": ${'['.repeat(5000)}${']'.repeat(5000)}}, `)],
+    [
+      'valid JSON nested deep inside a stage',
+      demo.replace('"stages": [', `"stages": [{"id": "deep", "kind": "manual", "x": ${'['.repeat(5000)}${']'.repeat(5000)}}, `),
+    ],
     ['a title with an escape sequence and 300 characters', JSON.stringify({ ...demoJson, title: `\u001b[2J${'t'.repeat(300)}` })],
     ['a rail id with a newline', JSON.stringify({ ...demoJson, rails: [{ id: '+12V\nforged', nominal: '12 V', tol: '3%' }] })],
-    ['201 stages', JSON.stringify({ ...demoJson, stages: Array.from({ length: 201 }, (_, i) => ({ id: `s${i}`, kind: 'signal-in', shape: 'sine', peak: '1 V', frequency: '1 kHz' })) })],
+    [
+      '201 stages',
+      JSON.stringify({
+        ...demoJson,
+        stages: Array.from({ length: 201 }, (_, i) => ({ id: `s${i}`, kind: 'signal-in', shape: 'sine', peak: '1 V', frequency: '1 kHz' })),
+      }),
+    ],
     ['a part value with a space inside the number', demo.replace('"10k 1%"', '"1 0k 1%"')],
     ['a part value with an ambiguous comma', demo.replace('"10k 1%"', '"10,000 1%"')],
     ['a 130 k space value', demo.replace('"10k 1%"', `"1${' '.repeat(130_000)}0k 1%"`)],

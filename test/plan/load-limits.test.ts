@@ -16,7 +16,8 @@ afterAll(() => t.remove());
 /** An invented chain: a generator into `n - 1` RC low-passes in series. */
 function chainPlan(n: number, extra: Record<string, unknown> = {}): string {
   const stages: unknown[] = [{ id: 'src', kind: 'signal-in', shape: 'sine', peak: '1 V', frequency: '1 kHz' }];
-  for (let i = 0; i < n - 1; i++) stages.push({ id: `f${i}`, kind: 'rc-lowpass', input: i === 0 ? 'src.out' : `f${i - 1}.out`, parts: { R: '1k 1%', C: '10n 5%' } });
+  for (let i = 0; i < n - 1; i++)
+    stages.push({ id: `f${i}`, kind: 'rc-lowpass', input: i === 0 ? 'src.out' : `f${i - 1}.out`, parts: { R: '1k 1%', C: '10n 5%' } });
   return JSON.stringify({ plan: 'gen', title: 'Generated chain (invented)', rails: [{ id: '+12V', nominal: '12 V', tol: '3%' }], stages, ...extra });
 }
 
@@ -37,7 +38,12 @@ describe('nesting (item 10)', () => {
   });
 
   test('valid JSON nested that deep is refused the same way', () => {
-    const e = planError(() => loadPlanText(`{"plan":"x","title":"t","rails":[],"stages":[{"id":"a","kind":"manual","x":${'['.repeat(10_000)}${']'.repeat(10_000)}}]}`, 'deep.plan.json'));
+    const e = planError(() =>
+      loadPlanText(
+        `{"plan":"x","title":"t","rails":[],"stages":[{"id":"a","kind":"manual","x":${'['.repeat(10_000)}${']'.repeat(10_000)}}]}`,
+        'deep.plan.json',
+      ),
+    );
     expect(e.message).toContain('levels deep');
   });
 

@@ -132,8 +132,12 @@ describe('loadPlanText: mistakes name the file, the JSON path and the remedy', (
   });
 
   test('a tolerance of 100 % or more, and a negative one', () => {
-    expect(errorOf(withStage(1, { parts: { R: '10k 100%', C: '100n' } })).message).toContain('stages[1].parts.R: "10k 100%": a tolerance of 100 % or more is impossible');
-    expect(errorOf({ ...fakePlan(), rails: [{ id: '+12V', nominal: '12 V', tol: '-3%' }] }).message).toContain('rails[0].tol: "-3%": a tolerance cannot be negative');
+    expect(errorOf(withStage(1, { parts: { R: '10k 100%', C: '100n' } })).message).toContain(
+      'stages[1].parts.R: "10k 100%": a tolerance of 100 % or more is impossible',
+    );
+    expect(errorOf({ ...fakePlan(), rails: [{ id: '+12V', nominal: '12 V', tol: '-3%' }] }).message).toContain(
+      'rails[0].tol: "-3%": a tolerance cannot be negative',
+    );
   });
 
   test('a stage that needs an input has none', () => {
@@ -177,7 +181,9 @@ describe('loadPlanText: mistakes name the file, the JSON path and the remedy', (
   test('an unknown key inside a nested object lists the keys there', () => {
     const e = errorOf({ ...fakePlan(), uncertainty: { volts: '1%' } });
     expect(e.message).toContain('uncertainty: unknown key "volts" (a typo?); the keys here are V, A, Hz, ohm');
-    expect(errorOf({ ...fakePlan(), rails: [{ id: '+12V', nominal: '12 V', tolerance: '1%' }] }).message).toContain('the keys here are id, nominal, tol, testPoint');
+    expect(errorOf({ ...fakePlan(), rails: [{ id: '+12V', nominal: '12 V', tolerance: '1%' }] }).message).toContain(
+      'the keys here are id, nominal, tol, testPoint',
+    );
   });
 
   test('a per-check uncertainty for a check that does not exist', () => {

@@ -109,7 +109,10 @@ describe('other loaded chains', () => {
     const stages = [
       { id: 'in', kind: 'signal-in', shape: 'triangle', peak: '4 V', frequency: '1 kHz' },
       {
-        id: 'shaper', kind: 'diode-shaper', input: 'in.out', parts: { Rs: '4k7' },
+        id: 'shaper',
+        kind: 'diode-shaper',
+        input: 'in.out',
+        parts: { Rs: '4k7' },
         branches: [
           { diodes: 1, polarity: '+', R: '2k2', bias: '0.5 V' },
           { diodes: 1, polarity: '-', R: '2k2', bias: '-0.5 V' },
@@ -132,7 +135,16 @@ describe('other loaded chains', () => {
     const p = plan([
       { id: 'in', kind: 'signal-in', shape: 'sine', peak: '3 V', frequency: '3 kHz' },
       { id: 'filt', kind: 'rc-lowpass', input: 'in.out', parts: { R: '2k2', C: '10n' } },
-      { id: 'drive', kind: 'push-pull', input: 'filt.out', bias: 'diodes', parts: { Rload: '1k', Rb1: '10k', Rb2: '10k' }, vbe: '0.66 V', hfe: 120, pnp: { vbe: '0.69 V', hfe: 150 } },
+      {
+        id: 'drive',
+        kind: 'push-pull',
+        input: 'filt.out',
+        bias: 'diodes',
+        parts: { Rload: '1k', Rb1: '10k', Rb2: '10k' },
+        vbe: '0.66 V',
+        hfe: 120,
+        pnp: { vbe: '0.69 V', hfe: 150 },
+      },
     ]);
     const v = nominal(p);
     const s = spiceVpp(p, 3000, ['filt.out', 'drive.out']);
@@ -186,8 +198,12 @@ describe('other loaded chains', () => {
 
 describe('plan keys for loading', () => {
   test('an external load on an output the stage does not have is a plan error naming the path', () => {
-    expect(() => plan([{ id: 'in', kind: 'signal-in', shape: 'sine', peak: '1 V', frequency: '1 kHz', loads: { line: '600 ohm' } }])).toThrow(/stages\[0\]\.loads\.line: "line" is not an output of a signal-in stage/);
-    expect(() => plan([{ id: 'in', kind: 'signal-in', shape: 'sine', peak: '1 V', frequency: '1 kHz', loads: { out: '600 V' } }])).toThrow(/stages\[0\]\.loads\.out/);
+    expect(() => plan([{ id: 'in', kind: 'signal-in', shape: 'sine', peak: '1 V', frequency: '1 kHz', loads: { line: '600 ohm' } }])).toThrow(
+      /stages\[0\]\.loads\.line: "line" is not an output of a signal-in stage/,
+    );
+    expect(() => plan([{ id: 'in', kind: 'signal-in', shape: 'sine', peak: '1 V', frequency: '1 kHz', loads: { out: '600 V' } }])).toThrow(
+      /stages\[0\]\.loads\.out/,
+    );
     expect(() => plan([{ id: 'in', kind: 'signal-in', shape: 'sine', peak: '1 V', frequency: '1 kHz', source: '-50 ohm' }])).toThrow(/stages\[0\]\.source/);
   });
 

@@ -12,7 +12,7 @@ describe('reference designators of a plan', () => {
     expect(refsOfPlanText('{not json').size).toBe(0);
     expect(refsOfPlanText(null).size).toBe(0);
   });
-  test('a part with its designator; a part inside a group takes the group\'s; none leaves the part alone', () => {
+  test("a part with its designator; a part inside a group takes the group's; none leaves the part alone", () => {
     const refs = refsOfPlanText(text);
     expect(partWithRef('osc.Ct', refs)).toBe('osc.Ct (C7)');
     expect(partWithRef('osc.clamp.vz', refs)).toBe('osc.clamp.vz (D3/D4)');

@@ -64,7 +64,8 @@ function planText(extra: Record<string, unknown> = {}): string {
   });
 }
 
-const load = (traits: StageTraits, extra: Record<string, unknown> = {}) => loadPlanText(planText(extra), 'traits.plan.json', { ...stageKinds, widget: widget(traits) as StageKind<unknown> });
+const load = (traits: StageTraits, extra: Record<string, unknown> = {}) =>
+  loadPlanText(planText(extra), 'traits.plan.json', { ...stageKinds, widget: widget(traits) as StageKind<unknown> });
 const messagesFor = (traits: StageTraits) =>
   computeTargets(load(traits), { trials: 100 })
     .warnings.filter((w) => w.stage === 'w')

@@ -60,9 +60,7 @@ describe('batch figures from the index', () => {
   });
 
   test('outliers: a reading inside the band but beyond 3σ of the batch is listed', () => {
-    const boards = Array.from({ length: 30 }, (_, i) =>
-      board(`T${String(i).padStart(3, '0')}`, { 'osc.freq': summary([16 + (i % 3) * 0.01, 'pass', d1]) }),
-    );
+    const boards = Array.from({ length: 30 }, (_, i) => board(`T${String(i).padStart(3, '0')}`, { 'osc.freq': summary([16 + (i % 3) * 0.01, 'pass', d1]) }));
     boards.push(board('T999', { 'osc.freq': summary([19, 'pass', d2]) }));
     const freq = batchFigures(indexOf(...boards), demoBands()).checks[0];
     expect(freq?.outliers.map((o) => [o.serial, o.reasons])).toEqual([['T999', ['beyond 3σ']]]);
@@ -84,7 +82,11 @@ describe('batch figures from the index', () => {
       board('Y001', { 'osc.freq': summary([5, 'fail', d2]) }, revA, 'other-plan'),
     );
     const bands = demoBands();
-    expect(batchFigures(index, bands).checks.filter((c) => c.check === 'osc.freq').map((c) => c.plan)).toEqual(['osc-demo', 'other-plan']);
+    expect(
+      batchFigures(index, bands)
+        .checks.filter((c) => c.check === 'osc.freq')
+        .map((c) => c.plan),
+    ).toEqual(['osc-demo', 'other-plan']);
     expect(batchFigures(index, bands, { plan: 'osc-demo' }).boards).toBe(6);
     expect(batchFigures(index, bands, { plan: 'osc-demo', revision: 'bbbb' }).boards).toBe(1);
     expect(batchFigures(index, bands, { plan: 'osc-demo', check: 'rails.p.dc' }).checks.map((c) => c.check)).toEqual(['rails.p.dc']);

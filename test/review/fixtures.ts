@@ -37,7 +37,9 @@ export function summary(first: [number, Verdict, string], latest: [number, Verdi
 }
 
 export function board(serial: string, checks: Record<string, CheckSummary>, planHash = revA, plan = 'osc-demo'): BoardSummary {
-  const times = Object.values(checks).map((c) => c.latest.at).sort();
+  const times = Object.values(checks)
+    .map((c) => c.latest.at)
+    .sort();
   return {
     serial,
     plan,

@@ -5,7 +5,16 @@ import { demoBands, revA, revB } from './fixtures.js';
 
 // An invented board: a first run that failed osc.freq, a rework, a second run.
 const reading = (id: string, check: string, value: number, verdict: Reading['verdict'], at: string, planHash = revA): Reading => ({
-  id, run: at < '2026-11-02T10' ? 'u1' : 'u2', check, value, unit: check.startsWith('rails') ? 'V' : 'Hz', raw: String(value), at, operator: 'tess', verdict, planHash,
+  id,
+  run: at < '2026-11-02T10' ? 'u1' : 'u2',
+  check,
+  value,
+  unit: check.startsWith('rails') ? 'V' : 'Hz',
+  raw: String(value),
+  at,
+  operator: 'tess',
+  verdict,
+  planHash,
 });
 const board: BoardFile = {
   schemaVersion: 1,
@@ -29,7 +38,17 @@ const board: BoardFile = {
 describe('board history', () => {
   test('timeline in time order, a capture before the reading made at the same instant', () => {
     const kinds = timelineOf(board, demoBands()).map((e) => `${e.kind}@${e.at.slice(11, 16)}`);
-    expect(kinds).toEqual(['run@09:00', 'reading@09:01', 'capture@09:02', 'reading@09:02', 'reading@09:03', 'rework@10:00', 'run@11:00', 'reading@11:01', 'reading@11:02']);
+    expect(kinds).toEqual([
+      'run@09:00',
+      'reading@09:01',
+      'capture@09:02',
+      'reading@09:02',
+      'reading@09:03',
+      'rework@10:00',
+      'run@11:00',
+      'reading@11:01',
+      'reading@11:02',
+    ]);
   });
 
   test('each reading carries the target of the revision it was judged by, and its deviation', () => {
@@ -56,10 +75,17 @@ describe('board history', () => {
       runs: run ? [run] : [],
     };
     const hash = board.readings[0]?.planHash ?? '';
-    const bands = new Map([[hash, { bands: new Map([
-      ['rails.+12V.to-ground', { nominal: 100, worst: { min: 100, max: Infinity }, isLimit: true }],
-      ['rails.idle-current', { nominal: 0.0175, worst: { min: 0, max: 0.035 }, isLimit: true }],
-    ]) }]]) as unknown as Parameters<typeof timelineOf>[1];
+    const bands = new Map([
+      [
+        hash,
+        {
+          bands: new Map([
+            ['rails.+12V.to-ground', { nominal: 100, worst: { min: 100, max: Infinity }, isLimit: true }],
+            ['rails.idle-current', { nominal: 0.0175, worst: { min: 0, max: 0.035 }, isLimit: true }],
+          ]),
+        },
+      ],
+    ]) as unknown as Parameters<typeof timelineOf>[1];
     const readings = timelineOf(limitBoard, bands).filter((e) => e.kind === 'reading');
     expect(readings.map((e) => (e.kind === 'reading' ? e.deviation : 'x'))).toEqual([null, null]);
   });

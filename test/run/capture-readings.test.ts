@@ -59,7 +59,9 @@ describe('capture readings follow each check’s declared capture figure', () =>
   });
 
   test('a figure not measured, a locked check and an undeclared check give nothing', () => {
-    expect(captureReadings(plan, targets, target('gen.freq'), { name: 'g.csv', figures: { ...figures, frequency: null } }, () => true).map((r) => r.check)).toEqual(['gen.out.vpp', 'gen.out.dc']);
+    expect(
+      captureReadings(plan, targets, target('gen.freq'), { name: 'g.csv', figures: { ...figures, frequency: null } }, () => true).map((r) => r.check),
+    ).toEqual(['gen.out.vpp', 'gen.out.dc']);
     expect(captureReadings(plan, targets, target('gen.freq'), { name: 'g.csv', figures }, (c) => c === 'gen.freq').map((r) => r.check)).toEqual(['gen.freq']);
     // A hand-written check with no figure of its own is never filled from a capture; one that declares vpp is.
     expect(captureReadings(plan, targets, target('hand.tp.level'), { name: 'h.csv', figures }, () => true)).toEqual([]);

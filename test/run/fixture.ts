@@ -6,9 +6,18 @@ import type { Unit } from '../../src/units/unit.js';
 // an oscillator feeding a shaper feeding a gain stage.
 function target(check: string, stage: string, phase: Phase, unit: Unit, nominal: number, min: number, max: number): Target {
   return {
-    check, stage, quantity: check.split('.').slice(-1)[0] ?? '', unit, nominal,
-    worst: { min, max }, stat: { min, max }, testPoint: null, contributors: [],
-    instrument: 'meter', how: 'meter', phase,
+    check,
+    stage,
+    quantity: check.split('.').slice(-1)[0] ?? '',
+    unit,
+    nominal,
+    worst: { min, max },
+    stat: { min, max },
+    testPoint: null,
+    contributors: [],
+    instrument: 'meter',
+    how: 'meter',
+    phase,
   };
 }
 
@@ -25,11 +34,7 @@ export const targets: readonly Target[] = [
 ];
 
 export const planShape: RunPlanShape = {
-  stages: [
-    { id: 'osc' },
-    { id: 'shaper', input: { stage: 'osc', output: 'triangle' } },
-    { id: 'gain', input: { stage: 'shaper', output: 'out' } },
-  ],
+  stages: [{ id: 'osc' }, { id: 'shaper', input: { stage: 'osc', output: 'triangle' } }, { id: 'gain', input: { stage: 'shaper', output: 'out' } }],
 };
 
 let counter = 0;

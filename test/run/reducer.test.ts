@@ -58,7 +58,7 @@ describe('safety gates', () => {
 
   test('an idle current above the limit stops the run until power-off is acknowledged', () => {
     const before = apply(started(), [record(reading('rails.+12V.to-ground', 9000)), record(reading('rails.-12V.to-ground', 9000))]);
-    const stopped = runReducer(before, record(reading('rails.idle-current', 0.120, 'fail')));
+    const stopped = runReducer(before, record(reading('rails.idle-current', 0.12, 'fail')));
     expect(stopped.isPowerOff).toBe(true);
     const refused: RunAction[] = [
       record(reading('rails.+12V.to-ground', 9000)),
@@ -220,7 +220,12 @@ describe('properties (fast-check, 150 random sessions)', () => {
     fc.constant<RunAction>({ type: 'acknowledge-cautions' }),
     fc.constant<RunAction>({ type: 'power-off-acknowledged' }),
     fc.constantFrom(...checks).map((check): RunAction => ({ type: 'select-check', check })),
-    fc.tuple(fc.constantFrom(...checks), fc.double({ min: -20, max: 20_000, noNaN: true }), fc.constantFrom('pass', 'marginal', 'fail') as fc.Arbitrary<'pass' | 'marginal' | 'fail'>)
+    fc
+      .tuple(
+        fc.constantFrom(...checks),
+        fc.double({ min: -20, max: 20_000, noNaN: true }),
+        fc.constantFrom('pass', 'marginal', 'fail') as fc.Arbitrary<'pass' | 'marginal' | 'fail'>,
+      )
       .map(([check, value, verdict]): RunAction => record(reading(check, check === 'rails.idle-current' ? Math.abs(value) / 1e5 : value, verdict))),
     fc.constantFrom('osc.Ct', 'shaper.Rs', 'gain.Rf', 'rails.+12V').map((part): RunAction => ({ type: 'note-rework', rework: rework(part) })),
     fc.constantFrom('passed', 'failed', 'aborted').map((outcome): RunAction => ({ type: 'end-run', outcome: outcome as 'passed' })),
@@ -255,7 +260,14 @@ describe('a capture with a wrong shape', () => {
     // output figure passes but its capture looked clipped.
     const before = apply(started(), passingReadings().slice(0, 6).map(record));
     const plain = runReducer(before, record(reading('shaper.out.vpp', 3.08)));
-    const warned = runReducer(before, record({ ...reading('shaper.out.vpp', 3.08), capture: 'abc.csv', shapeWarning: 'the capture is clipped (flat tops): check the stage gain and the rails' }));
+    const warned = runReducer(
+      before,
+      record({
+        ...reading('shaper.out.vpp', 3.08),
+        capture: 'abc.csv',
+        shapeWarning: 'the capture is clipped (flat tops): check the stage gain and the rails',
+      }),
+    );
     expect(plain.suggestion?.why ?? '').not.toContain('clipped');
     expect(warned.suggestion?.why ?? '').toContain('the capture is clipped');
     // Upstream first (DESIGN §5): the oscillator feeding the shaper.

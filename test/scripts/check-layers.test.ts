@@ -51,7 +51,8 @@ describe('scripts/check-layers.mjs (DESIGN §2 layer table)', () => {
   test('"(types)" lets types through and stops values; re-exports and dynamic imports count', () => {
     const root = tree({
       'analysis/types.ts': 'export interface Band { min: number }\nexport const zero = 0;\n',
-      'review/ok.ts': "import type { Band } from '../analysis/types.js';\nimport { type Band as B2 } from '../analysis/types.js';\nexport type X = Band | B2;\n",
+      'review/ok.ts':
+        "import type { Band } from '../analysis/types.js';\nimport { type Band as B2 } from '../analysis/types.js';\nexport type X = Band | B2;\n",
       'review/value.ts': "import { zero } from '../analysis/types.js';\nexport const v = zero;\n",
       'ui/u.ts': 'export const u = 1;\n',
       'log/reexport.ts': "export { u } from '../ui/u.js';\n",

@@ -93,7 +93,9 @@ describe('the CSV row loop', () => {
     const rows = ['t,v'];
     for (let i = 0; i < 5000; i++) rows.push(`${i},${i % 3}`);
     rows.push('5000,1.2.3');
-    expect(() => readCaptureBytes(encode(`${rows.join('\n')}\n`), { name: 'bad.csv' })).toThrow(new CaptureError('bad.csv, line 5002: field 2 is not a number in "5000,1.2.3"; expected 2 numbers separated by "," with "." as the decimal marker'));
+    expect(() => readCaptureBytes(encode(`${rows.join('\n')}\n`), { name: 'bad.csv' })).toThrow(
+      new CaptureError('bad.csv, line 5002: field 2 is not a number in "5000,1.2.3"; expected 2 numbers separated by "," with "." as the decimal marker'),
+    );
     // After the arrays have grown (long rows first make the estimate short), the line is still right.
     const grown = ['t,v'];
     for (let i = 0; i < 3000; i++) grown.push(`${i}.000000000000,${(i % 3).toFixed(12)}`);
@@ -101,7 +103,9 @@ describe('the CSV row loop', () => {
     grown.push('40000,x');
     expect(() => readCaptureBytes(encode(`${grown.join('\n')}\n`), { name: 'grown.csv' })).toThrow(/^grown\.csv, line 40002: field 2 is not a number/);
     rows[5001] = '4999,1';
-    expect(() => readCaptureBytes(encode(`${rows.join('\n')}\n`), { name: 'bad.csv' })).toThrow(/line 5002: time 4999 does not increase \(the row before had 4999\)/);
+    expect(() => readCaptureBytes(encode(`${rows.join('\n')}\n`), { name: 'bad.csv' })).toThrow(
+      /line 5002: time 4999 does not increase \(the row before had 4999\)/,
+    );
   });
 });
 

@@ -121,7 +121,13 @@ describe('numbers as csv-parse and Number() read them', () => {
   });
 
   test('chunk boundaries anywhere give the same samples (property)', () => {
-    const text = `# invented\nTime (s);CH1 (V);CH2 (V)\n${Array.from({ length: 300 }, (_, i) => `${(i * 1e-5).toFixed(6).replace('.', ',')};${Math.sin(i / 7).toFixed(5).replace('.', ',')};${(i % 13) - 6}`).join('\n')}\n`;
+    const text = `# invented\nTime (s);CH1 (V);CH2 (V)\n${Array.from(
+      { length: 300 },
+      (_, i) =>
+        `${(i * 1e-5).toFixed(6).replace('.', ',')};${Math.sin(i / 7)
+          .toFixed(5)
+          .replace('.', ',')};${(i % 13) - 6}`,
+    ).join('\n')}\n`;
     const whole = read(text);
     fc.assert(
       fc.property(fc.array(fc.integer({ min: 1, max: 400 }), { minLength: 1, maxLength: 40 }), (sizes) => {

@@ -48,7 +48,7 @@ describe('componentAt against independent transforms', () => {
     const periods = 16;
     const size = period * periods;
     const g = gaussian(3);
-    const amps = Array.from({ length: 51 }, (_, k) => (k === 0 ? 0 : k === 1 ? 1 : 0.2 * Math.abs(g()) / k));
+    const amps = Array.from({ length: 51 }, (_, k) => (k === 0 ? 0 : k === 1 ? 1 : (0.2 * Math.abs(g())) / k));
     const x = Float64Array.from({ length: size }, (_, i) => {
       let v = 0.7;
       for (let k = 1; k <= 50; k++) v += (amps[k] ?? 0) * Math.sin((2 * Math.PI * k * i) / period + k);
@@ -97,6 +97,14 @@ describe('a harmonic exactly at half the sample rate (even period length)', () =
   });
 
   test('the same with 41 samples a period (odd): harmonic 20 lies below fs/2 and is counted', () => {
-    expect(harmonicAnalysis(Float64Array.from({ length: 41 * 20 }, (_, i) => Math.sin((2 * Math.PI * i) / 41)), 0, 41, 20, 0).highest).toBe(20);
+    expect(
+      harmonicAnalysis(
+        Float64Array.from({ length: 41 * 20 }, (_, i) => Math.sin((2 * Math.PI * i) / 41)),
+        0,
+        41,
+        20,
+        0,
+      ).highest,
+    ).toBe(20);
   });
 });

@@ -211,7 +211,10 @@ describe('shape, clipping and notch', () => {
   });
 
   test('a 10 % duty square still arms the crossings', () => {
-    const m = measure(sampled((p) => (p < 0.1 ? 1 : -1), n, period, { noise: 0.01 }), fs).measurements;
+    const m = measure(
+      sampled((p) => (p < 0.1 ? 1 : -1), n, period, { noise: 0.01 }),
+      fs,
+    ).measurements;
     expect(m.shape).toBe('square');
     // By construction: high for 10 % of the period at fs / period.
     expect(Math.abs((m.duty ?? 0) - 0.1)).toBeLessThan(2e-3);
@@ -219,7 +222,10 @@ describe('shape, clipping and notch', () => {
   });
 
   test('a sine clipped at 85 % of its peak has flat tops', () => {
-    const m = measure(sampled((p) => Math.max(-0.85, Math.min(0.85, sine(p))), n, period, { noise: 0.005 }), fs).measurements;
+    const m = measure(
+      sampled((p) => Math.max(-0.85, Math.min(0.85, sine(p))), n, period, { noise: 0.005 }),
+      fs,
+    ).measurements;
     expect(m.clipped).toBe(true);
     expect(m.notch).toBe(false);
   });

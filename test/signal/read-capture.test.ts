@@ -14,7 +14,10 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 // A CSV of several read chunks (256 kB each), so rows cross chunk boundaries.
 const rows = 60_000;
 const big = join(dir, 'big.csv');
-writeFileSync(big, `Time (s),CH1 (V)\n${Array.from({ length: rows }, (_, i) => `${(i * 1e-6).toExponential(9)},${Math.sin((2 * Math.PI * i) / 997.3).toFixed(6)}`).join('\n')}\n`);
+writeFileSync(
+  big,
+  `Time (s),CH1 (V)\n${Array.from({ length: rows }, (_, i) => `${(i * 1e-6).toExponential(9)},${Math.sin((2 * Math.PI * i) / 997.3).toFixed(6)}`).join('\n')}\n`,
+);
 
 describe('readCaptureFile', () => {
   test('reads a file of many chunks, reports rising progress to 1, and can keep the bytes', async () => {
@@ -38,7 +41,12 @@ describe('readCaptureFile', () => {
 
   test('a WAV file, and the figures through analyzeCaptureFile', async () => {
     const wav = new wavefile.WaveFile();
-    wav.fromScratch(1, 48000, '24', Array.from({ length: 9600 }, (_, i) => Math.round(0.5 * 8388607 * Math.sin((2 * Math.PI * 1000 * i) / 48000))));
+    wav.fromScratch(
+      1,
+      48000,
+      '24',
+      Array.from({ length: 9600 }, (_, i) => Math.round(0.5 * 8388607 * Math.sin((2 * Math.PI * 1000 * i) / 48000))),
+    );
     const path = join(dir, 'tone.wav');
     writeFileSync(path, wav.toBuffer());
     const a = await analyzeCaptureFile(path, { scale: 2 });

@@ -16,7 +16,12 @@ export function gaussian(seed: number): () => number {
 }
 
 /** `n` samples of `shape` with `period` samples per period (fractional), peak `peak`, offset and noise σ. */
-export function sampled(shape: Shape, n: number, period: number, options: { peak?: number; offset?: number; noise?: number; phase?: number; seed?: number } = {}): Float64Array {
+export function sampled(
+  shape: Shape,
+  n: number,
+  period: number,
+  options: { peak?: number; offset?: number; noise?: number; phase?: number; seed?: number } = {},
+): Float64Array {
   const { peak = 1, offset = 0, noise = 0, phase = 0.123, seed = 7 } = options;
   const g = gaussian(seed);
   return Float64Array.from({ length: n }, (_, i) => {

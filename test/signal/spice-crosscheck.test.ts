@@ -35,7 +35,10 @@ function simulate(netlist: string): SpiceRun {
     for (const m of stdout.matchAll(/^\s*(\d+)\s+[\d.eE+-]+\s+[\d.eE+-]+\s+[\d.eE+-]+\s+([\d.eE+-]+)\s+[\d.eE+-]+\s*$/gm)) {
       norm[Number(m[1])] = Number(m[2]);
     }
-    const rows = readFileSync(out, 'utf8').trim().split('\n').map((l) => l.trim().split(/\s+/));
+    const rows = readFileSync(out, 'utf8')
+      .trim()
+      .split('\n')
+      .map((l) => l.trim().split(/\s+/));
     const csv = `Time (s),OUT (V)\n${rows.map(([t, v]) => `${t},${v}`).join('\n')}\n`;
     return { csv, thd, norm };
   } finally {

@@ -20,9 +20,7 @@ function tone(n: number, channel: number): number[] {
 describe.each(formats)('WAV $code-bit', ({ code, full, offset, max }) => {
   test.each([1, 2])('%i channel(s) read as wavefile decodes them', (channels) => {
     const n = 500;
-    const raw = Array.from({ length: channels }, (_, c) =>
-      tone(n, c).map((v) => (code === '32f' ? v : Math.round(v * max) + offset)),
-    );
+    const raw = Array.from({ length: channels }, (_, c) => tone(n, c).map((v) => (code === '32f' ? v : Math.round(v * max) + offset)));
     const writer = new wavefile.WaveFile();
     writer.fromScratch(channels, 44100, code, channels === 1 ? (raw[0] ?? []) : raw);
     const bytes = writer.toBuffer();
@@ -69,7 +67,12 @@ describe('WAV errors', () => {
 describe('a WAV cut short (issue 10, item 16)', () => {
   test('a header claiming more samples than the file holds is read with a warning', () => {
     const writer = new wavefile.WaveFile();
-    writer.fromScratch(1, 48000, '16', tone(1000, 0).map((v) => Math.round(v * 32767)));
+    writer.fromScratch(
+      1,
+      48000,
+      '16',
+      tone(1000, 0).map((v) => Math.round(v * 32767)),
+    );
     const whole = writer.toBuffer();
     // Cut the file at 600 frames: the data chunk's size still says 1000 frames (2000 bytes).
     const cut = whole.subarray(0, whole.length - 800);

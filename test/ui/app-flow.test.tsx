@@ -13,7 +13,12 @@ afterEach(async () => {
 });
 
 /** Start a run on a board the way the bring-up screen does, with readings already taken. */
-async function boardWithReadings(a: { readonly log: BenchLog }, serial: string, plan: RenderedApp['plans'][number], readings: [check: string, value: number, raw: string][]) {
+async function boardWithReadings(
+  a: { readonly log: BenchLog },
+  serial: string,
+  plan: RenderedApp['plans'][number],
+  readings: [check: string, value: number, raw: string][],
+) {
   const run = await a.log.startRun(serial, { plan: plan.plan, planHash: plan.hash, planText: plan.text, operator: 'earlier' });
   for (const [check, value, raw] of readings) {
     await a.log.appendReading(serial, { run: run.id, check, value, unit: 'Ω', raw, operator: 'earlier', verdict: 'pass', planHash: plan.hash });

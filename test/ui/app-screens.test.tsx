@@ -119,7 +119,8 @@ describe('bench screen', () => {
     app = await renderApp({
       setup: async (log, [plan]) => {
         if (!plan) throw new Error('no plan');
-        for (let i = 1; i <= 40; i++) await log.startRun(`LOT-${String(i).padStart(3, '0')}`, { plan: plan.plan, planHash: plan.hash, planText: plan.text, operator: 'x' });
+        for (let i = 1; i <= 40; i++)
+          await log.startRun(`LOT-${String(i).padStart(3, '0')}`, { plan: plan.plan, planHash: plan.hash, planText: plan.text, operator: 'x' });
       },
     });
     await app.waitFor('40 boards');

@@ -6,17 +6,45 @@ import { batchReducer, initialBatchState, selectedCheck, type BatchState } from 
 // so the weakest-first order is plain (lowest final yield first).
 function check(id: string, finalYield: number | null, outliers = 0): BatchCheck {
   return {
-    check: id, n: 4, pass: 4, marginal: 0, fail: 0, mean: null, sd: null, min: null, max: null, cp: null, cpk: null,
-    plan: 'osc-demo', unit: 'V', nominal: null, band: null, bandRevision: null, bandsDiffer: false,
-    firstPassYield: finalYield, finalYield, status: 'no-band', note: '',
-    outliers: Array.from({ length: outliers }, (_, i) => ({ serial: `PB-${i}`, check: id, value: 0, at: '2026-11-02T09:00:00.000Z', reasons: ['outside band' as const], z: null })),
+    check: id,
+    n: 4,
+    pass: 4,
+    marginal: 0,
+    fail: 0,
+    mean: null,
+    sd: null,
+    min: null,
+    max: null,
+    cp: null,
+    cpk: null,
+    plan: 'osc-demo',
+    unit: 'V',
+    nominal: null,
+    band: null,
+    bandRevision: null,
+    bandsDiffer: false,
+    firstPassYield: finalYield,
+    finalYield,
+    status: 'no-band',
+    note: '',
+    outliers: Array.from({ length: outliers }, (_, i) => ({
+      serial: `PB-${i}`,
+      check: id,
+      value: 0,
+      at: '2026-11-02T09:00:00.000Z',
+      reasons: ['outside band' as const],
+      z: null,
+    })),
     points: [],
   };
 }
 function figures(checks: readonly BatchCheck[]): BatchFigures {
   return { boards: 4, firstPassBoards: 4, finalPassBoards: 4, firstPassYield: 1, finalYield: 1, incomplete: 0, checks, problems: [] };
 }
-const loaded: BatchState = batchReducer(initialBatchState, { type: 'figures', figures: figures([check('a.ok', 1), check('b.weak', 0.5, 2), check('c.mid', 0.75)]) });
+const loaded: BatchState = batchReducer(initialBatchState, {
+  type: 'figures',
+  figures: figures([check('a.ok', 1), check('b.weak', 0.5, 2), check('c.mid', 0.75)]),
+});
 
 describe('batch reducer', () => {
   test('figures arrive weakest first, cursor on the weakest', () => {

@@ -23,7 +23,13 @@ test('typing a reading does not draw the expected trace again; moving to another
   await s.until('Cautions before first power');
   await s.press(keys.enter);
   await s.until('rails.+9V.to-ground ›');
-  for (const [value, next] of [['OL', 'rails.-9V.to-ground'], ['22k', 'rails.idle-current'], ['12m', 'rails.+9V.dc'], ['9.02', 'rails.-9V.dc'], ['-8.97', 'osc.freq']] as const) {
+  for (const [value, next] of [
+    ['OL', 'rails.-9V.to-ground'],
+    ['22k', 'rails.idle-current'],
+    ['12m', 'rails.+9V.dc'],
+    ['9.02', 'rails.-9V.dc'],
+    ['-8.97', 'osc.freq'],
+  ] as const) {
     await s.read(value);
     await s.press(keys.enter);
     await s.until(`${next} ›`);

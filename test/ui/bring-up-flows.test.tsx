@@ -15,7 +15,16 @@ async function fillRun(tmp: Awaited<ReturnType<typeof tempLog>>, serial: string,
   const all = fixture.targets.targets;
   for (const t of all.slice(0, all.length - skipLast)) {
     const value = t.phase === 'unpowered' ? Infinity : t.phase === 'first-power' ? t.worst.max / 2 : t.nominal;
-    await tmp.log.appendReading(serial, { run: run.id, check: t.check, value, unit: t.unit, raw: String(value), operator: 'tester', verdict: 'pass', planHash: fixture.plan.hash });
+    await tmp.log.appendReading(serial, {
+      run: run.id,
+      check: t.check,
+      value,
+      unit: t.unit,
+      raw: String(value),
+      operator: 'tester',
+      verdict: 'pass',
+      planHash: fixture.plan.hash,
+    });
   }
   return run.id;
 }

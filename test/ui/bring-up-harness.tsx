@@ -52,7 +52,8 @@ export async function renderBringUp(fixture: { plan: Plan; targets: TargetSet },
   );
   const frame = () => ui.lastFrame() ?? '';
   /** Wait until the screen shows `text` (or the predicate holds). */
-  const until = (what: string | RegExp | (() => boolean), timeout = 8000): Promise<string> => waitForFrame(ui, typeof what === 'function' ? () => what() : what, timeout);
+  const until = (what: string | RegExp | (() => boolean), timeout = 8000): Promise<string> =>
+    waitForFrame(ui, typeof what === 'function' ? () => what() : what, timeout);
   /** Write keys one chunk at a time, each waiting for the frame it draws. */
   const press = async (...chunks: string[]) => {
     for (const c of chunks) await writeAndWait(ui, c);

@@ -29,7 +29,10 @@ async function setup(answer: (command: string) => string | null, delayMs = 0) {
     return a === null ? { kind: 'silent' } : { kind: 'text', text: a, delayMs };
   });
   servers.push(inst);
-  const file = parseInstruments({ instruments: [{ name: 'dmm', address: `tcp://127.0.0.1:${inst.port}`, timeout: '5 s', queries: { ohm: 'MEAS:RES?', V: 'MEAS:VOLT:DC?' } }] }, 'bench.json');
+  const file = parseInstruments(
+    { instruments: [{ name: 'dmm', address: `tcp://127.0.0.1:${inst.port}`, timeout: '5 s', queries: { ohm: 'MEAS:RES?', V: 'MEAS:VOLT:DC?' } }] },
+    'bench.json',
+  );
   const source = sessionSource(file, new BenchSession(file));
   const t = await tempLog();
   cleanups.push(() => source.close(), t.cleanup);
@@ -49,7 +52,13 @@ describe('bring-up: readings from a bench instrument', () => {
     await s.until(/reading dmm \(MEAS:RES\?\)… \d+\.\d s · Esc cancels/);
     await s.until(() => s.frame().includes('saved') || s.frame().includes('PASS') || s.frame().includes('pass'));
     const board = await s.board();
-    expect(board?.readings[0]).toMatchObject({ check: 'rails.+9V.to-ground', value: 12000, raw: '+1.20000E+04', instrument: { name: 'dmm', identity: 'Invented Instruments,DMM-3,1,1.0' }, verdict: 'pass' });
+    expect(board?.readings[0]).toMatchObject({
+      check: 'rails.+9V.to-ground',
+      value: 12000,
+      raw: '+1.20000E+04',
+      instrument: { name: 'dmm', identity: 'Invented Instruments,DMM-3,1,1.0' },
+      verdict: 'pass',
+    });
   });
 
   test('Esc cancels a silent instrument at once; nothing is recorded and the screen goes on', async () => {

@@ -10,7 +10,10 @@ describe('bring-up screen reducer', () => {
     expect(s.focus).toBe('help');
     expect(screenReducer(s, { type: 'toggle-help' }).focus).toBe('end');
     const inRework = screenReducer(initialScreenState, { type: 'open-rework', fields: rework });
-    expect(screenReducer(screenReducer(inRework, { type: 'toggle-help' }), { type: 'toggle-help' })).toMatchObject({ focus: 'rework', rework: { fields: rework } });
+    expect(screenReducer(screenReducer(inRework, { type: 'toggle-help' }), { type: 'toggle-help' })).toMatchObject({
+      focus: 'rework',
+      rework: { fields: rework },
+    });
   });
 
   test('the rework form edits the focused field, moves within its four fields, and holds the keys while saving', () => {
@@ -25,7 +28,12 @@ describe('bring-up screen reducer', () => {
     const saving = screenReducer(s, { type: 'rework-saving' });
     expect(saving.rework.isSaving).toBe(true);
     // While the note is written, Esc, help and edits change nothing.
-    for (const action of [{ type: 'focus', focus: 'input' }, { type: 'toggle-help' }, { type: 'edit-rework', text: 'x' }, { type: 'move-rework', delta: -1 }] as const) {
+    for (const action of [
+      { type: 'focus', focus: 'input' },
+      { type: 'toggle-help' },
+      { type: 'edit-rework', text: 'x' },
+      { type: 'move-rework', delta: -1 },
+    ] as const) {
       expect(screenReducer(saving, action)).toBe(saving);
     }
     const failed = screenReducer(saving, { type: 'rework-saved', error: 'part must be <stage>.<part>' });

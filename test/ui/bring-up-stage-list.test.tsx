@@ -15,7 +15,8 @@ function measured(): RunState {
     ['rails.+12V.dc', 12.3, 'marginal'],
     ['rails.-12V.dc', -12, 'pass'],
     ['osc.freq', 1000, 'fail'],
-  ] as const) s = runReducer(s, { type: 'record-reading', reading: reading(check, value, verdict) });
+  ] as const)
+    s = runReducer(s, { type: 'record-reading', reading: reading(check, value, verdict) });
   return runReducer(s, { type: 'note-rework', rework: rework('osc.Ct') });
 }
 
@@ -34,7 +35,12 @@ describe('stage list', () => {
     // 13 rows in 8: a third of the window above the cursor, clamped so the window ends at the last row.
     expect(lines).toEqual([' ✓ -12V.dc', 'osc', '›↻ freq', ' · square.vpp', 'shaper', ' · out.vpp', 'gain', ' · out.vpp']);
     b.rerender(<StageList state={s} cursor={3} isFocused width={22} height={8} />);
-    expect((b.lastFrame() ?? '').split('\n').map((l) => l.trimEnd()).slice(0, 5)).toEqual([' ✓ -12V.to-ground', ' ✓ idle-current', '›≈ +12V.dc', ' ✓ -12V.dc', 'osc']);
+    expect(
+      (b.lastFrame() ?? '')
+        .split('\n')
+        .map((l) => l.trimEnd())
+        .slice(0, 5),
+    ).toEqual([' ✓ -12V.to-ground', ' ✓ idle-current', '›≈ +12V.dc', ' ✓ -12V.dc', 'osc']);
     b.unmount();
   });
 });

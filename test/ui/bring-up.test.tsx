@@ -21,7 +21,13 @@ async function powerUp(s: Awaited<ReturnType<typeof setup>>) {
   await s.until('Cautions before first power');
   await s.press(keys.enter);
   await s.until('rails.+9V.to-ground ›');
-  for (const [value, next] of [['OL', 'rails.-9V.to-ground'], ['22k', 'rails.idle-current'], ['12m', 'rails.+9V.dc'], ['9.02', 'rails.-9V.dc'], ['-8.97', 'osc.freq']] as const) {
+  for (const [value, next] of [
+    ['OL', 'rails.-9V.to-ground'],
+    ['22k', 'rails.idle-current'],
+    ['12m', 'rails.+9V.dc'],
+    ['9.02', 'rails.-9V.dc'],
+    ['-8.97', 'osc.freq'],
+  ] as const) {
     await s.read(value);
     await s.press(keys.enter);
     await s.until(`${next} ›`);
@@ -125,7 +131,15 @@ describe('bring-up screen', () => {
     await s.until(() => !s.frame().includes('Rework note'));
     const board = await s.board();
     // The note starts with what the diagnosis found; the technician's words follow.
-    expect(board?.rework).toMatchObject([{ part: 'osc.Ct', from: '22n 5%', to: '22n', note: expect.stringMatching(/^diagnosis 220 nF found \(\d+ %\); 220n fitted by mistake$/), run: board?.runs[0]?.id }]);
+    expect(board?.rework).toMatchObject([
+      {
+        part: 'osc.Ct',
+        from: '22n 5%',
+        to: '22n',
+        note: expect.stringMatching(/^diagnosis 220 nF found \(\d+ %\); 220n fitted by mistake$/),
+        run: board?.runs[0]?.id,
+      },
+    ]);
     // The oscillator's reading no longer counts (↻) and the next suggestion is to measure it again.
     expect(s.frame()).toMatch(/↻ freq/);
     expect(s.frame()).toContain('osc.freq ›');

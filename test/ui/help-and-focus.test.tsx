@@ -46,7 +46,16 @@ describe('every screen and dialog answers ?', () => {
       setup: async (log, [plan]) => {
         if (!plan) throw new Error('no plan');
         const run = await log.startRun('FX-0050', { plan: plan.plan, planHash: plan.hash, planText: plan.text, operator: 'earlier' });
-        await log.appendReading('FX-0050', { run: run.id, check: 'rails.+12V.to-ground', value: 12_000, unit: 'Ω', raw: '12k', operator: 'earlier', verdict: 'pass', planHash: plan.hash });
+        await log.appendReading('FX-0050', {
+          run: run.id,
+          check: 'rails.+12V.to-ground',
+          value: 12_000,
+          unit: 'Ω',
+          raw: '12k',
+          operator: 'earlier',
+          verdict: 'pass',
+          planHash: plan.hash,
+        });
         await log.endRun('FX-0050', run.id, 'failed');
       },
     });
@@ -124,7 +133,11 @@ describe('every screen and dialog answers ?', () => {
     const a = await onBringUp();
     await a.press(keys.enter);
     // Both rails open to ground, then an idle current far above the 30 mA limit.
-    for (const [check, value] of [['rails.+12V.to-ground', 'OL'], ['rails.-12V.to-ground', 'OL'], ['rails.idle-current', '0.5']] as const) {
+    for (const [check, value] of [
+      ['rails.+12V.to-ground', 'OL'],
+      ['rails.-12V.to-ground', 'OL'],
+      ['rails.idle-current', '0.5'],
+    ] as const) {
       await a.waitFor(`${check} ›`);
       await a.type(value);
       await a.press(keys.enter);

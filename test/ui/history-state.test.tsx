@@ -9,11 +9,27 @@ const board: BoardFile = {
   serial: 'PB-0007',
   plan: 'osc-demo',
   runs: [{ id: 'u1', started: '2026-11-02T09:00:00.000Z', ended: null, operator: 'tess', outcome: 'in-progress', plan: 'osc-demo', planHash: 'a'.repeat(64) }],
-  readings: [{ id: 'r1', run: 'u1', check: 'osc.freq', value: 16, unit: 'Hz', raw: '16', at: '2026-11-02T09:01:00.000Z', operator: 'tess', verdict: 'pass', planHash: 'a'.repeat(64) }],
+  readings: [
+    {
+      id: 'r1',
+      run: 'u1',
+      check: 'osc.freq',
+      value: 16,
+      unit: 'Hz',
+      raw: '16',
+      at: '2026-11-02T09:01:00.000Z',
+      operator: 'tess',
+      verdict: 'pass',
+      planHash: 'a'.repeat(64),
+    },
+  ],
   rework: [{ id: 'w1', at: '2026-11-02T09:05:00.000Z', run: 'u1', part: 'osc.Rt', from: '15k', to: '16k', note: '', operator: 'tess' }],
   captures: [],
 };
-const ready: HistoryState = historyReducer(initialHistoryState, { type: 'loaded', data: { board, timeline: timelineOf(board, new Map()), bands: new Map(), problems: [] } });
+const ready: HistoryState = historyReducer(initialHistoryState, {
+  type: 'loaded',
+  data: { board, timeline: timelineOf(board, new Map()), bands: new Map(), problems: [] },
+});
 
 describe('history reducer', () => {
   test('moves within the timeline and refuses to leave it', () => {

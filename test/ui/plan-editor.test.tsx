@@ -51,7 +51,10 @@ function open(options: { initial?: Draft; savedText?: string | null; width?: num
 /** Move down until the selected line (the one with the pointer) shows `label`. */
 async function select(s: ReturnType<typeof open>, label: RegExp) {
   for (let i = 0; i < 80; i++) {
-    const line = s.frame().split('\n').find((l) => l.startsWith('›'));
+    const line = s
+      .frame()
+      .split('\n')
+      .find((l) => l.startsWith('›'));
     if (line && label.test(line)) return;
     await s.press(keys.down);
   }
@@ -70,7 +73,7 @@ describe('plan editor', () => {
     await select(s, /op-amp slew\s+0\.5 V\/us/);
     expect(s.frame()).toContain('slew rate of the op-amp');
     await select(s, /uncertainty V\s+0\.5% \+ 2 mV/);
-    expect(s.frame()).toContain('the voltmeter\'s uncertainty');
+    expect(s.frame()).toContain("the voltmeter's uncertainty");
     // Nothing to compute yet: the plan has no stage, and says so.
     expect(s.frame()).toContain('a plan needs at least one stage');
   });
@@ -95,7 +98,7 @@ describe('plan editor', () => {
     await s.waitFor(/input/);
   });
 
-  test('every part of a stage has a row: input, each role, its ref, each output\'s test point, other keys as JSON', async () => {
+  test("every part of a stage has a row: input, each role, its ref, each output's test point, other keys as JSON", async () => {
     const s = open({ height: 80 });
     await s.waitFor('▸ stage 2');
     const f = s.frame();
@@ -110,7 +113,7 @@ describe('plan editor', () => {
     expect(f).toMatch(/x-layout\s+keep me/);
   });
 
-  test('the value parser\'s own message as you type, and the reading of a good value', async () => {
+  test("the value parser's own message as you type, and the reading of a good value", async () => {
     const s = open();
     await s.waitFor('editor-fixture');
     await select(s, /^›.\s*R\s+1k 1%/);

@@ -74,7 +74,12 @@ describe('plan screen', () => {
     const freq = targets.targets.find((t) => t.check === 'osc.freq');
     if (!freq) throw new Error('the fixture has osc.freq');
     expect(s.frame()).toContain('statistical band');
-    expect(s.frame().split('\n').find((line) => line.includes('osc.freq') && line.includes('TP1'))).toContain(formatBand(freq.stat, 'Hz'));
+    expect(
+      s
+        .frame()
+        .split('\n')
+        .find((line) => line.includes('osc.freq') && line.includes('TP1')),
+    ).toContain(formatBand(freq.stat, 'Hz'));
   });
 
   test('moves and scrolls with the arrows, j/k, g/G; the detail follows the selection', async () => {

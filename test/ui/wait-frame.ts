@@ -17,7 +17,8 @@ export type Expectation = string | RegExp | ((frame: string) => boolean);
 const turn = () => new Promise<void>((resolve) => setImmediate(resolve));
 const pause = () => new Promise<void>((resolve) => setTimeout(resolve, 5));
 
-const matches = (frame: string, what: Expectation): boolean => (typeof what === 'function' ? what(frame) : typeof what === 'string' ? frame.includes(what) : what.test(frame));
+const matches = (frame: string, what: Expectation): boolean =>
+  typeof what === 'function' ? what(frame) : typeof what === 'string' ? frame.includes(what) : what.test(frame);
 
 /** Let React run the effects of the frame just drawn (listeners attach there). */
 export async function afterFrame(): Promise<void> {

@@ -12,11 +12,14 @@ const units: readonly Unit[] = ['V', 'A', 'Hz', 's', 'Ω', 'F', 'H', 'W', 'V/s',
 
 describe('a space never joins digits', () => {
   // Each of these was once saved as a different, plausible number (12 V, 1.205 kV, 4.7 kV, 125 V).
-  test.each(['1 2', '12 05', '4 k 7', '12\n5', '1 000', '4 k7', '1 2 V', '- 12', '1\t2', '12 5%', '0. 5', '1e 3'])('%j is refused, naming what was typed', (text) => {
-    const r = parseValue(text, { expected: 'V', allowTolerance: false });
-    expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.message).toContain(JSON.stringify(text));
-  });
+  test.each(['1 2', '12 05', '4 k 7', '12\n5', '1 000', '4 k7', '1 2 V', '- 12', '1\t2', '12 5%', '0. 5', '1e 3'])(
+    '%j is refused, naming what was typed',
+    (text) => {
+      const r = parseValue(text, { expected: 'V', allowTolerance: false });
+      expect(r.ok).toBe(false);
+      if (!r.ok) expect(r.message).toContain(JSON.stringify(text));
+    },
+  );
 
   test('the message says what to write instead', () => {
     const r = parseValue('1 2', { expected: 'V' });
@@ -130,9 +133,15 @@ describe('long and hostile input', () => {
 
   test('digits separated by whitespace are never accepted (property)', () => {
     fc.assert(
-      fc.property(fc.nat({ max: 9999 }), fc.nat({ max: 9999 }), fc.constantFrom(' ', '  ', '\t', '\n', ' \u00a0'), fc.constantFrom('', ' V', 'V', ' mV'), (a, b, gap, unit) => {
-        return !parseValue(`${a}${gap}${b}${unit}`, { expected: 'V' }).ok;
-      }),
+      fc.property(
+        fc.nat({ max: 9999 }),
+        fc.nat({ max: 9999 }),
+        fc.constantFrom(' ', '  ', '\t', '\n', ' \u00a0'),
+        fc.constantFrom('', ' V', 'V', ' mV'),
+        (a, b, gap, unit) => {
+          return !parseValue(`${a}${gap}${b}${unit}`, { expected: 'V' }).ok;
+        },
+      ),
       { numRuns: 500 },
     );
   });
@@ -141,7 +150,39 @@ describe('long and hostile input', () => {
 describe('what the parser accepts round-trips through the formatter', () => {
   // Any accepted text, formatted with 12 significant digits (the precision parseValue keeps)
   // and parsed again, gives back the same number exactly.
-  const token = fc.constantFrom('0', '1', '2', '4', '5', '7', '9', '.', ',', '-', '+', 'e', ' ', 'k', 'm', 'u', 'µ', 'n', 'p', 'M', 'meg', 'R', 'V', 'A', 'Hz', 'F', 'ohm', 'Ω', 's', '%', 'V/us');
+  const token = fc.constantFrom(
+    '0',
+    '1',
+    '2',
+    '4',
+    '5',
+    '7',
+    '9',
+    '.',
+    ',',
+    '-',
+    '+',
+    'e',
+    ' ',
+    'k',
+    'm',
+    'u',
+    'µ',
+    'n',
+    'p',
+    'M',
+    'meg',
+    'R',
+    'V',
+    'A',
+    'Hz',
+    'F',
+    'ohm',
+    'Ω',
+    's',
+    '%',
+    'V/us',
+  );
   const candidate = fc.array(token, { minLength: 1, maxLength: 8 }).map((parts) => parts.join(''));
   // Shaped like a value: sign, digits, decimal point or comma, exponent, space, prefix, unit.
   const shaped = fc
@@ -159,14 +200,19 @@ describe('what the parser accepts round-trips through the formatter', () => {
   test('formatted and parsed again, the number is the same (property)', () => {
     let accepted = 0;
     fc.assert(
-      fc.property(fc.oneof(candidate, shaped, shaped, fc.double({ noNaN: true, noDefaultInfinity: true }).map(String)), fc.constantFrom<Unit | undefined>(...units, undefined), fc.boolean(), (text, unit, decimalComma) => {
-        const first = parseValue(text, { ...(unit ? { expected: unit } : {}), decimalComma, allowTolerance: false });
-        if (!first.ok) return true;
-        accepted++;
-        const shown = formatValue(first.value, first.unit, { digits: 12 });
-        const again = parseValue(shown, { expected: first.unit, allowTolerance: false });
-        return again.ok && again.value === first.value && again.unit === first.unit;
-      }),
+      fc.property(
+        fc.oneof(candidate, shaped, shaped, fc.double({ noNaN: true, noDefaultInfinity: true }).map(String)),
+        fc.constantFrom<Unit | undefined>(...units, undefined),
+        fc.boolean(),
+        (text, unit, decimalComma) => {
+          const first = parseValue(text, { ...(unit ? { expected: unit } : {}), decimalComma, allowTolerance: false });
+          if (!first.ok) return true;
+          accepted++;
+          const shown = formatValue(first.value, first.unit, { digits: 12 });
+          const again = parseValue(shown, { expected: first.unit, allowTolerance: false });
+          return again.ok && again.value === first.value && again.unit === first.unit;
+        },
+      ),
       { numRuns: 4000 },
     );
     // The property is only worth something if the generator reaches accepted values often.

@@ -22,7 +22,11 @@ export interface BatchPanelProps {
 export function BatchPanel({ check: c, panel, outlierSelected, height, width }: BatchPanelProps) {
   // Charts of 10,000 boards are drawn once per check and size, not on every key.
   const chart = useMemo(() => {
-    if (panel === 'histogram') return histogramChart(c.points.map((p) => p.value), { width, height: Math.max(1, height - 4), band: c.band, nominal: c.nominal, unit: c.unit });
+    if (panel === 'histogram')
+      return histogramChart(
+        c.points.map((p) => p.value),
+        { width, height: Math.max(1, height - 4), band: c.band, nominal: c.nominal, unit: c.unit },
+      );
     if (panel === 'trend') {
       const labelWidth = 11;
       const series = trendOf(c.points, Math.max(2, width - labelWidth - 3));
@@ -39,7 +43,10 @@ export function BatchPanel({ check: c, panel, outlierSelected, height, width }: 
       {c.outliers.slice(start, end).map((o, i) => (
         <Text key={o.serial} inverse={start + i === outlierSelected}>
           {start + i === outlierSelected ? pointer : ' '}
-          {cell(`${cell(o.serial, 14)} ${cell(formatFigure(o.value, c.unit), 12, 'right')}  ${o.reasons.join(', ')}${o.z !== null ? `, z = ${o.z.toFixed(1)}` : ''}  ${o.at.slice(0, 16).replace('T', ' ')}`, width - 1)}
+          {cell(
+            `${cell(o.serial, 14)} ${cell(formatFigure(o.value, c.unit), 12, 'right')}  ${o.reasons.join(', ')}${o.z !== null ? `, z = ${o.z.toFixed(1)}` : ''}  ${o.at.slice(0, 16).replace('T', ' ')}`,
+            width - 1,
+          )}
         </Text>
       ))}
     </Box>

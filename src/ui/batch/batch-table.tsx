@@ -27,7 +27,10 @@ export function BatchTable({ rows, selected, height, width }: BatchTableProps) {
   const { start, end } = scrollWindow(rows.length, selected, height, selected - Math.floor(height / 2));
   return (
     <Box flexDirection="column">
-      <Text bold wrap="truncate-end">{` ${cell('weakest first', checkWidth)}${cell('n', 6, 'right')}${cell('pass', 6, 'right')}${cell('marg', 6, 'right')}${cell('fail', 6, 'right')}${cell('final', 7, 'right')}${cell('Cp', 6, 'right')}${cell('Cpk', 6, 'right')}  capability`}</Text>
+      <Text
+        bold
+        wrap="truncate-end"
+      >{` ${cell('weakest first', checkWidth)}${cell('n', 6, 'right')}${cell('pass', 6, 'right')}${cell('marg', 6, 'right')}${cell('fail', 6, 'right')}${cell('final', 7, 'right')}${cell('Cp', 6, 'right')}${cell('Cpk', 6, 'right')}  capability`}</Text>
       {rows.slice(start, end).map((c, i) => {
         const isSelected = start + i === selected;
         const w = word(c);

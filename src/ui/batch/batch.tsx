@@ -30,7 +30,8 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
   const note = figures ? `${figures.boards} boards · first-pass ${formatPercent(figures.firstPassYield)} · final ${formatPercent(figures.finalYield)}` : '';
   let body;
   if (state.isHelpOpen) body = <HelpBox title="batch" entries={batchHelp} notes={batchNotes} width={width} />;
-  else if (state.form && isFormHelpOpen) body = <HelpBox title="batch" topic="the filter form" entries={filterFormHelp} notes={filterFormNotes} width={width} />;
+  else if (state.form && isFormHelpOpen)
+    body = <HelpBox title="batch" topic="the filter form" entries={filterFormHelp} notes={filterFormNotes} width={width} />;
   else if (state.form) body = <FilterForm form={state.form} cursor={cursor} width={width} />;
   else if (state.status === 'error') body = <Text {...toneProps('bad')}>Cannot review the batch: {state.message}</Text>;
   else if (state.status !== 'ready' || !figures) {
@@ -47,7 +48,9 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
         <Text wrap="truncate-end">
           {batchPanels.map((p) => (
             <Text key={p} inverse={p === state.panel} bold={p === state.panel}>
-              {p === state.panel ? `[${panelLabel[p]}${p === 'outliers' ? ` (${check.outliers.length})` : ''}]` : ` ${panelLabel[p]}${p === 'outliers' ? ` (${check.outliers.length})` : ''} `}
+              {p === state.panel
+                ? `[${panelLabel[p]}${p === 'outliers' ? ` (${check.outliers.length})` : ''}]`
+                : ` ${panelLabel[p]}${p === 'outliers' ? ` (${check.outliers.length})` : ''} `}
             </Text>
           ))}
           <Text {...toneProps('dim')}>{check.note ? `  ${check.note}` : ''}</Text>
@@ -58,7 +61,11 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
   return (
     <Box flexDirection="column" width={width} height={height}>
       <Header screen="batch" detail={describeFilter(state.filter)} note={note} width={width} />
-      {figures && figures.problems.length > 0 ? <Text {...toneProps('warn')} wrap="truncate-end">! {figures.problems[0]?.message}</Text> : null}
+      {figures && figures.problems.length > 0 ? (
+        <Text {...toneProps('warn')} wrap="truncate-end">
+          ! {figures.problems[0]?.message}
+        </Text>
+      ) : null}
       <Box flexDirection="column" flexGrow={1}>
         {body}
       </Box>

@@ -151,7 +151,13 @@ export function useBatchState(log: BenchLog, targetsCache?: TargetsCache) {
     if (!current) return;
     let isCurrent = true;
     dispatch({ type: 'scanning' });
-    scanBatch(current, bands, state.filter, (done, total) => isCurrent && dispatch({ type: 'progress', done, total, what: 'scanning boards' }), () => !isCurrent).then(
+    scanBatch(
+      current,
+      bands,
+      state.filter,
+      (done, total) => isCurrent && dispatch({ type: 'progress', done, total, what: 'scanning boards' }),
+      () => !isCurrent,
+    ).then(
       (figures) => isCurrent && figures && dispatch({ type: 'figures', figures }),
       (error: unknown) => isCurrent && dispatch({ type: 'failed', message: error instanceof Error ? error.message : String(error) }),
     );

@@ -18,7 +18,10 @@ export const benchHelp: readonly HelpEntry[] = [
 const benchCaution =
   'Before first power: check the rails for shorts unpowered, mind polarity, and power up through a current-limited supply. Parts can run hot and capacitors stay charged after power-off. Anything mains-powered: follow local codes and licensed practice.';
 
-export const benchNotes: readonly string[] = ['States: · untouched  ▶ in progress  ✓ passed  ✗ failed  ↻ reworked (rework noted after a failed run).', benchCaution];
+export const benchNotes: readonly string[] = [
+  'States: · untouched  ▶ in progress  ✓ passed  ✗ failed  ↻ reworked (rework noted after a failed run).',
+  benchCaution,
+];
 
 export const benchKeys: readonly KeyHint[] = [
   ['↑↓', 'move'],
@@ -43,10 +46,7 @@ export function benchHelpFor(from: DialogMode): { readonly topic?: string; reado
           ['Esc / n', 'back to the boards; nothing is written to the log'],
           ['?', 'this help'],
         ],
-        notes: [
-          'A new run keeps the board’s earlier runs in its history; its readings start afresh.',
-          benchCaution,
-        ],
+        notes: ['A new run keeps the board’s earlier runs in its history; its readings start afresh.', benchCaution],
       };
     case 'choose-plan':
       return {

@@ -53,7 +53,8 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
       ) : null}
       {state.damaged.length > 0 ? (
         <Text wrap="truncate-end" {...toneProps('bad')}>
-          ✗ {state.damaged.length === 1 ? '1 board file cannot be read' : `${state.damaged.length} board files cannot be read`} (left untouched): {state.damaged[0]?.message}
+          ✗ {state.damaged.length === 1 ? '1 board file cannot be read' : `${state.damaged.length} board files cannot be read`} (left untouched):{' '}
+          {state.damaged[0]?.message}
         </Text>
       ) : null}
       {state.loadError ? <Text {...toneProps('bad')}>✗ {state.loadError}</Text> : null}
@@ -63,7 +64,13 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
         <BoardList boards={boards} start={view.start} rows={listRows} selected={selected} width={width} />
       )}
       {mode.kind === 'new-serial' ? (
-        <SerialEntry isActive={isActive} onHelp={() => state.setMode({ kind: 'help', from: mode })} onSubmit={state.submitSerial} onChange={() => state.setMessage(null)} onCancel={() => state.setMode({ kind: 'list' })} />
+        <SerialEntry
+          isActive={isActive}
+          onHelp={() => state.setMode({ kind: 'help', from: mode })}
+          onSubmit={state.submitSerial}
+          onChange={() => state.setMessage(null)}
+          onCancel={() => state.setMode({ kind: 'list' })}
+        />
       ) : null}
       {mode.kind === 'choose-plan' ? <PlanChoices serial={mode.serial} choices={mode.choices} selected={mode.selected} width={width} /> : null}
       {mode.kind === 'confirm-run' ? (
@@ -75,7 +82,13 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
         </Box>
       ) : null}
       {mode.kind === 'filter' ? (
-        <BoardFilter initial={state.filter} onHelp={() => state.setMode({ kind: 'help', from: mode })} onChange={state.setFilter} onDone={() => state.setMode({ kind: 'list' })} isActive={isActive} />
+        <BoardFilter
+          initial={state.filter}
+          onHelp={() => state.setMode({ kind: 'help', from: mode })}
+          onChange={state.setFilter}
+          onDone={() => state.setMode({ kind: 'list' })}
+          isActive={isActive}
+        />
       ) : null}
       {mode.kind === 'busy' ? <Text>{mode.what}</Text> : null}
       {message ? (

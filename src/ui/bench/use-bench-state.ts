@@ -52,18 +52,20 @@ export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTarg
     // boards); the BenchLog interface leaves the callback out, so pass it loosely:
     // a log that takes no callback ignores it.
     const readIndex = log.readIndex as (onProgress?: (done: number, total: number) => void) => Promise<LogIndex>;
-    readIndex.call(log, (done, total) => mounted.current && setProgress({ done, total })).then(
-      (ix) => {
-        if (!mounted.current) return;
-        setIndex(ix);
-        const serial = arrival.current;
-        if (serial) {
-          const at = orderBoards(Object.values(ix.boards)).findIndex((b) => b.serial === serial);
-          if (at >= 0) setSelected(at);
-        }
-      },
-      (error: unknown) => mounted.current && setLoadError(error instanceof Error ? error.message : String(error)),
-    );
+    readIndex
+      .call(log, (done, total) => mounted.current && setProgress({ done, total }))
+      .then(
+        (ix) => {
+          if (!mounted.current) return;
+          setIndex(ix);
+          const serial = arrival.current;
+          if (serial) {
+            const at = orderBoards(Object.values(ix.boards)).findIndex((b) => b.serial === serial);
+            if (at >= 0) setSelected(at);
+          }
+        },
+        (error: unknown) => mounted.current && setLoadError(error instanceof Error ? error.message : String(error)),
+      );
   }, [log]);
 
   const all = useMemo(() => (index ? orderBoards(Object.values(index.boards)) : []), [index]);
@@ -82,8 +84,7 @@ export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTarg
     setMessage({ text: error instanceof Error ? error.message : String(error), tone: 'error' });
   };
 
-  const noPlan = (serial: string) =>
-    `no plan for ${serial}: its plan is neither given with --plan nor kept in the log; restart with --plan FILE`;
+  const noPlan = (serial: string) => `no plan for ${serial}: its plan is neither given with --plan nor kept in the log; restart with --plan FILE`;
 
   /** Enter on a board: resume its unfinished run, else offer a new run with its plan. */
   const openSelected = useCallback(() => {

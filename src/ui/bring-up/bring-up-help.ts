@@ -7,7 +7,7 @@ export const bringUpHelp: readonly HelpEntry[] = [
   ['↑↓ j k', 'move in the stage list; Enter picks the check'],
   ['r', 'note a rework (part, from, to, note); the reworked stage is measured again'],
   ['a', 'attach a capture file to the check'],
-  ['m', "read the check from its bench instrument (SCPI; Esc cancels the wait)"],
+  ['m', 'read the check from its bench instrument (SCPI; Esc cancels the wait)'],
   ['M', 'five readings from the instrument, recorded as their mean (their spread widens the guard band)'],
   ['e', 'end the run (passed once every check reads, failed, aborted)'],
   ['Esc', 'clear the input, or go back to the bench'],
@@ -20,11 +20,17 @@ export const bringUpNotes: readonly string[] = [
 ];
 
 /** What `?` shows: the screen's help, or the help of the dialog it was pressed in. */
-export function bringUpHelpFor(from: string, isPowerOff: boolean): { readonly topic?: string; readonly entries: readonly HelpEntry[]; readonly notes: readonly string[] } {
+export function bringUpHelpFor(
+  from: string,
+  isPowerOff: boolean,
+): { readonly topic?: string; readonly entries: readonly HelpEntry[]; readonly notes: readonly string[] } {
   if (isPowerOff)
     return {
       topic: 'power off',
-      entries: [['Enter', 'confirm the supply is off; the run goes on at the checks before power'], ['?', 'this help']],
+      entries: [
+        ['Enter', 'confirm the supply is off; the run goes on at the checks before power'],
+        ['?', 'this help'],
+      ],
       notes: [
         'The idle current was above the plan’s limit: switch the supply off before touching the board. Look for a short, a reversed part or a wrong rail before powering it again, through a current-limited supply.',
         'Parts may be hot and capacitors charged. Anything mains-powered: follow local codes and licensed practice.',

@@ -15,7 +15,7 @@ export const cautions: readonly string[] = [
 /** The same cautions in a few words each, for terminals too small for the full text. */
 export const shortCautions: readonly string[] = [
   'First power: a current-limited supply only.',
-  'Check every rail\'s polarity before connecting.',
+  "Check every rail's polarity before connecting.",
   'Hot parts burn: wait or measure before touching.',
   'Discharge big capacitors before touching.',
   'Mains: covers on, isolated supply, no earthed probe.',

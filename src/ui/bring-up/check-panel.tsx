@@ -40,7 +40,9 @@ function CheckPanelView({ plan, target, scope, lock, width }: CheckPanelProps) {
         how: {target.how}
       </Text>
       <Text wrap="truncate-end">
-        {isLimit ? `limit ${formatBand(target.worst, target.unit)} (a safety limit, no nominal)` : `nominal ${nominal} · worst-case ${formatBand(target.worst, target.unit)}`}
+        {isLimit
+          ? `limit ${formatBand(target.worst, target.unit)} (a safety limit, no nominal)`
+          : `nominal ${nominal} · worst-case ${formatBand(target.worst, target.unit)}`}
       </Text>
       <Text wrap="truncate-end">
         statistical {formatBand(target.stat, target.unit)} · {guardBand(plan, target)}

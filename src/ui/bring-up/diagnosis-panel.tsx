@@ -19,7 +19,8 @@ export interface DiagnosisPanelProps {
 function DiagnosisPanelView({ diagnosis, hints, maxLines, width }: DiagnosisPanelProps) {
   const lines: { key: string; text: string; tone?: 'dim' | 'warn' | 'accent' }[] = [];
   diagnosis.hypotheses.slice(0, 3).forEach((h) => {
-    const also = h.alternatives.length > 0 ? ` (or ${h.alternatives.map((a) => (a.part === h.part && a.variantWords ? a.variantWords : a.part)).join(', ')})` : '';
+    const also =
+      h.alternatives.length > 0 ? ` (or ${h.alternatives.map((a) => (a.part === h.part && a.variantWords ? a.variantWords : a.part)).join(', ')})` : '';
     lines.push({ key: `h${h.rank}`, text: `${h.rank}. ${Math.round(h.score * 100)} % ${h.short}${also}` });
   });
   if (diagnosis.hypotheses.length === 0 && diagnosis.unexplained.length > 0) {

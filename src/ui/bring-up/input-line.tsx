@@ -43,7 +43,8 @@ function Measuring({ status }: { readonly status: Extract<Status, { kind: 'measu
   const which = status.of > 1 ? ` ${status.count + 1} of ${status.of}` : '';
   return (
     <Text wrap="truncate-end" {...toneProps('accent')}>
-      reading {status.instrument}{which} ({status.query})… {elapsed} s · Esc cancels
+      reading {status.instrument}
+      {which} ({status.query})… {elapsed} s · Esc cancels
     </Text>
   );
 }

@@ -5,7 +5,13 @@ import type { ReworkFields } from './screen-state.js';
 import type { ExplanationView } from './verdict-panel.js';
 
 /** What was found, for the note's "from" when the fault is not a value. */
-const faultWords: Readonly<Record<Hypothesis['mode'], string>> = { value: 'wrong value', reversed: 'fitted backwards', open: 'open', short: 'shorted', missing: 'not fitted' };
+const faultWords: Readonly<Record<Hypothesis['mode'], string>> = {
+  value: 'wrong value',
+  reversed: 'fitted backwards',
+  open: 'open',
+  short: 'shorted',
+  missing: 'not fitted',
+};
 
 /** The fitted value of a part as the plan wrote it, or its rail's, or empty. */
 function fittedText(plan: Plan, part: string): string {
@@ -22,7 +28,10 @@ function fittedText(plan: Plan, part: string): string {
 export function reworkDefaults(plan: Plan, explanations: readonly ExplanationView[], top?: Hypothesis): ReworkFields {
   if (top) {
     // "to" is what the technician fits: left for them; the note starts with what the diagnosis said.
-    const found = top.mode === 'value' && top.value !== null && top.unit ? `${formatValue(top.value, top.unit)} found` : `${top.mode}${top.variantWords ? `, ${top.variantWords}` : ''}`;
+    const found =
+      top.mode === 'value' && top.value !== null && top.unit
+        ? `${formatValue(top.value, top.unit)} found`
+        : `${top.mode}${top.variantWords ? `, ${top.variantWords}` : ''}`;
     const from = top.mode === 'value' ? fittedText(plan, top.part) : `${top.ref ?? 'part'} ${faultWords[top.mode]}`;
     return { part: top.part, from, to: '', note: `diagnosis ${found} (${Math.round(top.score * 100)} %); ` };
   }

@@ -27,7 +27,9 @@ export function ReworkForm({ fields, field, cursor, error, isSaving, parts, widt
       </Text>
       {reworkFieldNames.map((name) => (
         <Text key={name} wrap="truncate-start">
-          <Text bold>{name === field ? '›' : ' '} {labels[name].padEnd(5)}</Text>
+          <Text bold>
+            {name === field ? '›' : ' '} {labels[name].padEnd(5)}
+          </Text>
           <FieldText value={fields[name]} cursor={name === field ? cursor : fields[name].length} isFocused={name === field && !isSaving} />
         </Text>
       ))}

@@ -20,7 +20,9 @@ export function CautionsPanel({ width, height, isResumed }: { readonly width: nu
           • {c}
         </Text>
       ))}
-      <Text bold wrap="truncate-end">{width >= 80 ? 'Enter: I have read these — start with the unpowered checks · Esc: back' : 'Enter: read — start unpowered checks · Esc: back'}</Text>
+      <Text bold wrap="truncate-end">
+        {width >= 80 ? 'Enter: I have read these — start with the unpowered checks · Esc: back' : 'Enter: read — start unpowered checks · Esc: back'}
+      </Text>
     </Box>
   );
 }
@@ -43,7 +45,17 @@ export function PowerOffPanel({ width, reading }: { readonly width: number; read
 }
 
 /** The offer to end the run, with the outcomes allowed now. */
-export function EndPanel({ options, cursor, width, isAllMeasured }: { readonly options: readonly string[]; readonly cursor: number; readonly width: number; readonly isAllMeasured: boolean }) {
+export function EndPanel({
+  options,
+  cursor,
+  width,
+  isAllMeasured,
+}: {
+  readonly options: readonly string[];
+  readonly cursor: number;
+  readonly width: number;
+  readonly isAllMeasured: boolean;
+}) {
   return (
     <Box flexDirection="column" borderStyle="single" paddingX={1} width={width}>
       <Text bold {...toneProps('title')}>

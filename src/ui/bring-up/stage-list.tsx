@@ -40,7 +40,10 @@ function StageListView({ state, cursor, isFocused = false, width, height }: Stag
     }
     rows.push({ index });
   });
-  const at = Math.max(0, rows.findIndex((r) => 'index' in r && r.index === cursor));
+  const at = Math.max(
+    0,
+    rows.findIndex((r) => 'index' in r && r.index === cursor),
+  );
   // Keep a third of the rows above the cursor in view: its stage heading and what was just measured.
   const { start, end } = scrollWindow(rows.length, at, height, Math.max(0, at - Math.floor(height / 3)));
   return (

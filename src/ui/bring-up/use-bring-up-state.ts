@@ -112,7 +112,16 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
       void (async () => {
         try {
           const run = await ensureRun();
-          const input = { run, check: t.check, value: assessed.value, unit: assessed.unit, raw: assessed.raw, operator, verdict: assessed.result.verdict, planHash: plan.hash };
+          const input = {
+            run,
+            check: t.check,
+            value: assessed.value,
+            unit: assessed.unit,
+            raw: assessed.raw,
+            operator,
+            verdict: assessed.result.verdict,
+            planHash: plan.hash,
+          };
           const saved = await log.appendReading(serial, assessed.result.warnings.length > 0 ? { ...input, warnings: assessed.result.warnings } : input);
           dispatch({ type: 'record-reading', reading: toRunReading(saved) });
           setStatus({ kind: 'saved', id: saved.id });
@@ -127,17 +136,19 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
     [targets, plan, log, serial, operator, ensureRun],
   );
 
-
   /** Select a check; returns why it cannot be selected, or null. */
-  const select = useCallback((check: string): string | null => {
-    const reason = lockReason(stateRef.current, check);
-    if (reason) setStatus({ kind: 'rejected', message: `${check} is locked: ${reason}` });
-    else {
-      dispatch({ type: 'select-check', check });
-      setStatus({ kind: 'idle' });
-    }
-    return reason;
-  }, [dispatch, stateRef]);
+  const select = useCallback(
+    (check: string): string | null => {
+      const reason = lockReason(stateRef.current, check);
+      if (reason) setStatus({ kind: 'rejected', message: `${check} is locked: ${reason}` });
+      else {
+        dispatch({ type: 'select-check', check });
+        setStatus({ kind: 'idle' });
+      }
+      return reason;
+    },
+    [dispatch, stateRef],
+  );
 
   const acceptSuggestion = useCallback(() => {
     const next = stateRef.current.suggestion;
@@ -149,7 +160,8 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
     async (fields: ReworkFields): Promise<string | null> => {
       const part = fields.part.trim();
       const stages = [...plan.stages.map((s) => s.id), 'rails'];
-      if (!stages.includes(part.split('.')[0] ?? '') || !part.includes('.')) return `part must be <stage>.<part>, e.g. ${knownParts(plan)[0] ?? 'osc.Ct'}; stages: ${stages.join(', ')}`;
+      if (!stages.includes(part.split('.')[0] ?? '') || !part.includes('.'))
+        return `part must be <stage>.<part>, e.g. ${knownParts(plan)[0] ?? 'osc.Ct'}; stages: ${stages.join(', ')}`;
       if (fields.to.trim() === '') return 'say what the part is now (to), e.g. "2n2"';
       try {
         const run = await ensureRun();
@@ -191,10 +203,17 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
         const where = outputOf(plan, t);
         const periods = capture.measurements.frequency ? Math.round((2 * capture.sampleRate) / capture.measurements.frequency) : capture.samples.length;
         // The averaged period (from CaptureAttach) is lined up with the expected trace when drawn; else two raw periods.
-        const drawn = capture.period && capture.period.length > 1 ? capture.period : capture.samples.slice(0, Math.max(2, Math.min(capture.samples.length, periods)));
+        const drawn =
+          capture.period && capture.period.length > 1 ? capture.period : capture.samples.slice(0, Math.max(2, Math.min(capture.samples.length, periods)));
         if (where) setCaptures((m) => new Map(m).set(where, drawn));
         if (where && capture.period && capture.period.length > 1) aligned.current.add(where);
-        const planned = captureReadings(plan, targets.targets, t, { name: capture.name, figures: capture.measurements }, (check) => lockReason(stateRef.current, check) === null);
+        const planned = captureReadings(
+          plan,
+          targets.targets,
+          t,
+          { name: capture.name, figures: capture.measurements },
+          (check) => lockReason(stateRef.current, check) === null,
+        );
         if (planned.length === 0) {
           setStatus({ kind: 'rejected', message: `the capture has no figure for ${t.check}; it is saved as ${file}` });
           return;
@@ -230,7 +249,12 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
       const source = instruments;
       const pick = source?.pick(t.check, t.unit, t.captureFigure) ?? null;
       if (!source || !pick) {
-        setStatus({ kind: 'rejected', message: source ? `no instrument covers ${t.check} (${t.unit}): add its id or unit to an instrument's queries` : 'no instruments file: see probebook instruments --help (or start a simulated bench)' });
+        setStatus({
+          kind: 'rejected',
+          message: source
+            ? `no instrument covers ${t.check} (${t.unit}): add its id or unit to an instrument's queries`
+            : 'no instruments file: see probebook instruments --help (or start a simulated bench)',
+        });
         return false;
       }
       const locked = lockReason(s, t.check);
@@ -250,7 +274,17 @@ export function useBringUpState({ plan, targets, serial, operator, log, resumeRu
             const record = await source.capture(pick.name, abort.signal);
             const { measurements, period } = measureRecord(record.samples, record.sampleRate);
             busy.current = false;
-            await attachCapture({ name: `${pick.name}-${t.check}.csv`, bytes: captureCsv(record.samples, record.sampleRate), measurements, samples: record.samples, sampleRate: record.sampleRate, ...(period && period.length > 1 ? { period } : {}) }, expectedShape);
+            await attachCapture(
+              {
+                name: `${pick.name}-${t.check}.csv`,
+                bytes: captureCsv(record.samples, record.sampleRate),
+                measurements,
+                samples: record.samples,
+                sampleRate: record.sampleRate,
+                ...(period && period.length > 1 ? { period } : {}),
+              },
+              expectedShape,
+            );
             return;
           }
           const values: number[] = [];

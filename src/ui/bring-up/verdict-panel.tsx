@@ -46,7 +46,7 @@ function position(result: VerdictResult): string {
 /** The verdict on the latest reading: word and mark, deviation, and on a fail or marginal the likely causes. */
 function VerdictPanelView({ reading, target, result, explanations, hints, maxLines, width }: VerdictPanelProps) {
   // A one-sided band (a limit, such as ≥ 100 Ω to ground or ≤ 30 mA idle) has no width to sit in.
-  const isLimit = !Number.isFinite(target.worst.min) || !Number.isFinite(target.worst.max) || target.worst.min === 0 && target.phase === 'first-power';
+  const isLimit = !Number.isFinite(target.worst.min) || !Number.isFinite(target.worst.max) || (target.worst.min === 0 && target.phase === 'first-power');
   const gauge = isLimit ? null : bandGauge(result.position);
   const where = isLimit
     ? `${reading.verdict === 'pass' ? 'within' : reading.verdict === 'fail' ? 'beyond' : 'at'} the limit ${formatBand(target.worst, target.unit)}`
@@ -61,7 +61,8 @@ function VerdictPanelView({ reading, target, result, explanations, hints, maxLin
         <Text bold {...toneProps(verdictTone[reading.verdict])}>
           {verdictMark[reading.verdict]} {reading.verdict.toUpperCase()}
         </Text>{' '}
-        {reading.check} = {formatReading(reading.value, reading.unit)} <Text {...toneProps('dim')}>(±{formatValue(result.uncertainty, target.unit, { digits: 3 })}) saved ✓</Text>
+        {reading.check} = {formatReading(reading.value, reading.unit)}{' '}
+        <Text {...toneProps('dim')}>(±{formatValue(result.uncertainty, target.unit, { digits: 3 })}) saved ✓</Text>
       </Text>
       <Text wrap="truncate-end">
         {gauge ? `${gauge} ` : ''}
@@ -74,7 +75,8 @@ function VerdictPanelView({ reading, target, result, explanations, hints, maxLin
       ))}
       {shownExplanations.map((e) => (
         <Text key={e.part} wrap="truncate-end">
-          • {e.part} {likelyWord[e.likely] ?? e.likely}: would be {formatValue(e.wouldBe, e.unit, { digits: 3 })} (fitted {formatValue(e.fitted, e.unit, { digits: 3 })})
+          • {e.part} {likelyWord[e.likely] ?? e.likely}: would be {formatValue(e.wouldBe, e.unit, { digits: 3 })} (fitted{' '}
+          {formatValue(e.fitted, e.unit, { digits: 3 })})
         </Text>
       ))}
       {shownHints.map((h) => (

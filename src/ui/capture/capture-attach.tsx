@@ -62,7 +62,14 @@ export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd =
     const current = latest.current.phase;
     if (current.kind !== 'done') return;
     const { analyzed, path } = current;
-    onDone({ path, bytes: analyzed.bytes ?? new Uint8Array(0), measurements: analyzed.measurements, samples: analyzed.channel.samples, sampleRate: analyzed.capture.sampleRate, period: analyzed.period });
+    onDone({
+      path,
+      bytes: analyzed.bytes ?? new Uint8Array(0),
+      measurements: analyzed.measurements,
+      samples: analyzed.channel.samples,
+      sampleRate: analyzed.capture.sampleRate,
+      period: analyzed.period,
+    });
   };
   useCaptureAttachKeys(latest, field, { back, attach, toggleHelp, isHelpOpen: () => helpRef.current }, isActive);
 
@@ -73,7 +80,13 @@ export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd =
       <Box flexDirection="column">
         <Text bold>Reading {phase.path}</Text>
         <Text>{progressBar(phase.fraction, Math.min(40, width - 10))}</Text>
-        <KeyBar hints={[['Esc', 'stop waiting'], ['?', 'help']]} width={width} />
+        <KeyBar
+          hints={[
+            ['Esc', 'stop waiting'],
+            ['?', 'help'],
+          ]}
+          width={width}
+        />
       </Box>
     );
   }
@@ -86,12 +99,37 @@ export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd =
       // last, is what gets cut, and the keys stay above it.
       <Box flexDirection="column" flexShrink={0}>
         {/* One row each: a line wrapped inside the bring-up panel's fixed height would be drawn over the next. */}
-        <Text bold wrap="truncate-middle">{analyzed.capture.source}, channel {analyzed.channel.name}</Text>
-        {summaryLines(m).map((line) => <Text key={line} wrap="truncate-end">{line}</Text>)}
-        {mismatch ? <Text wrap="truncate-end" {...toneProps('warn')}>⚠ {mismatch.message}</Text> : null}
-        {otherChannels(analyzed) ? <Text wrap="truncate-end" {...toneProps('dim')}>{otherChannels(analyzed)}</Text> : null}
-        {m.warnings.map((w) => <Text key={w} wrap="truncate-end" {...toneProps('dim')}>note: {w}</Text>)}
-        <KeyBar hints={[['Enter', 'attach these figures'], ['Esc', 'another file'], ['?', 'help']]} width={width} />
+        <Text bold wrap="truncate-middle">
+          {analyzed.capture.source}, channel {analyzed.channel.name}
+        </Text>
+        {summaryLines(m).map((line) => (
+          <Text key={line} wrap="truncate-end">
+            {line}
+          </Text>
+        ))}
+        {mismatch ? (
+          <Text wrap="truncate-end" {...toneProps('warn')}>
+            ⚠ {mismatch.message}
+          </Text>
+        ) : null}
+        {otherChannels(analyzed) ? (
+          <Text wrap="truncate-end" {...toneProps('dim')}>
+            {otherChannels(analyzed)}
+          </Text>
+        ) : null}
+        {m.warnings.map((w) => (
+          <Text key={w} wrap="truncate-end" {...toneProps('dim')}>
+            note: {w}
+          </Text>
+        ))}
+        <KeyBar
+          hints={[
+            ['Enter', 'attach these figures'],
+            ['Esc', 'another file'],
+            ['?', 'help'],
+          ]}
+          width={width}
+        />
         <Text>{traceChart(null, capturedWindow(analyzed.channel.samples, analyzed.capture.sampleRate, m.frequency, 3), { width, height: 8 })}</Text>
       </Box>
     );
@@ -99,10 +137,24 @@ export function CaptureAttach({ onDone, onCancel, expect, isActive = true, cwd =
   return (
     <Box flexDirection="column">
       <Text bold>Attach a capture (CSV or WAV){expect ? `, expecting a ${expect}` : ''}</Text>
-      <TextField label="file" value={field.value} cursor={field.cursor} placeholder="path, then --dt 1us / --scale 10 / --channel 2 if needed" isFocused={isActive} />
+      <TextField
+        label="file"
+        value={field.value}
+        cursor={field.cursor}
+        placeholder="path, then --dt 1us / --scale 10 / --channel 2 if needed"
+        isFocused={isActive}
+      />
       {state.candidates.length > 0 ? <Text {...toneProps('dim')}>{state.candidates.join('  ')}</Text> : null}
       {state.message ? <Text {...toneProps('warn')}>{state.message}</Text> : null}
-      <KeyBar hints={[['Tab', 'complete'], ['Enter', 'read'], ['Esc', 'cancel'], ['?', 'help']]} width={width} />
+      <KeyBar
+        hints={[
+          ['Tab', 'complete'],
+          ['Enter', 'read'],
+          ['Esc', 'cancel'],
+          ['?', 'help'],
+        ]}
+        width={width}
+      />
     </Box>
   );
 }

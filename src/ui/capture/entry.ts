@@ -16,7 +16,8 @@ export function parseEntry(text: string): Entry {
     if (name === 'channel') options.channel = value;
     else {
       const parsed = parseValue(value, { expected: name === 'dt' ? 's' : 'V', allowTolerance: false });
-      if (!parsed.ok || !(parsed.value > 0)) return { ok: false, message: `--${name} ${value}: give a positive ${name === 'dt' ? 'time, e.g. 1us' : 'voltage, e.g. 10'}` };
+      if (!parsed.ok || !(parsed.value > 0))
+        return { ok: false, message: `--${name} ${value}: give a positive ${name === 'dt' ? 'time, e.g. 1us' : 'voltage, e.g. 10'}` };
       if (name === 'dt') options.dt = parsed.value;
       else options.scale = parsed.value;
     }

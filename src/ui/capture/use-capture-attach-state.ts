@@ -28,12 +28,20 @@ export function useCaptureAttachState(cwd: string) {
   useEffect(() => () => void (readId.current += 1), []);
 
   /** The path was edited: the last completion's names and message no longer apply. */
-  const edited = useCallback(() => setState((s) => (s.candidates.length === 0 && s.message === null ? s : { ...s, candidates: [], message: null })), [setState]);
+  const edited = useCallback(
+    () => setState((s) => (s.candidates.length === 0 && s.message === null ? s : { ...s, candidates: [], message: null })),
+    [setState],
+  );
   /** Complete the typed path (Tab); returns the completed text. */
   const complete = useCallback(
     (text: string): string => {
       const c = completePath(text, cwd);
-      const message = c.matches === 0 ? 'nothing there starts with that' : c.matches > c.candidates.length && c.candidates.length > 0 ? `${c.matches} names fit; type more` : null;
+      const message =
+        c.matches === 0
+          ? 'nothing there starts with that'
+          : c.matches > c.candidates.length && c.candidates.length > 0
+            ? `${c.matches} names fit; type more`
+            : null;
       setState((s) => ({ ...s, candidates: c.candidates, message }));
       return c.text;
     },

@@ -15,7 +15,10 @@ export function capturedWindow(samples: Float64Array, sampleRate: number, freque
 }
 
 /** A hint naming the channels not shown, or null for a one-channel capture. */
-export function otherChannels(analyzed: { readonly capture: { readonly channels: readonly { readonly name: string }[] }; readonly channel: { readonly name: string } }): string | null {
+export function otherChannels(analyzed: {
+  readonly capture: { readonly channels: readonly { readonly name: string }[] };
+  readonly channel: { readonly name: string };
+}): string | null {
   const { channels } = analyzed.capture;
   if (channels.length < 2) return null;
   const others = channels.map((c, i) => ({ c, i })).filter(({ c }) => c !== analyzed.channel);

@@ -71,17 +71,12 @@ interface Layer {
  * arrays that cover the same time (e.g. the same number of periods). Long
  * captures are decimated with min/max per column so peaks survive.
  */
-export function traceChart(
-  expected: Float64Array | null,
-  captured: Float64Array | null,
-  options: TraceChartOptions,
-): string {
+export function traceChart(expected: Float64Array | null, captured: Float64Array | null, options: TraceChartOptions): string {
   const { unit = 'V', legend = true, band } = options;
   const rows = Math.max(2, Math.floor(options.height) - (legend ? 1 : 0));
   const columns = Math.max(2, Math.floor(options.width) - prefixWidth);
   const layers: Layer[] = [];
-  const levelSeries = (limit: number | Float64Array): Float64Array =>
-    typeof limit === 'number' ? new Float64Array(columns).fill(limit) : limit;
+  const levelSeries = (limit: number | Float64Array): Float64Array => (typeof limit === 'number' ? new Float64Array(columns).fill(limit) : limit);
   if (band) {
     layers.push({ envelope: minMaxColumns(levelSeries(band.min), columns), flat: '┄', steep: '┆' });
     layers.push({ envelope: minMaxColumns(levelSeries(band.max), columns), flat: '┄', steep: '┆' });
@@ -110,7 +105,13 @@ export function traceChart(
     return `${formatNumber(value, 3)}${unit}`.padStart(labelWidth).slice(-labelWidth);
   };
   const axis = plot([new Array<number>(columns + 1).fill(0)], {
-    min: 0, max: top, height: top, offset: 3, padding: ' '.repeat(labelWidth), symbols: axisOnly, format,
+    min: 0,
+    max: top,
+    height: top,
+    offset: 3,
+    padding: ' '.repeat(labelWidth),
+    symbols: axisOnly,
+    format,
   });
   const grid = axis.split('\n').map((line) => Array.from(line.padEnd(prefixWidth + columns)));
   for (const layer of layers) paint(grid, layer, toRow, top);

@@ -33,7 +33,8 @@ export function ConfirmQuit({ reason, onQuit, onStay, isActive = true }: Confirm
       </Text>
       {isHelpOpen ? (
         <Text wrap="wrap" {...toneProps('dim')}>
-          Help — quitting: y quits now and the half-typed text is lost; n, Esc or Enter goes back to it. Readings and rework notes already shown as saved are in the log and stay there. ? closes this help.
+          Help — quitting: y quits now and the half-typed text is lost; n, Esc or Enter goes back to it. Readings and rework notes already shown as saved are in
+          the log and stay there. ? closes this help.
         </Text>
       ) : null}
     </Box>

@@ -108,7 +108,8 @@ export function fieldSteps(input: string, key: Key): FieldStep[] {
     } else if (ch === '\u007F' || ch === '\b') {
       flush();
       const last = steps[steps.length - 1];
-      if (last?.kind === 'edit' && last.action.type === 'erase') steps[steps.length - 1] = { kind: 'edit', action: { type: 'erase', count: last.action.count + 1 } };
+      if (last?.kind === 'edit' && last.action.type === 'erase')
+        steps[steps.length - 1] = { kind: 'edit', action: { type: 'erase', count: last.action.count + 1 } };
       else steps.push({ kind: 'edit', action: { type: 'erase', count: 1 } });
     } else if (ch === '\u0015') {
       flush();

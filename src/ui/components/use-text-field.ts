@@ -1,6 +1,15 @@
 import { useCallback, useRef, useState } from 'react';
 import { type Key, useInput } from 'ink';
-import { defaultMaxLength, emptyField, type FieldStep, fieldSteps, fieldWith, type TextFieldAction, type TextFieldState, textFieldReducer } from './text-field-state.js';
+import {
+  defaultMaxLength,
+  emptyField,
+  type FieldStep,
+  fieldSteps,
+  fieldWith,
+  type TextFieldAction,
+  type TextFieldState,
+  textFieldReducer,
+} from './text-field-state.js';
 
 export interface TextFieldOptions {
   /** Called with the text on Enter (also an Enter inside a pasted chunk, with the text before it). */
@@ -30,7 +39,16 @@ export interface TextFieldOptions {
  * `textFieldReducer`. The state lives in a ref as well as in React state,
  * because two chunks can arrive before one render.
  */
-export function useTextField({ onSubmit, onCancel, onChange, onOtherKey, onHelp, initial = '', maxLength = defaultMaxLength, isActive = true }: TextFieldOptions) {
+export function useTextField({
+  onSubmit,
+  onCancel,
+  onChange,
+  onOtherKey,
+  onHelp,
+  initial = '',
+  maxLength = defaultMaxLength,
+  isActive = true,
+}: TextFieldOptions) {
   const [field, setField] = useState<TextFieldState>(() => (initial ? fieldWith(initial, maxLength) : emptyField));
   const latest = useRef(field);
   const handlers = useRef({ onSubmit, onCancel, onChange, onOtherKey, onHelp });

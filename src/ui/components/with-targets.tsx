@@ -71,7 +71,8 @@ export function WithTargets({ catalog, planHash, children, onExit, isActive = tr
       <Text {...toneProps('dim')}>Esc back · ? help</Text>
       {isHelpOpen ? (
         <Text wrap="wrap" {...toneProps('dim')}>
-          Help — the targets of a plan follow from its part values and tolerances: the worst case over the tolerance box and a seeded Monte Carlo. They are computed once per plan and kept in a cache, so the next visit opens at once. Esc goes back to the bench. ? closes this help.
+          Help — the targets of a plan follow from its part values and tolerances: the worst case over the tolerance box and a seeded Monte Carlo. They are
+          computed once per plan and kept in a cache, so the next visit opens at once. Esc goes back to the bench. ? closes this help.
         </Text>
       ) : null}
     </Box>

@@ -25,30 +25,45 @@ export function HistoryScreen({ log, serial, width, height, isActive = true, onE
   let body;
   if (state.isHelpOpen) body = <HelpBox title="history" entries={historyHelp} notes={historyNotes} width={width} />;
   else if (state.status === 'loading') body = <Text>Reading the board file of {serial}…</Text>;
-  else if (state.status === 'missing') body = <Text>No board {serial} in the log {log.dir}. Press Esc.</Text>;
-  else if (state.status === 'error') body = <Text {...toneProps('bad')}>Cannot read board {serial}: {state.message}</Text>;
+  else if (state.status === 'missing')
+    body = (
+      <Text>
+        No board {serial} in the log {log.dir}. Press Esc.
+      </Text>
+    );
+  else if (state.status === 'error')
+    body = (
+      <Text {...toneProps('bad')}>
+        Cannot read board {serial}: {state.message}
+      </Text>
+    );
   else if (!data) body = null;
   else if (state.view === 'target' && entry?.kind === 'reading') body = <TargetView entry={entry} bands={data.bands} />;
   else if (state.view === 'capture' && entry && (entry.kind === 'capture' || entry.kind === 'reading'))
     body = <CaptureView log={log} file={entry.kind === 'capture' ? entry.capture.file : (entry.reading.capture ?? null)} width={width} height={rows} />;
   else if (state.panel === 'rework') body = <ReworkPanel board={data.board} selected={state.reworkSelected} rows={rows} width={width} />;
   else body = <TimelineList entries={data.timeline} selected={state.selected} rows={rows} width={width} />;
-  const tabs = state.view === 'list' && data ? (
-    <Text>
-      <Text bold={state.panel === 'timeline'} inverse={state.panel === 'timeline'}>
-        {state.panel === 'timeline' ? '[Timeline]' : ' Timeline '}
-      </Text>{' '}
-      <Text bold={state.panel === 'rework'} inverse={state.panel === 'rework'}>
-        {state.panel === 'rework' ? `[Rework before/after (${data.board.rework.length})]` : ` Rework before/after (${data.board.rework.length}) `}
+  const tabs =
+    state.view === 'list' && data ? (
+      <Text>
+        <Text bold={state.panel === 'timeline'} inverse={state.panel === 'timeline'}>
+          {state.panel === 'timeline' ? '[Timeline]' : ' Timeline '}
+        </Text>{' '}
+        <Text bold={state.panel === 'rework'} inverse={state.panel === 'rework'}>
+          {state.panel === 'rework' ? `[Rework before/after (${data.board.rework.length})]` : ` Rework before/after (${data.board.rework.length}) `}
+        </Text>
+        <Text {...toneProps('dim')}> times UTC</Text>
       </Text>
-      <Text {...toneProps('dim')}>  times UTC</Text>
-    </Text>
-  ) : null;
+    ) : null;
   return (
     <Box flexDirection="column" width={width} height={height}>
       <Header screen="history" detail={serial} note={note} width={width} />
       {tabs}
-      {data && data.problems.length > 0 ? <Text {...toneProps('warn')} wrap="truncate-end">! {data.problems[0]}</Text> : null}
+      {data && data.problems.length > 0 ? (
+        <Text {...toneProps('warn')} wrap="truncate-end">
+          ! {data.problems[0]}
+        </Text>
+      ) : null}
       <Box flexDirection="column" flexGrow={1}>
         {body}
       </Box>

@@ -16,15 +16,15 @@ export function useCaptureTrace(log: Pick<BenchLog, 'readCapture'>, file: string
         return readCaptureBytes(bytes, { name: file });
       })
       .then(
-      (capture) => {
-        const channel = capture.channels[0];
-        const text = channel
-          ? `${traceChart(null, channel.samples, { width, height, unit: channel.unit })}\n${capture.source}, ${channel.samples.length} samples at ${capture.sampleRate} S/s`
-          : 'the capture has no channels';
-        if (isCurrent) setState({ file, text });
-      },
-      (error: unknown) => isCurrent && setState({ file, text: `cannot draw ${file}: ${error instanceof Error ? error.message : String(error)}` }),
-    );
+        (capture) => {
+          const channel = capture.channels[0];
+          const text = channel
+            ? `${traceChart(null, channel.samples, { width, height, unit: channel.unit })}\n${capture.source}, ${channel.samples.length} samples at ${capture.sampleRate} S/s`
+            : 'the capture has no channels';
+          if (isCurrent) setState({ file, text });
+        },
+        (error: unknown) => isCurrent && setState({ file, text: `cannot draw ${file}: ${error instanceof Error ? error.message : String(error)}` }),
+      );
     return () => {
       isCurrent = false;
     };

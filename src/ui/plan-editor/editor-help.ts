@@ -4,7 +4,7 @@ import type { KeyHint } from '../components/key-bar.js';
 export const editorHelp: readonly HelpEntry[] = [
   ['↑ ↓ / j k', 'move through the form (PgUp PgDn g G: page, first, last)'],
   ['Enter / e', 'type into the field (Enter keeps it, Esc drops it); on "input" choose'],
-  ['← →', 'choose a stage\'s input among the upstream outputs'],
+  ['← →', "choose a stage's input among the upstream outputs"],
   ['a', 'add a stage from the catalog of kinds'],
   ['r', 'add a rail'],
   ['d / Delete', 'remove the selected stage or rail (asks first)'],

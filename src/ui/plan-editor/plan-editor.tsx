@@ -49,9 +49,11 @@ export function PlanEditor({ file, initial, savedText, save, onExit, width, heig
   const view = scrollWindow(state.rows.length, state.selected, formRows, start.current);
   start.current = view.start;
   const problems = new Map<number, string>();
-  for (const p of live.problems) if (!problems.has(rowForProblem(state.rows, pathKeys(p.path)))) problems.set(rowForProblem(state.rows, pathKeys(p.path)), p.detail);
+  for (const p of live.problems)
+    if (!problems.has(rowForProblem(state.rows, pathKeys(p.path)))) problems.set(rowForProblem(state.rows, pathKeys(p.path)), p.detail);
   const row = state.row;
-  const stage = row.stageIndex !== undefined ? String(stagesOf(state.draft)[row.stageIndex]?.['id'] ?? '') : row.section.startsWith('rail') ? 'rails' : undefined;
+  const stage =
+    row.stageIndex !== undefined ? String(stagesOf(state.draft)[row.stageIndex]?.['id'] ?? '') : row.section.startsWith('rail') ? 'rails' : undefined;
   const d = state.dialog;
 
   if (d?.kind === 'help') return <HelpBox title="plan editor" entries={editorHelp} notes={editorNotes} width={width} />;
@@ -60,13 +62,26 @@ export function PlanEditor({ file, initial, savedText, save, onExit, width, heig
     <Box flexDirection="column" width={formWidth}>
       <FormList draft={state.draft} rows={state.rows} start={view.start} count={formRows} selected={state.selected} problems={problems} width={formWidth} />
       {state.editing ? (
-        <FieldEditor key={state.editing.key} row={state.rows.find((r) => r.key === state.editing?.key) ?? row} initial={state.editing.text} onChange={state.typed} onSubmit={state.commit} onCancel={state.cancelEdit} />
+        <FieldEditor
+          key={state.editing.key}
+          row={state.rows.find((r) => r.key === state.editing?.key) ?? row}
+          initial={state.editing.text}
+          onChange={state.typed}
+          onSubmit={state.commit}
+          onCancel={state.cancelEdit}
+        />
       ) : (
         <Text wrap="truncate-end" {...toneProps(problem ? 'bad' : state.notice ? (state.notice.tone === 'good' ? 'good' : 'bad') : 'dim')}>
-          {problem ? `✗ ${problem}` : state.notice ? `${state.notice.tone === 'good' ? '✓' : '✗'} ${state.notice.text}` : `${state.isDirty ? 'unsaved changes' : 'saved'} · ${state.rows.length} rows`}
+          {problem
+            ? `✗ ${problem}`
+            : state.notice
+              ? `${state.notice.tone === 'good' ? '✓' : '✗'} ${state.notice.text}`
+              : `${state.isDirty ? 'unsaved changes' : 'saved'} · ${state.rows.length} rows`}
         </Text>
       )}
-      {state.editing ? null : <Text wrap="truncate-end">{state.notice && problem ? `${state.notice.tone === 'good' ? '✓' : '✗'} ${state.notice.text}` : ' '}</Text>}
+      {state.editing ? null : (
+        <Text wrap="truncate-end">{state.notice && problem ? `${state.notice.tone === 'good' ? '✓' : '✗'} ${state.notice.text}` : ' '}</Text>
+      )}
       <Text wrap="truncate-end" {...toneProps('dim')}>
         {row.label.replace(/^▸ /, '').trim()} — {row.help}
       </Text>
@@ -76,8 +91,22 @@ export function PlanEditor({ file, initial, savedText, save, onExit, width, heig
     <Box flexDirection="column" width={width} height={height}>
       <Header screen="plan editor" detail={file} note={state.isDirty ? '● unsaved' : 'saved'} width={width} />
       {d?.kind === 'catalog' ? <StageCatalog selected={d.selected} width={width} height={height - 2} isHelpOpen={d.isHelpOpen} /> : null}
-      {d?.kind === 'leave' ? <AskBox title="Leave the plan editor?" detail={`${file} has unsaved changes; they are lost if you leave now.`} yes="leave without saving" isHelpOpen={d.isHelpOpen} /> : null}
-      {d?.kind === 'remove' ? <AskBox title={`Remove ${d.label}?`} detail="Its values, test points and refs go with it (nothing is written until you save)." yes="remove it" isHelpOpen={d.isHelpOpen} /> : null}
+      {d?.kind === 'leave' ? (
+        <AskBox
+          title="Leave the plan editor?"
+          detail={`${file} has unsaved changes; they are lost if you leave now.`}
+          yes="leave without saving"
+          isHelpOpen={d.isHelpOpen}
+        />
+      ) : null}
+      {d?.kind === 'remove' ? (
+        <AskBox
+          title={`Remove ${d.label}?`}
+          detail="Its values, test points and refs go with it (nothing is written until you save)."
+          yes="remove it"
+          isHelpOpen={d.isHelpOpen}
+        />
+      ) : null}
       {d === null ? (
         <Box flexDirection={isWide ? 'row' : 'column'}>
           {form}

@@ -39,7 +39,9 @@ export function StageCatalog({ selected, width, height, isHelpOpen }: StageCatal
         </Text>
       ))}
       <Text {...toneProps('dim')} wrap="truncate-end">
-        {isHelpOpen ? 'The stage is added at the end with example values its kind accepts, wired to the stage before it; type your values over them.' : '↑↓ choose · Enter add · Esc cancel · ? help'}
+        {isHelpOpen
+          ? 'The stage is added at the end with example values its kind accepts, wired to the stage before it; type your values over them.'
+          : '↑↓ choose · Enter add · Esc cancel · ? help'}
       </Text>
     </Box>
   );

@@ -15,7 +15,8 @@ export interface TargetsPanelProps {
 
 function statusText(live: LiveTargets): string {
   if (live.status === 'checking') return 'computing…';
-  if (live.status === 'problems') return `the plan has ${live.problems.length || 'a'} problem${live.problems.length === 1 ? '' : 's'}${live.isStale ? ': last targets, stale' : ''}`;
+  if (live.status === 'problems')
+    return `the plan has ${live.problems.length || 'a'} problem${live.problems.length === 1 ? '' : 's'}${live.isStale ? ': last targets, stale' : ''}`;
   if (live.status === 'refining') return `statistical band refining ${Math.round(live.progress * 100)} %`;
   return live.error ? `⚠ ${live.error}` : 'statistical band done';
 }
@@ -37,10 +38,14 @@ export function TargetsPanel({ live, stage, rows, width }: TargetsPanelProps) {
   return (
     <Box flexDirection="column" width={width}>
       <Text bold wrap="truncate-end">
-        Targets{stage && mine.length > 0 ? ` of ${stage}` : ''} ({shown.length}) <Text {...toneProps(live.status === 'problems' ? 'bad' : 'dim')}>· {statusText(live)}</Text>
+        Targets{stage && mine.length > 0 ? ` of ${stage}` : ''} ({shown.length}){' '}
+        <Text {...toneProps(live.status === 'problems' ? 'bad' : 'dim')}>· {statusText(live)}</Text>
       </Text>
       <Text wrap="truncate-end" {...toneProps('dim')}>
-        {cell('check', check)}{cell('nominal', 12)}{cell('worst-case band', band)}{showStat ? cell('statistical band', band) : ''}
+        {cell('check', check)}
+        {cell('nominal', 12)}
+        {cell('worst-case band', band)}
+        {showStat ? cell('statistical band', band) : ''}
       </Text>
       {shown.length === 0
         ? live.problems.slice(0, tableRows).map((p) => (
@@ -59,7 +64,11 @@ export function TargetsPanel({ live, stage, rows, width }: TargetsPanelProps) {
       <Text wrap="truncate-end" {...toneProps(live.problems[0] ? 'bad' : warnings.length > 0 ? 'warn' : 'good')}>
         {live.problems[0] && shown.length > 0
           ? `✗ ${live.problems[0].path || 'plan'}: ${live.problems[0].detail}`
-          : warnings.length === 0 ? (live.set ? '✓ no design warnings' : '') : `⚠ ${warnings.length} warning${warnings.length === 1 ? '' : 's'}: ${warnings.map((w) => `${w.stage}: ${w.message}`).join(' · ')}`}
+          : warnings.length === 0
+            ? live.set
+              ? '✓ no design warnings'
+              : ''
+            : `⚠ ${warnings.length} warning${warnings.length === 1 ? '' : 's'}: ${warnings.map((w) => `${w.stage}: ${w.message}`).join(' · ')}`}
       </Text>
     </Box>
   );

@@ -62,7 +62,15 @@ export function useLiveTargets(text: string, file: string, options: LiveTargetOp
       try {
         quick = computeTargets(loadPlanText(text, file), { trials: 1, seed: options.seed });
       } catch (error) {
-        setState({ status: 'problems', set: last.current, isStale: true, problems: [], progress: 0, quickMs: 0, error: error instanceof Error ? error.message : String(error) });
+        setState({
+          status: 'problems',
+          set: last.current,
+          isStale: true,
+          problems: [],
+          progress: 0,
+          quickMs: 0,
+          error: error instanceof Error ? error.message : String(error),
+        });
         return;
       }
       const quickMs = performance.now() - started;

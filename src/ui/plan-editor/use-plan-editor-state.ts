@@ -1,6 +1,19 @@
 import { useMemo, useRef, useState } from 'react';
 import { stageKinds } from '../../circuit/registry.js';
-import { type Draft, addRail, addStage, getAt, inputChoices, moveStage, pathKeys, removeAt, serialiseDraft, setAt, setInput, stagesOf } from '../../plan/draft.js';
+import {
+  type Draft,
+  addRail,
+  addStage,
+  getAt,
+  inputChoices,
+  moveStage,
+  pathKeys,
+  removeAt,
+  serialiseDraft,
+  setAt,
+  setInput,
+  stagesOf,
+} from '../../plan/draft.js';
 import { checkPlanText } from '../../plan/load.js';
 import { type Row, editorRows, entryValue, rowForProblem, rowText } from './rows.js';
 
@@ -154,8 +167,16 @@ export function usePlanEditorState({ file, initial, savedText, save, onExit }: P
     addRail: () => change(addRail(now.current.draft), railKey(now.current.draft)),
     askRemove: () => {
       const { row, draft: d } = current();
-      if (row.stageIndex !== undefined) setDialog({ kind: 'remove', list: 'stages', index: row.stageIndex, label: `stage ${String(stagesOf(d)[row.stageIndex]?.['id'])}`, isHelpOpen: false });
-      else if (row.railIndex !== undefined) setDialog({ kind: 'remove', list: 'rails', index: row.railIndex, label: `rail ${String(getAt(d, ['rails', row.railIndex, 'id']))}`, isHelpOpen: false });
+      if (row.stageIndex !== undefined)
+        setDialog({ kind: 'remove', list: 'stages', index: row.stageIndex, label: `stage ${String(stagesOf(d)[row.stageIndex]?.['id'])}`, isHelpOpen: false });
+      else if (row.railIndex !== undefined)
+        setDialog({
+          kind: 'remove',
+          list: 'rails',
+          index: row.railIndex,
+          label: `rail ${String(getAt(d, ['rails', row.railIndex, 'id']))}`,
+          isHelpOpen: false,
+        });
       else setNotice({ tone: 'bad', text: 'd removes a stage or a rail: select one of its rows first' });
     },
     confirmRemove: () => {
@@ -178,7 +199,10 @@ export function usePlanEditorState({ file, initial, savedText, save, onExit }: P
       const first = problems[0];
       if (first) {
         setSelected(rowForProblem(all, pathKeys(first.path)));
-        return setNotice({ tone: 'bad', text: `not saved: ${first.path || file}: ${first.detail}${problems.length > 1 ? ` (${problems.length - 1} more)` : ''}` });
+        return setNotice({
+          tone: 'bad',
+          text: `not saved: ${first.path || file}: ${first.detail}${problems.length > 1 ? ` (${problems.length - 1} more)` : ''}`,
+        });
       }
       try {
         save(out);

@@ -49,10 +49,8 @@ export function TargetsTable({ targets, start, rows, selected, width, isFocused 
         return (
           <Text key={t.check} wrap="truncate-end" inverse={isSelected && isFocused}>
             {isSelected ? `${pointer} ` : '  '}
-            {cell(t.check, col.check - 1)}{' '}
-            {cell(t.testPoint ?? '—', col.tp)}
-            {cell(formatNominal(t), col.nominal - 1)}{' '}
-            {cell(formatBand(t.worst, t.unit), col.band - 1)}{' '}
+            {cell(t.check, col.check - 1)} {cell(t.testPoint ?? '—', col.tp)}
+            {cell(formatNominal(t), col.nominal - 1)} {cell(formatBand(t.worst, t.unit), col.band - 1)}{' '}
             {col.showStat ? `${cell(formatBand(t.stat, t.unit), col.band - 1)} ` : ''}
             {cell(formatContributor(t.contributors[0]), col.contributor)}
           </Text>

@@ -7,7 +7,12 @@ describe('trend chart', () => {
     const values = [9.0, 9.1, 9.2, 9.1];
     const text = trendChart(values, { height: 4, band: { min: 8.5, max: 9.5 }, unit: 'V', labelWidth: 8 });
     // Reference: asciichart itself with the same series and range (independent of our wrapper).
-    const ref = plot([values, values.map(() => 9.5), values.map(() => 8.5)], { height: 4, min: 8.5, max: 9.5, format: (x: number) => `${Number(x.toPrecision(4))} V`.padStart(8) });
+    const ref = plot([values, values.map(() => 9.5), values.map(() => 8.5)], {
+      height: 4,
+      min: 8.5,
+      max: 9.5,
+      format: (x: number) => `${Number(x.toPrecision(4))} V`.padStart(8),
+    });
     const lines = text.split('\n');
     expect(lines.slice(0, -1).join('\n')).toBe(ref);
     expect(lines[lines.length - 1]).toBe(`${' '.repeat(10)}oldest → newest, 4 points; flat lines: band edges`);

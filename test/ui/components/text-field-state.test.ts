@@ -1,11 +1,41 @@
 import fc from 'fast-check';
 import type { Key } from 'ink';
 import { describe, expect, test } from 'vitest';
-import { defaultMaxLength, emptyField, type FieldStep, fieldSteps, fieldWith, type TextFieldState, textFieldReducer } from '../../../src/ui/components/text-field-state.js';
+import {
+  defaultMaxLength,
+  emptyField,
+  type FieldStep,
+  fieldSteps,
+  fieldWith,
+  type TextFieldState,
+  textFieldReducer,
+} from '../../../src/ui/components/text-field-state.js';
 
 /** A key as Ink's useInput reports it, every flag off unless given. */
 const key = (over: Partial<Key> = {}): Key =>
-  ({ upArrow: false, downArrow: false, leftArrow: false, rightArrow: false, pageDown: false, pageUp: false, home: false, end: false, return: false, escape: false, ctrl: false, shift: false, tab: false, backspace: false, delete: false, meta: false, super: false, hyper: false, capsLock: false, numLock: false, ...over }) as Key;
+  ({
+    upArrow: false,
+    downArrow: false,
+    leftArrow: false,
+    rightArrow: false,
+    pageDown: false,
+    pageUp: false,
+    home: false,
+    end: false,
+    return: false,
+    escape: false,
+    ctrl: false,
+    shift: false,
+    tab: false,
+    backspace: false,
+    delete: false,
+    meta: false,
+    super: false,
+    hyper: false,
+    capsLock: false,
+    numLock: false,
+    ...over,
+  }) as Key;
 
 /** Apply every edit of a chunk, collecting what was submitted (the text at each Enter). */
 function feed(state: TextFieldState, input: string, k: Key = key(), max = defaultMaxLength) {
