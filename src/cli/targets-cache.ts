@@ -4,10 +4,7 @@ import { TargetsCache } from '../log/targets-cache.js';
 import type { CommandIo } from './command.js';
 import { UsageError } from './errors.js';
 
-/** What `--help` says about the cache, on every command that computes targets. */
-export const cacheHelp =
-  '  --cache DIR  where computed targets are kept (else $PROBEBOOK_CACHE, else $XDG_CACHE_HOME/probebook,\n' +
-  "               i.e. ~/.cache/probebook): in the user's cache folder even when --log is given; safe to delete\n";
+export { cacheHelp } from './cache-help.js';
 
 /** The `--cache` option's value, or a UsageError for an empty one. */
 export function cacheFlag(value: string | boolean | undefined): string | undefined {

@@ -2,16 +2,16 @@ import { render } from 'ink';
 import type { Command } from './command.js';
 import { resolveLogDir } from './log-dir.js';
 import { openStore } from '../log/open-store.js';
-import { loadPlanFile } from '../plan/load.js';
 import { App } from '../ui/app.js';
-import { PlanCatalog } from '../ui/bench/plan-catalog.js';
 import { UsageError } from './errors.js';
-import { existsSync } from 'node:fs';
-import { instrumentsPath, loadInstruments } from '../bench/instruments-file.js';
-import { BenchSession } from '../bench/session.js';
-import { type InstrumentSource, sessionSource } from '../bench/source.js';
-import { cacheHelp, targetsCacheFor } from './targets-cache.js';
 import { maxOperatorLength, oneLine } from '../units/text.js';
+import { startMark } from './start-marks.js';
+import type { TuiServices } from './tui-services.js';
+import { cacheHelp } from './cache-help.js';
+
+// What the bench screen's first frame needs is imported above and nothing more
+// (measured in bench/ui.bench.ts): the plan loader with its schema library, the
+// stage models, the targets engine and the instruments load after that frame.
 
 export const tuiUsage = 'probebook [--log DIR] [--plan FILE]... [--operator NAME] [--cache DIR]';
 
@@ -106,20 +106,12 @@ export const notTerminalMessage = 'probebook: the bench screen needs a terminal;
 const enterAltScreen = '\u001B[?1049h\u001B[H';
 const leaveAltScreen = '\u001B[?1049l';
 
-/** `probebook [--log DIR] [--plan FILE]... [--operator NAME]`: the bench screen. */
-/**
- * The bench's instruments for the bring-up screen's `m` key: the file named by
- * --instruments (an error when missing), else $PROBEBOOK_INSTRUMENTS or the
- * user's config file when present (none is fine: the key then says how to set one up).
- */
-async function benchInstruments(flag: string | undefined, env: NodeJS.ProcessEnv, cwd: string): Promise<InstrumentSource | null> {
-  const path = instrumentsPath(flag, env, cwd);
-  if (flag === undefined && !env.PROBEBOOK_INSTRUMENTS && !existsSync(path)) return null;
-  const file = await loadInstruments(path);
-  return sessionSource(file, new BenchSession(file));
-}
+/** Later than Ink's 30 fps render throttle (33 ms): the frame with the boards is on the terminal before the plans load. */
+const servicesDelayMs = 40;
 
+/** `probebook [--log DIR] [--plan FILE]... [--operator NAME]`: the bench screen. */
 export const tuiCommand: Command = async (argv, io) => {
+  startMark('tui');
   const args = parseTuiArgs(argv);
   if (args.isHelp) {
     io.stdout(`usage: ${tuiUsage}\n  the bench screen; ? shows the keys on every screen; probebook --help lists the commands\n${cacheHelp}`);
@@ -130,26 +122,53 @@ export const tuiCommand: Command = async (argv, io) => {
     return 2;
   }
   const log = await openStore(resolveLogDir(args.log, io.env));
-  const plans = [];
-  for (const file of args.plans) plans.push(await loadPlanFile(file, { cwd: io.cwd }));
+  startMark('log-open');
+  const operator = operatorFrom(args.operator, io.env);
   // Cache problems are said after the screen closes: a line on stderr would tear the frame.
   const notices: string[] = [];
-  const targetsCache = targetsCacheFor(args.cache, { env: io.env, stderr: (text) => notices.push(text) });
-  const catalog = new PlanCatalog(log, plans, { targetsCache });
-  const operator = operatorFrom(args.operator, io.env);
-  const instruments = await benchInstruments(args.instruments, io.env, io.cwd);
+  // The plans, the targets cache and the instruments load once the bench screen
+  // shows its boards; a bad --plan or instruments file then closes the screen
+  // and is said as before (one line, exit 2).
+  let failure: unknown = null;
+  let start!: () => void;
+  const services = new Promise<TuiServices>((resolve) => {
+    start = () => resolve(import('./tui-services.js').then((m) => m.loadTuiServices(args, log, io, (text) => notices.push(text))));
+  });
+  let isStarted = false;
+  const onShown = () => {
+    if (isStarted) return;
+    isStarted = true;
+    startMark('shown');
+    setTimeout(start, servicesDelayMs);
+  };
+  const catalog = services.then((s) => s.catalog);
+  const instruments = services.then((s) => s.instruments);
 
   process.stdout.write(enterAltScreen);
   const restore = () => process.stdout.write(leaveAltScreen);
   process.once('exit', restore);
   try {
-    const app = render(<App log={log} catalog={catalog} operator={operator} instruments={instruments} />, { exitOnCtrlC: true });
+    startMark('render');
+    const app = render(<App log={log} catalog={catalog} operator={operator} instruments={instruments} onShown={onShown} />, { exitOnCtrlC: true });
+    startMark('rendered');
+    services.then(
+      () => startMark('services'),
+      (error: unknown) => {
+        failure = error;
+        app.unmount();
+      },
+    );
     await app.waitUntilExit();
   } finally {
-    instruments?.close();
+    // Closed whether or not the screen ever asked for them.
+    void services.then(
+      (s) => s.instruments?.close(),
+      () => undefined,
+    );
     process.off('exit', restore);
     restore();
     for (const text of notices) io.stderr(text);
   }
+  if (failure !== null) throw failure;
   return 0;
 };

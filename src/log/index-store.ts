@@ -1,4 +1,4 @@
-import { appendFileSync, readdirSync, readFileSync, renameSync, statSync, unlinkSync } from 'node:fs';
+import { appendFileSync, closeSync, openSync, readdirSync, readFileSync, readSync, renameSync, statSync, unlinkSync } from 'node:fs';
 export { fileStamp } from './board-scan.js';
 import { randomBytes } from 'node:crypto';
 import { join } from 'node:path';
@@ -13,7 +13,8 @@ import { type BoardHead, type CheckMap, headOf, type IntentLine, type JournalLin
 import { packBoards, type PackedBoards, unpackBoards } from './index-rows.js';
 import { toLogJson } from './json-text.js';
 import { summarizeBoard } from './summary.js';
-import type { BoardFile, BoardSummary, CheckColumns, DamagedBoard, LogIndex } from './types.js';
+import { byActivity } from './board-order.js';
+import type { BoardFile, BoardSummary, CheckColumns, DamagedBoard, IndexHead, LogIndex } from './types.js';
 
 /** Version of the index files (a cache: any other version is rebuilt, never refused). */
 export const indexSchemaVersion = 5;
@@ -40,7 +41,25 @@ const rereadsBeforeCompact = 100;
 const checksPattern = /^index-checks\.[0-9a-f]+\.bin$/;
 const anyChecksPattern = /^index-checks\.[0-9a-f]+\.(bin|json)$/;
 
+/**
+ * Boards kept at the top of `index.json` in order of latest activity (`byActivity`),
+ * for `readHead`: more than a tall terminal shows.
+ */
+export const headRows = 200;
+
+/** The snapshot's first line, `{"head":…,`, is read alone up to this many bytes (200 rows take about 25 kB). */
+const headLineLimit = 1 << 20;
+const headPrefix = '{"head":';
+
+/** The first boards of a snapshot by latest activity, and how many boards it holds in all. */
+interface SnapshotHead {
+  readonly total: number;
+  readonly boards: PackedBoards;
+}
+
 interface Snapshot {
+  /** The first boards by latest activity (written on the snapshot's first line; absent in older snapshots). */
+  readonly head?: SnapshotHead;
   readonly schemaVersion: number;
   /** Each board's counts and state (no checks) and the stamp of the board file it was made from, packed. */
   readonly boards: PackedBoards;
@@ -159,7 +178,8 @@ export class IndexStore {
     const columns = this.#columnsLoader(snapshot);
     // A verifying read (the batch review) needs the columns anyway: a missing or damaged file is rebuilt now.
     const isColumnsLost = options.verify === true && snapshot !== null && columns() === null;
-    const shouldCompact = snapshot === null || isColumnsLost || stale.length > rereadsBeforeCompact || journalText.length > journalLimitBytes;
+    const shouldCompact =
+      snapshot === null || snapshot.head === undefined || isColumnsLost || stale.length > rereadsBeforeCompact || journalText.length > journalLimitBytes;
     if (stale.length > 0) onProgress?.(0, stale.length);
     let done = 0;
     for (const [serial, stamp] of stale) {
@@ -194,6 +214,32 @@ export class IndexStore {
       index = withColumns(index, columns, known);
     }
     return index;
+  }
+
+  /**
+   * The first `count` boards by latest activity without reading the whole index:
+   * the snapshot's first line and the journal's lines since. No board file is
+   * looked at, so a file changed by hand since shows only in `read`; null when
+   * there is no snapshot with a head (then only `read` answers). Never throws:
+   * `read` reports what is wrong.
+   */
+  readHead(count: number): IndexHead | null {
+    try {
+      const line = readFirstLine(this.file, headLineLimit);
+      if (line === null || !line.startsWith(headPrefix) || !line.endsWith(',')) return null;
+      const head = JSON.parse(line.slice(headPrefix.length, -1)) as Partial<SnapshotHead> | null;
+      if (!head || typeof head.total !== 'number' || typeof head.boards !== 'object' || head.boards === null) return null;
+      const rows = unpackBoards(head.boards);
+      if (!rows) return null;
+      const known = new Map<string, KnownBoard>();
+      for (const [serial, h, stamp] of rows) known.set(serial, { head: h, stamp, full: null, deltas: [], broken: false });
+      // A board written since the snapshot comes first again (its run is the latest); one outside the head moves into it.
+      replayJournal(readTextIfAny(this.journal) ?? '', known);
+      const boards = [...known.values()].map((k) => k.head).sort(byActivity);
+      return { boards: boards.slice(0, count), isWhole: head.total <= rows.length && boards.length <= count };
+    } catch {
+      return null;
+    }
   }
 
   /** The snapshot's columns file, read (and checked) the first time it is asked for; null when gone or damaged. */
@@ -266,7 +312,9 @@ export class IndexStore {
     seen: Pick<Snapshot, 'dir' | 'boot' | 'suspects'>,
   ): Promise<CheckColumns | null> {
     const bytes = encodeCheckColumns([...known.keys()].map((serial) => [serial, boards[serial]?.checks ?? {}] as [string, CheckMap]));
-    const packed = packBoards([...known].map(([serial, k]) => [serial, k.head, k.stamp] as [string, BoardHead, string]));
+    const byRecent = [...known].sort((a, b) => byActivity(a[1].head, b[1].head)).map(([serial, k]) => [serial, k.head, k.stamp] as [string, BoardHead, string]);
+    const packed = packBoards(byRecent);
+    const head: SnapshotHead = { total: byRecent.length, boards: packBoards(byRecent.slice(0, headRows)) };
     const checksFile = `index-checks.${randomBytes(6).toString('hex')}.bin`;
     let isWritten = false;
     await this.#tryWrite(() =>
@@ -281,9 +329,9 @@ export class IndexStore {
         }
         const replaced = this.#readSnapshot()?.checksFile ?? before?.checksFile;
         await new DurableTextFile(join(this.dir, checksFile)).write(bytes);
-        await new DurableTextFile(this.file).write(
-          JSON.stringify({ schemaVersion: indexSchemaVersion, boards: packed, checksFile, ...seen } satisfies Snapshot),
-        );
+        // Still one JSON document, laid out so its first line is the head alone (`readHead`).
+        const rest = JSON.stringify({ schemaVersion: indexSchemaVersion, boards: packed, checksFile, ...seen } satisfies Omit<Snapshot, 'head'>);
+        await new DurableTextFile(this.file).write(`${headPrefix}${JSON.stringify(head)},\n${rest.slice(1)}`);
         isWritten = true;
         for (const name of [
           aside,
@@ -317,6 +365,31 @@ export class IndexStore {
       if (code === 'EACCES' || code === 'EROFS' || code === 'EPERM') return;
       throw error;
     }
+  }
+}
+
+/** A file's first line (without its newline), read no further than `limit` bytes; null when the file is missing or the line longer. */
+function readFirstLine(path: string, limit: number): string | null {
+  let fd: number;
+  try {
+    fd = openSync(path, 'r');
+  } catch (error) {
+    if (errorCode(error) === 'ENOENT') return null;
+    throw error;
+  }
+  try {
+    let buffer = Buffer.allocUnsafe(64 * 1024);
+    let length = 0;
+    for (;;) {
+      const n = readSync(fd, buffer, length, buffer.length - length, length);
+      const end = buffer.subarray(0, length + n).indexOf(0x0a, length);
+      length += n;
+      if (end >= 0) return buffer.toString('utf8', 0, end);
+      if (n === 0 || length >= limit) return null;
+      if (length === buffer.length) buffer = Buffer.concat([buffer, Buffer.allocUnsafe(buffer.length)]);
+    }
+  } finally {
+    closeSync(fd);
   }
 }
 

@@ -28,6 +28,7 @@ import {
   type BoardFile,
   boardSchemaVersion,
   type CaptureRef,
+  type IndexHead,
   type LogIndex,
   type Reading,
   type ReadingInput,
@@ -101,6 +102,10 @@ class Store implements LogStore {
 
   boardPath(serial: string): string {
     return join(this.#boards, `${serial}.json`);
+  }
+
+  readIndexHead(count: number): IndexHead | null {
+    return this.#index.readHead(count);
   }
 
   readIndex(onProgress?: IndexProgress, options?: IndexReadOptions): Promise<LogIndex> {

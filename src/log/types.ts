@@ -1,5 +1,6 @@
 import type { Verdict } from '../analysis/types.js';
 import type { Unit } from '../units/unit.js';
+import type { BoardHead } from './index-journal.js';
 import type {
   Reading,
   InstrumentRef,
@@ -15,6 +16,20 @@ import type {
   CheckColumns,
   DamagedBoard,
 } from '../analysis/records.js';
+
+export type { BoardHead } from './index-journal.js';
+
+/**
+ * The first boards of the index in order of latest activity (`byActivity`),
+ * read without the rest: what a screen draws before the whole index is read.
+ * Taken from the last snapshot with the journal's later lines on top; a board
+ * file changed by hand since (copied in, restored) shows only in the full index.
+ */
+export interface IndexHead {
+  readonly boards: readonly BoardHead[];
+  /** Whether these are all the boards the snapshot and journal know (the log has no more). */
+  readonly isWhole: boolean;
+}
 
 /** Board file schema version; older files are migrated on read, newer ones refused. */
 export const boardSchemaVersion = 1;
@@ -57,6 +72,12 @@ export interface BenchLog {
   readonly dir: string;
   /** The index, rebuilt first when missing or stale. */
   readIndex(): Promise<LogIndex>;
+  /**
+   * The first `count` boards by latest activity, read at once and cheaply (a
+   * folder log keeps them at the top of its index), or null when the store
+   * keeps none (then `readIndex`). Never instead of `readIndex`: only before it.
+   */
+  readIndexHead?(count: number): IndexHead | null;
   /** A board's file, or null when the board has none yet. Throws on a damaged file. */
   readBoard(serial: string): Promise<BoardFile | null>;
   /** Start a run (creating the board when new); saves the plan snapshot. */

@@ -1,17 +1,16 @@
-import { useCallback, useState } from 'react';
-import { Box, useApp, useInput } from 'ink';
+import { Suspense, useCallback, useEffect, useRef, useState } from 'react';
+import { Box, Text, useApp, useInput } from 'ink';
 import type { BenchLog } from '../log/types.js';
 import type { InstrumentSource } from '../bench/source.js';
-import { BatchScreen } from './batch/batch.js';
 import { BenchScreen } from './bench/bench.js';
 import type { PlanCatalog } from './bench/plan-catalog.js';
-import { BringUpScreen } from './bring-up/bring-up.js';
 import { ConfirmQuit } from './components/confirm-quit.js';
 import { useLiveState } from './components/use-live-state.js';
+import { useSettled } from './components/use-settled.js';
 import { type Size, useTerminalSize } from './components/use-terminal-size.js';
 import { WithTargets } from './components/with-targets.js';
-import { HistoryScreen } from './history/history.js';
-import { PlanScreen } from './plan-screen/plan-screen.js';
+import { BatchScreen, BringUpScreen, HistoryScreen, PlanScreen } from './screens.js';
+import { toneProps } from './theme.js';
 
 /** A screen and what it shows (DESIGN §8 names). */
 export type Route =
@@ -23,7 +22,8 @@ export type Route =
 
 export interface AppProps {
   readonly log: BenchLog;
-  readonly catalog: PlanCatalog;
+  /** The plans; a promise while they load (the TUI loads them after its first frame, the bench screen needs none to list boards). */
+  readonly catalog: PlanCatalog | Promise<PlanCatalog>;
   readonly operator: string;
   /** A fixed size instead of the terminal's (tests, benchmarks). */
   readonly size?: Partial<Size>;
@@ -31,12 +31,14 @@ export interface AppProps {
   readonly initialRoute?: Route;
   /** Called instead of Ink's exit when the technician quits (tests). */
   readonly onQuit?: () => void;
-  /** The bench's instruments, for the bring-up screen's `m` key. @default null */
-  readonly instruments?: InstrumentSource | null;
+  /** The bench's instruments, for the bring-up screen's `m` key (a promise while they load). @default null */
+  readonly instruments?: InstrumentSource | null | Promise<InstrumentSource | null>;
+  /** Called once, when the first screen shows what it opened for (the bench screen: its boards). */
+  readonly onShown?: () => void;
 }
 
 /** Switches screens and owns the quit dialog; every screen keeps its own state. */
-export function App({ log, catalog, operator, size, initialRoute = { screen: 'bench' }, onQuit, instruments = null }: AppProps) {
+export function App({ log, catalog, operator, size, initialRoute = { screen: 'bench' }, onQuit, instruments = null, onShown }: AppProps) {
   const app = useApp();
   const exit = onQuit ?? app.exit;
   const { width, height } = useTerminalSize(size);
@@ -48,6 +50,18 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
   const [, setTyping, typingRef] = useLiveState(false);
   const [isConfirming, setConfirming] = useState(false);
   const route = stack[stack.length - 1] ?? { screen: 'bench' };
+  const plans = useSettled(catalog);
+  const bench = useSettled(instruments);
+  const shown = useRef(false);
+  const onBenchShown = useCallback(() => {
+    if (shown.current) return;
+    shown.current = true;
+    onShown?.();
+  }, [onShown]);
+  // biome-ignore lint/correctness/useExhaustiveDependencies: said once, for the screen the app opened on
+  useEffect(() => {
+    if (initialRoute.screen !== 'bench') onBenchShown();
+  }, []);
 
   const push = useCallback(
     (next: Route) => {
@@ -85,59 +99,75 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
     onPlan: (planHash: string) => push({ screen: 'plan', planHash }),
   };
 
+  // Every screen but the bench's needs the plans (and the bring-up screen the instruments): until they are in, a line says so.
+  const ready =
+    plans.state === 'ready' && bench.state !== 'pending' ? { catalog: plans.value, instruments: bench.state === 'ready' ? bench.value : null } : null;
   let screen;
-  switch (route.screen) {
-    case 'bench':
-      screen = (
-        <BenchScreen
-          {...common}
-          catalog={catalog}
-          go={go}
-          onTypingChange={setTyping}
-          onSelect={setLastSerial}
-          {...(lastSerial ? { initialSerial: lastSerial } : {})}
-        />
-      );
-      break;
-    case 'bring-up':
-      screen = (
-        <WithTargets catalog={catalog} planHash={route.planHash} onExit={back} isActive={isActive}>
-          {(plan, targets) => (
-            <BringUpScreen
-              {...common}
-              plan={plan}
-              targets={targets}
-              serial={route.serial}
-              operator={operator}
-              instruments={instruments}
-              onDirtyChange={setDirty}
-              onTypingChange={setTyping}
-              {...(route.resumeRun ? { resumeRun: route.resumeRun } : {})}
-            />
-          )}
-        </WithTargets>
-      );
-      break;
-    case 'history':
-      screen = <HistoryScreen {...common} serial={route.serial} targetsCache={catalog.targetsCache} onTypingChange={setTyping} />;
-      break;
-    case 'batch':
-      screen = (
-        <BatchScreen {...common} targetsCache={catalog.targetsCache} onTypingChange={setTyping} onOpenBoard={(serial) => push({ screen: 'history', serial })} />
-      );
-      break;
-    case 'plan':
-      screen = (
-        <WithTargets catalog={catalog} planHash={route.planHash} onExit={back} isActive={isActive}>
-          {(plan, targets) => <PlanScreen {...common} plan={plan} targets={targets} />}
-        </WithTargets>
-      );
-      break;
+  if (route.screen === 'bench') {
+    screen = (
+      <BenchScreen
+        {...common}
+        catalog={catalog}
+        go={go}
+        onTypingChange={setTyping}
+        onSelect={setLastSerial}
+        onLoaded={onBenchShown}
+        {...(lastSerial ? { initialSerial: lastSerial } : {})}
+      />
+    );
+  } else if (!ready) {
+    screen = <Waiting what={plans.state === 'failed' ? plans.message : null} onExit={back} isActive={isActive} />;
+  } else if (route.screen === 'bring-up') {
+    screen = (
+      <WithTargets catalog={ready.catalog} planHash={route.planHash} onExit={back} isActive={isActive}>
+        {(plan, targets) => (
+          <BringUpScreen
+            {...common}
+            plan={plan}
+            targets={targets}
+            serial={route.serial}
+            operator={operator}
+            instruments={ready.instruments}
+            onDirtyChange={setDirty}
+            onTypingChange={setTyping}
+            {...(route.resumeRun ? { resumeRun: route.resumeRun } : {})}
+          />
+        )}
+      </WithTargets>
+    );
+  } else if (route.screen === 'history') {
+    screen = <HistoryScreen {...common} serial={route.serial} targetsCache={ready.catalog.targetsCache} onTypingChange={setTyping} />;
+  } else if (route.screen === 'batch') {
+    screen = (
+      <BatchScreen
+        {...common}
+        targetsCache={ready.catalog.targetsCache}
+        onTypingChange={setTyping}
+        onOpenBoard={(serial) => push({ screen: 'history', serial })}
+      />
+    );
+  } else {
+    screen = (
+      <WithTargets catalog={ready.catalog} planHash={route.planHash} onExit={back} isActive={isActive}>
+        {(plan, targets) => <PlanScreen {...common} plan={plan} targets={targets} />}
+      </WithTargets>
+    );
   }
   return (
     <Box flexDirection="column" width={width}>
-      {screen}
+      <Suspense fallback={<Text>opening the {route.screen} screen…</Text>}>{screen}</Suspense>
       {isConfirming ? <ConfirmQuit reason="A reading or a rework note is half typed" onQuit={() => exit()} onStay={() => setConfirming(false)} /> : null}
+    </Box>
+  );
+}
+
+/** A screen that needs the plans, opened while they load (or after they failed to). */
+function Waiting({ what, onExit, isActive }: { readonly what: string | null; readonly onExit: () => void; readonly isActive: boolean }) {
+  useInput((_input, key) => key.escape && onExit(), { isActive });
+  return (
+    <Box flexDirection="column">
+      {what === null ? <Text>loading the plans…</Text> : <Text {...toneProps('bad')}>✗ {what}</Text>}
+      <Text {...toneProps('dim')}>Esc back</Text>
     </Box>
   );
 }

@@ -15,7 +15,8 @@ import { type BenchTargets, useBenchState } from './use-bench-state.js';
 import { useBenchKeys } from './use-bench-keys.js';
 
 export interface BenchProps extends ScreenProps {
-  readonly catalog: PlanCatalog;
+  /** The plans, or a promise of them while they load: listing the boards needs none. */
+  readonly catalog: PlanCatalog | Promise<PlanCatalog>;
   /** Where Enter, n, h, b and p lead. */
   readonly go: BenchTargets;
   /** The board to select on arrival (the one last opened). */
@@ -24,10 +25,12 @@ export interface BenchProps extends ScreenProps {
   readonly onTypingChange?: (isTyping: boolean) => void;
   /** Tell the app which board is selected, so coming back selects it again. */
   readonly onSelect?: (serial: string) => void;
+  /** Called when the boards are on screen (or the log could not be read). */
+  readonly onLoaded?: () => void;
 }
 
 /** The bench screen: every board in the log, and the way into a run. */
-export function BenchScreen({ log, catalog, go, width, height, isActive = true, initialSerial, onTypingChange, onSelect }: BenchProps) {
+export function BenchScreen({ log, catalog, go, width, height, isActive = true, initialSerial, onTypingChange, onSelect, onLoaded }: BenchProps) {
   const state = useBenchState(log, catalog, go, initialSerial, onSelect);
   const { mode, boards, selected, message } = state;
   const dialogRows = mode.kind === 'new-serial' ? 6 : mode.kind === 'choose-plan' ? mode.choices.length + 3 : mode.kind === 'confirm-run' ? 4 : 0;
@@ -35,6 +38,9 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
   useBenchKeys(state, listRows, isActive, onTypingChange);
   const isTyping = mode.kind === 'new-serial' || mode.kind === 'filter';
   useEffect(() => onTypingChange?.(isTyping), [isTyping, onTypingChange]);
+  useEffect(() => {
+    if (!state.isLoading) onLoaded?.();
+  }, [state.isLoading, onLoaded]);
   const start = useRef(0);
   const view = scrollWindow(boards.length, selected, listRows, start.current);
   start.current = view.start;
@@ -48,7 +54,7 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
   return (
     <Box flexDirection="column" width={width} height={height}>
       <Header screen="bench" detail={count} note={log.dir} width={width} isNoteTail />
-      {state.isLoading ? (
+      {state.isLoading && (boards.length === 0 || state.progress) ? (
         <Text>Reading the log index…{state.progress ? ` ${state.progress.done} of ${state.progress.total} board files re-read` : ''}</Text>
       ) : null}
       {state.damaged.length > 0 ? (

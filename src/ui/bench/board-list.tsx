@@ -1,11 +1,11 @@
 import { Box, Text } from 'ink';
-import type { BoardSummary } from '../../log/types.js';
+import type { BoardHead } from '../../log/types.js';
 import { cell } from '../components/columns.js';
 import { pointer, stateMark, stateTone, stateWord, toneProps } from '../theme.js';
 import { formatWhen } from './board-order.js';
 
 export interface BoardListProps {
-  readonly boards: readonly BoardSummary[];
+  readonly boards: readonly BoardHead[];
   /** Index of the first row shown. */
   readonly start: number;
   /** Rows shown. */

@@ -1,22 +1,16 @@
-import type { BoardSummary } from '../../log/types.js';
+import { byActivity } from '../../log/board-order.js';
+import type { BoardHead } from '../../log/types.js';
 
 /**
  * Boards as the bench screen lists them: the latest activity first (the board
  * on the bench now is at the top), boards without a run last, then by serial.
  */
-export function orderBoards(boards: Iterable<BoardSummary>): BoardSummary[] {
-  return [...boards].sort((a, b) => {
-    if (a.lastRunAt !== b.lastRunAt) {
-      if (a.lastRunAt === null) return 1;
-      if (b.lastRunAt === null) return -1;
-      return a.lastRunAt < b.lastRunAt ? 1 : -1;
-    }
-    return a.serial < b.serial ? -1 : a.serial > b.serial ? 1 : 0;
-  });
+export function orderBoards<B extends BoardHead>(boards: Iterable<B>): B[] {
+  return [...boards].sort(byActivity);
 }
 
 /** Boards whose serial or plan contains `filter` (case-insensitive); all when it is empty. */
-export function filterBoards(boards: readonly BoardSummary[], filter: string): readonly BoardSummary[] {
+export function filterBoards<B extends BoardHead>(boards: readonly B[], filter: string): readonly B[] {
   const needle = filter.trim().toLowerCase();
   if (needle === '') return boards;
   return boards.filter((b) => b.serial.toLowerCase().includes(needle) || (b.plan ?? '').toLowerCase().includes(needle));

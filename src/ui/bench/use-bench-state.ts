@@ -1,5 +1,5 @@
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
-import type { BenchLog, BoardSummary, LogIndex } from '../../log/types.js';
+import type { BenchLog, BoardHead, LogIndex } from '../../log/types.js';
 import { validateSerial } from '../../log/serial.js';
 import type { Plan } from '../../plan/types.js';
 import { moveSelection } from '../components/scroll-window.js';
@@ -15,7 +15,7 @@ export type BenchMode =
   | { readonly kind: 'filter' }
   | { readonly kind: 'new-serial' }
   | { readonly kind: 'choose-plan'; readonly serial: string; readonly choices: readonly PlanChoice[]; readonly selected: number }
-  | { readonly kind: 'confirm-run'; readonly board: BoardSummary; readonly plan: Plan }
+  | { readonly kind: 'confirm-run'; readonly board: BoardHead; readonly plan: Plan }
   /** The help of the screen, or of the dialog it was opened from (`from`), which it goes back to. */
   | { readonly kind: 'help'; readonly from: DialogMode }
   | { readonly kind: 'busy'; readonly what: string };
@@ -33,11 +33,29 @@ export interface Message {
   readonly tone: 'info' | 'error';
 }
 
-/** The bench screen's state: the boards from the index, the selection, the dialogs. */
-export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTargets, initialSerial?: string, onSelect?: (serial: string) => void) {
+/** Boards read from the top of the index before the whole of it: more than a tall terminal shows. */
+const firstRows = 200;
+
+/**
+ * The bench screen's state: the boards from the index, the selection, the dialogs.
+ * The first frame lists the index's first boards by latest activity (`readIndexHead`),
+ * then the whole index replaces them, the selected board kept.
+ */
+export function useBenchState(
+  log: BenchLog,
+  catalog: PlanCatalog | Promise<PlanCatalog>,
+  go: BenchTargets,
+  initialSerial?: string,
+  onSelect?: (serial: string) => void,
+) {
   const [index, setIndex] = useState<LogIndex | null>(null);
+  // Read during the first render on purpose: a few kilobytes, so the first frame already lists boards.
+  const [head] = useState(() => log.readIndexHead?.(firstRows) ?? null);
   const [loadError, setLoadError] = useState<string | null>(null);
-  const [selected, setSelected] = useState(0);
+  const [selected, setSelected] = useState(() => Math.max(0, head?.boards.findIndex((b) => b.serial === initialSerial) ?? 0));
+  /** Whether the technician has moved the selection (then the whole index keeps that board selected). */
+  const hasMoved = useRef(false);
+  const selectedSerialRef = useRef<string | undefined>(undefined);
   const [filter, setFilter] = useState('');
   const [mode, setMode] = useState<BenchMode>({ kind: 'list' });
   const [message, setMessage] = useState<Message | null>(null);
@@ -58,7 +76,7 @@ export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTarg
         (ix) => {
           if (!mounted.current) return;
           setIndex(ix);
-          const serial = arrival.current;
+          const serial = hasMoved.current ? selectedSerialRef.current : arrival.current;
           if (serial) {
             const at = orderBoards(Object.values(ix.boards)).findIndex((b) => b.serial === serial);
             if (at >= 0) setSelected(at);
@@ -68,10 +86,11 @@ export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTarg
       );
   }, [log]);
 
-  const all = useMemo(() => (index ? orderBoards(Object.values(index.boards)) : []), [index]);
+  const all: readonly BoardHead[] = useMemo(() => (index ? orderBoards(Object.values(index.boards)) : (head?.boards ?? [])), [index, head]);
   const boards = useMemo(() => filterBoards(all, filter), [all, filter]);
-  const current: BoardSummary | undefined = boards[Math.min(selected, boards.length - 1)];
+  const current: BoardHead | undefined = boards[Math.min(selected, boards.length - 1)];
   const selectedSerial = current?.serial;
+  selectedSerialRef.current = selectedSerial;
   const selectRef = useRef(onSelect);
   selectRef.current = onSelect;
   useEffect(() => {
@@ -99,7 +118,7 @@ export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTarg
         go.onOpenRun(board.serial, open.planHash, open.id);
         return;
       }
-      const plan = await catalog.forBoard(board);
+      const plan = await (await catalog).forBoard(board);
       if (!mounted.current) return;
       if (!plan) {
         setMode({ kind: 'list' });
@@ -118,6 +137,11 @@ export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTarg
         setMessage({ text: problem, tone: 'error' });
         return;
       }
+      // Until the whole index is in, a serial missing from the first boards may still be in the log.
+      if (index === null) {
+        setMessage({ text: 'still reading the log index: press Enter again in a moment', tone: 'info' });
+        return;
+      }
       const existing = all.findIndex((b) => b.serial === serial);
       if (existing >= 0) {
         setFilter('');
@@ -129,7 +153,7 @@ export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTarg
       setMessage(null);
       setMode({ kind: 'busy', what: 'looking up plans…' });
       void (async () => {
-        const choices = await catalog.choices(index ?? { schemaVersion: 1, boards: {} });
+        const choices = await (await catalog).choices(index ?? { schemaVersion: 1, boards: {} });
         if (!mounted.current) return;
         const only = choices[0];
         if (choices.length === 0) {
@@ -167,7 +191,8 @@ export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTarg
   const openPlan = useCallback(() => {
     setMessage(null);
     void (async () => {
-      const plan = current ? await catalog.forBoard(current) : (catalog.filePlans[0] ?? null);
+      const plans = await catalog;
+      const plan = current ? await plans.forBoard(current) : (plans.filePlans[0] ?? null);
       if (!mounted.current) return;
       if (plan) go.onPlan(plan.hash);
       else setMessage({ text: current ? noPlan(current.serial) : 'no plan to show: start probebook with --plan FILE', tone: 'error' });
@@ -193,9 +218,15 @@ export function useBenchState(log: BenchLog, catalog: PlanCatalog, go: BenchTarg
     filter,
     mode,
     message,
-    setSelected,
+    setSelected: (at: number) => {
+      hasMoved.current = true;
+      setSelected(at);
+    },
     /** Move the selection; functional, so several keys in one chunk all count. */
-    moveBy: (delta: number) => setSelected((s) => moveSelection(Math.min(s, boards.length - 1), delta, boards.length)),
+    moveBy: (delta: number) => {
+      hasMoved.current = true;
+      setSelected((s) => moveSelection(Math.min(s, boards.length - 1), delta, boards.length));
+    },
     setFilter: (text: string) => {
       setFilter(text);
       setSelected(0);
