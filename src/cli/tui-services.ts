@@ -3,7 +3,7 @@ import { instrumentsPath, loadInstruments } from '../bench/instruments-file.js';
 import { BenchSession } from '../bench/session.js';
 import { type InstrumentSource, sessionSource } from '../bench/source.js';
 import type { BenchLog } from '../log/types.js';
-import { loadPlanFile } from '../plan/load.js';
+import { loadPlanText } from '../plan/load.js';
 import { PlanCatalog } from '../ui/bench/plan-catalog.js';
 import type { CommandIo } from './command.js';
 import { targetsCacheFor } from './targets-cache.js';
@@ -27,14 +27,25 @@ async function benchInstruments(flag: string | undefined, env: NodeJS.ProcessEnv
   return sessionSource(file, new BenchSession(file));
 }
 
+/** A `--plan` file as read before the first frame: its name as given and its text. */
+export interface PlanFileText {
+  readonly file: string;
+  readonly text: string;
+}
+
 /**
- * The `--plan` files (each checked in full: a bad one is a usage error, exit 2),
- * the targets cache and the instruments. `notice` hears cache problems, said
- * after the screen closes (a line on stderr would tear the frame).
+ * The `--plan` files checked in full (a bad one is a usage error, exit 2), the
+ * targets cache and the instruments. `notice` hears cache problems, said after
+ * the screen closes (a line on stderr would tear the frame).
  */
-export async function loadTuiServices(args: TuiArgs, log: BenchLog, io: Pick<CommandIo, 'env' | 'cwd'>, notice: (text: string) => void): Promise<TuiServices> {
-  const plans = [];
-  for (const file of args.plans) plans.push(await loadPlanFile(file, { cwd: io.cwd }));
+export async function loadTuiServices(
+  args: TuiArgs,
+  planTexts: readonly PlanFileText[],
+  log: BenchLog,
+  io: Pick<CommandIo, 'env' | 'cwd'>,
+  notice: (text: string) => void,
+): Promise<TuiServices> {
+  const plans = planTexts.map(({ file, text }) => loadPlanText(text, file));
   const targetsCache = targetsCacheFor(args.cache, { env: io.env, stderr: notice });
   const catalog = new PlanCatalog(log, plans, { targetsCache });
   const instruments = await benchInstruments(args.instruments, io.env, io.cwd);

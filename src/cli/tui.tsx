@@ -6,7 +6,8 @@ import { App } from '../ui/app.js';
 import { UsageError } from './errors.js';
 import { maxOperatorLength, oneLine } from '../units/text.js';
 import { startMark } from './start-marks.js';
-import type { TuiServices } from './tui-services.js';
+import type { PlanFileText, TuiServices } from './tui-services.js';
+import { readPlanFile } from '../plan/read-file.js';
 import { cacheHelp } from './cache-help.js';
 
 // What the bench screen's first frame needs is imported above and nothing more
@@ -123,6 +124,9 @@ export const tuiCommand: Command = async (argv, io) => {
   }
   const log = await openStore(resolveLogDir(args.log, io.env));
   startMark('log-open');
+  // A missing or unreadable --plan is said before the screen opens; what the text says is checked after its first frame.
+  const planTexts: PlanFileText[] = [];
+  for (const file of args.plans) planTexts.push({ file, text: await readPlanFile(file, { cwd: io.cwd }) });
   const operator = operatorFrom(args.operator, io.env);
   // Cache problems are said after the screen closes: a line on stderr would tear the frame.
   const notices: string[] = [];
@@ -132,17 +136,20 @@ export const tuiCommand: Command = async (argv, io) => {
   let failure: unknown = null;
   let start!: () => void;
   const services = new Promise<TuiServices>((resolve) => {
-    start = () => resolve(import('./tui-services.js').then((m) => m.loadTuiServices(args, log, io, (text) => notices.push(text))));
+    start = () => resolve(import('./tui-services.js').then((m) => m.loadTuiServices(args, planTexts, log, io, (text) => notices.push(text))));
   });
   let isStarted = false;
+  let timer: NodeJS.Timeout | undefined;
   const onShown = () => {
     if (isStarted) return;
     isStarted = true;
     startMark('shown');
-    setTimeout(start, servicesDelayMs);
+    timer = setTimeout(start, servicesDelayMs);
   };
   const catalog = services.then((s) => s.catalog);
   const instruments = services.then((s) => s.instruments);
+  // The screen hears of a failure through these; the failure itself is handled below.
+  for (const p of [catalog, instruments]) p.catch(() => undefined);
 
   process.stdout.write(enterAltScreen);
   const restore = () => process.stdout.write(leaveAltScreen);
@@ -160,7 +167,8 @@ export const tuiCommand: Command = async (argv, io) => {
     );
     await app.waitUntilExit();
   } finally {
-    // Closed whether or not the screen ever asked for them.
+    // Nothing more is loaded for a screen that is gone; what was opened is closed.
+    clearTimeout(timer);
     void services.then(
       (s) => s.instruments?.close(),
       () => undefined,

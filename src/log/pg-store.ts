@@ -265,6 +265,11 @@ export class PgStore implements LogStore {
     await db.query('INSERT INTO plan_snapshots (hash, text) VALUES ($1, $2) ON CONFLICT (hash) DO NOTHING', [start.planHash, start.planText]);
   }
 
+  /** A database answers `readIndex` in one query; there is no cheaper head to read first. */
+  readIndexHead(): null {
+    return null;
+  }
+
   readIndex(): Promise<LogIndex> {
     return this.#read(async () => {
       // Rows as arrays, not objects (the driver's row objects cost most of the fetch at 10⁵ boards;

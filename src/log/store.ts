@@ -50,6 +50,8 @@ export interface LogOptions {
 export interface LogStore extends BenchLog {
   /** The index; `onProgress` hears about boards read again while it is rebuilt; `verify` checks every board file. */
   readIndex(onProgress?: IndexProgress, options?: IndexReadOptions): Promise<LogIndex>;
+  /** The first boards by latest activity, read at once (see `BenchLog`); null when the store keeps no such head. */
+  readIndexHead(count: number): IndexHead | null;
   /**
    * Save a reading into the board's open run, starting one first when none is
    * open, in one locked step (two terminals cannot both start a run).

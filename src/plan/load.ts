@@ -1,7 +1,4 @@
 import { createHash } from 'node:crypto';
-import { constants } from 'node:fs';
-import { type FileHandle, open } from 'node:fs/promises';
-import { resolve } from 'node:path';
 import { defaultOpamp } from '../circuit/opamp.js';
 import { stageKinds } from '../circuit/registry.js';
 import type { StageKind } from '../circuit/types.js';
@@ -16,6 +13,9 @@ import { resolveStages } from './stages.js';
 import type { Plan, Rail } from './types.js';
 import { readTolerance, readUncertainty, readValue } from './values.js';
 import { defaultVos, readOpampSpec, readTemperatureRange } from './active-spread.js';
+import { maxPlanBytes, maxStages, readPlanFile } from './read-file.js';
+
+export { maxPlanBytes, maxStages };
 
 /**
  * Below this rail-to-ground resistance, read unpowered, a rail counts as shorted
@@ -24,14 +24,6 @@ import { defaultVos, readOpampSpec, readTemperatureRange } from './active-spread
  */
 export const defaultRailShortMin = 100;
 
-/**
- * Plan size limits: far above any real board (the demo plans have 5 stages and
- * 4 branches), low enough that loading and `targets` stay fast. Every step of
- * loading and chain building is linear in the stages; only the one-part-at-a-time
- * worst-case search grows with stages × parts, which 200 stages keeps in seconds.
- */
-export const maxPlanBytes = 1_000_000;
-export const maxStages = 200;
 /** The longest list inside a stage (a shaper's `branches`, a manual stage's `checks`). */
 export const maxStageList = 64;
 /** The deepest nesting of objects and lists in a plan file. */
@@ -45,31 +37,7 @@ const uncertaintyUnits: Readonly<Record<string, Unit>> = { V: 'V', A: 'A', Hz: '
  * anything wrong. Messages name the file as given; `cwd` resolves a relative path.
  */
 export async function loadPlanFile(file: string, options: { readonly cwd?: string } = {}): Promise<Plan> {
-  let text: string;
-  let handle: FileHandle | undefined;
-  try {
-    // Opened without blocking: a FIFO or a device would otherwise hang the open (or the read) forever.
-    handle = await open(options.cwd === undefined ? file : resolve(options.cwd, file), constants.O_RDONLY | constants.O_NONBLOCK);
-    const info = await handle.stat();
-    if (info.isDirectory()) throw new PlanError(file, '', 'is a folder; give the path of a *.plan.json file');
-    if (!info.isFile()) throw new PlanError(file, '', 'is not a regular file (a pipe, a device or a socket); give the path of a *.plan.json file');
-    if (info.size > maxPlanBytes)
-      throw new PlanError(
-        file,
-        '',
-        `is ${(info.size / 1e6).toFixed(1)} MB; a plan is at most ${maxPlanBytes / 1e6} MB (${maxStages} stages), so this is not one`,
-      );
-    text = await handle.readFile('utf8');
-  } catch (error) {
-    if (error instanceof PlanError) throw error;
-    const code = (error as NodeJS.ErrnoException).code;
-    if (code === 'ENOENT') throw new PlanError(file, '', 'no such file; give the path of a *.plan.json file');
-    if (code === 'EISDIR') throw new PlanError(file, '', 'is a folder; give the path of a *.plan.json file');
-    if (code === 'EACCES' || code === 'EPERM') throw new PlanError(file, '', "cannot be read: permission denied; check the file's permissions");
-    throw new PlanError(file, '', `cannot be read (${code ?? (error as Error).message})`);
-  } finally {
-    await handle?.close();
-  }
+  const text = await readPlanFile(file, options);
   return loadPlanText(text, file);
 }
 
