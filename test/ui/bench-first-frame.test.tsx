@@ -1,5 +1,4 @@
 import { readFile, writeFile } from 'node:fs/promises';
-import { join } from 'node:path';
 import { render } from 'ink-testing-library';
 import { afterEach, describe, expect, test } from 'vitest';
 import { type LogStore, openLog } from '../../src/log/store.js';
@@ -44,7 +43,11 @@ function held(log: LogStore) {
   });
   const proxy = new Proxy(log, {
     get(target, name) {
-      if (name === 'readIndex') return async (...args: Parameters<LogStore['readIndex']>) => (await gate, target.readIndex(...args));
+      if (name === 'readIndex')
+        return async (...args: Parameters<LogStore['readIndex']>) => {
+          await gate;
+          return target.readIndex(...args);
+        };
       const value = Reflect.get(target, name, target) as unknown;
       return typeof value === 'function' ? value.bind(target) : value;
     },
