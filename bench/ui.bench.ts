@@ -7,7 +7,7 @@
 // board files directly, then indexed by the real store; board data is invented.
 import { spawnSync } from 'node:child_process';
 import { EventEmitter } from 'node:events';
-import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { build } from 'esbuild';
@@ -241,13 +241,64 @@ function tmuxFirstFrame(command: string, marker: string, label: string, runs = 5
   return median(firsts);
 }
 
+// ---- 3. what the first frame is made of
+
+interface StartMarks {
+  readonly node: { readonly bootstrapComplete: number };
+  readonly marks: readonly [string, number][];
+  readonly writes: readonly [number, number][];
+}
+
+/**
+ * The bundle in tmux again, with PROBEBOOK_START_MARKS (src/cli/start-marks.ts):
+ * the process notes when it reached each step and when it wrote to the terminal,
+ * and the medians say where the time goes. Frames are the writes of more than
+ * 100 bytes (Ink's cursor moves are a few bytes). Quit with q, so the marks are written.
+ */
+function startBreakdown(command: string, marker: string, label: string, runs = 5) {
+  const seen: StartMarks[] = [];
+  for (let i = 0; i < runs; i++) {
+    const session = `probebook-bench-marks-${process.pid}-${i}`;
+    const file = join(out, `start-marks-${i}.json`);
+    rmSync(file, { force: true });
+    spawnSync('tmux', ['new-session', '-d', '-s', session, '-x', '80', '-y', '24', `PROBEBOOK_START_MARKS='${file}' ${command}; sleep 30`]);
+    const start = performance.now();
+    while (performance.now() - start < 15_000) {
+      if (spawnSync('tmux', ['capture-pane', '-p', '-t', session], { encoding: 'utf8' }).stdout.includes(marker)) break;
+    }
+    spawnSync('sleep', ['0.5']); // the plans load after the frame: let them, so their time is in the figures
+    spawnSync('tmux', ['send-keys', '-t', session, 'q']);
+    const until = performance.now() + 5000;
+    while (!existsSync(file) && performance.now() < until) spawnSync('sleep', ['0.05']);
+    spawnSync('tmux', ['kill-session', '-t', session]);
+    if (existsSync(file)) seen.push(JSON.parse(readFileSync(file, 'utf8')) as StartMarks);
+  }
+  const at = (name: string) => median(seen.map((m) => m.marks.find(([n]) => n === name)?.[1] ?? NaN));
+  const frame = (k: number) => median(seen.map((m) => m.writes.filter(([, bytes]) => bytes > 100)[k]?.[0] ?? NaN));
+  const steps: [string, number][] = [
+    ['node ready', median(seen.map((m) => m.node.bootstrapComplete))],
+    ['entry module', at('entry')],
+    ['TUI modules loaded', at('tui')],
+    ['log opened', at('log-open')],
+    ['first frame', frame(0)],
+    ['render() back (whole index read)', at('rendered')],
+    ['second frame', frame(1)],
+    ['plans, engine, instruments loaded', at('services')],
+  ];
+  console.log(
+    `${label}, ms since the process began (median of ${seen.length}): ${steps.map(([name, t], k) => `${name} ${t.toFixed(0)}${k > 0 ? ` (+${(t - (steps[k - 1]?.[1] ?? 0)).toFixed(0)})` : ''}`).join(' · ')}`,
+  );
+}
+
 // ---- run
 
 const { log, dir } = await bigLog();
-const keyTimes = await keystrokeToFrame(log);
-console.log(
-  `keystroke to frame, bring-up screen, 40 checks, ${boardsWanted}-board log: median ${ms(median(keyTimes))}, p95 ${ms(pct(keyTimes, 0.95))}, max ${ms(Math.max(...keyTimes))} over ${keyTimes.length} keys (goal: median < 16 ms)`,
-);
+// PROBEBOOK_BENCH_START_ONLY=1 measures the start alone (the keystroke part takes half a minute).
+const keyTimes = process.env.PROBEBOOK_BENCH_START_ONLY ? [] : await keystrokeToFrame(log);
+if (keyTimes.length > 0)
+  console.log(
+    `keystroke to frame, bring-up screen, 40 checks, ${boardsWanted}-board log: median ${ms(median(keyTimes))}, p95 ${ms(pct(keyTimes, 0.95))}, max ${ms(Math.max(...keyTimes))} over ${keyTimes.length} keys (goal: median < 16 ms)`,
+  );
 
 // `npm run bench ui -- ` runs everything; PROBEBOOK_BENCH_KEYS_ONLY=1 stops here (for profiling).
 if (process.env.PROBEBOOK_BENCH_KEYS_ONLY) process.exit(0);
@@ -266,6 +317,27 @@ const big = tmuxFirstFrame(
   'BENCH-',
   `bundle start to the board list (${boardsWanted}-board log)`,
 );
+// PROBEBOOK_BENCH_BASELINE=path/to/other/dist/probebook.js: an earlier build measured in the same run (ratios, not absolute figures, compare).
+const baseline = process.env.PROBEBOOK_BENCH_BASELINE;
+if (baseline) {
+  const baseFirst = tmuxFirstFrame(`'${node}' '${resolve(baseline)}' --log '${small}' ${demoPlans}`, 'probebook · bench', 'baseline: first frame (empty log)');
+  const baseBig = tmuxFirstFrame(
+    `'${node}' '${resolve(baseline)}' --log '${dir}' ${demoPlans}`,
+    'BENCH-',
+    `baseline: the board list (${boardsWanted}-board log)`,
+  );
+  console.log(`this build ÷ baseline: first frame ${(first / baseFirst).toFixed(2)}, board list of ${boardsWanted} ${(big / baseBig).toFixed(2)}`);
+}
+startBreakdown(
+  `'${node}' '${join(root, 'dist/probebook.js')}' --log '${small}' ${demoPlans}`,
+  'probebook · bench',
+  'what the first frame is made of, empty log',
+);
+startBreakdown(
+  `'${node}' '${join(root, 'dist/probebook.js')}' --log '${dir}' ${demoPlans}`,
+  'BENCH-',
+  `what the first frame is made of, ${boardsWanted}-board log`,
+);
 console.log(`ratios to bare node: first frame ${(first / bare).toFixed(2)}×, board list of ${boardsWanted} ${(big / bare).toFixed(2)}×`);
 // Issue 15's goals beside today's figures (measured on a quiet machine before the work began).
 const keyP95 = pct(keyTimes, 0.95);
@@ -278,4 +350,4 @@ console.log(
 );
 goalRow('TUI first frame, empty log', '550 ms', first, 300);
 goalRow(`TUI board list, ${boardsWanted} boards`, '965 ms', big, 400);
-goalRow(`keystroke to frame p95, bring-up, 40 checks`, '17.9 ms', keyP95, 16);
+if (keyTimes.length > 0) goalRow(`keystroke to frame p95, bring-up, 40 checks`, '17.9 ms', keyP95, 16);
