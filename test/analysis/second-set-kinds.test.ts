@@ -67,7 +67,7 @@ function rankOf(d: Diagnosis, part: string, mode = 'value'): number {
 }
 
 /** The solved value of `part` in the diagnosis (head or alternative). */
-function valueOf(d: Diagnosis, part: string): number | null {
+function solvedValue(d: Diagnosis, part: string): number | null {
   for (const h of d.hypotheses) {
     if (h.part === part && h.mode === 'value') return h.value;
     const a = h.alternatives.find((x) => x.part === part && x.mode === 'value');
@@ -137,7 +137,7 @@ describe('rc-highpass on a board', () => {
     const vpp = (2 * (1000 / fc)) / Math.hypot(1, 1000 / fc);
     const d = diagnose(b.plan, b.targets, readings(b, { 'k.fc': fc, 'k.out.vpp': vpp }));
     expect(rankOf(d, 'k.C')).toBe(1);
-    expect(valueOf(d, 'k.C')).toBeCloseTo(1e-9, 12);
+    expect(solvedValue(d, 'k.C')).toBeCloseTo(1e-9, 12);
     expect(rankOf(d, 'k.R')).toBe(1);
     expect(d.unexplained).toEqual([]);
   });
@@ -168,8 +168,8 @@ describe('sallen-key-lowpass on a board', () => {
     // K = 1 + Rf/Rg: Rf at 10k and Rg at 5k6 give the same ratio; no reading of this stage tells them apart.
     expect(rankOf(d, 'k.Rf')).toBe(1);
     expect(rankOf(d, 'k.Rg')).toBe(1);
-    expect(valueOf(d, 'k.Rf')).toBeCloseTo(10e3, 6);
-    expect(valueOf(d, 'k.Rg')).toBeCloseTo(5.6e3, 6);
+    expect(solvedValue(d, 'k.Rf')).toBeCloseTo(10e3, 6);
+    expect(solvedValue(d, 'k.Rg')).toBeCloseTo(5.6e3, 6);
   });
 });
 
