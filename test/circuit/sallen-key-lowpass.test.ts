@@ -100,6 +100,20 @@ describe('sallen-key-lowpass closed forms (handbook)', () => {
   test('equal parts with gain: Q = 1/(3 − K) (Sedra and Smith, the Sallen–Key section; from memory)', () => {
     expect(sallenKeyIdeal('lowpass', { R1: 1e3, R2: 1e3, C1: 1e-9, C2: 1e-9 }, 2.5).q).toBeCloseTo(2, 12);
   });
+  test.each([
+    // Horowitz and Hill, The Art of Electronics, the table of equal-component VCVS low-pass sections (from memory):
+    // a two-pole Butterworth needs K = 1.586 and has its −3 dB point at f0; a two-pole Bessel needs K = 1.268, and
+    // its RC is scaled by fn = 1.272, i.e. f0 = 1.272·fc.
+    { name: 'Butterworth, K = 1.586: Q = 0.707, fc = f0', rg: 10e3, rf: 5.86e3, q: Math.SQRT1_2, f0OverFc: 1 },
+    { name: 'Bessel, K = 1.268: f0 = 1.272·fc', rg: 10e3, rf: 2.68e3, q: 1 / Math.sqrt(3), f0OverFc: 1.272 },
+  ])('worked example, equal-component VCVS $name', ({ rg, rf, q, f0OverFc }) => {
+    const parts = { R1: 10e3, R2: 10e3, C1: 10e-9, C2: 10e-9, Rf: rf, Rg: rg };
+    const v = run(parts, sine(0.01, 100), { ...fast, gbw: 1e10, aol: 1e9 }).values;
+    // The table rounds K and fn to four figures: within 0.2 %.
+    expect(rel(v['q'] as number, q)).toBeLessThan(0.002);
+    expect(rel((v['f0'] as number) / (v['fc'] as number), f0OverFc)).toBeLessThan(0.002);
+    expect(rel(v['gain'] as number, 1 + rf / rg)).toBeLessThan(1e-6);
+  });
 });
 
 describe('sallen-key-lowpass faults, loading and limits', () => {
