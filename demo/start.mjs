@@ -1,7 +1,7 @@
 // `npm start`: open the bench screen on the demo plans with a writable copy of
 // an invented demo log. The log lives in `.demo-log/` at the repository root
 // (git-ignored, never committed) and is made again by `demo/make-demo-log.ts`
-// whenever it is missing; delete the folder for a fresh one. PROBEBOOK_DEMO_LOG
+// whenever it is missing or its demo sources changed; delete the folder for a fresh one. PROBEBOOK_DEMO_LOG
 // puts it elsewhere (the real-terminal test uses a temporary folder).
 import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
