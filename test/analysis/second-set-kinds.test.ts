@@ -447,3 +447,19 @@ describe('timer-astable on a board', () => {
     expect(d.hypotheses.flatMap((h) => [h.part, ...h.alternatives.map((a) => a.part)])).not.toContain('k.vdrop');
   });
 });
+
+describe('what the diagnosis asks for next', () => {
+  test('never a design figure nobody probes: for a regulator stuck at its input less the dropout it says to check R1 and R2 in place, not to read its dissipation', () => {
+    const b = board('regulator-next', [
+      { id: 'k', kind: 'regulator', from: '+12V', parts: { R1: '240 1%', R2: '720 1%' } },
+      { id: 'z', kind: 'zener-shunt', from: '+12V', parts: { Rs: '680 1%' }, vz: '5.1 V 2%' },
+    ]);
+    // In dropout (12 V − 2 V): R1 a decade low, R2 a decade high, either one open all read 10 V (the data-sheet dropout).
+    const d = diagnose(b.plan, b.targets, readings(b, { 'k.out.dc': 10 }));
+    const designFigures = b.targets.filter((t) => t.isDesignFigure).map((t) => t.check);
+    expect(designFigures).toEqual(expect.arrayContaining(['k.pdiss', 'z.pz']));
+    for (const h of d.hypotheses) for (const check of designFigures) expect(h.separate ?? '').not.toContain(`read ${check}`);
+    expect(d.hypotheses[0]?.separate).toMatch(/no check of the plan tells/);
+    if (d.next) expect(designFigures).not.toContain(d.next.check);
+  });
+});
