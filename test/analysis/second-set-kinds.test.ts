@@ -405,6 +405,18 @@ describe('common-emitter on a board', () => {
     ]);
     expect(rel(target(loaded, 'k.gain').nominal / target(b, 'k.gain').nominal, 0.5)).toBeLessThan(0.02);
   });
+  test('loading: its input, R1 ∥ R2 ∥ (hfe + 1)(re + Re) at the operating point, sets a coupling high-pass’s corner (Sedra and Smith, input resistance of the CE stage with Re)', () => {
+    const coupled = board('ce-coupled', [
+      gen('1 kHz', '20 mV'),
+      { id: 'hp', kind: 'rc-highpass', input: 'in.out', parts: { C: '1u 5%', R: '10k 1%' } },
+      { id: 'k', kind: 'common-emitter', input: 'hp.out', from: '+12V', parts: { R1: '47k 1%', R2: '10k 1%', Rc: '4k7 1%', Re: '1k 1%' } },
+    ]);
+    const h = bias(1e3);
+    const rin = 1 / (1 / 47e3 + 1 / 10e3 + 1 / (151 * (0.025865 / h.ic + 1e3)));
+    const r = 1 / (1 / 10e3 + 1 / rin);
+    // Within 1 %: the Early effect and the bias network's own loading move Rin by a few tenths of a percent.
+    expect(rel(target(coupled, 'hp.fc').nominal, 1 / (2 * Math.PI * r * 1e-6))).toBeLessThan(0.01);
+  });
   test('diagnosis: Re fitted 10k for 1k (decade slip) names Re', () => {
     const h = bias(10e3);
     const d = diagnose(
