@@ -88,20 +88,34 @@ describe('the bench screen’s first frame', () => {
     }
   });
 
-  test('a serial typed before the whole index is read is not taken for a new board until it is', async () => {
+  test('a serial typed before the whole index is read is looked up in the whole index, not taken for a new board', async () => {
     const { log, plan } = await threeBoardLog();
     const { log: slow, release } = held(log);
     const ui = render(<App log={slow} catalog={catalogOf(log, plan)} operator="tester" size={{ width: 80, height: 23 }} onQuit={() => {}} />);
     try {
       await writeAndWait(ui, 'n', 'New board');
       for (const ch of 'FX-0001') await writeAndWait(ui, ch);
-      await writeAndWait(ui, keys.enter, 'still reading the log index');
+      await writeAndWait(ui, keys.enter, 'reading the log index…');
       release();
-      await waitForFrame(ui, '3 boards');
-      const frame = await writeAndWait(ui, keys.enter, 'FX-0001 is already in the log');
+      const frame = await waitForFrame(ui, 'FX-0001 is already in the log');
       expect(frame).toMatch(/› FX-0001/);
+      expect(await log.readBoard('FX-0001')).toMatchObject({ runs: [{ outcome: 'passed' }] }); // no new run was started
     } finally {
       release();
+      ui.unmount();
+    }
+  });
+
+  test('a serial that is a name of every JavaScript object is still a new board', async () => {
+    const { log, plan } = await threeBoardLog();
+    const ui = render(<App log={log} catalog={catalogOf(log, plan)} operator="tester" size={{ width: 80, height: 23 }} onQuit={() => {}} />);
+    try {
+      await waitForFrame(ui, '3 boards');
+      await writeAndWait(ui, 'n', 'New board');
+      for (const ch of 'constructor') await writeAndWait(ui, ch);
+      const frame = await writeAndWait(ui, keys.enter, 'Cautions before first power');
+      expect(frame).toContain('constructor');
+    } finally {
       ui.unmount();
     }
   });

@@ -64,26 +64,28 @@ export function useBenchState(
 
   // The board to select on arrival is read once: the selection itself updates it later.
   const arrival = useRef(initialSerial);
+  /** The whole index as it is being read (what a new serial is looked up in). */
+  const wholeIndex = useRef<Promise<LogIndex> | null>(null);
   const [progress, setProgress] = useState<{ done: number; total: number } | null>(null);
   useEffect(() => {
     // The store reports progress while it rebuilds a stale index (thousands of
     // boards); the BenchLog interface leaves the callback out, so pass it loosely:
     // a log that takes no callback ignores it.
     const readIndex = log.readIndex as (onProgress?: (done: number, total: number) => void) => Promise<LogIndex>;
-    readIndex
-      .call(log, (done, total) => mounted.current && setProgress({ done, total }))
-      .then(
-        (ix) => {
-          if (!mounted.current) return;
-          setIndex(ix);
-          const serial = hasMoved.current ? selectedSerialRef.current : arrival.current;
-          if (serial) {
-            const at = orderBoards(Object.values(ix.boards)).findIndex((b) => b.serial === serial);
-            if (at >= 0) setSelected(at);
-          }
-        },
-        (error: unknown) => mounted.current && setLoadError(error instanceof Error ? error.message : String(error)),
-      );
+    const reading = readIndex.call(log, (done, total) => mounted.current && setProgress({ done, total }));
+    wholeIndex.current = reading;
+    reading.then(
+      (ix) => {
+        if (!mounted.current) return;
+        setIndex(ix);
+        const serial = hasMoved.current ? selectedSerialRef.current : arrival.current;
+        if (serial) {
+          const at = orderBoards(Object.values(ix.boards)).findIndex((b) => b.serial === serial);
+          if (at >= 0) setSelected(at);
+        }
+      },
+      (error: unknown) => mounted.current && setLoadError(error instanceof Error ? error.message : String(error)),
+    );
   }, [log]);
 
   const all: readonly BoardHead[] = useMemo(() => (index ? orderBoards(Object.values(index.boards)) : (head?.boards ?? [])), [index, head]);
@@ -137,23 +139,25 @@ export function useBenchState(
         setMessage({ text: problem, tone: 'error' });
         return;
       }
-      // Until the whole index is in, a serial missing from the first boards may still be in the log.
-      if (index === null) {
-        setMessage({ text: 'still reading the log index: press Enter again in a moment', tone: 'info' });
-        return;
-      }
-      const existing = all.findIndex((b) => b.serial === serial);
-      if (existing >= 0) {
-        setFilter('');
-        setSelected(existing);
-        setMode({ kind: 'list' });
-        setMessage({ text: `${serial} is already in the log: selected it; Enter opens it`, tone: 'info' });
-        return;
-      }
       setMessage(null);
-      setMode({ kind: 'busy', what: 'looking up plans…' });
       void (async () => {
-        const choices = await (await catalog).choices(index ?? { schemaVersion: 1, boards: {} });
+        // Until the whole index is in, a serial missing from the first boards may still be in the log: wait for it.
+        let ix = index;
+        if (ix === null) {
+          setMode({ kind: 'busy', what: 'reading the log index…' });
+          ix = await (wholeIndex.current ?? log.readIndex());
+          if (!mounted.current) return;
+        }
+        if (Object.hasOwn(ix.boards, serial)) {
+          const existing = orderBoards(Object.values(ix.boards)).findIndex((b) => b.serial === serial);
+          setFilter('');
+          setSelected(existing);
+          setMode({ kind: 'list' });
+          setMessage({ text: `${serial} is already in the log: selected it; Enter opens it`, tone: 'info' });
+          return;
+        }
+        setMode({ kind: 'busy', what: 'looking up plans…' });
+        const choices = await (await catalog).choices(ix);
         if (!mounted.current) return;
         const only = choices[0];
         if (choices.length === 0) {
@@ -167,7 +171,7 @@ export function useBenchState(
         }
       })().catch(fail);
     },
-    [all, index, catalog, go],
+    [index, log, catalog, go],
   );
 
   const choosePlan = useCallback(() => {
