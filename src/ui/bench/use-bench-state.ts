@@ -1,5 +1,5 @@
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
-import type { BenchLog, BoardHead, LogIndex } from '../../log/types.js';
+import type { BenchLog, BoardHead, BoardSummary, LogIndex } from '../../log/types.js';
 import { validateSerial } from '../../log/serial.js';
 import type { Plan } from '../../plan/types.js';
 import { moveSelection } from '../components/scroll-window.js';
@@ -49,6 +49,8 @@ export function useBenchState(
   onSelect?: (serial: string) => void,
 ) {
   const [index, setIndex] = useState<LogIndex | null>(null);
+  /** The whole index's boards in the screen's order, sorted once when it arrives. */
+  const [ordered, setOrdered] = useState<readonly BoardSummary[]>([]);
   // Read during the first render on purpose: a few kilobytes, so the first frame already lists boards.
   const [head] = useState(() => log.readIndexHead?.(firstRows) ?? null);
   const [loadError, setLoadError] = useState<string | null>(null);
@@ -77,10 +79,12 @@ export function useBenchState(
     reading.then(
       (ix) => {
         if (!mounted.current) return;
+        const boards = orderBoards(Object.values(ix.boards));
         setIndex(ix);
+        setOrdered(boards);
         const serial = hasMoved.current ? selectedSerialRef.current : arrival.current;
         if (serial) {
-          const at = orderBoards(Object.values(ix.boards)).findIndex((b) => b.serial === serial);
+          const at = boards.findIndex((b) => b.serial === serial);
           if (at >= 0) setSelected(at);
         }
       },
@@ -88,7 +92,7 @@ export function useBenchState(
     );
   }, [log]);
 
-  const all: readonly BoardHead[] = useMemo(() => (index ? orderBoards(Object.values(index.boards)) : (head?.boards ?? [])), [index, head]);
+  const all: readonly BoardHead[] = index ? ordered : (head?.boards ?? []);
   const boards = useMemo(() => filterBoards(all, filter), [all, filter]);
   const current: BoardHead | undefined = boards[Math.min(selected, boards.length - 1)];
   const selectedSerial = current?.serial;
