@@ -220,25 +220,44 @@ async function keystrokeToFrame(log: Awaited<ReturnType<typeof bigLog>>['log']) 
 
 // ---- 2. command start to first frame, in tmux
 
-function tmuxFirstFrame(command: string, marker: string, label: string, runs = 5) {
-  const firsts: number[] = [];
-  for (let i = 0; i < runs; i++) {
-    const session = `probebook-bench-${process.pid}-${i}`;
-    const start = performance.now();
-    spawnSync('tmux', ['new-session', '-d', '-s', session, '-x', '80', '-y', '24', `${command}; sleep 30`]);
-    let seen = NaN;
-    while (performance.now() - start < 15_000) {
-      const text = spawnSync('tmux', ['capture-pane', '-p', '-t', session], { encoding: 'utf8' }).stdout;
-      if (text.includes(marker)) {
-        seen = performance.now() - start;
-        break;
-      }
+/** One start in a new 80×24 tmux window: ms from the window's start until the screen shows `marker` (NaN after 15 s). */
+function tmuxOnce(command: string, marker: string, tag: string): number {
+  const session = `probebook-bench-${process.pid}-${tag}`;
+  const start = performance.now();
+  spawnSync('tmux', ['new-session', '-d', '-s', session, '-x', '80', '-y', '24', `${command}; sleep 30`]);
+  let seen = NaN;
+  while (performance.now() - start < 15_000) {
+    const text = spawnSync('tmux', ['capture-pane', '-p', '-t', session], { encoding: 'utf8' }).stdout;
+    if (text.includes(marker)) {
+      seen = performance.now() - start;
+      break;
     }
-    spawnSync('tmux', ['kill-session', '-t', session]);
-    firsts.push(seen);
   }
+  spawnSync('tmux', ['kill-session', '-t', session]);
+  return seen;
+}
+
+function tmuxFirstFrame(command: string, marker: string, label: string, runs = 5) {
+  const firsts = Array.from({ length: runs }, (_, i) => tmuxOnce(command, marker, String(i)));
   console.log(`${label}: median ${ms(median(firsts))} (runs: ${firsts.map((x) => x.toFixed(0)).join(', ')} ms)`);
   return median(firsts);
+}
+
+/**
+ * This build against another, their runs alternating (a shared machine's load drifts
+ * within seconds): the medians and the median of the pairwise ratios.
+ */
+function abFirstFrame(command: string, baseCommand: string, marker: string, label: string, runs = 7) {
+  const now: number[] = [];
+  const base: number[] = [];
+  for (let i = 0; i < runs; i++) {
+    base.push(tmuxOnce(baseCommand, marker, `base-${i}`));
+    now.push(tmuxOnce(command, marker, `now-${i}`));
+  }
+  const ratio = median(now.map((x, i) => x / (base[i] ?? NaN)));
+  console.log(
+    `${label}: this build ${ms(median(now))}, baseline ${ms(median(base))}, this ÷ baseline ${ratio.toFixed(2)} (median of ${runs} alternating pairs)`,
+  );
 }
 
 // ---- 3. what the first frame is made of
@@ -320,13 +339,20 @@ const big = tmuxFirstFrame(
 // PROBEBOOK_BENCH_BASELINE=path/to/other/dist/probebook.js: an earlier build measured in the same run (ratios, not absolute figures, compare).
 const baseline = process.env.PROBEBOOK_BENCH_BASELINE;
 if (baseline) {
-  const baseFirst = tmuxFirstFrame(`'${node}' '${resolve(baseline)}' --log '${small}' ${demoPlans}`, 'probebook · bench', 'baseline: first frame (empty log)');
-  const baseBig = tmuxFirstFrame(
-    `'${node}' '${resolve(baseline)}' --log '${dir}' ${demoPlans}`,
-    'BENCH-',
-    `baseline: the board list (${boardsWanted}-board log)`,
+  const base = `'${node}' '${resolve(baseline)}'`;
+  const self = `'${node}' '${join(root, 'dist/probebook.js')}'`;
+  abFirstFrame(
+    `${self} --log '${small}' ${demoPlans}`,
+    `${base} --log '${small}' ${demoPlans}`,
+    'probebook · bench',
+    'against the baseline, first frame (empty log)',
   );
-  console.log(`this build ÷ baseline: first frame ${(first / baseFirst).toFixed(2)}, board list of ${boardsWanted} ${(big / baseBig).toFixed(2)}`);
+  abFirstFrame(
+    `${self} --log '${dir}' ${demoPlans}`,
+    `${base} --log '${dir}' ${demoPlans}`,
+    'BENCH-',
+    `against the baseline, the board list (${boardsWanted}-board log)`,
+  );
 }
 startBreakdown(
   `'${node}' '${join(root, 'dist/probebook.js')}' --log '${small}' ${demoPlans}`,
