@@ -5,6 +5,7 @@ import { buildChain } from '../../src/plan/chain.js';
 import { loadPlanText } from '../../src/plan/load.js';
 import { runSpice } from '../helpers/ngspice.js';
 import { opampSubckt } from '../helpers/spice-opamp.js';
+import { mirroredBranches } from './fixtures/shaper-branches.js';
 
 /*
  * The statistical band of one whole chain (oscillator → shaper → amplifier)
@@ -59,12 +60,10 @@ const plan = loadPlanText(
         kind: 'diode-shaper',
         input: 'osc.triangle',
         parts: { Rs: '6k8 1%' },
-        branches: [
-          { diodes: 1, polarity: '+', R: '15k 1%', bias: '0.7 V' },
-          { diodes: 1, polarity: '-', R: '15k 1%', bias: '-0.7 V' },
-          { diodes: 1, polarity: '+', R: '1k5 1%', bias: '1.5 V' },
-          { diodes: 1, polarity: '-', R: '1k5 1%', bias: '-1.5 V' },
-        ],
+        branches: mirroredBranches([
+          { R: '15k 1%', bias: 0.7 },
+          { R: '1k5 1%', bias: 1.5 },
+        ]),
       },
       { id: 'gain', kind: 'noninverting-amp', input: 'shaper.out', parts: { Rg: '10k 1%', Rf: '15k 1%' } },
     ],

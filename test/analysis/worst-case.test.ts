@@ -6,6 +6,7 @@ import { targetsJson } from '../../src/analysis/targets-json.js';
 import { worstCase } from '../../src/analysis/worst-case.js';
 import { buildChain, spreadOf } from '../../src/plan/chain.js';
 import { loadPlanFile, loadPlanText } from '../../src/plan/load.js';
+import { mirroredBranches } from './fixtures/shaper-branches.js';
 
 /*
  * The worst-case search against brute force. A diode shaper driven by a bench
@@ -31,12 +32,10 @@ const planText = JSON.stringify({
       kind: 'diode-shaper',
       input: 'in.out',
       parts: { Rs: '6k8 2%' },
-      branches: [
-        { diodes: 1, polarity: '+', R: '15k', bias: '0.7 V' },
-        { diodes: 1, polarity: '-', R: '15k', bias: '-0.7 V' },
-        { diodes: 1, polarity: '+', R: '1k5 5%', bias: '1.5 V' },
-        { diodes: 1, polarity: '-', R: '1k5', bias: '-1.5 V' },
-      ],
+      branches: mirroredBranches([
+        { R: '15k', bias: 0.7 },
+        { R: '1k5 5%', Rneg: '1k5', bias: 1.5 },
+      ]),
     },
   ],
 });

@@ -5,6 +5,10 @@ export const planHelp: readonly HelpEntry[] = [
   ['↑ ↓ / j k', 'move through the targets, or scroll the warnings'],
   ['PgUp PgDn g G', 'page up, page down, first, last'],
   ['Tab', 'switch between the targets table and the design warnings'],
+  [
+    'e',
+    'edit this plan in the plan editor: a --plan file is saved in place (the old one kept as FILE.bak), a plan the log alone keeps as a new file in the current folder; boards already run keep the plan they used',
+  ],
   ['Esc', 'back to the bench'],
   ['?', 'this help'],
   ['q', 'quit'],
@@ -18,6 +22,7 @@ export const planNotes: readonly string[] = [
 export const planKeys: readonly KeyHint[] = [
   ['↑↓', 'move'],
   ['Tab', 'warnings'],
+  ['e', 'edit'],
   ['Esc', 'back'],
   ['q', 'quit'],
   ['?', 'help'],
