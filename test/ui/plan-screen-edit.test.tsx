@@ -4,6 +4,7 @@ import { join } from 'node:path';
 import { afterEach, describe, expect, test } from 'vitest';
 import { planEditAccess } from '../../src/cli/plan-draft-file.js';
 import { keys } from './keys.js';
+import { selectRow } from './screen-driver.js';
 import { fixturePlan, fixturePlanText, type RenderedApp, renderApp, seedBoard } from './render-app.js';
 
 // The plan screen's `e`: the plan editor on the plan shown, saved through the
@@ -35,18 +36,6 @@ async function onPlanScreen(options: { withEditing?: boolean } = {}) {
   return a;
 }
 
-/** Move down in the editor until the selected row shows `label`. */
-async function select(a: RenderedApp, label: RegExp) {
-  for (let i = 0; i < 80; i++) {
-    const line = a
-      .frame()
-      .split('\n')
-      .find((l) => l.startsWith('›'));
-    if (line && label.test(line)) return;
-    await a.press(keys.down);
-  }
-  throw new Error(`no row ${String(label)}; the screen shows:\n${a.frame()}`);
-}
 
 /** Type over the selected field and keep it. */
 async function typeOver(a: RenderedApp, name: string, text: string) {
@@ -86,7 +75,7 @@ describe('plan screen → plan editor', () => {
     await a.press('e');
     await a.waitFor('probebook · plan editor · fixture-0.plan.json');
     expect(a.frame()).toContain('saved');
-    await select(a, /^›.\s*Rf\s+15k 1%/);
+    await selectRow(a, /^›.\s*Rf\s+15k 1%/);
     await typeOver(a, 'Rf', '22k 1%');
     await a.waitFor('● unsaved');
     // q belongs to the editor here: it asks before leaving unsaved changes, it never quits the app.
@@ -121,7 +110,7 @@ describe('plan screen → plan editor', () => {
     const hash = a.catalog.filePlans[0]?.hash;
     await a.press('e');
     await a.waitFor('probebook · plan editor');
-    await select(a, /^›.\s*Rin\s+10k 1%/);
+    await selectRow(a, /^›.\s*Rin\s+10k 1%/);
     await typeOver(a, 'Rin', '4k7 1%');
     await a.press(keys.escape);
     await a.waitFor('Leave the plan editor?');
