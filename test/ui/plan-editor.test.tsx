@@ -48,7 +48,6 @@ function open(options: { initial?: Draft; savedText?: string | null; width?: num
   return { ...view, saves, exits: () => exits };
 }
 
-
 describe('plan editor', () => {
   test('a new plan: the board header with its defaults and a line explaining the selected field', async () => {
     const s = open({ initial: newDraft('bench-7'), savedText: null });

@@ -36,7 +36,6 @@ async function onPlanScreen(options: { withEditing?: boolean } = {}) {
   return a;
 }
 
-
 /** Type over the selected field and keep it. */
 async function typeOver(a: RenderedApp, name: string, text: string) {
   await a.press(keys.enter);
