@@ -56,6 +56,9 @@ describe('plan screen → plan editor', () => {
     await a.press('?');
     await a.waitFor('Help — plan');
     expect(a.frame()).toContain('edit this plan in the plan editor');
+    // The note, read across the help box's wrapped lines.
+    const help = a.frame().replace(/[│\s]+/g, ' ');
+    expect(help).toContain('a plan given with --plan is saved over its file (the old one kept as FILE.bak), a plan the log alone keeps as a new file');
     await a.cleanup();
     app = undefined;
     rmSync(folder, { recursive: true, force: true });

@@ -8,7 +8,7 @@ import { HelpBox } from '../components/help-box.js';
 import { KeyBar } from '../components/key-bar.js';
 import { scrollWindow } from '../components/scroll-window.js';
 import { toneProps } from '../theme.js';
-import { planHelp, planKeys, planNotes } from './plan-help.js';
+import { planEditNote, planHelp, planKeys, planNotes } from './plan-help.js';
 import { TargetDetail } from './target-detail.js';
 import { TargetsTable } from './targets-table.js';
 import { usePlanScreenKeys } from './use-plan-screen-keys.js';
@@ -33,7 +33,15 @@ export function PlanScreen({ plan, targets, width, height, isActive = true, onEx
   start.current = view.start;
   const target = targets.targets[state.selected];
 
-  if (state.isHelpOpen) return <HelpBox title="plan" entries={onEdit ? planHelp : planHelp.filter(([k]) => k !== 'e')} notes={planNotes} width={width} />;
+  if (state.isHelpOpen)
+    return (
+      <HelpBox
+        title="plan"
+        entries={onEdit ? planHelp : planHelp.filter(([k]) => k !== 'e')}
+        notes={onEdit ? [...planNotes, planEditNote] : planNotes}
+        width={width}
+      />
+    );
   const warnFocus = state.panel === 'warnings';
   return (
     <Box flexDirection="column" width={width} height={height}>
