@@ -167,4 +167,17 @@ describe('plan screen → plan editor', () => {
     expect(a.frame()).toContain('● unsaved');
     expect(a.frame()).toContain('ui-fixture');
   });
+
+  test('a --plan file broken since start: one line saying where and what to do; Esc back to the plan screen, nothing written', async () => {
+    const a = await onPlanScreen();
+    writeFileSync(join(folder, 'fixture-0.plan.json'), '{"plan": "ui-fixture",\n  "rails": [\n');
+    await a.press('e');
+    await a.waitFor('✗ plan fixture-0.plan.json, line 3');
+    expect(a.frame()).toContain('mend it in a text editor first');
+    expect(a.frame()).toContain('Esc back to the plan screen');
+    await a.press(keys.escape);
+    await a.waitFor('probebook · plan · ui-fixture');
+    expect(readFileSync(join(folder, 'fixture-0.plan.json'), 'utf8')).toBe('{"plan": "ui-fixture",\n  "rails": [\n');
+    expect(a.quitCount()).toBe(0);
+  });
 });
