@@ -58,9 +58,9 @@ export function goalTable(rows, figures, ran) {
     else if (!ran.has(row.bench)) verdict = 'not run';
     else verdict = ran.get(row.bench) === 0 ? 'no figure' : `no figure (bench exited ${ran.get(row.bench)})`;
     const note = f?.note ? `  ${f.note}` : '';
-    return [row.work, row.today, now, row.goal, `${verdict}${note}`, `npm run bench ${row.bench}`];
+    return [row.work, row.today, now, row.goal, row.bench, `${verdict}${note}`];
   });
-  const head = ['work', 'today', 'this run', 'goal', 'verdict', ''];
+  const head = ['work', 'today', 'this run', 'goal', 'bench', 'verdict'];
   const all = [head, ...cells];
   const widths = head.map((_, c) => Math.max(...all.map((r) => (r[c] ?? '').length)));
   const line = (/** @type {string[]} */ r) =>
@@ -68,10 +68,10 @@ export function goalTable(rows, figures, ran) {
       .map((cell, c) => (c === 0 || c === 4 ? cell.padEnd(widths[c] ?? 0) : c === 5 ? cell : cell.padStart(widths[c] ?? 0)))
       .join('  ')
       .trimEnd();
-  const met = cells.filter((r) => r[4]?.startsWith('met')).length;
-  const measured = cells.filter((r) => r[4]?.startsWith('met') || r[4]?.startsWith('not met')).length;
+  const met = cells.filter((r) => r[5]?.startsWith('met')).length;
+  const measured = cells.filter((r) => r[5]?.startsWith('met') || r[5]?.startsWith('not met')).length;
   return [
-    `Issue 15's goals, this run: ${met} of ${rows.length} met (${measured} measured). "today" is the issue's figure before the work; × is a ratio.`,
+    `Issue 15's goals, this run: ${met} of ${rows.length} met (${measured} measured). "today" is the issue's figure before the work; × is a ratio; npm run bench BENCH measures a row.`,
     line(head),
     ...cells.map(line),
   ];
