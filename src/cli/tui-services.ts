@@ -5,7 +5,9 @@ import { type InstrumentSource, sessionSource } from '../bench/source.js';
 import type { BenchLog } from '../log/types.js';
 import { loadPlanText } from '../plan/load.js';
 import { PlanCatalog } from '../ui/bench/plan-catalog.js';
+import type { PlanEditAccess } from '../ui/plan-editor/plan-edit-access.js';
 import type { CommandIo } from './command.js';
+import { planEditAccess } from './plan-draft-file.js';
 import { targetsCacheFor } from './targets-cache.js';
 import type { TuiArgs } from './tui.js';
 
@@ -13,6 +15,8 @@ import type { TuiArgs } from './tui.js';
 export interface TuiServices {
   readonly catalog: PlanCatalog;
   readonly instruments: InstrumentSource | null;
+  /** How the plan screen's `e` opens and saves a plan in the editor. */
+  readonly planEditing: PlanEditAccess;
 }
 
 /**
@@ -49,5 +53,5 @@ export async function loadTuiServices(
   const targetsCache = targetsCacheFor(args.cache, { env: io.env, stderr: notice });
   const catalog = new PlanCatalog(log, plans, { targetsCache });
   const instruments = await benchInstruments(args.instruments, io.env, io.cwd);
-  return { catalog, instruments };
+  return { catalog, instruments, planEditing: planEditAccess(io.cwd) };
 }

@@ -148,15 +148,18 @@ export const tuiCommand: Command = async (argv, io) => {
   };
   const catalog = services.then((s) => s.catalog);
   const instruments = services.then((s) => s.instruments);
+  const planEditing = services.then((s) => s.planEditing);
   // The screen hears of a failure through these; the failure itself is handled below.
-  for (const p of [catalog, instruments]) p.catch(() => undefined);
+  for (const p of [catalog, instruments, planEditing]) p.catch(() => undefined);
 
   process.stdout.write(enterAltScreen);
   const restore = () => process.stdout.write(leaveAltScreen);
   process.once('exit', restore);
   try {
     startMark('render');
-    const app = render(<App log={log} catalog={catalog} operator={operator} instruments={instruments} onShown={onShown} />, { exitOnCtrlC: true });
+    const app = render(<App log={log} catalog={catalog} operator={operator} instruments={instruments} planEditing={planEditing} onShown={onShown} />, {
+      exitOnCtrlC: true,
+    });
     startMark('rendered');
     services.then(
       () => startMark('services'),

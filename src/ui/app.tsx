@@ -2,6 +2,7 @@ import { Suspense, useCallback, useEffect, useRef, useState } from 'react';
 import { Box, Text, useApp, useInput } from 'ink';
 import type { BenchLog } from '../log/types.js';
 import type { InstrumentSource } from '../bench/source.js';
+import type { Plan } from '../plan/types.js';
 import { BenchScreen } from './bench/bench.js';
 import type { PlanCatalog } from './bench/plan-catalog.js';
 import { ConfirmQuit } from './components/confirm-quit.js';
@@ -9,7 +10,8 @@ import { useLiveState } from './components/use-live-state.js';
 import { useSettled } from './components/use-settled.js';
 import { type Size, useTerminalSize } from './components/use-terminal-size.js';
 import { WithTargets } from './components/with-targets.js';
-import { BatchScreen, BringUpScreen, HistoryScreen, PlanScreen } from './screens.js';
+import type { PlanEditAccess } from './plan-editor/plan-edit-access.js';
+import { BatchScreen, BringUpScreen, HistoryScreen, PlanEditorScreen, PlanScreen } from './screens.js';
 import { toneProps } from './theme.js';
 
 /** A screen and what it shows (DESIGN §8 names). */
@@ -18,7 +20,8 @@ export type Route =
   | { readonly screen: 'bring-up'; readonly serial: string; readonly planHash: string; readonly resumeRun?: string }
   | { readonly screen: 'history'; readonly serial: string }
   | { readonly screen: 'batch' }
-  | { readonly screen: 'plan'; readonly planHash: string };
+  | { readonly screen: 'plan'; readonly planHash: string }
+  | { readonly screen: 'plan-editor'; readonly planHash: string };
 
 export interface AppProps {
   readonly log: BenchLog;
@@ -33,12 +36,17 @@ export interface AppProps {
   readonly onQuit?: () => void;
   /** The bench's instruments, for the bring-up screen's `m` key (a promise while they load). @default null */
   readonly instruments?: InstrumentSource | null | Promise<InstrumentSource | null>;
+  /**
+   * How the plan screen's `e` opens and saves a plan in the editor (the CLI gives it, a promise
+   * while it loads); none: no `e`. @default null
+   */
+  readonly planEditing?: PlanEditAccess | null | Promise<PlanEditAccess | null>;
   /** Called once, when the first screen shows what it opened for (the bench screen: its boards). */
   readonly onShown?: () => void;
 }
 
 /** Switches screens and owns the quit dialog; every screen keeps its own state. */
-export function App({ log, catalog, operator, size, initialRoute = { screen: 'bench' }, onQuit, instruments = null, onShown }: AppProps) {
+export function App({ log, catalog, operator, size, initialRoute = { screen: 'bench' }, onQuit, instruments = null, planEditing = null, onShown }: AppProps) {
   const app = useApp();
   const exit = onQuit ?? app.exit;
   const { width, height } = useTerminalSize(size);
@@ -52,6 +60,7 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
   const route = stack[stack.length - 1] ?? { screen: 'bench' };
   const plans = useSettled(catalog);
   const bench = useSettled(instruments);
+  const editing = useSettled(planEditing);
   const shown = useRef(false);
   const onBenchShown = useCallback(() => {
     if (shown.current) return;
@@ -71,6 +80,22 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
       setStack((s) => [...s, next]);
     },
     [setDirty, setTyping],
+  );
+  // The editor has the keyboard throughout (its own q and Esc leave it, asking first when a change is unsaved).
+  const openEditor = useCallback(
+    (planHash: string) => {
+      push({ screen: 'plan-editor', planHash });
+      setTyping(true);
+    },
+    [push, setTyping],
+  );
+  /** Back from the editor; a saved plan takes the place of the one the plan screen showed. */
+  const editorDone = useCallback(
+    (from: string, saved: Plan | null) => {
+      setTyping(false);
+      setStack((s) => s.slice(0, -1).map((r) => (saved && r.screen === 'plan' && r.planHash === from ? { screen: 'plan', planHash: saved.hash } : r)));
+    },
+    [setTyping],
   );
   const back = useCallback(() => {
     setDirty(false);
@@ -101,7 +126,9 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
 
   // Every screen but the bench's needs the plans (and the bring-up screen the instruments): until they are in, a line says so.
   const ready =
-    plans.state === 'ready' && bench.state !== 'pending' ? { catalog: plans.value, instruments: bench.state === 'ready' ? bench.value : null } : null;
+    plans.state === 'ready' && bench.state !== 'pending' && editing.state !== 'pending'
+      ? { catalog: plans.value, instruments: bench.state === 'ready' ? bench.value : null, planEditing: editing.state === 'ready' ? editing.value : null }
+      : null;
   let screen;
   if (route.screen === 'bench') {
     screen = (
@@ -146,12 +173,26 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
         onOpenBoard={(serial) => push({ screen: 'history', serial })}
       />
     );
-  } else {
+  } else if (route.screen === 'plan') {
+    const { planEditing: access } = ready;
     screen = (
       <WithTargets catalog={ready.catalog} planHash={route.planHash} onExit={back} isActive={isActive}>
-        {(plan, targets) => <PlanScreen {...common} plan={plan} targets={targets} />}
+        {(plan, targets) => <PlanScreen {...common} plan={plan} targets={targets} {...(access ? { onEdit: () => openEditor(route.planHash) } : {})} />}
       </WithTargets>
     );
+  } else {
+    screen = ready.planEditing ? (
+      <PlanEditorScreen
+        key={route.planHash}
+        catalog={ready.catalog}
+        planHash={route.planHash}
+        access={ready.planEditing}
+        width={width}
+        height={common.height}
+        isActive={isActive}
+        onDone={(saved) => editorDone(route.planHash, saved)}
+      />
+    ) : null;
   }
   return (
     <Box flexDirection="column" width={width}>

@@ -7,3 +7,4 @@ export const BringUpScreen = lazy(() => import('./bring-up/bring-up.js').then((m
 export const HistoryScreen = lazy(() => import('./history/history.js').then((m) => ({ default: m.HistoryScreen })));
 export const BatchScreen = lazy(() => import('./batch/batch.js').then((m) => ({ default: m.BatchScreen })));
 export const PlanScreen = lazy(() => import('./plan-screen/plan-screen.js').then((m) => ({ default: m.PlanScreen })));
+export const PlanEditorScreen = lazy(() => import('./plan-editor/plan-editor-screen.js').then((m) => ({ default: m.PlanEditorScreen })));
