@@ -312,9 +312,11 @@ export class IndexStore {
     seen: Pick<Snapshot, 'dir' | 'boot' | 'suspects'>,
   ): Promise<CheckColumns | null> {
     const bytes = encodeCheckColumns([...known.keys()].map((serial) => [serial, boards[serial]?.checks ?? {}] as [string, CheckMap]));
-    const byRecent = [...known].sort((a, b) => byActivity(a[1].head, b[1].head)).map(([serial, k]) => [serial, k.head, k.stamp] as [string, BoardHead, string]);
-    const packed = packBoards(byRecent);
-    const head: SnapshotHead = { total: byRecent.length, boards: packBoards(byRecent.slice(0, headRows)) };
+    const rows = [...known].map(([serial, k]) => [serial, k.head, k.stamp] as [string, BoardHead, string]);
+    // The rows keep the order the boards were read in (the batch figures sum in that order, and must not
+    // change in the last digit between a read that rebuilt the index and the next); only the head is sorted.
+    const packed = packBoards(rows);
+    const head: SnapshotHead = { total: rows.length, boards: packBoards([...rows].sort((a, b) => byActivity(a[1], b[1])).slice(0, headRows)) };
     const checksFile = `index-checks.${randomBytes(6).toString('hex')}.bin`;
     let isWritten = false;
     await this.#tryWrite(() =>
