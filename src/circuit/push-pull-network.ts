@@ -1,6 +1,6 @@
 import { formatValue } from '../units/format.js';
 import { defaultDiode, thermalVoltage } from './diode.js';
-import { type FollowerNetwork, type FollowerState, deadband, freshState, isFromVbe, restState, solveFollower } from './follower-network.js';
+import { type FollowerNetwork, type FollowerState, deadband, freshState, isFromVbe, restState, solveFollower, trialTolerance } from './follower-network.js';
 import { defaultHfe, defaultVbe, outputLoad, type PushPullSettings } from './push-pull.js';
 import type { EvalInput, EvalOutput, StageWarning, Waveform } from './types.js';
 import { extremes } from './waveform.js';
@@ -57,35 +57,59 @@ function copyState(to: FollowerState, from: FollowerState): FollowerState {
 /**
  * Solve at `vin` into `s`, which holds a neighbour's solution at `fromVin`:
  * shifted along the curve first (the bases follow the drive, the output by its
- * slope), retried from scratch if Newton stalls.
+ * slope; or, given the solution `behind` one knot further back, every unknown
+ * along the line through the two), retried from scratch if Newton stalls.
  */
-function solveAt(net: FollowerNetwork, vin: number, s: FollowerState, fromVin: number): FollowerState {
+function solveAt(
+  net: FollowerNetwork,
+  vin: number,
+  s: FollowerState,
+  fromVin: number,
+  tol: number | undefined,
+  behind?: FollowerState,
+  behindVin = fromVin,
+): FollowerState {
   const d = vin - fromVin;
-  s.a += d;
-  s.b += d;
-  s.y += s.slope * d;
-  solveFollower(net, vin, s);
-  return s.converged ? s : copyState(s, solveFollower(net, vin, freshState(vin)));
+  if (behind && behindVin !== fromVin && behind.converged) {
+    const r = d / (fromVin - behindVin);
+    s.a += r * (s.a - behind.a);
+    s.b += r * (s.b - behind.b);
+    s.y += r * (s.y - behind.y);
+    s.j1 += r * (s.j1 - behind.j1);
+    s.j2 += r * (s.j2 - behind.j2);
+  } else {
+    s.a += d;
+    s.b += d;
+    s.y += s.slope * d;
+  }
+  solveFollower(net, vin, s, tol);
+  return s.converged ? s : copyState(s, solveFollower(net, vin, freshState(vin), tol));
 }
 
 // Knot scratch, reused between trials (the engine evaluates 10,000 of them).
 let ys = new Float64Array(intervals + 1);
 let slopes = new Float64Array(intervals + 1);
+let coef = new Float64Array(4 * intervals);
 const walk = freshState(0);
 const middle = freshState(0);
+const lastKnot = freshState(0);
+const knotBefore = freshState(0);
 
 export function evaluateNetwork(input: EvalInput<PushPullSettings>, source: Waveform): EvalOutput {
   const net = followerNetwork(input, source.frequency);
   const samples = source.samples;
   const n = samples.length;
   const out = input.buffer ? input.buffer(0, n) : new Float64Array(n);
-  const zero = solveAt(net, 0, restState(net), 0);
+  // A trial solves to bench accuracy (EvalInput.isTrial): a couple of µV left instead of nanovolts.
+  const tol = input.isTrial ? trialTolerance : undefined;
+  const zero = solveAt(net, 0, restState(net), 0, tol);
   const { hi: top, lo: bottom } = extremes(samples);
   const k = top > bottom ? intervals : 0;
   const h = k > 0 ? (top - bottom) / k : 0;
   if (ys.length < k + 1) {
     ys = new Float64Array(k + 1);
     slopes = new Float64Array(k + 1);
+    coef = new Float64Array(4 * k);
   }
   let ibase = 0;
   let starved = false;
@@ -99,7 +123,12 @@ export function evaluateNetwork(input: EvalInput<PushPullSettings>, source: Wave
     if (step === k - m + 1) copyState(s, middle);
     const from =
       step === 0 ? 0 : step === k - m + 1 ? (m === k ? top : bottom + m * h) : j > m ? (j - 1 === k ? top : bottom + (j - 1) * h) : bottom + (j + 1) * h;
-    solveAt(net, x, s, from);
+    // From the second knot of each direction on, the start follows the last two knots.
+    const along = step >= 2 && step !== k - m + 1;
+    const behindVin = along ? (j > m ? (j - 2 === k ? top : bottom + (j - 2) * h) : bottom + (j + 2) * h) : from;
+    if (along) copyState(knotBefore, lastKnot);
+    copyState(lastKnot, s);
+    solveAt(net, x, s, from, tol, along ? knotBefore : undefined, behindVin);
     if (step === 0) copyState(middle, s);
     ys[j] = s.converged ? s.y : Number.NaN;
     slopes[j] = s.slope;
@@ -109,18 +138,32 @@ export function evaluateNetwork(input: EvalInput<PushPullSettings>, source: Wave
   }
   if (k === 0) out.fill(ys[0] as number);
   else {
+    // Cubic Hermite between knots (any numerical analysis text), as power-series coefficients
+    // in t ∈ [0, 1] per interval: y0 + m0·t + (3Δ − 2m0 − m1)·t² + (m0 + m1 − 2Δ)·t³.
+    const c = coef;
+    const y = ys;
+    const dy = slopes;
+    for (let j = 0; j < k; j++) {
+      const y0 = y[j] as number;
+      const d = (y[j + 1] as number) - y0;
+      const m0 = h * (dy[j] as number);
+      const m1 = h * (dy[j + 1] as number);
+      c[4 * j] = y0;
+      c[4 * j + 1] = m0;
+      c[4 * j + 2] = 3 * d - 2 * m0 - m1;
+      c[4 * j + 3] = m0 + m1 - 2 * d;
+    }
     const scale = 1 / h;
+    const last = k - 1;
     for (let i = 0; i < n; i++) {
       const u = ((samples[i] as number) - bottom) * scale;
-      const j = Math.min(k - 1, Math.max(0, Math.floor(u)));
+      // u lies in [0, k] up to rounding: truncation is the floor there, and an integer index.
+      let j = u | 0;
+      if (j > last) j = last;
+      else if (j < 0) j = 0;
       const t = u - j;
-      const y0 = ys[j] as number;
-      const y1 = ys[j + 1] as number;
-      const m0 = h * (slopes[j] as number);
-      const m1 = h * (slopes[j + 1] as number);
-      // Cubic Hermite between knots (any numerical analysis text).
-      const d = y1 - y0;
-      out[i] = y0 + t * (m0 + t * (3 * d - 2 * m0 - m1 + t * (m0 + m1 - 2 * d)));
+      const o = j << 2;
+      out[i] = (c[o] as number) + t * ((c[o + 1] as number) + t * ((c[o + 2] as number) + t * (c[o + 3] as number)));
     }
   }
   const { hi, lo } = extremes(out);
