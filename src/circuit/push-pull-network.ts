@@ -57,31 +57,18 @@ function copyState(to: FollowerState, from: FollowerState): FollowerState {
 /**
  * Solve at `vin` into `s`, which holds a neighbour's solution at `fromVin`:
  * shifted along the curve first (the bases follow the drive, the output by its
- * slope; or, given the solution `behind` one knot further back, every unknown
- * along the line through the two), retried from scratch if Newton stalls.
+ * slope), retried from scratch if Newton stalls.
  */
-function solveAt(
-  net: FollowerNetwork,
-  vin: number,
-  s: FollowerState,
-  fromVin: number,
-  tol: number | undefined,
-  behind?: FollowerState,
-  behindVin = fromVin,
-): FollowerState {
+function solveAt(net: FollowerNetwork, vin: number, s: FollowerState, fromVin: number, tol: number | undefined): FollowerState {
   const d = vin - fromVin;
-  if (behind && behindVin !== fromVin && behind.converged) {
-    const r = d / (fromVin - behindVin);
-    s.a += r * (s.a - behind.a);
-    s.b += r * (s.b - behind.b);
-    s.y += r * (s.y - behind.y);
-    s.j1 += r * (s.j1 - behind.j1);
-    s.j2 += r * (s.j2 - behind.j2);
-  } else {
-    s.a += d;
-    s.b += d;
-    s.y += s.slope * d;
-  }
+  s.a += d;
+  s.b += d;
+  s.y += s.slope * d;
+  return solveFrom(net, vin, s, tol);
+}
+
+/** Newton from the start in `s`, retried from scratch if it stalls. */
+function solveFrom(net: FollowerNetwork, vin: number, s: FollowerState, tol: number | undefined): FollowerState {
   solveFollower(net, vin, s, tol);
   return s.converged ? s : copyState(s, solveFollower(net, vin, freshState(vin), tol));
 }
@@ -90,10 +77,43 @@ function solveAt(
 let ys = new Float64Array(intervals + 1);
 let slopes = new Float64Array(intervals + 1);
 let coef = new Float64Array(4 * intervals);
+/** Each solved knot's unknowns (a, b, y, j1, j2 at 5·j), and whether it converged. */
+let solved = new Float64Array(5 * (intervals + 1));
+let known = new Uint8Array(intervals + 1);
 const walk = freshState(0);
 const middle = freshState(0);
-const lastKnot = freshState(0);
-const knotBefore = freshState(0);
+
+/**
+ * The start for knot j from the knots before it on its way out from the middle
+ * (j − dir, j − 2·dir, j − 3·dir, evenly spaced): every unknown on the parabola
+ * through three of them, or the line through two; false when fewer are solved.
+ */
+function extrapolate(s: FollowerState, j: number, dir: number, k: number): boolean {
+  const p1 = j - dir;
+  const p2 = j - 2 * dir;
+  const p3 = j - 3 * dir;
+  if (!isKnown(p1, k) || !isKnown(p2, k)) return false;
+  // Newton's forward differences on an even grid (any numerical analysis text): 3·x1 − 3·x2 + x3, or 2·x1 − x2.
+  const three = isKnown(p3, k);
+  const w1 = three ? 3 : 2;
+  const w2 = three ? -3 : -1;
+  const w3 = three ? 1 : 0;
+  const o1 = 5 * p1;
+  const o2 = 5 * p2;
+  const o3 = three ? 5 * p3 : o2;
+  const v = solved;
+  s.a = w1 * (v[o1] as number) + w2 * (v[o2] as number) + w3 * (v[o3] as number);
+  s.b = w1 * (v[o1 + 1] as number) + w2 * (v[o2 + 1] as number) + w3 * (v[o3 + 1] as number);
+  s.y = w1 * (v[o1 + 2] as number) + w2 * (v[o2 + 2] as number) + w3 * (v[o3 + 2] as number);
+  s.j1 = w1 * (v[o1 + 3] as number) + w2 * (v[o2 + 3] as number) + w3 * (v[o3 + 3] as number);
+  s.j2 = w1 * (v[o1 + 4] as number) + w2 * (v[o2 + 4] as number) + w3 * (v[o3 + 4] as number);
+  s.slope = slopes[p1] as number;
+  return true;
+}
+
+function isKnown(i: number, k: number): boolean {
+  return i >= 0 && i <= k && known[i] === 1;
+}
 
 export function evaluateNetwork(input: EvalInput<PushPullSettings>, source: Waveform): EvalOutput {
   const net = followerNetwork(input, source.frequency);
@@ -110,26 +130,37 @@ export function evaluateNetwork(input: EvalInput<PushPullSettings>, source: Wave
     ys = new Float64Array(k + 1);
     slopes = new Float64Array(k + 1);
     coef = new Float64Array(4 * k);
+    solved = new Float64Array(5 * (k + 1));
+    known = new Uint8Array(k + 1);
   }
+  known.fill(0);
   let ibase = 0;
   let starved = false;
-  // Walk outwards from the knot nearest 0 V, each solve starting from its neighbour's.
+  // Walk outwards from the knot nearest 0 V, each solve starting from the knots before it.
   const m = k > 0 ? Math.min(k, Math.max(0, Math.round(-bottom / h))) : 0;
   const s = copyState(walk, zero);
   for (let step = 0; step <= k; step++) {
     // Knots m, m+1 … k, then m−1 … 0 (restarting from knot m's solution).
-    const j = step <= k - m ? m + step : m - (step - (k - m));
+    const up = step <= k - m;
+    const j = up ? m + step : m - (step - (k - m));
     const x = j === k ? top : bottom + j * h;
-    if (step === k - m + 1) copyState(s, middle);
-    const from =
-      step === 0 ? 0 : step === k - m + 1 ? (m === k ? top : bottom + m * h) : j > m ? (j - 1 === k ? top : bottom + (j - 1) * h) : bottom + (j + 1) * h;
-    // From the second knot of each direction on, the start follows the last two knots.
-    const along = step >= 2 && step !== k - m + 1;
-    const behindVin = along ? (j > m ? (j - 2 === k ? top : bottom + (j - 2) * h) : bottom + (j + 2) * h) : from;
-    if (along) copyState(knotBefore, lastKnot);
-    copyState(lastKnot, s);
-    solveAt(net, x, s, from, tol, along ? knotBefore : undefined, behindVin);
+    if (step === 0) solveAt(net, x, s, 0, tol);
+    else if (extrapolate(s, j, up ? 1 : -1, k)) solveFrom(net, x, s, tol);
+    else {
+      // The first knot of the way down starts from the middle one.
+      if (!up) copyState(s, middle);
+      solveAt(net, x, s, up ? (j - 1 === k ? top : bottom + (j - 1) * h) : bottom + (j + 1) * h, tol);
+    }
     if (step === 0) copyState(middle, s);
+    if (s.converged) {
+      const o = 5 * j;
+      solved[o] = s.a;
+      solved[o + 1] = s.b;
+      solved[o + 2] = s.y;
+      solved[o + 3] = s.j1;
+      solved[o + 4] = s.j2;
+      known[j] = 1;
+    }
     ys[j] = s.converged ? s.y : Number.NaN;
     slopes[j] = s.slope;
     ibase = Math.max(ibase, s.icn / net.betaN, s.icp / net.betaP);
