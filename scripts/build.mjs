@@ -53,10 +53,11 @@ const jsoncEsm = {
 // thread so the screen keeps drawing) share their chunks, and the shell commands
 // (`targets`, `analyze`, `record`, …) never parse React and Ink, which live in a
 // chunk of their own loaded only for the TUI. Chunks sit beside the entry files:
-// the worker is found by `new URL('./targets-worker.js', import.meta.url)`.
+// the worker is found by `new URL('./targets-worker.js', import.meta.url)`. The third entry,
+// `dist/samples-worker.js`, draws the Monte Carlo of `targets` beside the worst-case search.
 rmSync('dist', { recursive: true, force: true });
 await build({
-  entryPoints: { probebook: 'src/cli/bin.ts', 'targets-worker': 'src/ui/bench/targets-worker.ts' },
+  entryPoints: { probebook: 'src/cli/bin.ts', 'targets-worker': 'src/ui/bench/targets-worker.ts', 'samples-worker': 'src/cli/samples-worker.ts' },
   outdir: 'dist',
   chunkNames: 'chunk-[hash]',
   splitting: true,

@@ -1,13 +1,13 @@
-import { buildChain } from '../plan/chain.js';
+import { type Chain, type ChainDetail, buildChain } from '../plan/chain.js';
 import { upstreamOf } from '../plan/stages.js';
 import type { Plan } from '../plan/types.js';
 import type { Distribution } from './random.js';
-import { sampleChain, tailFigures } from './sampling.js';
+import { type Samples, sampleChain, tailFigures } from './sampling.js';
 import { contributorsOf, sensitivities } from './sensitivity.js';
 import type { DesignWarning, Target, TargetSet } from './types.js';
 import { cornerWarnings } from './corner-warnings.js';
 import { designWarnings } from './warnings.js';
-import { worstCase } from './worst-case.js';
+import { type WorstCase, worstCase } from './worst-case.js';
 import { formatValue } from '../units/format.js';
 
 export interface TargetOptions {
@@ -62,6 +62,32 @@ export function computeTargets(plan: Plan, options: TargetOptions = {}): TargetS
 const memo = new WeakMap<Plan, Map<string, TargetSet>>();
 
 function compute(plan: Plan, trials: number, seed: number, options: TargetOptions): TargetSet {
+  const prepared = prepareTargets(plan);
+  const samples = sampleChain(prepared.chain, {
+    trials,
+    seed,
+    distribution: options.distribution ?? 'normal',
+    ...(options.onProgress ? { onProgress: options.onProgress } : {}),
+  });
+  return finishTargets(prepared, samples);
+}
+
+/**
+ * Everything of a plan's targets but the Monte Carlo: the chain, the nominal, the
+ * sensitivities and the worst case. With `finishTargets` and the samples of
+ * `sampleChain` (the same chain built anywhere from the same plan, e.g. in a
+ * worker thread, gives the same samples for the same seed) it is `computeTargets`.
+ */
+export interface PreparedTargets {
+  readonly plan: Plan;
+  readonly chain: Chain;
+  readonly nominalDetail: ChainDetail;
+  readonly nominalOut: Float64Array;
+  readonly perSigma: readonly Float64Array[];
+  readonly worst: WorstCase;
+}
+
+export function prepareTargets(plan: Plan): PreparedTargets {
   const chain = buildChain(plan);
   // The nominal from the exact evaluation (the hot path solves the shaper to bench accuracy only).
   const nominalDetail = chain.detail(chain.nominal);
@@ -71,13 +97,14 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
   // The worst case is its own deterministic search of the tolerance box: it never depends on the Monte Carlo.
   // Upstream stages, and the downstream ones whose inputs load this stage's chain (their parts move its checks too).
   const worst = worstCase(chain, perSigma, { upstream: (id) => [...upstreamOf(plan.stages, id), ...chain.loaders(id)] });
-  const samples = sampleChain(chain, {
-    trials,
-    seed,
-    distribution: options.distribution ?? 'normal',
-    ...(options.onProgress ? { onProgress: options.onProgress } : {}),
-  });
+  return { plan, chain, nominalDetail, nominalOut, perSigma, worst };
+}
 
+/** The targets from a preparation and the Monte Carlo samples of its chain (in chain check order). */
+export function finishTargets(prepared: PreparedTargets, samples: Samples): TargetSet {
+  const { plan, chain, nominalDetail, nominalOut, perSigma, worst } = prepared;
+  const trials = samples.trials;
+  if (samples.values.length !== chain.checks.length) throw new RangeError(`samples for ${samples.values.length} checks, the chain has ${chain.checks.length}`);
   // Checks without a value in some trials, by stage: one warning per stage, not per check.
   const gaps = new Map<string, { most: number; checks: string[] }>();
   const targets: Target[] = chain.checks.map((c, i) => {

@@ -1,0 +1,30 @@
+import { describe, expect, test } from 'vitest';
+import { sampleChain } from '../../src/analysis/sampling.js';
+import { computeTargets } from '../../src/analysis/targets.js';
+import { computeTargetsInParallel, samplesOffThread } from '../../src/cli/targets-parallel.js';
+import { buildChain } from '../../src/plan/chain.js';
+import { loadPlanFile } from '../../src/plan/load.js';
+
+describe('targets on two threads (the Monte Carlo in a worker beside the worst-case search)', () => {
+  test('the worker draws the very samples this thread draws (same plan text, same seed)', async () => {
+    const plan = await loadPlanFile('demo/exciter.plan.json');
+    const job = samplesOffThread(plan, 3000, 7, { distribution: 'normal' });
+    expect(job).not.toBeNull();
+    const off = await job;
+    expect(off).not.toBeNull();
+    const here = sampleChain(buildChain(plan), { trials: 3000, seed: 7, distribution: 'normal' });
+    expect(off?.trials).toBe(3000);
+    expect(off?.values.length).toBe(here.values.length);
+    here.values.forEach((v, i) => expect(Array.from(off?.values[i] ?? [])).toEqual(Array.from(v)));
+    expect(Array.from(off?.missing ?? [])).toEqual(Array.from(here.missing));
+  }, 60_000);
+
+  test('the bands and warnings equal those of computeTargets on one thread, progress forwarded', async () => {
+    const plan = await loadPlanFile('demo/exciter.plan.json');
+    const progress: number[] = [];
+    const two = await computeTargetsInParallel(plan, { trials: 4000, seed: 3, onProgress: (done) => progress.push(done) }, 'always');
+    const one = computeTargets(await loadPlanFile('demo/exciter.plan.json'), { trials: 4000, seed: 3 });
+    expect(two).toEqual(one);
+    expect(progress.at(-1)).toBe(4000);
+  }, 60_000);
+});
