@@ -15,7 +15,7 @@ describe('targets on two threads (the Monte Carlo in a worker beside the worst-c
     const here = sampleChain(buildChain(plan), { trials: 3000, seed: 7, distribution: 'normal' });
     expect(off?.trials).toBe(3000);
     expect(off?.values.length).toBe(here.values.length);
-    here.values.forEach((v, i) => expect(Array.from(off?.values[i] ?? [])).toEqual(Array.from(v)));
+    for (const [i, v] of here.values.entries()) expect(Array.from(off?.values[i] ?? [])).toEqual(Array.from(v));
     expect(Array.from(off?.missing ?? [])).toEqual(Array.from(here.missing));
   }, 60_000);
 
