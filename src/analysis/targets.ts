@@ -102,9 +102,20 @@ export function prepareTargets(plan: Plan): PreparedTargets {
 
 /** The targets from a preparation and the Monte Carlo samples of its chain (in chain check order). */
 export function finishTargets(prepared: PreparedTargets, samples: Samples): TargetSet {
+  const n = prepared.chain.checks.length;
+  if (samples.values.length !== n) throw new RangeError(`samples for ${samples.values.length} checks, the chain has ${n}`);
+  return assembleTargets(prepared, (i) => tailFigures(samples.values[i] as Float64Array, statCoverage.low, statCoverage.high), samples.missing, samples.trials);
+}
+
+/** The two ends of check i's statistical band before they are held inside the worst case. */
+export type StatBand = (i: number) => { readonly low: number; readonly high: number };
+
+/**
+ * The target set from a preparation and a statistical band per check: `missing[i]`
+ * trials of `trials` gave check i no value (one warning per stage says so).
+ */
+export function assembleTargets(prepared: PreparedTargets, stat: StatBand, missingCounts: Int32Array, trials: number): TargetSet {
   const { plan, chain, nominalDetail, nominalOut, perSigma, worst } = prepared;
-  const trials = samples.trials;
-  if (samples.values.length !== chain.checks.length) throw new RangeError(`samples for ${samples.values.length} checks, the chain has ${chain.checks.length}`);
   // Checks without a value in some trials, by stage: one warning per stage, not per check.
   const gaps = new Map<string, { most: number; checks: string[] }>();
   const targets: Target[] = chain.checks.map((c, i) => {
@@ -136,7 +147,7 @@ export function finishTargets(prepared: PreparedTargets, samples: Samples): Targ
       return { ...base, nominal: Number.isFinite(max) ? max / 2 : 0, worst: band, stat: band, contributors: [] };
     }
     const nominal = nominalOut[i] as number;
-    const tails = tailFigures(samples.values[i] as Float64Array, statCoverage.low, statCoverage.high);
+    const tails = stat(i);
     const lo = finiteMin(worst.min[i] as number, nominal);
     const hi = finiteMax(worst.max[i] as number, nominal);
     // The statistical band lies inside the worst case by construction (every trial is a point of
@@ -144,7 +155,7 @@ export function finishTargets(prepared: PreparedTargets, samples: Samples): Targ
     // between the two evaluation paths, so it is held to the bound rather than moving it.
     const statMin = Number.isFinite(tails.low) ? Math.min(Math.max(tails.low, lo), hi) : tails.low;
     const statMax = Number.isFinite(tails.high) ? Math.max(Math.min(tails.high, hi), lo) : tails.high;
-    const missing = samples.missing[i] ?? 0;
+    const missing = missingCounts[i] ?? 0;
     if (missing > 0) {
       const entry = gaps.get(c.stage) ?? { most: 0, checks: [] };
       entry.most = Math.max(entry.most, missing);
