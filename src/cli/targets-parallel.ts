@@ -25,6 +25,22 @@ function hasFreeCore(): boolean {
   return cores >= 2 && (loadavg()[0] ?? 0) < cores - 1;
 }
 
+/**
+ * `auto`: a worker when the run is large enough, a core is free and the bundled
+ * worker is there (under tsx a worker compiles every source again, which costs
+ * more than it saves); `always`: a worker whenever one can start; `one`: never.
+ */
+export type Threads = 'auto' | 'always' | 'one';
+
+/** `PROBEBOOK_THREADS`: `1` keeps `targets` on one thread, `2` always takes the worker, anything else decides by itself. */
+export function threadsFromEnv(value: string | undefined): Threads {
+  return value === '1' ? 'one' : value === '2' ? 'always' : 'auto';
+}
+
+function hasBundledWorker(): boolean {
+  return existsSync(fileURLToPath(new URL('./samples-worker.js', import.meta.url)));
+}
+
 /** The samples worker beside this module: `samples-worker.js` next to the bundle, or the TypeScript source under tsx. */
 function workerScript(): { script: URL | string; isEval: boolean } | null {
   const js = new URL('./samples-worker.js', import.meta.url);
@@ -85,12 +101,13 @@ export function samplesOffThread(plan: Plan, trials: number, seed: number, optio
  * from both. The numbers are those of `computeTargets` (the same seeded samples
  * of the same chain); should the worker fail to start or stop, this thread draws
  * the samples itself. Small runs stay on one thread (`parallelFrom`), and so does
- * any run on a busy machine (`hasFreeCore`), unless `when` is `always`.
+ * any run on a busy machine (`hasFreeCore`) or from the sources, unless `when` says otherwise.
  */
-export async function computeTargetsInParallel(plan: Plan, options: TargetOptions = {}, when: 'auto' | 'always' = 'auto'): Promise<TargetSet> {
+export async function computeTargetsInParallel(plan: Plan, options: TargetOptions = {}, when: Threads = 'auto'): Promise<TargetSet> {
   const trials = options.trials ?? defaultTrials;
   const seed = options.seed ?? defaultSeed;
-  if (!Number.isSafeInteger(trials) || (when === 'auto' && (trials < parallelFrom || !hasFreeCore()))) return computeTargets(plan, options);
+  if (!Number.isSafeInteger(trials) || when === 'one' || (when === 'auto' && (trials < parallelFrom || !hasFreeCore() || !hasBundledWorker())))
+    return computeTargets(plan, options);
   const offThread = samplesOffThread(plan, trials, seed, options);
   if (!offThread) return computeTargets(plan, options);
   const prepared = prepareTargets(plan);

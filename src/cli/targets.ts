@@ -8,7 +8,7 @@ import type { Command } from './command.js';
 import { UsageError } from './errors.js';
 import { resolveLogDir } from './log-dir.js';
 import { cacheHelp, targetsCacheFor } from './targets-cache.js';
-import { computeTargetsInParallel } from './targets-parallel.js';
+import { computeTargetsInParallel, threadsFromEnv } from './targets-parallel.js';
 import { targetsTable } from './targets-table.js';
 
 const usage = 'probebook targets PLAN [--json] [--trials N] [--seed S] [--spread normal|uniform] [--cache DIR] [--log DIR]';
@@ -72,7 +72,7 @@ export const targetsCommand: Command = async (argv, io) => {
   const key = cache.keyOf(plan, settings);
   let set = cache.peek(key);
   if (!set) {
-    set = await computeTargetsInParallel(plan, settings);
+    set = await computeTargetsInParallel(plan, settings, threadsFromEnv(io.env['PROBEBOOK_THREADS']));
     cache.put(key, set);
   }
   if (args.options.json) io.stdout(`${JSON.stringify(targetsJson(set), null, 2)}\n`);

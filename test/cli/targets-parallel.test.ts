@@ -1,7 +1,11 @@
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { sampleChain } from '../../src/analysis/sampling.js';
 import { computeTargets } from '../../src/analysis/targets.js';
-import { computeTargetsInParallel, samplesOffThread } from '../../src/cli/targets-parallel.js';
+import { main } from '../../src/cli/main.js';
+import { computeTargetsInParallel, samplesOffThread, threadsFromEnv } from '../../src/cli/targets-parallel.js';
 import { buildChain } from '../../src/plan/chain.js';
 import { loadPlanFile } from '../../src/plan/load.js';
 
@@ -26,5 +30,37 @@ describe('targets on two threads (the Monte Carlo in a worker beside the worst-c
     const one = computeTargets(await loadPlanFile('demo/exciter.plan.json'), { trials: 4000, seed: 3 });
     expect(two).toEqual(one);
     expect(progress.at(-1)).toBe(4000);
+  }, 60_000);
+});
+
+describe('probebook targets with PROBEBOOK_THREADS', () => {
+  test('the variable reads 1 (one thread), 2 (the worker) and anything else (decide)', () => {
+    expect(threadsFromEnv('1')).toBe('one');
+    expect(threadsFromEnv('2')).toBe('always');
+    expect(threadsFromEnv(undefined)).toBe('auto');
+    expect(threadsFromEnv('many')).toBe('auto');
+  });
+
+  test('the command prints the same targets on one thread and with the worker (in process)', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'probebook-threads-'));
+    try {
+      const out: Record<string, string> = {};
+      for (const threads of ['1', '2']) {
+        let stdout = '';
+        const status = await main(['targets', 'demo/exciter.plan.json', '--json', '--trials', '3000'], {
+          stdout: (t) => (stdout += t),
+          stderr: () => undefined,
+          // A cache of its own per run: the second must compute, not read the first's.
+          env: { PROBEBOOK_CACHE: join(dir, threads), PROBEBOOK_THREADS: threads },
+          cwd: process.cwd(),
+        });
+        expect(status).toBe(0);
+        out[threads] = stdout;
+      }
+      expect(out['2']).toBe(out['1']);
+      expect(JSON.parse(out['1'] ?? '{}').targets.length).toBeGreaterThan(20);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   }, 60_000);
 });
