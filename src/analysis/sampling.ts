@@ -72,20 +72,23 @@ export interface TailFigures {
  * The same numbers as a full sort, since an order statistic is one value.
  */
 export function tailFigures(values: Float64Array, pLow: number, pHigh: number): TailFigures {
+  // Indexed loops, one pass: this runs once per check in a one-shot command, where an
+  // iterator loop over 10,000 values runs unoptimised (about 40 ms over a plan, measured).
+  const a = new Float64Array(values.length);
   let n = 0;
-  for (const v of values) if (Number.isFinite(v)) n++;
-  if (n === 0) return { min: Number.NaN, max: Number.NaN, low: Number.NaN, high: Number.NaN };
-  const a = new Float64Array(n);
-  let j = 0;
   let min = Infinity;
   let max = -Infinity;
-  for (const v of values) {
-    if (!Number.isFinite(v)) continue;
-    a[j++] = v;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i] as number;
+    // v − v is 0 for a finite v, NaN for ±∞ and NaN.
+    if (v - v !== 0) continue;
+    a[n++] = v;
     if (v < min) min = v;
     if (v > max) max = v;
   }
-  return { min, max, low: quantileBySelection(a, pLow), high: quantileBySelection(a, pHigh) };
+  if (n === 0) return { min: Number.NaN, max: Number.NaN, low: Number.NaN, high: Number.NaN };
+  const finite = a.subarray(0, n);
+  return { min, max, low: quantileBySelection(finite, pLow), high: quantileBySelection(finite, pHigh) };
 }
 
 /** Type 7 quantile of `a` (finite values, reordered in place). */
