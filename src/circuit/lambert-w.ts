@@ -16,8 +16,10 @@
  */
 export const tableFirst = -40;
 export const tableLast = 64;
-const perUnit = 8;
-const intervals = (tableLast - tableFirst) * perUnit;
+export const tablePerUnit = 8;
+export const tableIntervals = (tableLast - tableFirst) * tablePerUnit;
+const perUnit = tablePerUnit;
+const intervals = tableIntervals;
 
 /** Power-series coefficients of each interval in t ∈ [0, 1): w = c0 + t·(c1 + t·(c2 + t·c3)). Built on first use. */
 let coefficients: Float64Array | undefined;

@@ -1,4 +1,4 @@
-import { lambertFromTable, lambertTable } from './lambert-w.js';
+import { lambertFromTable, lambertTable, tableFirst, tableIntervals, tablePerUnit } from './lambert-w.js';
 import type { ShaperBranch, ShaperNet } from './shaper-solver.js';
 
 /**
@@ -51,23 +51,27 @@ export function solveKnots(
   const { gs, gl } = net;
   const il = net.il ?? 0;
   const intervals = k - 1;
-  const h = (hi - lo) / intervals;
+  // The ends as raw doubles (an argument is a boxed number: a conditional that picks it or a
+  // computed level boxed the level on every knot, measured).
+  const top = hi * 1;
+  const bottom = lo * 1;
+  const h = (top - bottom) / intervals;
   let steps = 0;
   // Knot nearest 0 V input, then up to the top and down to the bottom.
-  const m = Math.min(intervals, Math.max(0, Math.round(-lo / h)));
+  const m = Math.min(intervals, Math.max(0, Math.round(-bottom / h)));
   for (let pass = 0; pass < 2; pass++) {
     const begin = pass === 0 ? m : m - 1;
     const end = pass === 0 ? k : -1;
     const dir = pass === 0 ? 1 : -1;
     for (let j = begin; j !== end; j += dir) {
-      const vin = j === intervals ? hi : lo + j * h;
+      const vin = j === intervals ? top : bottom + j * h;
       // The start: linear at the first knot, else along the curve from the knots before.
       let v: number;
       const back = j - dir;
       const back2 = j - 2 * dir;
       if (pass === 0 && j === m) v = (vin * gs + il) / (gs + gl);
       else {
-        const step = vin - (back === intervals ? hi : lo + back * h);
+        const step = vin - (back === intervals ? top : bottom + back * h);
         const v1 = values[back] as number;
         const s1 = slopes[back] as number;
         // Quadratic through the last knot's value and slope and the one before it, once both are solved.
@@ -87,7 +91,15 @@ export function solveKnots(
           const o = 8 * b;
           const sign = s[o] as number;
           const L = (s[o + 3] as number) + sign * (v - (s[o + 1] as number)) * (s[o + 2] as number);
-          const w = lambertFromTable(table, L);
+          // lambertFromTable, written out: a call here passed L boxed on every step (measured).
+          const u = (L - tableFirst) * tablePerUnit;
+          let w = 0;
+          if (u >= 0 && u < tableIntervals) {
+            const q = u | 0;
+            const t = u - q;
+            const k = q << 2;
+            w = (table[k] as number) + t * ((table[k + 1] as number) + t * ((table[k + 2] as number) + t * (table[k + 3] as number)));
+          } else if (u >= tableIntervals) w = lambertFromTable(table, L);
           f -= sign * ((s[o + 4] as number) * w - (s[o + 5] as number));
           den += ((s[o + 6] as number) * w) / (1 + w);
         }
@@ -104,11 +116,13 @@ export function solveKnots(
         }
       }
       if (!settled) {
-        v = fallback(net, vin);
-        den = Number.POSITIVE_INFINITY;
+        // Kept apart from v: a call's result in the same variable made the optimiser box v on every step.
+        values[j] = fallback(net, vin);
+        slopes[j] = 0;
+        continue;
       }
       values[j] = v;
-      slopes[j] = Number.isFinite(den) ? gs / den : 0;
+      slopes[j] = gs / den;
     }
   }
   return steps;
