@@ -55,10 +55,12 @@ const jsoncEsm = {
 // chunk of their own loaded only for the TUI. Chunks sit beside the entry files:
 // the worker is found by `new URL('./targets-worker.js', import.meta.url)`. The third entry,
 // `dist/samples-worker.js`, draws the Monte Carlo of `targets` beside the worst-case search.
-rmSync('dist', { recursive: true, force: true });
+// PROBEBOOK_BUILD_DIR builds elsewhere (a test of the bundle builds its own copy, leaving dist/ alone).
+const outdir = process.env.PROBEBOOK_BUILD_DIR || 'dist';
+rmSync(outdir, { recursive: true, force: true });
 await build({
   entryPoints: { probebook: 'src/cli/bin.ts', 'targets-worker': 'src/ui/bench/targets-worker.ts', 'samples-worker': 'src/cli/samples-worker.ts' },
-  outdir: 'dist',
+  outdir,
   chunkNames: 'chunk-[hash]',
   splitting: true,
   bundle: true,
@@ -86,4 +88,4 @@ await build({
   },
   logLevel: 'warning',
 });
-chmodSync('dist/probebook.js', 0o755);
+chmodSync(join(outdir, 'probebook.js'), 0o755);

@@ -34,7 +34,8 @@ export function xoshiro128StarStar(state: readonly [number, number, number, numb
   // The state in a typed array: closure variables holding 32-bit words above 2^31 were boxed
   // numbers, so every draw allocated (measured). The same arithmetic on the same bits.
   const w = Uint32Array.from(state, (x) => x >>> 0);
-  if (((w[0] as number) | (w[1] as number) | (w[2] as number) | (w[3] as number)) === 0) throw new RangeError('xoshiro128** needs a state that is not all zero');
+  if (((w[0] as number) | (w[1] as number) | (w[2] as number) | (w[3] as number)) === 0)
+    throw new RangeError('xoshiro128** needs a state that is not all zero');
   return (): number => {
     const a = w[0] as number;
     const b = w[1] as number;

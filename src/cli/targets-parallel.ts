@@ -62,8 +62,11 @@ interface WorkerAnswer {
   readonly message?: string;
 }
 
-/** The Monte Carlo in a worker thread; resolves null when the worker cannot do it (then the caller samples itself). */
-export function samplesOffThread(plan: Plan, trials: number, seed: number, options: TargetOptions): Promise<Samples | null> | null {
+/** What the worker gave: its samples, or why there are none (then the caller samples itself). */
+export type OffThread = { readonly samples: Samples } | { readonly samples: null; readonly why: string };
+
+/** The Monte Carlo in a worker thread; null when there is no worker script to start. */
+export function samplesOffThread(plan: Plan, trials: number, seed: number, options: TargetOptions): Promise<OffThread> | null {
   const start = workerScript();
   if (!start) return null;
   return new Promise((resolve) => {
@@ -79,19 +82,20 @@ export function samplesOffThread(plan: Plan, trials: number, seed: number, optio
         progress: options.onProgress !== undefined,
       },
     });
-    const finish = (samples: Samples | null): void => {
+    const finish = (answer: OffThread): void => {
       if (settled) return;
       settled = true;
-      resolve(samples);
+      resolve(answer);
       void worker.terminate();
     };
     worker.on('message', (m: WorkerAnswer) => {
       if (m.type === 'progress' && m.done !== undefined && m.total !== undefined) options.onProgress?.(m.done, m.total);
-      else if (m.type === 'samples' && m.values && m.missing && m.trials !== undefined) finish({ values: m.values, missing: m.missing, trials: m.trials });
-      else if (m.type === 'error') finish(null);
+      else if (m.type === 'samples' && m.values && m.missing && m.trials !== undefined)
+        finish({ samples: { values: m.values, missing: m.missing, trials: m.trials } });
+      else if (m.type === 'error') finish({ samples: null, why: m.message ?? 'it failed' });
     });
-    worker.on('error', () => finish(null));
-    worker.on('exit', () => finish(null));
+    worker.on('error', (error) => finish({ samples: null, why: error.message }));
+    worker.on('exit', (code) => finish({ samples: null, why: `it stopped (exit ${code})` }));
   });
 }
 
@@ -100,19 +104,30 @@ export function samplesOffThread(plan: Plan, trials: number, seed: number, optio
  * thread computes the sensitivities and searches the worst case, then the bands
  * from both. The numbers are those of `computeTargets` (the same seeded samples
  * of the same chain); should the worker fail to start or stop, this thread draws
- * the samples itself. Small runs stay on one thread (`parallelFrom`), and so does
+ * the samples itself (said through `onNotice` when the worker was asked for). Small runs stay on one thread (`parallelFrom`), and so does
  * any run on a busy machine (`hasFreeCore`) or from the sources, unless `when` says otherwise.
  */
-export async function computeTargetsInParallel(plan: Plan, options: TargetOptions = {}, when: Threads = 'auto'): Promise<TargetSet> {
+export async function computeTargetsInParallel(
+  plan: Plan,
+  options: TargetOptions = {},
+  when: Threads = 'auto',
+  onNotice?: (message: string) => void,
+): Promise<TargetSet> {
   const trials = options.trials ?? defaultTrials;
   const seed = options.seed ?? defaultSeed;
   if (!Number.isSafeInteger(trials) || when === 'one' || (when === 'auto' && (trials < parallelFrom || !hasFreeCore() || !hasBundledWorker())))
     return computeTargets(plan, options);
   const offThread = samplesOffThread(plan, trials, seed, options);
-  if (!offThread) return computeTargets(plan, options);
+  if (!offThread) {
+    if (when === 'always') onNotice?.('no samples worker beside the command; the Monte Carlo ran on one thread');
+    return computeTargets(plan, options);
+  }
   const prepared = prepareTargets(plan);
+  const answer = await offThread;
+  // Asked for explicitly, a worker that did not deliver is said (the numbers are the same either way).
+  if (!answer.samples && when === 'always') onNotice?.(`the samples worker did not deliver (${answer.why}); the Monte Carlo ran on one thread`);
   const samples =
-    (await offThread) ??
+    answer.samples ??
     sampleChain(prepared.chain, {
       trials,
       seed,

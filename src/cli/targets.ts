@@ -72,7 +72,9 @@ export const targetsCommand: Command = async (argv, io) => {
   const key = cache.keyOf(plan, settings);
   let set = cache.peek(key);
   if (!set) {
-    set = await computeTargetsInParallel(plan, settings, threadsFromEnv(io.env['PROBEBOOK_THREADS']));
+    set = await computeTargetsInParallel(plan, settings, threadsFromEnv(io.env['PROBEBOOK_THREADS']), (message) =>
+      io.stderr(`probebook: warning: ${message}\n`),
+    );
     cache.put(key, set);
   }
   if (args.options.json) io.stdout(`${JSON.stringify(targetsJson(set), null, 2)}\n`);

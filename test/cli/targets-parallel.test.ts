@@ -14,8 +14,9 @@ describe('targets on two threads (the Monte Carlo in a worker beside the worst-c
     const plan = await loadPlanFile('demo/exciter.plan.json');
     const job = samplesOffThread(plan, 3000, 7, { distribution: 'normal' });
     expect(job).not.toBeNull();
-    const off = await job;
-    expect(off).not.toBeNull();
+    const answer = await job;
+    const off = answer?.samples;
+    expect(off).toBeTruthy();
     const here = sampleChain(buildChain(plan), { trials: 3000, seed: 7, distribution: 'normal' });
     expect(off?.trials).toBe(3000);
     expect(off?.values.length).toBe(here.values.length);
@@ -47,14 +48,17 @@ describe('probebook targets with PROBEBOOK_THREADS', () => {
       const out: Record<string, string> = {};
       for (const threads of ['1', '2']) {
         let stdout = '';
+        let stderr = '';
         const status = await main(['targets', 'demo/exciter.plan.json', '--json', '--trials', '3000'], {
           stdout: (t) => (stdout += t),
-          stderr: () => undefined,
+          // With PROBEBOOK_THREADS=2 a worker that did not deliver would be said here.
+          stderr: (t) => (stderr += t),
           // A cache of its own per run: the second must compute, not read the first's.
           env: { PROBEBOOK_CACHE: join(dir, threads), PROBEBOOK_THREADS: threads },
           cwd: process.cwd(),
         });
         expect(status).toBe(0);
+        expect(stderr).toBe('');
         out[threads] = stdout;
       }
       expect(out['2']).toBe(out['1']);
