@@ -98,6 +98,23 @@ describe('plan editor', () => {
     await s.waitFor(/input/);
   });
 
+  test('at 80×24 the selected kind shows its whole summary, its rail setting and every part role', async () => {
+    const s = open({ initial: newDraft('cat'), savedText: null, width: 80, height: 23 });
+    await s.waitFor('plan id');
+    await s.press('a');
+    await s.waitFor('Add a stage');
+    for (const [i, [name, kind]] of Object.entries(stageKinds).entries()) {
+      if (i > 0) await s.press(keys.down);
+      await s.waitFor(new RegExp(`› ${name}\\s`));
+      // Ink wraps the summary at word boundaries: compare with the frame's spaces and borders taken out.
+      const flat = s.frame().replace(/[│\s]+/g, '');
+      expect(flat, name).toContain(kind.summary.replace(/\s+/g, ''));
+      for (const r of kind.roles) expect(s.frame(), `${name} ${r.role}`).toMatch(new RegExp(`\\s${r.role.replace(/[.[\]]/g, '\\$&')}\\s`));
+      if (kind.traits?.railSetting) expect(s.frame(), name).toContain(`fed from the rail named in "${kind.traits.railSetting}"`);
+      expect(s.frame().split('\n').length).toBeLessThanOrEqual(24);
+    }
+  });
+
   test("every part of a stage has a row: input, each role, its ref, each output's test point, other keys as JSON", async () => {
     const s = open({ height: 80 });
     await s.waitFor('▸ stage 2');
