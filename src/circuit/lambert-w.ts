@@ -8,7 +8,8 @@
  * with the exact slope dw/dL = w/(1 + w), 8 intervals per unit of L): within
  * 6e-7 of w where w ≈ e^L, 3e-9 where w > 1 (the tests check it against the
  * lambert-w-function package from the registry). Above, two Newton steps on
- * w + ln w = L from the asymptotic start L − ln L + ln L / L settle it to
+ * w + ln w = L from the asymptotic start L − ln L + ln L / L (the first terms of
+ * W's asymptotic series, Corless et al. 1996; from memory) settle it to
  * rounding. Below, w < e^−40 (4e-18): 0.
  *
  * Measured against computing it each time (bench/diode-shaper.bench.ts, 512 values):

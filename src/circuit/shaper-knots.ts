@@ -7,8 +7,10 @@ import type { ShaperBranch, ShaperNet } from './shaper-solver.js';
  * alone. A branch's current is explicit in the voltage u across it: a diode
  * string (IS, N·Vt, its resistance R) carries
  *   I = (N·Vt/R)·W(p·e^(p + u/(N·Vt))) − IS,  p = R·IS/(N·Vt)
- * (Shockley law with a series resistance solved by Lambert's W; Banwell and
- * Jayakumar, Electronics Letters 36 (2000) 291), with dI/du = (1/R)·w/(1 + w).
+ * (Shockley law with a series resistance solved by Lambert's W, as Banwell and
+ * Jayakumar published it in Electronics Letters in 2000; the reference from memory,
+ * the form checked in the tests against the closed form V(I) of diode.ts), with
+ * dI/du = (1/R)·w/(1 + w).
  * W comes from a table (lambert-w.ts), so a Newton step costs no exponential,
  * where the joint solve of `solveNode` takes one per branch.
  *
@@ -97,8 +99,8 @@ export function solveKnots(
           if (u >= 0 && u < tableIntervals) {
             const q = u | 0;
             const t = u - q;
-            const k = q << 2;
-            w = (table[k] as number) + t * ((table[k + 1] as number) + t * ((table[k + 2] as number) + t * (table[k + 3] as number)));
+            const c = q << 2;
+            w = (table[c] as number) + t * ((table[c + 1] as number) + t * ((table[c + 2] as number) + t * (table[c + 3] as number)));
           } else if (u >= tableIntervals) w = lambertFromTable(table, L);
           f -= sign * ((s[o + 4] as number) * w - (s[o + 5] as number));
           den += ((s[o + 6] as number) * w) / (1 + w);
