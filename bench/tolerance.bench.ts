@@ -136,4 +136,9 @@ if (!existsSync(bundle)) {
       `${(median(two) / median(bare)).toFixed(1)}× node -e 0; ${(median(two) / median(one)).toFixed(2)}× one thread (load average ${loadavg()[0]?.toFixed(1)} on ${availableParallelism()} cores)`,
     ),
   );
+  (await import('./goals.js')).reportGoal('targets-process', median(targets) / median(bare), `${median(targets).toFixed(0)} ms`);
 }
+// Issue 15's goal rows for the summary table of `npm run bench` (bench/goals.ts).
+const { reportGoal } = await import('./goals.js');
+reportGoal('monte-carlo', median(mc));
+reportGoal('worst-case', median(wc));

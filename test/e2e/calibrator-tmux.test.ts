@@ -1,9 +1,9 @@
-import { spawnSync } from 'node:child_process';
 import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
+import { tmuxSession } from '../helpers/tmux-session.js';
 
 // The third demo plan (the invented calibrator board) walked in a real terminal:
 // tmux runs `npm start` at 80×24, a new board takes the calibrator plan, the safety
@@ -12,34 +12,14 @@ import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 // screen until it shows (no fixed sleeps).
 
 const repo = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
-const session = `probebook-cal-${process.pid}-${Date.now().toString(36)}`;
+const term = tmuxSession('probebook-cal');
+const { capture, keys, typeText, screen } = term;
 let logDir = '';
-
-function tmux(...args: string[]): string {
-  const r = spawnSync('tmux', args, { encoding: 'utf8' });
-  if (r.status !== 0) throw new Error(`tmux ${args.join(' ')} failed: ${r.stderr}`);
-  return r.stdout;
-}
-const capture = () => tmux('capture-pane', '-p', '-t', session);
-const keys = (...names: string[]) => tmux('send-keys', '-t', session, ...names);
-
-async function screen(expected: string | RegExp, timeoutMs = 20_000): Promise<string> {
-  const until = Date.now() + timeoutMs;
-  for (;;) {
-    const last = capture();
-    if (typeof expected === 'string' ? last.includes(expected) : expected.test(last)) return last;
-    if (Date.now() > until) throw new Error(`the terminal never showed ${String(expected)}; it shows:\n${last}`);
-    await new Promise((r) => setTimeout(r, 100));
-  }
-}
 
 /** Type a reading as a person does, send it, and wait until the screen says it was saved. */
 async function reading(check: string, text: string): Promise<string> {
   await screen(new RegExp(`${check.replace(/[.+]/g, '\\$&')} ›`));
-  for (const ch of text) {
-    tmux('send-keys', '-t', session, '-l', ch);
-    await new Promise((r) => setTimeout(r, 15));
-  }
+  await typeText(text);
   keys('Enter');
   return screen(new RegExp(`(PASS|FAIL|MARGINAL) ${check.replace(/[.+]/g, '\\$&')} = .* saved ✓`));
 }
@@ -49,7 +29,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  spawnSync('tmux', ['kill-session', '-t', session]);
+  term.kill();
   await rm(logDir, { recursive: true, force: true });
 });
 
@@ -57,12 +37,12 @@ describe('the calibrator demo in a real terminal', () => {
   test('a new calibrator board: safety checks, a wrong regulator output diagnosed, a timer trace', async () => {
     const demoLog = join(logDir, 'demo-log');
     const command = `cd '${repo}' && CI=false PROBEBOOK_DEMO_LOG='${demoLog}' PROBEBOOK_OPERATOR=e2e NO_COLOR=1 npm start; echo "probebook exited $?"; sleep 60`;
-    tmux('new-session', '-d', '-s', session, '-x', '80', '-y', '24', command);
+    term.start(command);
     await screen(/probebook · bench[\s\S]*CAL-0302\s+calibrator-demo/, 150_000);
 
     keys('n');
     await screen('New board');
-    for (const ch of 'CAL-E2E1') tmux('send-keys', '-t', session, '-l', ch);
+    await typeText('CAL-E2E1');
     await screen('serial: CAL-E2E1');
     keys('Enter');
     await screen('Plan for CAL-E2E1');
