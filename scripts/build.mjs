@@ -53,10 +53,11 @@ const jsoncEsm = {
 // thread so the screen keeps drawing) share their chunks, and the shell commands
 // (`targets`, `analyze`, `record`, …) never parse React and Ink, which live in a
 // chunk of their own loaded only for the TUI. Chunks sit beside the entry files:
-// the worker is found by `new URL('./targets-worker.js', import.meta.url)`.
+// the workers are found by `new URL('./targets-worker.js', import.meta.url)` (and
+// `./csv-part-worker.js`: a large CSV capture is read by two threads).
 rmSync('dist', { recursive: true, force: true });
 await build({
-  entryPoints: { probebook: 'src/cli/bin.ts', 'targets-worker': 'src/ui/bench/targets-worker.ts' },
+  entryPoints: { probebook: 'src/cli/bin.ts', 'targets-worker': 'src/ui/bench/targets-worker.ts', 'csv-part-worker': 'src/signal/csv-part-worker.ts' },
   outdir: 'dist',
   chunkNames: 'chunk-[hash]',
   splitting: true,
