@@ -353,8 +353,12 @@ export class CsvParser {
 
   /**
    * `fastRows` for the commonest capture, a time and one value per row, with
-   * no loop over the columns (measured on the 1 M-row bench capture: 0.69–0.70×
-   * the time of the general loop; same rows taken, same values).
+   * no loop over the columns; same rows taken, same values. Kept apart from
+   * `fastRows` for speed: first measured at 0.69–0.70× the general loop's time
+   * on the 1 M-row bench capture; measured again (issue 15, after the number
+   * scanner's later gains, a busy 2-core machine, interleaved runs): warm
+   * 75–77 ms against 76–92 ms, one-shot median 123 ms against 130 ms — a
+   * smaller gain than first seen, but a gain, so the two loops stay.
    */
   private fastTimeValueRows(buf: Uint8Array, start: number, limit: number): number {
     const delimiter = this.delimiter;
