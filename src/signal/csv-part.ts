@@ -160,23 +160,27 @@ export async function readRestTwoThreads(
     worker.on('error', () => resolve());
     worker.on('exit', () => resolve());
   });
-  // This thread's blocks, from the front, until one is the worker's.
-  const buffer = new Uint8Array(chunkBytes);
-  let k = 0;
-  for (; k < blocks; k++) {
-    if (k > 0 && Atomics.compareExchange(claims, k, free, 1) !== free) break;
-    pushRange(fd, parser, bounds[k] as number, bounds[k + 1] as number, buffer);
-  }
-  let joined = 0;
-  if (k < blocks) {
-    await ended;
+  try {
+    // This thread's blocks, from the front, until one is the worker's.
+    const buffer = new Uint8Array(chunkBytes);
+    let k = 0;
     for (; k < blocks; k++) {
-      const part = parts.get(k);
-      parts.delete(k);
-      if (part && parser.absorb(part)) joined++;
-      else pushRange(fd, parser, bounds[k] as number, bounds[k + 1] as number, buffer);
+      if (k > 0 && Atomics.compareExchange(claims, k, free, 1) !== free) break;
+      pushRange(fd, parser, bounds[k] as number, bounds[k + 1] as number, buffer);
     }
+    let joined = 0;
+    if (k < blocks) {
+      await ended;
+      for (; k < blocks; k++) {
+        const part = parts.get(k);
+        parts.delete(k);
+        if (part && parser.absorb(part)) joined++;
+        else pushRange(fd, parser, bounds[k] as number, bounds[k + 1] as number, buffer);
+      }
+    }
+    return joined;
+  } finally {
+    // Also when a row here is bad: the worker stops rather than read on to the end.
+    await worker?.terminate();
   }
-  await worker?.terminate();
-  return joined;
 }
