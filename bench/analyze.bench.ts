@@ -11,6 +11,7 @@
 // figures only. BENCH_BASELINE=/path/to/an/older/dist/probebook.js adds that
 // command's row, measured in the same rounds, for a before/after in one run. The captures are invented: a shaped sine with noise, written here.
 import { spawnSync } from 'node:child_process';
+import { build } from 'esbuild';
 import { closeSync, existsSync, mkdirSync, openSync, readFileSync, statSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
 
@@ -165,11 +166,24 @@ for (const r of rows) console.log(r.map((cell, c) => cell.padStart(widths[c] ?? 
 // What each figure is made of, medians over the rounds, each part in a fresh
 // process: node's own start, the command's fixed cost (the shipped command on
 // a small capture), then reading + parsing and measuring timed inside a
-// one-shot process (bench/analyze-phases.ts, from source through tsx), with the
-// read on one thread and on two (large files take two from 48 MiB on).
+// one-shot process (bench/analyze-phases.ts, bundled as the command is, its
+// worker beside it), with the read on one thread and on two (the command takes
+// two from 48 MiB on, when the machine has an idle core).
 const tiny = join('demo', 'captures', 'exciter-sine.csv');
+const phaseDir = join(out, 'phases');
+await build({
+  entryPoints: { 'analyze-phases': join('bench', 'analyze-phases.ts'), 'csv-part-worker': join('src', 'signal', 'csv-part-worker.ts') },
+  outdir: phaseDir,
+  splitting: true,
+  bundle: true,
+  platform: 'node',
+  target: 'node20',
+  format: 'esm',
+  minify: true,
+  logLevel: 'warning',
+});
 const phases = (file: string, threads: '1' | '2'): { readMs: number; measureMs: number; outputMs: number } => {
-  const r = spawnSync(process.execPath, ['--import', 'tsx', join('bench', 'analyze-phases.ts'), file, threads], { encoding: 'utf8' });
+  const r = spawnSync(process.execPath, [join(phaseDir, 'analyze-phases.js'), file, threads], { encoding: 'utf8' });
   if (r.status !== 0) throw new Error(`analyze-phases failed: ${r.stderr.slice(-300)}`);
   return JSON.parse(r.stdout) as { readMs: number; measureMs: number; outputMs: number };
 };
