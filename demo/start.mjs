@@ -1,10 +1,11 @@
 // `npm start`: open the bench screen on the demo plans with a writable copy of
 // an invented demo log. The log lives in `.demo-log/` at the repository root
 // (git-ignored, never committed) and is made again by `demo/make-demo-log.ts`
-// whenever it is missing; delete the folder for a fresh one. PROBEBOOK_DEMO_LOG
+// whenever it is missing or its demo sources changed; delete the folder for a fresh one. PROBEBOOK_DEMO_LOG
 // puts it elsewhere (the real-terminal test uses a temporary folder).
 import { spawnSync } from 'node:child_process';
-import { existsSync, readdirSync, renameSync, rmSync, statSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { existsSync, readFileSync, readdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { dirname, join, relative, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -36,12 +37,31 @@ if (!existsSync(bundle) || !existsSync(join(root, 'dist', 'targets-worker.js')) 
   console.log('probebook demo: building dist/probebook.js …');
   run(['scripts/build.mjs'], 'the build');
 }
+// The demo sources the scratch log is made from: when they change (a pull brought new demo
+// boards or plans), the scratch log is made again and the old one kept beside it.
+const demoSources = ['demo/make-demo-log.ts', 'demo/make-captures.ts', ...plans];
+const sourceHash = createHash('sha256');
+for (const file of demoSources) if (existsSync(join(root, file))) sourceHash.update(file).update(readFileSync(join(root, file)));
+const stamp = sourceHash.digest('hex');
+const stampFile = join(logDir, '.demo-sources');
+if (existsSync(join(logDir, 'boards'))) {
+  const previous = existsSync(stampFile) ? readFileSync(stampFile, 'utf8').trim() : '';
+  if (previous !== stamp) {
+    const kept = `${logDir}.previous`;
+    console.log(
+      `probebook demo: the demo plans or boards changed since ${relative(process.cwd(), logDir) || logDir} was made; making it again (the old one is kept in ${relative(process.cwd(), kept) || kept}) …`,
+    );
+    rmSync(kept, { recursive: true, force: true });
+    renameSync(logDir, kept);
+  }
+}
 if (!existsSync(join(logDir, 'boards'))) {
   console.log(`probebook demo: writing the invented demo log to ${relative(process.cwd(), logDir) || logDir} …`);
   // Written beside it and renamed into place, so an interrupted run leaves no half log behind.
   const partial = `${logDir}.partial-${process.pid}`;
   rmSync(partial, { recursive: true, force: true });
   run(['--import', 'tsx', 'demo/make-demo-log.ts', partial], 'writing the demo log');
+  writeFileSync(join(partial, '.demo-sources'), `${stamp}\n`);
   rmSync(logDir, { recursive: true, force: true });
   renameSync(partial, logDir);
 }
