@@ -10,6 +10,7 @@
 // size. Without python3 or numpy the bench says so and shows probebook's own
 // figures only. BENCH_BASELINE=/path/to/an/older/dist/probebook.js adds that
 // command's row, measured in the same rounds, for a before/after in one run. The captures are invented: a shaped sine with noise, written here.
+// After the table, what each figure is made of (node start, the command's fixed cost, read+parse on one and on two threads, measure, output).
 import { spawnSync } from 'node:child_process';
 import { build } from 'esbuild';
 import { closeSync, existsSync, mkdirSync, openSync, readFileSync, statSync, writeSync } from 'node:fs';

@@ -54,7 +54,8 @@ const twoThreadBytes = 48 * 1024 * 1024;
  * Whether a second thread would find a core to run on: the last minute's load
  * average leaves one idle. On a machine whose cores are all busy a worker only
  * competes with this thread (measured on the 5 M-row bench capture with a load
- * average of 9 on 2 cores: 0.62× numpy's time against 0.55× on one thread).
+ * average of 9 on 2 cores: 0.63× numpy's time, against 0.55× for the command
+ * reading on one thread in the same rounds).
  * The same test as `make --load-average` (common practice, no source).
  */
 function hasIdleCore(): boolean {
