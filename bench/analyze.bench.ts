@@ -212,3 +212,9 @@ for (const n of sizes) {
 console.log('start of this work (one run, same machine, 1 M / 5 M): pb/numpy 0.76× / 0.62×, pb RSS/file 2.75× / 0.82×');
 console.log('before (issue 15, 1 M / 5 M): pb/numpy 0.75× / 0.49×, pb RSS/file 3.01× at 1 M');
 console.log('goal: pb/numpy ≤ 0.50× at both sizes; pb RSS/file ≤ 2×. Ratios are paired per round (same file, back to back).');
+// Issue 15's goal rows for the summary table of `npm run bench` (bench/goals.ts): the pb/numpy and pb RSS/file cells.
+const { reportGoal } = await import('./goals.js');
+const cell = (n: number, column: number) => Number.parseFloat(rows.find((r) => r[0] === String(n))?.[column] ?? 'NaN');
+reportGoal('analyze-1m', cell(1_000_000, 5), hasNumpy ? '' : 'numpy is not installed');
+reportGoal('analyze-5m', cell(5_000_000, 5), hasNumpy ? '' : 'numpy is not installed');
+reportGoal('analyze-rss', Math.max(cell(1_000_000, 9), cell(5_000_000, 9)));

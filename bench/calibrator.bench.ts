@@ -6,21 +6,10 @@
 import { computeTargets } from '../src/analysis/targets.js';
 import { buildChain } from '../src/plan/chain.js';
 import { loadPlanFile } from '../src/plan/load.js';
+import { cpuMs, median } from './timing.js';
 
 const trials = 10_000;
 const rounds = 3;
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)] ?? Number.NaN;
-}
-
-function time(f: () => void): number {
-  const t0 = process.cpuUsage();
-  f();
-  const d = process.cpuUsage(t0);
-  return (d.user + d.system) / 1000;
-}
 
 const calibrator = await loadPlanFile('demo/calibrator.plan.json');
 const exciter = await loadPlanFile('demo/exciter.plan.json');
@@ -29,8 +18,8 @@ computeTargets(exciter, { trials: 500 });
 const cal: number[] = [];
 const exc: number[] = [];
 for (let r = 0; r < rounds; r++) {
-  cal.push(time(() => computeTargets(calibrator, { trials, seed: r + 1 })));
-  exc.push(time(() => computeTargets(exciter, { trials, seed: r + 1 })));
+  cal.push(cpuMs(() => computeTargets(calibrator, { trials, seed: r + 1 })));
+  exc.push(cpuMs(() => computeTargets(exciter, { trials, seed: r + 1 })));
 }
 console.log(
   `computeTargets, ${trials} trials, median of ${rounds}: calibrator ${median(cal).toFixed(1)} ms, exciter ${median(exc).toFixed(1)} ms, ratio ${(median(cal) / median(exc)).toFixed(2)}×`,
@@ -49,7 +38,7 @@ const perCall = (s: (typeof calibrator.stages)[number]) => {
   const n = 2000;
   for (let i = 0; i < 200; i++) s.module.evaluate(arg);
   return (
-    (time(() => {
+    (cpuMs(() => {
       for (let i = 0; i < n; i++) s.module.evaluate(arg);
     }) /
       n) *

@@ -13,21 +13,9 @@ import { uncertaintyFor, verdictFor } from '../src/analysis/verdict.js';
 import { buildChain } from '../src/plan/chain.js';
 import { loadPlanFile } from '../src/plan/load.js';
 import { uncertaintyKey } from '../src/units/unit.js';
+import { cpuMs, median } from './timing.js';
 
 const rounds = 7;
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)] ?? Number.NaN;
-}
-
-/** CPU time of f, ms. */
-function time(f: () => void): number {
-  const t0 = process.cpuUsage();
-  f();
-  const d = process.cpuUsage(t0);
-  return (d.user + d.system) / 1000;
-}
 
 const plan = await loadPlanFile('demo/exciter.plan.json');
 const targets = computeTargets(plan, { trials: 2000 }).targets;
@@ -57,12 +45,12 @@ const pass: number[] = [];
 const evals: number[] = [];
 let named = '';
 for (let r = 0; r < rounds; r++) {
-  full.push(time(() => (named = diagnose(plan, targets, faulted, { chain }).hypotheses[0]?.part ?? 'nothing')));
-  fresh.push(time(() => diagnose(plan, targets, faulted)));
-  pass.push(time(() => diagnose(plan, targets, healthy, { chain })));
+  full.push(cpuMs(() => (named = diagnose(plan, targets, faulted, { chain }).hypotheses[0]?.part ?? 'nothing')));
+  fresh.push(cpuMs(() => diagnose(plan, targets, faulted)));
+  pass.push(cpuMs(() => diagnose(plan, targets, healthy, { chain })));
   // A rail moved each time: the chain keeps results of stages nothing changed in, a rail changes all.
   evals.push(
-    time(() => {
+    cpuMs(() => {
       for (let i = 0; i < 200; i++) {
         x[0] = (chain.nominal[0] as number) * (1 + 1e-4 * (i % 2));
         chain.evaluate(x, out);

@@ -16,6 +16,7 @@ import { type DiodeShaperSettings, shaperNet } from '../src/circuit/diode-shaper
 import { mirrorOrder } from '../src/circuit/mirror.js';
 import { solveNode } from '../src/circuit/shaper-solver.js';
 import { createRandom } from '../src/analysis/random.js';
+import { cpuPerCall } from './timing.js';
 
 const plan = await loadPlanFile('demo/exciter.plan.json');
 const stage = plan.stages.find((s) => s.kind === 'diode-shaper');
@@ -28,14 +29,8 @@ skewed[40] = (skewed[40] as number) + 1e-6; // breaks the mirror: every sample s
 const input: EvalInput<unknown> = { parts, settings: stage.settings, opamp: defaultOpamp, supplies: { pos: 12, neg: -12 }, rails: {}, input: triangle };
 const unmirrored: EvalInput<unknown> = { ...input, input: { frequency: 2400, samples: skewed } };
 
-/** CPU µs per call. */
-function perCall(n: number, f: () => void): number {
-  for (let i = 0; i < 2000; i++) f();
-  const t0 = process.cpuUsage();
-  for (let i = 0; i < n; i++) f();
-  const d = process.cpuUsage(t0);
-  return (d.user + d.system) / n;
-}
+/** CPU µs per call, after 2,000 untimed calls. */
+const perCall = (n: number, f: () => void): number => cpuPerCall(n, f, 2000);
 
 let sink = 0;
 const n = 20_000;

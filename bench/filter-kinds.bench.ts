@@ -12,6 +12,7 @@ import { stageKinds } from '../src/circuit/registry.js';
 import { defaultDiode } from '../src/circuit/diode.js';
 import { fromPhase } from '../src/circuit/waveform.js';
 import type { EvalInput } from '../src/circuit/types.js';
+import { cpuPerCall } from './timing.js';
 
 const opamp = { gbw: 1e6, slew: 0.5e6, headroom: 1.5, maxSupply: 15, aol: 2e5 };
 const supplies = { pos: 12, neg: -12 };
@@ -29,15 +30,6 @@ const cases: [string, Record<string, number>, unknown][] = [
   ['wien-bridge', { R1: 15e3, C1: 10e-9, R2: 15e3, C2: 10e-9, Rg: 10e3, Rf1: 15e3, Rf2: 10e3 }, { hasLimiter: true, diode: defaultDiode, diodeName: '1N4148' }],
 ];
 
-/** CPU µs per call. */
-function perCall(n: number, f: () => void): number {
-  for (let i = 0; i < Math.min(500, n); i++) f();
-  const t0 = process.cpuUsage();
-  for (let i = 0; i < n; i++) f();
-  const d = process.cpuUsage(t0);
-  return (d.user + d.system) / n;
-}
-
 let sink = 0;
 const buffer = new Float64Array(256);
 const rows: [string, string, number][] = [];
@@ -53,7 +45,7 @@ for (const [kind, parts, settings] of cases) {
     rows.push([
       kind,
       label,
-      perCall(n, () => {
+      cpuPerCall(n, () => {
         sink += module.evaluate(input).values['out.vpp'] ?? 0;
       }),
     ]);

@@ -9,21 +9,10 @@ import { readFileSync } from 'node:fs';
 import { computeTargets } from '../src/analysis/targets.js';
 import { parseDraft, serialiseDraft, setAt } from '../src/plan/draft.js';
 import { checkPlanText, loadPlanText } from '../src/plan/load.js';
+import { cpuMs, median } from './timing.js';
 
 const rounds = 15;
 const goalMs = 200;
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)] ?? Number.NaN;
-}
-
-function cpu(f: () => void): number {
-  const t0 = process.cpuUsage();
-  f();
-  const d = process.cpuUsage(t0);
-  return (d.user + d.system) / 1000;
-}
 
 for (const file of ['demo/exciter.plan.json', 'demo/line-driver.plan.json']) {
   const draft = parseDraft(readFileSync(file, 'utf8'));
@@ -32,12 +21,12 @@ for (const file of ['demo/exciter.plan.json', 'demo/line-driver.plan.json']) {
   for (let i = 0; i < rounds + 2; i++) {
     // A keystroke: the title changed (a new text and a new plan object, so no memo helps).
     const text = serialiseDraft(setAt(draft, ['title'], `edit ${i}`));
-    const q = cpu(() => {
+    const q = cpuMs(() => {
       if (checkPlanText(text, file).length > 0) throw new Error(`${file} does not load`);
       computeTargets(loadPlanText(text, file), { trials: 1, seed: 1 });
     });
     if (i >= 2) quick.push(q);
-    if (i >= 2 && i < 5) full.push(cpu(() => computeTargets(loadPlanText(text, file), { trials: 10_000, seed: 1 })));
+    if (i >= 2 && i < 5) full.push(cpuMs(() => computeTargets(loadPlanText(text, file), { trials: 10_000, seed: 1 })));
   }
   const q = median(quick);
   const f = median(full);

@@ -8,22 +8,10 @@ import { buildChain } from '../src/plan/chain.js';
 import { loadPlanFile, loadPlanText } from '../src/plan/load.js';
 import { computeTargets } from '../src/analysis/targets.js';
 import { sampleChain } from '../src/analysis/sampling.js';
+import { cpuMs, median } from './timing.js';
 
 const trials = 10_000;
 const rounds = 5;
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)] ?? Number.NaN;
-}
-
-/** CPU time of f, ms. */
-function time(f: () => void): number {
-  const t0 = process.cpuUsage();
-  f();
-  const d = process.cpuUsage(t0);
-  return (d.user + d.system) / 1000;
-}
 
 const plan = await loadPlanFile('demo/exciter.plan.json');
 const divider = loadPlanText(
@@ -52,12 +40,12 @@ const divStage: number[] = [];
 const divChain: number[] = [];
 const yardstick: number[] = [];
 for (let r = 0; r < rounds; r++) {
-  full.push(time(() => computeTargets(plan, { trials, seed: r + 1 })));
-  mcOnly.push(time(() => sampleChain(chain, { trials, seed: r + 1, distribution: 'normal' })));
-  divChain.push(time(() => sampleChain(dividerChain, { trials, seed: r + 1, distribution: 'normal' })));
+  full.push(cpuMs(() => computeTargets(plan, { trials, seed: r + 1 })));
+  mcOnly.push(cpuMs(() => sampleChain(chain, { trials, seed: r + 1, distribution: 'normal' })));
+  divChain.push(cpuMs(() => sampleChain(dividerChain, { trials, seed: r + 1, distribution: 'normal' })));
   // The divider's trials are too short to time alone: time twenty times as many and scale.
   divStage.push(
-    time(() => {
+    cpuMs(() => {
       const parts = { Rtop: 10_000, Rbottom: 10_000 };
       let sink = 0;
       for (let i = 0; i < 20 * trials; i++) {
@@ -76,7 +64,7 @@ for (let r = 0; r < rounds; r++) {
   );
   // A yardstick of the machine's speed right now: a million Math.exp calls.
   yardstick.push(
-    time(() => {
+    cpuMs(() => {
       let sink = 0;
       for (let i = 0; i < 1_000_000; i++) sink += Math.exp((i & 1023) * -1e-3);
       if (sink === 42) console.log('');
@@ -114,7 +102,7 @@ for (const s of plan.stages) {
   const arg = input ? { ...base, input } : base;
   const n = 1000;
   for (let i = 0; i < 100; i++) s.module.evaluate(arg);
-  const t = time(() => {
+  const t = cpuMs(() => {
     for (let i = 0; i < n; i++) s.module.evaluate(arg);
   });
   perStage.push(`${s.id} (${s.kind}) ${((t / n) * 1000).toFixed(1)} µs`);
@@ -144,10 +132,10 @@ const demoPlans = ['demo/exciter.plan.json', 'demo/line-driver.plan.json'];
     computeTargets(p, { trials: 500 });
     if (old) old.compute(old.plans[k], { trials: 500, seed: 1 });
     for (let r = 0; r < rounds; r++) {
-      now.push(time(() => computeTargets(p, { trials, seed: 100 + r })));
+      now.push(cpuMs(() => computeTargets(p, { trials, seed: 100 + r })));
       if (old) {
         const o = old;
-        before.push(time(() => o.compute(o.plans[k], { trials, seed: 100 + r })));
+        before.push(cpuMs(() => o.compute(o.plans[k], { trials, seed: 100 + r })));
       }
     }
     const line = `targets ${file}: ${ms(median(now))} with loading`;

@@ -119,4 +119,9 @@ if (!existsSync(bundle)) {
       `${(median(targets) / median(bare)).toFixed(1)}× node -e 0`,
     ),
   );
+  (await import('./goals.js')).reportGoal('targets-process', median(targets) / median(bare), `${median(targets).toFixed(0)} ms`);
 }
+// Issue 15's goal rows for the summary table of `npm run bench` (bench/goals.ts).
+const { reportGoal } = await import('./goals.js');
+reportGoal('monte-carlo', median(mc));
+reportGoal('worst-case', median(wc));

@@ -279,3 +279,8 @@ console.log(
 goalRow('TUI first frame, empty log', '550 ms', first, 300);
 goalRow(`TUI board list, ${boardsWanted} boards`, '965 ms', big, 400);
 goalRow(`keystroke to frame p95, bring-up, 40 checks`, '17.9 ms', keyP95, 16);
+// Issue 15's goal rows for the summary table of `npm run bench` (bench/goals.ts).
+const { reportGoal } = await import('./goals.js');
+reportGoal('tui-first-frame-empty', first);
+reportGoal('tui-first-frame-10k', big);
+reportGoal('keystroke-p95', keyP95, `median ${ms(median(keyTimes))} over ${keyTimes.length} keys`);

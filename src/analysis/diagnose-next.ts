@@ -27,9 +27,10 @@ function resolution(plan: Plan, chain: Chain, k: number, value: number): number 
   return 2 * ((spec ? uncertaintyOf(v, spec) : 0) + modelErrorOf(c.unit, v));
 }
 
+/** A check the technician can still make: a stage check not yet read, and not a design figure nobody probes (a regulator's dissipation). */
 function readable(chain: Chain, k: number, read: ReadonlySet<string>): boolean {
   const c = chain.checks[k];
-  return c !== undefined && c.phase === 'stage' && !read.has(c.check);
+  return c !== undefined && c.phase === 'stage' && !c.isDesignFigure && !read.has(c.check);
 }
 
 /**

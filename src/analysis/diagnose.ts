@@ -148,6 +148,8 @@ export function diagnose(plan: Plan, targets: readonly DiagnosisTarget[], readin
   chain.variables.forEach((v, i) => {
     const stage = plan.stages.find((s) => s.id === v.stage);
     if (stage && (stage.kind === 'manual' || stage.module.traits?.isHandWritten)) return;
+    // A data-sheet figure (a regulator's reference) is never the wrong value fitted.
+    if (stage?.module.roles.some((r) => r.role === v.role && r.isRating)) return;
     const found = searchValue(chain, i, evidence, canExplain);
     if (!found) return;
     const unit = v.unit;

@@ -232,7 +232,7 @@ export const commonEmitterKind: StageKind<CommonEmitterSettings> = {
     { role: 'Ce', unit: 'F', description: 'emitter bypass capacitor across Re', optional: true },
     { role: 'hfe', unit: 'V/V', description: 'transistor current gain', optional: true },
     { role: 'vbe', unit: 'V', description: 'base-emitter drop at 1 mA', optional: true },
-    { role: 'vaf', unit: 'V', description: 'Early voltage', optional: true },
+    { role: 'vaf', unit: 'V', description: 'Early voltage', optional: true, isRating: true },
   ],
   outputs: ['out'],
   needsInput: true,

@@ -151,7 +151,7 @@ function evaluate(input: EvalInput<ComparatorSettings>): EvalOutput {
     const transition = (th.outHigh - th.outLow) / input.opamp.slew;
     if (cycles > 0 && hi - lo < 0.98 * (th.outHigh - th.outLow)) {
       warnings.push({
-        message: `each output edge takes ${formatValue(transition, 's')} at the op-amp's slew rate, longer than the signal leaves it: the output never reaches its levels`,
+        message: `each output edge takes ${formatValue(transition, 's')} at the op-amp's slew rate, longer than the signal leaves it: the output never reaches its levels, and its unfinished triangle can settle off centre either way (which one depends on how it started), so duty is no reliable check: use a faster op-amp`,
       });
     }
   }

@@ -121,9 +121,9 @@ export const regulatorKind: StageKind<RegulatorSettings> = {
   roles: [
     { role: 'R1', unit: 'Ω', description: 'resistor from the output to the adjust pin', optional: true },
     { role: 'R2', unit: 'Ω', description: 'resistor from the adjust pin to ground', optional: true },
-    { role: 'vref', unit: 'V', description: 'reference between output and adjust pin', optional: true },
-    { role: 'iadj', unit: 'A', description: 'current out of the adjust pin', optional: true },
-    { role: 'dropout', unit: 'V', description: 'least input-to-output difference it regulates at', optional: true },
+    { role: 'vref', unit: 'V', description: 'reference between output and adjust pin', optional: true, isRating: true },
+    { role: 'iadj', unit: 'A', description: 'current out of the adjust pin', optional: true, isRating: true },
+    { role: 'dropout', unit: 'V', description: 'least input-to-output difference it regulates at', optional: true, isRating: true },
     { role: 'vout', unit: 'V', description: 'output of a fixed regulator', optional: true },
   ],
   outputs: ['out'],

@@ -183,7 +183,7 @@ export const timerAstableKind: StageKind<TimerAstableSettings> = {
     { role: 'Ra', unit: 'Ω', description: 'resistor from the rail to the discharge pin' },
     { role: 'Rb', unit: 'Ω', description: 'resistor from the discharge pin to the capacitor' },
     { role: 'C', unit: 'F', description: 'timing capacitor' },
-    { role: 'vdrop', unit: 'V', description: 'how far the output high stays below the rail', optional: true },
+    { role: 'vdrop', unit: 'V', description: 'how far the output high stays below the rail', optional: true, isRating: true },
   ],
   outputs: ['out', 'cap'],
   needsInput: false,

@@ -20,6 +20,14 @@ export interface PartRole {
   /** What the part does, in a technician's words ("timing capacitor"). */
   readonly description: string;
   readonly optional?: boolean;
+  /**
+   * A figure from the device's data sheet (a regulator's reference, a zener's
+   * dynamic resistance, a timer's output drop), not a part fitted by its value:
+   * it spreads within its tolerance in the bands, but the diagnosis never names
+   * it as a wrong value (a 22 % low reference is a broken or wrong device, which
+   * the stage's fitted parts and fault modes and its hints speak for). @default false
+   */
+  readonly isRating?: boolean;
 }
 
 /** A value with its tolerance, as fitted on the board. */

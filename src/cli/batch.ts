@@ -132,12 +132,12 @@ function batchTable(f: BatchFigures, filter: BatchFilter): string {
   }
   lines.push('');
   lines.push(
-    `${padCell('check (weakest first)', 24)}${padCellRight('n', 7)}${padCellRight('pass', 7)}${padCellRight('marg', 7)}${padCellRight('fail', 7)}${padCellRight('final', 8)}${padCellRight('mean', 12)}${padCellRight('sd', 11)}${padCellRight('Cp', 6)}${padCellRight('Cpk', 6)}  capability`,
+    `${padCell('check (weakest first)', 24)}${padCellRight('n', 7)}${padCellRight('pass', 7)}${padCellRight('marg', 7)}${padCellRight('fail', 7)}${padCellRight('final', 8)}${padCellRight('mean', 13)}${padCellRight('sd', 12)}${padCellRight('Cp', 6)}${padCellRight('Cpk', 6)}  capability`,
   );
   for (const c of [...f.checks].sort(weakestFirst)) {
     const word = c.status === 'ok' || c.status === 'one-sided' ? cpkWord(c.cpk) : c.status === 'no-band' ? 'no band' : 'not enough data';
     lines.push(
-      `${padCell(c.check, 24)}${padCellRight(String(c.n), 7)}${padCellRight(String(c.pass), 7)}${padCellRight(String(c.marginal), 7)}${padCellRight(String(c.fail), 7)}${padCellRight(formatPercent(c.finalYield), 8)}${padCellRight(formatFigure(c.mean, c.unit), 12)}${padCellRight(formatFigure(c.sd, c.unit, 3), 11)}${padCellRight(formatIndex(c.cp), 6)}${padCellRight(formatIndex(c.cpk), 6)}  ${word}`,
+      `${padCell(c.check, 24)}${padCellRight(String(c.n), 7)}${padCellRight(String(c.pass), 7)}${padCellRight(String(c.marginal), 7)}${padCellRight(String(c.fail), 7)}${padCellRight(formatPercent(c.finalYield), 8)}${padCellRight(formatFigure(c.mean, c.unit), 13)}${padCellRight(formatFigure(c.sd, c.unit, 3), 12)}${padCellRight(formatIndex(c.cp), 6)}${padCellRight(formatIndex(c.cpk), 6)}  ${word}`,
     );
   }
   const plans = new Set(f.checks.map((c) => c.plan));

@@ -11,6 +11,7 @@ import { instrumentsPath, loadInstruments } from '../bench/instruments-file.js';
 import { BenchSession } from '../bench/session.js';
 import { type InstrumentSource, sessionSource } from '../bench/source.js';
 import { cacheHelp, targetsCacheFor } from './targets-cache.js';
+import { planEditAccess } from './plan-draft-file.js';
 import { maxOperatorLength, oneLine } from '../units/text.js';
 
 export const tuiUsage = 'probebook [--log DIR] [--plan FILE]... [--operator NAME] [--cache DIR]';
@@ -143,7 +144,9 @@ export const tuiCommand: Command = async (argv, io) => {
   const restore = () => process.stdout.write(leaveAltScreen);
   process.once('exit', restore);
   try {
-    const app = render(<App log={log} catalog={catalog} operator={operator} instruments={instruments} />, { exitOnCtrlC: true });
+    const app = render(<App log={log} catalog={catalog} operator={operator} instruments={instruments} planEditing={planEditAccess(io.cwd)} />, {
+      exitOnCtrlC: true,
+    });
     await app.waitUntilExit();
   } finally {
     instruments?.close();

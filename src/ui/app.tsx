@@ -2,6 +2,7 @@ import { useCallback, useState } from 'react';
 import { Box, useApp, useInput } from 'ink';
 import type { BenchLog } from '../log/types.js';
 import type { InstrumentSource } from '../bench/source.js';
+import type { Plan } from '../plan/types.js';
 import { BatchScreen } from './batch/batch.js';
 import { BenchScreen } from './bench/bench.js';
 import type { PlanCatalog } from './bench/plan-catalog.js';
@@ -11,6 +12,8 @@ import { useLiveState } from './components/use-live-state.js';
 import { type Size, useTerminalSize } from './components/use-terminal-size.js';
 import { WithTargets } from './components/with-targets.js';
 import { HistoryScreen } from './history/history.js';
+import type { PlanEditAccess } from './plan-editor/plan-edit-access.js';
+import { PlanEditorScreen } from './plan-editor/plan-editor-screen.js';
 import { PlanScreen } from './plan-screen/plan-screen.js';
 
 /** A screen and what it shows (DESIGN §8 names). */
@@ -19,7 +22,8 @@ export type Route =
   | { readonly screen: 'bring-up'; readonly serial: string; readonly planHash: string; readonly resumeRun?: string }
   | { readonly screen: 'history'; readonly serial: string }
   | { readonly screen: 'batch' }
-  | { readonly screen: 'plan'; readonly planHash: string };
+  | { readonly screen: 'plan'; readonly planHash: string }
+  | { readonly screen: 'plan-editor'; readonly planHash: string };
 
 export interface AppProps {
   readonly log: BenchLog;
@@ -33,10 +37,12 @@ export interface AppProps {
   readonly onQuit?: () => void;
   /** The bench's instruments, for the bring-up screen's `m` key. @default null */
   readonly instruments?: InstrumentSource | null;
+  /** How the plan screen's `e` opens and saves a plan in the editor (the CLI gives it); none: no `e`. @default null */
+  readonly planEditing?: PlanEditAccess | null;
 }
 
 /** Switches screens and owns the quit dialog; every screen keeps its own state. */
-export function App({ log, catalog, operator, size, initialRoute = { screen: 'bench' }, onQuit, instruments = null }: AppProps) {
+export function App({ log, catalog, operator, size, initialRoute = { screen: 'bench' }, onQuit, instruments = null, planEditing = null }: AppProps) {
   const app = useApp();
   const exit = onQuit ?? app.exit;
   const { width, height } = useTerminalSize(size);
@@ -57,6 +63,22 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
       setStack((s) => [...s, next]);
     },
     [setDirty, setTyping],
+  );
+  // The editor has the keyboard throughout (its own q and Esc leave it, asking first when a change is unsaved).
+  const openEditor = useCallback(
+    (planHash: string) => {
+      push({ screen: 'plan-editor', planHash });
+      setTyping(true);
+    },
+    [push, setTyping],
+  );
+  /** Back from the editor; a saved plan takes the place of the one the plan screen showed. */
+  const editorDone = useCallback(
+    (from: string, saved: Plan | null) => {
+      setTyping(false);
+      setStack((s) => s.slice(0, -1).map((r) => (saved && r.screen === 'plan' && r.planHash === from ? { screen: 'plan', planHash: saved.hash } : r)));
+    },
+    [setTyping],
   );
   const back = useCallback(() => {
     setDirty(false);
@@ -129,9 +151,23 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
     case 'plan':
       screen = (
         <WithTargets catalog={catalog} planHash={route.planHash} onExit={back} isActive={isActive}>
-          {(plan, targets) => <PlanScreen {...common} plan={plan} targets={targets} />}
+          {(plan, targets) => <PlanScreen {...common} plan={plan} targets={targets} {...(planEditing ? { onEdit: () => openEditor(route.planHash) } : {})} />}
         </WithTargets>
       );
+      break;
+    case 'plan-editor':
+      screen = planEditing ? (
+        <PlanEditorScreen
+          key={route.planHash}
+          catalog={catalog}
+          planHash={route.planHash}
+          access={planEditing}
+          width={width}
+          height={common.height}
+          isActive={isActive}
+          onDone={(saved) => editorDone(route.planHash, saved)}
+        />
+      ) : null;
       break;
   }
   return (

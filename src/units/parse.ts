@@ -187,9 +187,13 @@ export function parseValue(text: string, options: ParseOptions = {}): ParseResul
   const compact = joinUnit(body);
   if (compact === undefined) {
     // Offer the two readings the typist may have meant: the digits joined, or the space as a decimal point.
+    // Only readings that parse are offered ("4 MHz 3O%" joined is no value either).
     const joined = body.replace(/\s+/g, '');
     const dotted = body.replace(/(\d)\s+(\d)/, '$1.$2').replace(/\s+/g, '');
-    const offer = dotted !== joined && !body.includes('.') ? `write ${joined} or ${dotted}` : `write ${joined}`;
+    const parses = (candidate: string): boolean => parseValue(candidate, options).ok;
+    const readings = [...new Set([joined, ...(body.includes('.') ? [] : [dotted])])].filter(parses);
+    if (readings.length === 0) return fail(`${shown} is not a value${hint || ' (a number, an SI prefix and a unit, e.g. "4.7k" or "10 nF")'}`);
+    const offer = `write ${readings.join(' or ')}`;
     return fail(
       `${shown} has a space inside the number: ${offer.length > 60 ? 'write the number without spaces' : offer} (a space may only stand before the unit${expected ? `, as in ${unitExample[expected]}` : ''})`,
     );

@@ -5,6 +5,7 @@ import { buildChain } from '../../src/plan/chain.js';
 import { loadPlanText } from '../../src/plan/load.js';
 import { runSpice } from '../helpers/ngspice.js';
 import { opampSubckt } from '../helpers/spice-opamp.js';
+import { mirroredShaper } from './fixtures/shaper-branches.js';
 
 /*
  * The statistical band of one whole chain (oscillator → shaper → amplifier)
@@ -54,18 +55,10 @@ const plan = loadPlanText(
     opamp: { gbw: '3 MHz', slew: '2 V/us', headroom: '1.5 V', maxSupply: '18 V' },
     stages: [
       { id: 'osc', kind: 'schmitt-integrator', parts: { R1: '6k8 1%', R2: '22k 1%', Rt: '10k 1%', Ct: '68n 5%' } },
-      {
-        id: 'shaper',
-        kind: 'diode-shaper',
-        input: 'osc.triangle',
-        parts: { Rs: '6k8 1%' },
-        branches: [
-          { diodes: 1, polarity: '+', R: '15k 1%', bias: '0.7 V' },
-          { diodes: 1, polarity: '-', R: '15k 1%', bias: '-0.7 V' },
-          { diodes: 1, polarity: '+', R: '1k5 1%', bias: '1.5 V' },
-          { diodes: 1, polarity: '-', R: '1k5 1%', bias: '-1.5 V' },
-        ],
-      },
+      mirroredShaper('osc.triangle', '6k8 1%', [
+        { R: '15k 1%', bias: 0.7 },
+        { R: '1k5 1%', bias: 1.5 },
+      ]),
       { id: 'gain', kind: 'noninverting-amp', input: 'shaper.out', parts: { Rg: '10k 1%', Rf: '15k 1%' } },
     ],
   }),

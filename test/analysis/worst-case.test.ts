@@ -6,6 +6,7 @@ import { targetsJson } from '../../src/analysis/targets-json.js';
 import { worstCase } from '../../src/analysis/worst-case.js';
 import { buildChain, spreadOf } from '../../src/plan/chain.js';
 import { loadPlanFile, loadPlanText } from '../../src/plan/load.js';
+import { mirroredShaper } from './fixtures/shaper-branches.js';
 
 /*
  * The worst-case search against brute force. A diode shaper driven by a bench
@@ -26,18 +27,10 @@ const planText = JSON.stringify({
   stages: [
     // 3.25 V peak is about the drive where this shaper's THD is least (0.8 %); ±10 % spans both sides of it.
     { id: 'in', kind: 'signal-in', shape: 'triangle', peak: '3.25 V 10%', frequency: '1 kHz' },
-    {
-      id: 'shaper',
-      kind: 'diode-shaper',
-      input: 'in.out',
-      parts: { Rs: '6k8 2%' },
-      branches: [
-        { diodes: 1, polarity: '+', R: '15k', bias: '0.7 V' },
-        { diodes: 1, polarity: '-', R: '15k', bias: '-0.7 V' },
-        { diodes: 1, polarity: '+', R: '1k5 5%', bias: '1.5 V' },
-        { diodes: 1, polarity: '-', R: '1k5', bias: '-1.5 V' },
-      ],
-    },
+    mirroredShaper('in.out', '6k8 2%', [
+      { R: '15k', bias: 0.7 },
+      { R: '1k5 5%', Rneg: '1k5', bias: 1.5 },
+    ]),
   ],
 });
 

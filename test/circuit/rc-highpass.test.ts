@@ -65,6 +65,13 @@ describe('rc-highpass against ngspice', () => {
 });
 
 describe('rc-highpass closed forms', () => {
+  test('worked by hand: 10 kΩ and 100 nF give f3dB = 1/(2πRC) = 159.15 Hz (Horowitz and Hill, The Art of Electronics, the RC high-pass; from memory)', () => {
+    const r = run(100e-9, 10e3, sine(1, 1000));
+    expect(r.values['fc'] as number).toBeCloseTo(159.155, 3);
+    // At 10·fc the output is 1/√(1 + 0.01) of the input: 0.995 (2 Vpp in → 1.990 Vpp).
+    const at10 = run(100e-9, 10e3, sine(1, 1591.55));
+    expect(at10.values['out.vpp'] as number).toBeCloseTo(2 / Math.sqrt(1.01), 3);
+  });
   test('a sine at the corner comes out at 1/√2, 45° ahead (handbook: H = j(f/fc)/(1 + j(f/fc)))', () => {
     const fc = 1 / (2 * Math.PI * 10e3 * 100e-9);
     const r = run(100e-9, 10e3, sine(1, fc));

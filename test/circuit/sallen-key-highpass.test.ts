@@ -87,6 +87,15 @@ describe('sallen-key-highpass closed forms (handbook)', () => {
     expect(v['q'] as number).toBeCloseTo(Math.SQRT1_2, 4);
     expect(rel(v['fc'] as number, v['f0'] as number)).toBeLessThan(1e-4);
   });
+  test('worked example: the equal-component VCVS Butterworth, K = 1.586, high-pass as well (Horowitz and Hill, The Art of Electronics; from memory)', () => {
+    const parts = { C1: 10e-9, C2: 10e-9, R1: 10e3, R2: 10e3, Rf: 5.86e3, Rg: 10e3 };
+    expect(sallenKeyIdeal('highpass', parts, 1.586).q).toBeCloseTo(1 / (3 - 1.586), 12);
+    const v = run(parts, sine(0.01, 100), { ...fast, gbw: 1e10, aol: 1e9 }).values;
+    // Q = 1/(3 − K) = 0.7072; q as DESIGN reads it (gain at 30·f0) within 0.2 %, and the −3 dB point at f0.
+    const top = 900 / Math.hypot(899, 30 * (3 - 1.586));
+    expect(rel((v['q'] as number) * top, Math.SQRT1_2)).toBeLessThan(0.002);
+    expect(rel(v['fc'] as number, v['f0'] as number)).toBeLessThan(0.002);
+  });
 });
 
 describe('sallen-key-highpass faults and plan', () => {

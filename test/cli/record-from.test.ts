@@ -1,5 +1,7 @@
+import { type ChildProcess, spawn } from 'node:child_process';
 import { existsSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, test } from 'vitest';
 import { openLog } from '../../src/log/store.js';
 import { closedPort, startTestInstrument, type TestInstrument } from '../helpers/scpi-instrument.js';
@@ -28,6 +30,37 @@ async function benchFile(name: string, answers: Record<string, string | null>, e
 
 const record = (board: string, file: string, extra: string[] = []) =>
   cli(['record', '--plan', biasPlan, '--board', board, '--check', 'ref.out.dc', '--from', 'dmm', '--instruments', file, ...extra], env);
+
+const bin = fileURLToPath(new URL('../../src/cli/bin.ts', import.meta.url));
+
+/**
+ * `probebook instruments --simulate PLAN` from the sources on a free loopback port,
+ * writing its instruments file to `file`; resolves once it says it serves (its
+ * Ctrl-C line). The caller stops it with `child.kill()`.
+ */
+async function startSimulator(plan: string, file: string): Promise<ChildProcess> {
+  const child = spawn(process.execPath, ['--import', 'tsx', bin, 'instruments', '--simulate', plan, '--port', '0', '--write', file, '--seed', '7'], {
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let out = '';
+  try {
+    await new Promise<void>((resolve, reject) => {
+      const timer = setTimeout(() => reject(new Error(`simulator did not start: ${out}`)), 20_000);
+      child.stdout.on('data', (c) => {
+        out += c.toString();
+        if (out.includes('Ctrl-C')) {
+          clearTimeout(timer);
+          resolve();
+        }
+      });
+      child.on('exit', () => reject(new Error(`simulator exited: ${out}`)));
+    });
+  } catch (error) {
+    child.kill('SIGTERM');
+    throw error;
+  }
+  return child;
+}
 
 describe('record --from (DESIGN §7a)', () => {
   test('the instrument answer is recorded like a typed reading, with its raw text and the instrument', async () => {
@@ -151,26 +184,9 @@ describe('probebook instruments', () => {
 
 describe('the simulated bench (instruments --simulate)', () => {
   test('serves a plan: record --from reads a value inside the check band', async () => {
-    const { spawn } = await import('node:child_process');
-    const { fileURLToPath } = await import('node:url');
-    const bin = fileURLToPath(new URL('../../src/cli/bin.ts', import.meta.url));
     const file = join(t.dir, 'sim.json');
-    const child = spawn(process.execPath, ['--import', 'tsx', bin, 'instruments', '--simulate', biasPlan, '--port', '0', '--write', file, '--seed', '7'], {
-      stdio: ['ignore', 'pipe', 'pipe'],
-    });
+    const child = await startSimulator(biasPlan, file);
     try {
-      let out = '';
-      await new Promise<void>((resolve, reject) => {
-        const timer = setTimeout(() => reject(new Error(`simulator did not start: ${out}`)), 20_000);
-        child.stdout.on('data', (c) => {
-          out += c.toString();
-          if (out.includes('Ctrl-C')) {
-            clearTimeout(timer);
-            resolve();
-          }
-        });
-        child.on('exit', () => reject(new Error(`simulator exited: ${out}`)));
-      });
       const r = await cli(
         ['record', '--plan', biasPlan, '--board', 'SIM-1', '--check', 'ref.out.dc', '--from', 'sim-meter', '--instruments', file, '--json'],
         env,
@@ -190,29 +206,13 @@ describe('the simulated bench (instruments --simulate)', () => {
 
 describe('the simulated scope', () => {
   test("a record of the exciter demo's last waveform arrives as an int8 block at the oscillator frequency", async () => {
-    const { spawn } = await import('node:child_process');
-    const { fileURLToPath } = await import('node:url');
     const { loadInstruments } = await import('../../src/bench/instruments-file.js');
     const { BenchSession } = await import('../../src/bench/session.js');
     const { measure } = await import('../../src/signal/measure.js');
-    const bin = fileURLToPath(new URL('../../src/cli/bin.ts', import.meta.url));
     const plan = fileURLToPath(new URL('../../demo/exciter.plan.json', import.meta.url));
     const file = join(t.dir, 'sim-scope.json');
-    const child = spawn(process.execPath, ['--import', 'tsx', bin, 'instruments', '--simulate', plan, '--port', '0', '--write', file, '--seed', '7'], {
-      stdio: ['ignore', 'pipe', 'pipe'],
-    });
+    const child = await startSimulator(plan, file);
     try {
-      let out = '';
-      await new Promise<void>((resolve, reject) => {
-        const timer = setTimeout(() => reject(new Error(`simulator did not start: ${out}`)), 20_000);
-        child.stdout.on('data', (c) => {
-          out += c.toString();
-          if (out.includes('Ctrl-C')) {
-            clearTimeout(timer);
-            resolve();
-          }
-        });
-      });
       const session = new BenchSession(await loadInstruments(file));
       try {
         const rec = await session.capture(session.instrument('sim-scope'));
@@ -231,7 +231,6 @@ describe('the simulated scope', () => {
 
 describe('record --from a scope (a capture figure measured from an SCPI record)', () => {
   test('a sine record answers a vpp check: measured, recorded, and the record kept with the reading', async () => {
-    const { fileURLToPath } = await import('node:url');
     const plan = fileURLToPath(new URL('../../demo/line-driver.plan.json', import.meta.url));
     // An invented 2 kHz sine of 1.25 V peak, 4,000 int16 codes at 1 MS/s (50 µV a code).
     const n = 4000;

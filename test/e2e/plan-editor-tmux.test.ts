@@ -5,6 +5,7 @@ import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { stageKinds } from '../../src/circuit/registry.js';
+import { tmuxSession } from '../helpers/tmux-session.js';
 
 // `probebook plan new` in a real terminal: tmux runs the command from the sources
 // (tsx: the bundle may be rebuilt by another test meanwhile) in an 80×24 window,
@@ -14,33 +15,11 @@ import { stageKinds } from '../../src/circuit/registry.js';
 // editor showed.
 
 const repo = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
-const session = `probebook-editor-${process.pid}-${Date.now().toString(36)}`;
+const term = tmuxSession('probebook-editor', 30_000);
+const { capture, keys, typeText, screen } = term;
 const tsx = join(repo, 'node_modules', '.bin', 'tsx');
 let dir = '';
 
-function tmux(...args: string[]): string {
-  const r = spawnSync('tmux', args, { encoding: 'utf8' });
-  if (r.status !== 0) throw new Error(`tmux ${args.join(' ')} failed: ${r.stderr}`);
-  return r.stdout;
-}
-const capture = () => tmux('capture-pane', '-p', '-t', session);
-const keys = (...names: string[]) => tmux('send-keys', '-t', session, ...names);
-async function typeText(text: string) {
-  for (const ch of text) {
-    tmux('send-keys', '-t', session, '-l', ch);
-    await new Promise((r) => setTimeout(r, 15));
-  }
-}
-async function screen(expected: string | RegExp, timeoutMs = 30_000): Promise<string> {
-  const until = Date.now() + timeoutMs;
-  let last = '';
-  for (;;) {
-    last = capture();
-    if (typeof expected === 'string' ? last.includes(expected) : expected.test(last)) return last;
-    if (Date.now() > until) throw new Error(`the terminal never showed ${String(expected)}; it shows:\n${last}`);
-    await new Promise((r) => setTimeout(r, 100));
-  }
-}
 /** Move down until the selected line (the pointer ›) shows `label`. */
 async function select(label: RegExp) {
   for (let i = 0; i < 60; i++) {
@@ -79,7 +58,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  spawnSync('tmux', ['kill-session', '-t', session]);
+  term.kill();
   await rm(dir, { recursive: true, force: true });
 });
 
@@ -87,7 +66,7 @@ describe('probebook plan new in a real terminal', () => {
   test('a two-stage plan from nothing, saved, gives the same nominal figures with probebook targets', async () => {
     const env = `CI=false NO_COLOR=1 PROBEBOOK_CACHE='${join(dir, 'cache')}'`;
     const command = `cd '${dir}' && ${env} '${tsx}' --tsconfig '${join(repo, 'tsconfig.json')}' '${join(repo, 'src/cli/bin.ts')}' plan new board.plan.json; echo "probebook exited $?"; sleep 60`;
-    tmux('new-session', '-d', '-s', session, '-x', '80', '-y', '24', `cd '${repo}' && ${command}`);
+    term.start(`cd '${repo}' && ${command}`);
     let frame = await screen('probebook · plan editor · board.plan.json', 60_000);
     expect(frame).toMatch(/plan id\s+board/);
     await screen('a plan needs at least one stage');
@@ -115,10 +94,10 @@ describe('probebook plan new in a real terminal', () => {
     await typeOver('TP out', 'TP2');
 
     // A bigger window for a moment: the targets move beside the form; then back.
-    tmux('resize-window', '-t', session, '-x', '130', '-y', '30');
+    term.resize(130, 30);
     // Side by side: a form row and the targets' title share a line; the statistical band has its column.
     await screen(/^ .*\S\s{2,}Targets of rc[\s\S]*check\s+nominal\s+worst-case band\s+statistical band/m);
-    tmux('resize-window', '-t', session, '-x', '80', '-y', '24');
+    term.resize(80, 24);
     frame = await screen(/Targets of rc \(2\) · statistical band done/);
     const shown = new Map<string, string>();
     for (const m of frame.matchAll(/^(rc\.\S+)\s+(\S+ \S+)\s{2,}/gm)) shown.set(m[1] as string, m[2] as string);

@@ -1,51 +1,25 @@
-import { spawnSync } from 'node:child_process';
 import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
+import { tmuxSession } from '../helpers/tmux-session.js';
 
 // The real command in a real terminal: tmux runs `npm start` in an 80×24 window,
 // keys go in with send-keys, and what the technician would see comes back from
 // capture-pane. No fixed sleeps: every step polls the screen until it shows.
 
 const repo = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
-const session = `probebook-e2e-${process.pid}-${Date.now().toString(36)}`;
+const term = tmuxSession('probebook-e2e');
+const { capture, keys, typeText, screen } = term;
 let logDir = '';
-
-function tmux(...args: string[]): string {
-  const r = spawnSync('tmux', args, { encoding: 'utf8' });
-  if (r.status !== 0) throw new Error(`tmux ${args.join(' ')} failed: ${r.stderr}`);
-  return r.stdout;
-}
-const capture = (withEscapes = false) => tmux('capture-pane', '-p', ...(withEscapes ? ['-e'] : []), '-t', session);
-/** Send keys by tmux name (`Enter`, `Escape`, `j`). */
-const keys = (...names: string[]) => tmux('send-keys', '-t', session, ...names);
-/** Type text literally, one key at a time, as a person does. */
-async function typeText(text: string) {
-  for (const ch of text) {
-    tmux('send-keys', '-t', session, '-l', ch);
-    await new Promise((r) => setTimeout(r, 15));
-  }
-}
-
-async function screen(expected: string | RegExp, timeoutMs = 20_000): Promise<string> {
-  const until = Date.now() + timeoutMs;
-  let last = '';
-  for (;;) {
-    last = capture();
-    if (typeof expected === 'string' ? last.includes(expected) : expected.test(last)) return last;
-    if (Date.now() > until) throw new Error(`the terminal never showed ${String(expected)}; it shows:\n${last}`);
-    await new Promise((r) => setTimeout(r, 100));
-  }
-}
 
 beforeAll(async () => {
   logDir = await mkdtemp(join(tmpdir(), 'probebook-e2e-'));
 });
 
 afterAll(async () => {
-  spawnSync('tmux', ['kill-session', '-t', session]);
+  term.kill();
   await rm(logDir, { recursive: true, force: true });
 });
 
@@ -55,7 +29,7 @@ describe('npm start in a real terminal', () => {
     // NO_COLOR set: the screen must still say everything with marks and words.
     // CI=false: Ink draws only the last frame when it thinks it runs in CI (CI set, as .ci/run has it).
     const command = `cd '${repo}' && CI=false PROBEBOOK_DEMO_LOG='${demoLog}' PROBEBOOK_OPERATOR=e2e NO_COLOR=1 npm start; echo "probebook exited $?"; sleep 60`;
-    tmux('new-session', '-d', '-s', session, '-x', '80', '-y', '24', command);
+    term.start(command);
 
     // The first start writes the invented demo log (and builds the bundle if needed).
     let frame = await screen(/probebook · bench · \d+ boards[\s\S]*EXB-0101/, 150_000);
@@ -97,10 +71,10 @@ describe('npm start in a real terminal', () => {
     // A bigger window mid-run: the layout follows; back to 80×24.
     keys('Escape');
     await screen(/E2E-0001\s+exciter-demo.*▶ in progress/);
-    tmux('resize-window', '-t', session, '-x', '120', '-y', '30');
+    term.resize(120, 30);
     frame = await screen('readings');
     expect(frame.split('\n').some((line) => line.length > 80)).toBe(true);
-    tmux('resize-window', '-t', session, '-x', '80', '-y', '24');
+    term.resize(80, 24);
     await screen(/^(?![\s\S]*readings)[\s\S]*E2E-0001/);
 
     keys('q');

@@ -7,7 +7,7 @@ import { formatValue } from '../../src/units/format.js';
 import { parseValue } from '../../src/units/parse.js';
 import { PlanEditor } from '../../src/ui/plan-editor/plan-editor.js';
 import { keys } from './keys.js';
-import { driveScreen } from './screen-driver.js';
+import { driveScreen, selectRow } from './screen-driver.js';
 
 /** An invented two-stage board: a bench generator into an RC low-pass (values are illustrative). */
 const twoStage = {
@@ -48,19 +48,6 @@ function open(options: { initial?: Draft; savedText?: string | null; width?: num
   return { ...view, saves, exits: () => exits };
 }
 
-/** Move down until the selected line (the one with the pointer) shows `label`. */
-async function select(s: ReturnType<typeof open>, label: RegExp) {
-  for (let i = 0; i < 80; i++) {
-    const line = s
-      .frame()
-      .split('\n')
-      .find((l) => l.startsWith('›'));
-    if (line && label.test(line)) return;
-    await s.press(keys.down);
-  }
-  throw new Error(`no row ${String(label)}; the screen shows:\n${s.frame()}`);
-}
-
 describe('plan editor', () => {
   test('a new plan: the board header with its defaults and a line explaining the selected field', async () => {
     const s = open({ initial: newDraft('bench-7'), savedText: null });
@@ -68,11 +55,11 @@ describe('plan editor', () => {
     expect(s.frame()).toContain('bench-7');
     expect(s.frame()).toContain('● unsaved');
     expect(s.frame()).toMatch(/plan id — the plan id/);
-    await select(s, /nominal\s+12 V/);
+    await selectRow(s, /nominal\s+12 V/);
     expect(s.frame()).toContain('nominal — the rail voltage, signed');
-    await select(s, /op-amp slew\s+0\.5 V\/us/);
+    await selectRow(s, /op-amp slew\s+0\.5 V\/us/);
     expect(s.frame()).toContain('slew rate of the op-amp');
-    await select(s, /uncertainty V\s+0\.5% \+ 2 mV/);
+    await selectRow(s, /uncertainty V\s+0\.5% \+ 2 mV/);
     expect(s.frame()).toContain("the voltmeter's uncertainty");
     // Nothing to compute yet: the plan has no stage, and says so.
     expect(s.frame()).toContain('a plan needs at least one stage');
@@ -98,6 +85,23 @@ describe('plan editor', () => {
     await s.waitFor(/input/);
   });
 
+  test('at 80×24 the selected kind shows its whole summary, its rail setting and every part role', async () => {
+    const s = open({ initial: newDraft('cat'), savedText: null, width: 80, height: 23 });
+    await s.waitFor('plan id');
+    await s.press('a');
+    await s.waitFor('Add a stage');
+    for (const [i, [name, kind]] of Object.entries(stageKinds).entries()) {
+      if (i > 0) await s.press(keys.down);
+      await s.waitFor(new RegExp(`› ${name}\\s`));
+      // Ink wraps the summary at word boundaries: compare with the frame's spaces and borders taken out.
+      const flat = s.frame().replace(/[│\s]+/g, '');
+      expect(flat, name).toContain(kind.summary.replace(/\s+/g, ''));
+      for (const r of kind.roles) expect(s.frame(), `${name} ${r.role}`).toMatch(new RegExp(`\\s${r.role.replace(/[.[\]]/g, '\\$&')}\\s`));
+      if (kind.traits?.railSetting) expect(s.frame(), name).toContain(`fed from the rail named in "${kind.traits.railSetting}"`);
+      expect(s.frame().split('\n').length).toBeLessThanOrEqual(24);
+    }
+  });
+
   test("every part of a stage has a row: input, each role, its ref, each output's test point, other keys as JSON", async () => {
     const s = open({ height: 80 });
     await s.waitFor('▸ stage 2');
@@ -116,7 +120,7 @@ describe('plan editor', () => {
   test("the value parser's own message as you type, and the reading of a good value", async () => {
     const s = open();
     await s.waitFor('editor-fixture');
-    await select(s, /^›.\s*R\s+1k 1%/);
+    await selectRow(s, /^›.\s*R\s+1k 1%/);
     await s.press(keys.enter);
     await s.waitFor(/^R: 1k 1%/m);
     await settle();
@@ -135,7 +139,7 @@ describe('plan editor', () => {
     await s.waitFor('statistical band done');
     // First-order RC low-pass, fc = 1/(2πRC) (any circuits handbook): 1k, 10n → 15.92 kHz.
     expect(s.frame()).toContain(formatValue(1 / (2 * Math.PI * 1e3 * 10e-9), 'Hz'));
-    await select(s, /^›.\s*R\s+1k 1%/);
+    await selectRow(s, /^›.\s*R\s+1k 1%/);
     await s.press(keys.enter);
     await s.waitFor(/^R: 1k 1%/m);
     await settle();
@@ -158,7 +162,7 @@ describe('plan editor', () => {
   test('save refused on an error: the selection goes to the row and the reason is said; nothing is written', async () => {
     const s = open();
     await s.waitFor('editor-fixture');
-    await select(s, /^›.\s*C\s+10n 5%/);
+    await selectRow(s, /^›.\s*C\s+10n 5%/);
     await s.press(keys.enter);
     await s.waitFor(/^C: 10n 5%/m);
     await settle();
@@ -177,7 +181,7 @@ describe('plan editor', () => {
   test('save writes the plan as stable JSON that loads, with unknown keys kept', async () => {
     const s = open();
     await s.waitFor('editor-fixture');
-    await select(s, /refs C/);
+    await selectRow(s, /refs C/);
     await s.press(keys.enter);
     await s.waitFor(/^refs C:.*\n✓ empty/m);
     await settle();
@@ -199,7 +203,7 @@ describe('plan editor', () => {
     expect(s.frame()).not.toContain('unsaved');
     await s.press(keys.escape);
     expect(s.exits()).toBe(1);
-    await select(s, /^›.\s*R\s+1k/);
+    await selectRow(s, /^›.\s*R\s+1k/);
     await s.press(keys.enter);
     await s.waitFor(/^R: 1k 1%/m);
     await settle();
@@ -223,7 +227,7 @@ describe('plan editor', () => {
   test('remove asks, reorder moves, the input is chosen among the upstream outputs', async () => {
     const s = open({ height: 40 });
     await s.waitFor('editor-fixture');
-    await select(s, /input\s+gen\.out/);
+    await selectRow(s, /input\s+gen\.out/);
     await s.press(keys.right);
     await s.waitFor(/input\s+\(empty\)/);
     await s.waitFor('needs an input');

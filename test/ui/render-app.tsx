@@ -8,6 +8,7 @@ import { loadPlanText } from '../../src/plan/load.js';
 import type { Plan } from '../../src/plan/types.js';
 import { App, type Route } from '../../src/ui/app.js';
 import { PlanCatalog } from '../../src/ui/bench/plan-catalog.js';
+import type { PlanEditAccess } from '../../src/ui/plan-editor/plan-edit-access.js';
 import { type Expectation, waitForFrame, writeAndWait } from './wait-frame.js';
 
 /**
@@ -68,6 +69,8 @@ export interface RenderAppOptions {
   readonly initialRoute?: Route;
   /** Follow the (fake) terminal's size instead of a fixed one, for resize tests. @default false */
   readonly followTerminal?: boolean;
+  /** How the plan screen's `e` opens and saves a plan (the CLI's `planEditAccess` on a folder). @default none: no `e` */
+  readonly planEditing?: PlanEditAccess;
 }
 
 /** The app on a fresh temporary log, as ink-testing-library renders it, plus the log and its folder. */
@@ -87,6 +90,7 @@ export async function renderApp(options: RenderAppOptions = {}) {
       onQuit={() => void quits++}
       {...(options.followTerminal ? {} : { size: { width: options.width ?? 80, height: options.height ?? 23 } })}
       {...(options.initialRoute ? { initialRoute: options.initialRoute } : {})}
+      {...(options.planEditing ? { planEditing: options.planEditing } : {})}
     />,
   );
   const frame = () => result.lastFrame() ?? '';

@@ -1,4 +1,5 @@
 import type { render } from 'ink-testing-library';
+import { keys } from './keys.js';
 import { waitForFrame, writeAndWait } from './wait-frame.js';
 
 /** Wait-and-press helpers around one rendered screen (ink-testing-library). */
@@ -13,4 +14,23 @@ export function driveScreen(r: ReturnType<typeof render>) {
     await writeAndWait(r, key);
   };
   return { ...r, frame, waitFor, press };
+}
+
+/** A screen that can be read and pressed (a `driveScreen` result, or `renderApp`'s). */
+export interface Pressable {
+  frame(): string;
+  press(key: string): Promise<unknown>;
+}
+
+/** Move down until the selected line (the one starting with the pointer ›) shows `label`; fails with the screen. */
+export async function selectRow(s: Pressable, label: RegExp, maxMoves = 80): Promise<void> {
+  for (let i = 0; i < maxMoves; i++) {
+    const line = s
+      .frame()
+      .split('\n')
+      .find((l) => l.startsWith('›'));
+    if (line && label.test(line)) return;
+    await s.press(keys.down);
+  }
+  throw new Error(`no row ${String(label)}; the screen shows:\n${s.frame()}`);
 }

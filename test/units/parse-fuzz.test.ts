@@ -26,6 +26,17 @@ describe('a space never joins digits', () => {
     expect(!r.ok && r.message).toMatch(/space.*(digits|number)/);
   });
 
+  test.each(['1 2', '4 k 7', '12 05', '1 2 V', '4 MHz 3O%', '1 2 x', '4 k 7 zz'])(
+    '%j: every reading offered instead parses, and no junk is offered',
+    (text) => {
+      const r = parseValue(text, { expected: 'V' });
+      expect(r.ok).toBe(false);
+      const offered = !r.ok ? (/write (\S+)(?: or (\S+))? \(/.exec(r.message)?.slice(1) ?? []) : [];
+      for (const o of offered.filter((x) => x !== undefined)) expect(parseValue(o, { expected: 'V' }).ok, `${o} offered for ${text}`).toBe(true);
+      if (['4 MHz 3O%', '1 2 x', '4 k 7 zz'].includes(text)) expect(!r.ok && r.message).toMatch(/is not a value/);
+    },
+  );
+
   // A space may separate the number from its unit or prefix, or the value from its tolerance.
   test.each([
     ['12 V', 'V', 12],

@@ -1,4 +1,5 @@
 import { Box, Text } from 'ink';
+import { useMemo } from 'react';
 import type { BatchCheck } from '../../review/batch-types.js';
 import { cpkWord, formatIndex, formatPercent } from '../../review/format.js';
 import { cell } from '../components/columns.js';
@@ -19,12 +20,22 @@ function word(c: BatchCheck): { text: string; tone: Tone } {
   return { text, tone: text === 'capable' ? 'good' : text === 'tight' ? 'warn' : 'bad' };
 }
 
+/**
+ * A row's name: the check id, led by its plan when the rows come from more than
+ * one plan (two plans may both have an `osc.freq`; their figures are apart).
+ */
+export function checkLabeller(rows: readonly BatchCheck[]): (c: BatchCheck) => string {
+  const isMultiPlan = new Set(rows.map((r) => r.plan)).size > 1;
+  return (c) => (isMultiPlan && c.plan !== null ? `${c.plan} ${c.check}` : c.check);
+}
+
 /** Checks weakest first: counts, final yield, Cp, Cpk and a capability word. */
 export function BatchTable({ rows, selected, height, width }: BatchTableProps) {
   // 1 pointer + 43 figures + 2 + 15 capability = 61 columns besides the check id;
   // counts get 6 columns so 10,000 boards still leave a space between them.
   const checkWidth = Math.max(12, width - 62);
   const { start, end } = scrollWindow(rows.length, selected, height, selected - Math.floor(height / 2));
+  const label = useMemo(() => checkLabeller(rows), [rows]);
   return (
     <Box flexDirection="column">
       <Text
@@ -37,7 +48,7 @@ export function BatchTable({ rows, selected, height, width }: BatchTableProps) {
         return (
           <Text key={`${c.plan ?? ''}/${c.check}`} inverse={isSelected} wrap="truncate-end">
             {isSelected ? pointer : ' '}
-            {`${cell(c.check, checkWidth)}${cell(String(c.n), 6, 'right')}${cell(String(c.pass), 6, 'right')}${cell(String(c.marginal), 6, 'right')}${cell(String(c.fail), 6, 'right')}${cell(formatPercent(c.finalYield), 7, 'right')}${cell(formatIndex(c.cp), 6, 'right')}${cell(formatIndex(c.cpk), 6, 'right')}  `}
+            {`${cell(label(c), checkWidth)}${cell(String(c.n), 6, 'right')}${cell(String(c.pass), 6, 'right')}${cell(String(c.marginal), 6, 'right')}${cell(String(c.fail), 6, 'right')}${cell(formatPercent(c.finalYield), 7, 'right')}${cell(formatIndex(c.cp), 6, 'right')}${cell(formatIndex(c.cpk), 6, 'right')}  `}
             <Text {...toneProps(w.tone)}>{cell(w.text, 15)}</Text>
           </Text>
         );

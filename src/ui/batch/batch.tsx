@@ -9,7 +9,7 @@ import type { BatchProps } from '../screen-props.js';
 import { toneProps } from '../theme.js';
 import { batchHelp, batchHints, batchNotes, filterFormHelp, filterFormNotes } from './batch-help.js';
 import { BatchPanel } from './batch-panel.js';
-import { BatchTable } from './batch-table.js';
+import { BatchTable, checkLabeller } from './batch-table.js';
 import { FilterForm } from './filter-form.js';
 import { useBatchKeys } from './use-batch-keys.js';
 import { batchPanels, selectedCheck, useBatchState } from './use-batch-state.js';
@@ -43,7 +43,7 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
       <>
         <BatchTable rows={state.rows} selected={state.selected} height={tableRows} width={width} />
         <Text wrap="truncate-end">
-          {`${check.check}: mean ${formatFigure(check.mean, check.unit)} · sd ${formatFigure(check.sd, check.unit, 3)} · min ${formatFigure(check.min, check.unit)} · max ${formatFigure(check.max, check.unit)}`}
+          {`${checkLabeller(state.rows)(check)}: mean ${formatFigure(check.mean, check.unit)} · sd ${formatFigure(check.sd, check.unit, 3)} · min ${formatFigure(check.min, check.unit)} · max ${formatFigure(check.max, check.unit)}`}
         </Text>
         <Text wrap="truncate-end">
           {batchPanels.map((p) => (

@@ -39,16 +39,43 @@ export class PlanCatalog {
   /** Snapshots that could not be loaded, with the reason, by hash. */
   readonly broken = new Map<string, string>();
 
+  private readonly files: Plan[];
+
   constructor(
     private readonly log: BenchLog,
-    readonly filePlans: readonly Plan[],
+    filePlans: readonly Plan[],
     private readonly options: TargetOptions = {},
   ) {
+    this.files = [...filePlans];
     for (const plan of filePlans) this.plans.set(plan.hash, plan);
     this.targetsCache = options.targetsCache ?? memoryTargetsCache();
   }
 
-  private settings() {
+  /** The plans given with `--plan`, as they are now (an edit saved from the plan editor takes its file's place). */
+  get filePlans(): readonly Plan[] {
+    return this.files;
+  }
+
+  /** Where a plan came from: a `--plan` file, or a snapshot the log keeps. */
+  originOf(plan: Plan): PlanChoice['origin'] {
+    return this.files.includes(plan) ? 'file' : 'log';
+  }
+
+  /**
+   * A plan saved from the plan editor, edited from `from`: it takes the place of
+   * the file plan it was edited from (a file is one plan), or joins the files
+   * (an edited snapshot saved as a new file). The old plan stays known by its
+   * hash: runs made with it still open.
+   */
+  saved(next: Plan, from: Plan): void {
+    this.plans.set(next.hash, next);
+    const at = this.files.findIndex((p) => p === from || p.file === next.file);
+    if (at >= 0) this.files[at] = next;
+    else this.files.push(next);
+  }
+
+  /** The Monte Carlo settings every screen's targets use. */
+  settings() {
     return { trials: this.options.trials ?? defaultTrials, seed: this.options.seed ?? defaultSeed };
   }
 

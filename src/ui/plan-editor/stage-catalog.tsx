@@ -11,12 +11,16 @@ export interface StageCatalogProps {
   readonly isHelpOpen: boolean;
 }
 
-/** Every stage kind of the registry: its summary, then the selected kind's part roles with their units and descriptions. */
+/** Every stage kind of the registry with its summary; the selected kind's whole summary, its rail, outputs and part roles with their units and descriptions. */
 export function StageCatalog({ selected, width, height, isHelpOpen }: StageCatalogProps) {
   const kinds = Object.entries(stageKinds);
   const [, module] = kinds[selected] ?? [];
   const roles = module?.roles ?? [];
-  const listRows = Math.max(3, Math.min(kinds.length, height - roles.length - 6));
+  // As wide as the longest role, so none is cut (`checks[i].nominal`).
+  const roleWidth = Math.max(16, ...roles.map((r) => r.role.length));
+  // The list cuts every summary at the screen's edge; the selected kind's is shown whole under it.
+  const summaryRows = module ? Math.ceil(module.summary.length / Math.max(20, width - 8)) : 0;
+  const listRows = Math.max(3, Math.min(kinds.length, height - roles.length - 6 - summaryRows));
   const view = scrollWindow(kinds.length, selected, listRows);
   return (
     <Box flexDirection="column" borderStyle="single" paddingX={1} width={width}>
@@ -28,13 +32,16 @@ export function StageCatalog({ selected, width, height, isHelpOpen }: StageCatal
           {view.start + i === selected ? pointer : ' '} {cell(name, 19)} <Text {...toneProps('dim')}>{m.summary}</Text>
         </Text>
       ))}
+      {module ? <Text {...toneProps('dim')}>{module.summary}</Text> : null}
       <Text wrap="truncate-end" bold>
-        {module ? `parts and settings${module.needsInput ? ' (takes an input)' : ''}; outputs: ${module.outputs.join(', ') || 'none'}` : ''}
+        {module
+          ? `parts and settings${module.needsInput ? ' (takes an input)' : ''}${module.traits?.railSetting ? `; fed from the rail named in "${module.traits.railSetting}"` : ''}; outputs: ${module.outputs.join(', ') || 'none'}`
+          : ''}
       </Text>
-      {roles.slice(0, Math.max(1, height - listRows - 5)).map((r) => (
+      {roles.slice(0, Math.max(1, height - listRows - 5 - summaryRows)).map((r) => (
         <Text key={r.role} wrap="truncate-end">
           {'  '}
-          {cell(r.role, 16)} {cell(r.unit, 4)} {r.description}
+          {cell(r.role, roleWidth)} {cell(r.unit, 4)} {r.description}
           {r.optional ? ' (optional)' : ''}
         </Text>
       ))}
