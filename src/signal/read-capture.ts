@@ -52,7 +52,8 @@ const twoThreadBytes = 48 * 1024 * 1024;
 
 /**
  * Whether a second thread would find a core to run on: the last minute's load
- * average leaves one idle. On a machine whose cores are all busy a worker only
+ * average leaves most of one idle (half a core of slack, since a script that
+ * analyses captures back to back holds the average near 1 on its own). On a machine whose cores are all busy a worker only
  * competes with this thread (measured on the 5 M-row bench capture with a load
  * average of 9 on 2 cores: 0.63× numpy's time, against 0.55× for the command
  * reading on one thread in the same rounds).
@@ -60,7 +61,7 @@ const twoThreadBytes = 48 * 1024 * 1024;
  */
 function hasIdleCore(): boolean {
   const cores = availableParallelism();
-  return cores >= 2 && (loadavg()[0] ?? 0) <= cores - 1;
+  return cores >= 2 && (loadavg()[0] ?? 0) <= cores - 0.5;
 }
 
 export interface FileReadOptions extends ReadOptions {
