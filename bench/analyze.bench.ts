@@ -10,7 +10,9 @@
 // size. Without python3 or numpy the bench says so and shows probebook's own
 // figures only. BENCH_BASELINE=/path/to/an/older/dist/probebook.js adds that
 // command's row, measured in the same rounds, for a before/after in one run. The captures are invented: a shaped sine with noise, written here.
+// After the table, what each figure is made of (node start, the command's fixed cost, read+parse on one and on two threads, measure, output).
 import { spawnSync } from 'node:child_process';
+import { build } from 'esbuild';
 import { closeSync, existsSync, mkdirSync, openSync, readFileSync, statSync, writeSync } from 'node:fs';
 import { join } from 'node:path';
 
@@ -161,6 +163,53 @@ for (const n of sizes) {
 }
 const widths = rows[0]?.map((_, c) => Math.max(...rows.map((r) => (r[c] ?? '').length))) ?? [];
 for (const r of rows) console.log(r.map((cell, c) => cell.padStart(widths[c] ?? 0)).join('  '));
+
+// What each figure is made of, medians over the rounds, each part in a fresh
+// process: node's own start, the command's fixed cost (the shipped command on
+// a small capture), then reading + parsing and measuring timed inside a
+// one-shot process (bench/analyze-phases.ts, bundled as the command is, its
+// worker beside it), with the read on one thread and on two (the command takes
+// two from 48 MiB on, when the machine has an idle core).
+const tiny = join('demo', 'captures', 'exciter-sine.csv');
+const phaseDir = join(out, 'phases');
+await build({
+  entryPoints: { 'analyze-phases': join('bench', 'analyze-phases.ts'), 'csv-part-worker': join('src', 'signal', 'csv-part-worker.ts') },
+  outdir: phaseDir,
+  splitting: true,
+  bundle: true,
+  platform: 'node',
+  target: 'node20',
+  format: 'esm',
+  minify: true,
+  logLevel: 'warning',
+});
+const phases = (file: string, threads: '1' | '2'): { readMs: number; measureMs: number; outputMs: number } => {
+  const r = spawnSync(process.execPath, [join(phaseDir, 'analyze-phases.js'), file, threads], { encoding: 'utf8' });
+  if (r.status !== 0) throw new Error(`analyze-phases failed: ${r.stderr.slice(-300)}`);
+  return JSON.parse(r.stdout) as { readMs: number; measureMs: number; outputMs: number };
+};
+const ms = (xs: number[]): string => `${median(xs).toFixed(0)} ms`;
+for (const n of sizes) {
+  const file = join(out, `capture-${n}.csv`);
+  const start: number[] = [];
+  const fixed: number[] = [];
+  const whole: number[] = [];
+  const one: { readMs: number; measureMs: number; outputMs: number }[] = [];
+  const two: { readMs: number; measureMs: number; outputMs: number }[] = [];
+  for (let r = 0; r < rounds; r++) {
+    start.push(timed([process.execPath, '-e', '0']).seconds * 1000);
+    fixed.push(timed([process.execPath, bundle, 'analyze', tiny, '--json']).seconds * 1000);
+    whole.push(timed([process.execPath, bundle, 'analyze', file, '--json']).seconds * 1000);
+    one.push(phases(file, '1'));
+    two.push(phases(file, '2'));
+  }
+  console.log(
+    `${n} samples, made of: node start ${ms(start)}; command load + a small capture ${ms(fixed)} (so ${(median(fixed) - median(start)).toFixed(0)} ms over node); ` +
+      `read+parse ${ms(one.map((p) => p.readMs))} on one thread, ${ms(two.map((p) => p.readMs))} on two; measure ${ms(one.map((p) => p.measureMs))}; ` +
+      `output ${ms(one.map((p) => p.outputMs))}; the whole command ${ms(whole)}`,
+  );
+}
+console.log('start of this work (one run, same machine, 1 M / 5 M): pb/numpy 0.76× / 0.62×, pb RSS/file 2.75× / 0.82×');
 console.log('before (issue 15, 1 M / 5 M): pb/numpy 0.75× / 0.49×, pb RSS/file 3.01× at 1 M');
 console.log('goal: pb/numpy ≤ 0.50× at both sizes; pb RSS/file ≤ 2×. Ratios are paired per round (same file, back to back).');
 // Issue 15's goal rows for the summary table of `npm run bench` (bench/goals.ts): the pb/numpy and pb RSS/file cells.

@@ -16,6 +16,8 @@ import { type DiodeShaperSettings, shaperNet } from '../src/circuit/diode-shaper
 import { mirrorOrder } from '../src/circuit/mirror.js';
 import { solveNode } from '../src/circuit/shaper-solver.js';
 import { createRandom } from '../src/analysis/random.js';
+import { lambertFromTable, lambertTable, lambertWOfExp } from '../src/circuit/lambert-w.js';
+import { lambertW0Log } from 'lambert-w-function';
 import { cpuPerCall } from './timing.js';
 
 const plan = await loadPlanFile('demo/exciter.plan.json');
@@ -70,6 +72,23 @@ console.log(
   `Newton steps per solved sample        ${(steps / plan0.order.length).toFixed(2)} (${plan0.order.length} of ${triangle.samples.length} samples solved)`,
 );
 console.log(`10,000 shaper evaluations             ${(shaper * 10).toFixed(1)} ms`);
+
+// Lambert's W of e^L, as the trial's knots read it (a table) against computing it each time:
+// our Newton steps (lambertWOfExp) and the registry's lambert-w-function (lambertW0Log).
+const table = lambertTable();
+const levels = Float64Array.from({ length: 512 }, (_, i) => -20 + (i * 60) / 512);
+const fromTable = perCall(n, () => {
+  for (let i = 0; i < 512; i++) sink += lambertFromTable(table, levels[i] as number);
+});
+const byNewton = perCall(n / 10, () => {
+  for (let i = 0; i < 512; i++) sink += lambertWOfExp(levels[i] as number);
+});
+const byLibrary = perCall(n / 10, () => {
+  for (let i = 0; i < 512; i++) sink += lambertW0Log(levels[i] as number);
+});
+console.log(`512 × W(e^L) from the table           ${fromTable.toFixed(2)} µs`);
+console.log(`512 × W(e^L) by Newton, each time     ${byNewton.toFixed(2)} µs   ratio to the table ${(byNewton / fromTable).toFixed(1)}`);
+console.log(`512 × W(e^L) by lambert-w-function    ${byLibrary.toFixed(2)} µs   ratio to the table ${(byLibrary / fromTable).toFixed(1)}`);
 if (!Number.isFinite(sink + exps)) console.log('(sink)');
 
 // A trial against the full solve over random corners of the tolerance box (seeded, invented spread).

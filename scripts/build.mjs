@@ -53,11 +53,20 @@ const jsoncEsm = {
 // thread so the screen keeps drawing) share their chunks, and the shell commands
 // (`targets`, `analyze`, `record`, …) never parse React and Ink, which live in a
 // chunk of their own loaded only for the TUI. Chunks sit beside the entry files:
-// the worker is found by `new URL('./targets-worker.js', import.meta.url)`.
-rmSync('dist', { recursive: true, force: true });
+// the workers are found by `new URL('./targets-worker.js', import.meta.url)` (and
+// `./csv-part-worker.js`: a large CSV capture is read by two threads). The entry
+// `dist/samples-worker.js` draws the Monte Carlo of `targets` beside the worst-case search.
+// PROBEBOOK_BUILD_DIR builds elsewhere (a test of the bundle builds its own copy, leaving dist/ alone).
+const outdir = process.env.PROBEBOOK_BUILD_DIR || 'dist';
+rmSync(outdir, { recursive: true, force: true });
 await build({
-  entryPoints: { probebook: 'src/cli/bin.ts', 'targets-worker': 'src/ui/bench/targets-worker.ts' },
-  outdir: 'dist',
+  entryPoints: {
+    probebook: 'src/cli/bin.ts',
+    'targets-worker': 'src/ui/bench/targets-worker.ts',
+    'samples-worker': 'src/cli/samples-worker.ts',
+    'csv-part-worker': 'src/signal/csv-part-worker.ts',
+  },
+  outdir,
   chunkNames: 'chunk-[hash]',
   splitting: true,
   bundle: true,
@@ -85,4 +94,4 @@ await build({
   },
   logLevel: 'warning',
 });
-chmodSync('dist/probebook.js', 0o755);
+chmodSync(join(outdir, 'probebook.js'), 0o755);

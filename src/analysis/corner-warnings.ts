@@ -15,6 +15,7 @@ export function cornerWarnings(chain: Chain, perSigma: readonly Float64Array[], 
   const stagesWithNominal = new Set(nominal.warnings.map((w) => w.stage));
   const found = new Map<string, DesignWarning>();
   const x = Float64Array.from(chain.nominal);
+  const evaluated = new Map<string, ChainDetail>();
   chain.checks.forEach((check, c) => {
     if (check.phase !== 'stage' || found.has(check.stage) || stagesWithNominal.has(check.stage)) return;
     // Rails also set the headroom, which the signal's sensitivities do not see: try them low and high too.
@@ -29,8 +30,12 @@ export function cornerWarnings(chain: Chain, perSigma: readonly Float64Array[], 
         if (sign !== 0) moved = true;
       });
       if (!moved) continue;
-      // A stage's warnings depend only on it and the stages upstream of it.
-      const detail = chain.detail(x, chain.stageIndex(check.stage) + 1);
+      // A stage's warnings depend only on it and the stages upstream of it. Checks of one stage
+      // often point to the same corner: each corner is evaluated once (the same detail either way).
+      const depth = chain.stageIndex(check.stage) + 1;
+      const key = `${depth}:${x.join(',')}`;
+      const detail = evaluated.get(key) ?? chain.detail(x, depth);
+      evaluated.set(key, detail);
       const fresh = detail.warnings.find((w) => w.stage === check.stage && !seenAtNominal.has(`${w.stage}\u0000${w.message}`));
       if (fresh) {
         found.set(check.stage, {

@@ -31,17 +31,24 @@ function splitmix32(seed: number): () => number {
  * next output as an unsigned 32-bit integer.
  */
 export function xoshiro128StarStar(state: readonly [number, number, number, number]): () => number {
-  let [a, b, c, d] = state.map((w) => w >>> 0) as [number, number, number, number];
-  if ((a | b | c | d) === 0) throw new RangeError('xoshiro128** needs a state that is not all zero');
+  // The state in a typed array: closure variables holding 32-bit words above 2^31 were boxed
+  // numbers, so every draw allocated (measured). The same arithmetic on the same bits.
+  const w = Uint32Array.from(state, (x) => x >>> 0);
+  if (((w[0] as number) | (w[1] as number) | (w[2] as number) | (w[3] as number)) === 0)
+    throw new RangeError('xoshiro128** needs a state that is not all zero');
   return (): number => {
+    const a = w[0] as number;
+    const b = w[1] as number;
     const result = Math.imul(rotl(Math.imul(b, 5), 7), 9) >>> 0;
     const t = b << 9;
-    c ^= a;
-    d ^= b;
-    b ^= c;
-    a ^= d;
-    c ^= t;
-    d = rotl(d, 11);
+    const c = (w[2] as number) ^ a;
+    const d = (w[3] as number) ^ b;
+    const b2 = b ^ c;
+    const a2 = a ^ d;
+    w[0] = a2;
+    w[1] = b2;
+    w[2] = c ^ t;
+    w[3] = rotl(d, 11);
     return result;
   };
 }
@@ -52,15 +59,16 @@ export function createRandom(seed: number): Random {
   if ((state[0] | state[1] | state[2] | state[3]) === 0) state[0] = 1;
   const nextU32 = xoshiro128StarStar(state);
   const next = (): number => nextU32() / 4294967296;
-  let spare = Number.NaN;
+  // The spare normal of the polar method in a typed array, for the same reason as the state.
+  const spare = new Float64Array(1).fill(Number.NaN);
   return {
     next,
     // Marsaglia's polar method: two normals per accepted pair, the second kept.
     normal() {
-      if (!Number.isNaN(spare)) {
-        const z = spare;
-        spare = Number.NaN;
-        return z;
+      const kept = spare[0] as number;
+      if (!Number.isNaN(kept)) {
+        spare[0] = Number.NaN;
+        return kept;
       }
       for (;;) {
         const u = 2 * next() - 1;
@@ -68,7 +76,7 @@ export function createRandom(seed: number): Random {
         const s = u * u + v * v;
         if (s > 0 && s < 1) {
           const m = Math.sqrt((-2 * Math.log(s)) / s);
-          spare = v * m;
+          spare[0] = v * m;
           return u * m;
         }
       }

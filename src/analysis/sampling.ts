@@ -72,20 +72,76 @@ export interface TailFigures {
  * The same numbers as a full sort, since an order statistic is one value.
  */
 export function tailFigures(values: Float64Array, pLow: number, pHigh: number): TailFigures {
+  // Indexed loops, one pass: this runs once per check in a one-shot command, where an
+  // iterator loop over 10,000 values runs unoptimised (about 40 ms over a plan, measured).
+  const a = new Float64Array(values.length);
   let n = 0;
-  for (const v of values) if (Number.isFinite(v)) n++;
-  if (n === 0) return { min: Number.NaN, max: Number.NaN, low: Number.NaN, high: Number.NaN };
-  const a = new Float64Array(n);
-  let j = 0;
   let min = Infinity;
   let max = -Infinity;
-  for (const v of values) {
-    if (!Number.isFinite(v)) continue;
-    a[j++] = v;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i] as number;
+    // v − v is 0 for a finite v, NaN for ±∞ and NaN.
+    if (v - v !== 0) continue;
+    a[n++] = v;
     if (v < min) min = v;
     if (v > max) max = v;
   }
-  return { min, max, low: quantileBySelection(a, pLow), high: quantileBySelection(a, pHigh) };
+  if (n === 0) return { min: Number.NaN, max: Number.NaN, low: Number.NaN, high: Number.NaN };
+  const finite = a.subarray(0, n);
+  return { min, max, low: quantileAt(finite, pLow), high: quantileAt(finite, pHigh) };
+}
+
+/** Order statistics this close to either end are read from one pass with a short sorted buffer instead of a selection. */
+const nearEnd = 64;
+
+/**
+ * Type 7 quantile of the finite values `a` (may reorder them). The statistical band's
+ * quantiles (0.135 % and 99.865 %) need the 14th and 15th values from either end: one
+ * pass keeping the smallest (or largest) few in order finds them, the same order
+ * statistics a selection finds, in a fraction of its time.
+ */
+function quantileAt(a: Float64Array, p: number): number {
+  const n = a.length;
+  const h = (n - 1) * p;
+  const lo = Math.floor(h);
+  const hi = Math.min(n - 1, lo + 1);
+  const fromTop = n - 1 - lo;
+  if (hi + 1 <= nearEnd) {
+    const k = hi + 1;
+    const least = smallest(a, k, 1);
+    const x = least[lo] as number;
+    return x + (h - lo) * ((least[hi] as number) - x);
+  }
+  if (fromTop + 1 <= nearEnd) {
+    // The largest fromTop + 1 values, largest first: a[lo] is the last of them, a[hi] the one before.
+    const most = smallest(a, fromTop + 1, -1);
+    const x = most[fromTop] as number;
+    const y = most[n - 1 - hi] as number;
+    return x + (h - lo) * (y - x);
+  }
+  return quantileBySelection(a, p);
+}
+
+let keep = new Float64Array(nearEnd);
+
+/** The k smallest values of `a` in ascending order (sign 1), or the k largest in descending order (sign −1). */
+function smallest(a: Float64Array, k: number, sign: 1 | -1): Float64Array {
+  if (keep.length < k) keep = new Float64Array(k);
+  const b = keep;
+  let m = 0;
+  for (let i = 0; i < a.length; i++) {
+    const v = sign * (a[i] as number);
+    if (m === k && v >= (b[k - 1] as number)) continue;
+    // Insertion into the sorted buffer (ties keep their order, as any sort of the values would give the same numbers).
+    let j = m < k ? m++ : k - 1;
+    while (j > 0 && (b[j - 1] as number) > v) {
+      b[j] = b[j - 1] as number;
+      j--;
+    }
+    b[j] = v;
+  }
+  if (sign < 0) for (let i = 0; i < m; i++) b[i] = -(b[i] as number);
+  return b;
 }
 
 /** Type 7 quantile of `a` (finite values, reordered in place). */

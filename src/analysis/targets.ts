@@ -1,13 +1,13 @@
-import { buildChain } from '../plan/chain.js';
+import { type Chain, type ChainDetail, buildChain } from '../plan/chain.js';
 import { upstreamOf } from '../plan/stages.js';
 import type { Plan } from '../plan/types.js';
 import type { Distribution } from './random.js';
-import { sampleChain, tailFigures } from './sampling.js';
+import { type Samples, sampleChain, tailFigures } from './sampling.js';
 import { contributorsOf, sensitivities } from './sensitivity.js';
 import type { DesignWarning, Target, TargetSet } from './types.js';
 import { cornerWarnings } from './corner-warnings.js';
 import { designWarnings } from './warnings.js';
-import { worstCase } from './worst-case.js';
+import { type WorstCase, worstCase } from './worst-case.js';
 import { formatValue } from '../units/format.js';
 
 export interface TargetOptions {
@@ -62,6 +62,32 @@ export function computeTargets(plan: Plan, options: TargetOptions = {}): TargetS
 const memo = new WeakMap<Plan, Map<string, TargetSet>>();
 
 function compute(plan: Plan, trials: number, seed: number, options: TargetOptions): TargetSet {
+  const prepared = prepareTargets(plan);
+  const samples = sampleChain(prepared.chain, {
+    trials,
+    seed,
+    distribution: options.distribution ?? 'normal',
+    ...(options.onProgress ? { onProgress: options.onProgress } : {}),
+  });
+  return finishTargets(prepared, samples);
+}
+
+/**
+ * Everything of a plan's targets but the Monte Carlo: the chain, the nominal, the
+ * sensitivities and the worst case. With `finishTargets` and the samples of
+ * `sampleChain` (the same chain built anywhere from the same plan, e.g. in a
+ * worker thread, gives the same samples for the same seed) it is `computeTargets`.
+ */
+export interface PreparedTargets {
+  readonly plan: Plan;
+  readonly chain: Chain;
+  readonly nominalDetail: ChainDetail;
+  readonly nominalOut: Float64Array;
+  readonly perSigma: readonly Float64Array[];
+  readonly worst: WorstCase;
+}
+
+export function prepareTargets(plan: Plan): PreparedTargets {
   const chain = buildChain(plan);
   // The nominal from the exact evaluation (the hot path solves the shaper to bench accuracy only).
   const nominalDetail = chain.detail(chain.nominal);
@@ -71,13 +97,25 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
   // The worst case is its own deterministic search of the tolerance box: it never depends on the Monte Carlo.
   // Upstream stages, and the downstream ones whose inputs load this stage's chain (their parts move its checks too).
   const worst = worstCase(chain, perSigma, { upstream: (id) => [...upstreamOf(plan.stages, id), ...chain.loaders(id)] });
-  const samples = sampleChain(chain, {
-    trials,
-    seed,
-    distribution: options.distribution ?? 'normal',
-    ...(options.onProgress ? { onProgress: options.onProgress } : {}),
-  });
+  return { plan, chain, nominalDetail, nominalOut, perSigma, worst };
+}
 
+/** The targets from a preparation and the Monte Carlo samples of its chain (in chain check order). */
+export function finishTargets(prepared: PreparedTargets, samples: Samples): TargetSet {
+  const n = prepared.chain.checks.length;
+  if (samples.values.length !== n) throw new RangeError(`samples for ${samples.values.length} checks, the chain has ${n}`);
+  return assembleTargets(prepared, (i) => tailFigures(samples.values[i] as Float64Array, statCoverage.low, statCoverage.high), samples.missing, samples.trials);
+}
+
+/** The two ends of check i's statistical band before they are held inside the worst case. */
+export type StatBand = (i: number) => { readonly low: number; readonly high: number };
+
+/**
+ * The target set from a preparation and a statistical band per check: `missing[i]`
+ * trials of `trials` gave check i no value (one warning per stage says so).
+ */
+export function assembleTargets(prepared: PreparedTargets, stat: StatBand, missingCounts: Int32Array, trials: number): TargetSet {
+  const { plan, chain, nominalDetail, nominalOut, perSigma, worst } = prepared;
   // Checks without a value in some trials, by stage: one warning per stage, not per check.
   const gaps = new Map<string, { most: number; checks: string[] }>();
   const targets: Target[] = chain.checks.map((c, i) => {
@@ -109,7 +147,7 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
       return { ...base, nominal: Number.isFinite(max) ? max / 2 : 0, worst: band, stat: band, contributors: [] };
     }
     const nominal = nominalOut[i] as number;
-    const tails = tailFigures(samples.values[i] as Float64Array, statCoverage.low, statCoverage.high);
+    const tails = stat(i);
     const lo = finiteMin(worst.min[i] as number, nominal);
     const hi = finiteMax(worst.max[i] as number, nominal);
     // The statistical band lies inside the worst case by construction (every trial is a point of
@@ -117,7 +155,7 @@ function compute(plan: Plan, trials: number, seed: number, options: TargetOption
     // between the two evaluation paths, so it is held to the bound rather than moving it.
     const statMin = Number.isFinite(tails.low) ? Math.min(Math.max(tails.low, lo), hi) : tails.low;
     const statMax = Number.isFinite(tails.high) ? Math.max(Math.min(tails.high, hi), lo) : tails.high;
-    const missing = samples.missing[i] ?? 0;
+    const missing = missingCounts[i] ?? 0;
     if (missing > 0) {
       const entry = gaps.get(c.stage) ?? { most: 0, checks: [] };
       entry.most = Math.max(entry.most, missing);

@@ -74,6 +74,12 @@ export interface TargetSet {
   readonly plan: string;
   readonly targets: readonly Target[];
   readonly warnings: readonly DesignWarning[];
+  /**
+   * The bands are a first estimate from the sensitivities alone (`quickTargets`,
+   * the plan editor's per-keystroke pass), neither searched nor sampled: shown
+   * as such until the full set replaces them, never cached. @default false
+   */
+  readonly isEstimate?: boolean;
 }
 
 /** DESIGN §4 verdict names (contract). */

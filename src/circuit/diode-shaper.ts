@@ -113,7 +113,8 @@ function diodeFault(input: EvalInput<DiodeShaperSettings>, i: number): 'open' | 
  */
 export function shaperNet(input: EvalInput<DiodeShaperSettings>): ShaperNet {
   const { settings } = input;
-  const parts = faultedParts(input, resistorRoles(settings));
+  // The resistor roles only matter for a fault (a list per trial otherwise).
+  const parts = input.fault ? faultedParts(input, resistorRoles(settings)) : input.parts;
   // One sample of the diodes (IS, N) at the board temperature (Vt = kT/q and the SPICE law for IS).
   const base = settings.diode;
   const model: DiodeModel = { is: parts['diode.is'] ?? base.is, n: parts['diode.n'] ?? base.n, rs: base.rs };

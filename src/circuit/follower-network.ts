@@ -86,11 +86,28 @@ const maxJunctionStep = 4;
 /** Newton stops when no voltage moved by more than this, V: the convergence is quadratic, so the error left is of the order of (10 µV)² per thermal voltage, a few nV. */
 const tolerance = 1e-5;
 
-/** Solve the network at drive `vin`, starting from (and writing to) `s`. */
-export function solveFollower(net: FollowerNetwork, vin: number, s: FollowerState): FollowerState {
+/**
+ * On a Monte Carlo trial (EvalInput.isTrial) a step under 0.3 mV ends the solve: the
+ * convergence is quadratic, so about (0.3 mV)² / (2·Vt), 2 µV, is left, and a knot
+ * takes one Newton step (four exponentials) fewer than at `tolerance`.
+ */
+export const trialTolerance = 3e-4;
+
+/** Solve the network at drive `vin`, starting from (and writing to) `s`; done when no voltage moved by more than `tol`. */
+export function solveFollower(net: FollowerNetwork, vin: number, s: FollowerState, tol = tolerance): FollowerState {
   const { vpos, vneg, rb1, rb2, gl, diode, isn, isp, betaN, betaP, vt } = net;
   const nvt = diode.n * vt;
   const rs = diode.rs;
+  const dis = diode.is;
+  // Reciprocals once per solve: a Newton step then divides only where it must.
+  const inN = 1 / nvt;
+  const inV = 1 / vt;
+  const gb1 = 1 / rb1;
+  const gb2 = 1 / rb2;
+  const hn = 1 / betaN;
+  const hp = 1 / betaP;
+  const en1 = 1 + hn;
+  const ep1 = 1 + hp;
   let { a, b, y, j1, j2 } = s;
   let converged = false;
   let g1c1 = 0,
@@ -99,50 +116,60 @@ export function solveFollower(net: FollowerNetwork, vin: number, s: FollowerStat
     j22 = 1,
     j31 = 0,
     j32 = 0,
-    j13 = 0,
-    j23 = 0,
     jyy = 1;
   let icn = 0,
     icp = 0,
     i1 = 0,
     i2 = 0;
+  // The last step and the conductances it was taken with: the currents are moved along it at the end.
+  let gn = 0,
+    gp = 0,
+    g1 = 0,
+    g2 = 0,
+    da = 0,
+    db = 0,
+    dy = 0,
+    dj1 = 0,
+    dj2 = 0;
   for (let it = 0; it < 100; it++) {
-    const e1 = Math.exp(j1 / nvt);
-    const e2 = Math.exp(j2 / nvt);
-    i1 = diode.is * (e1 - 1);
-    i2 = diode.is * (e2 - 1);
-    const g1 = (diode.is * e1) / nvt;
-    const g2 = (diode.is * e2) / nvt;
+    const e1 = Math.exp(j1 * inN);
+    const e2 = Math.exp(j2 * inN);
+    i1 = dis * (e1 - 1);
+    i2 = dis * (e2 - 1);
+    g1 = dis * e1 * inN;
+    g2 = dis * e2 * inN;
     const c1 = 1 / (1 + rs * g1);
     const c2 = 1 / (1 + rs * g2);
-    const en = Math.exp((a - y) / vt);
-    const ep = Math.exp((y - b) / vt);
+    const en = Math.exp((a - y) * inV);
+    const ep = Math.exp((y - b) * inV);
     icn = isn * (en - 1);
     icp = isp * (ep - 1);
-    const gn = (isn * en) / vt;
-    const gp = (isp * ep) / vt;
+    gn = isn * en * inV;
+    gp = isp * ep * inV;
     const r1 = j1 + rs * i1 - (a - vin);
     const r2 = j2 + rs * i2 - (vin - b);
-    const f1 = (vpos - a) / rb1 - i1 - icn / betaN;
-    const f2 = i2 + icp / betaP - (b - vneg) / rb2;
-    const f3 = icn * (1 + 1 / betaN) - icp * (1 + 1 / betaP) - gl * y;
+    const f1 = (vpos - a) * gb1 - i1 - icn * hn;
+    const f2 = i2 + icp * hp - (b - vneg) * gb2;
+    const f3 = icn * en1 - icp * ep1 - gl * y;
     g1c1 = g1 * c1;
     g2c2 = g2 * c2;
     const f1p = f1 + g1c1 * r1;
     const f2p = f2 - g2c2 * r2;
-    j11 = -1 / rb1 - gn / betaN - g1c1;
-    j13 = gn / betaN;
-    j22 = -g2c2 - gp / betaP - 1 / rb2;
-    j23 = gp / betaP;
-    j31 = gn * (1 + 1 / betaN);
-    j32 = gp * (1 + 1 / betaP);
+    j11 = -gb1 - gn * hn - g1c1;
+    const j13 = gn * hn;
+    j22 = -g2c2 - gp * hp - gb2;
+    const j23 = gp * hp;
+    j31 = gn * en1;
+    j32 = gp * ep1;
     const j33 = -j31 - j32 - gl;
-    jyy = j33 - (j31 * j13) / j11 - (j32 * j23) / j22;
-    let dy = -(f3 - (j31 * f1p) / j11 - (j32 * f2p) / j22) / jyy;
-    let da = -(f1p + j13 * dy) / j11;
-    let db = -(f2p + j23 * dy) / j22;
-    let dj1 = c1 * (da - r1);
-    let dj2 = c2 * (-db - r2);
+    const q1 = 1 / j11;
+    const q2 = 1 / j22;
+    jyy = j33 - j31 * j13 * q1 - j32 * j23 * q2;
+    dy = -(f3 - j31 * f1p * q1 - j32 * f2p * q2) / jyy;
+    da = -(f1p + j13 * dy) * q1;
+    db = -(f2p + j23 * dy) * q2;
+    dj1 = c1 * (da - r1);
+    dj2 = c2 * (-db - r2);
     // Damping: no junction may move forward by more than a few thermal voltages at once.
     const limit = maxJunctionStep * vt;
     const dl = diode.n * limit;
@@ -165,11 +192,17 @@ export function solveFollower(net: FollowerNetwork, vin: number, s: FollowerStat
     j1 += dj1;
     j2 += dj2;
     const step = Math.max(Math.abs(da), Math.abs(db), Math.abs(dy), Math.abs(dj1), Math.abs(dj2));
-    if (worst <= 1 && step < tolerance) {
+    if (worst <= 1 && step < tol) {
       converged = true;
       break;
     }
   }
+  // The currents were evaluated before the last step: carried along it to first order (the
+  // step is under `tol`, so what is left is of the order of (step/Vt)², 1e-4 of the current at 0.3 mV).
+  icn += gn * (da - dy);
+  icp += gp * (dy - db);
+  i1 += g1 * dj1;
+  i2 += g2 * dj2;
   s.a = a;
   s.b = b;
   s.y = y;

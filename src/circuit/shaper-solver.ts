@@ -1,4 +1,5 @@
 import { type DiodeString, junctionCeiling } from './diode.js';
+import { solveKnots } from './shaper-knots.js';
 import { extremes } from './waveform.js';
 
 /**
@@ -243,7 +244,6 @@ const minIntervals = 32;
  */
 const trialTolerance = stepTolerance;
 
-let levelScratch = new Float64Array(0);
 let valueScratch = new Float64Array(0);
 let slopeScratch = new Float64Array(0);
 let walkScratch = new Int32Array(0);
@@ -269,21 +269,14 @@ export function solveTransfer(net: ShaperNet, vin: Float64Array, out: Float64Arr
     return solveNode(net, vin, walkScratch.subarray(0, n), out, undefined, undefined, trialTolerance);
   }
   const k = intervals + 1;
-  if (levelScratch.length < k) {
-    levelScratch = new Float64Array(k);
+  if (valueScratch.length < k) {
     valueScratch = new Float64Array(k);
     slopeScratch = new Float64Array(k);
   }
-  if (walkScratch.length < k) walkScratch = new Int32Array(k);
   const h = range / intervals;
-  for (let j = 0; j < k; j++) {
-    levelScratch[j] = j === intervals ? hi : lo + j * h;
-    walkScratch[j] = j;
-  }
-  const levels = levelScratch.subarray(0, k);
   const values = valueScratch;
   const slopes = slopeScratch;
-  const steps = solveNode(net, levels, walkScratch.subarray(0, k), values, undefined, slopes, trialTolerance);
+  const steps = solveKnots(net, lo, hi, k, values, slopes, trialTolerance, bisect);
   // Cubic Hermite on each interval (any numerical analysis text), as power-series
   // coefficients in t ∈ [0, 1]: p(t) = y0 + m0·t + (3Δ − 2m0 − m1)·t² + (m0 + m1 − 2Δ)·t³,
   // Δ = y1 − y0 and the slopes scaled to the interval (m = h·dv/dvin).
@@ -300,13 +293,15 @@ export function solveTransfer(net: ShaperNet, vin: Float64Array, out: Float64Arr
     coef[4 * j + 3] = m0 + m1 - 2 * d;
   }
   const scale = 1 / h;
+  const top = intervals - 1;
   for (let i = 0; i < n; i++) {
     const u = ((vin[i] as number) - lo) * scale;
-    let j = Math.floor(u);
-    if (j >= intervals) j = intervals - 1;
+    // u lies in [0, intervals] up to rounding: truncation is the floor there, and an integer index.
+    let j = u | 0;
+    if (j > top) j = top;
     else if (j < 0) j = 0;
     const t = u - j;
-    const c = 4 * j;
+    const c = j << 2;
     out[i] = (coef[c] as number) + t * ((coef[c + 1] as number) + t * ((coef[c + 2] as number) + t * (coef[c + 3] as number)));
   }
   return steps;

@@ -32,9 +32,31 @@ export function singlePole(samples: Float64Array, frequency: number, fc: number,
     return out;
   }
   const first = samples[0] as number;
-  let e = 0;
-  let x0 = first;
-  for (let i = 1; i <= n; i++) {
+  // The first pass from e₀ = 0 is the sum c = Σᵢ a^(N−i)·dᵢ, dᵢ = −(xᵢ − xᵢ₋₁)·b (i = 1 … N,
+  // x_N = x₀): four interleaved Horner chains in a⁴, one per i mod 4, joined at the end, so
+  // the multiply-adds do not wait on each other (the same sum, rounded in another order).
+  const a2 = a * a;
+  const a4 = a2 * a2;
+  let s0 = 0;
+  let s1 = 0;
+  let s2 = 0;
+  let s3 = 0;
+  let i = 1;
+  for (; i + 3 <= n - 1; i += 4) {
+    const x0 = samples[i - 1] as number;
+    const x1 = samples[i] as number;
+    const x2 = samples[i + 1] as number;
+    const x3 = samples[i + 2] as number;
+    const x4 = samples[i + 3] as number;
+    s0 = a4 * s0 - (x1 - x0) * b;
+    s1 = a4 * s1 - (x2 - x1) * b;
+    s2 = a4 * s2 - (x3 - x2) * b;
+    s3 = a4 * s3 - (x4 - x3) * b;
+  }
+  // The chains stop at i − 1 … i + 2 (the last four terms so far): e after them is Σ a^(3−r)·s_r.
+  let e = a * (a * (a * s0 + s1) + s2) + s3;
+  let x0 = samples[i - 1] as number;
+  for (; i <= n; i++) {
     const x1 = i < n ? (samples[i] as number) : first;
     e = a * e - (x1 - x0) * b;
     x0 = x1;

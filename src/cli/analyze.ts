@@ -3,10 +3,8 @@ import { parseArgs } from './args.js';
 import type { Command } from './command.js';
 import { UsageError } from './errors.js';
 import { analyzeCaptureFile } from '../signal/analyze-capture.js';
-import { capturedWindow } from '../ui/capture/view.js';
 import { type ExpectedShape, expectedShapes, shapeMismatch, summaryLines } from '../signal/summary.js';
 import { CaptureError } from '../signal/types.js';
-import { traceChart } from '../ui/charts/trace.js';
 import { parseValue, quoteTyped } from '../units/parse.js';
 import { resolve } from 'node:path';
 
@@ -106,6 +104,8 @@ export const analyzeCommand: Command = async (argv, io) => {
     io.stdout(`${JSON.stringify(out, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v))}\n`);
     return 0;
   }
+  // The trace is drawn for the text output only: `--json` never loads the chart modules.
+  const [{ capturedWindow }, { traceChart }] = await Promise.all([import('../ui/capture/view.js'), import('../ui/charts/trace.js')]);
   const lines = [`${analyzed.capture.source}, channel ${analyzed.channel.name}`, ...summaryLines(m)];
   for (const w of m.warnings) lines.push(`note: ${w}`);
   lines.push('', traceChart(null, capturedWindow(analyzed.channel.samples, m.sampleRate, m.frequency, 3), { width: 72, height: 10 }));

@@ -8,6 +8,7 @@ import type { Command } from './command.js';
 import { UsageError } from './errors.js';
 import { resolveLogDir } from './log-dir.js';
 import { cacheHelp, targetsCacheFor } from './targets-cache.js';
+import { computeTargetsInParallel, threadsFromEnv } from './targets-parallel.js';
 import { targetsTable } from './targets-table.js';
 
 const usage = 'probebook targets PLAN [--json] [--trials N] [--seed S] [--spread normal|uniform] [--cache DIR] [--log DIR]';
@@ -50,7 +51,7 @@ export const targetsCommand: Command = async (argv, io) => {
 
   const plan = await loadPlanFile(file, { cwd: io.cwd });
   let shown = 0;
-  const set = cache.forPlan(plan, {
+  const settings = {
     trials,
     seed,
     distribution,
@@ -66,7 +67,16 @@ export const targetsCommand: Command = async (argv, io) => {
           },
         }
       : {}),
-  });
+  };
+  // From the cache, else computed on two threads (the Monte Carlo beside the worst-case search) and kept.
+  const key = cache.keyOf(plan, settings);
+  let set = cache.peek(key);
+  if (!set) {
+    set = await computeTargetsInParallel(plan, settings, threadsFromEnv(io.env['PROBEBOOK_THREADS']), (message) =>
+      io.stderr(`probebook: warning: ${message}\n`),
+    );
+    cache.put(key, set);
+  }
   if (args.options.json) io.stdout(`${JSON.stringify(targetsJson(set), null, 2)}\n`);
   else
     io.stdout(

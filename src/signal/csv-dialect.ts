@@ -31,7 +31,41 @@ const candidates: readonly { delimiter: CsvDialect['delimiter']; decimal: CsvDia
   { delimiter: '\t', decimal: ',' },
 ];
 
-function isNumericRow(line: string, delimiter: string, decimal: '.' | ','): number {
+/**
+ * Separators and other characters a line holds, as bits, so that a candidate
+ * dialect can be ruled out for a line without splitting it or running the
+ * number pattern: a `,`, `;` or `.` that is neither the candidate's separator
+ * nor its decimal marker, or any other ASCII character the number pattern
+ * never takes, makes the line no row of numbers under that candidate.
+ * Characters outside ASCII (some are spaces to the pattern) rule nothing out.
+ * The same answers as `isNumericRow` alone (test/signal/csv-dialect-filter.test.ts).
+ * Measured on the 1 M-row bench capture's 128 KB head (5,000 lines), eight
+ * interleaved fresh processes on a busy 2-core machine: the detection's first
+ * call median 22 ms against 28 ms without the filter, a second call 5 against
+ * 12 ms (the time went on trying the four wrong candidates on every line).
+ */
+const hasComma = 1;
+const hasSemicolon = 2;
+const hasDot = 4;
+const hasOther = 8;
+/** An ASCII character the number pattern never takes (digits, sign, exponent, quote, white space as \s has it, and the separators are taken). */
+const otherAscii = /[\0-\x08\x0e-\x1f!#-*/:<-DF-df-\x7f]/;
+
+/** The bits of a line; through native string searches, which are fast even before the code is compiled (a loop over the characters took longer than the patterns it spares). */
+export function lineMask(line: string): number {
+  return (
+    (line.includes(',') ? hasComma : 0) | (line.includes(';') ? hasSemicolon : 0) | (line.includes('.') ? hasDot : 0) | (otherAscii.test(line) ? hasOther : 0)
+  );
+}
+
+/** Whether a line of this mask may be a row of numbers under the candidate (false: it is not). */
+export function mayBeNumericRow(mask: number, delimiter: string, decimal: '.' | ','): boolean {
+  let allowed = 0;
+  for (const ch of [delimiter, decimal]) allowed |= ch === ',' ? hasComma : ch === ';' ? hasSemicolon : ch === '.' ? hasDot : 0;
+  return (mask & ~allowed & (hasComma | hasSemicolon | hasDot | hasOther)) === 0;
+}
+
+export function isNumericRow(line: string, delimiter: string, decimal: '.' | ','): number {
   let fields = line.split(delimiter);
   // A separator at the end of every row (`1.0,2.0,`) leaves an empty last field.
   if (fields.length > 1 && fields[fields.length - 1]?.trim() === '') fields = fields.slice(0, -1);
@@ -50,9 +84,12 @@ export function detectDialect(text: string, complete: boolean, name: string): Cs
     throw new CaptureError(`${name}: no line end in the first ${Math.round(text.length / 1024)} KB (one endless line); is this a capture exported as CSV?`);
   }
   let best: { score: number; columns: number; start: number; c: (typeof candidates)[number] } | undefined;
+  const masks = lines.map(lineMask);
   for (const c of candidates) {
     // The first row of numbers, then how many of the following rows agree with it.
-    const start = lines.findIndex((l) => l.trim() !== '' && isNumericRow(l, c.delimiter, c.decimal) > 0);
+    const start = lines.findIndex(
+      (l, i) => mayBeNumericRow(masks[i] ?? 0, c.delimiter, c.decimal) && l.trim() !== '' && isNumericRow(l, c.delimiter, c.decimal) > 0,
+    );
     if (start < 0) continue;
     const columns = isNumericRow(lines[start] ?? '', c.delimiter, c.decimal);
     let score = 0;

@@ -55,14 +55,16 @@ export function measure(x: Float64Array, sampleRate: number): MeasureResult {
   if (n < minSamples) throw new CaptureError(`only ${n} samples; at least ${minSamples} are needed to measure anything`);
   if (!(sampleRate > 0) || !Number.isFinite(sampleRate)) throw new CaptureError(`sample rate ${sampleRate} Hz is not usable`);
   // One pass for the check, the extremes and the sum (each as `extremes` and
-  // `moments` form them), then one about the mean: two passes, not four.
+  // `moments` form them); the pass about the whole record's mean only when the
+  // figures are taken over the whole record (no periods found): a periodic
+  // capture's figures come from its whole periods.
   const bad = firstPass(x);
   if (bad >= 0) throw new CaptureError(`sample ${bad + 1} is ${x[bad]}; the capture must hold numbers only`);
   const min = pass[0] as number;
   const max = pass[1] as number;
   const sum = pass[2] as number;
   const vpp = max - min;
-  const whole = momentsAbout(x, 0, n, sum / n);
+  const mean0 = sum / n;
   const warnings: string[] = [];
   const none = {
     samples: n,
@@ -76,31 +78,34 @@ export function measure(x: Float64Array, sampleRate: number): MeasureResult {
     overshoot: null,
     notchTime: null,
   };
-  const aperiodic = (reason: string): MeasureResult => ({
-    measurements: {
-      ...none,
-      frequency: null,
-      mean: whole.mean,
-      vrms: whole.rms,
-      vrmsAc: whole.rmsAc,
-      thd: null,
-      shape: 'other',
-      clipped: false,
-      notch: false,
-      crestFactor: whole.rmsAc > 0 ? Math.max(max - whole.mean, whole.mean - min) / whole.rmsAc : Number.NaN,
-      formFactor: whole.meanAbs > 0 ? whole.rmsAc / whole.meanAbs : Number.NaN,
-      periods: 0,
-      window: 'none',
-      warnings: [...warnings, reason],
-    },
-    period: new Float64Array(0),
-  });
+  const aperiodic = (reason: string): MeasureResult => {
+    const whole = momentsAbout(x, 0, n, mean0);
+    return {
+      measurements: {
+        ...none,
+        frequency: null,
+        mean: whole.mean,
+        vrms: whole.rms,
+        vrmsAc: whole.rmsAc,
+        thd: null,
+        shape: 'other',
+        clipped: false,
+        notch: false,
+        crestFactor: whole.rmsAc > 0 ? Math.max(max - whole.mean, whole.mean - min) / whole.rmsAc : Number.NaN,
+        formFactor: whole.meanAbs > 0 ? whole.rmsAc / whole.meanAbs : Number.NaN,
+        periods: 0,
+        window: 'none',
+        warnings: [...warnings, reason],
+      },
+      period: new Float64Array(0),
+    };
+  };
   if (!(vpp > 0)) return aperiodic('the capture is flat (a DC level): no frequency, THD or shape; figures over the whole record');
 
   // Mean-level crossings with hysteresis of 30 % of the way to each extreme,
   // so noise on a slow crossing does not add crossings, and a square of small
   // duty (mean near one level) still arms.
-  const found = crossings(x, whole.mean, whole.mean - 0.3 * (whole.mean - min), whole.mean + 0.3 * (max - whole.mean));
+  const found = crossings(x, mean0, mean0 - 0.3 * (mean0 - min), mean0 + 0.3 * (max - mean0));
   const rising = found.rising;
   if (rising.length < 3) {
     return aperiodic(
@@ -110,7 +115,7 @@ export function measure(x: Float64Array, sampleRate: number): MeasureResult {
   const rough = periodFromCrossings(rising);
   // At least 8 periods where the capture has them, however slow the signal.
   const spectrumLength = Math.min(n, Math.max(maxSpectrumSamples, Math.ceil(8 * rough)));
-  const nu = refineFrequency(x, 0, spectrumLength, 1 / rough, whole.mean);
+  const nu = refineFrequency(x, 0, spectrumLength, 1 / rough, mean0);
   let period = 1 / nu;
   if (!(Math.abs(period - rough) < 0.05 * rough)) {
     warnings.push('the spectrum and the crossings disagree on the frequency; using the crossings');

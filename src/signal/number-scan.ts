@@ -66,24 +66,11 @@ export function scanNumber(buf: Uint8Array, pos: number, end: number, decimal: n
     return Number.NaN;
   }
   if (i < end && (c === LOWER_E || c === UPPER_E)) {
-    let j = i + 1;
-    let d = buf[j] ?? 0;
-    let expNegative = false;
-    if (d === MINUS || d === PLUS) {
-      expNegative = d === MINUS;
-      d = buf[++j] ?? 0;
-    }
-    let e = 0;
-    let expDigits = 0;
-    while (j < end && d >= ZERO && d <= NINE) {
-      if (e < 100000) e = e * 10 + (d - ZERO);
-      expDigits++;
-      d = buf[++j] ?? 0;
-    }
-    if (expDigits > 0) {
-      exponent += expNegative ? -e : e;
+    const j = scanExponent(buf, i + 1, end);
+    if (j >= 0) {
+      exponent += exponentValue[0] as number;
       i = j;
-      c = d;
+      c = buf[i] ?? 0;
     }
   }
   if (quoted && c === QUOTE) c = buf[++i] ?? 0;
@@ -149,7 +136,7 @@ export function scanPlain(buf: Uint8Array, pos: number, decimal: number): number
   // No digits, or more than 15: leave it to scanNumber.
   if (digits === 0 || digits > 15) return -1;
   if (c === LOWER_E || c === UPPER_E) {
-    i = scanExponent(buf, i + 1);
+    i = scanExponent(buf, i + 1, buf.length);
     if (i < 0) return -1;
     exponent += exponentValue[0] as number;
   }
@@ -164,8 +151,13 @@ export function scanPlain(buf: Uint8Array, pos: number, decimal: number): number
 
 const exponentValue = new Int32Array(1);
 
-/** The exponent's sign and digits from `i` (after the `e`); its end, or −1 without digits. Kept apart so `scanPlain` stays small enough to inline. */
-function scanExponent(buf: Uint8Array, from: number): number {
+/**
+ * The exponent's sign and digits from `from` (after the `e`) up to `end`; its
+ * end, or −1 without digits, the value in `exponentValue[0]` (capped, as any
+ * exponent past 10^5 over- or underflows). Shared by both scanners; kept apart
+ * so `scanPlain` stays small enough to inline.
+ */
+function scanExponent(buf: Uint8Array, from: number, end: number): number {
   let i = from;
   let c = buf[i] as number;
   let negative = false;
@@ -175,7 +167,7 @@ function scanExponent(buf: Uint8Array, from: number): number {
   }
   let e = 0;
   const start = i;
-  for (let d = (c - ZERO) >>> 0; d < 10; d = (c - ZERO) >>> 0) {
+  for (let d = (c - ZERO) >>> 0; i < end && d < 10; d = (c - ZERO) >>> 0) {
     if (e < 100000) e = e * 10 + d;
     c = buf[++i] as number;
   }

@@ -1,7 +1,9 @@
 import { constants, readSync } from 'node:fs';
 import { open } from 'node:fs/promises';
+import { availableParallelism, loadavg } from 'node:os';
 import { basename } from 'node:path';
 import { CsvParser, concat } from './csv-parser.js';
+import { readRestTwoThreads, type TwoThreadTuning } from './csv-part.js';
 import { csvReader } from './csv-reader.js';
 import { type Capture, CaptureError, type CaptureReader, type ProgressFn, type ReadOptions } from './types.js';
 import { wavReader } from './wav-reader.js';
@@ -41,11 +43,40 @@ const chunkBytes = 1024 * 1024;
 const progressChunkBytes = 256 * 1024;
 
 /**
+ * From this size on, a CSV read for the command line (no progress to draw, the
+ * bytes not kept) is split with a worker thread (`csv-part.ts`). Below it the
+ * worker's start (a second V8 instance, ~20 ms and ~17 MB resident) costs more
+ * than it saves, and the memory goal at 1 M rows (issue 15) rules it out.
+ */
+const twoThreadBytes = 48 * 1024 * 1024;
+
+/**
+ * Whether a second thread would find a core to run on: the last minute's load
+ * average leaves most of one idle (half a core of slack, since a script that
+ * analyses captures back to back holds the average near 1 on its own). On a machine whose cores are all busy a worker only
+ * competes with this thread (measured on the 5 M-row bench capture with a load
+ * average of 9 on 2 cores: 0.63× numpy's time, against 0.55× for the command
+ * reading on one thread in the same rounds).
+ * The same test as `make --load-average` (common practice, no source).
+ */
+function hasIdleCore(): boolean {
+  const cores = availableParallelism();
+  return cores >= 2 && (loadavg()[0] ?? 0) <= cores - 0.5;
+}
+
+export interface FileReadOptions extends ReadOptions {
+  /** Keep the file's bytes (to copy the file into the log). */
+  readonly keepBytes?: boolean;
+  /** Split CSV files of this many bytes or more with a worker thread (and how); given, it applies whatever the machine's load. @default 48 MiB when a core is idle */
+  readonly twoThread?: TwoThreadTuning & { readonly fromBytes?: number };
+}
+
+/**
  * Read a capture file in chunks, reporting progress as a fraction of its size.
  * CSV is parsed as the chunks arrive, so its text is never held whole unless
  * `keepBytes` asks for the bytes.
  */
-export async function readCaptureFile(path: string, options: ReadOptions & { readonly keepBytes?: boolean } = {}, onProgress?: ProgressFn): Promise<FileRead> {
+export async function readCaptureFile(path: string, options: FileReadOptions = {}, onProgress?: ProgressFn): Promise<FileRead> {
   const name = options.name ?? basename(path);
   let handle;
   try {
@@ -66,11 +97,13 @@ export async function readCaptureFile(path: string, options: ReadOptions & { rea
     let seen = 0;
     // One buffer, reused once the CSV parser streams: the file is never held whole.
     let spare: Uint8Array | undefined;
+    let isTwoThread =
+      !onProgress && !options.keepBytes && size >= (options.twoThread?.fromBytes ?? twoThreadBytes) && (options.twoThread !== undefined || hasIdleCore());
     for (;;) {
       const want = Math.min(onProgress ? progressChunkBytes : chunkBytes, Math.max(1, size - seen));
       const buffer = spare && spare.length >= want ? spare : new Uint8Array(want);
       spare = undefined;
-      const bytesRead = onProgress ? (await handle.read(buffer, 0, buffer.length, seen)).bytesRead : readSync(handle.fd, buffer, 0, buffer.length, seen);
+      const bytesRead = onProgress ? (await handle.read(buffer, 0, want, seen)).bytesRead : readSync(handle.fd, buffer, 0, want, seen);
       if (bytesRead === 0) break;
       const chunk = buffer.subarray(0, bytesRead);
       if (!reader) {
@@ -82,6 +115,10 @@ export async function readCaptureFile(path: string, options: ReadOptions & { rea
       else if (parser.isStreaming) spare = buffer;
       seen += bytesRead;
       onProgress?.(Math.min(1, seen / size) * (parser ? 1 : 0.5));
+      if (isTwoThread && parser?.isStreaming && seen < size) {
+        isTwoThread = false;
+        if ((await readRestTwoThreads(handle.fd, path, parser, seen, size, { name }, options.twoThread)) >= 0) seen = size;
+      }
       if (seen >= size) break;
     }
     // Only what was kept is joined: a streamed CSV keeps nothing.

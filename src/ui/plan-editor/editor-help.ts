@@ -16,7 +16,7 @@ export const editorHelp: readonly HelpEntry[] = [
 
 export const editorNotes: readonly string[] = [
   'Values are typed as at the bench: 4k7 1%, 22n 5%, 12 V, 1 kHz 0.1%. The field says at once what it reads, or why it cannot. ✗ marks a row with a problem; save goes to the first.',
-  'Targets follow every change: nominal and worst-case band at once, the statistical band (Monte Carlo) after, shown as refining until done.',
+  'Targets follow every change: the nominal at once with both bands estimated from the sensitivities (marked ≈), then the searched worst case and the statistical band (Monte Carlo), shown as refining until done.',
   'Caution: first power goes through a current-limited supply; mind hot parts and charged capacitors; anything mains-powered follows local codes and licensed practice.',
 ];
 

@@ -17,7 +17,7 @@ function statusText(live: LiveTargets): string {
   if (live.status === 'checking') return 'computing…';
   if (live.status === 'problems')
     return `the plan has ${live.problems.length || 'a'} problem${live.problems.length === 1 ? '' : 's'}${live.isStale ? ': last targets, stale' : ''}`;
-  if (live.status === 'refining') return `statistical band refining ${Math.round(live.progress * 100)} %`;
+  if (live.status === 'refining') return `≈ estimated bands; worst case and statistical band refining ${Math.round(live.progress * 100)} %`;
   return live.error ? `⚠ ${live.error}` : 'statistical band done';
 }
 
@@ -31,6 +31,9 @@ export function TargetsPanel({ live, stage, rows, width }: TargetsPanelProps) {
   const band = width >= 96 ? 24 : 22;
   const check = Math.max(12, width - 12 - band - (showStat ? band : 0) - 2);
   const tone = live.isStale || live.status === 'problems' ? toneProps('dim') : {};
+  // The quick pass's bands are estimates from the sensitivities (TargetSet.isEstimate) until the worker's replace them;
+  // a limit check's band is the plan's own (no estimate).
+  const estimate = live.set?.isEstimate === true ? '≈ ' : '';
   // Title, column heads and the warnings line take three rows; a "more" line one when the rest does not fit.
   const room = Math.max(1, rows - 3);
   const hasMore = shown.length > room && room >= 2;
@@ -56,8 +59,10 @@ export function TargetsPanel({ live, stage, rows, width }: TargetsPanelProps) {
         : null}
       {shown.slice(0, tableRows).map((t) => (
         <Text key={t.check} wrap="truncate-end" {...tone}>
-          {cell(t.check, check - 1)} {cell(formatNominal(t), 11)} {cell(formatBand(t.worst, t.unit), band - 1)}{' '}
-          {showStat ? cell(live.status === 'done' ? formatBand(t.stat, t.unit) : 'refining…', band - 1) : ''}
+          {cell(t.check, check - 1)} {cell(formatNominal(t), 11)} {cell(`${t.isLimit ? '' : estimate}${formatBand(t.worst, t.unit)}`, band - 1)}{' '}
+          {showStat
+            ? cell(live.status === 'done' || estimate || t.isLimit ? `${t.isLimit ? '' : estimate}${formatBand(t.stat, t.unit)}` : 'refining…', band - 1)
+            : ''}
         </Text>
       ))}
       {hasMore ? <Text {...toneProps('dim')}>… {shown.length - tableRows} more (select a stage to see its own)</Text> : null}

@@ -1,4 +1,5 @@
 import { useEffect, useRef, useState } from 'react';
+import { quickTargets } from '../../analysis/quick-targets.js';
 import { computeTargets } from '../../analysis/targets.js';
 import type { TargetSet } from '../../analysis/types.js';
 import type { PlanError } from '../../plan/errors.js';
@@ -28,7 +29,7 @@ export interface LiveTargets {
   readonly problems: readonly PlanError[];
   /** Statistical pass, 0…1. */
   readonly progress: number;
-  /** How long the quick pass (nominal and worst case) took, ms. */
+  /** How long the quick pass (nominal and the estimated bands) took, ms. */
   readonly quickMs: number;
   readonly error?: string;
 }
@@ -38,9 +39,10 @@ const settleMs = 25;
 
 /**
  * The targets of the plan being edited, following every change: a quick pass
- * on this thread (nominal and worst case, one Monte Carlo trial) as soon as
- * typing pauses, then the full statistical band in a worker, shown as
- * refining until it is done. A newer text cancels whatever is running for an
+ * on this thread as soon as typing pauses (the nominal, and both bands estimated
+ * from the sensitivities: `quickTargets`, a few ms where the worst-case search
+ * took a hundred or more), then the searched worst case and the statistical
+ * band in a worker, shown as refining until they are done. A newer text cancels whatever is running for an
  * older one, so a stale result is never shown as fresh.
  */
 export function useLiveTargets(text: string, file: string, options: LiveTargetOptions): LiveTargets {
@@ -60,7 +62,8 @@ export function useLiveTargets(text: string, file: string, options: LiveTargetOp
       const started = performance.now();
       let quick: TargetSet;
       try {
-        quick = computeTargets(loadPlanText(text, file), { trials: 1, seed: options.seed });
+        // Nominal exactly, bands estimated from the sensitivities (milliseconds); the worker refines both bands.
+        quick = quickTargets(loadPlanText(text, file));
       } catch (error) {
         setState({
           status: 'problems',
