@@ -1,8 +1,15 @@
-// `npm run bench plan-size`: loading a plan, building its chain and computing its
-// targets at 50, 100 and 200 stages (an invented chain of RC low-passes), with the
-// growth ratio per doubling. Linear steps grow about 2× per doubling; the
-// one-part-at-a-time worst-case search and the corner warnings grow with
-// stages × parts (about 4×); nothing should grow faster. 200 stages is the limit.
+// `npm run bench plan-size`: loading a plan, building its chain, one chain evaluation
+// and computing its targets for an invented chain of RC low-passes, each loading the
+// one before, with the growth ratio per doubling.
+// Loading, building and one evaluation run at 50, 100 and 200 stages (200 is the
+// plan limit). Loading and building are linear (about 2× per doubling). One
+// evaluation asks every stage's load at its corner-search frequencies, each a pass
+// down the rest of the ladder: about 2.5–3× per doubling (the harmonics are
+// remembered per sample, src/plan/chain.ts). `computeTargets` runs the worst-case
+// search over every part for every stage (stages × parts evaluations, each of the
+// whole chain): it grows about 8–10× per doubling (measured 10 → 20 → 40 stages:
+// 0.37, 2.8, 28 s), so it runs at 5, 10 and 20 stages only; 200 stages would take
+// hours (see src/plan/read-file.ts).
 import { buildChain } from '../src/plan/chain.js';
 import { loadPlanText } from '../src/plan/load.js';
 import { computeTargets } from '../src/analysis/targets.js';
@@ -20,21 +27,48 @@ function time(fn: () => unknown, repeat = 1): number {
   return (performance.now() - t0) / repeat;
 }
 
-const rows: { n: number; load: number; build: number; targets: number }[] = [];
+/** One chain evaluation per call, each with a new sample (a new value of the first filter's R), as the tolerance engine does. */
+function evaluation(n: number): number {
+  const chain = buildChain(loadPlanText(chainPlan(n), 'gen.plan.json'));
+  const out = new Float64Array(chain.checks.length);
+  const x = Float64Array.from(chain.nominal);
+  const at = chain.variables.findIndex((v) => v.name === 'f0.R');
+  const nominal = chain.nominal[at] as number;
+  let k = 0;
+  const step = (): void => {
+    x[at] = nominal * (1 + 1e-4 * (++k % 97));
+    chain.evaluate(x, out);
+  };
+  time(step, 5);
+  return time(step, Math.max(5, Math.round(2000 / n)));
+}
+
+function ratios<T extends { n: number }>(rows: readonly T[], keys: readonly (keyof T & string)[]): void {
+  for (let i = 1; i < rows.length; i++) {
+    const a = rows[i - 1];
+    const b = rows[i];
+    if (!a || !b) continue;
+    console.log(`  ${a.n} → ${b.n} stages: ${keys.map((k) => `${k} ×${((b[k] as number) / (a[k] as number)).toFixed(2)}`).join(', ')}`);
+  }
+}
+
+const rows: { n: number; load: number; build: number; evaluate: number }[] = [];
 for (const n of [50, 100, 200]) {
   const text = chainPlan(n);
   const load = time(() => loadPlanText(text, 'gen.plan.json'), 5);
   const plan = loadPlanText(text, 'gen.plan.json');
   const build = time(() => buildChain(plan), 5);
+  const evaluate = evaluation(n);
+  rows.push({ n, load, build, evaluate });
+  console.log(`${String(n).padStart(4)} stages: load ${load.toFixed(1)} ms, build chain ${build.toFixed(2)} ms, one evaluation ${evaluate.toFixed(2)} ms`);
+}
+ratios(rows, ['load', 'build', 'evaluate']);
+
+const targetRows: { n: number; targets: number }[] = [];
+for (const n of [5, 10, 20]) {
+  const plan = loadPlanText(chainPlan(n), 'gen.plan.json');
   const targets = time(() => computeTargets(plan, { trials: 200, seed: 1 }));
-  rows.push({ n, load, build, targets });
-  console.log(`${String(n).padStart(4)} stages: load ${load.toFixed(1)} ms, build chain ${build.toFixed(2)} ms, targets (200 trials) ${targets.toFixed(0)} ms`);
+  targetRows.push({ n, targets });
+  console.log(`${String(n).padStart(4)} stages: targets (200 trials, worst-case search included) ${targets.toFixed(0)} ms`);
 }
-for (let i = 1; i < rows.length; i++) {
-  const a = rows[i - 1];
-  const b = rows[i];
-  if (!a || !b) continue;
-  console.log(
-    `${a.n} → ${b.n} stages: load ×${(b.load / a.load).toFixed(2)}, build ×${(b.build / a.build).toFixed(2)}, targets ×${(b.targets / a.targets).toFixed(2)}`,
-  );
-}
+ratios(targetRows, ['targets']);

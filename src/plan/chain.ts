@@ -263,7 +263,9 @@ export function buildChain(plan: Plan): Chain {
     opamp: sp.stage.opamp,
     load: undefined,
   }));
-  const loadFns = stagePlans.map((sp, s) => loadFunction(sp.stage, s, stagePlans, sampleParts, impedanceArgs));
+  // Which sample the load functions' memory holds: `run` moves it on whenever it sets the parts and rails.
+  const sample = { generation: 0 };
+  const loadFns = stagePlans.map((sp, s) => loadFunction(sp.stage, s, stagePlans, sampleParts, impedanceArgs, sample));
   // A downstream passive stage's input depends on its own load: hand it its load function.
   impedanceArgs.forEach((a, i) => {
     a.load = loadFns[i];
@@ -347,6 +349,7 @@ export function buildChain(plan: Plan): Chain {
       for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
       sampleParts[s] = parts;
     }
+    sample.generation++;
     for (let s = 0; s < upTo; s++) {
       const sp = stagePlans[s] as StagePlan;
       let input: Waveform | undefined;
@@ -462,12 +465,29 @@ export function buildChain(plan: Plan): Chain {
   };
 }
 
+/** Places per output in a load function's memory of the current sample (2⁶: the place is a hash's top 6 bits, see `loadFunction`). */
+const rememberedLoads = 64;
+/** The bits of a frequency, to pick its place. */
+const frequencyBits = new Float64Array(1);
+const frequencyWords = new Uint32Array(frequencyBits.buffer);
+
 /**
  * The load on each output of stage `s` (EvalInput.load), or undefined when nothing
  * with an impedance takes any of its outputs. Sums admittances: every downstream
  * input on that output and any external `loads.<output>` resistance, in parallel.
  * Allocation-light: it keeps its lists and allocates only the impedances the kinds
  * return and the one it gives back.
+ *
+ * A passive taker's input impedance asks for its own load, so one call recurses
+ * down the chain: on a ladder of n loaded stages every stage asking its load at the
+ * signal's harmonics cost n² steps per sample. Each load function therefore
+ * remembers its answers for the current sample (`sample`, moved on by the chain
+ * whenever the parts or rails change) in `rememberedLoads` places per output, each
+ * frequency in the one place its bits pick: the first stage to ask at a harmonic
+ * fills every stage below it, the next ones find it. A corner search's frequencies
+ * are its own and may take a harmonic's place (it is then computed again). One
+ * compare per call: a least-recently-used list of 16 cost more on a miss than the
+ * misses it saved (measured on the 20-stage ladder of bench/plan-size.bench.ts).
  */
 function loadFunction(
   stage: PlanStage,
@@ -475,6 +495,7 @@ function loadFunction(
   plans: readonly { readonly stage: PlanStage; readonly inputStage: number }[],
   sampleParts: readonly Record<string, number>[],
   impedanceArgs: readonly ImpedanceArgs[],
+  sample: { readonly generation: number },
 ): ((output: string, f: number) => Complex | undefined) | undefined {
   const outputs = stage.module.outputs;
   const takers: number[][] = outputs.map((o) =>
@@ -482,9 +503,12 @@ function loadFunction(
   );
   const external = outputs.map((o) => (Object.hasOwn(stage.parts, `${externalLoadPrefix}${o}`) ? `${externalLoadPrefix}${o}` : ''));
   if (takers.every((t) => t.length === 0) && external.every((e) => e === '')) return undefined;
-  return (output, f) => {
-    const o = outputs.indexOf(output);
-    if (o < 0) return undefined;
+  const places = outputs.length * rememberedLoads;
+  const memoF = new Float64Array(places);
+  // The sample each place was filled for (0: none yet; the chain's first sample is 1).
+  const memoSample = new Float64Array(places);
+  const memoZ: (Complex | undefined)[] = new Array(places).fill(undefined);
+  const compute = (o: number, f: number): Complex | undefined => {
     let yre = 0;
     let yim = 0;
     let any = false;
@@ -508,5 +532,19 @@ function loadFunction(
     const d = yre * yre + yim * yim;
     if (d === 0) return undefined;
     return { re: yre / d, im: -yim / d };
+  };
+  return (output, f) => {
+    const o = outputs.indexOf(output);
+    if (o < 0) return undefined;
+    frequencyBits[0] = f;
+    // Both words mixed (a harmonic's multiple by a power of two differs only in its exponent), the top 6 bits kept.
+    const k = o * rememberedLoads + (Math.imul((frequencyWords[0] as number) ^ (frequencyWords[1] as number), 0x9e3779b1) >>> 26);
+    if (memoSample[k] === sample.generation && memoF[k] === f) return memoZ[k];
+    // Kinds never change an impedance they are given: the remembered object is handed out as is.
+    const z = compute(o, f);
+    memoF[k] = f;
+    memoZ[k] = z;
+    memoSample[k] = sample.generation;
+    return z;
   };
 }
