@@ -144,8 +144,9 @@ function secantCorner(mag2: (f: number) => number, guess: number, target: number
   let fa = Math.log(mag2(guess)) - target;
   if (!Number.isFinite(fa)) return Number.NaN;
   if (Math.abs(fa) < 1e-12) return guess;
-  // |h| falls with f: a positive excess puts the crossing above.
-  let b = fa > 0 ? a + 0.1 : a - 0.1;
+  // |h| falls with f, and ln|h|² against ln f falls with a slope near 1 at a single pole's
+  // corner: the crossing lies about the excess above (a step of at most one e-fold).
+  let b = a + Math.sign(fa) * Math.min(1, Math.max(0.1, Math.abs(fa)));
   let fb = Math.log(mag2(Math.exp(b))) - target;
   for (let i = 0; i < 12; i++) {
     if (!Number.isFinite(fb) || fb === fa) return Number.NaN;

@@ -102,14 +102,19 @@ interface HotArgs {
   fault?: StageFault | undefined;
 }
 
-/** What a stage kind's `inputImpedance` reads, for the current sample (parts looked up on each call). */
+/**
+ * What a stage kind's `inputImpedance` reads, for the current sample: `run` sets
+ * `parts` and `rails` as plain fields before any stage evaluates (getters closing
+ * over each stage made every object its own shape, and the impedance calls down a
+ * loaded chain slow property reads; measured on bench/plan-size.bench.ts).
+ */
 interface ImpedanceArgs {
-  readonly parts: Record<string, number>;
+  parts: Record<string, number>;
   readonly settings: unknown;
   readonly opamp: PlanStage['opamp'];
   load: ((output: string, f: number) => Complex | undefined) | undefined;
   /** The current sample's rails (a rail-tied stage sets its impedances from its operating point). */
-  readonly rails: Record<string, number>;
+  rails: Record<string, number>;
 }
 
 /** Op-amp keys a chain may vary, and where a stage's sampled value sits in `x` (−1: the plan's fixed value). */
@@ -251,14 +256,9 @@ export function buildChain(plan: Plan): Chain {
   // the parts of the current sample from `sampleParts`, which `run` fills for every
   // stage before it evaluates any: an upstream output depends on downstream parts.
   const sampleParts: Record<string, number>[] = stagePlans.map(() => ({}));
-  let sampleRails: Record<string, number> = {};
   const impedanceArgs: ImpedanceArgs[] = stagePlans.map((sp, i) => ({
-    get parts() {
-      return sampleParts[i] as Record<string, number>;
-    },
-    get rails() {
-      return sampleRails;
-    },
+    parts: sampleParts[i] as Record<string, number>,
+    rails: {},
     settings: sp.stage.settings,
     opamp: sp.stage.opamp,
     load: undefined,
@@ -326,7 +326,7 @@ export function buildChain(plan: Plan): Chain {
       const o = railDcOut[i] ?? -1;
       if (out && o >= 0) out[o] = v;
     }
-    sampleRails = rails;
+    for (const a of impedanceArgs) a.rails = rails;
     const pos = posIdx >= 0 ? (x[posIdx] ?? 0) : 0;
     const neg = negIdx >= 0 ? (x[negIdx] ?? 0) : 0;
     let supplies: Supplies;
@@ -348,6 +348,7 @@ export function buildChain(plan: Plan): Chain {
       const parts = keep ? {} : (hotArgs[s] as HotArgs).parts;
       for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
       sampleParts[s] = parts;
+      (impedanceArgs[s] as ImpedanceArgs).parts = parts;
     }
     sample.generation++;
     for (let s = 0; s < upTo; s++) {
