@@ -196,6 +196,58 @@ describe('other loaded chains', () => {
   });
 });
 
+describe('a ladder of RC low-passes, each loading the one before (invented values)', () => {
+  // Six sections with values of their own, so no two corners coincide; the last one unloaded.
+  const sections = [
+    { R: '1k', C: '10n' },
+    { R: '2k2', C: '4n7' },
+    { R: '680', C: '22n' },
+    { R: '4k7', C: '2n2' },
+    { R: '1k5', C: '6n8' },
+    { R: '3k3', C: '3n3' },
+  ];
+  const source = { id: 'in', kind: 'signal-in', shape: 'sine', peak: '1 V', frequency: '3 kHz' };
+  const stages = [source, ...sections.map((parts, i) => ({ id: `f${i}`, kind: 'rc-lowpass', input: i === 0 ? 'in.out' : `f${i - 1}.out`, parts }))];
+  const p = plan(stages, 'ladder');
+
+  test('every corner (AC sweep, everything downstream connected) and every level (transient) as ngspice says', () => {
+    const v = nominal(p);
+    const ids = sections.map((_, i) => `f${i}`);
+    const s = spiceVpp(
+      p,
+      3000,
+      ids.map((id) => `${id}.out`),
+    );
+    for (const id of ids) {
+      expect(rel(v[`${id}.out.vpp`] as number, s[`${id}.out`] as number)).toBeLessThan(0.02);
+      expect(rel(v[`${id}.fc`] as number, spiceCorner(p, id))).toBeLessThan(0.02);
+    }
+  });
+
+  test('the loads remembered per sample never outlive it: moving one part and back gives the first figures bit for bit', () => {
+    const chain = buildChain(p);
+    const first = new Float64Array(chain.checks.length);
+    const moved = new Float64Array(chain.checks.length);
+    const again = new Float64Array(chain.checks.length);
+    chain.evaluate(chain.nominal, first);
+    const x = Float64Array.from(chain.nominal);
+    // The last section's C: it reaches every stage's load.
+    const at = chain.variables.findIndex((v) => v.name === 'f5.C');
+    x[at] = (x[at] as number) * 1.05;
+    chain.evaluate(x, moved);
+    chain.evaluate(chain.nominal, again);
+    expect(Array.from(again)).toEqual(Array.from(first));
+    // The first section's corner felt the move at the far end of the ladder (a stale load would not).
+    const fc0 = chain.checks.findIndex((c) => c.check === 'f0.fc');
+    expect(moved[fc0]).not.toBe(first[fc0]);
+    // And a chain built afresh at the moved point agrees with the one that moved.
+    const fresh = buildChain(p);
+    const out = new Float64Array(fresh.checks.length);
+    fresh.evaluate(x, out);
+    expect(Array.from(out)).toEqual(Array.from(moved));
+  });
+});
+
 describe('plan keys for loading', () => {
   test('an external load on an output the stage does not have is a plan error naming the path', () => {
     expect(() => plan([{ id: 'in', kind: 'signal-in', shape: 'sine', peak: '1 V', frequency: '1 kHz', loads: { line: '600 ohm' } }])).toThrow(
