@@ -143,13 +143,14 @@ function secantCorner(mag2: (f: number) => number, guess: number, target: number
   let a = x0;
   let fa = Math.log(mag2(guess)) - target;
   if (!Number.isFinite(fa)) return Number.NaN;
-  if (Math.abs(fa) < 1e-12) return guess;
   // |h| falls with f, and ln|h|² against ln f falls with a slope near 1 at a single pole's
   // corner: the crossing lies about the excess above (a step of at most one e-fold).
-  let b = a + Math.sign(fa) * Math.min(1, Math.max(0.1, Math.abs(fa)));
+  let b = a + (fa >= 0 ? 1 : -1) * Math.min(1, Math.max(0.1, Math.abs(fa)));
   let fb = Math.log(mag2(Math.exp(b))) - target;
   for (let i = 0; i < 12; i++) {
-    if (!Number.isFinite(fb) || fb === fa) return Number.NaN;
+    // Only a falling crossing is the corner (as the bracket takes it); anything else goes to the bracket.
+    if (!Number.isFinite(fb) || !((fb - fa) / (b - a) < 0)) return Number.NaN;
+    if (Math.abs(fb) < 1e-12) return Math.exp(b);
     const x = b - (fb * (b - a)) / (fb - fa);
     if (!(Math.abs(x - x0) < Math.LN10)) return Number.NaN;
     if (Math.abs(x - b) < 1e-10) return Math.exp(x);
@@ -157,7 +158,6 @@ function secantCorner(mag2: (f: number) => number, guess: number, target: number
     fa = fb;
     b = x;
     fb = Math.log(mag2(Math.exp(b))) - target;
-    if (Math.abs(fb) < 1e-12) return Math.exp(b);
   }
   return Number.NaN;
 }

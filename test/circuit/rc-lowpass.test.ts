@@ -101,4 +101,29 @@ describe('loadedCorner (the bracketing search behind the loaded corner)', () => 
     expect(Math.abs(loadedCorner(mag2, expected * 3) / expected - 1)).toBeLessThan(1e-8);
     expect(Math.abs(loadedCorner(mag2, expected / 50) / expected - 1)).toBeLessThan(1e-8);
   });
+
+  test('a response that rises again (a resonant load): started on the rising crossing, it still returns a falling one', async () => {
+    const { loadedCorner } = await import('../../src/circuit/rc-lowpass.js');
+    // A single pole at 1 kHz times a resonant bump at 20 kHz, +30 dB at its top (|h|² ×1000), Q 10:
+    // |1 − u² + j·u·G/Q|² / |1 − u² + j·u/Q|², u = f/f0 (a second-order section's magnitude, any filter handbook).
+    const g = Math.sqrt(1000);
+    const mag2 = (f: number): number => {
+      const u = f / 20_000;
+      const bump = ((1 - u * u) ** 2 + ((u * g) / 10) ** 2) / ((1 - u * u) ** 2 + (u / 10) ** 2);
+      return bump / (1 + (f / 1000) ** 2);
+    };
+    // The rising crossing below the bump, by a scan (half of |h(0)|² = 0.5).
+    let rising = Number.NaN;
+    for (let f = 2000; f < 20_000; f *= 1.001) {
+      if (mag2(f) < 0.5 && mag2(f * 1.001) >= 0.5) {
+        rising = f;
+        break;
+      }
+    }
+    expect(rising).toBeGreaterThan(2000);
+    const fc = loadedCorner(mag2, rising);
+    // Falling through half there: above it just before, below it just after.
+    expect(mag2(fc * 0.999)).toBeGreaterThan(0.5);
+    expect(mag2(fc * 1.001)).toBeLessThan(0.5);
+  });
 });
