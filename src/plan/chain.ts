@@ -466,6 +466,9 @@ export function buildChain(plan: Plan): Chain {
   };
 }
 
+/** A taker's `inputImpedance`, as the load function calls it. */
+type TakerImpedance = (x: ImpedanceArgs, f: number) => Complex | undefined;
+
 /** Places per output in a load function's memory of the current sample (2⁶: the place is a hash's top 6 bits, see `loadFunction`). */
 const rememberedLoads = 64;
 /** The bits of a frequency, to pick its place. */
@@ -504,6 +507,9 @@ function loadFunction(
   );
   const external = outputs.map((o) => (Object.hasOwn(stage.parts, `${externalLoadPrefix}${o}`) ? `${externalLoadPrefix}${o}` : ''));
   if (takers.every((t) => t.length === 0) && external.every((e) => e === '')) return undefined;
+  // Each taker's impedance function and arguments, looked up once (the calls run n² times down a ladder).
+  const takerImpedance = takers.map((list) => list.map((t) => plans[t]?.stage.module.inputImpedance as unknown as TakerImpedance));
+  const takerArgs = takers.map((list) => list.map((t) => impedanceArgs[t] as ImpedanceArgs));
   const places = outputs.length * rememberedLoads;
   const memoF = new Float64Array(places);
   // The sample each place was filled for (0: none yet; the chain's first sample is 1).
@@ -513,9 +519,10 @@ function loadFunction(
     let yre = 0;
     let yim = 0;
     let any = false;
-    for (const t of takers[o] as number[]) {
-      const p = plans[t] as { stage: PlanStage };
-      const z = p.stage.module.inputImpedance?.(impedanceArgs[t] as never, f);
+    const fns = takerImpedance[o] as TakerImpedance[];
+    const args = takerArgs[o] as ImpedanceArgs[];
+    for (let k = 0; k < fns.length; k++) {
+      const z = (fns[k] as TakerImpedance)(args[k] as ImpedanceArgs, f);
       if (!z || !Number.isFinite(z.re) || !Number.isFinite(z.im)) continue;
       const d = z.re * z.re + z.im * z.im;
       if (d === 0) return { re: 0, im: 0 };
