@@ -4,12 +4,12 @@
 // Loading, building and one evaluation run at 50, 100 and 200 stages (200 is the
 // plan limit). Loading and building are linear (about 2× per doubling). One
 // evaluation asks every stage's load at its corner-search frequencies, each a pass
-// down the rest of the ladder: about 2.5–3× per doubling (the harmonics are
+// down the rest of the ladder: about 2–3× per doubling (the harmonics are
 // remembered per sample, src/plan/chain.ts). `computeTargets` runs the worst-case
 // search over every part for every stage (stages × parts evaluations, each of the
-// whole chain): it grows about 8–10× per doubling (measured 10 → 20 → 40 stages:
-// 0.37, 2.8, 28 s), so it runs at 5, 10 and 20 stages only; 200 stages would take
-// hours (see src/plan/read-file.ts).
+// whole chain): measured 10 → 20 → 40 stages 0.23, 1.4, 20 s (×6, ×14 per
+// doubling; 0.43, 4.3, 56 s before the loads were remembered), so it runs at 5,
+// 10 and 20 stages only; 200 stages would take hours (see src/plan/read-file.ts).
 import { buildChain } from '../src/plan/chain.js';
 import { loadPlanText } from '../src/plan/load.js';
 import { computeTargets } from '../src/analysis/targets.js';

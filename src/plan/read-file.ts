@@ -11,8 +11,8 @@ import { PlanError } from './errors.js';
  * every part reaches every stage and one evaluation grows faster than the stages
  * (each corner search asks the load down the rest of the chain). Measured on a
  * ladder of loaded RC low-passes (bench/plan-size.bench.ts, 200 trials, on a
- * shared 2-core machine): 10 stages 0.4 s, 20 stages 2.8 s, 40 stages 28 s, about
- * 8–10× per doubling, so a fully loaded chain of 200 stages would take hours. A
+ * shared 2-core machine): 10 stages 0.23 s, 20 stages 1.4 s, 40 stages 20 s,
+ * 6–14× per doubling, so a fully loaded chain of 200 stages would take hours. A
  * chain whose stages are buffered (an op-amp output feels no load) stays far
  * cheaper: its parts reach only their own stage and those after it.
  */
