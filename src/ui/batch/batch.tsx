@@ -12,13 +12,39 @@ import { BatchPanel } from './batch-panel.js';
 import { BatchTable, checkLabeller } from './batch-table.js';
 import { FilterForm } from './filter-form.js';
 import { useBatchKeys } from './use-batch-keys.js';
-import { batchPanels, selectedCheck, useBatchState } from './use-batch-state.js';
+import { type BatchState, batchPanels, selectedCheck, useBatchState } from './use-batch-state.js';
+
+/** The one warning line over the figures: that some checks are shown without bands, and why (the first reason); said first, so a narrow terminal keeps it. */
+export function problemLine(problems: readonly { readonly message: string }[]): string {
+  const first = problems[0]?.message ?? '';
+  if (problems.length === 1) return `without bands: ${first}`;
+  return `${problems.length} plan revisions without bands; first: ${first}`;
+}
+
+/** The line while the index is read, the targets computed or the boards scanned, and what keys work meanwhile. */
+function BatchProgress({ state }: { readonly state: BatchState }) {
+  const p = state.progress;
+  let line: string;
+  if (p?.isPercent) line = `${p.what}… ${Math.min(100, Math.round((100 * p.done) / Math.max(1, p.total)))} %`;
+  else if (p) line = `${p.what}: ${p.done} of ${p.total}…`;
+  else line = state.status === 'loading' ? 'Reading the index…' : 'Scanning boards…';
+  return (
+    <Box flexDirection="column">
+      <Text wrap="truncate-end">{line}</Text>
+      {p?.isPercent ? (
+        <Text {...toneProps('dim')} wrap="wrap">
+          Worst case and Monte Carlo, once per plan revision, then kept in the targets cache. Esc leaves (the computation goes on and is kept) · ? help
+        </Text>
+      ) : null}
+    </Box>
+  );
+}
 
 const panelLabel = { histogram: 'Histogram', trend: 'Trend', outliers: 'Outliers' } as const;
 
 /** Every check across the boards: yield, spread, capability, with histogram, trend and outliers. */
-export function BatchScreen({ log, width, height, isActive = true, onExit, onOpenBoard, onTypingChange, targetsCache }: BatchProps) {
-  const { state, dispatch } = useBatchState(log, targetsCache);
+export function BatchScreen({ log, width, height, isActive = true, onExit, onOpenBoard, onTypingChange, catalog, targetsCache }: BatchProps) {
+  const { state, dispatch } = useBatchState(log, catalog, targetsCache);
   const isTyping = state.form !== null && state.form !== undefined;
   useEffect(() => onTypingChange?.(isTyping), [isTyping, onTypingChange]);
   const rest = Math.max(6, height - 6);
@@ -34,10 +60,8 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
     body = <HelpBox title="batch" topic="the filter form" entries={filterFormHelp} notes={filterFormNotes} width={width} />;
   else if (state.form) body = <FilterForm form={state.form} cursor={cursor} width={width} />;
   else if (state.status === 'error') body = <Text {...toneProps('bad')}>Cannot review the batch: {state.message}</Text>;
-  else if (state.status !== 'ready' || !figures) {
-    const p = state.progress;
-    body = <Text>{p ? `${p.what}: ${p.done} of ${p.total}…` : state.status === 'loading' ? 'Reading the index…' : 'Scanning boards…'}</Text>;
-  } else if (!check) body = <Text>No readings match {describeFilter(state.filter)}. Press f to change the filter, or record readings first.</Text>;
+  else if (state.status !== 'ready' || !figures) body = <BatchProgress state={state} />;
+  else if (!check) body = <Text>No readings match {describeFilter(state.filter)}. Press f to change the filter, or record readings first.</Text>;
   else
     body = (
       <>
@@ -63,7 +87,7 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
       <Header screen="batch" detail={describeFilter(state.filter)} note={note} width={width} />
       {figures && figures.problems.length > 0 ? (
         <Text {...toneProps('warn')} wrap="truncate-end">
-          ! {figures.problems[0]?.message}
+          ! {problemLine(figures.problems)}
         </Text>
       ) : null}
       <Box flexDirection="column" flexGrow={1}>
