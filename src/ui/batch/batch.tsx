@@ -7,38 +7,13 @@ import { HelpBox } from '../components/help-box.js';
 import { KeyBar } from '../components/key-bar.js';
 import type { BatchProps } from '../screen-props.js';
 import { toneProps } from '../theme.js';
+import { BatchProgress, problemLine } from './batch-progress.js';
 import { batchHelp, batchHints, batchNotes, filterFormHelp, filterFormNotes } from './batch-help.js';
 import { BatchPanel } from './batch-panel.js';
 import { BatchTable, checkLabeller } from './batch-table.js';
 import { FilterForm } from './filter-form.js';
 import { useBatchKeys } from './use-batch-keys.js';
-import { type BatchState, batchPanels, selectedCheck, useBatchState } from './use-batch-state.js';
-
-/** The one warning line over the figures: that some checks are shown without bands, and why (the first reason); said first, so a narrow terminal keeps it. */
-export function problemLine(problems: readonly { readonly message: string }[]): string {
-  const first = problems[0]?.message ?? '';
-  if (problems.length === 1) return `without bands: ${first}`;
-  return `${problems.length} plan revisions without bands; first: ${first}`;
-}
-
-/** The line while the index is read, the targets computed or the boards scanned, and what keys work meanwhile. */
-function BatchProgress({ state }: { readonly state: BatchState }) {
-  const p = state.progress;
-  let line: string;
-  if (p?.isPercent) line = `${p.what}… ${Math.min(100, Math.round((100 * p.done) / Math.max(1, p.total)))} %`;
-  else if (p) line = `${p.what}: ${p.done} of ${p.total}…`;
-  else line = state.status === 'loading' ? 'Reading the index…' : 'Scanning boards…';
-  return (
-    <Box flexDirection="column">
-      <Text wrap="truncate-end">{line}</Text>
-      {p?.isPercent ? (
-        <Text {...toneProps('dim')} wrap="wrap">
-          Worst case and Monte Carlo, once per plan revision, then kept in the targets cache. Esc leaves (the computation goes on and is kept) · ? help
-        </Text>
-      ) : null}
-    </Box>
-  );
-}
+import { batchPanels, selectedCheck, useBatchState } from './use-batch-state.js';
 
 const panelLabel = { histogram: 'Histogram', trend: 'Trend', outliers: 'Outliers' } as const;
 

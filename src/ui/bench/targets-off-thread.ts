@@ -31,9 +31,6 @@ export function targetsOffThread(plan: Plan, trials: number, seed: number, onPro
   if (!start) return null;
   return new Promise((resolve, reject) => {
     const worker = new Worker(start.script, { eval: start.isEval, workerData: { text: plan.text, file: plan.file, trials, seed } });
-    // The worker alone never keeps the process alive: quitting the app while it
-    // computes ends at once (its result was only going to the cache).
-    worker.unref();
     let settled = false;
     const finish = (action: () => void) => {
       if (settled) return;
@@ -48,5 +45,9 @@ export function targetsOffThread(plan: Plan, trials: number, seed: number, onPro
     });
     worker.on('error', (error) => finish(() => reject(error)));
     worker.on('exit', (code) => finish(() => reject(new Error(`the targets worker stopped (exit ${code})`))));
+    // The worker alone never keeps the process alive: quitting the app while it computes
+    // ends at once (its result was only going to the cache). After the listeners: adding
+    // a 'message' listener refs the worker again (Node 20, tried).
+    worker.unref();
   });
 }
