@@ -163,7 +163,7 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
       </WithTargets>
     );
   } else if (route.screen === 'history') {
-    screen = <HistoryScreen {...common} serial={route.serial} targetsCache={ready.catalog.targetsCache} onTypingChange={setTyping} />;
+    screen = <HistoryScreen {...common} serial={route.serial} catalog={ready.catalog} onTypingChange={setTyping} />;
   } else if (route.screen === 'batch') {
     screen = <BatchScreen {...common} catalog={ready.catalog} onTypingChange={setTyping} onOpenBoard={(serial) => push({ screen: 'history', serial })} />;
   } else if (route.screen === 'plan') {

@@ -37,7 +37,9 @@ export interface BringUpProps extends ScreenProps {
 
 export interface HistoryProps extends ScreenProps {
   readonly serial: string;
-  /** The targets cache of the app (the plan catalog's). @default a cache in memory */
+  /** The app's plans: the bands come through it (its targets cache, its worker). @default a catalog of the log's snapshots over `targetsCache` */
+  readonly catalog?: PlanCatalog;
+  /** The targets cache, when no catalog is given. @default a cache in memory */
   readonly targetsCache?: TargetsCache;
 }
 

@@ -4,6 +4,7 @@ import { beforeAll, describe, expect, test } from 'vitest';
 import { computeTargets } from '../../src/analysis/targets.js';
 import { TargetsCache } from '../../src/log/targets-cache.js';
 import { BatchScreen } from '../../src/ui/batch/batch.js';
+import { HistoryScreen } from '../../src/ui/history/history.js';
 import { PlanCatalog } from '../../src/ui/bench/plan-catalog.js';
 import { fillDemoLog } from '../review/demo-boards.js';
 import { makeLog, type TestLog } from '../review/real-log.js';
@@ -101,4 +102,24 @@ describe('batch screen targets off the UI thread', () => {
     expect(second.frames.some((frame) => frame.includes('computing the targets'))).toBe(false);
     second.unmount();
   }, 60_000);
+});
+
+describe('history screen targets off the UI thread', () => {
+  test('a board whose plan has no cached targets: progress, keys answered, then the timeline', async () => {
+    const catalog = catalogOf(600_000);
+    let exits = 0;
+    const r = render(<HistoryScreen log={t.log} serial="PB-0003" catalog={catalog} width={80} height={23} onExit={() => void exits++} />);
+    const s = driveScreen(r);
+    await s.waitFor(/computing the targets of osc-demo… \d+ %/, 20_000);
+    await s.press('?');
+    await s.waitFor('Help');
+    await s.press(keys.escape);
+    await s.press(keys.escape);
+    expect(exits).toBe(1);
+    expect(catalog.hasTargets(t.plan)).toBe(false);
+    s.unmount();
+    const again = driveScreen(render(<HistoryScreen log={t.log} serial="PB-0003" catalog={catalog} width={80} height={23} onExit={() => undefined} />));
+    await again.waitFor('osc.Ct', 60_000);
+    again.unmount();
+  }, 90_000);
 });
