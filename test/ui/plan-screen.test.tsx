@@ -69,6 +69,24 @@ describe('plan screen', () => {
     expect(frame).toContain('statistical');
   });
 
+  test('contributors carry the designators the plan names in its refs', async () => {
+    const freq = targets.targets.find((t) => t.check === 'osc.freq');
+    const part = freq?.contributors[0]?.part ?? '';
+    const [stage = '', role = ''] = part.split('.');
+    // Name that part's designator (invented) in the plan's refs, and nothing else.
+    const withRefs = loadPlanText(
+      JSON.stringify({ ...fixturePlan, stages: fixturePlan.stages.map((st) => (st.id === stage ? { ...st, refs: { [role]: 'C42' } } : st)) }),
+      'refs.plan.json',
+    );
+    const s = await show(80, 40, withRefs, targets);
+    const row = s
+      .frame()
+      .split('\n')
+      .find((line) => line.includes('osc.freq'));
+    expect(row).toContain(`${part} (C42)`);
+    expect(formatContributor(freq?.contributors[0], new Map([[part, 'C42']]))).toMatch(/^\S+ \(C42\) \d+%$/);
+  });
+
   test('the statistical band gets its own column on a wide terminal', async () => {
     const s = await show(130, 40);
     const freq = targets.targets.find((t) => t.check === 'osc.freq');

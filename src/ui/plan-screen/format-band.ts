@@ -1,4 +1,5 @@
 import type { Band, Contributor, Target } from '../../analysis/types.js';
+import { partWithRef } from '../../plan/refs.js';
 import { formatValue } from '../../units/format.js';
 import type { Unit } from '../../units/unit.js';
 
@@ -12,11 +13,13 @@ export function formatBand(band: Band, unit: Unit, digits = 4): string {
   return 'any value';
 }
 
-/** The largest contributor as `osc.Ct 62 %`, or `—`. */
-export function formatContributor(c: Contributor | undefined): string {
+/** The largest contributor as `osc.Ct 62%` (`osc.Ct (C7) 62%` when the plan names its designator), or `—`. */
+export function formatContributor(c: Contributor | undefined, refs: ReadonlyMap<string, string> = noRefs): string {
   if (!c) return '—';
-  return `${c.part} ${Math.round(c.share * 100)}%`;
+  return `${partWithRef(c.part, refs)} ${Math.round(c.share * 100)}%`;
 }
+
+const noRefs: ReadonlyMap<string, string> = new Map();
 
 /** The nominal, or for one-sided limits (no expected value) a dash. */
 export function formatNominal(t: Pick<Target, 'nominal' | 'unit' | 'phase' | 'worst'>): string {

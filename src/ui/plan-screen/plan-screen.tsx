@@ -1,6 +1,7 @@
-import { useRef } from 'react';
+import { useMemo, useRef } from 'react';
 import { Box, Text } from 'ink';
 import type { TargetSet } from '../../analysis/types.js';
+import { refsOfPlanText } from '../../plan/refs.js';
 import type { Plan } from '../../plan/types.js';
 import type { ScreenProps } from '../screen-props.js';
 import { Header } from '../components/header.js';
@@ -32,6 +33,7 @@ export function PlanScreen({ plan, targets, width, height, isActive = true, onEx
   const view = scrollWindow(targets.targets.length, state.selected, tableRows, start.current);
   start.current = view.start;
   const target = targets.targets[state.selected];
+  const refs = useMemo(() => refsOfPlanText(plan.text), [plan.text]);
 
   if (state.isHelpOpen)
     return (
@@ -55,8 +57,8 @@ export function PlanScreen({ plan, targets, width, height, isActive = true, onEx
           ⚠ {w.stage}: {w.message}
         </Text>
       ))}
-      <TargetsTable targets={targets.targets} start={view.start} rows={tableRows} selected={state.selected} width={width} isFocused={!warnFocus} />
-      {target ? <TargetDetail target={target} width={width} /> : <Text>This plan has no checks.</Text>}
+      <TargetsTable targets={targets.targets} start={view.start} rows={tableRows} selected={state.selected} width={width} isFocused={!warnFocus} refs={refs} />
+      {target ? <TargetDetail target={target} width={width} refs={refs} /> : <Text>This plan has no checks.</Text>}
       <Box flexGrow={1} />
       <KeyBar hints={onEdit ? planKeys : planKeys.filter(([k]) => k !== 'e')} width={width} />
     </Box>

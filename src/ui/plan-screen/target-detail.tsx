@@ -1,18 +1,20 @@
 import { Box, Text } from 'ink';
 import type { Target } from '../../analysis/types.js';
 import { toneProps } from '../theme.js';
-import { formatBand, formatNominal, phaseWord } from './format-band.js';
+import { formatBand, formatContributor, formatNominal, phaseWord } from './format-band.js';
 
 export interface TargetDetailProps {
   readonly target: Target;
   readonly width: number;
+  /** Designators by part, from the plan's `refs`. */
+  readonly refs?: ReadonlyMap<string, string>;
 }
 
 /** Everything about the selected target, in four short lines. */
-export function TargetDetail({ target: t, width }: TargetDetailProps) {
+export function TargetDetail({ target: t, width, refs }: TargetDetailProps) {
   const shares = t.contributors
     .slice(0, 4)
-    .map((c) => `${c.part} ${Math.round(c.share * 100)} %`)
+    .map((c) => formatContributor(c, refs))
     .join(', ');
   return (
     <Box flexDirection="column" width={width}>

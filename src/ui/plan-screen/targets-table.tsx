@@ -12,6 +12,8 @@ export interface TargetsTableProps {
   readonly width: number;
   /** Whether the table has the keys (the selection is drawn inverse only then). */
   readonly isFocused: boolean;
+  /** Designators by part (`osc.Ct` → `C7`), from the plan's `refs`. */
+  readonly refs?: ReadonlyMap<string, string>;
 }
 
 /** Column widths for a terminal width: the statistical band only from 104 columns. */
@@ -29,7 +31,7 @@ export function tableLayout(width: number) {
 }
 
 /** The targets table of the plan screen: one row per check, in bring-up order. */
-export function TargetsTable({ targets, start, rows, selected, width, isFocused }: TargetsTableProps) {
+export function TargetsTable({ targets, start, rows, selected, width, isFocused, refs }: TargetsTableProps) {
   const col = tableLayout(width);
   const head =
     '  ' +
@@ -52,7 +54,7 @@ export function TargetsTable({ targets, start, rows, selected, width, isFocused 
             {cell(t.check, col.check - 1)} {cell(t.testPoint ?? '—', col.tp)}
             {cell(formatNominal(t), col.nominal - 1)} {cell(formatBand(t.worst, t.unit), col.band - 1)}{' '}
             {col.showStat ? `${cell(formatBand(t.stat, t.unit), col.band - 1)} ` : ''}
-            {cell(formatContributor(t.contributors[0]), col.contributor)}
+            {cell(formatContributor(t.contributors[0], refs), col.contributor)}
           </Text>
         );
       })}
