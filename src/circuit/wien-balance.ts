@@ -88,8 +88,8 @@ function fillInput(v: Float64Array, a: number, harmonics: Float64Array): void {
     const hr = harmonics[2 * k] as number;
     const hi = harmonics[2 * k + 1] as number;
     if (hr === 0 && hi === 0) continue;
-    for (let i = 0; i < m; i++) {
-      const j = (k * i) % m;
+    // j = k·i mod m, stepped instead of divided (the same table entries, the same sums).
+    for (let i = 0, j = 0; i < m; i++, j = j + k >= m ? j + k - m : j + k) {
       v[i] = (v[i] as number) + hr * (cos[j] as number) - hi * (sin[j] as number);
     }
   }
@@ -102,8 +102,7 @@ function phasor(x: Float64Array, k: number, out: ComplexSlot): void {
   const { cos, sin } = tables(m);
   let re = 0;
   let im = 0;
-  for (let i = 0; i < m; i++) {
-    const j = (k * i) % m;
+  for (let i = 0, j = 0; i < m; i++, j = j + k >= m ? j + k - m : j + k) {
     re += (x[i] as number) * (cos[j] as number);
     im -= (x[i] as number) * (sin[j] as number);
   }

@@ -163,16 +163,9 @@ export function App({ log, catalog, operator, size, initialRoute = { screen: 'be
       </WithTargets>
     );
   } else if (route.screen === 'history') {
-    screen = <HistoryScreen {...common} serial={route.serial} targetsCache={ready.catalog.targetsCache} onTypingChange={setTyping} />;
+    screen = <HistoryScreen {...common} serial={route.serial} catalog={ready.catalog} onTypingChange={setTyping} />;
   } else if (route.screen === 'batch') {
-    screen = (
-      <BatchScreen
-        {...common}
-        targetsCache={ready.catalog.targetsCache}
-        onTypingChange={setTyping}
-        onOpenBoard={(serial) => push({ screen: 'history', serial })}
-      />
-    );
+    screen = <BatchScreen {...common} catalog={ready.catalog} onTypingChange={setTyping} onOpenBoard={(serial) => push({ screen: 'history', serial })} />;
   } else if (route.screen === 'plan') {
     const { planEditing: access } = ready;
     screen = (

@@ -3,6 +3,7 @@ import type { TargetsCache } from '../log/targets-cache.js';
 import type { BenchLog } from '../log/types.js';
 import type { InstrumentSource } from '../bench/source.js';
 import type { Plan } from '../plan/types.js';
+import type { PlanCatalog } from './bench/plan-catalog.js';
 
 /** Props every full screen gets from `app.tsx`. */
 export interface ScreenProps {
@@ -36,13 +37,17 @@ export interface BringUpProps extends ScreenProps {
 
 export interface HistoryProps extends ScreenProps {
   readonly serial: string;
-  /** The targets cache of the app (the plan catalog's). @default a cache in memory */
+  /** The app's plans: the bands come through it (its targets cache, its worker). @default a catalog of the log's snapshots over `targetsCache` */
+  readonly catalog?: PlanCatalog;
+  /** The targets cache, when no catalog is given. @default a cache in memory */
   readonly targetsCache?: TargetsCache;
 }
 
 export interface BatchProps extends ScreenProps {
   /** Open a board's history (from an outlier). */
   readonly onOpenBoard: (serial: string) => void;
-  /** The targets cache of the app (the plan catalog's). @default a cache in memory */
+  /** The app's plans: the bands come through it (its targets cache, its worker). @default a catalog of the log's snapshots over `targetsCache` */
+  readonly catalog?: PlanCatalog;
+  /** The targets cache, when no catalog is given. @default a cache in memory */
   readonly targetsCache?: TargetsCache;
 }

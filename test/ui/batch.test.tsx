@@ -89,4 +89,26 @@ describe('batch screen', () => {
     expect(s.frame()).toContain('filter by plan, plan revision (hash) and date range');
     s.unmount();
   });
+
+  test('keys in one chunk: "jj" moves twice, "f" with text behind it opens the form holding the text', async () => {
+    const s = screen();
+    await s.waitFor('[Histogram]');
+    const selected = () =>
+      s
+        .frame()
+        .split('\n')
+        .find((l) => l.startsWith('›')) ?? '';
+    const rows = s
+      .frame()
+      .split('\n')
+      .filter((l) => /^[ ›](osc|rails)\./.test(l));
+    const third = rows[2]?.slice(1, 20).trim() ?? '';
+    expect(third).toMatch(/^(osc|rails)\./);
+    expect(selected()).not.toContain(third);
+    await s.press('jj');
+    expect(selected()).toContain(third);
+    await s.press('fnone\r');
+    await s.waitFor('No readings match plan none');
+    s.unmount();
+  });
 });

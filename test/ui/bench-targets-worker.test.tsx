@@ -1,3 +1,5 @@
+import { spawnSync } from 'node:child_process';
+import { join } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { computeTargets } from '../../src/analysis/targets.js';
 import { loadPlanText } from '../../src/plan/load.js';
@@ -24,4 +26,25 @@ describe('targets off the UI thread', () => {
     const broken = { ...plan, text: '{"plan": "x"', file: 'broken.plan.json' };
     await expect(targetsOffThread(broken, 100, 1)).rejects.toThrow(/broken\.plan\.json/);
   });
+
+  test('a running worker never keeps the process alive by itself (quitting the app does not wait for it)', () => {
+    // A script that starts a long computation and has nothing else to do: it must end without
+    // waiting for the worker. Were it held, "done" would be printed when the targets arrived.
+    const root = join(import.meta.dirname, '..', '..');
+    const script = `
+      import { loadPlanText } from ${JSON.stringify(join(root, 'src/plan/load.ts'))};
+      import { targetsOffThread } from ${JSON.stringify(join(root, 'src/ui/bench/targets-off-thread.ts'))};
+      const plan = loadPlanText(process.argv[1], 'fixture.plan.json');
+      targetsOffThread(plan, 5000000, 1, (done) => done > 0 && console.log('progress'))?.then(() => console.log('done'));
+      console.log('started');`;
+    const run = spawnSync(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script, JSON.stringify(fixturePlan)], {
+      cwd: root,
+      encoding: 'utf8',
+      timeout: 60_000,
+    });
+    expect(run.error).toBeUndefined();
+    expect(run.status, run.stderr).toBe(0);
+    expect(run.stdout).toContain('started');
+    expect(run.stdout).not.toContain('done');
+  }, 70_000);
 });

@@ -7,6 +7,7 @@ import { HelpBox } from '../components/help-box.js';
 import { KeyBar } from '../components/key-bar.js';
 import type { BatchProps } from '../screen-props.js';
 import { toneProps } from '../theme.js';
+import { BatchProgress, problemLine } from './batch-progress.js';
 import { batchHelp, batchHints, batchNotes, filterFormHelp, filterFormNotes } from './batch-help.js';
 import { BatchPanel } from './batch-panel.js';
 import { BatchTable, checkLabeller } from './batch-table.js';
@@ -17,8 +18,8 @@ import { batchPanels, selectedCheck, useBatchState } from './use-batch-state.js'
 const panelLabel = { histogram: 'Histogram', trend: 'Trend', outliers: 'Outliers' } as const;
 
 /** Every check across the boards: yield, spread, capability, with histogram, trend and outliers. */
-export function BatchScreen({ log, width, height, isActive = true, onExit, onOpenBoard, onTypingChange, targetsCache }: BatchProps) {
-  const { state, dispatch } = useBatchState(log, targetsCache);
+export function BatchScreen({ log, width, height, isActive = true, onExit, onOpenBoard, onTypingChange, catalog, targetsCache }: BatchProps) {
+  const { state, dispatch } = useBatchState(log, catalog, targetsCache);
   const isTyping = state.form !== null && state.form !== undefined;
   useEffect(() => onTypingChange?.(isTyping), [isTyping, onTypingChange]);
   const rest = Math.max(6, height - 6);
@@ -34,10 +35,8 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
     body = <HelpBox title="batch" topic="the filter form" entries={filterFormHelp} notes={filterFormNotes} width={width} />;
   else if (state.form) body = <FilterForm form={state.form} cursor={cursor} width={width} />;
   else if (state.status === 'error') body = <Text {...toneProps('bad')}>Cannot review the batch: {state.message}</Text>;
-  else if (state.status !== 'ready' || !figures) {
-    const p = state.progress;
-    body = <Text>{p ? `${p.what}: ${p.done} of ${p.total}…` : state.status === 'loading' ? 'Reading the index…' : 'Scanning boards…'}</Text>;
-  } else if (!check) body = <Text>No readings match {describeFilter(state.filter)}. Press f to change the filter, or record readings first.</Text>;
+  else if (state.status !== 'ready' || !figures) body = <BatchProgress state={state} />;
+  else if (!check) body = <Text>No readings match {describeFilter(state.filter)}. Press f to change the filter, or record readings first.</Text>;
   else
     body = (
       <>
@@ -63,7 +62,7 @@ export function BatchScreen({ log, width, height, isActive = true, onExit, onOpe
       <Header screen="batch" detail={describeFilter(state.filter)} note={note} width={width} />
       {figures && figures.problems.length > 0 ? (
         <Text {...toneProps('warn')} wrap="truncate-end">
-          ! {figures.problems[0]?.message}
+          ! {problemLine(figures.problems)}
         </Text>
       ) : null}
       <Box flexDirection="column" flexGrow={1}>

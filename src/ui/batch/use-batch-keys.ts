@@ -1,4 +1,6 @@
-import { useInput } from 'ink';
+import { type Key, useInput } from 'ink';
+import { keysWithRest } from '../components/key-chunks.js';
+import { plainKey } from '../components/type-ahead.js';
 import { useRef, useState, type Dispatch } from 'react';
 import { useTextField } from '../components/use-text-field.js';
 import { filterFields, formFromFilter, moveField, setFieldValue } from './filter-form-state.js';
@@ -57,38 +59,48 @@ export function useBatchKeys(state: BatchState, dispatch: Dispatch<BatchAction>,
     },
   });
   useInput(
-    (input, key) => {
-      const state = latest.current;
-      if (state.form && formHelp.current) {
-        if (input === '?' || key.escape) showFormHelp(false);
-        return;
-      }
-      if (state.form) return field.handle(input, key);
-      if (input === '?') return act({ type: 'toggle-help' });
-      if (key.escape) {
-        if (state.isHelpOpen || state.panel === 'outliers') return act({ type: 'back' });
-        return handlers.onExit();
-      }
-      if (state.isHelpOpen) return;
-      if (key.upArrow || input === 'k') return act({ type: 'move', delta: -1 });
-      if (key.downArrow || input === 'j') return act({ type: 'move', delta: 1 });
-      if (key.pageUp) return act({ type: 'move', delta: -page });
-      if (key.pageDown) return act({ type: 'move', delta: page });
-      if (key.tab) return act({ type: 'tab', delta: key.shift ? -1 : 1 });
-      if (input === 'f') {
-        act({ type: 'form-open' });
-        return field.set(formFromFilter(state.filter).values.plan);
-      }
-      if (key.return) {
-        if (state.panel === 'outliers') {
-          const outlier = selectedCheck(state)?.outliers[state.outlierSelected];
-          if (outlier) handlers.onOpenBoard(outlier.serial);
-          return;
-        }
-        return act({ type: 'open' });
+    (chunk, key) => {
+      // Keys typed fast arrive in one chunk ("jj", "f" with the filter text behind it): one at a time,
+      // and what follows the key that opens the form is typed into it.
+      // The open form takes the whole chunk (its help too).
+      if (latest.current.form) return handle(chunk, key);
+      for (const { input, rest } of keysWithRest(chunk, key)) {
+        handle(input, key);
+        if (latest.current.form) return rest ? field.handle(rest, plainKey) : undefined;
       }
     },
     { isActive },
   );
+  function handle(input: string, key: Key) {
+    const state = latest.current;
+    if (state.form && formHelp.current) {
+      if (input === '?' || key.escape) showFormHelp(false);
+      return;
+    }
+    if (state.form) return field.handle(input, key);
+    if (input === '?') return act({ type: 'toggle-help' });
+    if (key.escape) {
+      if (state.isHelpOpen || state.panel === 'outliers') return act({ type: 'back' });
+      return handlers.onExit();
+    }
+    if (state.isHelpOpen) return;
+    if (key.upArrow || input === 'k') return act({ type: 'move', delta: -1 });
+    if (key.downArrow || input === 'j') return act({ type: 'move', delta: 1 });
+    if (key.pageUp) return act({ type: 'move', delta: -page });
+    if (key.pageDown) return act({ type: 'move', delta: page });
+    if (key.tab) return act({ type: 'tab', delta: key.shift ? -1 : 1 });
+    if (input === 'f') {
+      act({ type: 'form-open' });
+      return field.set(formFromFilter(state.filter).values.plan);
+    }
+    if (key.return) {
+      if (state.panel === 'outliers') {
+        const outlier = selectedCheck(state)?.outliers[state.outlierSelected];
+        if (outlier) handlers.onOpenBoard(outlier.serial);
+        return;
+      }
+      return act({ type: 'open' });
+    }
+  }
   return { cursor: field.cursor, isFormHelpOpen: isFormHelpOpen && state.form !== null };
 }

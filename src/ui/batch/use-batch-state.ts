@@ -6,7 +6,9 @@ import { weakestFirst } from '../../review/batch.js';
 import type { BatchCheck, BatchFigures } from '../../review/batch-types.js';
 import type { BatchFilter } from '../../review/filter.js';
 import type { TargetsCache } from '../../log/targets-cache.js';
-import { memoryTargetsCache, planBandSource } from './plan-bands.js';
+import { PlanCatalog } from '../bench/plan-catalog.js';
+import { catalogBandSource } from './catalog-bands.js';
+import { memoryTargetsCache } from './plan-bands.js';
 import { scanBatch } from './scan-batch.js';
 import { applyForm, formFromFilter, type FilterForm } from './filter-form-state.js';
 
@@ -16,7 +18,8 @@ export const batchPanels: readonly BatchPanel[] = ['histogram', 'trend', 'outlie
 export interface BatchState {
   readonly status: 'loading' | 'scanning' | 'ready' | 'error';
   readonly message: string;
-  readonly progress: { readonly done: number; readonly total: number; readonly what: string } | null;
+  /** How far the current step got: counted (boards) or in percent (a plan's targets). */
+  readonly progress: { readonly done: number; readonly total: number; readonly what: string; readonly isPercent: boolean } | null;
   readonly figures: BatchFigures | null;
   /** Checks weakest first, as shown. */
   readonly rows: readonly BatchCheck[];
@@ -31,6 +34,8 @@ export interface BatchState {
 
 export type BatchAction =
   | { readonly type: 'progress'; readonly done: number; readonly total: number; readonly what: string }
+  /** The targets of a plan revision being computed (Monte Carlo trials done of total). */
+  | { readonly type: 'targets-progress'; readonly plan: string; readonly done: number; readonly total: number }
   | { readonly type: 'scanning' }
   | { readonly type: 'figures'; readonly figures: BatchFigures }
   | { readonly type: 'failed'; readonly message: string }
@@ -68,7 +73,9 @@ export function selectedCheck(state: BatchState): BatchCheck | undefined {
 export function batchReducer(state: BatchState, action: BatchAction): BatchState {
   switch (action.type) {
     case 'progress':
-      return { ...state, progress: { done: action.done, total: action.total, what: action.what } };
+      return { ...state, progress: { done: action.done, total: action.total, what: action.what, isPercent: false } };
+    case 'targets-progress':
+      return { ...state, progress: { done: action.done, total: action.total, what: `computing the targets of ${action.plan}`, isPercent: true } };
     case 'scanning':
       return { ...state, status: 'scanning', progress: null };
     case 'figures': {
@@ -117,16 +124,18 @@ export function batchReducer(state: BatchState, action: BatchAction): BatchState
   }
 }
 
-/** Load the index once, then rescan the in-memory index whenever the filter changes. */
-export function useBatchState(log: BenchLog, targetsCache?: TargetsCache) {
+/**
+ * Load the index once, then rescan the in-memory index whenever the filter
+ * changes. The bands come through the app's plan catalog (the targets worker
+ * and the one targets cache); without one, a catalog of the log's snapshots
+ * over `targetsCache`.
+ */
+export function useBatchState(log: BenchLog, catalog?: PlanCatalog, targetsCache?: TargetsCache) {
   const [state, dispatch] = useReducer(batchReducer, initialBatchState);
-  const bands = useMemo(
-    () =>
-      planBandSource(log, targetsCache ?? memoryTargetsCache(), (_hash, done, total) =>
-        dispatch({ type: 'progress', done, total, what: 'computing targets of a plan revision (once, then cached)' }),
-      ),
-    [log, targetsCache],
-  );
+  const bands = useMemo(() => {
+    const plans = catalog ?? new PlanCatalog(log, [], { targetsCache: targetsCache ?? memoryTargetsCache() });
+    return catalogBandSource(log, plans, (plan, done, total) => dispatch({ type: 'targets-progress', plan, done, total }));
+  }, [log, catalog, targetsCache]);
   const index = useRef<LogIndex | null>(null);
   const [loaded, markLoaded] = useReducer((n: number) => n + 1, 0);
   useEffect(() => {

@@ -35,7 +35,7 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
   const { mode, boards, selected, message } = state;
   const dialogRows = mode.kind === 'new-serial' ? 6 : mode.kind === 'choose-plan' ? mode.choices.length + 3 : mode.kind === 'confirm-run' ? 4 : 0;
   const listRows = Math.max(1, height - 5 - dialogRows - (state.damaged.length > 0 ? 1 : 0));
-  useBenchKeys(state, listRows, isActive, onTypingChange);
+  const { typeAhead } = useBenchKeys(state, listRows, isActive, onTypingChange);
   const isTyping = mode.kind === 'new-serial' || mode.kind === 'filter';
   useEffect(() => onTypingChange?.(isTyping), [isTyping, onTypingChange]);
   useEffect(() => {
@@ -76,6 +76,7 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
           onSubmit={state.submitSerial}
           onChange={() => state.setMessage(null)}
           onCancel={() => state.setMode({ kind: 'list' })}
+          typeAhead={typeAhead}
         />
       ) : null}
       {mode.kind === 'choose-plan' ? <PlanChoices serial={mode.serial} choices={mode.choices} selected={mode.selected} width={width} /> : null}
@@ -94,6 +95,7 @@ export function BenchScreen({ log, catalog, go, width, height, isActive = true, 
           onChange={state.setFilter}
           onDone={() => state.setMode({ kind: 'list' })}
           isActive={isActive}
+          typeAhead={typeAhead}
         />
       ) : null}
       {mode.kind === 'busy' ? <Text>{mode.what}</Text> : null}

@@ -1,5 +1,6 @@
 import { Text } from 'ink';
 import { TextField } from '../components/text-field.js';
+import type { TypeAhead } from '../components/type-ahead.js';
 import { useTextField } from '../components/use-text-field.js';
 
 export interface BoardFilterProps {
@@ -10,10 +11,12 @@ export interface BoardFilterProps {
   readonly onHelp?: () => void;
   /** @default true */
   readonly isActive?: boolean;
+  /** Keys typed behind the `/` that opened the filter. */
+  readonly typeAhead?: TypeAhead;
 }
 
 /** `/` narrows the list to serials or plans containing the text, as it is typed. */
-export function BoardFilter({ initial, onChange, onDone, onHelp, isActive = true }: BoardFilterProps) {
+export function BoardFilter({ initial, onChange, onDone, onHelp, isActive = true, typeAhead }: BoardFilterProps) {
   const { value, cursor } = useTextField({
     initial,
     onChange,
@@ -24,6 +27,7 @@ export function BoardFilter({ initial, onChange, onDone, onHelp, isActive = true
     },
     isActive,
     ...(onHelp ? { onHelp } : {}),
+    ...(typeAhead ? { typeAhead } : {}),
   });
   return (
     <Text>

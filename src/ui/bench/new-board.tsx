@@ -1,6 +1,7 @@
 import { Box, Text } from 'ink';
 import { validateSerial } from '../../log/serial.js';
 import { TextField } from '../components/text-field.js';
+import type { TypeAhead } from '../components/type-ahead.js';
 import { useTextField } from '../components/use-text-field.js';
 import { pointer, toneProps } from '../theme.js';
 import type { PlanChoice } from './plan-catalog.js';
@@ -14,11 +15,21 @@ export interface SerialEntryProps {
   readonly onHelp?: () => void;
   /** @default true */
   readonly isActive?: boolean;
+  /** Keys typed behind the `n` that opened the field. */
+  readonly typeAhead?: TypeAhead;
 }
 
 /** The new-board serial field, with the log's serial rule checked as it is typed. */
-export function SerialEntry({ onSubmit, onChange, onCancel, onHelp, isActive = true }: SerialEntryProps) {
-  const { value, cursor } = useTextField({ onSubmit, onCancel, isActive, maxLength: 80, ...(onChange ? { onChange } : {}), ...(onHelp ? { onHelp } : {}) });
+export function SerialEntry({ onSubmit, onChange, onCancel, onHelp, isActive = true, typeAhead }: SerialEntryProps) {
+  const { value, cursor } = useTextField({
+    onSubmit,
+    onCancel,
+    isActive,
+    maxLength: 80,
+    ...(onChange ? { onChange } : {}),
+    ...(onHelp ? { onHelp } : {}),
+    ...(typeAhead ? { typeAhead } : {}),
+  });
   const problem = value.trim() === '' ? null : validateSerial(value.trim());
   return (
     <Box flexDirection="column" borderStyle="single" paddingX={1}>

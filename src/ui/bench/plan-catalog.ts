@@ -7,6 +7,12 @@ import type { Plan } from '../../plan/types.js';
 import { memoryTargetsCache } from '../batch/plan-bands.js';
 import { type Progress, targetsOffThread } from './targets-off-thread.js';
 
+/** Who hears a running computation's progress, and the last progress said (for a listener that joins late). */
+interface Heard {
+  readonly listeners: Set<Progress>;
+  last: [number, number] | null;
+}
+
 /** A plan the technician may pick for a new board. */
 export interface PlanChoice {
   readonly plan: Plan;
@@ -33,7 +39,8 @@ export interface TargetOptions {
  */
 export class PlanCatalog {
   private readonly plans = new Map<string, Plan>();
-  private readonly pending = new Map<string, Promise<TargetSet>>();
+  /** Targets being computed, by plan hash: the job, who hears its progress, and the last progress said. */
+  private readonly pending = new Map<string, { readonly job: Promise<TargetSet>; readonly heard: Heard }>();
   /** Where every screen gets its targets: the same cache the commands use. */
   readonly targetsCache: TargetsCache;
   /** Snapshots that could not be loaded, with the reason, by hash. */
@@ -139,8 +146,20 @@ export class PlanCatalog {
     const ready = this.targetsCache.peek(key);
     if (ready) return Promise.resolve(ready);
     const running = this.pending.get(plan.hash);
-    if (running) return running;
-    const off = this.options.offThread === false ? null : targetsOffThread(plan, trials, seed, onProgress);
+    if (running) {
+      // A screen left and opened again (or a second screen) hears the same job from where it is.
+      if (onProgress) {
+        running.heard.listeners.add(onProgress);
+        if (running.heard.last) onProgress(...running.heard.last);
+      }
+      return running.job;
+    }
+    const heard: Heard = { listeners: new Set(onProgress ? [onProgress] : []), last: null };
+    const tell: Progress = (done, total) => {
+      heard.last = [done, total];
+      for (const listener of heard.listeners) listener(done, total);
+    };
+    const off = this.options.offThread === false ? null : targetsOffThread(plan, trials, seed, tell);
     const job = (async () => {
       try {
         if (!off) return this.targets(plan);
@@ -152,7 +171,7 @@ export class PlanCatalog {
         return this.targets(plan);
       }
     })().finally(() => this.pending.delete(plan.hash));
-    this.pending.set(plan.hash, job);
+    this.pending.set(plan.hash, { job, heard });
     return job;
   }
 

@@ -45,5 +45,9 @@ export function targetsOffThread(plan: Plan, trials: number, seed: number, onPro
     });
     worker.on('error', (error) => finish(() => reject(error)));
     worker.on('exit', (code) => finish(() => reject(new Error(`the targets worker stopped (exit ${code})`))));
+    // The worker alone never keeps the process alive: quitting the app while it computes
+    // ends at once (its result was only going to the cache). After the listeners: adding
+    // a 'message' listener refs the worker again (Node 20, tried).
+    worker.unref();
   });
 }

@@ -1,17 +1,27 @@
 import { type Key, useInput } from 'ink';
-import { splitKeys } from '../components/key-chunks.js';
+import { useRef } from 'react';
+import { keysWithRest } from '../components/key-chunks.js';
+import { plainKey, TypeAhead } from '../components/type-ahead.js';
 import type { BenchMode, BenchState } from './use-bench-state.js';
 
 /**
  * Keys of the bench screen. The serial and filter fields take their own keys
  * (see `new-board.tsx`, `board-filter.tsx`); this hook is idle meanwhile.
+ * Keys that arrive behind the key opening a field (in its chunk, or before the
+ * field is on screen) are kept in the returned `typeAhead` for the field.
  */
 export function useBenchKeys(state: BenchState, pageSize: number, isActive: boolean, onTypingChange?: (isTyping: boolean) => void) {
   const { mode } = state;
   const isTyping = mode.kind === 'new-serial' || mode.kind === 'filter' || mode.kind === 'busy';
+  const typeAhead = useRef(new TypeAhead()).current;
   useInput(
     (chunk, key) => {
-      for (const input of splitKeys(chunk, key)) handle(input, key);
+      // A field is opening but not yet on screen: this chunk is typed into it.
+      if (typeAhead.isCollecting) return typeAhead.push(chunk, key);
+      for (const { input, rest } of keysWithRest(chunk, key)) {
+        handle(input, key);
+        if (typeAhead.isCollecting) return typeAhead.push(rest, plainKey);
+      }
     },
     { isActive: isActive && !isTyping },
   );
@@ -19,6 +29,7 @@ export function useBenchKeys(state: BenchState, pageSize: number, isActive: bool
   /** Open a text field, telling the app at once (a `q` right behind `n` is a letter, not quit). */
   function startTyping(next: BenchMode) {
     onTypingChange?.(true);
+    typeAhead.open();
     state.setMode(next);
   }
 
@@ -62,4 +73,5 @@ export function useBenchKeys(state: BenchState, pageSize: number, isActive: bool
       state.setMessage(null);
     }
   }
+  return { typeAhead };
 }

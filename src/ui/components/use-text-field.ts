@@ -1,5 +1,6 @@
-import { useCallback, useRef, useState } from 'react';
+import { useCallback, useEffect, useRef, useState } from 'react';
 import { type Key, useInput } from 'ink';
+import type { TypeAhead } from './type-ahead.js';
 import {
   defaultMaxLength,
   emptyField,
@@ -31,6 +32,8 @@ export interface TextFieldOptions {
    * its keys through one handler passes false and calls `handle`. @default true
    */
   readonly isActive?: boolean;
+  /** Keys typed for this field before it was on screen (the rest of the chunk that opened it), taken when it mounts. */
+  readonly typeAhead?: TypeAhead;
 }
 
 /**
@@ -48,6 +51,7 @@ export function useTextField({
   initial = '',
   maxLength = defaultMaxLength,
   isActive = true,
+  typeAhead,
 }: TextFieldOptions) {
   const [field, setField] = useState<TextFieldState>(() => (initial ? fieldWith(initial, maxLength) : emptyField));
   const latest = useRef(field);
@@ -86,6 +90,11 @@ export function useTextField({
     },
     [step],
   );
+
+  // biome-ignore lint/correctness/useExhaustiveDependencies: taken once, when the field mounts
+  useEffect(() => {
+    for (const k of typeAhead?.drain() ?? []) handle(k.input, k.key);
+  }, []);
 
   useInput(handle, { isActive });
 

@@ -14,8 +14,8 @@ import { useHistoryKeys } from './use-history-keys.js';
 import { selectedEntry, useHistoryState } from './use-history-state.js';
 
 /** One board's history: timeline, rework before/after, a reading's target as measured. */
-export function HistoryScreen({ log, serial, width, height, isActive = true, onExit, targetsCache }: HistoryProps) {
-  const { state, dispatch } = useHistoryState(log, serial, targetsCache);
+export function HistoryScreen({ log, serial, width, height, isActive = true, onExit, catalog, targetsCache }: HistoryProps) {
+  const { state, dispatch } = useHistoryState(log, serial, catalog, targetsCache);
   const rows = Math.max(3, height - 5);
   useHistoryKeys(state, dispatch, onExit, rows, isActive);
   const data = state.data;
@@ -24,7 +24,13 @@ export function HistoryScreen({ log, serial, width, height, isActive = true, onE
   const note = counts ? `${counts.runs} runs · ${counts.readings} readings (${counts.fail} fail) · ${counts.rework} rework` : '';
   let body;
   if (state.isHelpOpen) body = <HelpBox title="history" entries={historyHelp} notes={historyNotes} width={width} />;
-  else if (state.status === 'loading') body = <Text>Reading the board file of {serial}…</Text>;
+  else if (state.status === 'loading')
+    body = (
+      <Box flexDirection="column">
+        <Text wrap="truncate-end">{state.progress ?? `Reading the board file of ${serial}…`}</Text>
+        {state.progress ? <Text {...toneProps('dim')}>Computed once per plan revision, then kept in the targets cache · Esc back · ? help</Text> : null}
+      </Box>
+    );
   else if (state.status === 'missing')
     body = (
       <Text>

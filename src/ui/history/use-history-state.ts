@@ -1,7 +1,9 @@
 import { useEffect, useReducer } from 'react';
 import type { TargetsCache } from '../../log/targets-cache.js';
 import type { BenchLog } from '../../log/types.js';
-import { memoryTargetsCache, planBandSource } from '../batch/plan-bands.js';
+import { catalogBandSource } from '../batch/catalog-bands.js';
+import { memoryTargetsCache } from '../batch/plan-bands.js';
+import { PlanCatalog } from '../bench/plan-catalog.js';
 import { loadHistory, type HistoryData } from './load-history.js';
 
 export type HistoryPanel = 'timeline' | 'rework';
@@ -18,10 +20,13 @@ export interface HistoryState {
   readonly reworkSelected: number;
   readonly view: HistoryView;
   readonly isHelpOpen: boolean;
+  /** While loading: the targets being computed (`computing the targets of exciter-b… 40 %`), or null. */
+  readonly progress: string | null;
 }
 
 export type HistoryAction =
   | { readonly type: 'loaded'; readonly data: HistoryData | null }
+  | { readonly type: 'targets-progress'; readonly plan: string; readonly done: number; readonly total: number }
   | { readonly type: 'failed'; readonly message: string }
   | { readonly type: 'move'; readonly delta: number }
   | { readonly type: 'open' }
@@ -39,6 +44,7 @@ export const initialHistoryState: HistoryState = {
   reworkSelected: 0,
   view: 'list',
   isHelpOpen: false,
+  progress: null,
 };
 
 const clamp = (i: number, n: number) => Math.max(0, Math.min(Math.max(0, n - 1), i));
@@ -57,6 +63,10 @@ export function historyReducer(state: HistoryState, action: HistoryAction): Hist
         : { ...state, status: 'missing', data: null };
     case 'failed':
       return { ...state, status: 'error', message: action.message };
+    case 'targets-progress':
+      return state.status === 'loading'
+        ? { ...state, progress: `computing the targets of ${action.plan}… ${Math.min(100, Math.round((100 * action.done) / Math.max(1, action.total)))} %` }
+        : state;
     case 'move': {
       if (!state.data || state.view !== 'list') return state;
       if (state.panel === 'timeline') {
@@ -94,18 +104,24 @@ export function historyReducer(state: HistoryState, action: HistoryAction): Hist
   }
 }
 
-/** The history of one board, loaded from the log once per serial. */
-export function useHistoryState(log: BenchLog, serial: string, targetsCache?: TargetsCache) {
+/**
+ * The history of one board, loaded from the log once per serial; the bands of
+ * its plan revisions come as the batch screen's do (the catalog: the cache,
+ * else the targets worker, with progress).
+ */
+export function useHistoryState(log: BenchLog, serial: string, catalog?: PlanCatalog, targetsCache?: TargetsCache) {
   const [state, dispatch] = useReducer(historyReducer, initialHistoryState);
   useEffect(() => {
     let isCurrent = true;
-    loadHistory(log, serial, planBandSource(log, targetsCache ?? memoryTargetsCache())).then(
+    const plans = catalog ?? new PlanCatalog(log, [], { targetsCache: targetsCache ?? memoryTargetsCache() });
+    const bands = catalogBandSource(log, plans, (plan, done, total) => isCurrent && dispatch({ type: 'targets-progress', plan, done, total }));
+    loadHistory(log, serial, bands).then(
       (data) => isCurrent && dispatch({ type: 'loaded', data }),
       (error: unknown) => isCurrent && dispatch({ type: 'failed', message: error instanceof Error ? error.message : String(error) }),
     );
     return () => {
       isCurrent = false;
     };
-  }, [log, serial, targetsCache]);
+  }, [log, serial, catalog, targetsCache]);
   return { state, dispatch };
 }
