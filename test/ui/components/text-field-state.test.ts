@@ -10,32 +10,10 @@ import {
   type TextFieldState,
   textFieldReducer,
 } from '../../../src/ui/components/text-field-state.js';
+import { plainKey } from '../../../src/ui/components/type-ahead.js';
 
 /** A key as Ink's useInput reports it, every flag off unless given. */
-const key = (over: Partial<Key> = {}): Key =>
-  ({
-    upArrow: false,
-    downArrow: false,
-    leftArrow: false,
-    rightArrow: false,
-    pageDown: false,
-    pageUp: false,
-    home: false,
-    end: false,
-    return: false,
-    escape: false,
-    ctrl: false,
-    shift: false,
-    tab: false,
-    backspace: false,
-    delete: false,
-    meta: false,
-    super: false,
-    hyper: false,
-    capsLock: false,
-    numLock: false,
-    ...over,
-  }) as Key;
+const key = (over: Partial<Key> = {}): Key => ({ ...plainKey, ...over });
 
 /** Apply every edit of a chunk, collecting what was submitted (the text at each Enter). */
 function feed(state: TextFieldState, input: string, k: Key = key(), max = defaultMaxLength) {
