@@ -253,11 +253,10 @@ export function buildChain(plan: Plan): Chain {
   // Loading (DESIGN §3: every stage's input loads the output it takes). For each
   // stage and output: the downstream stages that take it (when their kind has an
   // input impedance) and any external load the plan names. The load functions read
-  // the parts of the current sample from `sampleParts`, which `run` fills for every
+  // the parts of the current sample from `impedanceArgs[s].parts`, which `run` fills for every
   // stage before it evaluates any: an upstream output depends on downstream parts.
-  const sampleParts: Record<string, number>[] = stagePlans.map(() => ({}));
-  const impedanceArgs: ImpedanceArgs[] = stagePlans.map((sp, i) => ({
-    parts: sampleParts[i] as Record<string, number>,
+  const impedanceArgs: ImpedanceArgs[] = stagePlans.map((sp) => ({
+    parts: {},
     rails: {},
     settings: sp.stage.settings,
     opamp: sp.stage.opamp,
@@ -265,7 +264,7 @@ export function buildChain(plan: Plan): Chain {
   }));
   // Which sample the load functions' memory holds: `run` moves it on whenever it sets the parts and rails.
   const sample = { generation: 0 };
-  const loadFns = stagePlans.map((sp, s) => loadFunction(sp.stage, s, stagePlans, sampleParts, impedanceArgs, sample));
+  const loadFns = stagePlans.map((sp, s) => loadFunction(sp.stage, s, stagePlans, impedanceArgs, sample));
   // A downstream passive stage's input depends on its own load: hand it its load function.
   impedanceArgs.forEach((a, i) => {
     a.load = loadFns[i];
@@ -347,7 +346,6 @@ export function buildChain(plan: Plan): Chain {
       const sp = stagePlans[s] as StagePlan;
       const parts = keep ? {} : (hotArgs[s] as HotArgs).parts;
       for (let r = 0; r < sp.roles.length; r++) parts[sp.roles[r] ?? ''] = x[sp.varIndex[r] ?? -1] ?? Number.NaN;
-      sampleParts[s] = parts;
       (impedanceArgs[s] as ImpedanceArgs).parts = parts;
     }
     sample.generation++;
@@ -362,7 +360,7 @@ export function buildChain(plan: Plan): Chain {
         try {
           const args: HotArgs = keep
             ? {
-                parts: sampleParts[s] as Record<string, number>,
+                parts: (impedanceArgs[s] as ImpedanceArgs).parts,
                 settings: sp.stage.settings,
                 opamp: sp.opampIndex ? { ...sp.stage.opamp } : sp.stage.opamp,
                 supplies,
@@ -497,7 +495,6 @@ function loadFunction(
   stage: PlanStage,
   s: number,
   plans: readonly { readonly stage: PlanStage; readonly inputStage: number }[],
-  sampleParts: readonly Record<string, number>[],
   impedanceArgs: readonly ImpedanceArgs[],
   sample: { readonly generation: number },
 ): ((output: string, f: number) => Complex | undefined) | undefined {
@@ -532,7 +529,7 @@ function loadFunction(
     }
     const role = external[o] as string;
     if (role !== '') {
-      const r = (sampleParts[s] as Record<string, number>)[role] ?? Number.NaN;
+      const r = (impedanceArgs[s] as ImpedanceArgs).parts[role] ?? Number.NaN;
       yre += 1 / r;
       any = true;
     }
