@@ -1,21 +1,7 @@
 import type { Verdict } from '../analysis/types.js';
 import type { Unit } from '../units/unit.js';
 import type { BoardHead } from './index-journal.js';
-import type {
-  Reading,
-  InstrumentRef,
-  RunOutcome,
-  Run,
-  Rework,
-  CaptureRef,
-  BoardFile,
-  BoardState,
-  CheckSummary,
-  BoardSummary,
-  LogIndex,
-  CheckColumns,
-  DamagedBoard,
-} from '../analysis/records.js';
+import type { Reading, InstrumentRef, RunOutcome, Run, Rework, CaptureRef, BoardFile, LogIndex } from '../analysis/records.js';
 
 export type { BoardHead } from './index-journal.js';
 
@@ -33,21 +19,9 @@ export interface IndexHead {
 
 /** Board file schema version; older files are migrated on read, newer ones refused. */
 export const boardSchemaVersion = 1;
-export type {
-  Reading,
-  InstrumentRef,
-  RunOutcome,
-  Run,
-  Rework,
-  CaptureRef,
-  BoardFile,
-  BoardState,
-  CheckSummary,
-  BoardSummary,
-  LogIndex,
-  CheckColumns,
-  DamagedBoard,
-} from '../analysis/records.js';
+
+// The record types live in src/analysis/records.ts (review reads them without the log); the log's callers get them here too.
+export type * from '../analysis/records.js';
 
 /** What a caller gives to save a reading; the store adds id, time and plan hash checks. */
 export interface ReadingInput {
