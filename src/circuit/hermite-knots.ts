@@ -1,6 +1,6 @@
 /**
- * A memoryless stage's transfer curve solved at evenly spaced knots and read
- * between them: the shaper's and the follower's trials share it.
+ * A curve known at evenly spaced knots (value and slope) and read between
+ * them: the shaper's and the follower's trial transfer curves, the Lambert W table.
  */
 
 /**
