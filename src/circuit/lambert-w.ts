@@ -1,3 +1,5 @@
+import { hermiteCoefficients } from './hermite-knots.js';
+
 /**
  * Lambert's W of e^L on its principal branch: the root w > 0 of w + ln w = L
  * (w·e^w = e^L). A diode string in series with a resistor has an explicit
@@ -42,23 +44,16 @@ export function lambertWOfExp(L: number): number {
 export function lambertTable(): Float64Array {
   if (coefficients) return coefficients;
   const h = 1 / perUnit;
-  const c = new Float64Array(4 * intervals);
-  let w0 = lambertWOfExp(tableFirst);
-  let d0 = w0 / (1 + w0);
-  for (let j = 0; j < intervals; j++) {
-    const w1 = lambertWOfExp(tableFirst + (j + 1) * h);
-    const d1 = w1 / (1 + w1);
-    // Cubic Hermite on one interval (any numerical analysis text), slopes scaled to it.
-    const delta = w1 - w0;
-    const m0 = h * d0;
-    const m1 = h * d1;
-    c[4 * j] = w0;
-    c[4 * j + 1] = m0;
-    c[4 * j + 2] = 3 * delta - 2 * m0 - m1;
-    c[4 * j + 3] = m0 + m1 - 2 * delta;
-    w0 = w1;
-    d0 = d1;
+  // At each knot w and its exact slope dw/dL = w/(1 + w), then cubic Hermite between them.
+  const w = new Float64Array(intervals + 1);
+  const slope = new Float64Array(intervals + 1);
+  for (let j = 0; j <= intervals; j++) {
+    const wj = lambertWOfExp(tableFirst + j * h);
+    w[j] = wj;
+    slope[j] = wj / (1 + wj);
   }
+  const c = new Float64Array(4 * intervals);
+  hermiteCoefficients(w, slope, h, intervals, c);
   coefficients = c;
   return c;
 }

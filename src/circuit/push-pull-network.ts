@@ -3,6 +3,7 @@ import { defaultDiode, thermalVoltage } from './diode.js';
 import { type FollowerNetwork, type FollowerState, deadband, freshState, isFromVbe, restState, solveFollower, trialTolerance } from './follower-network.js';
 import { defaultHfe, defaultVbe, outputLoad, type PushPullSettings } from './push-pull.js';
 import type { EvalInput, EvalOutput, StageWarning, Waveform } from './types.js';
+import { hermiteCoefficients, interpolateKnots } from './hermite-knots.js';
 import { extremes } from './waveform.js';
 
 /**
@@ -169,33 +170,9 @@ export function evaluateNetwork(input: EvalInput<PushPullSettings>, source: Wave
   }
   if (k === 0) out.fill(ys[0] as number);
   else {
-    // Cubic Hermite between knots (any numerical analysis text), as power-series coefficients
-    // in t ∈ [0, 1] per interval: y0 + m0·t + (3Δ − 2m0 − m1)·t² + (m0 + m1 − 2Δ)·t³.
-    const c = coef;
-    const y = ys;
-    const dy = slopes;
-    for (let j = 0; j < k; j++) {
-      const y0 = y[j] as number;
-      const d = (y[j + 1] as number) - y0;
-      const m0 = h * (dy[j] as number);
-      const m1 = h * (dy[j + 1] as number);
-      c[4 * j] = y0;
-      c[4 * j + 1] = m0;
-      c[4 * j + 2] = 3 * d - 2 * m0 - m1;
-      c[4 * j + 3] = m0 + m1 - 2 * d;
-    }
-    const scale = 1 / h;
-    const last = k - 1;
-    for (let i = 0; i < n; i++) {
-      const u = ((samples[i] as number) - bottom) * scale;
-      // u lies in [0, k] up to rounding: truncation is the floor there, and an integer index.
-      let j = u | 0;
-      if (j > last) j = last;
-      else if (j < 0) j = 0;
-      const t = u - j;
-      const o = j << 2;
-      out[i] = (c[o] as number) + t * ((c[o + 1] as number) + t * ((c[o + 2] as number) + t * (c[o + 3] as number)));
-    }
+    // Cubic Hermite between knots, with dy/dvin from the solver.
+    hermiteCoefficients(ys, slopes, h, k, coef);
+    interpolateKnots(samples, bottom, h, k, coef, out);
   }
   const { hi, lo } = extremes(out);
   const rload = input.settings.hasLoad ? (input.parts['Rload'] ?? Number.NaN) : Number.POSITIVE_INFINITY;

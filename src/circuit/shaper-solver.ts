@@ -1,5 +1,6 @@
 import { type DiodeString, junctionCeiling } from './diode.js';
 import { solveKnots } from './shaper-knots.js';
+import { hermiteCoefficients, interpolateKnots } from './hermite-knots.js';
 import { extremes } from './waveform.js';
 
 /**
@@ -277,33 +278,10 @@ export function solveTransfer(net: ShaperNet, vin: Float64Array, out: Float64Arr
   const values = valueScratch;
   const slopes = slopeScratch;
   const steps = solveKnots(net, lo, hi, k, values, slopes, trialTolerance, bisect);
-  // Cubic Hermite on each interval (any numerical analysis text), as power-series
-  // coefficients in t ∈ [0, 1]: p(t) = y0 + m0·t + (3Δ − 2m0 − m1)·t² + (m0 + m1 − 2Δ)·t³,
-  // Δ = y1 − y0 and the slopes scaled to the interval (m = h·dv/dvin).
+  // Cubic Hermite between knots, with dv/dvin from the solver.
   if (coefScratch.length < 4 * intervals) coefScratch = new Float64Array(4 * intervals);
-  const coef = coefScratch;
-  for (let j = 0; j < intervals; j++) {
-    const y0 = values[j] as number;
-    const d = (values[j + 1] as number) - y0;
-    const m0 = h * (slopes[j] as number);
-    const m1 = h * (slopes[j + 1] as number);
-    coef[4 * j] = y0;
-    coef[4 * j + 1] = m0;
-    coef[4 * j + 2] = 3 * d - 2 * m0 - m1;
-    coef[4 * j + 3] = m0 + m1 - 2 * d;
-  }
-  const scale = 1 / h;
-  const top = intervals - 1;
-  for (let i = 0; i < n; i++) {
-    const u = ((vin[i] as number) - lo) * scale;
-    // u lies in [0, intervals] up to rounding: truncation is the floor there, and an integer index.
-    let j = u | 0;
-    if (j > top) j = top;
-    else if (j < 0) j = 0;
-    const t = u - j;
-    const c = j << 2;
-    out[i] = (coef[c] as number) + t * ((coef[c + 1] as number) + t * ((coef[c + 2] as number) + t * (coef[c + 3] as number)));
-  }
+  hermiteCoefficients(values, slopes, h, intervals, coefScratch);
+  interpolateKnots(vin, lo, h, intervals, coefScratch, out);
   return steps;
 }
 

@@ -38,7 +38,7 @@ export function threadsFromEnv(value: string | undefined): Threads {
 }
 
 function hasBundledWorker(): boolean {
-  return existsSync(fileURLToPath(new URL('./samples-worker.js', import.meta.url)));
+  return workerScript()?.isEval === false;
 }
 
 /** The samples worker beside this module: `samples-worker.js` next to the bundle, or the TypeScript source under tsx. */

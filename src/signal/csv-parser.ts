@@ -103,11 +103,16 @@ export class CsvParser {
 
   end(): Capture {
     if (!this.dialect) this.start(true);
+    this.flushTail();
+    return this.finish();
+  }
+
+  /** The last line when the bytes end without a line feed. */
+  private flushTail(): void {
     if (this.tail.length > 0) {
       this.parseLine(this.tail, 0, this.tail.length);
       this.tail = new Uint8Array(0);
     }
-    return this.finish();
   }
 
   /**
@@ -147,10 +152,7 @@ export class CsvParser {
 
   /** The rows read by a `forPart` parser (the end of its part is the end of a line or of the file). */
   part(): CsvPart {
-    if (this.tail.length > 0) {
-      this.parseLine(this.tail, 0, this.tail.length);
-      this.tail = new Uint8Array(0);
-    }
+    this.flushTail();
     const rows = this.rows;
     return {
       columns: this.columns.map((col, c) => (c === this.timeColumn ? col : col.subarray(0, rows))),
@@ -294,18 +296,11 @@ export class CsvParser {
     // code at the write-back (seen with --trace-deopt). Round 0 writes the
     // values just read, round 1 the new ones.
     for (let round = 0; ; round++) {
-      this.line += rows - this.rows;
-      this.rows = rows;
-      this.tPrev = tPrev;
-      this.tLast = tPrev;
-      this.minStep = minStep;
-      this.maxStep = maxStep;
+      this.keep(rows, tPrev, minStep, maxStep);
       if (round === 1) break;
       while (pos < limit) {
         if (rows === capacity) {
-          this.line += rows - this.rows;
-          this.rows = rows;
-          this.grow();
+          this.growAt(rows);
           columns = this.columns;
           capacity = this.capacity;
         }
@@ -335,10 +330,7 @@ export class CsvParser {
           else {
             const step = t - tPrev;
             if (!(step > 0)) {
-              this.line += rows - this.rows + 1;
-              this.rows = rows;
-              this.tPrev = tPrev;
-              this.time(t); // throws, naming this line and the time before
+              this.stepError(rows, tPrev, t);
             }
             if (step < minStep) minStep = step;
             if (step > maxStep) maxStep = step;
@@ -375,18 +367,11 @@ export class CsvParser {
     // code at the write-back (seen with --trace-deopt). Round 0 writes the
     // values just read, round 1 the new ones.
     for (let round = 0; ; round++) {
-      this.line += rows - this.rows;
-      this.rows = rows;
-      this.tPrev = tPrev;
-      this.tLast = tPrev;
-      this.minStep = minStep;
-      this.maxStep = maxStep;
+      this.keep(rows, tPrev, minStep, maxStep);
       if (round === 1) break;
       while (pos < limit) {
         if (rows === capacity) {
-          this.line += rows - this.rows;
-          this.rows = rows;
-          this.grow();
+          this.growAt(rows);
           values = this.columns[1] as Float64Array;
           capacity = this.capacity;
         }
@@ -405,10 +390,7 @@ export class CsvParser {
         else {
           const step = t - tPrev;
           if (!(step > 0)) {
-            this.line += rows - this.rows + 1;
-            this.rows = rows;
-            this.tPrev = tPrev;
-            this.time(t); // throws, naming this line and the time before
+            this.stepError(rows, tPrev, t);
           }
           if (step < minStep) minStep = step;
           if (step > maxStep) maxStep = step;
@@ -419,6 +401,31 @@ export class CsvParser {
       }
     }
     return pos;
+  }
+
+  /** A row loop's state written back from its locals (`rows` rows read so far). */
+  private keep(rows: number, tPrev: number, minStep: number, maxStep: number): void {
+    this.line += rows - this.rows;
+    this.rows = rows;
+    this.tPrev = tPrev;
+    this.tLast = tPrev;
+    this.minStep = minStep;
+    this.maxStep = maxStep;
+  }
+
+  /** `grow` from a row loop, which holds `rows` rows read so far. */
+  private growAt(rows: number): void {
+    this.line += rows - this.rows;
+    this.rows = rows;
+    this.grow();
+  }
+
+  /** A row loop's time `t` that does not increase after `tPrev`, `rows` rows before it: throws, naming its line. */
+  private stepError(rows: number, tPrev: number, t: number): never {
+    this.line += rows - this.rows + 1;
+    this.rows = rows;
+    this.tPrev = tPrev;
+    return this.notIncreasing(t);
   }
 
   /**
@@ -472,16 +479,19 @@ export class CsvParser {
     if (this.rows === 0) this.t0 = t;
     else {
       const step = t - this.tPrev;
-      if (!(step > 0)) {
-        throw new CaptureError(
-          `${this.options.name ?? 'capture'}, line ${this.line}: time ${t} does not increase (the row before had ${this.tPrev}); if the file has no time column, give the sample interval with --dt SECONDS`,
-        );
-      }
+      if (!(step > 0)) this.notIncreasing(t);
       if (step < this.minStep) this.minStep = step;
       if (step > this.maxStep) this.maxStep = step;
     }
     this.tPrev = t;
     this.tLast = t;
+  }
+
+  /** Throws: time `t` on the current line does not increase after the row before's (`this.tPrev`). */
+  private notIncreasing(t: number): never {
+    throw new CaptureError(
+      `${this.options.name ?? 'capture'}, line ${this.line}: time ${t} does not increase (the row before had ${this.tPrev}); if the file has no time column, give the sample interval with --dt SECONDS`,
+    );
   }
 
   private rowError(buf: Uint8Array, start: number, stop: number, column: number, short?: 'short'): never {

@@ -1,27 +1,9 @@
 import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
 import { defaultDiode, diodeString, thermalVoltage } from '../../src/circuit/diode.js';
-import { nodeCurrent, type ShaperNet } from '../../src/circuit/shaper-solver.js';
+import type { ShaperNet } from '../../src/circuit/shaper-solver.js';
 import { solveKnots } from '../../src/circuit/shaper-knots.js';
-
-/** Root of Kirchhoff's current law at the node by bisection (each junction by its own Newton solve): the slow, sure reference. */
-function bisected(net: ShaperNet, vin: number): number {
-  let lo = -200;
-  let hi = 200;
-  for (let it = 0; it < 120; it++) {
-    const mid = (lo + hi) / 2;
-    if (nodeCurrent(net, vin, mid) > 0) lo = mid;
-    else hi = mid;
-  }
-  return (lo + hi) / 2;
-}
-
-const branch = fc.record({
-  sign: fc.constantFrom(1 as const, -1 as const),
-  bias: fc.double({ min: -3, max: 3, noNaN: true }),
-  count: fc.integer({ min: 1, max: 3 }),
-  r: fc.double({ min: 50, max: 100e3, noNaN: true }),
-});
+import { bisected, branch } from './fixtures/shaper-networks.js';
 
 const network = fc.record({
   rs: fc.double({ min: 100, max: 100e3, noNaN: true }),
