@@ -18,7 +18,6 @@ import { LogInputError } from './errors.js';
 import { indexSchemaVersion } from './index-store.js';
 import { ensureSchema, pgSchemaVersion } from './pg-schema.js';
 import { LogServerError, serverError } from './pg-errors.js';
-import { validateSerial } from './serial.js';
 import type { LogStore } from './store.js';
 import { summarizeBoard } from './summary.js';
 import {
@@ -36,14 +35,9 @@ import {
   type RunOutcome,
 } from './types.js';
 import type { Verdict } from '../analysis/types.js';
-import { checkReadingInput, checkRunStart, type RunStart } from './validate-input.js';
+import { checkReadingInput, checkRunEnd, checkRunStart, checkSerial, type RunStart } from './validate-input.js';
 
 type Db = pg.ClientBase | pg.Pool;
-
-function checkSerial(serial: string): void {
-  const problem = validateSerial(serial);
-  if (problem) throw new LogInputError(problem);
-}
 
 type CheckRow = [string, string, number, Verdict, string, number, Verdict, string, number];
 type BoardRow = [string, string | null, string | null, BoardState, string | null, number, number, number];
@@ -318,12 +312,11 @@ export class PgStore implements LogStore {
 
   async startRun(serial: string, start: RunStart): Promise<Run> {
     checkRunStart(start);
-    if (sha256Hex(start.planText) !== start.planHash) throw new LogInputError(`plan ${start.plan}: planHash is not the sha256 of planText`);
     return this.#update(serial, startRunChange(start), (db) => this.#savePlan(db, start));
   }
 
   async endRun(serial: string, runId: string, outcome: RunOutcome): Promise<Run> {
-    if (outcome === 'in-progress') throw new LogInputError('a run cannot end as in-progress; use passed, failed, aborted or power-off');
+    checkRunEnd(outcome);
     return this.#update(serial, endRunChange(serial, runId, outcome));
   }
 
@@ -342,7 +335,6 @@ export class PgStore implements LogStore {
     warningsFor?: (board: BoardFile, run: Run) => readonly string[],
   ): Promise<AppendResult> {
     checkRunStart(start);
-    if (sha256Hex(start.planText) !== start.planHash) throw new LogInputError(`plan ${start.plan}: planHash is not the sha256 of planText`);
     checkReadingInput({ ...input, run: 'pending' });
     return this.#update(serial, appendToOpenRunChange(start, input, warningsFor), (db) => this.#savePlan(db, start));
   }
