@@ -1,21 +1,7 @@
 import type { Verdict } from '../analysis/types.js';
 import type { Unit } from '../units/unit.js';
 import type { BoardHead } from './index-journal.js';
-import type {
-  Reading,
-  InstrumentRef,
-  RunOutcome,
-  Run,
-  Rework,
-  CaptureRef,
-  BoardFile,
-  BoardState,
-  CheckSummary,
-  BoardSummary,
-  LogIndex,
-  CheckColumns,
-  DamagedBoard,
-} from '../analysis/records.js';
+import type { Reading, InstrumentRef, RunOutcome, Run, Rework, CaptureRef, BoardFile, LogIndex } from '../analysis/records.js';
 
 export type { BoardHead } from './index-journal.js';
 
