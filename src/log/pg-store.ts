@@ -159,6 +159,16 @@ async function writeDelta(db: Db, prev: BoardFile, next: BoardFile): Promise<voi
   }
 }
 
+/** Keep a plan snapshot by its hash (kept once: the hash names the text). */
+async function putPlanSnapshot(db: Db, hash: string, text: string): Promise<void> {
+  await db.query('INSERT INTO plan_snapshots (hash, text) VALUES ($1, $2) ON CONFLICT (hash) DO NOTHING', [hash, text]);
+}
+
+/** Keep a capture's bytes under its content name (kept once). */
+async function putCapture(db: Db, file: string, bytes: Uint8Array): Promise<void> {
+  await db.query('INSERT INTO captures (file, bytes) VALUES ($1, $2) ON CONFLICT (file) DO NOTHING', [file, Buffer.from(bytes)]);
+}
+
 /** Keep the review summary of the board in step, in the same transaction. */
 async function writeSummary(db: Db, board: BoardFile, touched: readonly string[] | 'all'): Promise<void> {
   const s = summarizeBoard(board);
@@ -256,7 +266,7 @@ export class PgStore implements LogStore {
   }
 
   async #savePlan(db: pg.ClientBase, start: RunStart): Promise<void> {
-    await db.query('INSERT INTO plan_snapshots (hash, text) VALUES ($1, $2) ON CONFLICT (hash) DO NOTHING', [start.planHash, start.planText]);
+    await putPlanSnapshot(db, start.planHash, start.planText);
   }
 
   /** A database answers `readIndex` in one query; there is no cheaper head to read first. */
@@ -350,9 +360,8 @@ export class PgStore implements LogStore {
       source.serial,
       mergeBoardChange(source),
       async (db) => {
-        for (const [hash, text] of plans) await db.query('INSERT INTO plan_snapshots (hash, text) VALUES ($1, $2) ON CONFLICT (hash) DO NOTHING', [hash, text]);
-        for (const [file, bytes] of captures)
-          await db.query('INSERT INTO captures (file, bytes) VALUES ($1, $2) ON CONFLICT (file) DO NOTHING', [file, Buffer.from(bytes)]);
+        for (const [hash, text] of plans) await putPlanSnapshot(db, hash, text);
+        for (const [file, bytes] of captures) await putCapture(db, file, bytes);
       },
       true,
     );
@@ -365,7 +374,7 @@ export class PgStore implements LogStore {
   async saveCapture(bytes: Uint8Array, name: string): Promise<{ file: string }> {
     if (this.#tooNew) throw new LogServerError(this.#tooNew);
     const file = `${sha256Hex(bytes)}.${captureExtension(name)}`;
-    await this.#read(() => this.#pool.query('INSERT INTO captures (file, bytes) VALUES ($1, $2) ON CONFLICT (file) DO NOTHING', [file, Buffer.from(bytes)]));
+    await this.#read(() => putCapture(this.#pool, file, bytes));
     return { file };
   }
 
