@@ -1,7 +1,7 @@
 import { LogInputError } from './errors.js';
 import { newId } from './ids.js';
 import type { BoardFile, CaptureRef, Reading, ReadingInput, Rework, Run, RunOutcome } from './types.js';
-import type { RunStart } from './validate-input.js';
+import { checkRunEnd, type RunStart } from './validate-input.js';
 
 /**
  * The changes a store makes to one board, as pure functions from the board as
@@ -75,7 +75,7 @@ export const startRunChange =
 export const endRunChange =
   (serial: string, runId: string, outcome: RunOutcome) =>
   (board: BoardFile): BoardChange<Run> => {
-    if (outcome === 'in-progress') throw new LogInputError('a run cannot end as in-progress; use passed, failed, aborted or power-off');
+    checkRunEnd(outcome);
     const run = board.runs.find((r) => r.id === runId);
     if (!run) throw new LogInputError(`board ${serial} has no run ${runId}`);
     if (run.ended !== null) {

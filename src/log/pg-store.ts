@@ -18,7 +18,6 @@ import { LogInputError } from './errors.js';
 import { indexSchemaVersion } from './index-store.js';
 import { ensureSchema, pgSchemaVersion } from './pg-schema.js';
 import { LogServerError, serverError } from './pg-errors.js';
-import { validateSerial } from './serial.js';
 import type { LogStore } from './store.js';
 import { summarizeBoard } from './summary.js';
 import {
@@ -36,14 +35,9 @@ import {
   type RunOutcome,
 } from './types.js';
 import type { Verdict } from '../analysis/types.js';
-import { checkReadingInput, checkRunStart, type RunStart } from './validate-input.js';
+import { checkReadingInput, checkRunEnd, checkRunStart, checkSerial, type RunStart } from './validate-input.js';
 
 type Db = pg.ClientBase | pg.Pool;
-
-function checkSerial(serial: string): void {
-  const problem = validateSerial(serial);
-  if (problem) throw new LogInputError(problem);
-}
 
 type CheckRow = [string, string, number, Verdict, string, number, Verdict, string, number];
 type BoardRow = [string, string | null, string | null, BoardState, string | null, number, number, number];
@@ -165,6 +159,16 @@ async function writeDelta(db: Db, prev: BoardFile, next: BoardFile): Promise<voi
   }
 }
 
+/** Keep a plan snapshot by its hash (kept once: the hash names the text). */
+async function putPlanSnapshot(db: Db, hash: string, text: string): Promise<void> {
+  await db.query('INSERT INTO plan_snapshots (hash, text) VALUES ($1, $2) ON CONFLICT (hash) DO NOTHING', [hash, text]);
+}
+
+/** Keep a capture's bytes under its content name (kept once). */
+async function putCapture(db: Db, file: string, bytes: Uint8Array): Promise<void> {
+  await db.query('INSERT INTO captures (file, bytes) VALUES ($1, $2) ON CONFLICT (file) DO NOTHING', [file, Buffer.from(bytes)]);
+}
+
 /** Keep the review summary of the board in step, in the same transaction. */
 async function writeSummary(db: Db, board: BoardFile, touched: readonly string[] | 'all'): Promise<void> {
   const s = summarizeBoard(board);
@@ -262,7 +266,7 @@ export class PgStore implements LogStore {
   }
 
   async #savePlan(db: pg.ClientBase, start: RunStart): Promise<void> {
-    await db.query('INSERT INTO plan_snapshots (hash, text) VALUES ($1, $2) ON CONFLICT (hash) DO NOTHING', [start.planHash, start.planText]);
+    await putPlanSnapshot(db, start.planHash, start.planText);
   }
 
   /** A database answers `readIndex` in one query; there is no cheaper head to read first. */
@@ -318,12 +322,11 @@ export class PgStore implements LogStore {
 
   async startRun(serial: string, start: RunStart): Promise<Run> {
     checkRunStart(start);
-    if (sha256Hex(start.planText) !== start.planHash) throw new LogInputError(`plan ${start.plan}: planHash is not the sha256 of planText`);
     return this.#update(serial, startRunChange(start), (db) => this.#savePlan(db, start));
   }
 
   async endRun(serial: string, runId: string, outcome: RunOutcome): Promise<Run> {
-    if (outcome === 'in-progress') throw new LogInputError('a run cannot end as in-progress; use passed, failed, aborted or power-off');
+    checkRunEnd(outcome);
     return this.#update(serial, endRunChange(serial, runId, outcome));
   }
 
@@ -342,7 +345,6 @@ export class PgStore implements LogStore {
     warningsFor?: (board: BoardFile, run: Run) => readonly string[],
   ): Promise<AppendResult> {
     checkRunStart(start);
-    if (sha256Hex(start.planText) !== start.planHash) throw new LogInputError(`plan ${start.plan}: planHash is not the sha256 of planText`);
     checkReadingInput({ ...input, run: 'pending' });
     return this.#update(serial, appendToOpenRunChange(start, input, warningsFor), (db) => this.#savePlan(db, start));
   }
@@ -358,9 +360,8 @@ export class PgStore implements LogStore {
       source.serial,
       mergeBoardChange(source),
       async (db) => {
-        for (const [hash, text] of plans) await db.query('INSERT INTO plan_snapshots (hash, text) VALUES ($1, $2) ON CONFLICT (hash) DO NOTHING', [hash, text]);
-        for (const [file, bytes] of captures)
-          await db.query('INSERT INTO captures (file, bytes) VALUES ($1, $2) ON CONFLICT (file) DO NOTHING', [file, Buffer.from(bytes)]);
+        for (const [hash, text] of plans) await putPlanSnapshot(db, hash, text);
+        for (const [file, bytes] of captures) await putCapture(db, file, bytes);
       },
       true,
     );
@@ -373,7 +374,7 @@ export class PgStore implements LogStore {
   async saveCapture(bytes: Uint8Array, name: string): Promise<{ file: string }> {
     if (this.#tooNew) throw new LogServerError(this.#tooNew);
     const file = `${sha256Hex(bytes)}.${captureExtension(name)}`;
-    await this.#read(() => this.#pool.query('INSERT INTO captures (file, bytes) VALUES ($1, $2) ON CONFLICT (file) DO NOTHING', [file, Buffer.from(bytes)]));
+    await this.#read(() => putCapture(this.#pool, file, bytes));
     return { file };
   }
 

@@ -3,7 +3,7 @@ import { readdir, readFile } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { Low } from 'lowdb';
 import { BoardFileAdapter } from './board-file-adapter.js';
-import { captureExtension, ContentStore, sha256Hex } from './content-store.js';
+import { captureExtension, ContentStore } from './content-store.js';
 import { errorCode, ioFailure, LogInputError, LogMissingError } from './errors.js';
 import { ensureFolder } from './folder.js';
 import { withFileLock } from './file-lock.js';
@@ -36,7 +36,7 @@ import {
   type Run,
   type RunOutcome,
 } from './types.js';
-import { checkReadingInput, checkRunStart, type RunStart } from './validate-input.js';
+import { checkReadingInput, checkRunEnd, checkRunStart, checkSerial, type RunStart } from './validate-input.js';
 
 export type { AppendResult } from './board-changes.js';
 
@@ -79,11 +79,6 @@ export interface LogStore extends BenchLog {
 
 export function emptyBoard(serial: string): BoardFile {
   return emptyBoardOf(serial, boardSchemaVersion);
-}
-
-function checkSerial(serial: string): void {
-  const problem = validateSerial(serial);
-  if (problem) throw new LogInputError(problem);
 }
 
 class Store implements LogStore {
@@ -162,7 +157,6 @@ class Store implements LogStore {
 
   #savePlan(start: RunStart): void {
     checkRunStart(start);
-    if (sha256Hex(start.planText) !== start.planHash) throw new LogInputError(`plan ${start.plan}: planHash is not the sha256 of planText`);
     try {
       this.#plans.put(start.planText, 'json', start.planHash);
     } catch (error) {
@@ -180,7 +174,7 @@ class Store implements LogStore {
   }
 
   async endRun(serial: string, runId: string, outcome: RunOutcome): Promise<Run> {
-    if (outcome === 'in-progress') throw new LogInputError('a run cannot end as in-progress; use passed, failed, aborted or power-off');
+    checkRunEnd(outcome);
     return this.#update(serial, endRunChange(serial, runId, outcome));
   }
 

@@ -1,5 +1,5 @@
 import { expect, test, vi } from 'vitest';
-import { bringUpSuite } from './bring-up-harness.js';
+import { bringUpSuite, powerUp } from './bring-up-harness.js';
 import { keys } from './keys.js';
 
 // Counts the trace drawings: a keystroke in the reading line must not draw the chart again.
@@ -20,20 +20,7 @@ const suite = bringUpSuite();
 test('typing a reading does not draw the expected trace again; moving to another check does', async () => {
   const { open } = await suite.setup();
   const s = await open();
-  await s.until('Cautions before first power');
-  await s.press(keys.enter);
-  await s.until('rails.+9V.to-ground ›');
-  for (const [value, next] of [
-    ['OL', 'rails.-9V.to-ground'],
-    ['22k', 'rails.idle-current'],
-    ['12m', 'rails.+9V.dc'],
-    ['9.02', 'rails.-9V.dc'],
-    ['-8.97', 'osc.freq'],
-  ] as const) {
-    await s.read(value);
-    await s.press(keys.enter);
-    await s.until(`${next} ›`);
-  }
+  await powerUp(s);
   const atCheck = drawn.count;
   expect(atCheck).toBeGreaterThan(0);
   await s.type('2.49k');

@@ -1,6 +1,6 @@
 import { describe, expect, test } from 'vitest';
 import type { Target } from '../../src/analysis/types.js';
-import { bringUpSuite } from './bring-up-harness.js';
+import { bringUpSuite, powerUp } from './bring-up-harness.js';
 import { keys } from './keys.js';
 
 const suite = bringUpSuite();
@@ -14,20 +14,7 @@ describe('bring-up screen: diagnosis after a fail', () => {
   test('the likely faults are listed, the next check is the one that separates them, and Enter takes it', async () => {
     const { open } = await suite.setup();
     const s = await open({ width: 110, height: 40 });
-    await s.until('Cautions before first power');
-    await s.press(keys.enter);
-    await s.until('rails.+9V.to-ground ›');
-    for (const [value, next] of [
-      ['OL', 'rails.-9V.to-ground'],
-      ['22k', 'rails.idle-current'],
-      ['12m', 'rails.+9V.dc'],
-      ['9.02', 'rails.-9V.dc'],
-      ['-8.97', 'osc.freq'],
-    ] as const) {
-      await s.read(value);
-      await s.press(keys.enter);
-      await s.until(`${next} ›`);
-    }
+    await powerUp(s);
     // 30 % fast: a wrong timing part or a wrong hysteresis resistor; the frequency alone cannot tell which.
     await s.read(`${target('osc.freq').nominal * 1.3}`);
     const shown = await s.until('✗ FAIL');

@@ -76,6 +76,24 @@ export async function renderBringUp(fixture: { plan: Plan; targets: TargetSet },
   return { ...ui, frame, until, press, type, read, board, exits, dirty, serial };
 }
 
+/** Acknowledge the cautions, then make the safety checks and rail readings pass: the screen stops at `osc.freq`. */
+export async function powerUp(s: Pick<Awaited<ReturnType<typeof renderBringUp>>, 'until' | 'press' | 'read'>): Promise<void> {
+  await s.until('Cautions before first power');
+  await s.press(keys.enter);
+  await s.until('rails.+9V.to-ground ›');
+  for (const [value, next] of [
+    ['OL', 'rails.-9V.to-ground'],
+    ['22k', 'rails.idle-current'],
+    ['12m', 'rails.+9V.dc'],
+    ['9.02', 'rails.-9V.dc'],
+    ['-8.97', 'osc.freq'],
+  ] as const) {
+    await s.read(value);
+    await s.press(keys.enter);
+    await s.until(`${next} ›`);
+  }
+}
+
 export async function tempLog(): Promise<{ log: BenchLog; dir: string; cleanup: () => Promise<void> }> {
   const dir = await mkdtemp(join(tmpdir(), 'probebook-bringup-'));
   return { log: await openLog(dir), dir, cleanup: () => rm(dir, { recursive: true, force: true }) };

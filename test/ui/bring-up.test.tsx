@@ -1,6 +1,6 @@
 import { describe, expect, test } from 'vitest';
 import type { Target } from '../../src/analysis/types.js';
-import { boardJson, bringUpSuite, renderBringUp, type ScreenOptions } from './bring-up-harness.js';
+import { boardJson, bringUpSuite, powerUp, renderBringUp, type ScreenOptions } from './bring-up-harness.js';
 import { keys } from './keys.js';
 
 const suite = bringUpSuite();
@@ -14,24 +14,6 @@ async function setup(options: ScreenOptions = {}) {
   const { tmp, open } = await suite.setup(options);
   const screen = await open();
   return { ...screen, dir: tmp.dir, log: tmp.log };
-}
-
-/** Acknowledge the cautions, then make the safety checks and rail readings pass. */
-async function powerUp(s: Awaited<ReturnType<typeof setup>>) {
-  await s.until('Cautions before first power');
-  await s.press(keys.enter);
-  await s.until('rails.+9V.to-ground ›');
-  for (const [value, next] of [
-    ['OL', 'rails.-9V.to-ground'],
-    ['22k', 'rails.idle-current'],
-    ['12m', 'rails.+9V.dc'],
-    ['9.02', 'rails.-9V.dc'],
-    ['-8.97', 'osc.freq'],
-  ] as const) {
-    await s.read(value);
-    await s.press(keys.enter);
-    await s.until(`${next} ›`);
-  }
 }
 
 describe('bring-up screen', () => {

@@ -19,8 +19,9 @@ const drawFirst = () => new Promise((resolve) => setTimeout(resolve, 60));
 export function catalogBandSource(log: Pick<BenchLog, 'readPlanSnapshot'>, catalog: PlanCatalog, onProgress: TargetsProgress): BandSource {
   return createBandSource({
     readSnapshot: (hash) => log.readPlanSnapshot(hash),
-    targetsOf: async (_text, hash) => {
-      const plan = await catalog.byHash(hash);
+    // The band source has read the snapshot already: the catalog loads that text rather than reading it again.
+    targetsOf: async (text, hash) => {
+      const plan = catalog.fromSnapshot(hash, text);
       if (!plan) throw new Error(catalog.broken.get(hash) ?? 'the log no longer holds it');
       if (catalog.hasTargets(plan)) return catalog.targets(plan);
       onProgress(plan.plan, 0, 1);

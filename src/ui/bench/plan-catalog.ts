@@ -92,7 +92,14 @@ export class PlanCatalog {
     if (known) return known;
     if (this.broken.has(hash)) return null;
     const text = await this.log.readPlanSnapshot(hash);
-    if (text === null) return null;
+    return text === null ? null : this.fromSnapshot(hash, text);
+  }
+
+  /** A plan by its hash, given the snapshot's text already read: loaded once, as `byHash` loads it; null when it does not load. */
+  fromSnapshot(hash: string, text: string): Plan | null {
+    const known = this.plans.get(hash);
+    if (known) return known;
+    if (this.broken.has(hash)) return null;
     try {
       const plan = loadPlanText(text, `log snapshot ${hash.slice(0, 8)}`);
       this.plans.set(hash, plan);

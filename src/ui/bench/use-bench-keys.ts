@@ -1,5 +1,5 @@
 import { type Key, useInput } from 'ink';
-import { useRef } from 'react';
+import { useState } from 'react';
 import { keysWithRest } from '../components/key-chunks.js';
 import { plainKey, TypeAhead } from '../components/type-ahead.js';
 import type { BenchMode, BenchState } from './use-bench-state.js';
@@ -13,7 +13,8 @@ import type { BenchMode, BenchState } from './use-bench-state.js';
 export function useBenchKeys(state: BenchState, pageSize: number, isActive: boolean, onTypingChange?: (isTyping: boolean) => void) {
   const { mode } = state;
   const isTyping = mode.kind === 'new-serial' || mode.kind === 'filter' || mode.kind === 'busy';
-  const typeAhead = useRef(new TypeAhead()).current;
+  // Made once (a `useRef(new TypeAhead())` would build one per render and drop it).
+  const [typeAhead] = useState(() => new TypeAhead());
   useInput(
     (chunk, key) => {
       // A field is opening but not yet on screen: this chunk is typed into it.

@@ -24,10 +24,12 @@ export function keysWithRest(input: string, key: Key): readonly { readonly input
   const chars = [...input];
   if (chars.length <= 1 || key.ctrl || key.meta || /^[\u0000-\u001F\u007F]/.test(input)) return [{ input, rest: '' }];
   const out: { input: string; rest: string }[] = [];
-  for (let i = 0; i < chars.length; i++) {
-    const ch = chars[i] ?? '';
+  // The rest is cut from the input at the key's end (in UTF-16 units: a key may be a surrogate pair), not joined again per key.
+  let end = 0;
+  for (const ch of chars) {
     if (/[\u0000-\u001F\u007F]/.test(ch)) break;
-    out.push({ input: ch, rest: chars.slice(i + 1).join('') });
+    end += ch.length;
+    out.push({ input: ch, rest: input.slice(end) });
   }
   return out;
 }
